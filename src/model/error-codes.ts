@@ -1,0 +1,38 @@
+// The one table of stable error codes: each code's class, and the hint shown to a user.
+// Add a code by adding a row; codes are part of the public interface and never change meaning.
+
+export const ERROR_CODES = {
+  // Input files (class InputRejected: never retried, the file goes to quarantine)
+  EMPTY_FILE: { kind: 'input', hint: 'The file has no content; check that the export finished writing.' },
+  BINARY_CONTENT: { kind: 'input', hint: 'The file holds binary bytes; export as text (CSV, TSV, JCAMP-DX or driftlight JSON).' },
+  TRUNCATED: { kind: 'input', hint: 'The file ends early; re-export it or wait for the instrument to finish writing.' },
+  NON_NUMERIC: { kind: 'input', hint: 'A numeric column holds text; check the decimal mark and the column separator.' },
+  NON_FINITE: { kind: 'input', hint: 'Values must be finite numbers; remove NaN or Infinity (often detector overflow).' },
+  NEGATIVE_COUNTS: { kind: 'input', hint: 'Photon counts cannot be negative; export raw counts, not background-subtracted data.' },
+  AXIS_NOT_ASCENDING: { kind: 'input', hint: 'The axis must be monotonic (ascending or descending) without reversals.' },
+  AXIS_DUPLICATE: { kind: 'input', hint: 'The axis repeats a value; remove duplicated rows.' },
+  AXIS_NOT_UNIFORM: { kind: 'input', hint: 'A decay histogram needs equally spaced time channels.' },
+  LENGTH_MISMATCH: { kind: 'input', hint: 'All columns must have the same number of rows.' },
+  UNKNOWN_UNIT: { kind: 'input', hint: 'Name the axis unit in the column header, e.g. "wavelength (nm)" or "time (ns)".' },
+  FILE_TOO_LARGE: { kind: 'input', hint: 'Raise limits.maxFileBytes in the config if such large files are expected.' },
+  UNKNOWN_LAYOUT: { kind: 'input', hint: 'The layout was not recognised; see README "Input formats" for what is read.' },
+  NO_DATA: { kind: 'input', hint: 'No numeric data rows were found after the header.' },
+  TOO_FEW_POINTS: { kind: 'input', hint: 'There are too few data points for this kind of measurement.' },
+  MISSING_COLUMN: { kind: 'input', hint: 'A required column is absent; name it in the header or choose another column.' },
+  JCAMP_INVALID: { kind: 'input', hint: 'The JCAMP-DX file breaks the standard; check the ##XYDATA block and its factors.' },
+  JSON_INVALID: { kind: 'input', hint: 'The JSON does not match the driftlight data schema (schemas/data.schema.json).' },
+  METADATA_INVALID: { kind: 'input', hint: 'A metadata value could not be read; check its number format and unit.' },
+  INPUT_INVALID: { kind: 'input', hint: 'The input does not meet the requirements of this analysis; see the message.' },
+  // Configuration (class ConfigInvalid: fix the config, then restart)
+  CONFIG_INVALID: { kind: 'config', hint: 'Fix the named config path; `driftlight config check` validates a file.' },
+  // Transient (class Transient: retried with backoff)
+  TRANSIENT: { kind: 'transient', hint: 'A temporary failure; it will be retried automatically.' },
+  // Analysis could not produce a trustworthy result (class AnalysisFailed: not retried)
+  FIT_FAILED: { kind: 'analysis', hint: 'The fit did not converge; check the fit range, the IRF and the number of components.' },
+  OUT_OF_RANGE: { kind: 'analysis', hint: 'A value is outside the range where the method is valid; see the message.' },
+  // Internal (a bug: please report with the input file)
+  INTERNAL: { kind: 'internal', hint: 'This is a driftlight bug; report it with the input file.' },
+} as const;
+
+export type ErrorCode = keyof typeof ERROR_CODES;
+export type ErrorKind = (typeof ERROR_CODES)[ErrorCode]['kind'];
