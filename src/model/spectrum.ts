@@ -77,8 +77,8 @@ export interface SpectrumInput {
 
 /** Builds a Spectrum and enforces its invariants (≥ 2 points, finite values, strictly ascending nm axis, equal lengths); throws InputRejected. */
 export function createSpectrum(input: SpectrumInput): Spectrum {
-  const wavelengthNm = Float64Array.from(input.wavelengthNm);
-  const values = Float64Array.from(input.values);
+  const wavelengthNm = ownedArray(input.wavelengthNm);
+  const values = ownedArray(input.values);
   if (wavelengthNm.length < 2) {
     throw new InputRejected('TOO_FEW_POINTS', `a spectrum needs at least 2 points, got ${wavelengthNm.length}`);
   }
@@ -91,9 +91,9 @@ export function createSpectrum(input: SpectrumInput): Spectrum {
   assertAllFinite(wavelengthNm, 'wavelength axis');
   assertAllFinite(values, 'values');
   assertStrictlyAscending(wavelengthNm, 'wavelength axis');
-  const otherColumns: Record<string, Float64Array> = {};
+  const otherEntries: [string, Float64Array][] = [];
   for (const [name, column] of Object.entries(input.otherColumns ?? {})) {
-    const copy = Float64Array.from(column);
+    const copy = ownedArray(column);
     if (copy.length !== wavelengthNm.length) {
       throw new InputRejected(
         'LENGTH_MISMATCH',
@@ -101,8 +101,10 @@ export function createSpectrum(input: SpectrumInput): Spectrum {
       );
     }
     assertAllFinite(copy, `column "${name}"`);
-    otherColumns[name] = copy;
+    otherEntries.push([name, copy]);
   }
+  // Object.fromEntries defines own properties, so a column named "__proto__" stays a plain column.
+  const otherColumns: Record<string, Float64Array> = Object.fromEntries(otherEntries);
   return Object.freeze({
     kind: input.kind,
     wavelengthNm,
@@ -112,6 +114,15 @@ export function createSpectrum(input: SpectrumInput): Spectrum {
     otherColumns: Object.freeze(otherColumns),
     metadata: Object.freeze({ ...input.metadata, extra: Object.freeze({ ...(input.metadata?.extra ?? {}) }) }),
   });
+}
+
+/**
+ * A Float64Array passed in is taken over without a copy (readers hand over freshly parsed columns,
+ * which keeps peak memory near one copy of the data); callers must not mutate it afterwards.
+ * Any other array-like is copied.
+ */
+function ownedArray(values: ArrayLike<number>): Float64Array {
+  return values instanceof Float64Array ? values : Float64Array.from(values);
 }
 
 /** A copy of `spectrum` with new values (same axis), keeping metadata; used by corrections. */

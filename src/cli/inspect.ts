@@ -1,0 +1,145 @@
+// `driftlight inspect FILE...`: reads each file with the formats module and prints what was found
+// (kind, points, axis and value ranges, layout, metadata), as text or one JSON line per file.
+import { readFile, stat } from 'node:fs/promises';
+import { InvalidArgumentError, type Command } from 'commander';
+import type { CommandModule } from './command-module.js';
+import { EXIT_CODES, exitCodesHelp } from './exit-codes.js';
+import { reportError } from './report-error.js';
+import { InputRejected } from '../model/errors.js';
+import { DEFAULT_MAX_BYTES, readData, type ParsedData } from '../formats/index.js';
+
+interface InspectFlags {
+  readonly json?: boolean;
+  readonly maxBytes: number;
+}
+
+/** Summary of one parsed file, the --json line. */
+export interface InspectSummary {
+  readonly file: string;
+  readonly type: 'spectrum' | 'decay';
+  readonly kind: string;
+  readonly points: number;
+  readonly axis: { readonly unit: 'nm' | 'ns'; readonly min: number; readonly max: number };
+  readonly values: { readonly unit: string; readonly column: string; readonly min: number; readonly max: number };
+  readonly metadata: object;
+  readonly layout: ParsedData['layout'];
+}
+
+function range(values: ArrayLike<number>): { min: number; max: number } {
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < values.length; i++) {
+    const value = values[i] as number;
+    if (value < min) min = value;
+    if (value > max) max = value;
+  }
+  return { min, max };
+}
+
+/** Builds the summary of a parsed file (axis in nm or ns, value range, metadata, layout). */
+export function summarise(file: string, data: ParsedData): InspectSummary {
+  if (data.type === 'spectrum') {
+    const { spectrum } = data;
+    return {
+      file, type: 'spectrum', kind: spectrum.kind, points: spectrum.wavelengthNm.length,
+      axis: { unit: 'nm', ...range(spectrum.wavelengthNm) },
+      values: { unit: spectrum.valueUnit, column: spectrum.valueColumn, ...range(spectrum.values) },
+      metadata: spectrum.metadata, layout: data.layout,
+    };
+  }
+  const { decay } = data;
+  return {
+    file, type: 'decay', kind: 'decay', points: decay.timeNs.length,
+    axis: { unit: 'ns', ...range(decay.timeNs) },
+    values: { unit: 'counts', column: data.layout.valueColumn, ...range(decay.counts) },
+    metadata: { ...decay.metadata, channelWidthNs: decay.channelWidthNs, irfColumn: data.layout.irfColumn },
+    layout: data.layout,
+  };
+}
+
+/** The human-readable block for one file. */
+export function formatSummary(summary: InspectSummary): string {
+  const { layout } = summary;
+  const delimiter = layout.delimiter === null ? '' : `; delimiter ${layout.delimiter === '\t' ? 'tab' : layout.delimiter === 'whitespace' ? 'spaces' : `"${layout.delimiter}"`}`;
+  const metadata = Object.entries(summary.metadata as Record<string, unknown>)
+    .flatMap(([key, value]) => (key === 'extra' ? Object.entries(value as Record<string, string>).map(([k, v]) => `extra["${k}"]=${v}`) : [`${key}=${String(value)}`]));
+  const lines = [
+    summary.file,
+    `  kind        ${summary.type === 'decay' ? 'decay histogram' : `${summary.kind} spectrum`}`,
+    `  points      ${summary.points}`,
+    `  axis        ${summary.axis.min} … ${summary.axis.max} ${summary.axis.unit} (file column "${layout.axisColumn}"${layout.axisUnitFound === null ? '' : `, unit as found: ${layout.axisUnitFound}`})`,
+    `  values      ${summary.values.min} … ${summary.values.max} ${summary.values.unit} (column "${summary.values.column}")`,
+    `  layout      ${layout.format}${delimiter}; decimal "${layout.decimalMark}"; ${layout.headerLineCount} header line(s); ${layout.encoding}${layout.hasBom ? ' with BOM' : ''}; line ends ${layout.lineEnding}`,
+    `  columns     ${layout.columnNames.join(' | ')}${layout.ignoredColumns.length > 0 ? ` (not used: ${layout.ignoredColumns.join(', ')})` : ''}`,
+    ...(layout.jcamp === undefined ? [] : [`  jcamp-dx    version ${layout.jcamp.version}; ${layout.jcamp.table}; ${layout.jcamp.compression.join(', ')}`]),
+    ...layout.conversions.map((conversion, index) => `  ${index === 0 ? 'converted  ' : '           '} ${conversion.code}: ${conversion.detail}`),
+    `  metadata    ${metadata.length === 0 ? '(none)' : metadata.join('; ')}`,
+  ];
+  return `${lines.join('\n')}\n`;
+}
+
+/** Inspects each file in turn; returns the exit code (0 all read, 2 a file could not be opened, 3 one or more rejected, 1 internal). */
+export async function inspectFiles(files: readonly string[], flags: InspectFlags, stdout: NodeJS.WritableStream, stderr: NodeJS.WritableStream): Promise<number> {
+  let rejected = false;
+  let unreadable = false;
+  let internal = false;
+  for (const file of files) {
+    let content: Uint8Array;
+    try {
+      const info = await stat(file);
+      if (!info.isFile()) throw new Error('not a regular file');
+      if (info.size > flags.maxBytes) {
+        throw new InputRejected('FILE_TOO_LARGE', `the file has ${info.size} bytes, over the limit of ${flags.maxBytes} bytes`, { file });
+      }
+      content = await readFile(file);
+    } catch (error) {
+      if (error instanceof InputRejected) {
+        stderr.write(`${error.toUserLine()}\n  hint: ${error.hint}\n`);
+        rejected = true;
+      } else {
+        const reason = error instanceof Error ? error.message : String(error);
+        stderr.write(`${file}: cannot open: ${reason}\n  hint: check the path and the file permissions.\n`);
+        unreadable = true;
+      }
+      continue;
+    }
+    try {
+      const summary = summarise(file, readData(content, { fileName: file, maxBytes: flags.maxBytes }));
+      stdout.write(flags.json === true ? `${JSON.stringify(summary)}\n` : formatSummary(summary));
+    } catch (error) {
+      if (error instanceof InputRejected) {
+        stderr.write(`${error.toUserLine()}\n  hint: ${error.hint}\n`);
+        rejected = true;
+      } else {
+        reportError(error, stderr);
+        internal = true;
+      }
+    }
+  }
+  if (internal) return EXIT_CODES.internal.code;
+  if (unreadable) return EXIT_CODES.usage.code;
+  return rejected ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
+}
+
+function parseMaxBytes(text: string): number {
+  const value = Number(text);
+  if (!/^\d+$/.test(text.trim()) || !Number.isSafeInteger(value) || value <= 0) {
+    throw new InvalidArgumentError('expected a positive whole number of bytes');
+  }
+  return value;
+}
+
+export const inspectCommand: CommandModule = {
+  register(program: Command): void {
+    program
+      .command('inspect')
+      .description('Read data files (delimited text, JCAMP-DX, driftlight JSON) and show what driftlight finds: kind, points, axis and value ranges, layout and metadata.')
+      .argument('<files...>', 'data files to read')
+      .option('--json', 'print one JSON object per line per file instead of text')
+      .option('--max-bytes <n>', 'largest accepted file in bytes', parseMaxBytes, DEFAULT_MAX_BYTES)
+      .addHelpText('after', `\nRejected files are reported on stderr as FILE:LINE: CODE: message.\n${exitCodesHelp()}`)
+      .action(async (files: string[], flags: InspectFlags) => {
+        process.exitCode = await inspectFiles(files, flags, process.stdout, process.stderr);
+      });
+  },
+};

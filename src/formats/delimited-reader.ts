@@ -1,0 +1,40 @@
+// Reader for delimited text exports (comma, tab, semicolon or white space; decimal point or
+// comma; optional header block and column names): layout detection, then one byte pass.
+import type { RawTable } from './raw-table.js';
+import { detectDelimitedLayout } from './delimited-layout.js';
+import { scanDelimited } from './delimited-scan.js';
+import { bomLength, detectLineEnding } from './bytes.js';
+import { reject } from './reject.js';
+
+/** Reads delimited text into a RawTable; throws InputRejected (NO_DATA, NON_NUMERIC, NON_FINITE, LENGTH_MISMATCH, TRUNCATED, …) with file and line. */
+export function readDelimited(content: Uint8Array, file: string): RawTable {
+  const start = bomLength(content);
+  const layout = detectDelimitedLayout(content, start, file);
+  const scan = scanDelimited(content, layout, file);
+  if (scan.rowCount === 0) reject('NO_DATA', 'no data rows follow the header', file);
+  const names = layout.columnNames ?? Array.from({ length: layout.columnCount }, (_, index) => `column ${index + 1}`);
+  const seen = new Map<string, number>();
+  const uniqueNames = names.map((name, index) => {
+    const base = name === '' ? `column ${index + 1}` : name;
+    const count = seen.get(base) ?? 0;
+    seen.set(base, count + 1);
+    return count === 0 ? base : `${base} (${count + 1})`;
+  });
+  return {
+    columns: uniqueNames.map((name, index) => ({ name, values: scan.columns[index] as Float64Array })),
+    headerEntries: layout.headerEntries,
+    lineOfRow: scan.lineOfRow,
+    unitLine: layout.nameLine,
+    layout: {
+      format: 'delimited',
+      delimiter: layout.delimiter,
+      decimalMark: layout.decimalMark,
+      headerLineCount: layout.headerLineCount,
+      hasBom: start > 0,
+      lineEnding: detectLineEnding(content, start),
+      encoding: layout.encoding,
+    },
+    namedColumns: layout.columnNames !== null,
+  };
+}
+
