@@ -1,12 +1,12 @@
 // Turns any thrown value into the one-line user message and the exit code; no stack trace for users.
-import { DriftlightError, InputRejected } from '../model/errors.js';
+import { AnalysisFailed, DriftlightError, InputRejected } from '../model/errors.js';
 import { EXIT_CODES } from './exit-codes.js';
 
 /** Writes `FILE:LINE: CODE: message` (+ hint) to stderr and returns the exit code for the error. */
 export function reportError(error: unknown, stderr: NodeJS.WritableStream = process.stderr): number {
   if (error instanceof DriftlightError) {
     stderr.write(`${error.toUserLine()}\n  hint: ${error.hint}\n`);
-    if (error instanceof InputRejected) return EXIT_CODES.rejected.code;
+    if (error instanceof InputRejected || error instanceof AnalysisFailed) return EXIT_CODES.rejected.code;
     return error.code === 'CONFIG_INVALID' ? EXIT_CODES.usage.code : EXIT_CODES.internal.code;
   }
   const message = error instanceof Error ? error.message : String(error);

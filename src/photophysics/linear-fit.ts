@@ -1,0 +1,109 @@
+// Least-squares lines through the origin (ordinary or weighted), a quadratic-through-origin curvature test
+// and the residual sign-run count; used by the gradient yield method and Stern–Volmer analysis.
+import { InputRejected } from '../model/errors.js';
+
+export interface OriginLineFit {
+  readonly slope: number;
+  /** Standard error of the slope from the residual scatter: √(Σw r²/(n−1) / Σw x²). */
+  readonly slopeStandardError: number;
+  /** Coefficient of determination about the (weighted) mean of y: 1 − SS_res/SS_tot (stricter than the uncentred form). */
+  readonly rSquared: number;
+  readonly residuals: readonly number[];
+  /** Number of runs of equal residual signs (few runs = systematic curvature; Wald–Wolfowitz). */
+  readonly residualSignRuns: number;
+  /** Quadratic term relative to the linear one at the largest x, b2·x_max/b1 of y = b1 x + b2 x²; < 0 means saturation. */
+  readonly relativeCurvature: number | undefined;
+  /** t statistic of b2 (b2 / se(b2)); |t| > 3 marks significant curvature. */
+  readonly curvatureTStatistic: number | undefined;
+  readonly pointCount: number;
+}
+
+function checkSeries(x: readonly number[], y: readonly number[], what: string): void {
+  if (x.length !== y.length) throw new InputRejected('LENGTH_MISMATCH', `${what}: ${x.length} x values but ${y.length} y values`);
+  if (x.length < 2) throw new InputRejected('TOO_FEW_POINTS', `${what}: a line through the origin needs at least 2 points, got ${x.length}`);
+  for (const value of [...x, ...y]) if (!Number.isFinite(value)) throw new InputRejected('NON_FINITE', `${what}: a value is not finite (${value})`);
+}
+
+/** Count of runs of equal signs in a sequence (zeros join the previous run). */
+export function signRuns(values: readonly number[]): number {
+  let runs = 0;
+  let previous = 0;
+  for (const value of values) {
+    const sign = Math.sign(value);
+    if (sign !== 0 && sign !== previous) {
+      runs++;
+      previous = sign;
+    }
+  }
+  return runs;
+}
+
+/** y = b1·x + b2·x² by least squares (2×2 normal equations); b2 and its standard error, or undefined with < 3 points. */
+export function quadraticThroughOrigin(x: readonly number[], y: readonly number[], weights?: readonly number[]): { b1: number; b2: number; b2StandardError: number } | undefined {
+  const n = x.length;
+  if (n < 3) return undefined;
+  let s2 = 0, s3 = 0, s4 = 0, t1 = 0, t2 = 0;
+  for (let i = 0; i < n; i++) {
+    const w = weights?.[i] ?? 1;
+    const xi = x[i] as number;
+    const yi = y[i] as number;
+    s2 += w * xi * xi;
+    s3 += w * xi * xi * xi;
+    s4 += w * xi * xi * xi * xi;
+    t1 += w * xi * yi;
+    t2 += w * xi * xi * yi;
+  }
+  const determinant = s2 * s4 - s3 * s3;
+  if (!(Math.abs(determinant) > 1e-300)) return undefined;
+  const b1 = (t1 * s4 - t2 * s3) / determinant;
+  const b2 = (s2 * t2 - s3 * t1) / determinant;
+  let ssResidual = 0;
+  for (let i = 0; i < n; i++) {
+    const xi = x[i] as number;
+    const r = (y[i] as number) - b1 * xi - b2 * xi * xi;
+    ssResidual += (weights?.[i] ?? 1) * r * r;
+  }
+  const variance = ssResidual / (n - 2);
+  return { b1, b2, b2StandardError: Math.sqrt((variance * s2) / determinant) };
+}
+
+/** Weighted (or ordinary, weights = 1) least-squares slope through the origin, y = b·x, with standard error, R², residual runs and curvature; O(n). */
+export function fitThroughOrigin(x: readonly number[], y: readonly number[], weights?: readonly number[], what = 'series'): OriginLineFit {
+  checkSeries(x, y, what);
+  const n = x.length;
+  let sxx = 0, sxy = 0, sw = 0, swy = 0;
+  for (let i = 0; i < n; i++) {
+    const w = weights?.[i] ?? 1;
+    if (!(w > 0)) throw new InputRejected('INPUT_INVALID', `${what}: weight ${i + 1} is ${w}; weights must be positive`);
+    const xi = x[i] as number;
+    const yi = y[i] as number;
+    sxx += w * xi * xi;
+    sxy += w * xi * yi;
+    sw += w;
+    swy += w * yi;
+  }
+  if (!(sxx > 0)) throw new InputRejected('INPUT_INVALID', `${what}: all x values are zero; the slope is undefined`);
+  const slope = sxy / sxx;
+  const residuals = x.map((xi, i) => (y[i] as number) - slope * xi);
+  const meanY = swy / sw;
+  let ssResidual = 0, ssTotal = 0;
+  for (let i = 0; i < n; i++) {
+    const w = weights?.[i] ?? 1;
+    ssResidual += w * (residuals[i] as number) ** 2;
+    ssTotal += w * ((y[i] as number) - meanY) ** 2;
+  }
+  const quadratic = quadraticThroughOrigin(x, y, weights);
+  const xMax = Math.max(...x.map(Math.abs));
+  return Object.freeze({
+    slope,
+    slopeStandardError: n > 1 ? Math.sqrt(ssResidual / (n - 1) / sxx) : 0,
+    rSquared: ssTotal > 0 ? 1 - ssResidual / ssTotal : 1,
+    residuals: Object.freeze(residuals),
+    // Residuals at rounding level (exact data) carry no sign information.
+    residualSignRuns: signRuns(residuals.map((r) => (Math.abs(r) <= 1e-12 * Math.max(...y.map(Math.abs)) ? 0 : r))),
+    relativeCurvature: quadratic === undefined || quadratic.b1 === 0 ? undefined : (quadratic.b2 * xMax) / quadratic.b1,
+    curvatureTStatistic:
+      quadratic === undefined || !(quadratic.b2StandardError > 0) ? undefined : quadratic.b2 / quadratic.b2StandardError,
+    pointCount: n,
+  });
+}

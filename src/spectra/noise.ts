@@ -1,0 +1,35 @@
+// Noise estimate of a spectrum from local second differences, robust to a few spikes (median absolute deviation).
+
+/** Sorted-copy median of a list (O(n log n)); NaN only for an empty list, which callers exclude. */
+export function median(values: readonly number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const middle = sorted.length >> 1;
+  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
+}
+
+/**
+ * Standard deviation of white noise on the values (value units), from second differences on a non-uniform axis:
+ * r_i = y_i − [w·y_{i−1} + (1−w)·y_{i+1}] has variance σ²(1 + w² + (1−w)²) (= 1.5σ² on a uniform axis, i.e. var of the
+ * second difference = 6σ²); σ = 1.4826·MAD(r/√(1+w²+(1−w)²)). A smooth band adds only its curvature h²·y''/2, small
+ * when the band is sampled with ≥ 5 points per FWHM. Method: common practice (second-difference noise estimators,
+ * e.g. von Neumann's mean square successive difference generalised to second order). Points from..to are indices.
+ */
+export function noiseFromSecondDifferences(
+  axis: ArrayLike<number>,
+  values: ArrayLike<number>,
+  fromIndex = 0,
+  toIndex = values.length - 1,
+): number | undefined {
+  const scaled: number[] = [];
+  for (let i = Math.max(1, fromIndex + 1); i <= Math.min(values.length - 2, toIndex - 1); i++) {
+    const x0 = axis[i - 1] as number;
+    const x1 = axis[i] as number;
+    const x2 = axis[i + 1] as number;
+    const w = (x2 - x1) / (x2 - x0);
+    const predicted = w * (values[i - 1] as number) + (1 - w) * (values[i + 1] as number);
+    scaled.push(((values[i] as number) - predicted) / Math.sqrt(1 + w * w + (1 - w) * (1 - w)));
+  }
+  if (scaled.length < 3) return undefined;
+  const center = median(scaled);
+  return 1.482602218505602 * median(scaled.map((r) => Math.abs(r - center)));
+}
