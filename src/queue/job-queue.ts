@@ -8,6 +8,9 @@
 // same result on any backend. A processor signals "do not retry" by throwing an error whose
 // `permanent` property is true or whose `code` is an InputRejected/AnalysisFailed/Config code
 // (see isPermanentError in src/model/errors.ts); anything else is retried with backoff.
+// Payloads and results must be plain JSON data (objects, arrays, strings, finite numbers, booleans,
+// null): the BullMQ backend stores them as JSON, so a typed array or Map would arrive changed.
+// Backends and their extra options: src/queue/options.ts; deployment: docs/deployment.md.
 
 /** A failure as it crosses a process or thread boundary: plain data only. */
 export interface JobFailure {
@@ -22,6 +25,8 @@ export type JobOutcome<Result> =
   | { readonly id: string; readonly status: 'completed'; readonly value: Result; readonly attempts: number }
   | { readonly id: string; readonly status: 'failed'; readonly failure: JobFailure; readonly attempts: number };
 
+/** Counts: waiting includes jobs waiting for a retry; completed/failed count finished jobs (in-process:
+ * in this object's lifetime; BullMQ: delivered by this object plus those in Redis not yet delivered). */
 export interface JobQueueStats {
   readonly waiting: number;
   readonly active: number;
