@@ -1,0 +1,236 @@
+// `driftlight rules check FILE` (validate and print a rule set), `driftlight rules simulate`
+// (replay stored results in acquisition order and list the alerts that would have fired) and
+// `driftlight rules rebaseline CONTROL --from DATE` (start a new baseline in the ledger).
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Command } from 'commander';
+import type { AnalysisResult } from '../analysis/result.js';
+import { RESULT_SCHEMA } from '../analysis/result.js';
+import { ConfigInvalid } from '../model/errors.js';
+import { loadRuleSetFile, withConfigControls } from '../pipeline/qc-stage.js';
+import {
+  establishBaseline,
+  localParts,
+  metricLabel,
+  observationFromResult,
+  parseClockTime,
+  parseIsoToEpochMs,
+  replayObservations,
+  ruleKindOf,
+  sortByAcquisition,
+  zonedTimeToEpochMs,
+  INSTRUMENT_SCOPE,
+  type BaselineRecord,
+  type ControlObservation,
+  type MetricName,
+  type QcFlag,
+  type RuleSet,
+} from '../qc/index.js';
+import { openLedger } from '../store/ledger.js';
+import { baselineRecords, observationHistory, saveBaseline } from '../store/qc-store.js';
+import type { CommandModule } from './command-module.js';
+import { configFromOptions, withConfigOption } from './config-option.js';
+
+/** The rule set as text: header, controls, then one line per rule. */
+export function formatRuleSet(ruleSet: RuleSet, source: string): string {
+  const lines = [`${source}: valid rule set${ruleSet.name === undefined ? '' : ` "${ruleSet.name}"`} (time zone ${ruleSet.timeZone})`, '', 'controls:'];
+  for (const control of ruleSet.controls) {
+    const match = Object.entries(control.match).map(([key, value]) => `${key} ${String(value)}`).join(', ');
+    const targets = Object.entries(control.targets).map(([metric, target]) => `${metric} ${target.mean} ± ${target.sd}`);
+    lines.push(`  ${control.id}  match: ${match}`);
+    lines.push(`    ${targets.length === 0 ? '' : `targets: ${targets.join('; ')}; `}other metrics: baseline from the first ${control.baselineRuns} runs`);
+  }
+  lines.push('', 'rules:');
+  for (const rule of ruleSet.rules) {
+    const scope = rule.scope === INSTRUMENT_SCOPE ? 'instrument' : rule.scope.control;
+    lines.push(`  ${rule.id.padEnd(20)} ${rule.severity.padEnd(8)} ${rule.metric} @ ${scope}: ${ruleKindOf(rule).describe(rule)}`);
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+/** Every *.json file under `dir` (recursively), sorted by path. */
+function jsonFilesUnder(dir: string): string[] {
+  const found: string[] = [];
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const path = join(dir, entry.name);
+    if (entry.isDirectory()) found.push(...jsonFilesUnder(path));
+    else if (entry.isFile() && entry.name.endsWith('.json')) found.push(path);
+  }
+  return found.sort();
+}
+
+/** Observations of the stored results under `resultsDir` (unreadable or foreign JSON skipped with a note on stderr). */
+export function observationsFromResultsDir(resultsDir: string, ruleSet: RuleSet): ControlObservation[] {
+  if (!statSync(resultsDir, { throwIfNoEntry: false })?.isDirectory()) {
+    throw new ConfigInvalid(`results folder not found: ${resultsDir}`, { hint: 'Pass the folder the pipeline writes results/YYYY-MM-DD/*.json into.' });
+  }
+  const observations: ControlObservation[] = [];
+  for (const file of jsonFilesUnder(resultsDir)) {
+    let parsed: unknown;
+    try {
+      parsed = JSON.parse(readFileSync(file, 'utf8'));
+    } catch {
+      process.stderr.write(`${file}: skipped (not valid JSON)\n`);
+      continue;
+    }
+    if (typeof parsed !== 'object' || parsed === null || (parsed as { schema?: unknown }).schema !== RESULT_SCHEMA) continue;
+    const observation = observationFromResult(parsed as AnalysisResult, ruleSet.controls);
+    if (observation === undefined) continue;
+    if (parseIsoToEpochMs(observation.acquiredAt) === undefined) {
+      process.stderr.write(`${file}: skipped (acquiredAt "${observation.acquiredAt}" is not an ISO date-time)\n`);
+      continue;
+    }
+    observations.push(observation);
+  }
+  return sortByAcquisition(observations);
+}
+
+/** Clock instants for time rules: each local day of the history, one minute after each rule's due time. */
+function clockTicks(observations: readonly ControlObservation[], ruleSet: RuleSet): number[] {
+  const first = observations[0];
+  const last = observations[observations.length - 1];
+  if (first === undefined || last === undefined) return [];
+  const ticks = new Set<number>();
+  for (const rule of ruleSet.rules) {
+    if (rule.kind !== 'control-missing') continue;
+    const zone = rule.timeZone ?? ruleSet.timeZone;
+    const dueMinute = (parseClockTime(rule.dueBy) ?? 0) + 1;
+    const startMs = parseIsoToEpochMs(first.acquiredAt) ?? 0;
+    const endMs = parseIsoToEpochMs(last.acquiredAt) ?? 0;
+    for (let dayMs = startMs; dayMs <= endMs + 86_400_000; dayMs += 86_400_000) {
+      const tick = zonedTimeToEpochMs(localParts(dayMs, zone).date, dueMinute, zone);
+      if (tick >= startMs && tick <= endMs + 86_400_000) ticks.add(tick);
+    }
+  }
+  return [...ticks].sort((a, b) => a - b);
+}
+
+interface SimulatedAlert {
+  readonly at: string;
+  readonly type: 'flag' | 'recovery';
+  readonly severity: string;
+  readonly ruleId: string;
+  readonly check: string;
+  readonly controlId: string;
+  readonly metric: string;
+  readonly setId: string;
+  readonly message: string;
+}
+
+/** Replays observations and lists flags and recoveries in time order. */
+export function simulateAlerts(observations: readonly ControlObservation[], ruleSet: RuleSet, baselines: readonly BaselineRecord[] = []): SimulatedAlert[] {
+  const outcome = replayObservations(observations, ruleSet, { baselines, clockTicksEpochMs: clockTicks(observations, ruleSet) });
+  const fromFlag = (flag: QcFlag): SimulatedAlert => ({
+    at: flag.acquiredAt, type: 'flag', severity: flag.severity, ruleId: flag.ruleId, check: flag.check,
+    controlId: flag.controlId, metric: flag.metric, setId: flag.setId, message: flag.message,
+  });
+  const alerts: SimulatedAlert[] = [];
+  for (const step of outcome.steps) {
+    alerts.push(...step.flags.map(fromFlag));
+    alerts.push(...step.recoveries.map((notice) => ({
+      at: notice.acquiredAt, type: 'recovery' as const, severity: 'info', ruleId: notice.ruleId, check: '',
+      controlId: notice.controlId, metric: notice.metric, setId: step.observation.setId, message: notice.message,
+    })));
+  }
+  const seenClock = new Set<string>();
+  for (const flag of outcome.clockFlags) {
+    if (seenClock.has(flag.message)) continue;
+    seenClock.add(flag.message);
+    alerts.push(fromFlag(flag));
+  }
+  return alerts.sort((a, b) => (parseIsoToEpochMs(a.at) ?? 0) - (parseIsoToEpochMs(b.at) ?? 0));
+}
+
+/** One text line per simulated alert. */
+function formatAlertLine(alert: SimulatedAlert): string {
+  const tag = alert.type === 'recovery' ? 'RECOVERED' : alert.severity.toUpperCase();
+  return `${alert.at}  ${tag.padEnd(9)} ${alert.ruleId}${alert.check === '' ? '' : ` ${alert.check}`}  ${alert.controlId}  ${alert.message}`;
+}
+
+/** The metrics a control's baseline concerns: those its chart rules watch. */
+function chartMetrics(ruleSet: RuleSet, controlId: string): MetricName[] {
+  const metrics = new Set<MetricName>();
+  for (const rule of ruleSet.rules) {
+    if (rule.scope !== INSTRUMENT_SCOPE && rule.scope.control === controlId && ruleKindOf(rule).needsBaseline) metrics.add(rule.metric);
+  }
+  return [...metrics];
+}
+
+export const rulesCommand: CommandModule = {
+  register(program: Command) {
+    const rules = program.command('rules').description('QC rule sets: validate, replay history, rebaseline a control');
+
+    rules
+      .command('check')
+      .description('validate a rule set file and print its controls and rules (exit 2 naming the config path when invalid)')
+      .argument('<file>', 'rule set YAML')
+      .option('--json', 'print the validated rule set as JSON')
+      .action((file: string, options: { json?: boolean }) => {
+        const ruleSet = loadRuleSetFile(file);
+        process.stdout.write(options.json === true ? `${JSON.stringify(ruleSet, null, 2)}\n` : formatRuleSet(ruleSet, file));
+      });
+
+    withConfigOption(
+      rules
+        .command('simulate')
+        .description('replay stored results (RESULTS_DIR/YYYY-MM-DD/*.json) in acquisition order and list the alerts that would have fired, and when')
+        .requiredOption('--history <dir>', 'results folder to replay')
+        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .option('--json', 'print JSON lines'),
+    ).action((options: { history: string; rules?: string; json?: boolean; config?: string }) => {
+      const config = options.config === undefined ? undefined : configFromOptions(options);
+      const base = loadRuleSetFile(options.rules ?? config?.rules.file);
+      const ruleSet = config === undefined ? base : withConfigControls(base, config.controls);
+      const observations = observationsFromResultsDir(options.history, ruleSet);
+      const alerts = simulateAlerts(observations, ruleSet);
+      if (options.json === true) {
+        for (const alert of alerts) process.stdout.write(`${JSON.stringify(alert)}\n`);
+        return;
+      }
+      process.stdout.write(`replayed ${observations.length} QC observation(s); ${alerts.filter((a) => a.type === 'flag').length} flag(s), ${alerts.filter((a) => a.type === 'recovery').length} recovery notice(s)\n`);
+      for (const alert of alerts) process.stdout.write(`${formatAlertLine(alert)}\n`);
+    });
+
+    withConfigOption(
+      rules
+        .command('rebaseline')
+        .description('start a new baseline for CONTROL from DATE: computed now from the ledger when enough runs exist, else from the next runs')
+        .argument('<control>', 'control id')
+        .requiredOption('--from <date>', 'first day of the new baseline (YYYY-MM-DD, UTC midnight, or an ISO date-time)')
+        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)'),
+    ).action((controlId: string, options: { from: string; rules?: string; config?: string }) => {
+      const config = configFromOptions(options);
+      const ruleSet = withConfigControls(loadRuleSetFile(options.rules ?? config.rules.file), config.controls);
+      const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
+      if (control === undefined) {
+        throw new ConfigInvalid(`no control "${controlId}" in the rule set (known: ${ruleSet.controls.map((c) => c.id).join(', ') || 'none'})`, { hint: 'Name a control id from `driftlight rules check`.' });
+      }
+      const fromMs = parseIsoToEpochMs(options.from);
+      if (fromMs === undefined) throw new ConfigInvalid(`--from "${options.from}" is not a date (YYYY-MM-DD) or ISO date-time`);
+      const fromIso = new Date(fromMs).toISOString();
+      const ledger = openLedger(config.folders.state);
+      try {
+        const runs = observationHistory(ledger, [controlId]).filter((o) => (parseIsoToEpochMs(o.acquiredAt) ?? -Infinity) >= fromMs);
+        const createdAt = new Date().toISOString();
+        for (const metric of chartMetrics(ruleSet, controlId)) {
+          const points = runs.filter((o) => o.metrics[metric] !== undefined).slice(0, control.baselineRuns);
+          const values = points.map((o) => o.metrics[metric] ?? 0);
+          const established = points.length >= control.baselineRuns ? establishBaseline(values, control.baselineExcludeBeyondSd) : undefined;
+          const through = points[points.length - 1]?.acquiredAt;
+          const record: BaselineRecord = established === undefined || through === undefined
+            ? { controlId, metric, fromIso }
+            : { controlId, metric, fromIso, mean: established.mean, sd: established.sd, runs: established.runs, throughIso: through };
+          ledger.transaction(() => saveBaseline(ledger, record, createdAt));
+          process.stdout.write(
+            established === undefined
+              ? `${controlId} ${metricLabel(metric)}: new baseline starts ${fromIso}; ${points.length} of ${control.baselineRuns} runs so far, charts resume after ${control.baselineRuns}\n`
+              : `${controlId} ${metricLabel(metric)}: baseline mean ${Number(established.mean.toPrecision(6))}, SD ${Number(established.sd.toPrecision(4))} from ${established.runs} runs (${fromIso} to ${through})\n`,
+          );
+        }
+        process.stdout.write(`${baselineRecords(ledger).filter((r) => r.controlId === controlId).length} baseline record(s) stored for ${controlId}\n`);
+      } finally {
+        ledger.close();
+      }
+    });
+  },
+};

@@ -1,0 +1,177 @@
+// The QC result stage: for a control (or instrument-check) result, evaluates the rule set against
+// the ledger's history and baselines, adds the flags to result.qc.flags and records observation and
+// flags in the ledger; afterCommit hands flags and recovery notices to the alert dispatcher
+// (fire-and-forget). Also loads the rule set file and merges the config's `controls` entries.
+import { existsSync, readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import type { AnalysisResult, QcFlag as ResultQcFlag } from '../analysis/result.js';
+import type { DriftlightConfig } from '../config/resolve.js';
+import type { ControlConfig } from '../config/sections/controls.js';
+import { ConfigInvalid } from '../model/errors.js';
+import {
+  createAlertDispatcher,
+  createChannels,
+  type AlertDispatcher,
+  type AlertLogger,
+  type SecretSource,
+} from '../output/alerts/index.js';
+import {
+  controlSchema,
+  detectRecoveries,
+  evaluateClockRules,
+  evaluateRuleStates,
+  flagKey,
+  INSTRUMENT_SCOPE,
+  observationFromResult,
+  parseRuleSet,
+  type ControlDefinition,
+  type QcFlag,
+  type RecoveryNotice,
+  type RuleSet,
+} from '../qc/index.js';
+import type { Ledger } from '../store/ledger.js';
+import {
+  baselineRecords,
+  closeFlags,
+  ledgerAlertState,
+  ledgerDeliveryRecorder,
+  observationHistory,
+  openFlags,
+  recordFlags,
+  recordObservation,
+  replaceFlagsOfSet,
+} from '../store/qc-store.js';
+import type { ResultStage, ResultStageContext } from './result-stage.js';
+
+/** rules/default.yaml of the installed package (from src/ under vitest, from dist/src/ when built). */
+export function defaultRuleSetFile(): string {
+  const candidates = ['../../rules/default.yaml', '../../../rules/default.yaml'].map((relative) => fileURLToPath(new URL(relative, import.meta.url)));
+  const found = candidates.find((candidate) => existsSync(candidate));
+  if (found === undefined) throw new ConfigInvalid('the built-in rule set rules/default.yaml is missing from the installation', { configPath: 'rules.file' });
+  return found;
+}
+
+/** Reads and validates a rule-set file (default: the built-in one); throws ConfigInvalid. */
+export function loadRuleSetFile(file?: string): RuleSet {
+  const path = file ?? defaultRuleSetFile();
+  if (!existsSync(path)) throw new ConfigInvalid(`rule set file not found: ${path}`, { file: path, configPath: 'rules.file' });
+  return parseRuleSet(readFileSync(path, 'utf8'), path);
+}
+
+/** The config's `controls` entries as rule-set controls (targets from targetYield/sdYield, targetTauNs/sdTauNs). */
+export function controlsFromConfig(entries: readonly ControlConfig[]): ControlDefinition[] {
+  return entries.map((entry, index) => {
+    const targets: Record<string, { mean: number; sd: number }> = {};
+    if (entry.targetYield !== undefined && entry.sdYield !== undefined) targets['controlQuantumYield'] = { mean: entry.targetYield, sd: entry.sdYield };
+    if (entry.targetTauNs !== undefined && entry.sdTauNs !== undefined) targets['meanLifetimeNs'] = { mean: entry.targetTauNs, sd: entry.sdTauNs };
+    const parsed = controlSchema.safeParse({ id: entry.id, match: { sampleIdPattern: entry.sampleIdPattern }, targets, baselineRuns: entry.baselineRuns });
+    if (!parsed.success) {
+      const issue = parsed.error.issues[0];
+      throw new ConfigInvalid(issue?.message ?? 'invalid control', { configPath: `controls[${index}]${issue === undefined ? '' : `.${issue.path.join('.')}`}` });
+    }
+    return parsed.data;
+  });
+}
+
+/** The rule set with the config's controls added (a control id defined in the rule file wins). */
+export function withConfigControls(ruleSet: RuleSet, entries: readonly ControlConfig[]): RuleSet {
+  const known = new Set(ruleSet.controls.map((control) => control.id));
+  const extra = controlsFromConfig(entries).filter((control) => !known.has(control.id));
+  return extra.length === 0 ? ruleSet : Object.freeze({ ...ruleSet, controls: [...ruleSet.controls, ...extra] });
+}
+
+/** A rules-engine flag in the result's qc.flags form (critical → reject). */
+export function toResultFlag(flag: QcFlag): ResultQcFlag {
+  const value = flag.values['value'];
+  return {
+    rule: `${flag.ruleId}:${flag.check}`,
+    severity: flag.severity === 'critical' ? 'reject' : flag.severity,
+    message: flag.message,
+    quantity: flag.metric,
+    ...(value === undefined ? {} : { value }),
+  };
+}
+
+export interface QcStageOptions {
+  readonly ruleSet: RuleSet;
+  /** Builds the dispatcher for a ledger (state and delivery records live in that ledger); none = no alerts. */
+  readonly dispatcherFor?: (ledger: Ledger) => AlertDispatcher;
+}
+
+export interface QcStage extends ResultStage {
+  /** Evaluates clock rules (control missing) at `now`, records and dispatches their flags; the caller schedules it. */
+  checkClock(ledger: Ledger, now: Date): QcFlag[];
+  /** Resolves when queued alert deliveries have finished (call before closing the ledger at shutdown). */
+  idle(): Promise<void>;
+}
+
+/** Creates the QC stage over a rule set and an optional alert dispatcher factory. */
+export function createQcStage(options: QcStageOptions): QcStage {
+  const { ruleSet } = options;
+  const pending = new Map<string, { flags: QcFlag[]; recoveries: RecoveryNotice[] }>();
+  const dispatchers = new Map<Ledger, AlertDispatcher>();
+  const dispatcher = (ledger: Ledger): AlertDispatcher | undefined => {
+    if (options.dispatcherFor === undefined) return undefined;
+    let existing = dispatchers.get(ledger);
+    if (existing === undefined) {
+      existing = options.dispatcherFor(ledger);
+      dispatchers.set(ledger, existing);
+    }
+    return existing;
+  };
+  return {
+    name: 'qc-rules',
+    apply(result: AnalysisResult, context: ResultStageContext): AnalysisResult {
+      const observation = observationFromResult(result, ruleSet.controls);
+      if (observation === undefined) return result;
+      const { ledger } = context;
+      const scopes = [observation.controlId, INSTRUMENT_SCOPE];
+      const history = observationHistory(ledger).filter((earlier) => earlier.setId !== observation.setId);
+      const { flags, unsettledKeys } = evaluateRuleStates({ history, observation, ruleSet, baselines: baselineRecords(ledger) });
+      const active = openFlags(ledger, scopes).filter((flag) => flag.setId !== observation.setId);
+      const recoveries = detectRecoveries({ activeFlags: active, newFlags: flags, observation, unsettledKeys });
+      ledger.transaction(() => {
+        recordObservation(ledger, observation);
+        replaceFlagsOfSet(ledger, observation.setId, flags);
+        closeFlags(ledger, recoveries.map(flagKey), context.now.toISOString());
+      });
+      pending.set(result.setId, { flags, recoveries });
+      if (flags.length === 0) return result;
+      return { ...result, qc: { ...result.qc, flags: [...result.qc.flags, ...flags.map(toResultFlag)] } };
+    },
+    afterCommit(result: AnalysisResult, context: ResultStageContext): void {
+      const outcome = pending.get(result.setId);
+      pending.delete(result.setId);
+      if (outcome === undefined) return;
+      dispatcher(context.ledger)?.dispatch(outcome.flags, outcome.recoveries);
+    },
+    checkClock(ledger: Ledger, now: Date): QcFlag[] {
+      const flags = evaluateClockRules({ history: observationHistory(ledger), ruleSet, now: now.getTime() });
+      const open = new Set(openFlags(ledger, ruleSet.controls.map((control) => control.id)).map(flagKey));
+      const fresh = flags.filter((flag) => !open.has(flagKey(flag)));
+      if (fresh.length > 0) recordFlags(ledger, fresh);
+      dispatcher(ledger)?.dispatch(flags);
+      return fresh;
+    },
+    async idle(): Promise<void> {
+      await Promise.all([...dispatchers.values()].map((existing) => existing.idle()));
+    },
+  };
+}
+
+/** The stage as the pipeline runs it: rule file from config.rules.file (or the built-in), config controls merged, alerts per config.alerts. */
+export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logger: AlertLogger; env?: SecretSource }): QcStage {
+  const ruleSet = withConfigControls(loadRuleSetFile(config.rules.file), config.controls);
+  const channels = createChannels(config.alerts, { env: dependencies.env ?? process.env, logger: dependencies.logger });
+  return createQcStage({
+    ruleSet,
+    dispatcherFor: (ledger) =>
+      createAlertDispatcher({
+        alerts: config.alerts,
+        channels,
+        state: ledgerAlertState(ledger),
+        recorder: ledgerDeliveryRecorder(ledger),
+        logger: dependencies.logger,
+      }),
+  });
+}

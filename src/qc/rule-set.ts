@@ -1,0 +1,116 @@
+// A rule set: controls, rules and the default time zone, parsed from YAML and validated with zod.
+// Rule files are data only; nothing in them is ever executed.
+import { z } from 'zod';
+import { LineCounter, parseDocument } from 'yaml';
+import { ConfigInvalid } from '../model/errors.js';
+import { controlSchema, type ControlDefinition } from './controls.js';
+import { INSTRUMENT_SCOPE, scopeId } from './rule-base.js';
+import { RULE_KIND_NAMES, RULE_KINDS, type Rule, type RuleKindName } from './rule-kinds/registry.js';
+import { isValidTimeZone } from './time.js';
+
+export interface RuleSet {
+  readonly version: 1;
+  readonly name?: string | undefined;
+  /** Default zone for local-time rules (IANA or ±HH:MM). */
+  readonly timeZone: string;
+  readonly controls: readonly ControlDefinition[];
+  readonly rules: readonly Rule[];
+}
+
+const headerSchema = z.strictObject({
+  version: z.literal(1, { error: 'expected 1' }).default(1),
+  name: z.string().optional(),
+  timeZone: z.string().refine(isValidTimeZone, { error: 'expected an IANA time zone such as Europe/Berlin, or an offset such as +01:00' }).default('UTC'),
+  controls: z.array(controlSchema, { error: 'expected a list of controls' }).default([]),
+  rules: z.array(z.unknown(), { error: 'expected a list of rules' }).default([]),
+});
+
+interface Problem {
+  readonly path: readonly PropertyKey[];
+  readonly message: string;
+}
+
+/** `rules[2].lambda` from ['rules', 2, 'lambda']. */
+export function formatConfigPath(path: readonly PropertyKey[]): string {
+  return path.map((part, index) => (typeof part === 'number' ? `[${part}]` : `${index === 0 ? '' : '.'}${String(part)}`)).join('');
+}
+
+/** Problems of one rule entry: its kind, then that kind's schema. */
+function parseRule(raw: unknown, index: number, problems: Problem[]): Rule | undefined {
+  const kind = typeof raw === 'object' && raw !== null ? (raw as Record<string, unknown>)['kind'] : undefined;
+  if (typeof kind !== 'string' || !(kind in RULE_KINDS)) {
+    problems.push({ path: ['rules', index, 'kind'], message: `expected one of ${RULE_KIND_NAMES.join(', ')}` });
+    return undefined;
+  }
+  const result = RULE_KINDS[kind as RuleKindName].schema.safeParse(raw);
+  if (!result.success) {
+    for (const issue of result.error.issues) problems.push({ path: ['rules', index, ...issue.path], message: issue.message });
+    return undefined;
+  }
+  return result.data;
+}
+
+/** Cross-entry checks: unique ids, scopes that name a defined control, charts that need a control baseline. */
+function crossCheck(controls: readonly ControlDefinition[], rules: readonly Rule[], problems: Problem[]): void {
+  const controlIds = new Set<string>();
+  controls.forEach((control, index) => {
+    if (controlIds.has(control.id)) problems.push({ path: ['controls', index, 'id'], message: `duplicate control id "${control.id}"` });
+    controlIds.add(control.id);
+  });
+  const ruleIds = new Set<string>();
+  rules.forEach((rule, index) => {
+    if (ruleIds.has(rule.id)) problems.push({ path: ['rules', index, 'id'], message: `duplicate rule id "${rule.id}"` });
+    ruleIds.add(rule.id);
+    const scope = scopeId(rule.scope);
+    if (scope !== INSTRUMENT_SCOPE && !controlIds.has(scope)) {
+      problems.push({ path: ['rules', index, 'scope', 'control'], message: `no control with id "${scope}" is defined under controls` });
+    }
+    if (scope === INSTRUMENT_SCOPE && RULE_KINDS[rule.kind].needsBaseline) {
+      problems.push({ path: ['rules', index, 'scope'], message: `${rule.kind} judges against a control's mean and SD; scope it to a control` });
+    }
+  });
+}
+
+/** Parses and validates a rule-set YAML text (pure); throws ConfigInvalid naming the file, line and config path. O(size). */
+export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
+  const lineCounter = new LineCounter();
+  const document = parseDocument(yamlText, { lineCounter, prettyErrors: true });
+  const yamlError = document.errors[0];
+  if (yamlError !== undefined) {
+    const line = yamlError.linePos?.[0].line;
+    throw new ConfigInvalid(`not valid YAML: ${yamlError.message.split('\n')[0] ?? ''}`, {
+      file: sourceName,
+      hint: 'Fix the YAML syntax at the named line (indentation, a missing colon or quote).',
+      ...(line === undefined ? {} : { line }),
+    });
+  }
+  const problems: Problem[] = [];
+  const header = headerSchema.safeParse(document.toJS() ?? {});
+  let ruleSet: RuleSet | undefined;
+  if (!header.success) {
+    for (const issue of header.error.issues) problems.push({ path: issue.path, message: issue.message });
+  } else {
+    const rules: Rule[] = [];
+    header.data.rules.forEach((raw, index) => {
+      const rule = parseRule(raw, index, problems);
+      if (rule !== undefined) rules.push(rule);
+    });
+    if (problems.length === 0) crossCheck(header.data.controls, rules, problems);
+    ruleSet = { version: 1, name: header.data.name, timeZone: header.data.timeZone, controls: header.data.controls, rules };
+  }
+  const first = problems[0];
+  if (first !== undefined || ruleSet === undefined) {
+    const path = first === undefined ? '' : formatConfigPath(first.path);
+    const node = first === undefined ? undefined : document.getIn(first.path.filter((p) => typeof p !== 'symbol'), true);
+    const offset = typeof node === 'object' && node !== null && 'range' in node && Array.isArray(node.range) ? (node.range[0] as number) : undefined;
+    const more = problems.slice(1, 6).map((problem) => `${formatConfigPath(problem.path)}: ${problem.message}`);
+    const suffix = more.length === 0 ? '' : ` (also: ${more.join('; ')}${problems.length > 6 ? '; …' : ''})`;
+    throw new ConfigInvalid(`${first?.message ?? 'invalid rule set'}${suffix}`, {
+      file: sourceName,
+      hint: 'Fix the named entry of the rule file (docs/qc.md lists every kind and parameter); `driftlight rules check FILE` validates it.',
+      configPath: path,
+      ...(offset === undefined ? {} : { line: lineCounter.linePos(offset).line }),
+    });
+  }
+  return Object.freeze(ruleSet);
+}

@@ -1,0 +1,167 @@
+// Clock-free time arithmetic for the pure core: ISO 8601 parsing to epoch ms and local wall-clock
+// parts in an IANA zone (through Intl, which is pure) or a fixed ±HH:MM offset.
+
+const ISO_PATTERN =
+  /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,9}))?)?)?(Z|[+-]\d{2}:?\d{2})?$/;
+
+/** Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant's days_from_civil). O(1). */
+export function daysFromCivil(year: number, month: number, day: number): number {
+  const shiftedYear = month <= 2 ? year - 1 : year;
+  const era = Math.floor(shiftedYear / 400);
+  const yearOfEra = shiftedYear - era * 400;
+  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
+  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
+  return era * 146097 + dayOfEra - 719468;
+}
+
+/** Epoch ms of an ISO 8601 date-time ("2026-12-01T09:30:00+01:00"; no offset means UTC); undefined if unreadable. */
+export function parseIsoToEpochMs(text: string): number | undefined {
+  const match = ISO_PATTERN.exec(text.trim());
+  if (match === null) return undefined;
+  const [, year, month, day, hour, minute, second, fraction, zone] = match;
+  const monthNumber = Number(month);
+  const dayNumber = Number(day);
+  if (monthNumber < 1 || monthNumber > 12 || dayNumber < 1 || dayNumber > 31) return undefined;
+  let offsetMinutes = 0;
+  if (zone !== undefined && zone !== 'Z') {
+    const digits = zone.replace(':', '');
+    const sign = digits.startsWith('-') ? -1 : 1;
+    offsetMinutes = sign * (Number(digits.slice(1, 3)) * 60 + Number(digits.slice(3, 5)));
+  }
+  const fractionMs = fraction === undefined ? 0 : Number(`0.${fraction}`) * 1000;
+  const days = daysFromCivil(Number(year), monthNumber, dayNumber);
+  return (
+    days * 86_400_000 +
+    Number(hour ?? 0) * 3_600_000 +
+    Number(minute ?? 0) * 60_000 +
+    Number(second ?? 0) * 1000 +
+    fractionMs -
+    offsetMinutes * 60_000
+  );
+}
+
+/** Epoch ms of an ISO string, throwing RangeError naming `what` when it cannot be read. */
+export function requireEpochMs(text: string, what: string): number {
+  const epochMs = parseIsoToEpochMs(text);
+  if (epochMs === undefined) throw new RangeError(`${what} is not an ISO 8601 date-time: "${text}"`);
+  return epochMs;
+}
+
+/** Wall-clock parts of an instant in a zone. */
+export interface LocalParts {
+  /** Local calendar date as YYYY-MM-DD. */
+  readonly date: string;
+  /** Minutes since local midnight. */
+  readonly minuteOfDay: number;
+  /** Day of week, 'mon' … 'sun'. */
+  readonly weekday: Weekday;
+}
+
+export const WEEKDAYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
+export type Weekday = (typeof WEEKDAYS)[number];
+
+const OFFSET_PATTERN = /^(?:UTC)?([+-])(\d{2}):?(\d{2})$/;
+
+/** True when `zone` is an IANA zone name Intl knows, "UTC", or a fixed offset like "+01:00". */
+export function isValidTimeZone(zone: string): boolean {
+  if (OFFSET_PATTERN.test(zone)) return true;
+  try {
+    new Intl.DateTimeFormat('en-US', { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+const formatterCache = new Map<string, Intl.DateTimeFormat>();
+
+/** Local date, minute of day and weekday of `epochMs` in `zone` (IANA via Intl, or ±HH:MM). O(1). */
+export function localParts(epochMs: number, zone: string): LocalParts {
+  const offset = OFFSET_PATTERN.exec(zone);
+  if (offset !== null) {
+    const [, sign, hours, minutes] = offset;
+    const offsetMs = (sign === '-' ? -1 : 1) * (Number(hours) * 60 + Number(minutes)) * 60_000;
+    return utcParts(epochMs + offsetMs);
+  }
+  let formatter = formatterCache.get(zone);
+  if (formatter === undefined) {
+    formatter = new Intl.DateTimeFormat('en-US', {
+      timeZone: zone,
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      hourCycle: 'h23',
+    });
+    formatterCache.set(zone, formatter);
+  }
+  const parts: Record<string, string> = {};
+  for (const part of formatter.formatToParts(epochMs)) parts[part.type] = part.value;
+  const year = Number(parts['year']);
+  const month = Number(parts['month']);
+  const day = Number(parts['day']);
+  const wallClockMs =
+    daysFromCivil(year, month, day) * 86_400_000 + Number(parts['hour']) * 3_600_000 + Number(parts['minute']) * 60_000;
+  return utcParts(wallClockMs);
+}
+
+/** Parts of an instant read as UTC wall-clock time. */
+function utcParts(wallClockMs: number): LocalParts {
+  const days = Math.floor(wallClockMs / 86_400_000);
+  const minuteOfDay = Math.floor((wallClockMs - days * 86_400_000) / 60_000);
+  // 1970-01-01 was a Thursday (index 3 in WEEKDAYS).
+  const weekday = WEEKDAYS[(((days + 3) % 7) + 7) % 7] as Weekday;
+  return { date: civilFromDays(days), minuteOfDay, weekday };
+}
+
+/** YYYY-MM-DD of a day count since 1970-01-01 (H. Hinnant's civil_from_days). O(1). */
+export function civilFromDays(days: number): string {
+  const shifted = days + 719468;
+  const era = Math.floor(shifted / 146097);
+  const dayOfEra = shifted - era * 146097;
+  const yearOfEra = Math.floor((dayOfEra - Math.floor(dayOfEra / 1460) + Math.floor(dayOfEra / 36524) - Math.floor(dayOfEra / 146096)) / 365);
+  const dayOfYear = dayOfEra - (365 * yearOfEra + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100));
+  const monthIndex = Math.floor((5 * dayOfYear + 2) / 153);
+  const day = dayOfYear - Math.floor((153 * monthIndex + 2) / 5) + 1;
+  const month = monthIndex < 10 ? monthIndex + 3 : monthIndex - 9;
+  const year = yearOfEra + era * 400 + (month <= 2 ? 1 : 0);
+  return `${String(year).padStart(4, '0')}-${String(month).padStart(2, '0')}-${String(day).padStart(2, '0')}`;
+}
+
+/** "HH:MM" → minutes since midnight, or undefined when malformed. */
+export function parseClockTime(text: string): number | undefined {
+  const match = /^(\d{2}):(\d{2})$/.exec(text);
+  if (match === null) return undefined;
+  const hours = Number(match[1]);
+  const minutes = Number(match[2]);
+  return hours < 24 && minutes < 60 ? hours * 60 + minutes : undefined;
+}
+
+/** ISO 8601 UTC text ("2026-12-01T09:30:00.000Z") of epoch ms, without the Date global. O(1). */
+export function epochMsToIso(epochMs: number): string {
+  const days = Math.floor(epochMs / 86_400_000);
+  let rest = epochMs - days * 86_400_000;
+  const hours = Math.floor(rest / 3_600_000);
+  rest -= hours * 3_600_000;
+  const minutes = Math.floor(rest / 60_000);
+  rest -= minutes * 60_000;
+  const seconds = Math.floor(rest / 1000);
+  const millis = Math.round(rest - seconds * 1000);
+  const pad = (value: number, width = 2): string => String(value).padStart(width, '0');
+  return `${civilFromDays(days)}T${pad(hours)}:${pad(minutes)}:${pad(seconds)}.${pad(millis, 3)}Z`;
+}
+
+/** Epoch ms of a local wall-clock time (date YYYY-MM-DD, minute of day) in `zone`, resolving DST by a second pass. O(1). */
+export function zonedTimeToEpochMs(date: string, minuteOfDay: number, zone: string): number {
+  const [year, month, day] = date.split('-').map(Number);
+  const wallMs = daysFromCivil(year ?? 1970, month ?? 1, day ?? 1) * 86_400_000 + minuteOfDay * 60_000;
+  const offsetAt = (epochMs: number): number => {
+    const local = localParts(epochMs, zone);
+    const [y, m, d] = local.date.split('-').map(Number);
+    const localWallMs = daysFromCivil(y ?? 1970, m ?? 1, d ?? 1) * 86_400_000 + local.minuteOfDay * 60_000;
+    return localWallMs - Math.floor(epochMs / 60_000) * 60_000;
+  };
+  const firstGuess = wallMs - offsetAt(wallMs);
+  return wallMs - offsetAt(firstGuess);
+}
