@@ -1,0 +1,72 @@
+// Two-lifetime start values by exponential peeling (common practice for multi-exponential starts): a
+// log-linear fit of the late tail gives the long lifetime; subtracting that exponential from the early
+// decay and fitting the log of the remainder gives the short one. Weighted regression of ln(n − b) on t
+// with weights n − b (≈ 1/var(ln n) for Poisson counts).
+import { peakChannel } from './irf-metrics.js';
+
+interface LogLine {
+  /** d ln(counts)/dt in 1/ns. */
+  readonly slopePerNs: number;
+  /** ln(counts) at t = 0. */
+  readonly intercept: number;
+}
+
+/** Weighted least-squares line through (t, ln y) for the given points; undefined with fewer than 4 points. */
+function logLinearFit(times: readonly number[], values: readonly number[]): LogLine | undefined {
+  let sw = 0;
+  let swt = 0;
+  let swy = 0;
+  let swtt = 0;
+  let swty = 0;
+  for (let i = 0; i < times.length; i++) {
+    const weight = values[i] as number;
+    const t = times[i] as number;
+    const y = Math.log(weight);
+    sw += weight;
+    swt += weight * t;
+    swy += weight * y;
+    swtt += weight * t * t;
+    swty += weight * t * y;
+  }
+  const denominator = sw * swtt - swt * swt;
+  if (times.length < 4 || !(denominator > 0)) return undefined;
+  const slopePerNs = (sw * swty - swt * swy) / denominator;
+  return { slopePerNs, intercept: (swy - slopePerNs * swt) / sw };
+}
+
+/** [short, long] lifetimes in ns by peeling the background-subtracted decay on [first, end), or undefined when the data do not show two slopes. O(n). */
+export function estimatePeeledLifetimesNs(
+  timeNs: Float64Array, counts: Float64Array, background: number, firstChannel: number, endChannel: number,
+): [number, number] | undefined {
+  const peak = firstChannel + peakChannel(counts.subarray(firstChannel, endChannel));
+  const peakExcess = (counts[peak] as number) - background;
+  if (!(peakExcess > 50)) return undefined;
+  const lateTimes: number[] = [];
+  const lateValues: number[] = [];
+  let split = endChannel;
+  for (let k = peak; k < endChannel; k++) {
+    const excess = (counts[k] as number) - background;
+    if (split === endChannel && excess < 0.2 * peakExcess) split = k;
+    if (k >= split && excess >= Math.max(0.01 * peakExcess, 5)) {
+      lateTimes.push(timeNs[k] as number);
+      lateValues.push(excess);
+    }
+  }
+  const late = logLinearFit(lateTimes, lateValues);
+  if (late === undefined || !(late.slopePerNs < 0)) return undefined;
+  const earlyTimes: number[] = [];
+  const earlyValues: number[] = [];
+  for (let k = peak; k < split; k++) {
+    const t = timeNs[k] as number;
+    const remainder = (counts[k] as number) - background - Math.exp(late.intercept + late.slopePerNs * t);
+    if (remainder >= Math.max(0.05 * peakExcess, 5)) {
+      earlyTimes.push(t);
+      earlyValues.push(remainder);
+    }
+  }
+  const early = logLinearFit(earlyTimes, earlyValues);
+  if (early === undefined || !(early.slopePerNs < 0)) return undefined;
+  const shortNs = -1 / early.slopePerNs;
+  const longNs = -1 / late.slopePerNs;
+  return shortNs < 0.8 * longNs ? [shortNs, longNs] : undefined;
+}

@@ -1,0 +1,103 @@
+// Turns a Decay and resolved options into what a fit needs: counts (Coates-corrected when asked), the
+// unit-sum IRF or none (tail fit), the excitation period, the fit range, and the data warnings that do
+// not depend on the fit (pile-up rate, low peak counts).
+import type { Decay } from '../model/decay.js';
+import { totalCounts } from '../model/decay.js';
+import { InputRejected } from '../model/errors.js';
+import { automaticRange, channelsInRange, type ChannelRange, IRF_RISE_FRACTION } from './fit-range.js';
+import { firstChannelAbove, fullWidthHalfMaximumNs } from './irf-metrics.js';
+import type { ResolvedFitDecayOptions } from './options.js';
+import { coatesCorrection, PILE_UP_RATE_FRACTION } from './pile-up.js';
+
+export interface PreparedDecay {
+  readonly timeNs: Float64Array;
+  readonly channelWidthNs: number;
+  /** Counts of the whole histogram as fitted (after the pile-up correction when applied). */
+  readonly counts: Float64Array;
+  /** IRF normalised to unit sum, or undefined for a tail fit. */
+  readonly irfUnit: Float64Array | undefined;
+  readonly irfFwhmNs: number | undefined;
+  /** First channel of the IRF rise (≥ 1 % of its peak). */
+  readonly irfRiseChannel: number | undefined;
+  /** Excitation period in ns when the repetition rate is known. */
+  readonly periodNs: number | undefined;
+  readonly range: ChannelRange;
+  /** Total recorded counts of the histogram (before any correction). */
+  readonly photons: number;
+  readonly pileUpCorrected: boolean;
+  readonly warnings: readonly string[];
+}
+
+/** Peak counts below which precision is poor (common practice: ≥ 10⁴ in the peak for multi-exponential work). */
+export const LOW_PEAK_COUNTS = 100;
+
+/** Prepares one decay for fitting (see header); throws InputRejected for an unusable IRF. */
+export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, minimumChannels: number): PreparedDecay {
+  const warnings: string[] = [];
+  const channels = decay.counts.length;
+  const channelWidthNs = decay.channelWidthNs;
+  const repetitionRateHz = options.repetitionRateHz ?? decay.metadata.repetitionRateHz;
+  const photons = totalCounts(decay.counts);
+  let periodNs: number | undefined;
+  if (repetitionRateHz !== undefined) {
+    periodNs = 1e9 / repetitionRateHz;
+    if (periodNs < channels * channelWidthNs * (1 - 1e-9)) {
+      warnings.push(
+        `the excitation period (${periodNs.toFixed(3)} ns) is shorter than the histogram (${(channels * channelWidthNs).toFixed(3)} ns); earlier pulses are not modelled`,
+      );
+      periodNs = undefined;
+    }
+  }
+  const irfSource = options.irfCounts ?? decay.irfCounts;
+  let irfUnit: Float64Array | undefined;
+  let irfFwhmNs: number | undefined;
+  let irfRiseChannel: number | undefined;
+  if (irfSource !== undefined) {
+    if (irfSource.length !== channels) {
+      throw new InputRejected('LENGTH_MISMATCH', `the IRF has ${irfSource.length} channels but the decay has ${channels}`);
+    }
+    const irf = Float64Array.from(irfSource);
+    let sum = 0;
+    for (let k = 0; k < channels; k++) {
+      const value = irf[k] as number;
+      if (!Number.isFinite(value) || value < 0) {
+        throw new InputRejected('INPUT_INVALID', `the IRF has an invalid value (${value}) at channel ${k + 1}`);
+      }
+      sum += value;
+    }
+    if (!(sum > 0)) throw new InputRejected('INPUT_INVALID', 'the IRF has no counts');
+    for (let k = 0; k < channels; k++) irf[k] = (irf[k] as number) / sum;
+    irfUnit = irf;
+    irfFwhmNs = fullWidthHalfMaximumNs(irf, channelWidthNs);
+    irfRiseChannel = firstChannelAbove(irf, IRF_RISE_FRACTION);
+  }
+  let counts = decay.counts;
+  let pileUpCorrected = false;
+  const collectionTimeS = decay.metadata.collectionTimeS;
+  const countRatePerS = decay.metadata.countRatePerS ?? (collectionTimeS !== undefined && collectionTimeS > 0 ? photons / collectionTimeS : undefined);
+  if (countRatePerS !== undefined && repetitionRateHz !== undefined && countRatePerS > PILE_UP_RATE_FRACTION * repetitionRateHz) {
+    warnings.push(
+      `count rate ${countRatePerS.toPrecision(3)} /s exceeds ${PILE_UP_RATE_FRACTION * 100} % of the repetition rate ${repetitionRateHz.toPrecision(3)} Hz: pile-up distorts the decay${options.pileUpCorrection ? '' : ' (consider pileUpCorrection)'}`,
+    );
+  }
+  if (options.pileUpCorrection) {
+    if (collectionTimeS === undefined || repetitionRateHz === undefined) {
+      warnings.push('pile-up correction requested but the collection time or repetition rate is unknown; not applied');
+    } else {
+      counts = coatesCorrection(decay.counts, collectionTimeS * repetitionRateHz);
+      pileUpCorrected = true;
+    }
+  }
+  const range = options.rangeNs === undefined
+    ? automaticRange(counts, irfUnit, channelWidthNs, options.estimator, minimumChannels)
+    : channelsInRange(decay.timeNs, channelWidthNs, options.rangeNs, minimumChannels);
+  let peakCounts = 0;
+  for (let k = range.firstChannel; k < range.endChannel; k++) peakCounts = Math.max(peakCounts, counts[k] as number);
+  if (peakCounts < LOW_PEAK_COUNTS) {
+    warnings.push(`peak counts are low (${peakCounts} < ${LOW_PEAK_COUNTS}); lifetimes are imprecise`);
+  }
+  return {
+    timeNs: decay.timeNs, channelWidthNs, counts, irfUnit, irfFwhmNs, irfRiseChannel, periodNs, range, photons,
+    pileUpCorrected, warnings,
+  };
+}

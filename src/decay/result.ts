@@ -1,0 +1,146 @@
+// The plain-JSON result of a lifetime fit (DecayFitResult) and of a global fit; no typed arrays.
+import type { Estimator } from './estimators.js';
+
+export interface FitStatus {
+  /** True only when the minimiser's convergence test passed with finite values. */
+  readonly converged: boolean;
+  /** Levenberg–Marquardt iterations (Jacobian evaluations) of the kept run. */
+  readonly iterations: number;
+  /** Why the minimiser stopped, in words. */
+  readonly reason: string;
+}
+
+export interface LifetimeInterval {
+  /** Lower end in ns; absent when the profile reaches a bound or does not converge before it. */
+  readonly lowNs?: number;
+  /** Upper end in ns; absent as for lowNs. */
+  readonly highNs?: number;
+  /** Confidence level, e.g. 0.6827. */
+  readonly level: number;
+  /** Objective rise that defines the interval (chi-square quantile with one degree of freedom). */
+  readonly deltaObjective: number;
+}
+
+export interface ComponentResult {
+  readonly tauNs: number;
+  /** Standard error from the Fisher information; absent when fixed, at a bound or not estimable. */
+  readonly tauNsStdErr?: number;
+  /** Profile (support-plane) interval; absent when not computed or the lifetime is fixed. */
+  readonly tauNsInterval?: LifetimeInterval;
+  /** Counts per channel at t = 0 (reconvolution) or at the fit start (tail fit), for τ ≫ channel width. */
+  readonly amplitude: number;
+  readonly amplitudeStdErr?: number;
+  /** Expected photons of the component over an unbounded window, aᵢτᵢ/Δ (the fitted linear parameter). */
+  readonly photons: number;
+  /** aᵢ / Σa. */
+  readonly amplitudeFraction: number;
+  /** aᵢτᵢ / Σaτ (fraction of the decay photons). */
+  readonly intensityFraction: number;
+  /** True when τ was fixed by the caller. */
+  readonly tauFixed: boolean;
+}
+
+export interface RunsTestResult {
+  readonly runs: number;
+  readonly expectedRuns: number;
+  readonly z: number;
+}
+
+export interface SelectionCandidate {
+  readonly components: number;
+  readonly bic: number;
+  readonly aic: number;
+  readonly deviance: number;
+  readonly chi2Reduced: number;
+  readonly runsZ: number;
+  readonly durbinWatson: number;
+  readonly converged: boolean;
+}
+
+export interface ModelSelection {
+  readonly chosenComponents: number;
+  readonly candidates: readonly SelectionCandidate[];
+  /** One sentence saying why this number of components was chosen. */
+  readonly reason: string;
+}
+
+export interface DecayFitResult extends FitStatus {
+  /** 'reconvolution' (with an IRF) or 'tail' (no IRF: fitted from the range start). */
+  readonly model: 'reconvolution' | 'tail';
+  readonly estimator: Estimator;
+  /** Components in ascending τ. */
+  readonly components: readonly ComponentResult[];
+  /** Σaτ / Σa in ns. */
+  readonly tauMeanAmplitudeNs: number;
+  /** Σaτ² / Σaτ in ns. */
+  readonly tauMeanIntensityNs: number;
+  readonly shiftNs: number;
+  readonly shiftNsStdErr?: number;
+  readonly backgroundPerChannel: number;
+  readonly backgroundPerChannelStdErr?: number;
+  /** Scatter photons / model photons on the fit range (0 unless scatter was fitted). */
+  readonly scatterFraction: number;
+  /** Pearson χ² / (channels − free parameters). */
+  readonly chi2Reduced: number;
+  /** Poisson deviance 2Σ[m − n + n ln(n/m)] on the fit range. */
+  readonly deviance: number;
+  readonly degreesOfFreedom: number;
+  readonly durbinWatson: number;
+  /** Autocorrelation of the weighted residuals at lags 0…L. */
+  readonly residualAutocorrelation: readonly number[];
+  /** Wald–Wolfowitz runs test on residual signs over channels with model ≥ 5 counts. */
+  readonly runsTest: RunsTestResult;
+  /** AIC = objective + 2p (objective = deviance for ML, χ² for LS; constants dropped). */
+  readonly aic: number;
+  /** BIC = objective + p·ln(channels). */
+  readonly bic: number;
+  /** Total recorded counts of the histogram. */
+  readonly photons: number;
+  /** Counts on the fit range (after pile-up correction when applied). */
+  readonly photonsInRange: number;
+  readonly rangeNs: readonly [number, number];
+  /** [first, end) channel indices (0-based, end exclusive). */
+  readonly rangeChannels: readonly [number, number];
+  /** Estimator residuals on the fit range (deviance residuals for ML, (n − m)/σ for LS), sign of n − m. */
+  readonly weightedResiduals: readonly number[];
+  /** Model counts on the fit range. */
+  readonly fittedCounts: readonly number[];
+  readonly freeParameters: readonly string[];
+  readonly pileUpCorrected: boolean;
+  /** Start-value sets tried. */
+  readonly starts: number;
+  readonly warnings: readonly string[];
+  /** Present when components was 'auto'. */
+  readonly selection?: ModelSelection;
+}
+
+export interface GlobalDecayResult {
+  readonly components: readonly ComponentResult[];
+  readonly shiftNs: number;
+  readonly backgroundPerChannel: number;
+  readonly chi2Reduced: number;
+  readonly deviance: number;
+  readonly durbinWatson: number;
+  readonly runsTest: RunsTestResult;
+  readonly rangeNs: readonly [number, number];
+  readonly photons: number;
+  readonly weightedResiduals: readonly number[];
+  readonly fittedCounts: readonly number[];
+}
+
+export interface GlobalFitResult extends FitStatus {
+  readonly estimator: Estimator;
+  /** Names of parameters shared by all decays. */
+  readonly linked: readonly string[];
+  /** Shared lifetimes (ns, ascending) with standard errors from the joint Fisher information. */
+  readonly tauNs: readonly number[];
+  readonly tauNsStdErr: readonly (number | null)[];
+  readonly decays: readonly GlobalDecayResult[];
+  /** Σ objective over all decays. */
+  readonly objective: number;
+  readonly chi2Reduced: number;
+  readonly aic: number;
+  readonly bic: number;
+  readonly freeParameters: readonly string[];
+  readonly warnings: readonly string[];
+}

@@ -1,0 +1,81 @@
+// `driftlight fit-decay` through the real binary on real files in a temp dir: JSON and text output, a
+// separate IRF file, fixed parameters and ranges, and the exit codes for rejected input and usage errors.
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { createSeededRandom, gaussianIrf, simulateDecay } from '../../src/decay/index.js';
+import { runDriftlight } from '../helpers/cli.js';
+
+interface CliFit {
+  converged: boolean;
+  components: { tauNs: number; tauNsStdErr?: number; tauFixed: boolean }[];
+  rangeNs: [number, number];
+  estimator: string;
+}
+
+const directory = mkdtempSync(join(tmpdir(), 'driftlight-fit-decay-'));
+afterAll(() => rmSync(directory, { recursive: true, force: true }));
+
+const channels = 512;
+const widthNs = 25 / channels;
+const irf = gaussianIrf(channels, widthNs, 2, 0.2);
+const irfCounts = Array.from(irf, (value) => Math.round(value * 1e5));
+// Truth 3.9 ns (a fluorescein-like lifetime; REFERENCES.md, from memory), Poisson counts, seeded.
+const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [3.9], photons: 5e4, irf, backgroundPerChannel: 1 }, createSeededRandom(1));
+const time = (k: number): string => (k * widthNs).toFixed(6);
+const withIrf = join(directory, 'dye-with-irf.csv');
+writeFileSync(withIrf, ['time (ns),counts,irf', ...Array.from(decay.counts, (c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n');
+const decayOnly = join(directory, 'dye.csv');
+writeFileSync(decayOnly, ['time (ns),counts', ...Array.from(decay.counts, (c, k) => `${time(k)},${c}`)].join('\n') + '\n');
+const irfOnly = join(directory, 'irf.csv');
+writeFileSync(irfOnly, ['time (ns),counts', ...irfCounts.map((c, k) => `${time(k)},${c}`)].join('\n') + '\n');
+
+describe('driftlight fit-decay', () => {
+  it('fits a decay with an IRF column and prints JSON with components[].tauNs', () => {
+    const run = runDriftlight(['fit-decay', withIrf, '--json']);
+    expect(run.status).toBe(0);
+    const fit = JSON.parse(run.stdout) as CliFit;
+    expect(fit.converged).toBe(true);
+    expect(fit.estimator).toBe('ml');
+    const component = fit.components[0];
+    expect(Math.abs((component?.tauNs ?? 0) - 3.9)).toBeLessThan(3 * (component?.tauNsStdErr ?? 0));
+  });
+
+  it('takes the IRF from a separate file and prints a text report with a residual plot', () => {
+    const run = runDriftlight(['fit-decay', decayOnly, '--irf', irfOnly, '--estimator', 'lsq-neyman']);
+    expect(run.status).toBe(0);
+    expect(run.stdout).toContain('reconvolution fit, 1 component(s), estimator lsq-neyman');
+    expect(run.stdout).toContain('weighted residuals:');
+    expect(run.stdout).toMatch(/^ {2}0 \|[-*!]+$/m);
+  });
+
+  it('fits the tail without any IRF', () => {
+    const run = runDriftlight(['fit-decay', decayOnly, '--json']);
+    expect(run.status).toBe(0);
+    expect((JSON.parse(run.stdout) as { model: string }).model).toBe('tail');
+  });
+
+  it('holds --fix values and uses --range', () => {
+    const run = runDriftlight(['fit-decay', withIrf, '--fix', 'tau1=3.95', '--range', '1.5:20', '--json']);
+    expect(run.status).toBe(0);
+    const fit = JSON.parse(run.stdout) as CliFit;
+    expect(fit.components[0]?.tauNs).toBe(3.95);
+    expect(fit.components[0]?.tauFixed).toBe(true);
+    expect(fit.rangeNs[0]).toBeGreaterThanOrEqual(1.5);
+    expect(fit.rangeNs[1]).toBeLessThanOrEqual(20);
+  });
+
+  it('exits 3 with a typed message for a rejected file', () => {
+    const broken = join(directory, 'broken.csv');
+    writeFileSync(broken, 'time (ns),counts\n0,1\n0.1,abc\n0.2,3\n');
+    const run = runDriftlight(['fit-decay', broken]);
+    expect(run.status).toBe(3);
+    expect(run.stderr).toMatch(/broken\.csv.*[A-Z_]+:/);
+  });
+
+  it('exits 2 on a bad option value or a missing file', () => {
+    expect(runDriftlight(['fit-decay', withIrf, '--components', 'seven']).status).toBe(2);
+    expect(runDriftlight(['fit-decay', join(directory, 'missing.csv')]).status).toBe(2);
+  });
+});
