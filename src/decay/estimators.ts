@@ -11,7 +11,10 @@ export type Estimator = (typeof ESTIMATORS)[number];
 /** Smallest model value used in a logarithm or a weight (counts); keeps the deviance finite when m → 0. */
 export const MODEL_FLOOR_COUNTS = 1e-10;
 
-/** Fills residuals r_k and dr_k/dm_k for `estimator` and returns Σ r_k² (deviance or χ²); O(channels). */
+/**
+ * Fills residuals r_k and dr_k/dm_k for `estimator` and returns Σ r_k² (deviance or χ²); for `ml` the sum is the
+ * Poisson deviance term by term and in order as poissonDeviance computes it (the same number). O(channels).
+ */
 export function estimatorResiduals(
   estimator: Estimator,
   counts: Float64Array,
@@ -29,7 +32,7 @@ export function estimatorResiduals(
       const magnitude = Math.sqrt(unit > 0 ? unit : 0);
       const r = n > m ? magnitude : -magnitude;
       residuals[k] = r;
-      sum += unit > 0 ? unit : 0;
+      sum += unit;
       if (residualPerModel !== undefined) {
         residualPerModel[k] = magnitude > 1e-7 ? (1 - n / m) / r : -1 / Math.sqrt(m);
       }
@@ -62,7 +65,8 @@ export function estimatorResiduals(
 /**
  * Gauss–Newton weights of Σ r² without forming r: curvature_k = (dr_k/dm_k)² and slope_k = r_k·dr_k/dm_k,
  * so that JᵀJ = Σ curvature·∂m∂mᵀ and Jᵀr = Σ slope·∂m (same values as estimatorResiduals, no square
- * roots). Returns Σ r². `countsLog` from countsLogCounts. O(channels).
+ * roots). Returns Σ r² bit for bit as estimatorObjective does (same terms, same order), so the minimiser
+ * may compare values from either path. `countsLog` from countsLogCounts. O(channels).
  */
 export function estimatorWeights(
   estimator: Estimator, counts: Float64Array, countsLog: Float64Array, model: Float64Array, curvature: Float64Array, slope: Float64Array,
@@ -76,18 +80,19 @@ export function estimatorWeights(
       const half = n > 0 ? m - n + (countsLog[k] as number) - n * Math.log(m) : m;
       const unit = half > 0 ? 2 * half : 0;
       const ratio = 1 - n / m;
-      sum += unit;
+      sum += half;
       slope[k] = ratio;
       curvature[k] = unit > 1e-14 ? (ratio * ratio) / unit : n > 0 ? n / (m * m) : 1 / (2 * m);
     }
-    return sum;
+    return 2 * sum;
   }
   if (estimator === 'lsq-neyman') {
     for (let k = 0; k < length; k++) {
       const n = counts[k] as number;
-      const inverseVariance = 1 / (n > 1 ? n : 1);
+      const variance = n > 1 ? n : 1;
+      const inverseVariance = 1 / variance;
       const difference = n - (model[k] as number);
-      sum += difference * difference * inverseVariance;
+      sum += (difference * difference) / variance;
       slope[k] = -difference * inverseVariance;
       curvature[k] = inverseVariance;
     }
@@ -105,9 +110,21 @@ export function estimatorWeights(
   return sum;
 }
 
+/** Whole counts below this take n·ln(n) from a table. */
+const SMALL_COUNTS = 4096;
+/** k·ln(k) for k < SMALL_COUNTS, by the same expression as below (so the same values). */
+const SMALL_COUNTS_LOG = Float64Array.from({ length: SMALL_COUNTS }, (_unused, k) => (k > 0 ? k * Math.log(k) : 0));
+
 /** n·ln(n) per channel (0 where n = 0), precomputed once per dataset so the ML objective needs one logarithm per channel. */
 export function countsLogCounts(counts: Float64Array): Float64Array {
-  return Float64Array.from(counts, (n) => (n > 0 ? n * Math.log(n) : 0));
+  const table = SMALL_COUNTS_LOG;
+  const countsLog = new Float64Array(counts.length);
+  for (let k = 0; k < counts.length; k++) {
+    const n = counts[k] as number;
+    // Most channels hold small whole counts: a table lookup instead of a logarithm.
+    countsLog[k] = n >= 0 && n < SMALL_COUNTS && Number.isInteger(n) ? (table[n] as number) : n > 0 ? n * Math.log(n) : 0;
+  }
+  return countsLog;
 }
 
 /** Σ r² only (no residual arrays), the cheap path for trial steps; `countsLog` from countsLogCounts. O(channels). */

@@ -22,6 +22,38 @@ export interface ConvolutionBuffers {
   readonly responsePerShiftNs: Float64Array;
 }
 
+/** Per-channel constants of the recursion for one τ (see header), each already divided by Δ where the response needs it. */
+export interface RecursionCoefficients {
+  /** x = exp(−Δ/τ), the factor of S[k] per channel. */
+  readonly x: number;
+  /** K[0]/Δ: weight of the same IRF channel. */
+  readonly k0: number;
+  /** c/Δ: weight of S[k]. */
+  readonly c: number;
+  /** dx/dτ in 1/ns. */
+  readonly dx: number;
+  /** d(K[0]/Δ)/dτ in 1/ns. */
+  readonly dk0: number;
+  /** d(c/Δ)/dτ in 1/ns. */
+  readonly dc: number;
+}
+
+/** The recursion constants x, K[0]/Δ, c/Δ and their τ derivatives for lifetime `tauNs` and channel width `channelWidthNs`. */
+export function recursionCoefficients(tauNs: number, channelWidthNs: number): RecursionCoefficients {
+  const u = channelWidthNs / tauNs;
+  const x = Math.exp(-u);
+  const q = -Math.expm1(-u);
+  const inverseWidth = 1 / channelWidthNs;
+  return {
+    x,
+    k0: (tauNs - ((tauNs * tauNs) / channelWidthNs) * q) * inverseWidth,
+    c: ((tauNs * tauNs * q * q) / channelWidthNs) * inverseWidth,
+    dx: (x * u) / tauNs,
+    dk0: (1 + x - (2 * q) / u) * inverseWidth,
+    dc: ((2 * tauNs * q) / channelWidthNs) * (q - x * u) * inverseWidth,
+  };
+}
+
 /** Convolves exp(−t/τ) with a unit-sum histogram IRF, channel-integrated, exact recursion (see header); O(channels). */
 export function convolveExponentialWithIrf(
   irf: Float64Array,
@@ -35,14 +67,7 @@ export function convolveExponentialWithIrf(
   out: ConvolutionBuffers,
 ): void {
   const u = channelWidthNs / tauNs;
-  const x = Math.exp(-u);
-  const q = -Math.expm1(-u);
-  const inverseWidth = 1 / channelWidthNs;
-  const k0 = (tauNs - ((tauNs * tauNs) / channelWidthNs) * q) * inverseWidth;
-  const c = ((tauNs * tauNs * q * q) / channelWidthNs) * inverseWidth;
-  const dx = (x * u) / tauNs;
-  const dk0 = (1 + x - (2 * q) / u) * inverseWidth;
-  const dc = ((2 * tauNs * q) / channelWidthNs) * (q - x * u) * inverseWidth;
+  const { x, k0, c, dx, dk0, dc } = recursionCoefficients(tauNs, channelWidthNs);
   const response = out.response;
   const perTau = out.responsePerTauNs;
   const perShift = out.responsePerShiftNs;

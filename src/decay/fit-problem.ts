@@ -1,9 +1,12 @@
 // The objective of one fit: one or more decays (datasets), each with its own model and counts, whose
 // local parameters map onto one shared vector of free parameters (links) or onto fixed values.
-// Accumulates JᵀJ and Jᵀr block by block, so linked (global) fits cost no more than separate ones.
+// Accumulates JᵀJ and Jᵀr block by block, so linked (global) fits cost no more than separate ones. The
+// model and Jacobian of the last evaluation with derivatives are kept, so the fitted counts and the Fisher
+// information at the optimum (where the minimiser evaluated last) cost no further model evaluation.
 import type { DatasetModel } from './dataset-model.js';
 import { countsLogCounts, estimatorObjective, estimatorWeights, MODEL_FLOOR_COUNTS, type Estimator } from './estimators.js';
 import type { SumOfSquaresObjective } from './levenberg-marquardt.js';
+import { weightedCrossProducts } from './weighted-cross-products.js';
 
 export interface DatasetTerm {
   readonly model: DatasetModel;
@@ -19,11 +22,15 @@ interface DatasetScratch {
   readonly local: Float64Array;
   readonly model: Float64Array;
   readonly jacobian: Float64Array;
-  readonly residuals: Float64Array;
-  readonly residualPerModel: Float64Array;
+  /** Per channel: r·dr/dm (Gauss–Newton) — Jᵀr = Σ slope·∂m. */
+  readonly slope: Float64Array;
+  /** Per channel: (dr/dm)² (Gauss–Newton) or 1/variance (Fisher information). */
+  readonly weights: Float64Array;
   readonly freeSlots: Int32Array;
   readonly countsLog: Float64Array;
-  readonly weighted: Float64Array;
+  /** Cross products and gradient over this dataset's free slots (freeSlots.length² and freeSlots.length). */
+  readonly products: Float64Array;
+  readonly slotGradient: Float64Array;
 }
 
 /** Σ r² over all datasets for an estimator, with the block-accumulated normal matrix; allocation happens once here. */
@@ -32,11 +39,15 @@ export class FitProblem implements SumOfSquaresObjective {
   readonly terms: readonly DatasetTerm[];
   readonly estimator: Estimator;
   private readonly scratch: DatasetScratch[];
+  /** Parameters of the last evaluation with derivatives, while every dataset's model and Jacobian still hold it. */
+  private readonly derivativesParameters: Float64Array;
+  private derivativesCurrent = false;
 
   constructor(terms: readonly DatasetTerm[], estimator: Estimator, parameterCount: number) {
     this.terms = terms;
     this.estimator = estimator;
     this.parameterCount = parameterCount;
+    this.derivativesParameters = new Float64Array(parameterCount);
     this.scratch = terms.map((term) => {
       const slots = term.freeIndex.length;
       const channels = term.model.channelCount;
@@ -46,11 +57,12 @@ export class FitProblem implements SumOfSquaresObjective {
         local: Float64Array.from(term.fixedValues),
         model: new Float64Array(channels),
         jacobian: new Float64Array(slots * channels),
-        residuals: new Float64Array(channels),
-        residualPerModel: new Float64Array(channels),
+        slope: new Float64Array(channels),
+        weights: new Float64Array(channels),
         freeSlots: Int32Array.from(freeSlots),
         countsLog: countsLogCounts(term.counts),
-        weighted: new Float64Array(channels),
+        products: new Float64Array(freeSlots.length * freeSlots.length),
+        slotGradient: new Float64Array(freeSlots.length),
       };
     });
   }
@@ -66,17 +78,13 @@ export class FitProblem implements SumOfSquaresObjective {
     return local;
   }
 
-  /** Expected counts of dataset `index` on its fit range for `parameters` (new array). */
+  /** Expected counts of dataset `index` on its fit range for `parameters` (new array; reuses the last evaluation at the same parameters). */
   modelOf(index: number, parameters: Float64Array): Float64Array {
-    const term = this.terms[index] as DatasetTerm;
-    const scratch = this.scratch[index] as DatasetScratch;
-    const model = new Float64Array(term.model.channelCount);
-    term.model.evaluate(this.localParameters(index, parameters), false, model, scratch.jacobian);
-    return model;
+    this.ensureDerivatives(parameters);
+    return Float64Array.from((this.scratch[index] as DatasetScratch).model);
   }
 
   evaluate(parameters: Float64Array, withDerivatives: boolean, normal: Float64Array, gradient: Float64Array): number {
-    const size = this.parameterCount;
     if (withDerivatives) {
       normal.fill(0);
       gradient.fill(0);
@@ -91,44 +99,15 @@ export class FitProblem implements SumOfSquaresObjective {
         total += estimatorObjective(this.estimator, term.counts, scratch.countsLog, scratch.model);
         continue;
       }
-      // residuals ← slope (r·dr/dm), residualPerModel ← curvature ((dr/dm)²): JᵀJ and Jᵀr without forming r.
-      total += estimatorWeights(this.estimator, term.counts, scratch.countsLog, scratch.model, scratch.residualPerModel, scratch.residuals);
-      const channels = term.model.channelCount;
-      const { jacobian, residuals: slope, residualPerModel: curvature, weighted, freeSlots } = scratch;
-      const count = freeSlots.length;
-      for (let a = 0; a < count; a++) {
-        const slotA = freeSlots[a] as number;
-        const freeA = term.freeIndex[slotA] as number;
-        const offsetA = slotA * channels;
-        let dotSlope = 0;
-        for (let k = 0; k < channels; k++) {
-          const valueA = jacobian[offsetA + k] as number;
-          dotSlope += valueA * (slope[k] as number);
-          weighted[k] = valueA * (curvature[k] as number);
-        }
-        gradient[freeA] = (gradient[freeA] as number) + dotSlope;
-        // Three dot products per pass over the weighted column a.
-        for (let b = a; b < count; b += 3) {
-          const offsetB0 = (freeSlots[b] as number) * channels;
-          const hasB1 = b + 1 < count;
-          const hasB2 = b + 2 < count;
-          const offsetB1 = hasB1 ? (freeSlots[b + 1] as number) * channels : offsetB0;
-          const offsetB2 = hasB2 ? (freeSlots[b + 2] as number) * channels : offsetB0;
-          let dot0 = 0;
-          let dot1 = 0;
-          let dot2 = 0;
-          for (let k = 0; k < channels; k++) {
-            const valueA = weighted[k] as number;
-            dot0 += valueA * (jacobian[offsetB0 + k] as number);
-            dot1 += valueA * (jacobian[offsetB1 + k] as number);
-            dot2 += valueA * (jacobian[offsetB2 + k] as number);
-          }
-          this.accumulate(normal, size, freeA, term.freeIndex[freeSlots[b] as number] as number, dot0, a === b);
-          if (hasB1) this.accumulate(normal, size, freeA, term.freeIndex[freeSlots[b + 1] as number] as number, dot1, false);
-          if (hasB2) this.accumulate(normal, size, freeA, term.freeIndex[freeSlots[b + 2] as number] as number, dot2, false);
-        }
-      }
+      // JᵀJ = Σ curvature·∂m∂mᵀ and Jᵀr = Σ slope·∂m without forming r; Σ r² as on the objective-only path.
+      total += estimatorWeights(this.estimator, term.counts, scratch.countsLog, scratch.model, scratch.weights, scratch.slope);
+      weightedCrossProducts(
+        scratch.jacobian, term.model.channelCount, scratch.freeSlots, scratch.weights, scratch.products, scratch.slope, scratch.slotGradient,
+      );
+      this.addBlock(term, scratch, normal, gradient);
     }
+    this.derivativesCurrent = withDerivatives;
+    if (withDerivatives) this.derivativesParameters.set(parameters);
     return Number.isFinite(total) ? total : Number.NaN;
   }
 
@@ -139,40 +118,50 @@ export class FitProblem implements SumOfSquaresObjective {
   information(parameters: Float64Array): Float64Array {
     const size = this.parameterCount;
     const information = new Float64Array(size * size);
+    this.ensureDerivatives(parameters);
+    for (let d = 0; d < this.terms.length; d++) {
+      const term = this.terms[d] as DatasetTerm;
+      const scratch = this.scratch[d] as DatasetScratch;
+      const channels = term.model.channelCount;
+      const weights = scratch.weights;
+      for (let k = 0; k < channels; k++) {
+        const n = term.counts[k] as number;
+        weights[k] = this.estimator === 'lsq-neyman' ? 1 / Math.max(n, 1) : 1 / Math.max(scratch.model[k] as number, MODEL_FLOOR_COUNTS);
+      }
+      weightedCrossProducts(scratch.jacobian, channels, scratch.freeSlots, weights, scratch.products);
+      this.addBlock(term, scratch, information, undefined);
+    }
+    return information;
+  }
+
+  /** Adds one dataset's cross products (upper triangle over its free slots) into the p×p matrix and its gradient into `gradient`. */
+  private addBlock(term: DatasetTerm, scratch: DatasetScratch, matrix: Float64Array, gradient: Float64Array | undefined): void {
+    const size = this.parameterCount;
+    const { freeSlots, products, slotGradient } = scratch;
+    const count = freeSlots.length;
+    for (let a = 0; a < count; a++) {
+      const freeA = term.freeIndex[freeSlots[a] as number] as number;
+      if (gradient !== undefined) gradient[freeA] = (gradient[freeA] as number) + (slotGradient[a] as number);
+      for (let b = a; b < count; b++) {
+        const freeB = term.freeIndex[freeSlots[b] as number] as number;
+        const value = products[a * count + b] as number;
+        matrix[freeA * size + freeB] = (matrix[freeA * size + freeB] as number) + value;
+        if (a !== b) matrix[freeB * size + freeA] = (matrix[freeB * size + freeA] as number) + value;
+      }
+    }
+  }
+
+  /** Brings every dataset's model and Jacobian to `parameters`, unless the last evaluation with derivatives was there. */
+  private ensureDerivatives(parameters: Float64Array): void {
+    if (this.derivativesCurrent && sameValues(this.derivativesParameters, parameters)) return;
     for (let d = 0; d < this.terms.length; d++) {
       const term = this.terms[d] as DatasetTerm;
       const scratch = this.scratch[d] as DatasetScratch;
       this.fillLocal(term, scratch.local, parameters);
       term.model.evaluate(scratch.local, true, scratch.model, scratch.jacobian);
-      const channels = term.model.channelCount;
-      const weights = scratch.residualPerModel;
-      for (let k = 0; k < channels; k++) {
-        const n = term.counts[k] as number;
-        weights[k] = this.estimator === 'lsq-neyman' ? 1 / Math.max(n, 1) : 1 / Math.max(scratch.model[k] as number, MODEL_FLOOR_COUNTS);
-      }
-      const { jacobian, freeSlots } = scratch;
-      for (let a = 0; a < freeSlots.length; a++) {
-        const slotA = freeSlots[a] as number;
-        const freeA = term.freeIndex[slotA] as number;
-        for (let b = a; b < freeSlots.length; b++) {
-          const slotB = freeSlots[b] as number;
-          const freeB = term.freeIndex[slotB] as number;
-          let dot = 0;
-          for (let k = 0; k < channels; k++) {
-            dot += (jacobian[slotA * channels + k] as number) * (jacobian[slotB * channels + k] as number) * (weights[k] as number);
-          }
-          information[freeA * size + freeB] = (information[freeA * size + freeB] as number) + dot;
-          if (freeA !== freeB || a !== b) information[freeB * size + freeA] = (information[freeB * size + freeA] as number) + dot;
-        }
-      }
     }
-    return information;
-  }
-
-  /** Adds a JᵀJ entry for free parameters (i, j) and its mirror (once on the diagonal of the same slot). */
-  private accumulate(normal: Float64Array, size: number, freeA: number, freeB: number, dot: number, sameSlot: boolean): void {
-    normal[freeA * size + freeB] = (normal[freeA * size + freeB] as number) + dot;
-    if (freeA !== freeB || !sameSlot) normal[freeB * size + freeA] = (normal[freeB * size + freeA] as number) + dot;
+    this.derivativesParameters.set(parameters);
+    this.derivativesCurrent = true;
   }
 
   private fillLocal(term: DatasetTerm, local: Float64Array, parameters: Float64Array): void {
@@ -181,4 +170,11 @@ export class FitProblem implements SumOfSquaresObjective {
       if (free >= 0) local[j] = parameters[free] as number;
     }
   }
+}
+
+/** True when both vectors hold the same numbers (bit-level equality of finite values). */
+function sameValues(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }

@@ -10,7 +10,7 @@ import type { ResolvedFitDecayOptions } from './options.js';
 import type { PreparedDecay } from './prepare-decay.js';
 import { profileInterval } from './profile-interval.js';
 import { durbinWatson, residualAutocorrelation, runsTest } from './residual-tests.js';
-import type { ComponentResult, DecayFitResult, LifetimeInterval } from './result.js';
+import { plainArray, type ComponentResult, type DecayFitResult, type LifetimeInterval } from './result.js';
 
 /** Durbin–Watson value below which residuals count as correlated (common practice, ~1.7 for TCSPC fits). */
 export const DURBIN_WATSON_WARNING = 1.7;
@@ -81,9 +81,13 @@ export const RUNS_TEST_MIN_MODEL_COUNTS = 5;
  * when fewer than 20 channels qualify.
  */
 export function runsTestResiduals(residuals: Float64Array, model: Float64Array): Float64Array {
-  const kept: number[] = [];
-  for (let k = 0; k < residuals.length; k++) if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) kept.push(residuals[k] as number);
-  return kept.length >= 20 ? Float64Array.from(kept) : residuals;
+  let count = 0;
+  for (let k = 0; k < residuals.length; k++) if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) count++;
+  if (count < 20) return residuals;
+  const kept = new Float64Array(count);
+  let next = 0;
+  for (let k = 0; k < residuals.length; k++) if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) kept[next++] = residuals[k] as number;
+  return kept;
 }
 
 /** Builds the DecayFitResult of a single-decay fit (see header). */
@@ -97,7 +101,7 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
   const counts = term.counts;
   const channels = counts.length;
   const residuals = new Float64Array(channels);
-  estimatorResiduals(options.estimator, counts, model, residuals, undefined);
+  const residualSquares = estimatorResiduals(options.estimator, counts, model, residuals, undefined);
   const freeCount = layout.labels.length;
   const degreesOfFreedom = Math.max(channels - freeCount, 1);
   const covariance = parameterCovariance(fit);
@@ -207,7 +211,7 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     ...(backgroundStdErr === undefined ? {} : { backgroundPerChannelStdErr: backgroundStdErr }),
     scatterFraction,
     chi2Reduced: pearsonChiSquare(counts, model) / degreesOfFreedom,
-    deviance: poissonDeviance(counts, model),
+    deviance: options.estimator === 'ml' ? residualSquares : poissonDeviance(counts, model),
     degreesOfFreedom,
     durbinWatson: dw,
     residualAutocorrelation: residualAutocorrelation(residuals, Math.min(32, Math.floor(channels / 4))),
@@ -218,8 +222,8 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     photonsInRange,
     rangeNs: [prepared.timeNs[firstChannel] as number, prepared.timeNs[endChannel - 1] as number],
     rangeChannels: [firstChannel, endChannel],
-    weightedResiduals: Array.from(residuals),
-    fittedCounts: Array.from(model),
+    weightedResiduals: plainArray(residuals),
+    fittedCounts: plainArray(model),
     freeParameters: [...layout.labels],
     pileUpCorrected: prepared.pileUpCorrected,
     starts: fit.starts,

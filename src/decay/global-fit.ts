@@ -12,7 +12,7 @@ import { resolveFitDecayOptions, type FitDecayOptions } from './options.js';
 import { localParameterCount, type ParameterName } from './parameters.js';
 import { prepareDecay } from './prepare-decay.js';
 import { durbinWatson, runsTest } from './residual-tests.js';
-import type { ComponentResult, GlobalDecayResult, GlobalFitResult } from './result.js';
+import { plainArray, type ComponentResult, type GlobalDecayResult, type GlobalFitResult } from './result.js';
 
 /**
  * Fits `decays` jointly with the parameters in options.links shared (default: all lifetimes τ in ns) by
@@ -43,7 +43,7 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
     const local = problem.localParameters(d, outcome.parameters);
     const model = problem.modelOf(d, outcome.parameters);
     const residuals = new Float64Array(model.length);
-    estimatorResiduals(resolved.estimator, term.counts, model, residuals, undefined);
+    const residualSquares = estimatorResiduals(resolved.estimator, term.counts, model, residuals, undefined);
     const pearson = pearsonChiSquare(term.counts, model);
     pearsonTotal += pearson;
     channelsTotal += model.length;
@@ -56,13 +56,13 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
       shiftNs: local[2 * components] as number,
       backgroundPerChannel: local[2 * components + 1] as number,
       chi2Reduced: pearson / Math.max(model.length - ownFree, 1),
-      deviance: poissonDeviance(term.counts, model),
+      deviance: resolved.estimator === 'ml' ? residualSquares : poissonDeviance(term.counts, model),
       durbinWatson: durbinWatson(residuals),
       runsTest: runsTest(runsTestResiduals(residuals, model)),
       rangeNs: [item.timeNs[item.range.firstChannel] as number, item.timeNs[item.range.endChannel - 1] as number],
       photons,
-      weightedResiduals: Array.from(residuals),
-      fittedCounts: Array.from(model),
+      weightedResiduals: plainArray(residuals),
+      fittedCounts: plainArray(model),
     };
   });
   const first = decayResults[0];

@@ -5,7 +5,10 @@
 // decrement ≪ 1 means the parameters are within a tiny fraction of a standard error of the minimum).
 import { choleskyInPlace, choleskySolveInPlace } from './linear-algebra.js';
 
-/** A sum-of-squares objective: returns Σ r² and, when asked, the normal matrix JᵀJ (row-major p×p) and gradient Jᵀr. */
+/**
+ * A sum-of-squares objective: returns Σ r² and, when asked, the normal matrix JᵀJ (row-major p×p) and
+ * gradient Jᵀr. Σ r² must not depend on `withDerivatives` (bit for bit): the loop compares values from both.
+ */
 export interface SumOfSquaresObjective {
   readonly parameterCount: number;
   evaluate(parameters: Float64Array, withDerivatives: boolean, normal: Float64Array, gradient: Float64Array): number;
@@ -46,11 +49,10 @@ export function minimiseLevenbergMarquardt(
   const step = new Float64Array(size);
   const trial = new Float64Array(size);
   const active = new Uint8Array(size);
-  const scratchNormal = new Float64Array(size * size);
-  const scratchGradient = new Float64Array(size);
-  const withDerivatives = objective.evaluate(parameters, true, normal, gradient);
-  // Σ r² is always compared through the objective-only path, so accepted and trial values agree exactly.
-  let value = Number.isFinite(withDerivatives) ? objective.evaluate(parameters, false, scratchNormal, scratchGradient) : Number.NaN;
+  const trialNormal = new Float64Array(size * size);
+  const trialGradient = new Float64Array(size);
+  const scaledGradient = new Float64Array(size);
+  let value = objective.evaluate(parameters, true, normal, gradient);
   const finish = (converged: boolean, iterations: number, reason: string): MinimiserOutcome => ({
     converged, iterations, reason, parameters, objective: value,
   });
@@ -61,11 +63,15 @@ export function minimiseLevenbergMarquardt(
   let growth = 2;
   for (let iteration = 0; iteration <= maxIterations; iteration++) {
     markActive(parameters, gradient, lower, upper, active);
-    const decrement = newtonDecrement(normal, gradient, active, size, damped, step);
+    const decrement = newtonDecrement(normal, gradient, active, size, damped, step, scaledGradient);
     if (decrement !== undefined && decrement < DECREMENT_TOLERANCE) {
       return finish(true, iteration, `converged: Newton decrement ${decrement.toExponential(1)} < ${DECREMENT_TOLERANCE}`);
     }
     if (iteration === maxIterations) break;
+    // The first trial of an iteration also computes JᵀJ and Jᵀr (usually it is accepted, and they are the
+    // next iteration's); retries after a rejection compute Σ r² only.
+    let trialWithDerivatives = true;
+    let acceptedWithDerivatives: boolean;
     for (;;) {
       buildDamped(normal, active, lambda, size, damped);
       for (let i = 0; i < size; i++) step[i] = active[i] === 1 ? 0 : -(gradient[i] as number);
@@ -76,15 +82,17 @@ export function minimiseLevenbergMarquardt(
           step[i] = (trial[i] as number) - (parameters[i] as number);
         }
         const predicted = predictedDecrease(normal, gradient, step, size);
-        const trialValue = objective.evaluate(trial, false, scratchNormal, scratchGradient);
+        const trialValue = objective.evaluate(trial, trialWithDerivatives, trialNormal, trialGradient);
         if (Number.isFinite(trialValue) && trialValue < value) {
           const gain = predicted > 0 ? (value - trialValue) / predicted : 0;
           lambda *= Math.max(1 / 3, 1 - Math.pow(2 * gain - 1, 3));
           growth = 2;
           parameters.set(trial);
           value = trialValue;
+          acceptedWithDerivatives = trialWithDerivatives;
           break;
         }
+        trialWithDerivatives = false;
         if (Number.isFinite(trialValue) && trialValue === value && decrement !== undefined && decrement < 1e-4) {
           return finish(true, iteration + 1, `converged: no further decrease (Newton decrement ${decrement.toExponential(1)})`);
         }
@@ -98,8 +106,13 @@ export function minimiseLevenbergMarquardt(
         return finish(false, iteration + 1, 'stalled: no step lowers the objective (check start values, range and bounds)');
       }
     }
-    const refreshed = objective.evaluate(parameters, true, normal, gradient);
-    if (!Number.isFinite(refreshed) || !allFinite(gradient) || !allFinite(normal)) {
+    if (acceptedWithDerivatives) {
+      normal.set(trialNormal);
+      gradient.set(trialGradient);
+    } else {
+      objective.evaluate(parameters, true, normal, gradient);
+    }
+    if (!allFinite(gradient) || !allFinite(normal)) {
       return finish(false, iteration + 1, 'the model became non-finite during the fit');
     }
   }
@@ -143,6 +156,7 @@ function buildDamped(normal: Float64Array, active: Uint8Array, lambda: number, s
 /** gᵀA⁻¹g over the free set (computed on the Jacobi-scaled matrix for conditioning), or undefined when A is singular there. */
 function newtonDecrement(
   normal: Float64Array, gradient: Float64Array, active: Uint8Array, size: number, work: Float64Array, vector: Float64Array,
+  scaled: Float64Array,
 ): number | undefined {
   for (let i = 0; i < size; i++) {
     const scaleI = active[i] === 1 ? 1 : 1 / Math.sqrt(Math.max(normal[i * size + i] as number, Number.MIN_VALUE));
@@ -152,7 +166,7 @@ function newtonDecrement(
     }
     vector[i] = active[i] === 1 ? 0 : (gradient[i] as number) * scaleI;
   }
-  const scaled = Float64Array.from(vector);
+  scaled.set(vector);
   if (!choleskyInPlace(work, size)) return undefined;
   choleskySolveInPlace(work, size, vector);
   let sum = 0;

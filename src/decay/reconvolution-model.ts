@@ -1,8 +1,11 @@
 // Reconvolution model: I(t) = b + s·IRF + Σ aᵢ·exp(−t/τᵢ) ⊗ IRF(t − shift), channel-integrated, with
-// optional periodic excitation; the linear parameters are the component photon counts pᵢ = aᵢτᵢ/Δ. Uses the exact recursion of exponential-convolution.ts; O(c·channels).
+// optional periodic excitation; the linear parameters are the component photon counts pᵢ = aᵢτᵢ/Δ. Uses the exact
+// recursion of exponential-convolution.ts, with derivatives in one pass per component (reconvolution-component.ts);
+// the shifted IRF is kept while the shift does not change. O(c·channels); buffers are allocated once.
 import type { DatasetModel } from './dataset-model.js';
 import { convolveExponentialWithIrf, type ConvolutionBuffers } from './exponential-convolution.js';
 import { shiftIrf } from './irf-shift.js';
+import { addComponentWithDerivatives } from './reconvolution-component.js';
 
 export interface ReconvolutionSetup {
   /** IRF per channel over the whole histogram, normalised to unit sum. */
@@ -23,8 +26,15 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
   const channelCount = endChannel - firstChannel;
   const shifted = new Float64Array(irfUnit.length);
   const slope = new Float64Array(irfUnit.length);
-  const shiftScratch = new Float64Array(channelCount * components);
-  const scratchTau = new Float64Array(channelCount);
+  // The recursion reads the shifted IRF up to the range end, or over the whole histogram with earlier pulses.
+  const shiftedChannels = periodNs === undefined ? Math.min(endChannel, irfUnit.length) : irfUnit.length;
+  // The shifted IRF (and its slope) of the last evaluation: reused while the shift is unchanged.
+  let shiftedForNs = Number.NaN;
+  let slopeForNs = Number.NaN;
+  // Per-component ∂R/∂shift, only for the two-pass path with earlier pulses (the single pass adds it directly).
+  const shiftScratch = new Float64Array(periodNs === undefined ? 0 : channelCount * components);
+  // The value-only path writes no derivatives: its buffers need no room for them.
+  const noDerivatives = new Float64Array(0);
   const buffers: ConvolutionBuffers[] = [];
   const valueBuffers: ConvolutionBuffers[] = [];
   let boundJacobian: Float64Array | undefined;
@@ -39,9 +49,15 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
         responsePerTauNs: jacobian.subarray(i * channelCount, (i + 1) * channelCount),
         responsePerShiftNs: shiftScratch.subarray(i * channelCount, (i + 1) * channelCount),
       });
-      valueBuffers.push({ response, responsePerTauNs: scratchTau, responsePerShiftNs: scratchTau });
+      valueBuffers.push({ response, responsePerTauNs: noDerivatives, responsePerShiftNs: noDerivatives });
     }
     boundJacobian = jacobian;
+  };
+  const prepareShiftedIrf = (shiftNs: number, withSlope: boolean): void => {
+    if (shiftNs === shiftedForNs && (!withSlope || shiftNs === slopeForNs)) return;
+    shiftIrf(irfUnit, shiftNs, channelWidthNs, shifted, withSlope ? slope : undefined, shiftedChannels);
+    shiftedForNs = shiftNs;
+    slopeForNs = withSlope ? shiftNs : Number.NaN;
   };
   return {
     channelCount,
@@ -51,48 +67,81 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
       const shiftNs = local[2 * components] as number;
       const background = local[2 * components + 1] as number;
       const scatter = local[2 * components + 2] as number;
-      shiftIrf(irfUnit, shiftNs, channelWidthNs, shifted, withDerivatives ? slope : undefined);
-      for (let k = 0; k < channelCount; k++) model[k] = background + scatter * (shifted[firstChannel + k] as number);
+      prepareShiftedIrf(shiftNs, withDerivatives);
+      const shiftColumn = jacobian.subarray(2 * components * channelCount, (2 * components + 1) * channelCount);
+      if (withDerivatives) {
+        const backgroundColumn = jacobian.subarray((2 * components + 1) * channelCount, (2 * components + 2) * channelCount);
+        const scatterColumn = jacobian.subarray((2 * components + 2) * channelCount, (2 * components + 3) * channelCount);
+        startWithDerivatives(model, channelCount, shifted, slope, firstChannel, background, scatter, shiftColumn, backgroundColumn, scatterColumn);
+      } else {
+        startModel(model, channelCount, shifted, firstChannel, background, scatter);
+      }
       for (let i = 0; i < components; i++) {
         const buffer = buffers[i] as ConvolutionBuffers;
         const tauNs = local[i] as number;
         // The linear parameter is the component's photon count p = a·τ/Δ (a = amplitude): p and τ are
         // nearly uncorrelated, which keeps LM well conditioned when τ is short against the IRF.
         const amplitude = ((local[components + i] as number) * channelWidthNs) / tauNs;
-        const photonScale = channelWidthNs / tauNs;
+        if (withDerivatives && periodNs === undefined) {
+          // The common case in one pass (reconvolution-component.ts); the same values as the two passes below.
+          addComponentWithDerivatives(shifted, slope, tauNs, channelWidthNs, amplitude, firstChannel, channelCount, {
+            model, perTauNs: buffer.responsePerTauNs, perPhoton: buffer.response, perShiftNs: shiftColumn,
+          });
+          continue;
+        }
         const target = withDerivatives ? buffer : (valueBuffers[i] as ConvolutionBuffers);
         convolveExponentialWithIrf(
           shifted, withDerivatives ? slope : undefined, tauNs, channelWidthNs, periodNs,
           firstChannel, endChannel, withDerivatives, target,
         );
-        const response = buffer.response;
-        for (let k = 0; k < channelCount; k++) model[k] = (model[k] as number) + amplitude * (response[k] as number);
-        if (withDerivatives) {
-          // ∂m/∂τ at fixed p = a·(∂R/∂τ − R/τ); ∂m/∂p = R·Δ/τ.
-          const perTau = buffer.responsePerTauNs;
-          const inverseTau = 1 / tauNs;
-          for (let k = 0; k < channelCount; k++) {
-            perTau[k] = amplitude * ((perTau[k] as number) - (response[k] as number) * inverseTau);
-            response[k] = (response[k] as number) * photonScale;
-          }
-        }
-      }
-      if (!withDerivatives) return;
-      const shiftOffset = 2 * components * channelCount;
-      const backgroundOffset = shiftOffset + channelCount;
-      const scatterOffset = backgroundOffset + channelCount;
-      for (let k = 0; k < channelCount; k++) {
-        jacobian[shiftOffset + k] = scatter * (slope[firstChannel + k] as number);
-        jacobian[backgroundOffset + k] = 1;
-        jacobian[scatterOffset + k] = shifted[firstChannel + k] as number;
-      }
-      for (let i = 0; i < components; i++) {
-        const amplitude = ((local[components + i] as number) * channelWidthNs) / (local[i] as number);
-        const offset = i * channelCount;
-        for (let k = 0; k < channelCount; k++) {
-          jacobian[shiftOffset + k] = (jacobian[shiftOffset + k] as number) + amplitude * (shiftScratch[offset + k] as number);
-        }
+        if (withDerivatives) addConvolvedComponent(model, channelCount, buffer, shiftColumn, amplitude, tauNs, channelWidthNs);
+        else addComponent(model, channelCount, buffer.response, amplitude);
       }
     },
   };
+}
+
+// The passes below take every array as an argument (no captured variables), so the compiled loops keep them in registers.
+
+/** model[k] = b + s·g_shift[firstChannel + k] on the channelCount range channels: background and scatter. */
+function startModel(model: Float64Array, channelCount: number, shifted: Float64Array, firstChannel: number, background: number, scatter: number): void {
+  for (let k = 0; k < channelCount; k++) model[k] = background + scatter * (shifted[firstChannel + k] as number);
+}
+
+/** startModel plus the shift (scatter part), background and scatter columns of the Jacobian. */
+function startWithDerivatives(
+  model: Float64Array, channelCount: number, shifted: Float64Array, slope: Float64Array, firstChannel: number, background: number, scatter: number,
+  shiftColumn: Float64Array, backgroundColumn: Float64Array, scatterColumn: Float64Array,
+): void {
+  for (let k = 0; k < channelCount; k++) {
+    const irf = shifted[firstChannel + k] as number;
+    model[k] = background + scatter * irf;
+    shiftColumn[k] = scatter * (slope[firstChannel + k] as number);
+    backgroundColumn[k] = 1;
+    scatterColumn[k] = irf;
+  }
+}
+
+/** model += a·R (a = amplitude in counts per channel, R = response per unit amplitude). */
+function addComponent(model: Float64Array, channelCount: number, response: Float64Array, amplitude: number): void {
+  for (let k = 0; k < channelCount; k++) model[k] = (model[k] as number) + amplitude * (response[k] as number);
+}
+
+/**
+ * One pass over a component's convolution outputs (used with earlier pulses): m += a·R; ∂m/∂τ at fixed p = a·(∂R/∂τ − R/τ) (in place
+ * of ∂R/∂τ); ∂m/∂p = R·Δ/τ (in place of R); ∂m/∂shift += a·∂R/∂shift.
+ */
+function addConvolvedComponent(
+  model: Float64Array, channelCount: number, buffer: ConvolutionBuffers, shiftColumn: Float64Array, amplitude: number, tauNs: number, channelWidthNs: number,
+): void {
+  const { response, responsePerTauNs: perTau, responsePerShiftNs: perShift } = buffer;
+  const inverseTau = 1 / tauNs;
+  const photonScale = channelWidthNs / tauNs;
+  for (let k = 0; k < channelCount; k++) {
+    const value = response[k] as number;
+    model[k] = (model[k] as number) + amplitude * value;
+    perTau[k] = amplitude * ((perTau[k] as number) - value * inverseTau);
+    response[k] = value * photonScale;
+    shiftColumn[k] = (shiftColumn[k] as number) + amplitude * (perShift[k] as number);
+  }
 }

@@ -6,6 +6,7 @@
 import type { DatasetModel } from './dataset-model.js';
 import { choleskyInPlace, choleskySolveInPlace } from './linear-algebra.js';
 import { peakChannel } from './irf-metrics.js';
+import { weightedCrossProducts } from './weighted-cross-products.js';
 
 /** Lifetime multipliers of the tail estimate per number of components; each row is one start (multi-start). */
 export const LIFETIME_SPREADS: Readonly<Record<number, readonly (readonly number[])[]>> = {
@@ -93,20 +94,21 @@ export function estimateTailLifetimeNs(
   return Math.min(Math.max(tauNs, channelWidthNs / 2), spanNs * 10);
 }
 
-/** Reusable buffers for solveLinearParameters: Jacobian (slots × channels) and model (channels). */
+/** Reusable buffers for solveLinearParameters: Jacobian (slots × channels) followed by the residual column n − m₀ (channels). */
 export interface LinearSolveScratch {
   readonly jacobian: Float64Array;
+  /** Index of the residual column in `jacobian` (= slots). */
+  readonly baseColumn: number;
+  /** The residual column, a view into `jacobian`. */
   readonly base: Float64Array;
   readonly weights: Float64Array;
 }
 
 /** Allocates the buffers of solveLinearParameters for a model. */
 export function linearSolveScratch(model: DatasetModel, slots: number): LinearSolveScratch {
-  return {
-    jacobian: new Float64Array(slots * model.channelCount),
-    base: new Float64Array(model.channelCount),
-    weights: new Float64Array(model.channelCount),
-  };
+  const channels = model.channelCount;
+  const jacobian = new Float64Array((slots + 1) * channels);
+  return { jacobian, baseColumn: slots, base: jacobian.subarray(slots * channels), weights: new Float64Array(channels) };
 }
 
 /**
@@ -128,20 +130,17 @@ export function solveLinearParameters(
     weights[k] = 1 / (n > 1 ? n : 1);
     base[k] = n - (base[k] as number);
   }
+  // Normal matrix Σ w·∂m∂mᵀ and right-hand side Σ w·∂m·(n − m₀) as the cross products of the columns and the residual column.
   const size = linearSlots.length;
+  const products = new Float64Array((size + 1) * (size + 1));
+  weightedCrossProducts(jacobian, channels, Int32Array.from([...linearSlots, scratch.baseColumn]), weights, products);
   const normal = new Float64Array(size * size);
   const rhs = new Float64Array(size);
   for (let a = 0; a < size; a++) {
-    const offsetA = (linearSlots[a] as number) * channels;
-    let sumRhs = 0;
-    for (let k = 0; k < channels; k++) sumRhs += (weights[k] as number) * (jacobian[offsetA + k] as number) * (base[k] as number);
-    rhs[a] = sumRhs;
+    rhs[a] = products[a * (size + 1) + size] as number;
     for (let b = a; b < size; b++) {
-      const offsetB = (linearSlots[b] as number) * channels;
-      let sum = 0;
-      for (let k = 0; k < channels; k++) sum += (weights[k] as number) * (jacobian[offsetA + k] as number) * (jacobian[offsetB + k] as number);
-      normal[a * size + b] = sum;
-      normal[b * size + a] = sum;
+      normal[a * size + b] = products[a * (size + 1) + b] as number;
+      normal[b * size + a] = products[a * (size + 1) + b] as number;
     }
   }
   if (!choleskyInPlace(normal, size)) return false;

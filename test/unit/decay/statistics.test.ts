@@ -2,6 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { countsLogCounts, estimatorObjective, estimatorResiduals, estimatorWeights, pearsonChiSquare, poissonDeviance } from '../../../src/decay/estimators.js';
 import { chiSquareQuantileOneDof, normalCdf, normalQuantile } from '../../../src/decay/normal-distribution.js';
+import { createSeededRandom } from '../../../src/decay/random.js';
 import { durbinWatson, residualAutocorrelation, runsTest } from '../../../src/decay/residual-tests.js';
 
 describe('normal distribution and chi-square quantile', () => {
@@ -79,6 +80,22 @@ describe('Gauss–Newton weights without square roots', () => {
   });
 });
 
+describe('deviance from the residual pass', () => {
+  it('is the Poisson deviance itself for ml, bit for bit', () => {
+    const counts = Float64Array.from([0, 1, 5, 10, 3, 7, 7, 2]);
+    const model = Float64Array.from([0.5, 2, 4.5, 12, 3.2, 7, 7.000000000000001, 1e-12]);
+    expect(estimatorResiduals('ml', counts, model, new Float64Array(8), undefined)).toBe(poissonDeviance(counts, model));
+  });
+});
+
+describe('n·ln(n) per channel', () => {
+  it('takes small whole counts from a table with the same values as the direct expression', () => {
+    const counts = Float64Array.from([...Array.from({ length: 5000 }, (_unused, k) => k), 0.5, 2.25, 4095.5, 1e6 + 0.5, 123456]);
+    const countsLog = countsLogCounts(counts);
+    counts.forEach((n, k) => expect(countsLog[k]).toBe(n > 0 ? n * Math.log(n) : 0));
+  });
+});
+
 describe('residual tests', () => {
   it('Durbin–Watson by hand', () => {
     // r = [1, -1, 1, -1]: Σ(Δr)² = 3·4 = 12, Σr² = 4 → 3 (hand calculation from the definition).
@@ -93,6 +110,23 @@ describe('residual tests', () => {
     expect(result.runs).toBe(3);
     expect(result.expectedRuns).toBeCloseTo(3.4, 12);
     expect(result.z).toBeCloseTo(-0.4 / Math.sqrt(0.84), 12);
+  });
+
+  it('autocorrelation in blocks of lags equals the definition one lag at a time, bit for bit', () => {
+    const random = createSeededRandom(5);
+    for (const [length, maxLag] of [[1, 32], [3, 32], [7, 5], [40, 32], [101, 9], [1000, 32]] as const) {
+      const residuals = Float64Array.from({ length }, () => random.nextUniform() - 0.5);
+      let power = 0;
+      for (let k = 0; k < length; k++) power += (residuals[k] as number) ** 2;
+      power /= length;
+      const expected: number[] = [];
+      for (let lag = 0; lag <= Math.min(maxLag, length - 1); lag++) {
+        let sum = 0;
+        for (let k = 0; k + lag < length; k++) sum += (residuals[k] as number) * (residuals[k + lag] as number);
+        expected.push(sum / (length - lag) / power);
+      }
+      expect(residualAutocorrelation(residuals, maxLag)).toEqual(expected);
+    }
   });
 
   it('autocorrelation is 1 at lag 0 and −1 at lag 1 for an alternating sequence', () => {
