@@ -23,15 +23,24 @@ export const ERROR_CODES = {
   JSON_INVALID: { kind: 'input', hint: 'The JSON does not match the driftlight data schema (schemas/data.schema.json).' },
   METADATA_INVALID: { kind: 'input', hint: 'A metadata value could not be read; check its number format and unit.' },
   INPUT_INVALID: { kind: 'input', hint: 'The input does not meet the requirements of this analysis; see the message.' },
+  AXIS_NOT_COVERED: { kind: 'input', hint: 'The correction data (blank, detector curve, absorbance) must cover the whole spectrum; trim the spectrum or supply a wider curve.' },
+  EXCITATION_MISMATCH: { kind: 'input', hint: 'Measure the blank at the same excitation wavelength as the sample, or widen the tolerance in the options.' },
+  MANIFEST_INVALID: { kind: 'input', hint: 'Fix the set manifest (NAME.set.yaml); docs/pipeline.md describes its fields.' },
+  DUPLICATE_INPUT: { kind: 'input', hint: 'This content was already processed; run `driftlight reprocess` to analyse it again.' },
+  SET_FAILED: { kind: 'input', hint: 'The measurement set could not be analysed; see the message, fix the inputs and drop them in again.' },
   // Configuration (class ConfigInvalid: fix the config, then restart)
   CONFIG_INVALID: { kind: 'config', hint: 'Fix the named config path; `driftlight config check` validates a file.' },
   // Transient (class Transient: retried with backoff)
   TRANSIENT: { kind: 'transient', hint: 'A temporary failure; it will be retried automatically.' },
+  JOB_TIMEOUT: { kind: 'transient', hint: 'The job ran longer than queue.jobTimeoutMs; raise it if such long fits are expected.' },
+  WORKER_LOST: { kind: 'transient', hint: 'The thread or process running the job died or stalled; the job is retried elsewhere.' },
+  QUEUE_UNAVAILABLE: { kind: 'transient', hint: 'The queue cannot reach Redis; check queue.redisUrl and that Redis is running.' },
   // Analysis could not produce a trustworthy result (class AnalysisFailed: not retried)
   FIT_FAILED: { kind: 'analysis', hint: 'The fit did not converge; check the fit range, the IRF and the number of components.' },
   OUT_OF_RANGE: { kind: 'analysis', hint: 'A value is outside the range where the method is valid; see the message.' },
   // Internal (a bug: please report with the input file)
   INTERNAL: { kind: 'internal', hint: 'This is a driftlight bug; report it with the input file.' },
+  QUEUE_CLOSED: { kind: 'internal', hint: 'The job queue was closed; enqueue before close() (a bug in the caller).' },
 } as const;
 
 export type ErrorCode = keyof typeof ERROR_CODES;

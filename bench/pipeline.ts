@@ -1,0 +1,168 @@
+// Pipeline benchmark (JSON lines): throughput and latency (file stable → result written) for 1,000
+// sets of emission + absorbance + decay + IRF through the embedded default (watcher, in-process
+// worker-thread pool, SQLite ledger); bare analyze() throughput for the ratio; and a 10,000-file
+// backlog present at start-up with peak RSS. Run: `npm run build && node dist/bench/pipeline.js`
+// (options: --sets N, --backlog-files N, --skip-backlog).
+import { spawnSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { analyze } from '../src/analysis/analyze.js';
+import { resolveConfig } from '../src/config/resolve.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from '../src/demo/synthetic.js';
+import { writeDecayCsv, writeSpectrumCsv } from '../src/formats/index.js';
+import { createLogger } from '../src/output/logger.js';
+import { buildPayload } from '../src/pipeline/dispatch.js';
+import { openPipeline, type Pipeline } from '../src/pipeline/runtime.js';
+import { watchInbox } from '../src/pipeline/watcher.js';
+import { softwareVersion } from '../src/cli/version.js';
+
+const args = process.argv.slice(2);
+const argValue = (name: string, fallback: number): number => {
+  const i = args.indexOf(name);
+  return i >= 0 ? Number(args[i + 1]) : fallback;
+};
+const SETS = argValue('--sets', 1000);
+const BACKLOG_FILES = argValue('--backlog-files', 10_000);
+const STABILITY_MS = 200;
+
+function emit(record: Record<string, unknown>): void {
+  process.stdout.write(`${JSON.stringify({ bench: 'pipeline', ...record })}\n`);
+}
+
+/** Four files of one set (emission, absorbance, decay without IRF, separate IRF), 256 channels. */
+function setFiles(sampleId: string, seed: number): { name: string; content: string }[] {
+  const random = seededRandom(seed);
+  const a = 0.03 + (seed % 10) * 0.001;
+  const meta = { sampleId, acquiredAt: '2026-03-14T10:00:00Z' };
+  const em = emissionSpectrum({ peakNm: 540, widthNm: 40, integral: emissionIntegralFor(0.5, a, 1.3618), stepNm: 2 }, { ...meta, excitationNm: 480, solvent: 'ethanol' }, random);
+  const abs = absorbanceSpectrum({ bandPeakNm: 515, bandWidthNm: 55, excitationNm: 480, absorbanceAtExcitation: a, fromNm: 400, toNm: 740 }, meta, random);
+  const decay = decayHistogram({ tauNs: [2 + (seed % 7) * 0.3], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, meta, random);
+  return [
+    { name: `${sampleId}_em.csv`, content: writeSpectrumCsv(em) },
+    { name: `${sampleId}_abs.csv`, content: writeSpectrumCsv(abs) },
+    { name: `${sampleId}_decay.csv`, content: writeDecayCsv(withoutIrf(decay)) },
+    { name: `${sampleId}_irf.csv`, content: writeDecayCsv(irfAsDecay(decay, { acquiredAt: new Date(Date.parse(meta.acquiredAt) - (seed % 3600) * 1000).toISOString() })) },
+  ];
+}
+
+function workspace(): { dir: string; config: ReturnType<typeof resolveConfig> } {
+  const dir = mkdtempSync(join(tmpdir(), 'dl-bench-'));
+  mkdirSync(join(dir, 'inbox'), { recursive: true });
+  const config = resolveConfig({
+    watch: { stabilityWindowMs: STABILITY_MS, pollIntervalMs: 50 },
+    assembly: { setTimeoutMs: 600_000 },
+    logging: { level: 'warn', stdout: 'off' },
+  }, { baseDir: dir });
+  return { dir, config };
+}
+
+async function startWatching(pipeline: Pipeline): Promise<() => Promise<void>> {
+  let chain: Promise<void> = Promise.resolve();
+  const watcher = watchInbox(pipeline.config.folders.inbox, pipeline.config.watch, {
+    onFile: (path) => {
+      chain = chain.then(() => pipeline.coordinator.intake(path));
+    },
+  });
+  return async () => {
+    await watcher.close();
+    await chain;
+  };
+}
+
+function waitForDone(pipeline: Pipeline, sets: number): Promise<void> {
+  return new Promise((resolve) => {
+    const check = (): void => {
+      const row = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM sets WHERE state = 'done'`).get() as { n: number };
+      if (row.n >= sets) resolve();
+      else setTimeout(check, 50);
+    };
+    check();
+  });
+}
+
+function latencies(pipeline: Pipeline): number[] {
+  const rows = pipeline.ledger.database
+    .prepare(`SELECT s.done_at AS doneAt, MAX(f.first_seen_at) AS lastSeen FROM sets s JOIN files f ON f.set_id = s.id WHERE s.state = 'done' GROUP BY s.id`)
+    .all() as { doneAt: string; lastSeen: string }[];
+  return rows.map((r) => Date.parse(r.doneAt) - Date.parse(r.lastSeen)).sort((a, b) => a - b);
+}
+
+const quantile = (sorted: readonly number[], q: number): number => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? Number.NaN;
+
+async function throughputAndLatency(): Promise<void> {
+  // Phase 1: a burst of SETS sets (throughput).
+  const burst = workspace();
+  const logger = createLogger(burst.config.logging, burst.config.logFile);
+  const files = Array.from({ length: SETS }, (_u, i) => setFiles(`bench-${String(i).padStart(5, '0')}`, i + 1));
+  const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
+  const stop = await startWatching(pipeline);
+  const t0 = Date.now();
+  for (const set of files) for (const f of set) writeFileSync(join(burst.config.folders.inbox, f.name), f.content);
+  await waitForDone(pipeline, SETS);
+  const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files').get() as { t: string }).t);
+  const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets').get() as { t: string }).t);
+  const pipelineSetsPerS = SETS / ((lastDone - firstSeen) / 1000);
+  emit({ scenario: 'burst', sets: SETS, files: SETS * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)) });
+
+  // Bare analyze(): the same payloads, one thread, no I/O.
+  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets ORDER BY id LIMIT 200`).all() as { id: string }[]).map((r) => r.id);
+  const rules = { fileNamePatterns: [], referencePatterns: [], controlPatterns: [], requiredParts: burst.config.assembly.requiredParts, referenceRequiredParts: burst.config.assembly.referenceRequiredParts, setTimeoutMs: 0 };
+  const payloads = setIds.map((id) => buildPayload({ ledger: pipeline.ledger, config: burst.config, configHash: '0'.repeat(64), softwareVersion: softwareVersion(), rules, now: new Date() }, id));
+  const b0 = performance.now();
+  for (const payload of payloads) analyze(payload);
+  const bareSetsPerS = payloads.length / ((performance.now() - b0) / 1000);
+  const threads = Math.min(burst.config.queue.concurrency, 2);
+  emit({ scenario: 'bare-analyze', sets: payloads.length, setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)), ratioPipelineToIdealThreads: Number((pipelineSetsPerS / (bareSetsPerS * threads)).toFixed(3)), idealThreads: threads });
+  await stop();
+  await pipeline.close();
+
+  // Phase 2: steady arrivals at 60 % of the measured throughput (latency).
+  const steady = workspace();
+  const steadyPipeline = openPipeline(steady.config, { softwareVersion: softwareVersion(), logger: createLogger(steady.config.logging, steady.config.logFile) });
+  const stopSteady = await startWatching(steadyPipeline);
+  const steadySets = Math.min(SETS, 300);
+  const intervalMs = 1000 / (0.6 * pipelineSetsPerS);
+  for (let i = 0; i < steadySets; i++) {
+    for (const f of files[i] ?? []) writeFileSync(join(steady.config.folders.inbox, f.name), f.content);
+    await new Promise((r) => setTimeout(r, intervalMs));
+  }
+  await waitForDone(steadyPipeline, steadySets);
+  const lat = latencies(steadyPipeline);
+  emit({ scenario: 'latency', sets: steadySets, arrivalIntervalMs: Number(intervalMs.toFixed(1)), stabilityWindowMs: STABILITY_MS, latencyBeyondStabilityP50Ms: quantile(lat, 0.5), latencyBeyondStabilityP95Ms: quantile(lat, 0.95), latencyMaxMs: lat[lat.length - 1] });
+  await stopSteady();
+  await steadyPipeline.close();
+}
+
+async function backlog(): Promise<void> {
+  const { config } = workspace();
+  const sets = Math.ceil(BACKLOG_FILES / 4);
+  for (let i = 0; i < sets; i++) for (const f of setFiles(`backlog-${String(i).padStart(5, '0')}`, 50_000 + i)) writeFileSync(join(config.folders.inbox, f.name), f.content);
+  (globalThis as { gc?: () => void }).gc?.();
+  const rssBefore = process.memoryUsage().rss;
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger: createLogger(config.logging, config.logFile) });
+  await pipeline.coordinator.recover();
+  let peakRss = 0;
+  const sampler = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage().rss); }, 100);
+  const t0 = Date.now();
+  const stop = await startWatching(pipeline);
+  await waitForDone(pipeline, sets);
+  const wallMs = Date.now() - t0;
+  clearInterval(sampler);
+  await stop();
+  await pipeline.close();
+  const maxRssBytes = process.resourceUsage().maxRSS * 1024;
+  emit({ scenario: 'backlog', files: sets * 4, sets, wallMs, setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)), peakRssMbSampled: Math.round(peakRss / 1e6), maxRssMbProcess: Math.round(maxRssBytes / 1e6), rssBeforeMb: Math.round(rssBefore / 1e6), ledgerBytes: readFileSync(join(config.folders.state, 'ledger.sqlite')).length });
+}
+
+// The backlog runs in a child process of its own so its peak RSS is not the earlier phases'.
+if (args.includes('--backlog-only')) {
+  await backlog();
+} else {
+  await throughputAndLatency();
+  if (!args.includes('--skip-backlog')) {
+    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES)], { stdio: 'inherit' });
+    if (child.status !== 0) process.exitCode = 1;
+  }
+}

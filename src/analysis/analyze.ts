@@ -1,0 +1,167 @@
+// analyze(payload): the pure composition of readers, corrections, lifetime fit, quantum yield and
+// rate constants into one AnalysisResult. A partial set gives a partial result that says what is
+// missing and why; nothing here reads files, the clock or the environment.
+import type { Spectrum } from '../model/spectrum.js';
+import { ramanTest } from '../spectra/index.js';
+import { buildArtifacts } from './artifacts.js';
+import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
+import { absorbanceSummary, correctEmission, emissionMetrics } from './emission-step.js';
+import { decayOf, parseInputs, spectrumOf } from './parse-inputs.js';
+import type { AnalysisJobPayload, AnalysisOutput } from './payload.js';
+import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary } from './result.js';
+import { attempt, createStepContext, markMissing } from './step-context.js';
+import { computeQuantumYield, computeRates } from './yield-step.js';
+
+const SAMPLE_ROLES = new Set(['sample', 'control']);
+
+/** Analyses one measurement set; never throws for bad or missing parts (they are reported in `missing`). */
+export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
+  const context = createStepContext();
+  for (const m of payload.missingParts) markMissing(context, m.part, m.reason);
+  const parsed = parseInputs(payload, context);
+  const settings = payload.settings;
+
+  const emissionRaw = spectrumOf(parsed, 'emission', context) ?? (payload.role === 'raman' ? spectrumOf(parsed, 'raman', context) : undefined);
+  const decay = decayOf(parsed, 'decay', context);
+  const primaryMetadata = emissionRaw?.metadata ?? decay?.metadata ?? firstMetadata(parsed);
+  const excitationNm = payload.sampleInfo.excitationNm ?? emissionRaw?.metadata.excitationNm ?? decay?.metadata.excitationNm;
+  const solvent = payload.sampleInfo.solvent ?? primaryMetadata?.solvent;
+  const blank = spectrumOf(parsed, 'blank', context);
+  const detectorCurve = spectrumOf(parsed, 'detector-curve', context);
+  const absorbance = spectrumOf(parsed, 'absorbance', context);
+
+  // Emission: corrections in order, then metrics.
+  let correctedEmission: Spectrum | undefined;
+  let yieldEmission: Spectrum | undefined;
+  if (emissionRaw !== undefined && payload.role !== 'raman') {
+    const done = correctEmission(emissionRaw, { ...(blank ? { blank } : {}), ...(detectorCurve ? { detectorCurve } : {}), ...(absorbance ? { absorbance } : {}), ...(excitationNm === undefined ? {} : { excitationNm }) }, settings, 'emission', context);
+    correctedEmission = done.corrected;
+    yieldEmission = done.forYield;
+  }
+  const emission = correctedEmission === undefined ? undefined : attempt(context, 'emission metrics', () => emissionMetrics(correctedEmission));
+  let absorbanceInfo: AbsorbanceSummary | undefined;
+  if (absorbance !== undefined) {
+    if (excitationNm === undefined) markMissing(context, 'absorbance at excitation', 'the excitation wavelength is not given by the files or the manifest');
+    else {
+      absorbanceInfo = absorbanceSummary(absorbance, excitationNm, settings.cuvette.pathLengthCm);
+      if (absorbanceInfo === undefined) markMissing(context, 'absorbance at excitation', `the absorbance spectrum does not cover ${excitationNm} nm`);
+    }
+  }
+
+  // Lifetime.
+  let decayOutcome: DecayStepOutcome | undefined;
+  if (decay !== undefined) {
+    const irf = parsed.get('irf')?.type === 'decay' ? decayOf(parsed, 'irf', context) : undefined;
+    decayOutcome = attempt(context, 'decayFit', () => fitSetDecay(decay, irf, settings, context));
+  }
+
+  // Reference standard (sample and control sets).
+  let quantumYield: QuantumYieldSummary | undefined;
+  let referenceEmissionMetrics: AnalysisResult['spectra']['referenceEmission'];
+  let referenceAbsorbanceInfo: AbsorbanceSummary | undefined;
+  if (SAMPLE_ROLES.has(payload.role)) {
+    const refEmissionRaw = spectrumOf(parsed, 'reference-emission', context);
+    const refAbsorbance = spectrumOf(parsed, 'reference-absorbance', context);
+    const standardId = settings.reference?.standardId;
+    const refFile = parsed.get('reference-emission')?.file;
+    let refYieldEmission: Spectrum | undefined;
+    if (refEmissionRaw !== undefined) {
+      const refExcitationNm = refEmissionRaw.metadata.excitationNm ?? excitationNm;
+      const done = correctEmission(refEmissionRaw, { ...(detectorCurve ? { detectorCurve } : {}), ...(refAbsorbance ? { absorbance: refAbsorbance } : {}), ...(refExcitationNm === undefined ? {} : { excitationNm: refExcitationNm }) }, settings, 'reference-emission', context);
+      refYieldEmission = done.forYield;
+      referenceEmissionMetrics = attempt(context, 'reference emission metrics', () => emissionMetrics(done.corrected));
+      if (refAbsorbance !== undefined && refExcitationNm !== undefined) {
+        referenceAbsorbanceInfo = absorbanceSummary(refAbsorbance, refExcitationNm, settings.cuvette.pathLengthCm);
+      }
+    }
+    const why =
+      yieldEmission === undefined ? 'no sample emission spectrum'
+        : absorbanceInfo === undefined ? 'no sample absorbance at the excitation wavelength'
+          : refYieldEmission === undefined ? 'no reference-standard emission in the set or paired within the window'
+            : referenceAbsorbanceInfo === undefined ? 'no reference-standard absorbance at its excitation wavelength'
+              : standardId === undefined ? 'the reference standard is not named (references[].standardId or the manifest standardId)'
+                : undefined;
+    if (why !== undefined) markMissing(context, 'quantumYield', why, false);
+    else if (yieldEmission !== undefined && absorbanceInfo !== undefined && refYieldEmission !== undefined && referenceAbsorbanceInfo !== undefined && standardId !== undefined) {
+      const inputs = { sampleEmission: yieldEmission, sampleAbsorbance: absorbanceInfo, sampleSolvent: solvent, referenceEmission: refYieldEmission, referenceAbsorbance: referenceAbsorbanceInfo, standardId, referenceSetId: refFile?.pairedFromSetId };
+      quantumYield = attempt(context, 'quantumYield', () => computeQuantumYield(inputs, settings, context));
+    }
+  }
+  let rates: AnalysisResult['rates'];
+  if (quantumYield !== undefined && decayOutcome !== undefined) {
+    const q = quantumYield;
+    const tauNs = decayOutcome.summary.tauMeanIntensityNs;
+    rates = attempt(context, 'rates', () => computeRates(q, tauNs));
+  } else if (SAMPLE_ROLES.has(payload.role)) {
+    markMissing(context, 'rates', quantumYield === undefined ? 'no quantum yield' : 'no lifetime', false);
+  }
+
+  // Raman sensitivity (raman sets).
+  let raman: RamanSummary | undefined;
+  const ramanSpectrum = payload.role === 'raman' ? (spectrumOf(parsed, 'raman', context) ?? emissionRaw) : undefined;
+  if (ramanSpectrum !== undefined) {
+    raman = attempt(context, 'raman', () => {
+      const test = ramanTest(ramanSpectrum);
+      const snr = test.signalToNoisePoisson ?? test.signalToNoiseRms;
+      return { peakWavelengthNm: test.measuredPeakNm, signalToNoise: snr ?? 0, passed: test.positionWithinTolerance };
+    });
+  }
+
+  const fitColumns = decayOutcome === undefined || decay === undefined ? undefined : fitColumnsOf(decayOutcome, decay.counts.length);
+  const artifacts = buildArtifacts(payload.setId, { ...(correctedEmission ? { correctedEmission } : {}), ...(decay ? { decay } : {}), ...(fitColumns ? { fitColumns } : {}) }, context);
+  for (const w of quantumYield?.warnings ?? []) context.warnings.push(`quantum yield: ${w}`);
+
+  const result: AnalysisResult = {
+    schema: RESULT_SCHEMA,
+    setId: payload.setId,
+    role: payload.role,
+    sampleId: payload.sampleId,
+    ...(primaryMetadata?.acquiredAt === undefined ? {} : { acquiredAt: primaryMetadata.acquiredAt }),
+    ...(solvent === undefined ? {} : { solvent }),
+    ...(excitationNm === undefined ? {} : { excitationNm }),
+    partial: context.partial,
+    missing: context.missing,
+    spectra: {
+      ...(emission === undefined ? {} : { emission }),
+      ...(absorbanceInfo === undefined ? {} : { absorbance: absorbanceInfo }),
+      ...(referenceEmissionMetrics === undefined ? {} : { referenceEmission: referenceEmissionMetrics }),
+      ...(referenceAbsorbanceInfo === undefined ? {} : { referenceAbsorbance: referenceAbsorbanceInfo }),
+    },
+    corrections: context.corrections,
+    ...(decayOutcome === undefined ? {} : { decayFit: decayOutcome.summary }),
+    ...(quantumYield === undefined ? {} : { quantumYield }),
+    ...(rates === undefined ? {} : { rates }),
+    ...(raman === undefined ? {} : { raman }),
+    warnings: context.warnings,
+    qc: { flags: [] },
+    provenance: {
+      inputs: payload.files.map((f) => ({
+        file: f.name, sha256: f.sha256, part: f.part, role: f.role, origin: f.origin,
+        ...(f.pairedFromSetId === undefined ? {} : { pairedFromSetId: f.pairedFromSetId }),
+      })),
+      configHash: payload.configHash,
+      softwareVersion: payload.softwareVersion,
+      corrections: context.corrections.map((c) => `${c.name}:${c.target}`),
+      analyzedAt: payload.analyzedAt,
+    },
+  };
+  return { result, artifacts };
+}
+
+function firstMetadata(parsed: ReturnType<typeof parseInputs>): { acquiredAt?: string; solvent?: string } | undefined {
+  for (const input of parsed.values()) return input.type === 'spectrum' ? input.spectrum.metadata : input.decay.metadata;
+  return undefined;
+}
+
+/** The fitted model and residuals as full-length columns (0 outside the fit range). */
+function fitColumnsOf(outcome: DecayStepOutcome, channels: number): Readonly<Record<string, ArrayLike<number>>> | undefined {
+  const [first, end] = outcome.fit.rangeChannels;
+  if (end - first !== outcome.fit.fittedCounts.length || end > channels) return undefined;
+  const fit = new Float64Array(channels);
+  const residual = new Float64Array(channels);
+  for (let k = first; k < end; k++) {
+    fit[k] = outcome.fit.fittedCounts[k - first] ?? 0;
+    residual[k] = outcome.fit.weightedResiduals[k - first] ?? 0;
+  }
+  return { fit, 'weighted residual': residual };
+}

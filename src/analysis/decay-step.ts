@@ -1,0 +1,57 @@
+// Fits the set's decay by reconvolution with its IRF (a column of the decay file, or a separate IRF
+// measurement on the same channels), or by a tail fit when no IRF is available.
+import { totalCounts, type Decay } from '../model/decay.js';
+import { fitDecay, type DecayFitResult } from '../decay/index.js';
+import type { AnalysisSettings } from './payload.js';
+import type { DecayFitSummary } from './result.js';
+import { markMissing, type StepContext } from './step-context.js';
+
+export interface DecayStepOutcome {
+  readonly summary: DecayFitSummary;
+  readonly fit: DecayFitResult;
+}
+
+/** Chooses the IRF, fits, and summarises; throws what fitDecay throws. */
+export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: AnalysisSettings, context: StepContext): DecayStepOutcome {
+  let irfCounts: ArrayLike<number> | undefined;
+  let irfSource: DecayFitSummary['irfSource'] = 'none';
+  if (decay.irfCounts !== undefined) {
+    irfCounts = decay.irfCounts;
+    irfSource = 'decay-column';
+  } else if (irf !== undefined) {
+    const counts = irf.irfCounts ?? irf.counts;
+    const sameChannels = counts.length === decay.counts.length && Math.abs(irf.channelWidthNs - decay.channelWidthNs) <= 1e-3 * decay.channelWidthNs;
+    if (sameChannels) {
+      irfCounts = counts;
+      irfSource = 'irf-file';
+    } else {
+      markMissing(context, 'irf', `the IRF has ${counts.length} channels of ${irf.channelWidthNs} ns but the decay has ${decay.counts.length} of ${decay.channelWidthNs} ns`);
+    }
+  }
+  if (irfCounts === undefined) context.warnings.push('no usable IRF: the lifetime comes from a tail fit');
+  const fit = fitDecay(decay, {
+    components: settings.components,
+    estimator: settings.estimator,
+    ...(irfCounts === undefined ? {} : { irfCounts }),
+  });
+  if (!fit.converged) context.warnings.push('the lifetime fit did not converge; treat τ with caution');
+  return {
+    fit,
+    summary: {
+      components: fit.components.map((c) => ({
+        tauNs: c.tauNs,
+        ...(c.tauNsStdErr === undefined || !Number.isFinite(c.tauNsStdErr) ? {} : { tauNsStdErr: c.tauNsStdErr }),
+        amplitude: c.amplitude,
+        amplitudeFraction: c.amplitudeFraction,
+        intensityFraction: c.intensityFraction,
+      })),
+      tauMeanIntensityNs: fit.tauMeanIntensityNs,
+      chi2Reduced: fit.chi2Reduced,
+      converged: fit.converged,
+      estimator: settings.estimator,
+      totalCounts: totalCounts(decay.counts),
+      irfSource,
+      warnings: [...fit.warnings],
+    },
+  };
+}

@@ -1,0 +1,58 @@
+// Parses every file of a payload with the format readers, keyed by the part it supplies.
+import type { Decay } from '../model/decay.js';
+import type { Spectrum, SpectrumKind } from '../model/spectrum.js';
+import { readData } from '../formats/index.js';
+import type { AnalysisJobPayload, PayloadFile } from './payload.js';
+import type { SetPart } from './result.js';
+import { attempt, markMissing, type StepContext } from './step-context.js';
+
+export type ParsedInput =
+  | { readonly file: PayloadFile; readonly type: 'spectrum'; readonly spectrum: Spectrum }
+  | { readonly file: PayloadFile; readonly type: 'decay'; readonly decay: Decay };
+
+const KIND_HINT: Readonly<Record<SetPart, SpectrumKind | 'decay'>> = {
+  emission: 'emission', excitation: 'excitation', absorbance: 'absorbance', decay: 'decay', irf: 'decay',
+  blank: 'blank', 'reference-emission': 'emission', 'reference-absorbance': 'absorbance',
+  'detector-curve': 'detector-correction', raman: 'emission',
+};
+
+const encoder = new TextEncoder();
+
+/** Parses each payload file (first file per part wins; later ones are reported); unreadable files become missing parts. */
+export function parseInputs(payload: AnalysisJobPayload, context: StepContext): Map<SetPart, ParsedInput> {
+  const parsed = new Map<SetPart, ParsedInput>();
+  for (const file of payload.files) {
+    if (parsed.has(file.part)) {
+      context.warnings.push(`${file.name}: a second ${file.part} file in the set was not used`);
+      continue;
+    }
+    const data = attempt(context, file.part, () =>
+      readData(encoder.encode(file.content), { fileName: file.name, maxBytes: payload.settings.maxFileBytes, kindHint: KIND_HINT[file.part] }),
+    );
+    if (data === undefined) continue;
+    parsed.set(file.part, data.type === 'spectrum' ? { file, type: 'spectrum', spectrum: data.spectrum } : { file, type: 'decay', decay: data.decay });
+  }
+  return parsed;
+}
+
+/** The spectrum of `part`, or undefined (recording a missing item when the part is a decay). */
+export function spectrumOf(parsed: Map<SetPart, ParsedInput>, part: SetPart, context: StepContext): Spectrum | undefined {
+  const input = parsed.get(part);
+  if (input === undefined) return undefined;
+  if (input.type !== 'spectrum') {
+    markMissing(context, part, `${input.file.name} holds a decay, not a spectrum`);
+    return undefined;
+  }
+  return input.spectrum;
+}
+
+/** The decay of `part`, or undefined (recording a missing item when the part is a spectrum). */
+export function decayOf(parsed: Map<SetPart, ParsedInput>, part: SetPart, context: StepContext): Decay | undefined {
+  const input = parsed.get(part);
+  if (input === undefined) return undefined;
+  if (input.type !== 'decay') {
+    markMissing(context, part, `${input.file.name} holds a spectrum, not a decay histogram`);
+    return undefined;
+  }
+  return input.decay;
+}

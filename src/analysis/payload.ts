@@ -1,0 +1,65 @@
+// The self-contained job payload the coordinator sends to a worker, and what the worker returns.
+// Everything analyze() needs travels inside it (file contents, parts, settings, clock), so the same
+// payload gives the same result on any backend.
+import type { MeasurementRole } from '../model/spectrum.js';
+import type { AnalysisResult, SetPart } from './result.js';
+
+/** One input file, with its content as text. */
+export interface PayloadFile {
+  readonly name: string;
+  readonly sha256: string;
+  readonly part: SetPart;
+  readonly role: MeasurementRole;
+  readonly origin: 'own' | 'paired' | 'config';
+  readonly pairedFromSetId?: string;
+  readonly content: string;
+}
+
+/** The analysis settings snapshot (from the config's analysis, instrument and references sections). */
+export interface AnalysisSettings {
+  readonly components: 1 | 2 | 3 | 4 | 'auto';
+  readonly estimator: 'ml' | 'lsq-neyman' | 'lsq-pearson';
+  readonly innerFilter: 'none' | 'centred' | 'geometric';
+  /** Warn above this absorbance at excitation (base-10). */
+  readonly maxAbsorbanceForYield: number;
+  /** Refractive index by solvent name (overrides the built-in table). */
+  readonly refractiveIndex: Readonly<Record<string, number>>;
+  readonly defaultRefractiveIndex: number;
+  readonly cuvette: { readonly pathLengthCm: number; readonly excitationWindowStartCm: number; readonly excitationWindowEndCm: number };
+  readonly maxFileBytes: number;
+  /** The standard for the reference used by this set (when one is part of the payload). */
+  readonly reference?: {
+    readonly standardId: string;
+    readonly quantumYield?: number;
+    readonly quantumYieldStdUncertainty?: number;
+    readonly refractiveIndex?: number;
+  };
+}
+
+export interface AnalysisJobPayload {
+  readonly setId: string;
+  readonly role: MeasurementRole;
+  readonly sampleId: string;
+  /** Sample facts from a manifest (they win over file metadata). */
+  readonly sampleInfo: { readonly solvent?: string; readonly excitationNm?: number; readonly standardId?: string };
+  readonly files: readonly PayloadFile[];
+  /** Parts the set needed but neither had nor could borrow, with the reason. */
+  readonly missingParts: readonly { readonly part: SetPart; readonly reason: string }[];
+  readonly settings: AnalysisSettings;
+  /** ISO 8601 time of the analysis (the coordinator's clock). */
+  readonly analyzedAt: string;
+  readonly configHash: string;
+  readonly softwareVersion: string;
+}
+
+/** A file for the outbox (corrected spectrum, fitted decay), written by the coordinator. */
+export interface AnalysisArtifact {
+  readonly name: string;
+  readonly content: string;
+}
+
+/** What a worker returns: the result and its outbox files. */
+export interface AnalysisOutput {
+  readonly result: AnalysisResult;
+  readonly artifacts: readonly AnalysisArtifact[];
+}

@@ -1,0 +1,188 @@
+// The analysis result of one measurement set: plain JSON (no typed arrays), versioned by `schema`.
+// Written to results/YYYY-MM-DD/<setId>.json and described by schemas/result.schema.json.
+// QC stages add `qc.flags`; everything else is filled by analyze().
+import type { MeasurementRole } from '../model/spectrum.js';
+
+export const RESULT_SCHEMA = 'driftlight.result/1' as const;
+
+/** What a set was measured for (the role of its primary measurement). */
+export type SetRole = MeasurementRole;
+
+/** A part a set may need: the data it carries, independent of which file supplied it. */
+export const SET_PARTS = [
+  'emission',
+  'excitation',
+  'absorbance',
+  'decay',
+  'irf',
+  'blank',
+  'reference-emission',
+  'reference-absorbance',
+  'detector-curve',
+  'raman',
+] as const;
+export type SetPart = (typeof SET_PARTS)[number];
+
+/** One input file of a set, as recorded in provenance. */
+export interface ResultInput {
+  /** File name (not the full path: folders differ between machines). */
+  readonly file: string;
+  /** sha256 (hex) of the file's bytes. */
+  readonly sha256: string;
+  /** The part this file supplied. */
+  readonly part: SetPart;
+  /** Role of the file in the lab workflow. */
+  readonly role: MeasurementRole;
+  /** 'own' = arrived with the set; 'paired' = the most recent valid one, borrowed from another set; 'config' = named in the config (detector curve). */
+  readonly origin: 'own' | 'paired' | 'config';
+  /** For paired inputs: the set the file belonged to. */
+  readonly pairedFromSetId?: string;
+}
+
+/** A correction as applied, in order (mirrors the spectra module's CorrectionRecord). */
+export interface AppliedCorrection {
+  readonly name: string;
+  /** Which spectrum the correction was applied to ('emission' or 'reference-emission'). */
+  readonly target: 'emission' | 'reference-emission';
+  readonly inputs: Readonly<Record<string, string>>;
+  readonly parameters: Readonly<Record<string, number | string | boolean>>;
+  readonly warnings: readonly string[];
+}
+
+/** Key numbers of the corrected emission spectrum. */
+export interface EmissionMetrics {
+  /** Wavelength of the maximum in nm. */
+  readonly peakWavelengthNm: number;
+  /** Value at the maximum (unit of the spectrum). */
+  readonly peakValue: number;
+  /** Integrated intensity over the wavelength range (value unit × nm). */
+  readonly integratedIntensity: number;
+  /** Full width at half maximum in nm, when it could be determined. */
+  readonly fwhmNm?: number;
+  readonly valueUnit: string;
+  /** Wavelength range used in nm. */
+  readonly rangeNm: readonly [number, number];
+}
+
+/** Absorbance facts used by the yield and inner-filter corrections. */
+export interface AbsorbanceSummary {
+  /** Absorbance at the excitation wavelength (base-10, path length of the measurement). */
+  readonly absorbanceAtExcitation: number;
+  readonly excitationNm: number;
+  /** Wavelength of the absorbance maximum in nm. */
+  readonly peakWavelengthNm: number;
+  readonly peakAbsorbance: number;
+}
+
+/** One fitted exponential component. */
+export interface DecayComponentSummary {
+  readonly tauNs: number;
+  readonly tauNsStdErr?: number;
+  readonly amplitude: number;
+  readonly amplitudeFraction: number;
+  readonly intensityFraction: number;
+}
+
+/** The lifetime fit in short. */
+export interface DecayFitSummary {
+  readonly components: readonly DecayComponentSummary[];
+  /** Intensity-weighted mean lifetime in ns (the τ used for rate constants). */
+  readonly tauMeanIntensityNs: number;
+  readonly chi2Reduced: number;
+  readonly converged: boolean;
+  readonly estimator: string;
+  /** Total counts in the decay histogram. */
+  readonly totalCounts: number;
+  /** Where the IRF came from: a column of the decay file, a separate file, or none (tail fit). */
+  readonly irfSource: 'decay-column' | 'irf-file' | 'none';
+  readonly warnings: readonly string[];
+}
+
+/** One entry of the quantum-yield uncertainty budget. */
+export interface UncertaintyBudgetEntry {
+  readonly source: string;
+  /** Relative standard uncertainty contributed (dimensionless, e.g. 0.02 = 2 %). */
+  readonly relativeUncertainty: number;
+}
+
+/** The relative quantum yield against a reference standard. */
+export interface QuantumYieldSummary {
+  readonly value: number;
+  readonly standardUncertainty: number;
+  readonly budget: readonly UncertaintyBudgetEntry[];
+  readonly standardId: string;
+  /** Set whose reference measurement was used. */
+  readonly referenceSetId?: string;
+  readonly warnings: readonly string[];
+}
+
+/** Excited-state rate constants from Φ and τ (Birks 1976). */
+export interface RateConstantsSummary {
+  readonly krPerS: number;
+  readonly knrPerS: number;
+  readonly tau0Ns: number;
+  readonly totalDecayRatePerS: number;
+}
+
+/** Water-Raman sensitivity test (raman sets). */
+export interface RamanSummary {
+  readonly peakWavelengthNm: number;
+  readonly signalToNoise: number;
+  readonly passed?: boolean;
+}
+
+/** A QC flag added by a result stage. */
+export interface QcFlag {
+  /** Stable rule id, e.g. 'westgard-1-3s'. */
+  readonly rule: string;
+  readonly severity: 'info' | 'warning' | 'reject';
+  readonly message: string;
+  readonly quantity?: string;
+  readonly value?: number;
+}
+
+/** A part that could not be computed or was missing, and why. */
+export interface MissingItem {
+  /** The missing part ('irf') or the quantity that could not be computed ('quantumYield'). */
+  readonly what: string;
+  readonly reason: string;
+}
+
+export interface ResultProvenance {
+  readonly inputs: readonly ResultInput[];
+  /** sha256 (hex) of the canonical JSON of the analysis settings used. */
+  readonly configHash: string;
+  readonly softwareVersion: string;
+  /** Names of the corrections applied, in order. */
+  readonly corrections: readonly string[];
+  /** When the analysis ran (ISO 8601, UTC), supplied by the coordinator. */
+  readonly analyzedAt: string;
+}
+
+export interface AnalysisResult {
+  readonly schema: typeof RESULT_SCHEMA;
+  readonly setId: string;
+  readonly role: SetRole;
+  readonly sampleId: string;
+  /** Acquisition time of the primary measurement (ISO 8601) when the files say it. */
+  readonly acquiredAt?: string;
+  readonly solvent?: string;
+  readonly excitationNm?: number;
+  /** true when a required part was missing or a step could not run. */
+  readonly partial: boolean;
+  readonly missing: readonly MissingItem[];
+  readonly spectra: {
+    readonly emission?: EmissionMetrics;
+    readonly absorbance?: AbsorbanceSummary;
+    readonly referenceEmission?: EmissionMetrics;
+    readonly referenceAbsorbance?: AbsorbanceSummary;
+  };
+  readonly corrections: readonly AppliedCorrection[];
+  readonly decayFit?: DecayFitSummary;
+  readonly quantumYield?: QuantumYieldSummary;
+  readonly rates?: RateConstantsSummary;
+  readonly raman?: RamanSummary;
+  readonly warnings: readonly string[];
+  readonly qc: { readonly flags: readonly QcFlag[] };
+  readonly provenance: ResultProvenance;
+}

@@ -1,0 +1,54 @@
+// `driftlight watch`: runs unattended until SIGINT/SIGTERM — watches the inbox, assembles sets,
+// dispatches them, commits results; on a signal it stops watching, drains running jobs and exits.
+import type { Command } from 'commander';
+import { openPipeline } from '../pipeline/runtime.js';
+import { watchInbox } from '../pipeline/watcher.js';
+import type { CommandModule } from './command-module.js';
+import { configFromOptions, withConfigOption } from './config-option.js';
+import { softwareVersion } from './version.js';
+
+/** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
+export async function runWatch(options: { config?: string }, stop: Promise<string>): Promise<void> {
+  const config = configFromOptions(options);
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion() });
+  const { coordinator, logger } = pipeline;
+  await coordinator.recover();
+  let chain: Promise<void> = Promise.resolve();
+  const serial = (work: () => Promise<void>): void => {
+    chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
+  };
+  const watcher = watchInbox(config.folders.inbox, config.watch, {
+    onFile: (path) => serial(() => coordinator.intake(path)),
+    onReady: () => logger.info({ inbox: config.folders.inbox }, 'watching'),
+    onError: (error) => logger.error({ err: error }, 'watcher error'),
+  });
+  const tickMs = Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
+  const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);
+  const signal = await stop;
+  logger.info({ signal }, 'stopping: draining running jobs');
+  clearInterval(timer);
+  await watcher.close();
+  logger.debug('watcher closed');
+  await chain;
+  logger.debug('intake finished');
+  await coordinator.drain();
+  logger.debug('jobs drained');
+  await pipeline.close();
+}
+
+export const watchCommand: CommandModule = {
+  register(program: Command) {
+    withConfigOption(
+      program.command('watch').description('watch the inbox and analyse every new file until SIGINT/SIGTERM'),
+    ).action(async (options: { config?: string }) => {
+      const stop = new Promise<string>((resolve) => {
+        process.once('SIGINT', () => resolve('SIGINT'));
+        process.once('SIGTERM', () => resolve('SIGTERM'));
+      });
+      await runWatch(options, stop);
+      // Everything is drained and closed; a stray library handle (file-system poll timers) must not
+      // keep the process alive. Unref'd: when nothing is left the process exits at once anyway.
+      setTimeout(() => process.exit(process.exitCode ?? 0), 500).unref();
+    });
+  },
+};

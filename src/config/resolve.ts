@@ -1,0 +1,82 @@
+// Turns a parsed driftlight.yaml object into the resolved, frozen config: validates with zod,
+// fills defaults, resolves relative folders against the config directory, checks regexes.
+import { isAbsolute, join, resolve } from 'node:path';
+import type { z } from 'zod';
+import { ConfigInvalid } from '../model/errors.js';
+import { configSchema, type DriftlightConfigParsed } from './schema.js';
+
+/** The config as the program uses it: defaults filled, folders absolute, deeply frozen. */
+export type DriftlightConfig = DriftlightConfigParsed & {
+  /** Absolute path of the config file, or undefined for the built-in defaults. */
+  readonly configFile: string | undefined;
+  /** Absolute directory relative paths were resolved against. */
+  readonly baseDir: string;
+  /** Absolute path of the log file. */
+  readonly logFile: string;
+};
+
+/** Formats a zod issue path as `controls[0].targetYield`. */
+export function formatConfigPath(path: readonly PropertyKey[]): string {
+  let text = '';
+  for (const key of path) {
+    if (typeof key === 'number') text += `[${key}]`;
+    else text += text === '' ? String(key) : `.${String(key)}`;
+  }
+  return text === '' ? '(top level)' : text;
+}
+
+function issueMessage(issue: z.core.$ZodIssue): string {
+  if (issue.code === 'unrecognized_keys') return `unknown option(s) ${issue.keys.map((k) => `"${k}"`).join(', ')}; check the spelling`;
+  return issue.message;
+}
+
+function deepFreeze<T>(value: T): T {
+  if (value !== null && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const child of Object.values(value)) deepFreeze(child);
+  }
+  return value;
+}
+
+function checkRegex(pattern: string, configPath: string, where: string): void {
+  try {
+    new RegExp(pattern);
+  } catch (error) {
+    throw new ConfigInvalid(`invalid regular expression /${pattern}/: ${(error as Error).message}`, { configPath, file: where });
+  }
+}
+
+/** Validates `raw` (parsed YAML/JSON), fills defaults, resolves folders against `baseDir`, freezes; throws ConfigInvalid naming the first bad path. */
+export function resolveConfig(raw: unknown, options: { baseDir: string; configFile?: string }): DriftlightConfig {
+  const where = options.configFile ?? '(defaults)';
+  const parsed = configSchema.safeParse(raw ?? {});
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `${formatConfigPath(issue.path)}: ${issueMessage(issue)}`);
+    const first = parsed.error.issues[0];
+    throw new ConfigInvalid(lines.join('; '), {
+      file: where,
+      configPath: first === undefined ? undefined : formatConfigPath(first.path),
+    });
+  }
+  const config = parsed.data;
+  const baseDir = resolve(options.baseDir);
+  const abs = (p: string): string => (isAbsolute(p) ? p : resolve(baseDir, p));
+  config.assembly.fileNamePatterns.forEach((p, i) => checkRegex(p, `assembly.fileNamePatterns[${i}]`, where));
+  config.references.forEach((r, i) => checkRegex(r.sampleIdPattern, `references[${i}].sampleIdPattern`, where));
+  config.controls.forEach((c, i) => checkRegex(c.sampleIdPattern, `controls[${i}].sampleIdPattern`, where));
+  const folders = {
+    inbox: abs(config.folders.inbox),
+    archive: abs(config.folders.archive),
+    quarantine: abs(config.folders.quarantine),
+    results: abs(config.folders.results),
+    outbox: abs(config.folders.outbox),
+    state: abs(config.folders.state),
+  };
+  const instrument = {
+    ...config.instrument,
+    ...(config.instrument.detectorCorrectionFile === undefined ? {} : { detectorCorrectionFile: abs(config.instrument.detectorCorrectionFile) }),
+  };
+  const rules = { ...config.rules, ...(config.rules.file === undefined ? {} : { file: abs(config.rules.file) }) };
+  const logFile = isAbsolute(config.logging.file) ? config.logging.file : join(folders.state, config.logging.file);
+  return deepFreeze({ ...config, folders, instrument, rules, configFile: options.configFile, baseDir, logFile });
+}

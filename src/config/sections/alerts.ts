@@ -1,0 +1,86 @@
+// Config section `alerts`: alert channels (webhook, email, log), routing by severity, cooldown and
+// recovery notices. Secrets are never written here: a channel names the environment variable
+// that holds its HMAC key or SMTP password. The channels themselves live in src/output/alerts/.
+import { z } from 'zod';
+
+const channelId = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'expected letters, digits, ".", "_" or "-"' });
+const envName = z.string().regex(/^[A-Za-z_][A-Za-z0-9_]*$/, { error: 'expected an environment variable name such as DRIFTLIGHT_WEBHOOK_KEY' });
+
+/** Delivery options every channel takes. */
+const deliveryShape = {
+  id: channelId.describe('Channel id, used in routing.'),
+  timeoutMs: z.number().int().min(100).max(300_000).default(10_000).describe('Time limit per delivery attempt, in ms. Default: 10000'),
+  attempts: z.number().int().min(1).max(10).default(4).describe('Delivery attempts including the first. Default: 4'),
+  backoffMs: z.number().int().min(0).max(600_000).default(1_000).describe('Wait before the first retry in ms, doubled for each further retry. Default: 1000'),
+};
+
+export const webhookChannelSchema = z.strictObject({
+  ...deliveryShape,
+  type: z.literal('webhook'),
+  url: z.url({ protocol: /^https?$/, error: 'expected an http(s) URL' }).describe('Endpoint receiving a JSON POST per alert.'),
+  secretEnv: envName.optional().describe('Environment variable holding the HMAC-SHA256 key; when set, each POST carries X-Driftlight-Signature. Default: none (unsigned)'),
+  headers: z.record(z.string(), z.string()).default({}).describe('Extra request headers (no secrets: they are stored in plain text). Default: {}'),
+});
+
+export const emailChannelSchema = z.strictObject({
+  ...deliveryShape,
+  type: z.literal('email'),
+  host: z.string().min(1).describe('SMTP server host.'),
+  port: z.number().int().min(1).max(65_535).default(587).describe('SMTP port. Default: 587'),
+  secure: z.boolean().default(false).describe('TLS from the first byte (port 465); false uses STARTTLS when offered. Default: false'),
+  requireTls: z.boolean().default(false).describe('Refuse to send without STARTTLS. Default: false'),
+  from: z.string().min(3).describe('Sender address.'),
+  to: z.array(z.string().min(3)).min(1).describe('Recipient addresses.'),
+  username: z.string().min(1).optional().describe('SMTP user name. Default: none (no login)'),
+  passwordEnv: envName.optional().describe('Environment variable holding the SMTP password. Default: none'),
+});
+
+export const logChannelSchema = z.strictObject({
+  ...deliveryShape,
+  type: z.literal('log'),
+});
+
+export const alertChannelSchema = z.discriminatedUnion('type', [webhookChannelSchema, emailChannelSchema, logChannelSchema], {
+  error: 'expected a channel with type webhook, email or log',
+});
+
+export type WebhookChannelConfig = z.output<typeof webhookChannelSchema>;
+export type EmailChannelConfig = z.output<typeof emailChannelSchema>;
+export type LogChannelConfig = z.output<typeof logChannelSchema>;
+export type AlertChannelConfig = z.output<typeof alertChannelSchema>;
+
+const channelList = z.array(channelId);
+
+export const alertsSection = z
+  .strictObject({
+    channels: z.array(alertChannelSchema).default([{ id: 'log', type: 'log', timeoutMs: 10_000, attempts: 1, backoffMs: 0 }])
+      .describe('Alert channels. Default: one log channel with id "log"'),
+    routing: z
+      .strictObject({
+        info: channelList.default(['log']).describe('Channels for info flags. Default: [log]'),
+        warning: channelList.default(['log']).describe('Channels for warning flags. Default: [log]'),
+        critical: channelList.default(['log']).describe('Channels for critical flags. Default: [log]'),
+      })
+      .prefault({})
+      .describe('Channel ids per severity.'),
+    cooldownMinutes: z.number().min(0).max(7 * 24 * 60).default(240)
+      .describe('The same rule + control + metric is not alerted again within this many minutes. Default: 240'),
+    recoveryNotices: z.boolean().default(true)
+      .describe('Send a notice when an alerted metric is back in control (to the channels that got the alert). Default: true'),
+  })
+  .superRefine((alerts, context) => {
+    const ids = new Set<string>();
+    alerts.channels.forEach((channel, index) => {
+      if (ids.has(channel.id)) context.addIssue({ code: 'custom', path: ['channels', index, 'id'], message: `duplicate channel id "${channel.id}"` });
+      ids.add(channel.id);
+    });
+    for (const severity of ['info', 'warning', 'critical'] as const) {
+      alerts.routing[severity].forEach((id, index) => {
+        if (!ids.has(id)) context.addIssue({ code: 'custom', path: ['routing', severity, index], message: `no channel with id "${id}" under alerts.channels` });
+      });
+    }
+  })
+  .prefault({})
+  .describe('Alert channels (webhook, email, log), routing by severity, cooldown and recovery notices.');
+
+export type AlertsConfig = z.output<typeof alertsSection>;

@@ -1,0 +1,20 @@
+// Config section `instrument`: detector correction curve, IRF validity and cuvette geometry.
+import { z } from 'zod';
+
+export const instrumentSection = z
+  .strictObject({
+    detectorCorrectionFile: z.string().min(1).optional()
+      .describe('Spectral correction curve (wavelength, factor) applied to every emission spectrum; relative to the config file. Default: none'),
+    irfValidityHours: z.number().min(0).default(24)
+      .describe('An IRF is valid for pairing this long after it was recorded, in hours. Default: 24'),
+    cuvette: z
+      .strictObject({
+        pathLengthCm: z.number().positive().default(1).describe('Absorbance path length in cm. Default: 1'),
+        excitationWindowStartCm: z.number().min(0).default(0.4).describe('Start of the viewed zone along the excitation beam, in cm (geometric inner filter). Default: 0.4'),
+        excitationWindowEndCm: z.number().positive().default(0.6).describe('End of the viewed zone along the excitation beam, in cm. Default: 0.6'),
+      })
+      .prefault({}),
+  })
+  .prefault({});
+
+export type InstrumentConfig = z.output<typeof instrumentSection>;

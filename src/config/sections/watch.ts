@@ -1,0 +1,17 @@
+// Config section `watch`: how the inbox watcher decides that a file is completely written.
+import { z } from 'zod';
+
+export const watchSection = z
+  .strictObject({
+    stabilityWindowMs: z.number().int().min(10).max(600_000).default(2000)
+      .describe('A file is read only after its size has not changed for this long, in ms. Default: 2000'),
+    pollIntervalMs: z.number().int().min(10).max(60_000).default(100)
+      .describe('How often the size of a growing file is checked, in ms. Default: 100'),
+    usePolling: z.boolean().default(false)
+      .describe('Poll the folder instead of using OS events (network shares). Default: false'),
+    ignoreGlobs: z.array(z.string()).default([])
+      .describe('Extra file-name patterns to ignore (* and ? wildcards) on top of hidden and temporary files. Default: []'),
+  })
+  .prefault({});
+
+export type WatchConfig = z.output<typeof watchSection>;

@@ -1,0 +1,37 @@
+// Result files: results/YYYY-MM-DD/<setId>.json (day of the set's creation, so a re-run after a
+// crash finds and replaces the same file rather than adding a second one), written atomically.
+import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { AnalysisResult } from '../analysis/result.js';
+import { writeFileAtomicAsync } from './atomic-write.js';
+import { dayFolderName } from './dated-path.js';
+
+/** Where the result of `setId` (created at `setCreatedAt`) lives. */
+export function resultPathFor(resultsDir: string, setId: string, setCreatedAt: Date): string {
+  return join(resultsDir, dayFolderName(setCreatedAt), `${setId}.json`);
+}
+
+/** Serialises a result as the canonical pretty JSON written to disk. */
+export function serializeResult(result: AnalysisResult): string {
+  return `${JSON.stringify(result, null, 2)}\n`;
+}
+
+/** Writes the result durably (fsyncs off the event loop); returns its path and the sha256 of the bytes written. */
+export async function writeResult(resultsDir: string, result: AnalysisResult, setCreatedAt: Date): Promise<{ path: string; sha256: string }> {
+  const path = resultPathFor(resultsDir, result.setId, setCreatedAt);
+  const text = serializeResult(result);
+  await writeFileAtomicAsync(path, text);
+  return { path, sha256: createHash('sha256').update(text).digest('hex') };
+}
+
+/** Reads an existing result file for a set, if one is there (crash recovery: detect, never duplicate). */
+export function readExistingResult(path: string): AnalysisResult | undefined {
+  if (!existsSync(path)) return undefined;
+  try {
+    const parsed = JSON.parse(readFileSync(path, 'utf8')) as { schema?: unknown };
+    return parsed.schema === 'driftlight.result/1' ? (parsed as AnalysisResult) : undefined;
+  } catch {
+    return undefined;
+  }
+}

@@ -1,0 +1,186 @@
+// Turning a ready set into a job: choose pairings for missing parts (most recent valid IRF, blank,
+// absorbance, reference standard within their windows) and build the self-contained payload.
+import { readFileSync } from 'node:fs';
+import type { MeasurementRole } from '../model/spectrum.js';
+import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
+import type { SetPart } from '../analysis/result.js';
+import type { DriftlightConfig } from '../config/resolve.js';
+import type { Ledger } from '../store/ledger.js';
+import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRecord } from '../store/files.js';
+import { getSet, pairingsOfSet, type PairingRecord } from '../store/sets.js';
+import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
+import type { StoredManifest } from './open-sets.js';
+import { analysisSettingsFrom } from './settings.js';
+
+const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
+
+function measuredAt(file: FileRecord): Date {
+  const acquired = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
+  return new Date(Number.isFinite(acquired) ? acquired : Date.parse(file.firstSeenAt));
+}
+
+function toCandidate(file: FileRecord): PairingCandidate {
+  return { fileId: file.id, setId: file.setId, sampleId: file.sampleId, measuredAt: measuredAt(file) };
+}
+
+/** Parts to borrow for a set and the required parts that stay missing (with reasons). */
+export function choosePairings(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  rules: AssemblyRules,
+  set: { id: string; sampleId: string; role: MeasurementRole },
+  present: ReadonlySet<SetPart>,
+  now: Date,
+): { pairings: PairingRecord[]; missing: { part: SetPart; reason: string }[] } {
+  const pairings: PairingRecord[] = [];
+  const windows = config.assembly.pairingWindowHours;
+  const referenceTime = setMeasuredAt(ledger, set.id) ?? now;
+  const borrow = (part: SetPart, candidates: FileRecord[], windowHours: number, sameSample = false): boolean => {
+    const chosen = choosePairing(candidates.map(toCandidate), referenceTime, windowHours, { excludeSetId: set.id, ...(sameSample ? { sampleId: set.sampleId } : {}) });
+    if (chosen === undefined) return false;
+    pairings.push({ setId: set.id, part, fileId: chosen.fileId, fromSetId: chosen.setId });
+    return true;
+  };
+  const borrowed = new Set<SetPart>();
+  if (SAMPLE_ROLES.has(set.role) || set.role === 'reference') {
+    if (!present.has('irf') && present.has('decay')) {
+      const hours = config.instrument.irfValidityHours;
+      const candidates = [...pairingCandidates(ledger, 'irf'), ...decayIrfCandidates(ledger)];
+      if (borrow('irf', candidates, hours)) borrowed.add('irf');
+    }
+    if (!present.has('blank') && windows.blank > 0 && present.has('emission')) {
+      if (borrow('blank', pairingCandidates(ledger, 'blank'), windows.blank)) borrowed.add('blank');
+    }
+    if (!present.has('absorbance') && windows.absorbance > 0) {
+      if (borrow('absorbance', pairingCandidates(ledger, 'absorbance'), windows.absorbance, true)) borrowed.add('absorbance');
+    }
+  }
+  if (SAMPLE_ROLES.has(set.role) && !present.has('reference-emission') && windows.reference > 0) {
+    const reference = mostRecentReferenceSet(ledger, referenceTime, windows.reference, set.id);
+    if (reference !== undefined) {
+      pairings.push({ setId: set.id, part: 'reference-emission', fileId: reference.emission.id, fromSetId: reference.setId });
+      borrowed.add('reference-emission');
+      if (!present.has('reference-absorbance') && reference.absorbance !== undefined) {
+        pairings.push({ setId: set.id, part: 'reference-absorbance', fileId: reference.absorbance.id, fromSetId: reference.setId });
+        borrowed.add('reference-absorbance');
+      }
+    }
+  }
+  const missing = requiredPartsFor(set.role, rules)
+    .filter((p) => !present.has(p) && !borrowed.has(p))
+    .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));
+  return { pairings, missing };
+}
+
+/** When a set was measured: the earliest acquisition time of its own files, if any says. */
+function setMeasuredAt(ledger: Ledger, setId: string): Date | undefined {
+  let earliest: number | undefined;
+  for (const file of filesOfSet(ledger, setId)) {
+    const t = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
+    if (Number.isFinite(t) && (earliest === undefined || t < earliest)) earliest = t;
+  }
+  return earliest === undefined ? undefined : new Date(earliest);
+}
+
+function mostRecentReferenceSet(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
+  const rows = ledger
+    .prepare(`SELECT id FROM sets WHERE role = 'reference' AND state IN ('queued','done') AND id != ? ORDER BY created_at DESC, id DESC LIMIT 50`)
+    .all(excludeSetId) as { id: string }[];
+  const found = new Map<number, { setId: string; emission: FileRecord; absorbance?: FileRecord }>();
+  for (const row of rows) {
+    const files = filesOfSet(ledger, row.id).filter((f) => f.state !== 'rejected' && f.state !== 'failed');
+    const emission = files.find((f) => f.part === 'emission');
+    if (emission === undefined) continue;
+    const absorbance = files.find((f) => f.part === 'absorbance');
+    found.set(emission.id, { setId: row.id, emission, ...(absorbance === undefined ? {} : { absorbance }) });
+  }
+  const chosen = choosePairing([...found.values()].map((r) => toCandidate(r.emission)), referenceTime, windowHours);
+  return chosen === undefined ? undefined : found.get(chosen.fileId);
+}
+
+const utf8 = new TextDecoder('utf-8', { fatal: true });
+const latin1 = new TextDecoder('latin1');
+
+/** A file's text: UTF-8 when valid, else Latin-1 (the readers see the same characters). */
+export function readText(path: string): string {
+  const bytes = readFileSync(path);
+  try {
+    return utf8.decode(bytes);
+  } catch {
+    return latin1.decode(bytes);
+  }
+}
+
+/** Where a file is now: its archive copy once moved, else where it was seen. */
+export function currentLocation(file: FileRecord): string {
+  return file.archivePath ?? file.quarantinePath ?? file.path;
+}
+
+/** The reference standard of a reference set: its manifest's standardId or the matching references[] entry. */
+export function standardForSet(config: DriftlightConfig, setId: string, ledger: Ledger): { standardId: string; entry?: DriftlightConfig['references'][number] } | undefined {
+  const set = getSet(ledger, setId);
+  if (set === undefined) return undefined;
+  const manifest = set.manifestJson === null ? undefined : (JSON.parse(set.manifestJson) as StoredManifest).manifest;
+  const entry = config.references.find((r) => new RegExp(r.sampleIdPattern).test(set.sampleId));
+  const standardId = manifest?.standardId ?? entry?.standardId;
+  return standardId === undefined ? undefined : { standardId, ...(entry === undefined ? {} : { entry }) };
+}
+
+export interface PayloadContext {
+  readonly ledger: Ledger;
+  readonly config: DriftlightConfig;
+  readonly configHash: string;
+  readonly softwareVersion: string;
+  readonly rules: AssemblyRules;
+  readonly detectorCurve?: PayloadFile;
+  readonly now: Date;
+}
+
+/** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts). */
+export function buildPayload(context: PayloadContext, setId: string): AnalysisJobPayload {
+  const { ledger, config } = context;
+  const set = getSet(ledger, setId);
+  if (set === undefined) throw new Error(`ledger: set ${setId} does not exist`);
+  const manifest = set.manifestJson === null ? undefined : (JSON.parse(set.manifestJson) as StoredManifest).manifest;
+  const files: PayloadFile[] = [];
+  for (const file of filesOfSet(ledger, setId)) {
+    if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
+    files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content: readText(currentLocation(file)) });
+  }
+  let referenceSetId: string | undefined;
+  for (const pairing of pairingsOfSet(ledger, setId)) {
+    const file = getFile(ledger, pairing.fileId);
+    if (file === undefined) continue;
+    if (pairing.part === 'reference-emission') referenceSetId = pairing.fromSetId ?? undefined;
+    files.push({
+      name: file.name, sha256: file.sha256, part: pairing.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'paired',
+      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readText(currentLocation(file)),
+    });
+  }
+  if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve')) files.push(context.detectorCurve);
+  const role = set.role as MeasurementRole;
+  const have = new Set<SetPart>(files.map((f) => f.part));
+  if (filesOfSet(ledger, setId).some((f) => f.part === 'decay' && f.hasIrfColumn)) have.add('irf');
+  const missingParts = requiredPartsFor(role, context.rules)
+    .filter((part) => !have.has(part))
+    .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));
+  const reference =
+    referenceSetId !== undefined ? standardForSet(config, referenceSetId, ledger)
+      : role === 'reference' ? standardForSet(config, setId, ledger) : undefined;
+  return {
+    setId,
+    role,
+    sampleId: set.sampleId,
+    sampleInfo: {
+      ...(manifest?.solvent === undefined ? {} : { solvent: manifest.solvent }),
+      ...(manifest?.excitationNm === undefined ? {} : { excitationNm: manifest.excitationNm }),
+      ...(manifest?.standardId === undefined ? {} : { standardId: manifest.standardId }),
+    },
+    files,
+    missingParts,
+    settings: analysisSettingsFrom(config, reference),
+    analyzedAt: context.now.toISOString(),
+    configHash: context.configHash,
+    softwareVersion: context.softwareVersion,
+  };
+}

@@ -1,0 +1,114 @@
+// Intake of one stable file: hash, check the ledger (known, unfinished move, duplicate), record it,
+// then read it (data file or set manifest). Bad files are quarantined with their reason.
+import { createHash } from 'node:crypto';
+import { closeSync, existsSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
+import { basename } from 'node:path';
+import { DriftlightError, InputRejected } from '../model/errors.js';
+import { ERROR_CODES } from '../model/error-codes.js';
+import { readData, type ParsedData } from '../formats/index.js';
+import type { DriftlightConfig } from '../config/resolve.js';
+import type { Ledger } from '../store/ledger.js';
+import { filesBySha256, insertFile, setFileError, setFileLocation, type FileRecord } from '../store/files.js';
+import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
+import { moveFile } from '../output/move-file.js';
+import { quarantineFile } from '../output/quarantine.js';
+import { isManifestName, parseManifest, type SetManifest } from './manifest.js';
+import { join } from 'node:path';
+
+export type IntakeResult =
+  | { readonly kind: 'gone' }
+  | { readonly kind: 'known' }
+  | { readonly kind: 'rejected' }
+  | { readonly kind: 'data'; readonly file: FileRecord; readonly parsed: ParsedData }
+  | { readonly kind: 'manifest'; readonly file: FileRecord; readonly manifest: SetManifest };
+
+function sha256OfFile(path: string, sizeBytes: number): { sha256: string; bytes?: Buffer } {
+  if (sizeBytes <= 64 * 1024 * 1024) {
+    const bytes = readFileSync(path);
+    return { sha256: createHash('sha256').update(bytes).digest('hex'), bytes };
+  }
+  const hash = createHash('sha256');
+  const fd = openSync(path, 'r');
+  try {
+    const chunk = Buffer.alloc(1024 * 1024);
+    for (let n = readSync(fd, chunk); n > 0; n = readSync(fd, chunk)) hash.update(chunk.subarray(0, n));
+  } finally {
+    closeSync(fd);
+  }
+  return { sha256: hash.digest('hex') };
+}
+
+/** Quarantines a recorded file with `error` and marks it rejected (or failed). */
+export function rejectFile(ledger: Ledger, config: DriftlightConfig, file: FileRecord, error: DriftlightError, now: Date, state: 'rejected' | 'failed' = 'rejected', setId?: string): void {
+  ledger.transaction(() => setFileError(ledger, file.id, state, { code: error.code, message: error.message }, now));
+  const target = quarantineFile(
+    config.folders.quarantine,
+    file.path,
+    file.name,
+    { code: error.code, message: error.message, hint: error.hint, ...(error.line === undefined ? {} : { line: error.line }), ...(setId === undefined ? {} : { setId }) },
+    now,
+    file.sha256,
+  );
+  ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: target }, now));
+}
+
+/** Finishes an interrupted archive move of a done file still in the inbox. */
+export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file: FileRecord, now: Date): void {
+  if (file.archivePath !== null || !existsSync(file.path)) return;
+  const target = uniqueTarget(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file.name);
+  moveFile(file.path, target);
+  ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: target }, now));
+}
+
+/** Records and reads a stable file; returns what it is, or that it was handled (known, rejected, gone). */
+export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date): IntakeResult {
+  let sizeBytes: number;
+  try {
+    const stat = statSync(path);
+    if (!stat.isFile()) return { kind: 'gone' };
+    sizeBytes = stat.size;
+  } catch {
+    return { kind: 'gone' };
+  }
+  const name = basename(path);
+  const { sha256, bytes } = sha256OfFile(path, sizeBytes);
+  const known = filesBySha256(ledger, sha256);
+  const samePath = known.filter((f) => f.path === path);
+  for (const record of samePath) {
+    if (record.state === 'seen') return readRecorded(ledger, config, record, bytes ?? readFileSync(path), now);
+    if (record.state === 'assembled' || record.state === 'queued') return { kind: 'known' };
+    if (record.state === 'done' && record.archivePath === null) {
+      finishArchiveMove(ledger, config, record, now);
+      return { kind: 'known' };
+    }
+    if ((record.state === 'rejected' || record.state === 'failed') && record.quarantinePath === null) {
+      rejectFile(ledger, config, record, new InputRejected((record.errorCode ?? 'SET_FAILED') as keyof typeof ERROR_CODES, record.errorMessage ?? 'rejected'), now, record.state);
+      return { kind: 'known' };
+    }
+  }
+  const original = known.find((f) => f.state !== 'rejected' && f.state !== 'failed');
+  const file = ledger.transaction(() => insertFile(ledger, { sha256, path, name, sizeBytes }, now));
+  if (original !== undefined) {
+    const where = original.setId === null ? '' : ` in set ${original.setId}`;
+    rejectFile(ledger, config, file, new InputRejected('DUPLICATE_INPUT', `the same content was already received as ${original.name}${where} (sha256 ${sha256.slice(0, 12)}…)`, { file: name }), now);
+    return { kind: 'rejected' };
+  }
+  if (sizeBytes > config.limits.maxFileBytes) {
+    rejectFile(ledger, config, file, new InputRejected('FILE_TOO_LARGE', `the file has ${sizeBytes} bytes, more than limits.maxFileBytes = ${config.limits.maxFileBytes}`, { file: name }), now);
+    return { kind: 'rejected' };
+  }
+  return readRecorded(ledger, config, file, bytes ?? readFileSync(path), now);
+}
+
+function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord, bytes: Uint8Array, now: Date): IntakeResult {
+  try {
+    if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
+      return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name) };
+    }
+    return { kind: 'data', file, parsed: readData(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }) };
+  } catch (error) {
+    if (!(error instanceof InputRejected)) throw error;
+    rejectFile(ledger, config, file, error.withLocation(file.name), now);
+    return { kind: 'rejected' };
+  }
+}

@@ -1,0 +1,77 @@
+// Wires one pipeline instance: ledger, logger, job queue (createJobQueue with the config's queue
+// section and workers/analyze-job.js as processor) and the coordinator. Used by the CLI commands.
+import { mkdirSync } from 'node:fs';
+import type { Logger } from 'pino';
+import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
+import type { DriftlightConfig } from '../config/resolve.js';
+import { createLogger } from '../output/logger.js';
+import { createJobQueue } from '../queue/index.js';
+import type { JobQueue } from '../queue/job-queue.js';
+import { openLedger, type Ledger } from '../store/ledger.js';
+import { Coordinator } from './coordinator.js';
+import type { ResultStage } from './result-stage.js';
+import { defaultResultStages } from './stage-table.js';
+
+/** The compiled job processor (from dist/src/pipeline). */
+export const ANALYZE_PROCESSOR_URL = new URL('../../workers/analyze-job.js', import.meta.url);
+
+export interface Pipeline {
+  readonly config: DriftlightConfig;
+  readonly ledger: Ledger;
+  readonly logger: Logger;
+  readonly queue: JobQueue<AnalysisJobPayload, AnalysisOutput>;
+  readonly coordinator: Coordinator;
+  /** Closes the queue (letting running jobs finish), then the ledger, then flushes the log. */
+  close(): Promise<void>;
+}
+
+/** Opens the pipeline for `config`: creates folders, opens the ledger, starts the queue; stages default to the stage table. */
+export function openPipeline(
+  config: DriftlightConfig,
+  options: { softwareVersion: string; stages?: readonly ResultStage[]; logger?: Logger; clock?: () => Date },
+): Pipeline {
+  for (const dir of Object.values(config.folders)) mkdirSync(dir, { recursive: true });
+  const logger = options.logger ?? createLogger(config.logging, config.logFile);
+  const ledger = openLedger(config.folders.state);
+  const q = config.queue;
+  const queue = createJobQueue<AnalysisJobPayload, AnalysisOutput>({
+    processorFile: ANALYZE_PROCESSOR_URL,
+    backend: q.backend,
+    concurrency: q.concurrency,
+    attempts: q.attempts,
+    backoffMs: q.backoffMs,
+    jobTimeoutMs: q.jobTimeoutMs,
+    redisUrl: q.redisUrl,
+    prefix: q.prefix,
+    queueName: q.queueName,
+    retention: q.retention,
+    ...(q.backend === 'bullmq' ? { runWorker: true } : {}),
+    logger,
+  });
+  const coordinator = new Coordinator({
+    config, ledger, queue, logger, softwareVersion: options.softwareVersion,
+    stages: options.stages ?? defaultResultStages(config, logger),
+    ...(options.clock === undefined ? {} : { clock: options.clock }),
+  });
+  let closed = false;
+  return {
+    config, ledger, logger, queue, coordinator,
+    async close() {
+      if (closed) return;
+      closed = true;
+      await queue.close();
+      logger.debug('queue closed');
+      ledger.close();
+      logger.debug('ledger closed');
+      // Bounded: a flush callback that never fires must not keep the process from exiting.
+      await new Promise<void>((resolve) => {
+        const timer = setTimeout(resolve, 1000);
+        timer.unref();
+        logger.flush(() => {
+          clearTimeout(timer);
+          resolve();
+        });
+      });
+    },
+  };
+}

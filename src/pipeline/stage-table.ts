@@ -1,0 +1,15 @@
+// The result stages every pipeline runs, in order: one row per stage factory. The QC module adds its
+// rule stage (and alerts in afterCommit) by adding a row here; see result-stage.ts for the contract.
+import type { Logger } from 'pino';
+import type { DriftlightConfig } from '../config/resolve.js';
+import type { ResultStage } from './result-stage.js';
+
+/** Builds a stage from the resolved config and the pipeline's logger. */
+export type ResultStageFactory = (config: DriftlightConfig, context: { readonly logger: Logger }) => ResultStage;
+
+export const RESULT_STAGE_FACTORIES: readonly ResultStageFactory[] = [];
+
+/** The configured stages, in table order. */
+export function defaultResultStages(config: DriftlightConfig, logger: Logger): ResultStage[] {
+  return RESULT_STAGE_FACTORIES.map((factory) => factory(config, { logger }));
+}

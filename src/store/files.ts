@@ -1,0 +1,169 @@
+// Typed queries on the `files` table: every input file the pipeline has seen and its state.
+import type { Ledger } from './ledger.js';
+
+export const FILE_STATES = ['seen', 'assembled', 'queued', 'done', 'rejected', 'failed'] as const;
+export type FileState = (typeof FILE_STATES)[number];
+
+export interface FileRecord {
+  readonly id: number;
+  readonly sha256: string;
+  /** Path where the file was first seen (in the inbox). */
+  readonly path: string;
+  readonly name: string;
+  readonly sizeBytes: number;
+  readonly firstSeenAt: string;
+  readonly updatedAt: string;
+  readonly state: FileState;
+  readonly dataType: 'spectrum' | 'decay' | 'manifest' | null;
+  readonly part: string | null;
+  readonly role: string | null;
+  readonly sampleId: string | null;
+  readonly acquiredAt: string | null;
+  readonly excitationNm: number | null;
+  readonly solvent: string | null;
+  readonly hasIrfColumn: boolean;
+  readonly setId: string | null;
+  readonly archivePath: string | null;
+  readonly quarantinePath: string | null;
+  readonly errorCode: string | null;
+  readonly errorMessage: string | null;
+}
+
+interface FileRow {
+  id: number; sha256: string; path: string; name: string; size_bytes: number; first_seen_at: string;
+  updated_at: string; state: FileState; data_type: FileRecord['dataType']; part: string | null;
+  role: string | null; sample_id: string | null; acquired_at: string | null; excitation_nm: number | null;
+  solvent: string | null; has_irf_column: number; set_id: string | null; archive_path: string | null;
+  quarantine_path: string | null; error_code: string | null; error_message: string | null;
+}
+
+function toRecord(row: FileRow): FileRecord {
+  return {
+    id: row.id, sha256: row.sha256, path: row.path, name: row.name, sizeBytes: row.size_bytes,
+    firstSeenAt: row.first_seen_at, updatedAt: row.updated_at, state: row.state, dataType: row.data_type,
+    part: row.part, role: row.role, sampleId: row.sample_id, acquiredAt: row.acquired_at,
+    excitationNm: row.excitation_nm, solvent: row.solvent, hasIrfColumn: row.has_irf_column === 1,
+    setId: row.set_id, archivePath: row.archive_path, quarantinePath: row.quarantine_path,
+    errorCode: row.error_code, errorMessage: row.error_message,
+  };
+}
+
+/** What is known about a file when it is first recorded. */
+export interface NewFile {
+  readonly sha256: string;
+  readonly path: string;
+  readonly name: string;
+  readonly sizeBytes: number;
+}
+
+/** Classification facts stored once the file has been read. */
+export interface FileFacts {
+  readonly dataType: 'spectrum' | 'decay' | 'manifest';
+  readonly part: string | null;
+  readonly role: string | null;
+  readonly sampleId: string | null;
+  readonly acquiredAt: string | null;
+  readonly excitationNm: number | null;
+  readonly solvent: string | null;
+  readonly hasIrfColumn: boolean;
+}
+
+/** Inserts a file in state `seen` and returns its record. */
+export function insertFile(ledger: Ledger, file: NewFile, now: Date): FileRecord {
+  const at = now.toISOString();
+  const info = ledger
+    .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state)
+              VALUES (?, ?, ?, ?, ?, ?, 'seen')`)
+    .run(file.sha256, file.path, file.name, file.sizeBytes, at, at);
+  const record = getFile(ledger, Number(info.lastInsertRowid));
+  if (record === undefined) throw new Error(`ledger: file row ${String(info.lastInsertRowid)} vanished after insert`);
+  return record;
+}
+
+/** The file with this id, if any. */
+export function getFile(ledger: Ledger, id: number): FileRecord | undefined {
+  const row = ledger.prepare('SELECT * FROM files WHERE id = ?').get(id) as FileRow | undefined;
+  return row === undefined ? undefined : toRecord(row);
+}
+
+/** Every file with this content hash, oldest first. */
+export function filesBySha256(ledger: Ledger, sha256: string): FileRecord[] {
+  return (ledger.prepare('SELECT * FROM files WHERE sha256 = ? ORDER BY id').all(sha256) as FileRow[]).map(toRecord);
+}
+
+/** Files seen at `path`, oldest first. */
+export function filesByPath(ledger: Ledger, path: string): FileRecord[] {
+  return (ledger.prepare('SELECT * FROM files WHERE path = ? ORDER BY id').all(path) as FileRow[]).map(toRecord);
+}
+
+/** Files in one of `states`, oldest first. */
+export function filesInStates(ledger: Ledger, states: readonly FileState[]): FileRecord[] {
+  const marks = states.map(() => '?').join(',');
+  return (ledger.prepare(`SELECT * FROM files WHERE state IN (${marks}) ORDER BY id`).all(...states) as FileRow[]).map(toRecord);
+}
+
+/** The files belonging to a set (its own, not paired), oldest first. */
+export function filesOfSet(ledger: Ledger, setId: string): FileRecord[] {
+  return (ledger.prepare('SELECT * FROM files WHERE set_id = ? ORDER BY id').all(setId) as FileRow[]).map(toRecord);
+}
+
+/** Stores the classification of a file read successfully. */
+export function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
+  ledger
+    .prepare(`UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, excitation_nm = ?,
+              solvent = ?, has_irf_column = ?, updated_at = ? WHERE id = ?`)
+    .run(facts.dataType, facts.part, facts.role, facts.sampleId, facts.acquiredAt, facts.excitationNm, facts.solvent,
+      facts.hasIrfColumn ? 1 : 0, now.toISOString(), id);
+}
+
+/** Moves a file to `state`, optionally attaching it to a set. */
+export function setFileState(ledger: Ledger, id: number, state: FileState, now: Date, setId?: string | null): void {
+  if (setId === undefined) {
+    ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE id = ?').run(state, now.toISOString(), id);
+  } else {
+    ledger.prepare('UPDATE files SET state = ?, set_id = ?, updated_at = ? WHERE id = ?').run(state, setId, now.toISOString(), id);
+  }
+}
+
+/** Moves every own file of a set to `state`. */
+export function setFilesOfSetState(ledger: Ledger, setId: string, state: FileState, now: Date): void {
+  ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE set_id = ?').run(state, now.toISOString(), setId);
+}
+
+/** Marks a file rejected or failed with its error (and where it was quarantined). */
+export function setFileError(
+  ledger: Ledger,
+  id: number,
+  state: 'rejected' | 'failed',
+  error: { code: string; message: string },
+  now: Date,
+): void {
+  ledger
+    .prepare('UPDATE files SET state = ?, error_code = ?, error_message = ?, updated_at = ? WHERE id = ?')
+    .run(state, error.code, error.message, now.toISOString(), id);
+}
+
+/** Records where a file now lives after an archive or quarantine move. */
+export function setFileLocation(ledger: Ledger, id: number, where: { archivePath?: string; quarantinePath?: string }, now: Date): void {
+  if (where.archivePath !== undefined) {
+    ledger.prepare('UPDATE files SET archive_path = ?, updated_at = ? WHERE id = ?').run(where.archivePath, now.toISOString(), id);
+  }
+  if (where.quarantinePath !== undefined) {
+    ledger.prepare('UPDATE files SET quarantine_path = ?, updated_at = ? WHERE id = ?').run(where.quarantinePath, now.toISOString(), id);
+  }
+}
+
+/** Pairing candidates: the newest `limit` files of `part` (by first seen) not rejected; the caller filters by measurement time. */
+export function pairingCandidates(ledger: Ledger, part: string, limit = 200): FileRecord[] {
+  return (ledger
+    .prepare(`SELECT * FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`)
+    .all(part, limit) as FileRow[]).map(toRecord);
+}
+
+/** Decay files that carry their own IRF column (usable as an IRF), newest first. */
+export function decayIrfCandidates(ledger: Ledger, limit = 200): FileRecord[] {
+  return (ledger
+    .prepare(`SELECT * FROM files WHERE part = 'decay' AND has_irf_column = 1 AND state IN ('assembled','queued','done')
+              ORDER BY first_seen_at DESC, id DESC LIMIT ?`)
+    .all(limit) as FileRow[]).map(toRecord);
+}

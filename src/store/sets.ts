@@ -1,0 +1,132 @@
+// Typed queries on `sets` (measurement sets) and `set_pairings` (parts borrowed from other sets).
+import type { Ledger } from './ledger.js';
+
+export const SET_STATES = ['open', 'queued', 'done', 'failed'] as const;
+export type SetState = (typeof SET_STATES)[number];
+export type SetSource = 'manifest' | 'metadata' | 'pattern' | 'fallback';
+
+export interface SetRecord {
+  readonly id: string;
+  readonly sampleId: string;
+  readonly role: string;
+  readonly source: SetSource;
+  readonly state: SetState;
+  readonly createdAt: string;
+  readonly deadlineAt: string;
+  readonly queuedAt: string | null;
+  readonly doneAt: string | null;
+  /** The manifest (JSON) when the set was declared by one. */
+  readonly manifestJson: string | null;
+  readonly jobId: string | null;
+  readonly resultPath: string | null;
+  readonly partial: boolean | null;
+  readonly errorCode: string | null;
+  readonly errorMessage: string | null;
+}
+
+interface SetRow {
+  id: string; sample_id: string; role: string; source: SetSource; state: SetState; created_at: string;
+  deadline_at: string; queued_at: string | null; done_at: string | null; manifest_json: string | null;
+  job_id: string | null; result_path: string | null; partial: number | null; error_code: string | null;
+  error_message: string | null;
+}
+
+function toRecord(row: SetRow): SetRecord {
+  return {
+    id: row.id, sampleId: row.sample_id, role: row.role, source: row.source, state: row.state,
+    createdAt: row.created_at, deadlineAt: row.deadline_at, queuedAt: row.queued_at, doneAt: row.done_at,
+    manifestJson: row.manifest_json, jobId: row.job_id, resultPath: row.result_path,
+    partial: row.partial === null ? null : row.partial === 1, errorCode: row.error_code, errorMessage: row.error_message,
+  };
+}
+
+export interface NewSet {
+  readonly id: string;
+  readonly sampleId: string;
+  readonly role: string;
+  readonly source: SetSource;
+  readonly createdAt: Date;
+  readonly deadlineAt: Date;
+  readonly manifestJson?: string;
+}
+
+/** Inserts an open set. */
+export function insertSet(ledger: Ledger, set: NewSet): void {
+  ledger
+    .prepare(`INSERT INTO sets (id, sample_id, role, source, state, created_at, deadline_at, manifest_json)
+              VALUES (?, ?, ?, ?, 'open', ?, ?, ?)`)
+    .run(set.id, set.sampleId, set.role, set.source, set.createdAt.toISOString(), set.deadlineAt.toISOString(), set.manifestJson ?? null);
+}
+
+/** The set with this id, if any. */
+export function getSet(ledger: Ledger, id: string): SetRecord | undefined {
+  const row = ledger.prepare('SELECT * FROM sets WHERE id = ?').get(id) as SetRow | undefined;
+  return row === undefined ? undefined : toRecord(row);
+}
+
+/** Sets in `state`, oldest first. */
+export function setsInState(ledger: Ledger, state: SetState): SetRecord[] {
+  return (ledger.prepare('SELECT * FROM sets WHERE state = ? ORDER BY created_at, id').all(state) as SetRow[]).map(toRecord);
+}
+
+/** Finished sets created at or after `since`, oldest first (for reprocess). */
+export function finishedSetsSince(ledger: Ledger, since: Date): SetRecord[] {
+  return (ledger
+    .prepare(`SELECT * FROM sets WHERE state IN ('done','failed') AND created_at >= ? ORDER BY created_at, id`)
+    .all(since.toISOString()) as SetRow[]).map(toRecord);
+}
+
+/** Updates an open set's role, sample id, source, deadline or manifest (manifest claiming a set). */
+export function updateOpenSet(ledger: Ledger, id: string, change: { role?: string; sampleId?: string; source?: SetSource; deadlineAt?: Date; manifestJson?: string }): void {
+  const current = getSet(ledger, id);
+  if (current === undefined) return;
+  ledger
+    .prepare('UPDATE sets SET role = ?, sample_id = ?, source = ?, deadline_at = ?, manifest_json = ? WHERE id = ?')
+    .run(change.role ?? current.role, change.sampleId ?? current.sampleId, change.source ?? current.source,
+      change.deadlineAt?.toISOString() ?? current.deadlineAt, change.manifestJson ?? current.manifestJson, id);
+}
+
+/** Deletes an open set left without files (its files were claimed by a manifest). */
+export function deleteOpenSet(ledger: Ledger, id: string): void {
+  ledger.prepare(`DELETE FROM sets WHERE id = ? AND state = 'open'`).run(id);
+}
+
+/** Marks a set queued under `jobId`. */
+export function markSetQueued(ledger: Ledger, id: string, jobId: string, now: Date): void {
+  ledger.prepare(`UPDATE sets SET state = 'queued', job_id = ?, queued_at = ? WHERE id = ?`).run(jobId, now.toISOString(), id);
+}
+
+/** Marks a set done with its result path. */
+export function markSetDone(ledger: Ledger, id: string, resultPath: string, partial: boolean, now: Date): void {
+  ledger
+    .prepare(`UPDATE sets SET state = 'done', result_path = ?, partial = ?, done_at = ?, error_code = NULL, error_message = NULL WHERE id = ?`)
+    .run(resultPath, partial ? 1 : 0, now.toISOString(), id);
+}
+
+/** Marks a set failed with its error. */
+export function markSetFailed(ledger: Ledger, id: string, error: { code: string; message: string }, now: Date): void {
+  ledger
+    .prepare(`UPDATE sets SET state = 'failed', error_code = ?, error_message = ?, done_at = ? WHERE id = ?`)
+    .run(error.code, error.message, now.toISOString(), id);
+}
+
+export interface PairingRecord {
+  readonly setId: string;
+  readonly part: string;
+  readonly fileId: number;
+  readonly fromSetId: string | null;
+}
+
+/** Records that `setId` borrowed file `fileId` as `part` (idempotent). */
+export function insertPairing(ledger: Ledger, pairing: PairingRecord): void {
+  ledger
+    .prepare('INSERT OR IGNORE INTO set_pairings (set_id, part, file_id, from_set_id) VALUES (?, ?, ?, ?)')
+    .run(pairing.setId, pairing.part, pairing.fileId, pairing.fromSetId);
+}
+
+/** The parts a set borrowed. */
+export function pairingsOfSet(ledger: Ledger, setId: string): PairingRecord[] {
+  return (ledger.prepare('SELECT set_id, part, file_id, from_set_id FROM set_pairings WHERE set_id = ?').all(setId) as {
+    set_id: string; part: string; file_id: number; from_set_id: string | null;
+  }[]).map((r) => ({ setId: r.set_id, part: r.part, fileId: r.file_id, fromSetId: r.from_set_id }));
+}

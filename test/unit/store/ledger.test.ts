@@ -1,0 +1,42 @@
+// The ledger on real SQLite: WAL mode, migrations applied once and extensible, file/set states, status.
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { applyMigrations, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone, markSetQueued, MIGRATIONS, openLedger, setFileState, setsInState } from '../../../src/store/index.js';
+
+const now = new Date('2026-03-14T10:00:00Z');
+
+describe('ledger', () => {
+  it('opens in WAL mode and applies each migration once, including appended ones', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dl-ledger-'));
+    const extra = { id: '9001-test-extra', up: (db: import('better-sqlite3').Database) => db.exec('CREATE TABLE extra_test (id INTEGER)') };
+    const ledger = openLedger(dir, { migrations: [...MIGRATIONS, extra] });
+    expect(ledger.database.pragma('journal_mode', { simple: true })).toBe('wal');
+    expect(applyMigrations(ledger.database, [...MIGRATIONS, extra])).toEqual([]);
+    ledger.close();
+    const again = openLedger(dir, { migrations: [...MIGRATIONS, extra] });
+    const tables = again.database.prepare(`SELECT name FROM sqlite_master WHERE type = 'table'`).all() as { name: string }[];
+    expect(tables.map((t) => t.name)).toEqual(expect.arrayContaining(['files', 'sets', 'results', 'set_pairings', 'extra_test']));
+    again.close();
+  });
+
+  it('records files and sets through their states and reports status', () => {
+    const ledger = openLedger(mkdtempSync(join(tmpdir(), 'dl-ledger-')));
+    const file = ledger.transaction(() => insertFile(ledger, { sha256: 'a'.repeat(64), path: '/in/x.csv', name: 'x.csv', sizeBytes: 10 }, now));
+    expect(file.state).toBe('seen');
+    insertSet(ledger, { id: 'x-aaaa', sampleId: 'x', role: 'sample', source: 'pattern', createdAt: now, deadlineAt: now });
+    setFileState(ledger, file.id, 'assembled', now, 'x-aaaa');
+    expect(ledgerStatus(ledger).oldestWaiting?.setId).toBe('x-aaaa');
+    markSetQueued(ledger, 'x-aaaa', 'x-aaaa', now);
+    expect(setsInState(ledger, 'queued').map((s) => s.id)).toEqual(['x-aaaa']);
+    markSetDone(ledger, 'x-aaaa', '/r/x.json', true, now);
+    expect(getSet(ledger, 'x-aaaa')).toMatchObject({ state: 'done', partial: true, resultPath: '/r/x.json' });
+    expect(filesBySha256(ledger, 'a'.repeat(64))[0]?.setId).toBe('x-aaaa');
+    const status = ledgerStatus(ledger);
+    expect(status.files.assembled).toBe(1);
+    expect(status.sets.done).toBe(1);
+    expect(() => setFileState(ledger, file.id, 'bogus' as 'done', now)).toThrow(/CHECK constraint/);
+    ledger.close();
+  });
+});
