@@ -7,6 +7,9 @@ import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
 import { softwareVersion } from './version.js';
 
+/** How often time-based result-stage checks run while watching, in ms. */
+const CLOCK_CHECK_INTERVAL_MS = 60_000;
+
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
 export async function runWatch(options: { config?: string }, stop: Promise<string>): Promise<void> {
   const config = configFromOptions(options);
@@ -24,9 +27,12 @@ export async function runWatch(options: { config?: string }, stop: Promise<strin
   });
   const tickMs = Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
   const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);
+  // Time-based QC (a control not measured by its deadline) is checked once a minute.
+  const clockTimer = setInterval(() => serial(async () => pipeline.clockTick(new Date())), CLOCK_CHECK_INTERVAL_MS);
   const signal = await stop;
   logger.info({ signal }, 'stopping: draining running jobs');
   clearInterval(timer);
+  clearInterval(clockTimer);
   await watcher.close();
   logger.debug('watcher closed');
   await chain;

@@ -156,6 +156,9 @@ export function createQcStage(options: QcStageOptions): QcStage {
     async idle(): Promise<void> {
       await Promise.all([...dispatchers.values()].map((existing) => existing.idle()));
     },
+    onClock(context: ResultStageContext): void {
+      this.checkClock(context.ledger, context.now);
+    },
   };
 }
 

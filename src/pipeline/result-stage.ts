@@ -19,6 +19,10 @@ export interface ResultStage {
   apply(result: AnalysisResult, context: ResultStageContext): Promise<AnalysisResult> | AnalysisResult;
   /** Called after the result is durable; failures are logged, never retried, never block the pipeline. */
   afterCommit?(result: AnalysisResult, context: ResultStageContext): void | Promise<void>;
+  /** Called by `watch` about once a minute for time-based checks (e.g. a control not measured by its deadline). */
+  onClock?(context: ResultStageContext): void;
+  /** Resolves when the stage's background work (e.g. alert deliveries) has finished; awaited before the ledger closes. */
+  idle?(): Promise<void>;
 }
 
 /** Runs `stages` in order over `result`; a stage that throws stops the chain (the caller decides). */

@@ -21,6 +21,10 @@ export interface Pipeline {
   readonly logger: Logger;
   readonly queue: JobQueue<AnalysisJobPayload, AnalysisOutput>;
   readonly coordinator: Coordinator;
+  /** The result stages the coordinator runs (QC rules and alerts by default). */
+  readonly stages: readonly ResultStage[];
+  /** Runs the stages' time-based checks at `now` (watch calls it about once a minute); failures are logged. */
+  clockTick(now: Date): void;
   /** Closes the queue (letting running jobs finish), then the ledger, then flushes the log. */
   close(): Promise<void>;
 }
@@ -48,19 +52,31 @@ export function openPipeline(
     ...(q.backend === 'bullmq' ? { runWorker: true } : {}),
     logger,
   });
+  const stages = options.stages ?? defaultResultStages(config, logger);
   const coordinator = new Coordinator({
     config, ledger, queue, logger, softwareVersion: options.softwareVersion,
-    stages: options.stages ?? defaultResultStages(config, logger),
+    stages,
     ...(options.clock === undefined ? {} : { clock: options.clock }),
   });
   let closed = false;
   return {
-    config, ledger, logger, queue, coordinator,
+    config, ledger, logger, queue, coordinator, stages,
+    clockTick(now: Date) {
+      for (const stage of stages) {
+        try {
+          stage.onClock?.({ ledger, now });
+        } catch (error) {
+          logger.error({ err: error, stage: stage.name }, 'clock check failed');
+        }
+      }
+    },
     async close() {
       if (closed) return;
       closed = true;
       await queue.close();
       logger.debug('queue closed');
+      await Promise.all(stages.map((stage) => stage.idle?.()));
+      logger.debug('stages idle');
       ledger.close();
       logger.debug('ledger closed');
       // Bounded: a flush callback that never fires must not keep the process from exiting.

@@ -3,11 +3,15 @@
 import type { Logger } from 'pino';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { ResultStage } from './result-stage.js';
+import { qcStageFromConfig } from './qc-stage.js';
 
 /** Builds a stage from the resolved config and the pipeline's logger. */
 export type ResultStageFactory = (config: DriftlightConfig, context: { readonly logger: Logger }) => ResultStage;
 
-export const RESULT_STAGE_FACTORIES: readonly ResultStageFactory[] = [];
+export const RESULT_STAGE_FACTORIES: readonly ResultStageFactory[] = [
+  // Control QC: rules from config.rules.file (or rules/default.yaml), flags into the result, alerts after commit.
+  (config, { logger }) => qcStageFromConfig(config, { logger }),
+];
 
 /** The configured stages, in table order. */
 export function defaultResultStages(config: DriftlightConfig, logger: Logger): ResultStage[] {
