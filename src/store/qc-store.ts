@@ -12,7 +12,7 @@ interface FlagRow {
 interface BaselineRow { control_id: string; metric: string; from_iso: string; mean: number | null; sd: number | null; runs: number | null; through_iso: string | null }
 interface AlertStateRow { flag_key: string; sent_at_ms: number; severity: string; channel_ids_json: string }
 
-/** The last alert sent for a key (shape of the dispatcher's SentAlert; the store does not import output/). */
+/** The last alert sent for a key (the alert dispatcher's SentAlert is this type; output/ imports it from here). */
 export interface StoredSentAlert {
   readonly key: string;
   readonly sentAtMs: number;
@@ -20,7 +20,7 @@ export interface StoredSentAlert {
   readonly channelIds: readonly string[];
 }
 
-/** One delivery outcome (shape of the dispatcher's DeliveryRecord). */
+/** One delivery outcome (the alert dispatcher's DeliveryRecord is this type). */
 export interface StoredDelivery {
   readonly channelId: string;
   readonly key: string;

@@ -1,14 +1,10 @@
 // What the dispatcher remembers between results: when each rule + control + metric was last alerted
 // (cooldown) and at which severity and on which channels (for the recovery notice); and where
 // delivery outcomes are recorded. In-memory versions here; src/store/qc-store.ts persists both.
-import type { Severity } from '../../qc/index.js';
+import type { StoredDelivery, StoredSentAlert } from '../../store/qc-store.js';
 
-export interface SentAlert {
-  readonly key: string;
-  readonly sentAtMs: number;
-  readonly severity: Severity;
-  readonly channelIds: readonly string[];
-}
+/** The last alert sent for a rule + control + metric key (the ledger stores the same shape). */
+export type SentAlert = StoredSentAlert;
 
 export interface AlertStateStore {
   /** The last alert sent for a key and not yet closed by a recovery. */
@@ -18,16 +14,8 @@ export interface AlertStateStore {
   clear(key: string): void;
 }
 
-export interface DeliveryRecord {
-  readonly channelId: string;
-  readonly key: string;
-  readonly type: 'flag' | 'recovery';
-  readonly severity: Severity;
-  readonly status: 'delivered' | 'failed';
-  readonly attempts: number;
-  readonly error?: string;
-  readonly atMs: number;
-}
+/** One delivery outcome: channel, key, delivered or failed, attempts, error, time (the ledger stores the same shape). */
+export type DeliveryRecord = StoredDelivery;
 
 export interface DeliveryRecorder {
   record(delivery: DeliveryRecord): void;
