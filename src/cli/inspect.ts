@@ -67,8 +67,8 @@ export function formatSummary(summary: InspectSummary): string {
     summary.file,
     `  kind        ${summary.type === 'decay' ? 'decay histogram' : `${summary.kind} spectrum`}`,
     `  points      ${summary.points}`,
-    `  axis        ${summary.axis.min} … ${summary.axis.max} ${summary.axis.unit} (file column "${layout.axisColumn}"${layout.axisUnitFound === null ? '' : `, unit as found: ${layout.axisUnitFound}`})`,
-    `  values      ${summary.values.min} … ${summary.values.max} ${summary.values.unit} (column "${summary.values.column}")`,
+    `  axis        ${shortNumber(summary.axis.min)} … ${shortNumber(summary.axis.max)} ${summary.axis.unit} (file column "${layout.axisColumn}"${layout.axisUnitFound === null ? '' : `, unit as found: ${layout.axisUnitFound}`})`,
+    `  values      ${shortNumber(summary.values.min)} … ${shortNumber(summary.values.max)} ${summary.values.unit} (column "${summary.values.column}")`,
     `  layout      ${layout.format}${delimiter}; decimal "${layout.decimalMark}"; ${layout.headerLineCount} header line(s); ${layout.encoding}${layout.hasBom ? ' with BOM' : ''}; line ends ${layout.lineEnding}`,
     `  columns     ${layout.columnNames.join(' | ')}${layout.ignoredColumns.length > 0 ? ` (not used: ${layout.ignoredColumns.join(', ')})` : ''}`,
     ...(layout.jcamp === undefined ? [] : [`  jcamp-dx    version ${layout.jcamp.version}; ${layout.jcamp.table}; ${layout.jcamp.compression.join(', ')}`]),
@@ -127,6 +127,11 @@ function parseMaxBytes(text: string): number {
     throw new InvalidArgumentError('expected a positive whole number of bytes');
   }
   return value;
+}
+
+/** A number for the text report: at most 8 significant digits, so 0.030000000000000002 reads 0.03 (--json keeps full precision). */
+function shortNumber(value: number): string {
+  return String(Number(value.toPrecision(8)));
 }
 
 export const inspectCommand: CommandModule = {

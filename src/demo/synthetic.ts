@@ -71,7 +71,9 @@ export function decayHistogram(spec: DecaySpec, metadata: Partial<DecayMetadata>
     backgroundPerChannel: spec.backgroundPerChannel ?? 2,
     ...(spec.intensityFractions === undefined ? {} : { intensityFractions: spec.intensityFractions }),
   }, random);
-  return createDecay({ timeNs: simulated.timeNs, counts: simulated.counts, channelWidthNs: spec.channelWidthNs, irfCounts, metadata });
+  // Channel times rounded to 12 significant digits so the exported files read 0.15, not 0.15000000000000002.
+  const timeNs = Float64Array.from(simulated.timeNs, (t) => Number(t.toPrecision(12)));
+  return createDecay({ timeNs, counts: simulated.counts, channelWidthNs: spec.channelWidthNs, irfCounts, metadata });
 }
 
 /** The same decay without its IRF column. */
