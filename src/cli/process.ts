@@ -7,7 +7,7 @@ import { createLogger } from '../output/logger.js';
 import { openPipeline } from '../pipeline/runtime.js';
 import type { CommandModule } from './command-module.js';
 import { collectFiles } from './collect-files.js';
-import { configFromOptions, withConfigOption } from './config-option.js';
+import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { EXIT_CODES } from './exit-codes.js';
 import { createProgress } from './progress.js';
 import { softwareVersion } from './version.js';
@@ -23,7 +23,7 @@ export interface BatchSummary {
 }
 
 /** Runs one batch over `paths` with the config file `configFile`; returns the summary (also printed). */
-export async function runBatch(paths: readonly string[], options: { config?: string; verbose?: boolean }, stdout: NodeJS.WritableStream = process.stdout): Promise<BatchSummary> {
+export async function runBatch(paths: readonly string[], options: ConfigCliOptions & { verbose?: boolean }, stdout: NodeJS.WritableStream = process.stdout): Promise<BatchSummary> {
   const config = configFromOptions(options);
   for (const p of paths) if (!existsSync(p)) throw new ConfigInvalid(`no such file or folder: ${p}`, { hint: 'Pass existing files or folders to `driftlight process`.' });
   const logger = createLogger({ ...config.logging, stdout: options.verbose === true ? config.logging.stdout : 'off' }, config.logFile);
@@ -62,13 +62,13 @@ export async function runBatch(paths: readonly string[], options: { config?: str
 
 export const processCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(
+    withRedisOption(withConfigOption(
       program
         .command('process')
         .description('analyse the given files or folders once, then exit (exit 3 if any input was rejected)')
         .argument('<paths...>', 'files or folders (searched recursively)')
         .option('-v, --verbose', 'also log to stdout'),
-    ).action(async (paths: string[], options: { config?: string; verbose?: boolean }) => {
+    )).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean }) => {
       const summary = await runBatch(paths, options);
       process.exitCode = summary.rejected > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
     });

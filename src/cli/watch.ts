@@ -1,17 +1,19 @@
 // `driftlight watch`: runs unattended until SIGINT/SIGTERM — watches the inbox, assembles sets,
 // dispatches them, commits results; on a signal it stops watching, drains running jobs and exits.
+// On bullmq it does not wait for the Redis backlog: queued jobs persist there and their outcomes
+// are swept in at the next start, so it only closes the queue.
 import type { Command } from 'commander';
 import { openPipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
-import { configFromOptions, withConfigOption } from './config-option.js';
+import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { softwareVersion } from './version.js';
 
 /** How often time-based result-stage checks run while watching, in ms. */
 const CLOCK_CHECK_INTERVAL_MS = 60_000;
 
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
-export async function runWatch(options: { config?: string }, stop: Promise<string>): Promise<void> {
+export async function runWatch(options: ConfigCliOptions, stop: Promise<string>): Promise<void> {
   const config = configFromOptions(options);
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion() });
   const { coordinator, logger } = pipeline;
@@ -30,23 +32,29 @@ export async function runWatch(options: { config?: string }, stop: Promise<strin
   // Time-based QC (a control not measured by its deadline) is checked once a minute.
   const clockTimer = setInterval(() => serial(async () => pipeline.clockTick(new Date())), CLOCK_CHECK_INTERVAL_MS);
   const signal = await stop;
-  logger.info({ signal }, 'stopping: draining running jobs');
+  const persistentQueue = config.queue.backend === 'bullmq';
+  logger.info({ signal }, persistentQueue ? 'stopping: jobs left in Redis are picked up at the next start' : 'stopping: draining running jobs');
   clearInterval(timer);
   clearInterval(clockTimer);
   await watcher.close();
   logger.debug('watcher closed');
   await chain;
   logger.debug('intake finished');
-  await coordinator.drain();
-  logger.debug('jobs drained');
+  if (persistentQueue) {
+    // Ready sets not yet queued stay open in the ledger and are dispatched at the next start.
+    coordinator.holdDispatch = true;
+  } else {
+    await coordinator.drain();
+    logger.debug('jobs drained');
+  }
   await pipeline.close();
 }
 
 export const watchCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(
+    withRedisOption(withConfigOption(
       program.command('watch').description('watch the inbox and analyse every new file until SIGINT/SIGTERM'),
-    ).action(async (options: { config?: string }) => {
+    )).action(async (options: ConfigCliOptions) => {
       const stop = new Promise<string>((resolve) => {
         process.once('SIGINT', () => resolve('SIGINT'));
         process.once('SIGTERM', () => resolve('SIGTERM'));

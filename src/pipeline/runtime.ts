@@ -4,6 +4,7 @@ import { mkdirSync } from 'node:fs';
 import type { Logger } from 'pino';
 import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
 import type { DriftlightConfig } from '../config/resolve.js';
+import { coordinatorRunsWorker } from '../config/sections/queue.js';
 import { createLogger } from '../output/logger.js';
 import { createJobQueue } from '../queue/index.js';
 import type { JobQueue } from '../queue/job-queue.js';
@@ -49,7 +50,11 @@ export function openPipeline(
     prefix: q.prefix,
     queueName: q.queueName,
     retention: q.retention,
-    ...(q.backend === 'bullmq' ? { runWorker: true } : {}),
+    runWorker: coordinatorRunsWorker(q),
+    lockDurationMs: q.lockDurationMs,
+    stalledIntervalMs: q.stalledIntervalMs,
+    maxStalledCount: q.maxStalledCount,
+    outcomeSweepMs: q.outcomeSweepMs,
     logger,
   });
   const stages = options.stages ?? defaultResultStages(config, logger);

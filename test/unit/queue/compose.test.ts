@@ -84,11 +84,12 @@ describe('docker-compose.yml', () => {
     expect(redis.healthcheck?.test).toEqual(['CMD', 'redis-cli', 'ping']);
   });
 
-  it('runs the coordinator with a real `watch --config` and every data folder mounted', () => {
+  it('runs the coordinator with a real `watch --config --redis` on the workers\' Redis and every data folder mounted', () => {
     const coordinator = service('coordinator');
     const flags = checkCliArgs(coordinator.command ?? []);
     expect(coordinator.command?.[0]).toBe('watch');
     expect(flags.get('--config')).toBe('/config/driftlight.yaml');
+    expect(flags.get('--redis')).toBe(checkCliArgs(service('worker').command ?? []).get('--redis'));
     const targets = (coordinator.volumes ?? []).map(volumeTarget);
     for (const folder of ['inbox', 'results', 'archive', 'quarantine', 'outbox', 'state']) expect(targets).toContain(`/data/${folder}`);
     expect(targets).toContain('/config');
@@ -122,10 +123,11 @@ describe('docker-compose.yml', () => {
     expect(dockerfile).toMatch(/ENTRYPOINT \["node", "\/app\/bin\/driftlight\.js"\]/);
   });
 
-  it('matches the documented coordinator config: valid, same folders, same queue as the workers', () => {
+  it('matches the documented coordinator config: valid, a pure coordinator, same folders, same queue as the workers', () => {
     const config = resolveConfig(composeConfigFromDocs(), { baseDir: '/config' });
     const workerFlags = checkCliArgs(service('worker').command ?? []);
     expect(config.queue.backend).toBe('bullmq');
+    expect(config.queue.runWorker).toBe(false);
     expect(config.queue.redisUrl).toBe(workerFlags.get('--redis'));
     expect(config.queue.prefix).toBe(workerFlags.get('--prefix'));
     expect(config.queue.queueName).toBe(workerFlags.get('--queue'));
