@@ -7,7 +7,7 @@ import { buildArtifacts } from './artifacts.js';
 import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
 import { absorbanceSummary, correctEmission, emissionMetrics } from './emission-step.js';
 import { decayOf, parseInputs, spectrumOf } from './parse-inputs.js';
-import type { AnalysisJobPayload, AnalysisOutput } from './payload.js';
+import type { AnalysisJobPayload, AnalysisOutput, RejectedInput } from './payload.js';
 import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary } from './result.js';
 import { attempt, createStepContext, markMissing } from './step-context.js';
 import { computeQuantumYield, computeRates } from './yield-step.js';
@@ -18,7 +18,8 @@ const SAMPLE_ROLES = new Set(['sample', 'control']);
 export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
   const context = createStepContext();
   for (const m of payload.missingParts) markMissing(context, m.part, m.reason);
-  const parsed = parseInputs(payload, context);
+  const rejectedInputs: RejectedInput[] = [];
+  const parsed = parseInputs(payload, context, rejectedInputs);
   const settings = payload.settings;
 
   const emissionRaw = spectrumOf(parsed, 'emission', context) ?? (payload.role === 'raman' ? spectrumOf(parsed, 'raman', context) : undefined);
@@ -145,7 +146,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
       analyzedAt: payload.analyzedAt,
     },
   };
-  return { result, artifacts };
+  return { result, artifacts, rejectedInputs };
 }
 
 function firstMetadata(parsed: ReturnType<typeof parseInputs>): { acquiredAt?: string; solvent?: string } | undefined {

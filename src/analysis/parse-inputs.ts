@@ -1,10 +1,11 @@
 // Parses every file of a payload with the format readers, keyed by the part it supplies.
 import type { Decay } from '../model/decay.js';
 import type { Spectrum, SpectrumKind } from '../model/spectrum.js';
+import { InputRejected } from '../model/errors.js';
 import { readData } from '../formats/index.js';
-import type { AnalysisJobPayload, PayloadFile } from './payload.js';
+import type { AnalysisJobPayload, PayloadFile, RejectedInput } from './payload.js';
 import type { SetPart } from './result.js';
-import { attempt, markMissing, type StepContext } from './step-context.js';
+import { markMissing, reasonOf, type StepContext } from './step-context.js';
 
 export type ParsedInput =
   | { readonly file: PayloadFile; readonly type: 'spectrum'; readonly spectrum: Spectrum }
@@ -18,18 +19,32 @@ const KIND_HINT: Readonly<Record<SetPart, SpectrumKind | 'decay'>> = {
 
 const encoder = new TextEncoder();
 
-/** Parses each payload file (first file per part wins; later ones are reported); unreadable files become missing parts. */
-export function parseInputs(payload: AnalysisJobPayload, context: StepContext): Map<SetPart, ParsedInput> {
+/** Reads one payload file, or throws InputRejected (file, line, hint). */
+function readInput(file: PayloadFile, maxFileBytes: number): ReturnType<typeof readData> {
+  return readData(encoder.encode(file.content), { fileName: file.name, maxBytes: maxFileBytes, kindHint: KIND_HINT[file.part] });
+}
+
+/**
+ * Parses each payload file (first file per part wins; later ones are reported); unreadable files
+ * become missing parts, and unreadable own files are added to `rejected` (to be quarantined).
+ */
+export function parseInputs(payload: AnalysisJobPayload, context: StepContext, rejected: RejectedInput[] = []): Map<SetPart, ParsedInput> {
   const parsed = new Map<SetPart, ParsedInput>();
   for (const file of payload.files) {
     if (parsed.has(file.part)) {
       context.warnings.push(`${file.name}: a second ${file.part} file in the set was not used`);
       continue;
     }
-    const data = attempt(context, file.part, () =>
-      readData(encoder.encode(file.content), { fileName: file.name, maxBytes: payload.settings.maxFileBytes, kindHint: KIND_HINT[file.part] }),
-    );
-    if (data === undefined) continue;
+    let data: ReturnType<typeof readData>;
+    try {
+      data = readInput(file, payload.settings.maxFileBytes);
+    } catch (error) {
+      markMissing(context, file.part, reasonOf(error));
+      if (error instanceof InputRejected && file.origin === 'own') {
+        rejected.push({ name: file.name, sha256: file.sha256, code: error.code, message: error.message, hint: error.hint, ...(error.line === undefined ? {} : { line: error.line }) });
+      }
+      continue;
+    }
     parsed.set(file.part, data.type === 'spectrum' ? { file, type: 'spectrum', spectrum: data.spectrum } : { file, type: 'decay', decay: data.decay });
   }
   return parsed;

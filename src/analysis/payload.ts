@@ -58,8 +58,20 @@ export interface AnalysisArtifact {
   readonly content: string;
 }
 
-/** What a worker returns: the result and its outbox files. */
+/** An own input file the readers rejected during analysis: the coordinator quarantines it with this reason. */
+export interface RejectedInput {
+  readonly name: string;
+  readonly sha256: string;
+  readonly code: string;
+  readonly message: string;
+  readonly hint: string;
+  /** 1-based line of the problem, when the reader knows it. */
+  readonly line?: number;
+}
+
+/** What a worker returns: the result, its outbox files and the own inputs the readers rejected. */
 export interface AnalysisOutput {
   readonly result: AnalysisResult;
   readonly artifacts: readonly AnalysisArtifact[];
+  readonly rejectedInputs?: readonly RejectedInput[];
 }

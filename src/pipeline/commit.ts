@@ -1,15 +1,17 @@
 // Committing a finished job, in the order that makes a crash at any moment recoverable:
 // result JSON (atomic) → outbox files → ledger transaction (set done, results index, files done)
-// → archive moves (each recorded). A failed set's files go to quarantine with the reason.
+// → archive moves (each recorded). A failed set's files go to quarantine with the reason, and so do
+// own files the worker's readers rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
 import { dirname, join } from 'node:path';
 import { fsyncDirectoryAsync } from '../output/atomic-write.js';
-import type { AnalysisOutput } from '../analysis/payload.js';
+import type { AnalysisOutput, RejectedInput } from '../analysis/payload.js';
 import type { AnalysisResult } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
+import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesOfSet, setFileError, setFileLocation, setFilesOfSetState } from '../store/files.js';
+import { filesOfSet, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
 import { upsertResult } from '../store/results.js';
 import { getSet, markSetDone, markSetFailed } from '../store/sets.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
@@ -18,13 +20,14 @@ import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
 import { rejectFile } from './intake.js';
 
-/** Writes the result and outbox, records the set done, and archives its files; returns the result path. */
-export async function commitResult(ledger: Ledger, config: DriftlightConfig, output: AnalysisOutput, result: AnalysisResult, now: Date): Promise<string> {
+/** Writes the result and outbox, records the set done, archives its files and quarantines the ones the worker rejected; returns the result path and how many were rejected. */
+export async function commitResult(ledger: Ledger, config: DriftlightConfig, output: AnalysisOutput, result: AnalysisResult, now: Date): Promise<{ path: string; filesRejected: number }> {
   const set = getSet(ledger, result.setId);
   if (set === undefined) throw new Error(`ledger: set ${result.setId} does not exist`);
   const createdAt = new Date(set.createdAt);
   const written = await writeResult(config.folders.results, result, createdAt);
   writeOutbox(config.folders.outbox, result.setId, createdAt, output.artifacts);
+  const rejected = rejectedOwnFiles(ledger, result.setId, output.rejectedInputs ?? []);
   ledger.transaction(() => {
     markSetDone(ledger, result.setId, written.path, result.partial, now);
     upsertResult(ledger, {
@@ -35,9 +38,25 @@ export async function commitResult(ledger: Ledger, config: DriftlightConfig, out
       resultSha256: written.sha256, flagsJson: JSON.stringify(result.qc.flags),
     });
     setFilesOfSetState(ledger, result.setId, 'done', now);
+    for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
   await archiveSetFiles(ledger, config, result.setId, now);
-  return written.path;
+  for (const { file, reason } of rejected) {
+    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
+    rejectFile(ledger, config, file, error, now, 'rejected', result.setId);
+  }
+  return { path: written.path, filesRejected: rejected.length };
+}
+
+/** The set's own files (still in the inbox) that the worker's readers rejected, each with its reason. */
+function rejectedOwnFiles(ledger: Ledger, setId: string, rejectedInputs: readonly RejectedInput[]): { file: FileRecord; reason: RejectedInput }[] {
+  if (rejectedInputs.length === 0) return [];
+  const out: { file: FileRecord; reason: RejectedInput }[] = [];
+  for (const file of filesOfSet(ledger, setId)) {
+    const reason = rejectedInputs.find((r) => r.sha256 === file.sha256 && r.name === file.name);
+    if (reason !== undefined && file.archivePath === null && file.quarantinePath === null) out.push({ file, reason });
+  }
+  return out;
 }
 
 /** Moves every own file of a done set that is still in the inbox to archive/YYYY-MM-DD/ (idempotent). */

@@ -11,12 +11,12 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobOutcome, JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
-import { getFile, setFileFacts, setFileState, type FileRecord } from '../store/files.js';
+import { getFile, insertFile, setFileFacts, setFileState } from '../store/files.js';
 import { deleteOpenSet, getSet, insertPairing, insertSet, markSetQueued } from '../store/sets.js';
 import { classifyFile, makeSetId, partsPresent, placeFile, setReadiness, type AssemblyRules } from './assemble.js';
 import { commitFailure, commitResult } from './commit.js';
 import { buildPayload, choosePairings, readText } from './dispatch.js';
-import { intakeFile, type IntakeResult } from './intake.js';
+import { intakeFile, type IntakeFile, type IntakeResult } from './intake.js';
 import { recoverMoves } from './recovery.js';
 import type { SetManifest } from './manifest.js';
 import { OpenSets, toView, type OpenSet } from './open-sets.js';
@@ -72,6 +72,8 @@ export class Coordinator {
   private readonly readyWaitingSet = new Set<string>();
   /** Most jobs handed to the queue at once: 4 per worker. */
   private readonly maxInFlight: number;
+  /** Whether outcomes are committed after the queue slot is released (in-process queue: nothing to acknowledge). */
+  private readonly detachCommits: boolean;
   /** Listeners told about each committed result (CLI progress, reprocess diffs, benchmarks). */
   private readonly committedListeners: ((setId: string, resultPath: string | undefined) => void)[] = [];
 
@@ -85,6 +87,7 @@ export class Coordinator {
     this.softwareVersion = options.softwareVersion;
     const c = this.config;
     this.maxInFlight = Math.max(4, 4 * c.queue.concurrency);
+    this.detachCommits = c.queue.backend === 'in-process';
     this.rules = {
       fileNamePatterns: c.assembly.fileNamePatterns.map((p) => new RegExp(p, 'i')),
       referencePatterns: c.references.map((r) => new RegExp(r.sampleIdPattern)),
@@ -150,7 +153,7 @@ export class Coordinator {
     else await this.assembleData(outcome.file, outcome.parsed, now);
   }
 
-  private async assembleData(file: FileRecord, parsed: ParsedData, now: Date): Promise<void> {
+  private async assembleData(file: IntakeFile, parsed: ParsedData, now: Date): Promise<void> {
     const metadata = parsed.type === 'spectrum' ? parsed.spectrum.metadata : parsed.decay.metadata;
     const hasIrfColumn = parsed.type === 'decay' && parsed.decay.irfCounts !== undefined;
     const classification = classifyFile({
@@ -175,22 +178,25 @@ export class Coordinator {
     const listed = set.manifest?.manifest.files.find((f) => f.file === file.name);
     const part: SetPart = listed?.part ?? classification.part;
     const role: MeasurementRole = listed?.role ?? classification.role;
-    // One transaction: a crash leaves either nothing (the file is re-read) or the file in its set.
-    this.ledger.transaction(() => {
+    // One transaction records the file and puts it in its set: a crash leaves either nothing (the
+    // start-up scan reads the file again) or the file in its set.
+    const fileId = this.ledger.transaction(() => {
+      const id = file.id ?? insertFile(this.ledger, file, now).id;
       if (created) insertSet(this.ledger, { id: set.id, sampleId: set.sampleId, role: set.role, source: classification.sampleIdSource, createdAt: now, deadlineAt: set.deadlineAt });
-      setFileFacts(this.ledger, file.id, {
+      setFileFacts(this.ledger, id, {
         dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: metadata.acquiredAt ?? null,
         excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
       }, now);
-      setFileState(this.ledger, file.id, 'assembled', now, set.id);
+      setFileState(this.ledger, id, 'assembled', now, set.id);
+      return id;
     });
     if (created) this.openSets.add(set);
-    set.files.push({ fileId: file.id, name: file.name, path: file.path, part, hasIrfColumn });
+    set.files.push({ fileId, name: file.name, path: file.path, part, hasIrfColumn });
     this.logger.debug({ setId: set.id, file: file.name, part }, 'file assembled');
     await this.dispatchIfReady(set, now);
   }
 
-  private async assembleManifest(file: FileRecord, manifest: SetManifest, now: Date): Promise<void> {
+  private async assembleManifest(file: IntakeFile, manifest: SetManifest, now: Date): Promise<void> {
     const dir = dirname(file.path);
     const id = makeSetId(manifest.sampleId, file.sha256);
     const set: OpenSet = {
@@ -199,9 +205,10 @@ export class Coordinator {
     };
     const manifestJson = JSON.stringify(set.manifest);
     this.ledger.transaction(() => {
+      const fileId = file.id ?? insertFile(this.ledger, file, now).id;
       insertSet(this.ledger, { id, sampleId: manifest.sampleId, role: manifest.role, source: 'manifest', createdAt: now, deadlineAt: set.deadlineAt, manifestJson });
-      setFileFacts(this.ledger, file.id, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, now);
-      setFileState(this.ledger, file.id, 'assembled', now, id);
+      setFileFacts(this.ledger, fileId, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, now);
+      setFileState(this.ledger, fileId, 'assembled', now, id);
       // Claim listed files already waiting in other open sets.
       for (const other of this.openSets.all()) {
         for (const member of [...other.files]) {
@@ -275,7 +282,20 @@ export class Coordinator {
     await this.queue.enqueue(jobId, payload);
   }
 
-  private async onOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
+  /**
+   * Takes a job outcome. On the in-process queue nothing is persisted, so the worker slot is freed at
+   * once and the commit runs on (tracked in inFlight; a crash before it lands leaves the set queued,
+   * re-enqueued at the next start). On a persistent queue the job is acknowledged only after the commit.
+   */
+  private onOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
+    if (!this.detachCommits) return this.commitOutcome(outcome);
+    this.commitOutcome(outcome).catch((error: unknown) => {
+      this.logger.error({ setId: setIdOfJob(outcome.id), err: error }, 'commit failed; the set stays queued and is re-run at the next start');
+    });
+    return Promise.resolve();
+  }
+
+  private async commitOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
     const setId = setIdOfJob(outcome.id);
     const log = this.logger.child({ setId });
     const rerun = outcome.id !== setId;
@@ -295,7 +315,12 @@ export class Coordinator {
       }
       const context = { ledger: this.ledger, now };
       const result = await applyStages(this.stages, outcome.value.result, context);
-      const path = await commitResult(this.ledger, this.config, outcome.value, result, now);
+      const { path, filesRejected } = await commitResult(this.ledger, this.config, outcome.value, result, now);
+      if (filesRejected > 0) {
+        this.counts.filesRejected += filesRejected;
+        this.counts.filesAccepted -= filesRejected;
+        log.warn({ files: filesRejected }, 'inputs rejected by the worker were quarantined');
+      }
       this.counts.setsDone += 1;
       if (result.partial) this.counts.setsPartial += 1;
       log.info({ result: path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');

@@ -1,26 +1,31 @@
 // Intake of one stable file: hash, check the ledger (known, unfinished move, duplicate), record it,
-// then read it (data file or set manifest). Bad files are quarantined with their reason.
+// then read what set assembly needs (a data file's head, see sniff.ts, or a set manifest). Bad files
+// are quarantined with their reason.
 import { createHash } from 'node:crypto';
 import { closeSync, existsSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { DriftlightError, InputRejected } from '../model/errors.js';
 import { ERROR_CODES } from '../model/error-codes.js';
-import { readData, type ParsedData } from '../formats/index.js';
+import type { ParsedData } from '../formats/index.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesBySha256, insertFile, setFileError, setFileLocation, type FileRecord } from '../store/files.js';
+import { filesBySha256, insertFile, setFileError, setFileLocation, type FileRecord, type NewFile } from '../store/files.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
 import { quarantineFile } from '../output/quarantine.js';
 import { isManifestName, parseManifest, type SetManifest } from './manifest.js';
+import { readForAssembly } from './sniff.js';
 import { join } from 'node:path';
+
+/** A file read at intake: already in the ledger (`id`), or to be recorded in the same transaction that assembles it. */
+export type IntakeFile = NewFile & { readonly id?: number };
 
 export type IntakeResult =
   | { readonly kind: 'gone' }
   | { readonly kind: 'known' }
   | { readonly kind: 'rejected' }
-  | { readonly kind: 'data'; readonly file: FileRecord; readonly parsed: ParsedData }
-  | { readonly kind: 'manifest'; readonly file: FileRecord; readonly manifest: SetManifest };
+  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData }
+  | { readonly kind: 'manifest'; readonly file: IntakeFile; readonly manifest: SetManifest };
 
 function sha256OfFile(path: string, sizeBytes: number): { sha256: string; bytes?: Buffer } {
   if (sizeBytes <= 64 * 1024 * 1024) {
@@ -60,7 +65,7 @@ export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file
   ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: target }, now));
 }
 
-/** Records and reads a stable file; returns what it is, or that it was handled (known, rejected, gone). */
+/** Reads a stable file; returns what it is (recorded by the caller when it assembles it), or that it was handled (known, rejected, gone). */
 export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date): IntakeResult {
   let sizeBytes: number;
   try {
@@ -87,28 +92,31 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
     }
   }
   const original = known.find((f) => f.state !== 'rejected' && f.state !== 'failed');
-  const file = ledger.transaction(() => insertFile(ledger, { sha256, path, name, sizeBytes }, now));
+  const newFile: NewFile = { sha256, path, name, sizeBytes };
+  if (original === undefined && sizeBytes <= config.limits.maxFileBytes) {
+    return readRecorded(ledger, config, newFile, bytes ?? readFileSync(path), now);
+  }
+  const file = ledger.transaction(() => insertFile(ledger, newFile, now));
   if (original !== undefined) {
     const where = original.setId === null ? '' : ` in set ${original.setId}`;
     rejectFile(ledger, config, file, new InputRejected('DUPLICATE_INPUT', `the same content was already received as ${original.name}${where} (sha256 ${sha256.slice(0, 12)}…)`, { file: name }), now);
     return { kind: 'rejected' };
   }
-  if (sizeBytes > config.limits.maxFileBytes) {
-    rejectFile(ledger, config, file, new InputRejected('FILE_TOO_LARGE', `the file has ${sizeBytes} bytes, more than limits.maxFileBytes = ${config.limits.maxFileBytes}`, { file: name }), now);
-    return { kind: 'rejected' };
-  }
-  return readRecorded(ledger, config, file, bytes ?? readFileSync(path), now);
+  rejectFile(ledger, config, file, new InputRejected('FILE_TOO_LARGE', `the file has ${sizeBytes} bytes, more than limits.maxFileBytes = ${config.limits.maxFileBytes}`, { file: name }), now);
+  return { kind: 'rejected' };
 }
 
-function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord, bytes: Uint8Array, now: Date): IntakeResult {
+/** Reads a data file's head or a manifest; a bad file is recorded (if it is not yet) and quarantined. */
+function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date): IntakeResult {
   try {
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
       return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name) };
     }
-    return { kind: 'data', file, parsed: readData(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }) };
+    return { kind: 'data', file, parsed: readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }) };
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;
-    rejectFile(ledger, config, file, error.withLocation(file.name), now);
+    const record = 'id' in file ? file : ledger.transaction(() => insertFile(ledger, file, now));
+    rejectFile(ledger, config, record, error.withLocation(file.name), now);
     return { kind: 'rejected' };
   }
 }

@@ -2,7 +2,7 @@
 // burst and restarted, five times; afterwards every set has exactly one result and every input is in
 // the archive (none lost, none duplicated, none left in the inbox).
 import { spawnSync } from 'node:child_process';
-import { writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { seededRandom } from '../../src/demo/synthetic.js';
@@ -36,8 +36,14 @@ describe('crash recovery under kill -9', () => {
       await new Promise((r) => child.once('exit', r));
     }
     writeSome(SETS);
+    // The final run must be up (signal handlers installed) before it is stopped: the rounds may
+    // already have finished every set, so wait for its own "watching" line in the log.
+    const logPath = join(dir, 'state', 'driftlight.log');
+    const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
+    const watchingBefore = watchingLines();
     const final = startWatch(dir);
     try {
+      await waitFor('the final watch to start', () => watchingLines() > watchingBefore);
       await waitFor('all 300 results', () => readResults(dir).length >= SETS && listFiles(inbox).length === 0, 120_000);
       await sleep(500);
     } finally {

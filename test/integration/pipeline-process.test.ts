@@ -7,7 +7,7 @@ import { Ajv } from 'ajv';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateDemoDay } from '../../src/demo/scenario.js';
 import { runDriftlight } from '../helpers/cli.js';
-import { listFiles, makeWorkspace, readResults, removeWorkspaces } from './pipeline-helpers.js';
+import { generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces } from './pipeline-helpers.js';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 
@@ -89,6 +89,30 @@ describe('driftlight demo and process', () => {
     const errors = listFiles(join(dir, 'quarantine')).filter((p) => p.endsWith('.error.json'));
     expect(JSON.parse(readFileSync(join(dir, 'quarantine', errors[0] ?? ''), 'utf8'))).toMatchObject({ code: 'DUPLICATE_INPUT' });
     expect(readResults(dir)).toHaveLength(1);
+  });
+
+  it('quarantines a file broken below its head when the worker rejects it, with its line, and archives the rest', () => {
+    const dir = makeWorkspace();
+    const set = generateSet('late-bad-01', 7);
+    const lines = (set.files[0]?.content ?? '').split('\n');
+    expect(lines.length).toBeGreaterThan(120);
+    lines[99] = (lines[99] ?? '').replace(/,[^,]*$/, ',12.5.3');
+    for (const f of set.files) writeFileSync(join(dir, 'inbox', f.name), f.name.endsWith('_em.csv') ? lines.join('\n') : f.content);
+    const run = runDriftlight(['process', join(dir, 'inbox'), '--config', join(dir, 'driftlight.yaml')]);
+    expect(run.status).toBe(3);
+    expect(run.stdout).toContain('1 rejected');
+    expect(listFiles(join(dir, 'inbox'))).toEqual([]);
+    const quarantined = listFiles(join(dir, 'quarantine'));
+    expect(quarantined.map((p) => p.split('/')[1])).toEqual(['late-bad-01_em.csv', 'late-bad-01_em.csv.error.json']);
+    const record = JSON.parse(readFileSync(join(dir, 'quarantine', quarantined[1] ?? ''), 'utf8')) as { code: string; line: number; hint: string; file: string; setId: string };
+    expect(record).toMatchObject({ code: 'NON_NUMERIC', line: 100, file: 'late-bad-01_em.csv' });
+    expect(record.hint).not.toBe('');
+    expect(record.setId).toMatch(/^late-bad-01-/);
+    expect(listFiles(join(dir, 'archive')).map((p) => p.split('/')[1]).sort()).toEqual(['late-bad-01_abs.csv', 'late-bad-01_decay.csv']);
+    const results = readResults(dir);
+    expect(results).toHaveLength(1);
+    expect(results[0]?.result.partial).toBe(true);
+    expect(results[0]?.result.missing.find((m) => m.what === 'emission')?.reason).toMatch(/^NON_NUMERIC/);
   });
 
   it('config check names the bad path and exits 2', () => {

@@ -65,4 +65,13 @@ describe('analyze', () => {
     expect(result.partial).toBe(true);
     expect(result.missing[0]?.reason).toMatch(/^NON_NUMERIC/);
   });
+
+  it('hands an unreadable own file back as a rejected input with its line, for quarantine (paired files are not)', () => {
+    const own = file('orchid-03_em.csv', 'emission', 'sample');
+    const { rejectedInputs } = analyze(payload([own]));
+    expect(rejectedInputs).toEqual([expect.objectContaining({ name: 'orchid-03_em.csv', sha256: own.sha256, code: 'NON_NUMERIC', line: 41 })]);
+    expect(rejectedInputs?.[0]?.hint).not.toBe('');
+    const paired = analyze(payload([file('orchid-03_em.csv', 'emission', 'sample', 'paired')]));
+    expect(paired.rejectedInputs).toEqual([]);
+  });
 });

@@ -1,0 +1,86 @@
+// Write-completion tracking for the event watcher: a file is reported once its size and mtime have
+// not changed for the stability window (so a file still being written is never read). Each file
+// costs one stat when it is touched and one when its quiet period ends, whatever the folder size.
+import { statSync } from 'node:fs';
+
+interface Pending {
+  sizeBytes: number;
+  mtimeMs: number;
+  /** When the file counts as stable if nothing changes before (epoch ms). */
+  quietUntilMs: number;
+}
+
+/** Tracks files that were touched until each has been stable for `stabilityWindowMs`. */
+export class StableFiles {
+  private readonly pending = new Map<string, Pending>();
+  private timer: NodeJS.Timeout | undefined;
+
+  constructor(
+    private readonly stabilityWindowMs: number,
+    private readonly pollIntervalMs: number,
+    private readonly onStable: (path: string) => void,
+    private readonly now: () => number = Date.now,
+  ) {}
+
+  /** Notes that `path` was created or written; it is reported after a quiet stability window. */
+  touch(path: string): void {
+    const stat = statOrUndefined(path);
+    if (stat === undefined) {
+      this.pending.delete(path);
+      return;
+    }
+    this.pending.set(path, { sizeBytes: stat.size, mtimeMs: stat.mtimeMs, quietUntilMs: this.now() + this.stabilityWindowMs });
+    this.timer ??= setInterval(() => this.check(), this.pollIntervalMs);
+  }
+
+  /** Forgets `path` (removed or renamed away). */
+  forget(path: string): void {
+    this.pending.delete(path);
+  }
+
+  /** Files still settling. */
+  get size(): number {
+    return this.pending.size;
+  }
+
+  /** Stops the timer and forgets every pending file. */
+  close(): void {
+    if (this.timer !== undefined) clearInterval(this.timer);
+    this.timer = undefined;
+    this.pending.clear();
+  }
+
+  /** Reports every file whose quiet period is over and whose size and mtime did not change; re-arms the others. */
+  private check(): void {
+    const nowMs = this.now();
+    const stable: string[] = [];
+    for (const [path, entry] of this.pending) {
+      if (entry.quietUntilMs > nowMs) continue;
+      const stat = statOrUndefined(path);
+      if (stat === undefined) {
+        this.pending.delete(path);
+      } else if (stat.size === entry.sizeBytes && stat.mtimeMs === entry.mtimeMs) {
+        this.pending.delete(path);
+        stable.push(path);
+      } else {
+        entry.sizeBytes = stat.size;
+        entry.mtimeMs = stat.mtimeMs;
+        entry.quietUntilMs = nowMs + this.stabilityWindowMs;
+      }
+    }
+    if (this.pending.size === 0 && this.timer !== undefined) {
+      clearInterval(this.timer);
+      this.timer = undefined;
+    }
+    for (const path of stable) this.onStable(path);
+  }
+}
+
+function statOrUndefined(path: string): { size: number; mtimeMs: number } | undefined {
+  try {
+    const stat = statSync(path);
+    return stat.isFile() ? { size: stat.size, mtimeMs: stat.mtimeMs } : undefined;
+  } catch {
+    return undefined;
+  }
+}

@@ -1,0 +1,50 @@
+// The event watcher's write-completion tracking: a file is reported once, only after its size and
+// mtime have been unchanged for the stability window; a file that keeps growing is held back.
+import { appendFileSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, describe, expect, it } from 'vitest';
+import { StableFiles } from '../../../src/pipeline/stable-files.js';
+
+const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
+
+describe('StableFiles', () => {
+  const dirs: string[] = [];
+  afterEach(() => {
+    for (const dir of dirs.splice(0)) rmSync(dir, { recursive: true, force: true });
+  });
+
+  it('reports a file once, after the window, and not while it is still growing', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dl-stable-'));
+    dirs.push(dir);
+    const path = join(dir, 'slow.csv');
+    const reported: string[] = [];
+    const stable = new StableFiles(120, 20, (p) => reported.push(p));
+    writeFileSync(path, 'a');
+    stable.touch(path);
+    for (let i = 0; i < 6; i++) {
+      await sleep(60);
+      appendFileSync(path, `line ${i}\n`);
+      stable.touch(path);
+    }
+    expect(reported).toEqual([]);
+    await sleep(300);
+    expect(reported).toEqual([path]);
+    expect(stable.size).toBe(0);
+    stable.close();
+  });
+
+  it('forgets a file that disappears before it settles', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dl-stable-'));
+    dirs.push(dir);
+    const path = join(dir, 'gone.csv');
+    const reported: string[] = [];
+    const stable = new StableFiles(50, 10, (p) => reported.push(p));
+    writeFileSync(path, 'x');
+    stable.touch(path);
+    rmSync(path);
+    await sleep(150);
+    expect(reported).toEqual([]);
+    stable.close();
+  });
+});
