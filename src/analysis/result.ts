@@ -135,7 +135,7 @@ export interface RamanSummary {
 export interface QcFlag {
   /** Stable rule id, e.g. 'westgard-1-3s'. */
   readonly rule: string;
-  readonly severity: 'info' | 'warning' | 'reject';
+  readonly severity: 'info' | 'warning' | 'critical';
   readonly message: string;
   readonly quantity?: string;
   readonly value?: number;

@@ -80,12 +80,12 @@ export function withConfigControls(ruleSet: RuleSet, entries: readonly ControlCo
   return extra.length === 0 ? ruleSet : Object.freeze({ ...ruleSet, controls: [...ruleSet.controls, ...extra] });
 }
 
-/** A rules-engine flag in the result's qc.flags form (critical → reject). */
+/** A rules-engine flag in the result's qc.flags form (same severities: info, warning, critical). */
 export function toResultFlag(flag: QcFlag): ResultQcFlag {
   const value = flag.values['value'];
   return {
     rule: `${flag.ruleId}:${flag.check}`,
-    severity: flag.severity === 'critical' ? 'reject' : flag.severity,
+    severity: flag.severity,
     message: flag.message,
     quantity: flag.metric,
     ...(value === undefined ? {} : { value }),

@@ -47,7 +47,7 @@ describe('QC result stage', () => {
 
     for (const [day, value] of BASELINE_YIELDS.entries()) expect((await run(controlResult(day, value))).qc.flags).toEqual([]);
     const flagged = await run(controlResult(20, 0.9));
-    expect(flagged.qc.flags.map((flag) => [flag.rule, flag.severity])).toContainEqual(['yield-westgard:1-3s', 'reject']);
+    expect(flagged.qc.flags.map((flag) => [flag.rule, flag.severity])).toContainEqual(['yield-westgard:1-3s', 'critical']);
     expect(openFlags(ledger, ['fluorescein-daily']).map((flag) => flag.ruleId)).toContain('yield-westgard');
 
     const calm = await run(controlResult(21, 0.926));
