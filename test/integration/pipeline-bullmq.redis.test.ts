@@ -123,19 +123,27 @@ describeRedis('the pipeline on BullMQ: a pure coordinator and worker processes',
     const [victim, survivor] = [startWorker(), startWorker()];
     for (const w of [victim, survivor]) await w.waitForLine((line) => line.event === 'worker.started', 15_000, 'start');
     const coordinator = startCoordinator(dir);
-    for (let i = 0; i < sets.length; i += 10) {
-      for (const set of sets.slice(i, i + 10)) dropSet(inbox, set);
-      await sleep(200);
-    }
+    // Sets keep arriving (5 every 200 ms) while the test waits for the kill moment, so the run is
+    // still in progress then; jobs take milliseconds, hence the 10 ms polling of the victim's log.
+    let dropped = 0;
+    const dropping = (async () => {
+      for (let i = 0; i < sets.length; i += 5) {
+        for (const set of sets.slice(i, i + 5)) dropSet(inbox, set);
+        dropped = Math.min(sets.length, i + 5);
+        await sleep(200);
+      }
+    })();
 
     // Kill a worker while it holds a job and the backlog is still being worked on.
     let killedInHand: string[] = [];
     await waitFor('the victim worker busy mid-run', () => {
       killedInHand = jobsInHand(victim);
       return killedInHand.length > 0 && readResults(dir).length >= 5;
-    }, 30_000);
+    }, 30_000, 10);
     expect(await victim.stop('SIGKILL')).toBe('SIGKILL');
     expect(readResults(dir).length).toBeLessThan(sets.length);
+    await dropping;
+    expect(dropped).toBe(sets.length);
 
     await waitFor('40 results and an empty inbox', () => readResults(dir).length >= sets.length && listFiles(inbox).length === 0, 45_000);
     await sleep(300); // a duplicate commit, were there one, would land now

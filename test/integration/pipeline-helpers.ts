@@ -88,11 +88,11 @@ export function stopWatch(child: ChildProcess): Promise<number | null> {
 }
 
 /** Polls `condition` every 100 ms until it holds or `timeoutMs` passes (then throws with `what`). */
-export async function waitFor(what: string, condition: () => boolean, timeoutMs = 30_000): Promise<void> {
+export async function waitFor(what: string, condition: () => boolean, timeoutMs = 30_000, pollIntervalMs = 100): Promise<void> {
   const start = Date.now();
   while (!condition()) {
     if (Date.now() - start > timeoutMs) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 100));
+    await new Promise((r) => setTimeout(r, pollIntervalMs));
   }
 }
 
