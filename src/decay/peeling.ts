@@ -3,36 +3,7 @@
 // decay and fitting the log of the remainder gives the short one. Weighted regression of ln(n − b) on t
 // with weights n − b (≈ 1/var(ln n) for Poisson counts).
 import { peakChannel } from './irf-metrics.js';
-
-interface LogLine {
-  /** d ln(counts)/dt in 1/ns. */
-  readonly slopePerNs: number;
-  /** ln(counts) at t = 0. */
-  readonly intercept: number;
-}
-
-/** Weighted least-squares line through (t, ln y) for the given points; undefined with fewer than 4 points. */
-function logLinearFit(times: readonly number[], values: readonly number[]): LogLine | undefined {
-  let sw = 0;
-  let swt = 0;
-  let swy = 0;
-  let swtt = 0;
-  let swty = 0;
-  for (let i = 0; i < times.length; i++) {
-    const weight = values[i] as number;
-    const t = times[i] as number;
-    const y = Math.log(weight);
-    sw += weight;
-    swt += weight * t;
-    swy += weight * y;
-    swtt += weight * t * t;
-    swty += weight * t * y;
-  }
-  const denominator = sw * swtt - swt * swt;
-  if (times.length < 4 || !(denominator > 0)) return undefined;
-  const slopePerNs = (sw * swty - swt * swy) / denominator;
-  return { slopePerNs, intercept: (swy - slopePerNs * swt) / sw };
-}
+import { logLinearFit } from './log-linear-fit.js';
 
 /** [short, long] lifetimes in ns by peeling the background-subtracted decay on [first, end), or undefined when the data do not show two slopes. O(n). */
 export function estimatePeeledLifetimesNs(
@@ -52,7 +23,7 @@ export function estimatePeeledLifetimesNs(
       lateValues.push(excess);
     }
   }
-  const late = logLinearFit(lateTimes, lateValues);
+  const late = logLinearFit(lateTimes, lateValues, 4);
   if (late === undefined || !(late.slopePerNs < 0)) return undefined;
   const earlyTimes: number[] = [];
   const earlyValues: number[] = [];
@@ -64,7 +35,7 @@ export function estimatePeeledLifetimesNs(
       earlyValues.push(remainder);
     }
   }
-  const early = logLinearFit(earlyTimes, earlyValues);
+  const early = logLinearFit(earlyTimes, earlyValues, 4);
   if (early === undefined || !(early.slopePerNs < 0)) return undefined;
   const shortNs = -1 / early.slopePerNs;
   const longNs = -1 / late.slopePerNs;

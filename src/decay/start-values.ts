@@ -3,6 +3,7 @@
 // ln(n − b) on t, weights n − b ≈ 1/var(ln n) for Poisson counts; common practice), spreads of that
 // lifetime for several components, and component photons by weighted linear least squares at those lifetimes
 // (the model is linear in photons and background).
+import { logLinearFit } from './log-linear-fit.js';
 import type { DatasetModel } from './dataset-model.js';
 import { choleskyInPlace, choleskySolveInPlace } from './linear-algebra.js';
 import { peakChannel } from './irf-metrics.js';
@@ -66,29 +67,18 @@ export function estimateTailLifetimeNs(
   const peakExcess = (counts[peak] as number) - background;
   const spanNs = (endChannel - firstChannel) * channelWidthNs;
   if (!(peakExcess > 0)) return spanNs / 4;
-  let sw = 0;
-  let swt = 0;
-  let swy = 0;
-  let swtt = 0;
-  let swty = 0;
-  let used = 0;
+  const tailTimesNs: number[] = [];
+  const tailExcess: number[] = [];
   for (let k = peak; k < endChannel; k++) {
     const excess = (counts[k] as number) - background;
     if (excess < 0.05 * peakExcess) {
-      if (used >= 8) break;
+      if (tailTimesNs.length >= 8) break;
       continue;
     }
-    const t = timeNs[k] as number;
-    const y = Math.log(excess);
-    sw += excess;
-    swt += excess * t;
-    swy += excess * y;
-    swtt += excess * t * t;
-    swty += excess * t * y;
-    used++;
+    tailTimesNs.push(timeNs[k] as number);
+    tailExcess.push(excess);
   }
-  const denominator = sw * swtt - swt * swt;
-  const slope = used >= 3 && denominator > 0 ? (sw * swty - swt * swy) / denominator : Number.NaN;
+  const slope = logLinearFit(tailTimesNs, tailExcess, 3)?.slopePerNs ?? Number.NaN;
   const tauNs = slope < 0 ? -1 / slope : Number.NaN;
   if (!Number.isFinite(tauNs)) return spanNs / 4;
   return Math.min(Math.max(tauNs, channelWidthNs / 2), spanNs * 10);
