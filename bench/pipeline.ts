@@ -14,7 +14,9 @@ import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectr
 import { writeDecayCsv, writeSpectrumCsv } from '../src/formats/index.js';
 import { createLogger } from '../src/output/logger.js';
 import { buildPayload } from '../src/pipeline/dispatch.js';
-import { openPipeline, type Pipeline } from '../src/pipeline/runtime.js';
+import { batchStableFiles } from '../src/pipeline/intake-batcher.js';
+import { ANALYZE_PROCESSOR_URL, openPipeline, type Pipeline } from '../src/pipeline/runtime.js';
+import { createTaskPool } from '../src/queue/task-pool.js';
 import { watchInbox } from '../src/pipeline/watcher.js';
 import { softwareVersion } from '../src/cli/version.js';
 
@@ -26,8 +28,32 @@ const argValue = (name: string, fallback: number): number => {
 const SETS = argValue('--sets', 1000);
 const BACKLOG_FILES = argValue('--backlog-files', 10_000);
 const STABILITY_MS = 200;
+/** Rounds of the bare analyze() measurement (their mean is the baseline). */
+const BARE_ROUNDS = 3;
 /** Sets sent before the latency measurement while the worker threads warm up (reported as the cold start). */
 const WARMUP_SETS = 20;
+
+/** CPU used so far: the whole process, and the main thread alone where Linux tells (/proc/self/task/PID/stat, clock ticks of 10 ms). */
+function cpuNow(): { processMs: number; mainThreadMs: number | undefined } {
+  const usage = process.cpuUsage();
+  let mainThreadMs: number | undefined;
+  try {
+    const stat = readFileSync(`/proc/self/task/${process.pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    mainThreadMs = (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    mainThreadMs = undefined;
+  }
+  return { processMs: (usage.user + usage.system) / 1000, mainThreadMs };
+}
+
+function cpuSince(start: ReturnType<typeof cpuNow>): { processMs: number; mainThreadMs: number | undefined } {
+  const end = cpuNow();
+  return {
+    processMs: end.processMs - start.processMs,
+    mainThreadMs: end.mainThreadMs === undefined || start.mainThreadMs === undefined ? undefined : end.mainThreadMs - start.mainThreadMs,
+  };
+}
 
 function emit(record: Record<string, unknown>): void {
   process.stdout.write(`${JSON.stringify({ bench: 'pipeline', ...record })}\n`);
@@ -62,10 +88,11 @@ function workspace(): { dir: string; config: ReturnType<typeof resolveConfig> } 
 
 async function startWatching(pipeline: Pipeline): Promise<() => Promise<void>> {
   let chain: Promise<void> = Promise.resolve();
+  const serial = (work: () => Promise<void>): void => {
+    chain = chain.then(work);
+  };
   const watcher = watchInbox(pipeline.config.folders.inbox, pipeline.config.watch, {
-    onFile: (path) => {
-      chain = chain.then(() => pipeline.coordinator.intake(path));
-    },
+    onFile: batchStableFiles(serial, (paths) => pipeline.coordinator.intakeMany(paths)),
   });
   return async () => {
     await watcher.close();
@@ -102,28 +129,52 @@ async function throughputAndLatency(): Promise<void> {
   const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
   const stop = await startWatching(pipeline);
   const t0 = Date.now();
+  const cpu0 = cpuNow();
   for (const set of files) for (const f of set) writeFileSync(join(burst.config.folders.inbox, f.name), f.content);
   await waitForDone(pipeline, SETS);
   const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files').get() as { t: string }).t);
   const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets').get() as { t: string }).t);
   const pipelineSetsPerS = SETS / ((lastDone - firstSeen) / 1000);
-  emit({ scenario: 'burst', sets: SETS, files: SETS * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)) });
+  const cpu = cpuSince(cpu0);
+  emit({
+    scenario: 'burst', sets: SETS, files: SETS * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
+    processCpuMsPerSet: Number((cpu.processMs / SETS).toFixed(2)), mainThreadCpuMsPerSet: cpu.mainThreadMs === undefined ? null : Number((cpu.mainThreadMs / SETS).toFixed(2)),
+  });
 
-  // Bare analyze(): the same payloads, one thread, no I/O.
-  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets ORDER BY id LIMIT 200`).all() as { id: string }[]).map((r) => r.id);
+  // Bare analyze(): the same payloads, one thread, no I/O; JIT warmed first, then BARE_ROUNDS rounds
+  // (their mean), so a passing slowdown of this shared machine weighs less in the ratio.
+  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets ORDER BY id LIMIT 250`).all() as { id: string }[]).map((r) => r.id);
   const rules = { fileNamePatterns: [], referencePatterns: [], controlPatterns: [], requiredParts: burst.config.assembly.requiredParts, referenceRequiredParts: burst.config.assembly.referenceRequiredParts, setTimeoutMs: 0 };
   const payloads = setIds.map((id) => buildPayload({ ledger: pipeline.ledger, config: burst.config, configHash: '0'.repeat(64), softwareVersion: softwareVersion(), rules, now: new Date() }, id));
-  const b0 = performance.now();
-  for (const payload of payloads) analyze(payload);
-  const bareSetsPerS = payloads.length / ((performance.now() - b0) / 1000);
-  const threads = Math.min(burst.config.queue.concurrency, 2);
-  emit({ scenario: 'bare-analyze', sets: payloads.length, setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)), ratioPipelineToIdealThreads: Number((pipelineSetsPerS / (bareSetsPerS * threads)).toFixed(3)), idealThreads: threads });
+  for (const payload of payloads.slice(0, 50)) analyze(payload);
+  const measured = payloads.slice(50);
+  const rounds: number[] = [];
+  for (let round = 0; round < BARE_ROUNDS; round++) {
+    const b0 = performance.now();
+    for (const payload of measured) analyze(payload);
+    rounds.push(measured.length / ((performance.now() - b0) / 1000));
+  }
+  const bareSetsPerS = rounds.reduce((a, b) => a + b, 0) / rounds.length;
+  // The fits alone through the same worker-thread pool (no ledger, files or watcher): what the
+  // analysis can do with these threads on this machine.
+  const pool = createTaskPool({ processorHref: ANALYZE_PROCESSOR_URL.href, concurrency: burst.config.queue.concurrency, jobTimeoutMs: 60_000 });
+  await Promise.all(payloads.slice(0, 50).map((payload) => pool.run(payload)));
+  const p0 = performance.now();
+  await Promise.all([...measured, ...measured].map((payload) => pool.run(payload)));
+  const poolSetsPerS = (2 * measured.length) / ((performance.now() - p0) / 1000);
+  await pool.close();
+  emit({
+    scenario: 'bare-analyze', sets: measured.length, rounds: rounds.map((r) => Number(r.toFixed(1))),
+    setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
+    poolThreads: burst.config.queue.concurrency, setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)), ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
+  });
   await stop();
   await pipeline.coordinator.drain();
   await pipeline.close();
 
-  // Phase 2: steady arrivals at 60 % of the measured throughput (latency). The first WARMUP_SETS sets
-  // (worker threads loading the analysis modules) are reported apart as the cold start.
+  // Phase 2: steady arrivals at 60 % of the measured throughput (latency). WARMUP_SETS sets go first
+  // and are waited for (worker threads loading the analysis modules); they are reported apart as the
+  // cold start and do not count in the steady latency.
   const steady = workspace();
   const steadyPipeline = openPipeline(steady.config, { softwareVersion: softwareVersion(), logger: createLogger(steady.config.logging, steady.config.logFile) });
   const stopSteady = await startWatching(steadyPipeline);
@@ -131,7 +182,9 @@ async function throughputAndLatency(): Promise<void> {
   const intervalMs = 1000 / (0.6 * pipelineSetsPerS);
   // Seeds 92,000+ give IRF acquisition offsets (seed mod 3600 s) that no measured set uses: no duplicate IRFs.
   const warmup = Array.from({ length: WARMUP_SETS }, (_u, i) => setFiles(`warmup-${String(i).padStart(3, '0')}`, 92_000 + i));
-  for (const set of [...warmup, ...files.slice(0, steadySets)]) {
+  for (const set of warmup) for (const f of set) writeFileSync(join(steady.config.folders.inbox, f.name), f.content);
+  await waitForDone(steadyPipeline, WARMUP_SETS);
+  for (const set of files.slice(0, steadySets)) {
     for (const f of set) writeFileSync(join(steady.config.folders.inbox, f.name), f.content);
     await new Promise((r) => setTimeout(r, intervalMs));
   }

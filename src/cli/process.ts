@@ -39,13 +39,13 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
       progress.update(committed, Math.max(coordinator.counts.setsDispatched, committed));
     });
     coordinator.holdDispatch = true;
-    for (const file of files) await coordinator.intake(file);
+    await coordinator.intakeMany(files);
     await coordinator.tick(true);
     await coordinator.drain();
     progress.finish();
     const c = coordinator.counts;
     const summary: BatchSummary = {
-      files: files.length, accepted: c.filesAccepted, rejected: c.filesRejected + (c.setsFailed > 0 ? c.setsFailed : 0),
+      files: files.length, accepted: c.filesAccepted, rejected: c.filesRejected,
       sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed,
     };
     stdout.write(
@@ -65,12 +65,12 @@ export const processCommand: CommandModule = {
     withRedisOption(withConfigOption(
       program
         .command('process')
-        .description('analyse the given files or folders once, then exit (exit 3 if any input was rejected)')
+        .description('analyse the given files or folders once, then exit (exit 3 if any input was rejected or any set failed)')
         .argument('<paths...>', 'files or folders (searched recursively)')
         .option('-v, --verbose', 'also log to stdout'),
     )).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean }) => {
       const summary = await runBatch(paths, options);
-      process.exitCode = summary.rejected > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
+      process.exitCode = summary.rejected > 0 || summary.failed > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
     });
   },
 };

@@ -3,6 +3,7 @@
 // On bullmq it does not wait for the Redis backlog: queued jobs persist there and their outcomes
 // are swept in at the next start, so it only closes the queue.
 import type { Command } from 'commander';
+import { batchStableFiles } from '../pipeline/intake-batcher.js';
 import { openPipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
@@ -23,7 +24,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
   };
   const watcher = watchInbox(config.folders.inbox, config.watch, {
-    onFile: (path) => serial(() => coordinator.intake(path)),
+    onFile: batchStableFiles(serial, (paths) => coordinator.intakeMany(paths)),
     onReady: () => logger.info({ inbox: config.folders.inbox }, 'watching'),
     onError: (error) => logger.error({ err: error }, 'watcher error'),
   });

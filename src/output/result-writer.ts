@@ -17,11 +17,11 @@ export function serializeResult(result: AnalysisResult): string {
   return `${JSON.stringify(result, null, 2)}\n`;
 }
 
-/** Writes the result durably (fsyncs off the event loop); returns its path and the sha256 of the bytes written. */
-export async function writeResult(resultsDir: string, result: AnalysisResult, setCreatedAt: Date): Promise<{ path: string; sha256: string }> {
+/** Writes the result atomically with its fsync off the event loop (and its folder's, unless `syncFolder` is false: the caller then fsyncs it once for a batch); returns its path and the sha256 of the bytes written. */
+export async function writeResult(resultsDir: string, result: AnalysisResult, setCreatedAt: Date, options: { syncFolder?: boolean } = {}): Promise<{ path: string; sha256: string }> {
   const path = resultPathFor(resultsDir, result.setId, setCreatedAt);
   const text = serializeResult(result);
-  await writeFileAtomicAsync(path, text);
+  await writeFileAtomicAsync(path, text, options);
   return { path, sha256: createHash('sha256').update(text).digest('hex') };
 }
 

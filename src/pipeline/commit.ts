@@ -1,7 +1,8 @@
-// Committing a finished job, in the order that makes a crash at any moment recoverable:
-// result JSON (atomic) → outbox files → ledger transaction (set done, results index, files done)
-// → archive moves (each recorded). A failed set's files go to quarantine with the reason, and so do
-// own files the worker's readers rejected (the set's result then reports that part missing).
+// Committing finished jobs, in the order that makes a crash at any moment recoverable:
+// result JSONs (atomic, fsynced) → outbox files → ledger transaction (sets done, results index,
+// files done) → archive moves (recorded). Jobs finishing together are committed as one batch.
+// A failed set's files go to quarantine with the reason, and so do own files the worker's readers
+// rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
 import { dirname, join } from 'node:path';
 import { fsyncDirectoryAsync } from '../output/atomic-write.js';
@@ -20,32 +21,74 @@ import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
 import { rejectFile } from './intake.js';
 
-/** Writes the result and outbox, records the set done, archives its files and quarantines the ones the worker rejected; returns the result path and how many were rejected. */
-export async function commitResult(ledger: Ledger, config: DriftlightConfig, output: AnalysisOutput, result: AnalysisResult, now: Date): Promise<{ path: string; filesRejected: number }> {
-  const set = getSet(ledger, result.setId);
-  if (set === undefined) throw new Error(`ledger: set ${result.setId} does not exist`);
-  const createdAt = new Date(set.createdAt);
-  const written = await writeResult(config.folders.results, result, createdAt);
-  writeOutbox(config.folders.outbox, result.setId, createdAt, output.artifacts);
-  const rejected = rejectedOwnFiles(ledger, result.setId, output.rejectedInputs ?? []);
-  ledger.transaction(() => {
-    markSetDone(ledger, result.setId, written.path, result.partial, now);
-    upsertResult(ledger, {
-      setId: result.setId, path: written.path, sampleId: result.sampleId, role: result.role,
-      acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
-      tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
-      krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
-      resultSha256: written.sha256, flagsJson: JSON.stringify(result.qc.flags),
-    });
-    setFilesOfSetState(ledger, result.setId, 'done', now);
-    for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
-  });
-  await archiveSetFiles(ledger, config, result.setId, now);
-  for (const { file, reason } of rejected) {
-    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
-    rejectFile(ledger, config, file, error, now, 'rejected', result.setId);
+/** One finished set to commit: the worker's output and the result after the result stages. */
+export interface CommitItem {
+  readonly output: AnalysisOutput;
+  readonly result: AnalysisResult;
+}
+
+/** What became of one item of a batch commit: its result path and rejected-file count, or the error that left it queued. */
+export type CommitItemOutcome =
+  | { readonly ok: true; readonly setId: string; readonly path: string; readonly filesRejected: number }
+  | { readonly ok: false; readonly setId: string; readonly error: unknown };
+
+/**
+ * Commits a batch of finished sets (group commit): result JSONs written in parallel, one fsync per
+ * result folder, outbox files, one ledger transaction for every set, archive moves with one fsync
+ * per archive folder and one transaction recording them, then own files the worker rejected go to
+ * quarantine. An item whose result or outbox cannot be written stays queued (re-run at the next
+ * start) without holding back the others.
+ */
+export async function commitResults(ledger: Ledger, config: DriftlightConfig, items: readonly CommitItem[], now: Date): Promise<CommitItemOutcome[]> {
+  const outcomes = new Map<string, CommitItemOutcome>();
+  const written = await Promise.all(items.map(async (item) => {
+    const setId = item.result.setId;
+    try {
+      const set = getSet(ledger, setId);
+      if (set === undefined) throw new Error(`ledger: set ${setId} does not exist`);
+      const createdAt = new Date(set.createdAt);
+      const file = await writeResult(config.folders.results, item.result, createdAt, { syncFolder: false });
+      return { item, createdAt, file };
+    } catch (error) {
+      outcomes.set(setId, { ok: false, setId, error });
+      return undefined;
+    }
+  }));
+  const durable = written.filter((w) => w !== undefined);
+  await Promise.all([...new Set(durable.map((w) => dirname(w.file.path)))].map((dir) => fsyncDirectoryAsync(dir)));
+  const committed: { item: CommitItem; path: string; sha256: string; rejected: { file: FileRecord; reason: RejectedInput }[] }[] = [];
+  for (const { item, createdAt, file } of durable) {
+    const setId = item.result.setId;
+    try {
+      writeOutbox(config.folders.outbox, setId, createdAt, item.output.artifacts);
+      committed.push({ item, path: file.path, sha256: file.sha256, rejected: rejectedOwnFiles(ledger, setId, item.output.rejectedInputs ?? []) });
+    } catch (error) {
+      outcomes.set(setId, { ok: false, setId, error });
+    }
   }
-  return { path: written.path, filesRejected: rejected.length };
+  ledger.transaction(() => {
+    for (const { item: { result }, path, sha256, rejected } of committed) {
+      markSetDone(ledger, result.setId, path, result.partial, now);
+      upsertResult(ledger, {
+        setId: result.setId, path, sampleId: result.sampleId, role: result.role,
+        acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
+        tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
+        krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
+        resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
+      });
+      setFilesOfSetState(ledger, result.setId, 'done', now);
+      for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
+    }
+  });
+  await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+  for (const { item: { result }, path, rejected } of committed) {
+    for (const { file, reason } of rejected) {
+      const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
+      rejectFile(ledger, config, file, error, now, 'rejected', result.setId);
+    }
+    outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length });
+  }
+  return items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') });
 }
 
 /** The set's own files (still in the inbox) that the worker's readers rejected, each with its reason. */
@@ -59,16 +102,42 @@ function rejectedOwnFiles(ledger: Ledger, setId: string, rejectedInputs: readonl
   return out;
 }
 
-/** Moves every own file of a done set that is still in the inbox to archive/YYYY-MM-DD/ (idempotent). */
-export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setId: string, now: Date): Promise<void> {
+/** Moves every own file of the done sets `setIds` still in the inbox to archive/YYYY-MM-DD/ (idempotent), with one fsync per archive folder and one transaction recording the moves. */
+export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setIds: readonly string[], now: Date): Promise<void> {
   const moved: { id: number; target: string }[] = [];
-  for (const file of filesOfSet(ledger, setId)) {
-    if (file.archivePath !== null || file.state !== 'done') continue;
-    const target = uniqueTarget(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file.name);
-    if (moveFile(file.path, target, { syncFolder: false })) moved.push({ id: file.id, target });
+  for (const setId of setIds) {
+    for (const file of filesOfSet(ledger, setId)) {
+      if (file.archivePath !== null || file.state !== 'done') continue;
+      const target = uniqueTarget(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file.name);
+      if (moveFile(file.path, target, { syncFolder: false })) moved.push({ id: file.id, target });
+    }
   }
-  for (const dir of new Set(moved.map((m) => dirname(m.target)))) await fsyncDirectoryAsync(dir);
+  await Promise.all([...new Set(moved.map((m) => dirname(m.target)))].map((dir) => fsyncDirectoryAsync(dir)));
   if (moved.length > 0) ledger.transaction(() => { for (const m of moved) setFileLocation(ledger, m.id, { archivePath: m.target }, now); });
+}
+
+/**
+ * When the worker's readers rejected every own data file of a set (files are classified from their
+ * head at intake, so a file broken further down is found only there), the set fails instead of
+ * getting an empty result: each file goes to quarantine with its own reason and the set records the
+ * first one. Returns the number of files quarantined, or 0 when some own file was readable.
+ */
+export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, setId: string, rejectedInputs: readonly RejectedInput[], now: Date): number {
+  if (rejectedInputs.length === 0) return 0;
+  const own = filesOfSet(ledger, setId).filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
+  const rejected = rejectedOwnFiles(ledger, setId, rejectedInputs);
+  const first = rejected[0];
+  if (first === undefined || rejected.length < own.length) return 0;
+  const names = rejected.map((r) => r.file.name).join(', ');
+  ledger.transaction(() => {
+    markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
+    for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
+  });
+  for (const { file, reason } of rejected) {
+    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
+    rejectFile(ledger, config, file, error, now, 'rejected', setId);
+  }
+  return rejected.length;
 }
 
 /** Records a set as failed and quarantines its own files with the failure. */

@@ -11,10 +11,11 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobOutcome, JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
-import { getFile, insertFile, setFileFacts, setFileState } from '../store/files.js';
+import { advanceFilesOfSet, assembleRecordedFile, getFile, insertAssembledFile, insertFileId } from '../store/files.js';
 import { deleteOpenSet, getSet, insertPairing, insertSet, markSetQueued } from '../store/sets.js';
 import { classifyFile, makeSetId, partsPresent, placeFile, setReadiness, type AssemblyRules } from './assemble.js';
-import { commitFailure, commitResult } from './commit.js';
+import { commitFailure, commitResults, commitUnreadableSet, type CommitItem } from './commit.js';
+import { ContentCache } from './content-cache.js';
 import { buildPayload, choosePairings, readText } from './dispatch.js';
 import { intakeFile, type IntakeFile, type IntakeResult } from './intake.js';
 import { recoverMoves } from './recovery.js';
@@ -51,6 +52,19 @@ export function setIdOfJob(jobId: string): string {
   return cut < 0 ? jobId : jobId.slice(0, cut);
 }
 
+/** Files read per ledger transaction at intake; the event loop is yielded between chunks. */
+export const INTAKE_CHUNK_FILES = 100;
+/** Outcomes committed per batch at most. */
+export const COMMIT_BATCH_MAX = 64;
+
+interface PendingCommit {
+  readonly outcome: JobOutcome<AnalysisOutput>;
+  readonly resolve: () => void;
+  readonly reject: (error: unknown) => void;
+}
+
+type AcceptedFile = Extract<IntakeResult, { kind: 'data' | 'manifest' }>;
+
 export class Coordinator {
   /** Batch mode: sets are only dispatched by tick(true), in dependency order (supporting, reference, samples). */
   holdDispatch = false;
@@ -76,6 +90,11 @@ export class Coordinator {
   private readonly detachCommits: boolean;
   /** Listeners told about each committed result (CLI progress, reprocess diffs, benchmarks). */
   private readonly committedListeners: ((setId: string, resultPath: string | undefined) => void)[] = [];
+  /** Bytes of files read at intake, until their set is dispatched. */
+  private readonly contents = new ContentCache();
+  /** Outcomes waiting for the next group commit. */
+  private readonly commitBuffer: PendingCommit[] = [];
+  private committing: Promise<void> | undefined;
 
   constructor(options: CoordinatorOptions) {
     this.config = options.config;
@@ -133,27 +152,71 @@ export class Coordinator {
   }
 
   /** Takes one stable file: records, reads and assembles it (bad files are quarantined). */
-  async intake(path: string): Promise<void> {
-    const now = this.clock();
-    let outcome: IntakeResult;
-    try {
-      outcome = intakeFile(this.ledger, this.config, path, now);
-    } catch (error) {
-      this.logger.error({ file: path, err: error }, 'intake failed; the file stays in the inbox and is retried at the next start');
-      return;
-    }
-    if (outcome.kind === 'rejected') {
-      this.counts.filesRejected += 1;
-      this.logger.warn({ file: path }, 'input rejected and quarantined');
-      return;
-    }
-    if (outcome.kind === 'gone' || outcome.kind === 'known') return;
-    this.counts.filesAccepted += 1;
-    if (outcome.kind === 'manifest') await this.assembleManifest(outcome.file, outcome.manifest, now);
-    else await this.assembleData(outcome.file, outcome.parsed, now);
+  intake(path: string): Promise<void> {
+    return this.intakeMany([path]);
   }
 
-  private async assembleData(file: IntakeFile, parsed: ParsedData, now: Date): Promise<void> {
+  /**
+   * Takes stable files in order: each is hashed and read (bad ones quarantined), then the accepted
+   * ones of a chunk are recorded and placed in their sets in one ledger transaction, and the sets
+   * that became ready are dispatched. A crash leaves either nothing of a chunk (the start-up scan
+   * reads its files again) or all of it.
+   */
+  async intakeMany(paths: readonly string[]): Promise<void> {
+    for (let start = 0; start < paths.length; start += INTAKE_CHUNK_FILES) {
+      if (start > 0) await new Promise<void>((resolve) => setImmediate(resolve));
+      await this.intakeChunk(paths.slice(start, start + INTAKE_CHUNK_FILES));
+    }
+  }
+
+  private async intakeChunk(paths: readonly string[]): Promise<void> {
+    const now = this.clock();
+    const accepted: AcceptedFile[] = [];
+    const pending = new Map<string, { name: string; path: string }>();
+    for (const path of paths) {
+      let outcome: IntakeResult;
+      try {
+        outcome = intakeFile(this.ledger, this.config, path, now, pending);
+      } catch (error) {
+        this.logger.error({ file: path, err: error }, 'intake failed; the file stays in the inbox and is retried at the next start');
+        continue;
+      }
+      if (outcome.kind === 'rejected') {
+        this.counts.filesRejected += 1;
+        this.logger.warn({ file: path }, 'input rejected and quarantined');
+      } else if (outcome.kind === 'data' || outcome.kind === 'manifest') {
+        accepted.push(outcome);
+        pending.set(outcome.file.sha256, { name: outcome.file.name, path: outcome.file.path });
+      }
+    }
+    if (accepted.length === 0) return;
+    const touched = new Set<OpenSet>();
+    const recordedIds: number[] = [];
+    try {
+      this.ledger.transaction(() => {
+        for (const item of accepted) {
+          const fileId = item.kind === 'manifest'
+            ? this.placeManifest(item.file, item.manifest, now, touched)
+            : this.placeData(item.file, item.parsed, now, touched);
+          recordedIds.push(fileId);
+        }
+      });
+    } catch (error) {
+      // Rolled back: the in-memory view is rebuilt from the ledger; the files stay in the inbox.
+      this.openSets = OpenSets.load(this.ledger);
+      this.logger.error({ files: accepted.map((a) => a.file.path), err: error }, 'intake failed; the files stay in the inbox and are retried at the next start');
+      return;
+    }
+    accepted.forEach((item, index) => {
+      const fileId = recordedIds[index];
+      if (fileId !== undefined && item.kind === 'data') this.contents.put(fileId, item.bytes);
+    });
+    this.counts.filesAccepted += accepted.length;
+    await this.dispatchReady([...touched], now);
+  }
+
+  /** Records a data file and places it in an open set (inside the intake transaction); returns its file id. */
+  private placeData(file: IntakeFile, parsed: ParsedData, now: Date, touched: Set<OpenSet>): number {
     const metadata = parsed.type === 'spectrum' ? parsed.spectrum.metadata : parsed.decay.metadata;
     const hasIrfColumn = parsed.type === 'decay' && parsed.decay.irfCounts !== undefined;
     const classification = classifyFile({
@@ -165,7 +228,6 @@ export class Coordinator {
     const candidates = this.openSets.candidatesFor(classification.sampleId).filter((s) => s.manifest === undefined || s.manifest.dir === dirname(file.path));
     const placement = placeFile({ name: file.name, classification }, candidates.map(toView), this.rules);
     let set: OpenSet;
-    let created = false;
     if (placement.kind === 'join') {
       const found = this.openSets.get(placement.setId);
       if (found === undefined) throw new Error(`open set ${placement.setId} vanished`);
@@ -173,30 +235,31 @@ export class Coordinator {
     } else {
       const id = makeSetId(placement.sampleId, file.sha256);
       set = { id, sampleId: placement.sampleId, role: placement.role, createdAt: now, deadlineAt: new Date(now.getTime() + this.rules.setTimeoutMs), files: [], standalone: placement.standalone };
-      created = true;
+      insertSet(this.ledger, { id: set.id, sampleId: set.sampleId, role: set.role, source: classification.sampleIdSource, createdAt: now, deadlineAt: set.deadlineAt });
+      this.openSets.add(set);
     }
     const listed = set.manifest?.manifest.files.find((f) => f.file === file.name);
     const part: SetPart = listed?.part ?? classification.part;
     const role: MeasurementRole = listed?.role ?? classification.role;
-    // One transaction records the file and puts it in its set: a crash leaves either nothing (the
-    // start-up scan reads the file again) or the file in its set.
-    const fileId = this.ledger.transaction(() => {
-      const id = file.id ?? insertFile(this.ledger, file, now).id;
-      if (created) insertSet(this.ledger, { id: set.id, sampleId: set.sampleId, role: set.role, source: classification.sampleIdSource, createdAt: now, deadlineAt: set.deadlineAt });
-      setFileFacts(this.ledger, id, {
-        dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: metadata.acquiredAt ?? null,
-        excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
-      }, now);
-      setFileState(this.ledger, id, 'assembled', now, set.id);
-      return id;
-    });
-    if (created) this.openSets.add(set);
+    const facts = {
+      dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: metadata.acquiredAt ?? null,
+      excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
+    };
+    let fileId: number;
+    if (file.id === undefined) {
+      fileId = insertAssembledFile(this.ledger, file, facts, set.id, now);
+    } else {
+      fileId = file.id;
+      assembleRecordedFile(this.ledger, fileId, facts, set.id, now);
+    }
     set.files.push({ fileId, name: file.name, path: file.path, part, hasIrfColumn });
+    touched.add(set);
     this.logger.debug({ setId: set.id, file: file.name, part }, 'file assembled');
-    await this.dispatchIfReady(set, now);
+    return fileId;
   }
 
-  private async assembleManifest(file: IntakeFile, manifest: SetManifest, now: Date): Promise<void> {
+  /** Records a manifest, opens its set and claims listed files waiting in other open sets (inside the intake transaction); returns its file id. */
+  private placeManifest(file: IntakeFile, manifest: SetManifest, now: Date, touched: Set<OpenSet>): number {
     const dir = dirname(file.path);
     const id = makeSetId(manifest.sampleId, file.sha256);
     const set: OpenSet = {
@@ -204,31 +267,30 @@ export class Coordinator {
       files: [], manifest: { dir, manifest }, standalone: false,
     };
     const manifestJson = JSON.stringify(set.manifest);
-    this.ledger.transaction(() => {
-      const fileId = file.id ?? insertFile(this.ledger, file, now).id;
-      insertSet(this.ledger, { id, sampleId: manifest.sampleId, role: manifest.role, source: 'manifest', createdAt: now, deadlineAt: set.deadlineAt, manifestJson });
-      setFileFacts(this.ledger, fileId, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, now);
-      setFileState(this.ledger, fileId, 'assembled', now, id);
-      // Claim listed files already waiting in other open sets.
-      for (const other of this.openSets.all()) {
-        for (const member of [...other.files]) {
-          const listed = manifest.files.find((f) => f.file === member.name);
-          if (listed === undefined || dirname(member.path) !== dir) continue;
-          const record = getFile(this.ledger, member.fileId);
-          if (record === undefined) continue;
-          this.ledger.prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?').run(id, listed.part, listed.role ?? null, member.fileId);
-          other.files.splice(other.files.indexOf(member), 1);
-          set.files.push({ ...member, part: listed.part });
-        }
-        if (other.files.length === 0) {
-          deleteOpenSet(this.ledger, other.id);
-          this.openSets.delete(other.id);
-        }
+    const fileId = file.id ?? insertFileId(this.ledger, file, now);
+    insertSet(this.ledger, { id, sampleId: manifest.sampleId, role: manifest.role, source: 'manifest', createdAt: now, deadlineAt: set.deadlineAt, manifestJson });
+    assembleRecordedFile(this.ledger, fileId, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, id, now);
+    // Claim listed files already waiting in other open sets.
+    for (const other of this.openSets.all()) {
+      for (const member of [...other.files]) {
+        const listed = manifest.files.find((f) => f.file === member.name);
+        if (listed === undefined || dirname(member.path) !== dir) continue;
+        const record = getFile(this.ledger, member.fileId);
+        if (record === undefined) continue;
+        this.ledger.prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?').run(id, listed.part, listed.role ?? null, member.fileId);
+        other.files.splice(other.files.indexOf(member), 1);
+        set.files.push({ ...member, part: listed.part });
       }
-    });
+      if (other.files.length === 0) {
+        deleteOpenSet(this.ledger, other.id);
+        this.openSets.delete(other.id);
+        touched.delete(other);
+      }
+    }
     this.openSets.add(set);
+    touched.add(set);
     this.logger.info({ setId: id, files: manifest.files.length }, 'manifest received');
-    await this.dispatchIfReady(set, now);
+    return fileId;
   }
 
   /** Dispatches every open set that is ready (timeouts); with `force`, every open set (end of a batch). */
@@ -238,37 +300,57 @@ export class Coordinator {
     // Supporting and reference sets first, so samples of the same batch can pair with them.
     const order = (s: OpenSet): number => (s.standalone ? 0 : s.role === 'reference' ? 1 : 2);
     sets.sort((a, b) => order(a) - order(b));
-    for (const set of sets) await this.dispatchIfReady(set, now, force);
+    await this.dispatchReady(sets, now, force);
   }
 
-  private async dispatchIfReady(set: OpenSet, now: Date, force = false): Promise<void> {
+  /**
+   * Dispatches the ready sets among `sets`, in order: pairings are chosen and the sets marked queued
+   * in one transaction (each set sees the ones before it as queued), then each is enqueued. Sets
+   * beyond the in-flight limit wait for capacity.
+   */
+  private async dispatchReady(sets: readonly OpenSet[], now: Date, force = false): Promise<void> {
     if (this.holdDispatch && !force) return;
-    if (set.files.length === 0 && set.manifest === undefined) {
-      this.ledger.transaction(() => deleteOpenSet(this.ledger, set.id));
-      this.openSets.delete(set.id);
-      return;
-    }
-    const readiness = setReadiness(toView(set), this.rules, now);
-    if (!readiness.ready && !force) return;
-    if (this.inFlight.size >= this.maxInFlight) {
-      if (!this.readyWaitingSet.has(set.id)) {
-        this.readyWaitingSet.add(set.id);
-        this.readyWaiting.push(set.id);
+    const empty: OpenSet[] = [];
+    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[] }[] = [];
+    for (const set of sets) {
+      if (this.openSets.get(set.id) !== set) continue;
+      if (set.files.length === 0 && set.manifest === undefined) {
+        empty.push(set);
+        continue;
       }
-      return;
+      const readiness = setReadiness(toView(set), this.rules, now);
+      if (!readiness.ready && !force) continue;
+      if (this.inFlight.size + chosen.length >= this.maxInFlight) {
+        if (!this.readyWaitingSet.has(set.id)) {
+          this.readyWaitingSet.add(set.id);
+          this.readyWaiting.push(set.id);
+        }
+        continue;
+      }
+      this.readyWaitingSet.delete(set.id);
+      chosen.push({ set, reason: readiness.ready ? readiness.reason : 'end-of-batch', missing: readiness.missingParts, paired: [] });
     }
-    this.readyWaitingSet.delete(set.id);
-    const present = partsPresent(toView(set).files);
-    const { pairings } = choosePairings(this.ledger, this.config, this.rules, set, present, now);
-    const jobId = set.id;
+    if (empty.length === 0 && chosen.length === 0) return;
     this.ledger.transaction(() => {
-      for (const pairing of pairings) insertPairing(this.ledger, pairing);
-      markSetQueued(this.ledger, set.id, jobId, now);
-      for (const f of set.files) setFileState(this.ledger, f.fileId, 'queued', now);
+      for (const set of empty) deleteOpenSet(this.ledger, set.id);
+      for (const entry of chosen) {
+        const { set } = entry;
+        const { pairings } = choosePairings(this.ledger, this.config, this.rules, set, partsPresent(toView(set).files), now);
+        for (const pairing of pairings) insertPairing(this.ledger, pairing);
+        markSetQueued(this.ledger, set.id, set.id, now);
+        advanceFilesOfSet(this.ledger, set.id, 'assembled', 'queued', now);
+        entry.paired = pairings.map((p) => p.part);
+      }
     });
-    this.openSets.delete(set.id);
-    this.logger.info({ setId: set.id, reason: readiness.ready ? readiness.reason : 'end-of-batch', missing: readiness.missingParts, paired: pairings.map((p) => p.part) }, 'set dispatched');
-    await this.enqueue(set.id, jobId);
+    for (const set of empty) this.openSets.delete(set.id);
+    for (const { set, reason, missing, paired } of chosen) {
+      this.openSets.delete(set.id);
+      this.logger.info({ setId: set.id, reason, missing, paired }, 'set dispatched');
+    }
+    for (const { set } of chosen) {
+      await this.enqueue(set.id);
+      for (const f of set.files) this.contents.delete(f.fileId);
+    }
   }
 
   /** Builds the payload of a set from the ledger and enqueues it (also used by recovery and reprocess). */
@@ -276,6 +358,7 @@ export class Coordinator {
     const payload = buildPayload({
       ledger: this.ledger, config: this.config, configHash: this.hash, softwareVersion: this.softwareVersion, rules: this.rules,
       ...(this.detectorCurve === undefined ? {} : { detectorCurve: this.detectorCurve }), now: this.clock(),
+      contentOf: (file) => this.contents.take(file.id),
     }, setId);
     this.inFlight.add(jobId);
     this.counts.setsDispatched += 1;
@@ -283,71 +366,133 @@ export class Coordinator {
   }
 
   /**
-   * Takes a job outcome. On the in-process queue nothing is persisted, so the worker slot is freed at
-   * once and the commit runs on (tracked in inFlight; a crash before it lands leaves the set queued,
-   * re-enqueued at the next start). On a persistent queue the job is acknowledged only after the commit.
+   * Takes a job outcome into the next group commit. On the in-process queue nothing is persisted,
+   * so the worker slot is freed at once and the commit runs on (tracked in inFlight; a crash before
+   * it lands leaves the set queued, re-enqueued at the next start). On a persistent queue the job is
+   * acknowledged only after its commit.
    */
   private onOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
-    if (!this.detachCommits) return this.commitOutcome(outcome);
-    this.commitOutcome(outcome).catch((error: unknown) => {
+    const committed = new Promise<void>((resolve, reject) => this.commitBuffer.push({ outcome, resolve, reject }));
+    this.committing ??= this.runCommits();
+    if (!this.detachCommits) return committed;
+    committed.catch((error: unknown) => {
       this.logger.error({ setId: setIdOfJob(outcome.id), err: error }, 'commit failed; the set stays queued and is re-run at the next start');
     });
     return Promise.resolve();
   }
 
-  private async commitOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
-    const setId = setIdOfJob(outcome.id);
-    const log = this.logger.child({ setId });
-    const rerun = outcome.id !== setId;
+  /** Commits buffered outcomes in batches until none is left; outcomes arriving meanwhile join the next batch. */
+  private async runCommits(): Promise<void> {
     try {
-      const set = getSet(this.ledger, setId);
-      if (set === undefined || (!rerun && (set.state === 'done' || set.state === 'failed'))) {
-        log.debug({ jobId: outcome.id }, 'outcome for a finished set ignored (redelivery)');
+      // Let outcomes that finish together (several threads, one event-loop turn) join one batch.
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      while (this.commitBuffer.length > 0) {
+        const batch = this.commitBuffer.splice(0, COMMIT_BATCH_MAX);
+        try {
+          await this.commitBatch(batch);
+        } catch (error) {
+          for (const entry of batch) entry.reject(error);
+        }
+        for (const { outcome } of batch) this.inFlight.delete(outcome.id);
+        try {
+          await this.dispatchWaiting();
+        } catch (error) {
+          this.logger.error({ err: error }, 'dispatch of waiting sets failed; they are dispatched at the next tick or start');
+        }
+      }
+    } finally {
+      this.committing = undefined;
+    }
+  }
+
+  private async commitBatch(batch: readonly PendingCommit[]): Promise<void> {
+    const now = this.clock();
+    const context = { ledger: this.ledger, now };
+    const toCommit: { entry: PendingCommit; item: CommitItem }[] = [];
+    for (const entry of batch) {
+      const { outcome } = entry;
+      const setId = setIdOfJob(outcome.id);
+      const log = this.logger.child({ setId });
+      try {
+        const rerun = outcome.id !== setId;
+        const set = getSet(this.ledger, setId);
+        if (set === undefined || (!rerun && (set.state === 'done' || set.state === 'failed'))) {
+          log.debug({ jobId: outcome.id }, 'outcome for a finished set ignored (redelivery)');
+          entry.resolve();
+          continue;
+        }
+        if (outcome.status === 'failed') {
+          commitFailure(this.ledger, this.config, setId, outcome.failure, now);
+          this.counts.setsFailed += 1;
+          log.error({ code: outcome.failure.code, message: outcome.failure.message }, 'set failed; its files are quarantined');
+          this.notify(setId, undefined);
+          entry.resolve();
+          continue;
+        }
+        const unreadable = commitUnreadableSet(this.ledger, this.config, setId, outcome.value.rejectedInputs ?? [], now);
+        if (unreadable > 0) {
+          this.counts.filesRejected += unreadable;
+          this.counts.filesAccepted -= unreadable;
+          this.counts.setsFailed += 1;
+          log.warn({ files: unreadable }, 'no file of the set could be read; the set failed and its files are quarantined');
+          this.notify(setId, undefined);
+          entry.resolve();
+          continue;
+        }
+        const result = await applyStages(this.stages, outcome.value.result, context);
+        toCommit.push({ entry, item: { output: outcome.value, result } });
+      } catch (error) {
+        entry.reject(error);
+      }
+    }
+    if (toCommit.length === 0) return;
+    let outcomes;
+    try {
+      outcomes = await commitResults(this.ledger, this.config, toCommit.map((c) => c.item), now);
+    } catch (error) {
+      for (const { entry } of toCommit) entry.reject(error);
+      return;
+    }
+    outcomes.forEach((committed, index) => {
+      const pending = toCommit[index];
+      if (pending === undefined) return;
+      const { entry, item: { result } } = pending;
+      if (!committed.ok) {
+        entry.reject(committed.error);
         return;
       }
-      const now = this.clock();
-      if (outcome.status === 'failed') {
-        commitFailure(this.ledger, this.config, setId, outcome.failure, now);
-        this.counts.setsFailed += 1;
-        log.error({ code: outcome.failure.code, message: outcome.failure.message }, 'set failed; its files are quarantined');
-        this.notify(setId, undefined);
-        return;
-      }
-      const context = { ledger: this.ledger, now };
-      const result = await applyStages(this.stages, outcome.value.result, context);
-      const { path, filesRejected } = await commitResult(this.ledger, this.config, outcome.value, result, now);
-      if (filesRejected > 0) {
-        this.counts.filesRejected += filesRejected;
-        this.counts.filesAccepted -= filesRejected;
-        log.warn({ files: filesRejected }, 'inputs rejected by the worker were quarantined');
+      const log = this.logger.child({ setId: committed.setId });
+      if (committed.filesRejected > 0) {
+        this.counts.filesRejected += committed.filesRejected;
+        this.counts.filesAccepted -= committed.filesRejected;
+        log.warn({ files: committed.filesRejected }, 'inputs rejected by the worker were quarantined');
       }
       this.counts.setsDone += 1;
       if (result.partial) this.counts.setsPartial += 1;
-      log.info({ result: path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');
+      log.info({ result: committed.path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');
       for (const stage of this.stages) {
         if (stage.afterCommit === undefined) continue;
         Promise.resolve()
           .then(() => stage.afterCommit?.(result, context))
           .catch((error: unknown) => log.error({ stage: stage.name, err: error }, 'result stage afterCommit failed'));
       }
-      this.notify(setId, path);
-    } finally {
-      this.inFlight.delete(outcome.id);
-      await this.dispatchWaiting();
-    }
+      this.notify(committed.setId, committed.path);
+      entry.resolve();
+    });
   }
 
   /** Dispatches ready sets that waited for queue capacity, oldest first. */
   private async dispatchWaiting(): Promise<void> {
     while (this.inFlight.size < this.maxInFlight && this.readyWaiting.length > 0) {
-      const id = this.readyWaiting.shift();
-      if (id === undefined) break;
-      const set = this.openSets.get(id);
-      if (set === undefined) {
+      const room = this.maxInFlight - this.inFlight.size;
+      const ids = this.readyWaiting.splice(0, room);
+      const sets: OpenSet[] = [];
+      for (const id of ids) {
         this.readyWaitingSet.delete(id);
-        continue;
+        const set = this.openSets.get(id);
+        if (set !== undefined) sets.push(set);
       }
-      await this.dispatchIfReady(set, this.clock(), true);
+      await this.dispatchReady(sets, this.clock(), true);
     }
   }
 

@@ -103,7 +103,11 @@ const latin1 = new TextDecoder('latin1');
 
 /** A file's text: UTF-8 when valid, else Latin-1 (the readers see the same characters). */
 export function readText(path: string): string {
-  const bytes = readFileSync(path);
+  return decodeText(readFileSync(path));
+}
+
+/** Bytes as text: UTF-8 when valid, else Latin-1. */
+export function decodeText(bytes: Uint8Array): string {
   try {
     return utf8.decode(bytes);
   } catch {
@@ -134,6 +138,8 @@ export interface PayloadContext {
   readonly rules: AssemblyRules;
   readonly detectorCurve?: PayloadFile;
   readonly now: Date;
+  /** The bytes of an own file read at intake, if still held (see ContentCache); else the file is read from disk. */
+  readonly contentOf?: (file: FileRecord) => Uint8Array | undefined;
 }
 
 /** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts). */
@@ -143,9 +149,12 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   if (set === undefined) throw new Error(`ledger: set ${setId} does not exist`);
   const manifest = set.manifestJson === null ? undefined : (JSON.parse(set.manifestJson) as StoredManifest).manifest;
   const files: PayloadFile[] = [];
-  for (const file of filesOfSet(ledger, setId)) {
+  const own = filesOfSet(ledger, setId);
+  for (const file of own) {
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
-    files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content: readText(currentLocation(file)) });
+    const held = context.contentOf?.(file);
+    const content = held === undefined ? readText(currentLocation(file)) : decodeText(held);
+    files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content });
   }
   let referenceSetId: string | undefined;
   for (const pairing of pairingsOfSet(ledger, setId)) {
@@ -160,7 +169,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve')) files.push(context.detectorCurve);
   const role = set.role as MeasurementRole;
   const have = new Set<SetPart>(files.map((f) => f.part));
-  if (filesOfSet(ledger, setId).some((f) => f.part === 'decay' && f.hasIrfColumn)) have.add('irf');
+  if (own.some((f) => f.part === 'decay' && f.hasIrfColumn)) have.add('irf');
   const missingParts = requiredPartsFor(role, context.rules)
     .filter((part) => !have.has(part))
     .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));

@@ -24,8 +24,11 @@ export type IntakeResult =
   | { readonly kind: 'gone' }
   | { readonly kind: 'known' }
   | { readonly kind: 'rejected' }
-  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData }
-  | { readonly kind: 'manifest'; readonly file: IntakeFile; readonly manifest: SetManifest };
+  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData; readonly bytes: Uint8Array }
+  | { readonly kind: 'manifest'; readonly file: IntakeFile; readonly manifest: SetManifest; readonly bytes: Uint8Array };
+
+/** Files read earlier in the same intake batch but not recorded yet, by sha256 (for duplicate detection). */
+export type PendingIntake = ReadonlyMap<string, { readonly name: string; readonly path: string }>;
 
 function sha256OfFile(path: string, sizeBytes: number): { sha256: string; bytes?: Buffer } {
   if (sizeBytes <= 64 * 1024 * 1024) {
@@ -65,8 +68,8 @@ export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file
   ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: target }, now));
 }
 
-/** Reads a stable file; returns what it is (recorded by the caller when it assembles it), or that it was handled (known, rejected, gone). */
-export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date): IntakeResult {
+/** Reads a stable file; returns what it is and its bytes (recorded by the caller when it assembles it), or that it was handled (known, rejected, gone); `pending` lists files of the same batch not yet recorded. */
+export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date, pending: PendingIntake = new Map()): IntakeResult {
   let sizeBytes: number;
   try {
     const stat = statSync(path);
@@ -91,7 +94,10 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
       return { kind: 'known' };
     }
   }
-  const original = known.find((f) => f.state !== 'rejected' && f.state !== 'failed');
+  const inBatch = pending.get(sha256);
+  if (inBatch?.path === path) return { kind: 'known' };
+  const recorded = known.find((f) => f.state !== 'rejected' && f.state !== 'failed');
+  const original = recorded ?? (inBatch === undefined ? undefined : { name: inBatch.name, setId: null });
   const newFile: NewFile = { sha256, path, name, sizeBytes };
   if (original === undefined && sizeBytes <= config.limits.maxFileBytes) {
     return readRecorded(ledger, config, newFile, bytes ?? readFileSync(path), now);
@@ -110,9 +116,9 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
 function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date): IntakeResult {
   try {
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
-      return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name) };
+      return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name), bytes };
     }
-    return { kind: 'data', file, parsed: readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }) };
+    return { kind: 'data', file, parsed: readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }), bytes };
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;
     const record = 'id' in file ? file : ledger.transaction(() => insertFile(ledger, file, now));

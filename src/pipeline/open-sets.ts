@@ -38,6 +38,13 @@ export function toView(set: OpenSet): OpenSetView {
 
 export class OpenSets {
   private readonly byId = new Map<string, OpenSet>();
+  /** Open sets by sample id (a set's sample id does not change while it is open). */
+  private readonly bySampleId = new Map<string, Set<OpenSet>>();
+  /** Open sets declared by a manifest (they may claim files of any sample id). */
+  private readonly manifestSets = new Set<OpenSet>();
+  /** Insertion order, so candidate lists keep the order in which sets were opened. */
+  private readonly order = new Map<OpenSet, number>();
+  private sequence = 0;
 
   /** Rebuilds the view from the ledger's open sets. */
   static load(ledger: Ledger): OpenSets {
@@ -47,7 +54,17 @@ export class OpenSets {
   }
 
   add(set: OpenSet): void {
+    this.delete(set.id);
     this.byId.set(set.id, set);
+    this.sequence += 1;
+    this.order.set(set, this.sequence);
+    let same = this.bySampleId.get(set.sampleId);
+    if (same === undefined) {
+      same = new Set();
+      this.bySampleId.set(set.sampleId, same);
+    }
+    same.add(set);
+    if (set.manifest !== undefined) this.manifestSets.add(set);
   }
 
   get(id: string): OpenSet | undefined {
@@ -55,7 +72,14 @@ export class OpenSets {
   }
 
   delete(id: string): void {
+    const set = this.byId.get(id);
+    if (set === undefined) return;
     this.byId.delete(id);
+    const same = this.bySampleId.get(set.sampleId);
+    same?.delete(set);
+    if (same?.size === 0) this.bySampleId.delete(set.sampleId);
+    this.manifestSets.delete(set);
+    this.order.delete(set);
   }
 
   /** Every open set, oldest first. */
@@ -63,9 +87,16 @@ export class OpenSets {
     return [...this.byId.values()].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id));
   }
 
-  /** Candidates for a new file: sets of the same sample id and every manifest set. */
+  /** Manifest sets, oldest first (the ones that may claim files already waiting elsewhere). */
+  manifests(): OpenSet[] {
+    return [...this.manifestSets].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id));
+  }
+
+  /** Candidates for a new file, in insertion order: sets of the same sample id and every manifest set (indexed, so the cost does not grow with the number of open sets). */
   candidatesFor(sampleId: string): OpenSet[] {
-    return [...this.byId.values()].filter((s) => s.sampleId === sampleId || s.manifest !== undefined);
+    const out = [...(this.bySampleId.get(sampleId) ?? [])];
+    for (const set of this.manifestSets) if (set.sampleId !== sampleId) out.push(set);
+    return out.sort((a, b) => (this.order.get(a) ?? 0) - (this.order.get(b) ?? 0));
   }
 
   get size(): number {

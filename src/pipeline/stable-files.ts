@@ -22,9 +22,8 @@ export class StableFiles {
     private readonly now: () => number = Date.now,
   ) {}
 
-  /** Notes that `path` was created or written; it is reported after a quiet stability window. */
-  touch(path: string): void {
-    const stat = statOrUndefined(path);
+  /** Notes that `path` was created or written (`stat`: its size and mtime when the caller just read them); it is reported after a quiet stability window. */
+  touch(path: string, stat: { size: number; mtimeMs: number } | undefined = statOrUndefined(path)): void {
     if (stat === undefined) {
       this.pending.delete(path);
       return;

@@ -31,10 +31,12 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   /** Looks at one path named by an event or a listing: follows new folders, tracks files. */
   const examine = (path: string, isRoot = false): void => {
     let kind: 'file' | 'folder' | 'gone' | 'other';
+    let fileStat: { size: number; mtimeMs: number } | undefined;
     try {
       const link = lstatSync(path);
       const target = link.isSymbolicLink() ? statSync(path) : link;
       kind = target.isFile() ? 'file' : target.isDirectory() ? 'folder' : 'other';
+      if (kind === 'file') fileStat = { size: target.size, mtimeMs: target.mtimeMs };
     } catch {
       kind = 'gone';
     }
@@ -44,7 +46,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     } else if (kind === 'folder') {
       if ((isRoot || !basename(path).startsWith('.')) && !folders.has(path)) watchFolder(path);
     } else if (kind === 'file' && !isIgnoredFile(path, extra)) {
-      stable.touch(path);
+      stable.touch(path, fileStat);
     }
   };
 

@@ -70,14 +70,20 @@ export interface FileFacts {
 
 /** Inserts a file in state `seen` and returns its record. */
 export function insertFile(ledger: Ledger, file: NewFile, now: Date): FileRecord {
+  const id = insertFileId(ledger, file, now);
+  const record = getFile(ledger, id);
+  if (record === undefined) throw new Error(`ledger: file row ${id} vanished after insert`);
+  return record;
+}
+
+/** Inserts a file in state `seen` and returns its id only (no read-back). */
+export function insertFileId(ledger: Ledger, file: NewFile, now: Date): number {
   const at = now.toISOString();
   const info = ledger
     .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state)
               VALUES (?, ?, ?, ?, ?, ?, 'seen')`)
     .run(file.sha256, file.path, file.name, file.sizeBytes, at, at);
-  const record = getFile(ledger, Number(info.lastInsertRowid));
-  if (record === undefined) throw new Error(`ledger: file row ${String(info.lastInsertRowid)} vanished after insert`);
-  return record;
+  return Number(info.lastInsertRowid);
 }
 
 /** The file with this id, if any. */
@@ -116,6 +122,24 @@ export function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: 
       facts.hasIrfColumn ? 1 : 0, now.toISOString(), id);
 }
 
+/** Records a file that was read and placed in set `setId` (state `assembled`, with its facts) in one statement; returns its id. */
+export function insertAssembledFile(ledger: Ledger, file: NewFile, facts: FileFacts, setId: string, now: Date): number {
+  const at = now.toISOString();
+  const info = ledger
+    .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state, data_type, part, role, sample_id,
+              acquired_at, excitation_nm, solvent, has_irf_column, set_id)
+              VALUES (?, ?, ?, ?, ?, ?, 'assembled', ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+    .run(file.sha256, file.path, file.name, file.sizeBytes, at, at, facts.dataType, facts.part, facts.role, facts.sampleId,
+      facts.acquiredAt, facts.excitationNm, facts.solvent, facts.hasIrfColumn ? 1 : 0, setId);
+  return Number(info.lastInsertRowid);
+}
+
+/** Stores the facts of a file recorded earlier and places it in set `setId` (state `assembled`). */
+export function assembleRecordedFile(ledger: Ledger, id: number, facts: FileFacts, setId: string, now: Date): void {
+  setFileFacts(ledger, id, facts, now);
+  setFileState(ledger, id, 'assembled', now, setId);
+}
+
 /** Moves a file to `state`, optionally attaching it to a set. */
 export function setFileState(ledger: Ledger, id: number, state: FileState, now: Date, setId?: string | null): void {
   if (setId === undefined) {
@@ -128,6 +152,11 @@ export function setFileState(ledger: Ledger, id: number, state: FileState, now: 
 /** Moves every own file of a set to `state`. */
 export function setFilesOfSetState(ledger: Ledger, setId: string, state: FileState, now: Date): void {
   ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE set_id = ?').run(state, now.toISOString(), setId);
+}
+
+/** Moves the own files of a set that are in state `from` to state `to` (e.g. assembled → queued at dispatch). */
+export function advanceFilesOfSet(ledger: Ledger, setId: string, from: FileState, to: FileState, now: Date): void {
+  ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE set_id = ? AND state = ?').run(to, now.toISOString(), setId, from);
 }
 
 /** Marks a file rejected or failed with its error (and where it was quarantined). */

@@ -61,7 +61,9 @@ describe('driftlight demo and process', () => {
     expect(record.line).toBeGreaterThan(1);
     expect(listFiles(join(workspace, 'outbox')).filter((p) => p.endsWith('.jdx'))).toHaveLength(4);
     const status = runDriftlight(['status', '--config', join(workspace, 'driftlight.yaml')]);
-    expect(status.stdout).toContain('sets:  open 0, queued 0, done 5, failed 0');
+    // orchid-03's only file reads fine in its head (intake) and breaks further down (worker): the
+    // set fails with the file's own reason instead of getting an empty result.
+    expect(status.stdout).toContain('sets:  open 0, queued 0, done 5, failed 1');
     expect(status.stdout).toContain('NON_NUMERIC');
   });
 
