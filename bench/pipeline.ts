@@ -4,15 +4,19 @@
 // backlog present at start-up with peak RSS. Run: `npm run build && node dist/bench/pipeline.js`
 // (options: --sets N, --backlog-files N, --skip-backlog).
 import { spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyze } from '../src/analysis/analyze.js';
 import { resolveConfig } from '../src/config/resolve.js';
 import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from '../src/demo/synthetic.js';
 import { writeDecayCsv, writeSpectrumCsv } from '../src/formats/index.js';
+import { fsyncDirectoryAsync, writeFileAtomic, writeFileAtomicAsync } from '../src/output/atomic-write.js';
+import { uniqueTarget } from '../src/output/dated-path.js';
 import { createLogger } from '../src/output/logger.js';
+import { moveFile } from '../src/output/move-file.js';
 import { buildPayload } from '../src/pipeline/dispatch.js';
 import { batchStableFiles } from '../src/pipeline/intake-batcher.js';
 import { ANALYZE_PROCESSOR_URL, openPipeline, type Pipeline } from '../src/pipeline/runtime.js';
@@ -160,13 +164,24 @@ async function throughputAndLatency(): Promise<void> {
   const pool = createTaskPool({ processorHref: ANALYZE_PROCESSOR_URL.href, concurrency: burst.config.queue.concurrency, jobTimeoutMs: 60_000 });
   await Promise.all(payloads.slice(0, 50).map((payload) => pool.run(payload)));
   const p0 = performance.now();
+  const poolCpu0 = cpuNow();
   await Promise.all([...measured, ...measured].map((payload) => pool.run(payload)));
   const poolSetsPerS = (2 * measured.length) / ((performance.now() - p0) / 1000);
+  const poolCpuMsPerSet = cpuSince(poolCpu0).processMs / (2 * measured.length);
   await pool.close();
   emit({
     scenario: 'bare-analyze', sets: measured.length, rounds: rounds.map((r) => Number(r.toFixed(1))),
     setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
     poolThreads: burst.config.queue.concurrency, setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)), ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
+    poolCpuMsPerSet: Number(poolCpuMsPerSet.toFixed(2)),
+  });
+  // The file work the pipeline must do per set, alone: what no coordinator design can avoid.
+  const floor = await ioFloor(files.slice(0, 500), payloads[0] === undefined ? [] : analyze(payloads[0]).artifacts.map((a) => a.content));
+  const cores = availableParallelism();
+  const ceilingSetsPerS = (cores * 1000) / (poolCpuMsPerSet + floor.cpuMsPerSet);
+  emit({
+    scenario: 'io-floor', sets: floor.sets, cpuMsPerSet: Number(floor.cpuMsPerSet.toFixed(2)), wallMsPerSet: Number(floor.wallMsPerSet.toFixed(2)), cores,
+    ceilingSetsPerS: Number(ceilingSetsPerS.toFixed(1)), ceilingRatioToOneThread: Number((ceilingSetsPerS / bareSetsPerS).toFixed(3)),
   });
   await stop();
   await pipeline.coordinator.drain();
@@ -199,6 +214,41 @@ async function throughputAndLatency(): Promise<void> {
   await stopSteady();
   await steadyPipeline.coordinator.drain();
   await steadyPipeline.close();
+}
+
+/**
+ * The per-set file work the issue requires, with no parsing, ledger or analysis: read and hash 4
+ * inputs, write the result durably (fdatasync; one folder fsync per 8 sets, as the group commit
+ * does), write the outbox files atomically and move the 4 inputs to the archive. Returns CPU and wall
+ * time per set: a floor under any coordinator's cost on this machine.
+ */
+async function ioFloor(sets: readonly { name: string; content: string }[][], artifacts: readonly string[]): Promise<{ sets: number; cpuMsPerSet: number; wallMsPerSet: number }> {
+  const dir = mkdtempSync(join(tmpdir(), 'dl-bench-floor-'));
+  const inbox = join(dir, 'inbox');
+  mkdirSync(inbox, { recursive: true });
+  for (const set of sets) for (const f of set) writeFileSync(join(inbox, f.name), f.content);
+  const result = JSON.stringify({ schema: 'driftlight.result/1', padding: 'x'.repeat(2400) });
+  const cpu0 = cpuNow();
+  const t0 = performance.now();
+  const group = 8;
+  for (let start = 0; start < sets.length; start += group) {
+    const batch = sets.slice(start, start + group);
+    await Promise.all(batch.map(async (set, k) => {
+      for (const f of set) {
+        statSync(join(inbox, f.name));
+        createHash('sha256').update(readFileSync(join(inbox, f.name))).digest('hex');
+      }
+      await writeFileAtomicAsync(join(dir, 'results', `r${start + k}.json`), result, { syncFolder: false });
+    }));
+    await fsyncDirectoryAsync(join(dir, 'results'));
+    batch.forEach((_set, k) => artifacts.forEach((content, a) => writeFileAtomic(join(dir, 'outbox', `s${start + k}`, `a${a}.txt`), content, { durable: false })));
+    for (const set of batch) for (const f of set) moveFile(join(inbox, f.name), uniqueTarget(join(dir, 'archive'), f.name), { syncFolder: false });
+    await fsyncDirectoryAsync(join(dir, 'archive'));
+  }
+  const wallMs = performance.now() - t0;
+  const cpu = cpuSince(cpu0);
+  rmSync(dir, { recursive: true, force: true });
+  return { sets: sets.length, cpuMsPerSet: cpu.processMs / sets.length, wallMsPerSet: wallMs / sets.length };
 }
 
 async function backlog(): Promise<void> {

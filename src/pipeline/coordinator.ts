@@ -53,7 +53,7 @@ export function setIdOfJob(jobId: string): string {
 }
 
 /** Files read per ledger transaction at intake; the event loop is yielded between chunks. */
-export const INTAKE_CHUNK_FILES = 100;
+export const INTAKE_CHUNK_FILES = 64;
 /** Outcomes committed per batch at most. */
 export const COMMIT_BATCH_MAX = 64;
 

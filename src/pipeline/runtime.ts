@@ -1,6 +1,6 @@
 // Wires one pipeline instance: ledger, logger, job queue (createJobQueue with the config's queue
 // section and workers/analyze-job.js as processor) and the coordinator. Used by the CLI commands.
-import { mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import type { Logger } from 'pino';
 import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
 import type { DriftlightConfig } from '../config/resolve.js';
@@ -13,8 +13,11 @@ import { Coordinator } from './coordinator.js';
 import type { ResultStage } from './result-stage.js';
 import { defaultResultStages } from './stage-table.js';
 
-/** The compiled job processor (from dist/src/pipeline). */
-export const ANALYZE_PROCESSOR_URL = new URL('../../workers/analyze-job.js', import.meta.url);
+/** The compiled job processor: beside dist/src/pipeline when built; from the TypeScript sources (vitest), the build output in dist/ (`npm run build` must have run). */
+export const ANALYZE_PROCESSOR_URL = ((): URL => {
+  const sibling = new URL('../../workers/analyze-job.js', import.meta.url);
+  return existsSync(sibling) ? sibling : new URL('../../dist/workers/analyze-job.js', import.meta.url);
+})();
 
 export interface Pipeline {
   readonly config: DriftlightConfig;

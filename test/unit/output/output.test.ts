@@ -3,7 +3,7 @@ import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } fro
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { quarantineFile, uniqueTarget, writeFileAtomic } from '../../../src/output/index.js';
+import { fsyncDirectoryAsync, moveFile, quarantineFile, uniqueTarget, writeFileAtomic, writeFileAtomicAsync } from '../../../src/output/index.js';
 
 describe('output', () => {
   it('writes atomically, replacing the target, with no temp file left', () => {
@@ -13,6 +13,22 @@ describe('output', () => {
     writeFileAtomic(path, 'two');
     expect(readFileSync(path, 'utf8')).toBe('two');
     expect(readdirSync(join(dir, 'deep'))).toEqual(['r.json']);
+  });
+
+  it('creates a missing folder only when a write or move needs it, and reports a vanished source', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dl-out-'));
+    const result = join(dir, 'results', '2026-03-14', 'set-a.json');
+    await writeFileAtomicAsync(result, '{"a":1}\n', { syncFolder: false });
+    await fsyncDirectoryAsync(join(dir, 'results', '2026-03-14'));
+    expect(readFileSync(result, 'utf8')).toBe('{"a":1}\n');
+    expect(readdirSync(join(dir, 'results', '2026-03-14'))).toEqual(['set-a.json']);
+    const input = join(dir, 'in.csv');
+    writeFileSync(input, 'x');
+    const target = join(dir, 'archive', '2026-03-14', 'in.csv');
+    expect(moveFile(input, target, { syncFolder: false })).toBe(true);
+    expect(readFileSync(target, 'utf8')).toBe('x');
+    expect(existsSync(input)).toBe(false);
+    expect(moveFile(input, join(dir, 'archive', 'again.csv'))).toBe(false);
   });
 
   it('quarantines a file with its reason and never overwrites an earlier one', () => {

@@ -1,0 +1,101 @@
+// The coordinator's batched paths, in process (no CLI): stable files taken many at a time, the
+// payload built from the bytes hashed at intake, finished sets committed as a group.
+import { mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pino } from 'pino';
+import { afterEach, describe, expect, it } from 'vitest';
+import { resolveConfig } from '../../../src/config/resolve.js';
+import { openPipeline, type Pipeline } from '../../../src/pipeline/runtime.js';
+import { generateSet } from '../../integration/pipeline-helpers.js';
+
+const opened: { pipeline: Pipeline; dir: string }[] = [];
+
+afterEach(async () => {
+  for (const { pipeline, dir } of opened.splice(0)) {
+    await pipeline.close();
+    rmSync(dir, { recursive: true, force: true });
+  }
+});
+
+/** A pipeline on a temp workspace; dispatch held (batch mode) so a test decides when sets go out. */
+function start(): { pipeline: Pipeline; inbox: string; dir: string } {
+  const dir = mkdtempSync(join(tmpdir(), 'dl-coord-'));
+  const config = resolveConfig({
+    assembly: { setTimeoutMs: 600_000 },
+    queue: { concurrency: 2 },
+    logging: { level: 'warn', stdout: 'off' },
+  }, { baseDir: dir });
+  const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }) });
+  pipeline.coordinator.holdDispatch = true;
+  opened.push({ pipeline, dir });
+  mkdirSync(config.folders.inbox, { recursive: true });
+  return { pipeline, inbox: config.folders.inbox, dir };
+}
+
+function drop(inbox: string, files: readonly { name: string; content: string }[]): string[] {
+  return files.map((f) => {
+    const path = join(inbox, f.name);
+    writeFileSync(path, f.content);
+    return path;
+  });
+}
+
+function filesUnder(dir: string): string[] {
+  return readdirSync(dir, { recursive: true, withFileTypes: true }).filter((e) => e.isFile()).map((e) => e.name).sort();
+}
+
+describe('coordinator batches', () => {
+  it('quarantines the second of two identical files taken in the same batch as a duplicate of the first', async () => {
+    const { pipeline, inbox, dir } = start();
+    const set = generateSet('dup-01', 11);
+    const emission = set.files[0];
+    if (emission === undefined) throw new Error('no emission file');
+    const paths = drop(inbox, [...set.files, { name: 'dup-01_em-copy.csv', content: emission.content }]);
+    await pipeline.coordinator.intakeMany(paths);
+    expect(pipeline.coordinator.counts).toMatchObject({ filesAccepted: 3, filesRejected: 1 });
+    const records = filesUnder(join(dir, 'quarantine')).filter((n) => n.endsWith('.error.json'));
+    expect(records).toEqual(['dup-01_em-copy.csv.error.json']);
+    const record = JSON.parse(readFileSync(join(dir, 'quarantine', readdirSync(join(dir, 'quarantine'))[0] ?? '', records[0] ?? ''), 'utf8')) as { code: string; message: string };
+    expect(record.code).toBe('DUPLICATE_INPUT');
+    expect(record.message).toContain(emission.name);
+  });
+
+  it('analyses the bytes hashed at intake even when the file on disk changes before dispatch', async () => {
+    const { pipeline, inbox } = start();
+    const set = generateSet('held-01', 12);
+    const paths = drop(inbox, set.files);
+    await pipeline.coordinator.intakeMany(paths);
+    // The instrument (or a person) rewrites the emission export after driftlight took it.
+    writeFileSync(paths[0] ?? '', 'not a spectrum any more\n');
+    let resultPath: string | undefined;
+    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    await pipeline.coordinator.tick(true);
+    await pipeline.coordinator.drain();
+    expect(resultPath).toBeDefined();
+    const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as { partial: boolean; spectra: { emission?: unknown }; provenance: { inputs: { sha256: string; file: string }[] } };
+    expect(result.partial).toBe(false);
+    expect(result.spectra.emission).toBeDefined();
+    const hashed = pipeline.ledger.database.prepare(`SELECT sha256 FROM files WHERE name = ?`).get(set.files[0]?.name) as { sha256: string };
+    expect(result.provenance.inputs.find((i) => i.file === set.files[0]?.name)?.sha256).toBe(hashed.sha256);
+  });
+
+  it('commits many sets finishing together: one result each, every input archived, ledger done', async () => {
+    const { pipeline, inbox, dir } = start();
+    const sets = Array.from({ length: 12 }, (_u, i) => generateSet(`grp-${String(i).padStart(2, '0')}`, 100 + i));
+    await pipeline.coordinator.intakeMany(drop(inbox, sets.flatMap((s) => s.files)));
+    const committed: string[] = [];
+    pipeline.coordinator.onCommitted((id, path) => { if (path !== undefined) committed.push(id); });
+    await pipeline.coordinator.tick(true);
+    await pipeline.coordinator.drain();
+    expect(committed).toHaveLength(12);
+    expect(new Set(committed).size).toBe(12);
+    expect(filesUnder(join(dir, 'results')).filter((n) => n.endsWith('.json'))).toHaveLength(12);
+    expect(filesUnder(inbox)).toEqual([]);
+    expect(filesUnder(join(dir, 'archive'))).toHaveLength(36);
+    const states = pipeline.ledger.database.prepare(`SELECT state, COUNT(*) AS n FROM sets GROUP BY state`).all();
+    expect(states).toEqual([{ state: 'done', n: 12 }]);
+    const unarchived = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
+    expect(unarchived.n).toBe(0);
+  });
+});
