@@ -7,7 +7,7 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
 import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRecord } from '../store/files.js';
-import { getSet, pairingsOfSet, type PairingRecord } from '../store/sets.js';
+import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
 import { analysisSettingsFrom } from './settings.js';
@@ -83,16 +83,13 @@ function setMeasuredAt(ledger: Ledger, setId: string): Date | undefined {
 }
 
 function mostRecentReferenceSet(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
-  const rows = ledger
-    .prepare(`SELECT id FROM sets WHERE role = 'reference' AND state IN ('queued','done') AND id != ? ORDER BY created_at DESC, id DESC LIMIT 50`)
-    .all(excludeSetId) as { id: string }[];
   const found = new Map<number, { setId: string; emission: FileRecord; absorbance?: FileRecord }>();
-  for (const row of rows) {
-    const files = filesOfSet(ledger, row.id).filter((f) => f.state !== 'rejected' && f.state !== 'failed');
+  for (const setId of recentReferenceSetIds(ledger, excludeSetId)) {
+    const files = filesOfSet(ledger, setId).filter((f) => f.state !== 'rejected' && f.state !== 'failed');
     const emission = files.find((f) => f.part === 'emission');
     if (emission === undefined) continue;
     const absorbance = files.find((f) => f.part === 'absorbance');
-    found.set(emission.id, { setId: row.id, emission, ...(absorbance === undefined ? {} : { absorbance }) });
+    found.set(emission.id, { setId, emission, ...(absorbance === undefined ? {} : { absorbance }) });
   }
   const chosen = choosePairing([...found.values()].map((r) => toCandidate(r.emission)), referenceTime, windowHours);
   return chosen === undefined ? undefined : found.get(chosen.fileId);

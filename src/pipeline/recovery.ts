@@ -6,19 +6,19 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesInStates } from '../store/files.js';
+import { filesAwaitingMove } from '../store/files.js';
 import { finishArchiveMove, rejectFile } from './intake.js';
 
 /** Finishes archive and quarantine moves interrupted by a crash; returns how many files it moved. */
 export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date): number {
   let moved = 0;
-  for (const file of filesInStates(ledger, ['done'])) {
+  for (const file of filesAwaitingMove(ledger, ['done'])) {
     if (file.archivePath === null && existsSync(file.path)) {
       finishArchiveMove(ledger, config, file, now);
       moved += 1;
     }
   }
-  for (const file of filesInStates(ledger, ['rejected', 'failed'])) {
+  for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) {
     if (file.quarantinePath === null && existsSync(file.path)) {
       const error = new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);

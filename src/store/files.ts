@@ -102,10 +102,14 @@ export function filesByPath(ledger: Ledger, path: string): FileRecord[] {
   return (ledger.prepare('SELECT * FROM files WHERE path = ? ORDER BY id').all(path) as FileRow[]).map(toRecord);
 }
 
-/** Files in one of `states`, oldest first. */
-export function filesInStates(ledger: Ledger, states: readonly FileState[]): FileRecord[] {
-  const marks = states.map(() => '?').join(',');
-  return (ledger.prepare(`SELECT * FROM files WHERE state IN (${marks}) ORDER BY id`).all(...states) as FileRow[]).map(toRecord);
+/** SQL of filesAwaitingMove for `count` states (partial index files_unplaced; exported for the query-plan test). */
+export function filesAwaitingMoveSql(count: number): string {
+  return `SELECT * FROM files WHERE state IN (${Array.from({ length: count }, () => '?').join(',')}) AND archive_path IS NULL AND quarantine_path IS NULL ORDER BY id`;
+}
+
+/** Files in one of `states` not yet moved to the archive or quarantine, oldest first (crash recovery). */
+export function filesAwaitingMove(ledger: Ledger, states: readonly FileState[]): FileRecord[] {
+  return (ledger.prepare(filesAwaitingMoveSql(states.length)).all(...states) as FileRow[]).map(toRecord);
 }
 
 /** The files belonging to a set (its own, not paired), oldest first. */
@@ -182,17 +186,19 @@ export function setFileLocation(ledger: Ledger, id: number, where: { archivePath
   }
 }
 
+/** SQL of pairingCandidates (walks index files_part_seen newest first; exported for the query-plan test). */
+export const PAIRING_CANDIDATES_SQL = `SELECT * FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;
+
 /** Pairing candidates: the newest `limit` files of `part` (by first seen) not rejected; the caller filters by measurement time. */
 export function pairingCandidates(ledger: Ledger, part: string, limit = 200): FileRecord[] {
-  return (ledger
-    .prepare(`SELECT * FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`)
-    .all(part, limit) as FileRow[]).map(toRecord);
+  return (ledger.prepare(PAIRING_CANDIDATES_SQL).all(part, limit) as FileRow[]).map(toRecord);
 }
+
+/** SQL of decayIrfCandidates (the partial index files_irf_decays, named because the planner would otherwise walk every decay). */
+export const DECAY_IRF_CANDIDATES_SQL = `SELECT * FROM files INDEXED BY files_irf_decays WHERE part = 'decay' AND has_irf_column = 1
+  AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;
 
 /** Decay files that carry their own IRF column (usable as an IRF), newest first. */
 export function decayIrfCandidates(ledger: Ledger, limit = 200): FileRecord[] {
-  return (ledger
-    .prepare(`SELECT * FROM files WHERE part = 'decay' AND has_irf_column = 1 AND state IN ('assembled','queued','done')
-              ORDER BY first_seen_at DESC, id DESC LIMIT ?`)
-    .all(limit) as FileRow[]).map(toRecord);
+  return (ledger.prepare(DECAY_IRF_CANDIDATES_SQL).all(limit) as FileRow[]).map(toRecord);
 }

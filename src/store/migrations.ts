@@ -91,6 +91,22 @@ const CORE_MIGRATIONS: readonly Migration[] = [
       `);
     },
   },
+  {
+    // Indexes that keep dispatch and start-up independent of the ledger's size: pairing candidates
+    // newest first by part, decays carrying an IRF column, reference sets newest first, and files
+    // whose archive or quarantine move is still to be done (recovery). files_part (part, state)
+    // could not serve the newest-first order and is replaced.
+    id: '0002-pairing-and-recovery-indexes',
+    up(database) {
+      database.exec(`
+        DROP INDEX files_part;
+        CREATE INDEX files_part_seen ON files (part, first_seen_at, id);
+        CREATE INDEX files_irf_decays ON files (first_seen_at, id) WHERE part = 'decay' AND has_irf_column = 1;
+        CREATE INDEX files_unplaced ON files (state) WHERE archive_path IS NULL AND quarantine_path IS NULL;
+        CREATE INDEX sets_role_created ON sets (role, created_at, id);
+      `);
+    },
+  },
 ];
 
 /** Every migration, in the order applied. Append other modules' lists here. */

@@ -110,6 +110,15 @@ export function markSetFailed(ledger: Ledger, id: string, error: { code: string;
     .run(error.code, error.message, now.toISOString(), id);
 }
 
+/** SQL of recentReferenceSetIds (index sets_role_created newest first; exported for the query-plan test). */
+export const RECENT_REFERENCE_SETS_SQL = `SELECT id FROM sets WHERE role = 'reference' AND state IN ('queued','done') AND id != ?
+  ORDER BY created_at DESC, id DESC LIMIT ?`;
+
+/** Ids of the newest `limit` reference-standard sets queued or done, other than `excludeSetId`. */
+export function recentReferenceSetIds(ledger: Ledger, excludeSetId: string, limit = 50): string[] {
+  return (ledger.prepare(RECENT_REFERENCE_SETS_SQL).all(excludeSetId, limit) as { id: string }[]).map((row) => row.id);
+}
+
 export interface PairingRecord {
   readonly setId: string;
   readonly part: string;

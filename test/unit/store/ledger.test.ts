@@ -3,7 +3,10 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { applyMigrations, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone, markSetQueued, MIGRATIONS, openLedger, setFileState, setsInState } from '../../../src/store/index.js';
+import {
+  applyMigrations, DECAY_IRF_CANDIDATES_SQL, filesAwaitingMoveSql, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone,
+  markSetQueued, MIGRATIONS, openLedger, PAIRING_CANDIDATES_SQL, RECENT_REFERENCE_SETS_SQL, setFileState, setsInState,
+} from '../../../src/store/index.js';
 
 const now = new Date('2026-03-14T10:00:00Z');
 
@@ -37,6 +40,18 @@ describe('ledger', () => {
     expect(status.files.assembled).toBe(1);
     expect(status.sets.done).toBe(1);
     expect(() => setFileState(ledger, file.id, 'bogus' as 'done', now)).toThrow(/CHECK constraint/);
+    ledger.close();
+  });
+
+  it('answers the queries run at every dispatch and start from an index, newest first, without sorting the ledger', () => {
+    // Query plans, not timings: a plan that scans the table or sorts it would grow with months of data.
+    const ledger = openLedger(mkdtempSync(join(tmpdir(), 'dl-ledger-')));
+    const plan = (sql: string, ...args: unknown[]): string =>
+      (ledger.database.prepare(`EXPLAIN QUERY PLAN ${sql}`).all(...args) as { detail: string }[]).map((r) => r.detail).join('; ');
+    expect(plan(PAIRING_CANDIDATES_SQL, 'blank', 200)).toMatch(/^SEARCH files USING INDEX files_part_seen \(part=\?\)$/);
+    expect(plan(DECAY_IRF_CANDIDATES_SQL, 200)).toMatch(/^SCAN files USING INDEX files_irf_decays$/);
+    expect(plan(RECENT_REFERENCE_SETS_SQL, 'x', 50)).toMatch(/^SEARCH sets USING INDEX sets_role_created \(role=\?\)$/);
+    expect(plan(filesAwaitingMoveSql(1), 'done')).toMatch(/^SEARCH files USING INDEX files_unplaced \(state=\?\)$/);
     ledger.close();
   });
 });
