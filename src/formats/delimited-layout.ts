@@ -61,8 +61,14 @@ function splitFields(line: string, delimiter: DelimiterName): string[] {
   return fields;
 }
 
+/** Characters a numeric field (or its opening quote) can start with: digits, sign, decimal marks, NaN/Inf. */
+const NUMERIC_START = /^[\s"]*[-+0-9.,nNiI]/;
+
 /** Number of numeric fields when every field of `line` is numeric under `candidate` (and ≥ 2), else 0. */
 function numericFieldCount(line: string, candidate: Candidate): number {
+  // Cheap refusals first (header lines, other separators), so most candidate lines are never split.
+  if (!NUMERIC_START.test(line)) return 0;
+  if (candidate.delimiter === 'whitespace' ? !/\S[ \t]+\S/.test(line) : !line.includes(candidate.delimiter)) return 0;
   const fields = splitFields(line, candidate.delimiter);
   if (fields.length < 2) return 0;
   const pattern = NUMERIC[candidate.decimalMark];
