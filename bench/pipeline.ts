@@ -2,7 +2,7 @@
 // sets of emission + absorbance + decay + IRF through the embedded default (watcher, in-process
 // worker-thread pool, SQLite ledger); bare analyze() throughput for the ratio; and a 10,000-file
 // backlog present at start-up with peak RSS. Run: `npm run build && node dist/bench/pipeline.js`
-// (options: --sets N, --backlog-files N, --skip-backlog).
+// (options: --sets N, --backlog-files N, --skip-backlog, --backlog-only [--backlog-dir DIR]).
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -79,8 +79,9 @@ function setFiles(sampleId: string, seed: number): { name: string; content: stri
   ];
 }
 
-function workspace(): { dir: string; config: ReturnType<typeof resolveConfig> } {
-  const dir = mkdtempSync(join(tmpdir(), 'dl-bench-'));
+/** A bench workspace (new, or the existing folder `existing`) and its config. */
+function workspace(existing?: string): { dir: string; config: ReturnType<typeof resolveConfig> } {
+  const dir = existing ?? mkdtempSync(join(tmpdir(), 'dl-bench-'));
   mkdirSync(join(dir, 'inbox'), { recursive: true });
   const config = resolveConfig({
     watch: { stabilityWindowMs: STABILITY_MS, pollIntervalMs: 50 },
@@ -253,10 +254,19 @@ async function ioFloor(sets: readonly { name: string; content: string }[][], art
   return { sets: sets.length, cpuMsPerSet: cpu.processMs / sets.length, wallMsPerSet: wallMs / sets.length };
 }
 
-async function backlog(): Promise<void> {
-  const { config } = workspace();
+/** Writes the backlog's files (BACKLOG_FILES, 4 per set) into the inbox of a new workspace; returns the folder and the number of sets. */
+function writeBacklog(): { dir: string; sets: number } {
+  const { dir, config } = workspace();
   const sets = Math.ceil(BACKLOG_FILES / 4);
   for (let i = 0; i < sets; i++) for (const f of setFiles(`backlog-${String(i).padStart(5, '0')}`, 50_000 + i)) writeFileSync(join(config.folders.inbox, f.name), f.content);
+  return { dir, sets };
+}
+
+/** Processes the backlog in `dir` (written by writeBacklog, in another process unless run alone) and reports peak RSS. */
+async function backlog(dirArg: string | undefined): Promise<void> {
+  const written = dirArg === undefined ? writeBacklog() : { dir: dirArg, sets: Math.ceil(BACKLOG_FILES / 4) };
+  const { config } = workspace(written.dir);
+  const sets = written.sets;
   (globalThis as { gc?: () => void }).gc?.();
   const rssBefore = process.memoryUsage().rss;
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger: createLogger(config.logging, config.logFile) });
@@ -275,13 +285,16 @@ async function backlog(): Promise<void> {
   emit({ scenario: 'backlog', files: sets * 4, sets, wallMs, setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)), peakRssMbSampled: Math.round(peakRss / 1e6), maxRssMbProcess: Math.round(maxRssBytes / 1e6), rssBeforeMb: Math.round(rssBefore / 1e6), ledgerBytes: readFileSync(join(config.folders.state, 'ledger.sqlite')).length });
 }
 
-// The backlog runs in a child process of its own so its peak RSS is not the earlier phases'.
+// The backlog runs in a child process of its own so its peak RSS is neither the earlier phases' nor
+// that of generating the 10,000 files (written here, before the child starts).
 if (args.includes('--backlog-only')) {
-  await backlog();
+  const i = args.indexOf('--backlog-dir');
+  await backlog(i >= 0 ? args[i + 1] : undefined);
 } else {
   await throughputAndLatency();
   if (!args.includes('--skip-backlog')) {
-    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES)], { stdio: 'inherit' });
+    const { dir } = writeBacklog();
+    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES), '--backlog-dir', dir], { stdio: 'inherit' });
     if (child.status !== 0) process.exitCode = 1;
   }
 }
