@@ -2,7 +2,8 @@
 // sets of emission + absorbance + decay + IRF through the embedded default (watcher, in-process
 // worker-thread pool, SQLite ledger); bare analyze() throughput for the ratio; and a 10,000-file
 // backlog present at start-up with peak RSS. Run: `npm run build && node dist/bench/pipeline.js`
-// (options: --sets N, --backlog-files N, --skip-backlog, --backlog-only [--backlog-dir DIR]).
+// (options: --sets N, --backlog-files N, --skip-backlog, --skip-tcspc, --keep-workspaces,
+// --backlog-only [--backlog-dir DIR]). Workspaces are removed after each scenario unless kept.
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -63,20 +64,34 @@ function emit(record: Record<string, unknown>): void {
   process.stdout.write(`${JSON.stringify({ bench: 'pipeline', ...record })}\n`);
 }
 
-/** Four files of one set (emission, absorbance, decay without IRF, separate IRF), 256 channels. */
-function setFiles(sampleId: string, seed: number): { name: string; content: string }[] {
+/** Decay shapes of the burst scenarios: the main one (256 channels of 100 ps, 5·10^4 photons) and a TCSPC-typical one (4096 channels of 6.25 ps over the same 25.6 ns, 2·10^5 photons). */
+const DECAY_SHAPES = {
+  small: { channels: 256, channelWidthNs: 0.1, photons: 50_000 },
+  tcspc: { channels: 4096, channelWidthNs: 0.00625, photons: 200_000 },
+} as const;
+type DecayShape = keyof typeof DECAY_SHAPES;
+/** Sets in the TCSPC-typical burst (its fits are several times dearer). */
+const TCSPC_SETS = 300;
+
+/** Four files of one set (emission, absorbance, decay without IRF, separate IRF). */
+function setFiles(sampleId: string, seed: number, shape: DecayShape = 'small'): { name: string; content: string }[] {
   const random = seededRandom(seed);
   const a = 0.03 + (seed % 10) * 0.001;
   const meta = { sampleId, acquiredAt: '2026-03-14T10:00:00Z' };
   const em = emissionSpectrum({ peakNm: 540, widthNm: 40, integral: emissionIntegralFor(0.5, a, 1.3618), stepNm: 2 }, { ...meta, excitationNm: 480, solvent: 'ethanol' }, random);
   const abs = absorbanceSpectrum({ bandPeakNm: 515, bandWidthNm: 55, excitationNm: 480, absorbanceAtExcitation: a, fromNm: 400, toNm: 740 }, meta, random);
-  const decay = decayHistogram({ tauNs: [2 + (seed % 7) * 0.3], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, meta, random);
+  const decay = decayHistogram({ tauNs: [2 + (seed % 7) * 0.3], ...DECAY_SHAPES[shape] }, meta, random);
   return [
     { name: `${sampleId}_em.csv`, content: writeSpectrumCsv(em) },
     { name: `${sampleId}_abs.csv`, content: writeSpectrumCsv(abs) },
     { name: `${sampleId}_decay.csv`, content: writeDecayCsv(withoutIrf(decay)) },
     { name: `${sampleId}_irf.csv`, content: writeDecayCsv(irfAsDecay(decay, { acquiredAt: new Date(Date.parse(meta.acquiredAt) - (seed % 3600) * 1000).toISOString() })) },
   ];
+}
+
+/** Removes a bench workspace (results, archive, ledger) unless --keep-workspaces was given. */
+function removeWorkspace(dir: string): void {
+  if (!args.includes('--keep-workspaces')) rmSync(dir, { recursive: true, force: true });
 }
 
 /** A bench workspace (new, or the existing folder `existing`) and its config. */
@@ -126,11 +141,15 @@ function latencies(pipeline: Pipeline, prefix: string): number[] {
 
 const quantile = (sorted: readonly number[], q: number): number => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? Number.NaN;
 
-async function throughputAndLatency(): Promise<void> {
-  // Phase 1: a burst of SETS sets (throughput).
+/**
+ * One burst of `sets` sets with decays of `shape` (throughput), then its baselines: bare analyze()
+ * on one thread and the same payloads through the worker pool alone; with `floor`, the file-work
+ * floor too. Returns the pipeline's sets per second and the files it used.
+ */
+async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolean): Promise<{ setsPerS: number; files: { name: string; content: string }[][] }> {
   const burst = workspace();
   const logger = createLogger(burst.config.logging, burst.config.logFile);
-  const files = Array.from({ length: SETS }, (_u, i) => setFiles(`bench-${String(i).padStart(5, '0')}`, i + 1));
+  const files = Array.from({ length: sets }, (_u, i) => setFiles(`bench-${String(i).padStart(5, '0')}`, i + 1, shape));
   const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
   const stop = await startWatching(pipeline);
   const t0 = Date.now();
@@ -138,14 +157,15 @@ async function throughputAndLatency(): Promise<void> {
   // After the writes (this process writes the files; that is not the pipeline's cost). The writes
   // block the event loop, so the watcher has not reported anything yet.
   const cpu0 = cpuNow();
-  await waitForDone(pipeline, SETS);
+  await waitForDone(pipeline, sets);
   const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files').get() as { t: string }).t);
   const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets').get() as { t: string }).t);
-  const pipelineSetsPerS = SETS / ((lastDone - firstSeen) / 1000);
+  const pipelineSetsPerS = sets / ((lastDone - firstSeen) / 1000);
   const cpu = cpuSince(cpu0);
+  const decay = { decayChannels: DECAY_SHAPES[shape].channels };
   emit({
-    scenario: 'burst', sets: SETS, files: SETS * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
-    processCpuMsPerSet: Number((cpu.processMs / SETS).toFixed(2)), mainThreadCpuMsPerSet: cpu.mainThreadMs === undefined ? null : Number((cpu.mainThreadMs / SETS).toFixed(2)),
+    scenario: 'burst', ...decay, sets, files: sets * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
+    processCpuMsPerSet: Number((cpu.processMs / sets).toFixed(2)), mainThreadCpuMsPerSet: cpu.mainThreadMs === undefined ? null : Number((cpu.mainThreadMs / sets).toFixed(2)),
   });
 
   // Bare analyze(): the same payloads, one thread, no I/O; JIT warmed first, then BARE_ROUNDS rounds
@@ -173,22 +193,34 @@ async function throughputAndLatency(): Promise<void> {
   const poolCpuMsPerSet = cpuSince(poolCpu0).processMs / (2 * measured.length);
   await pool.close();
   emit({
-    scenario: 'bare-analyze', sets: measured.length, rounds: rounds.map((r) => Number(r.toFixed(1))),
+    scenario: 'bare-analyze', ...decay, sets: measured.length, rounds: rounds.map((r) => Number(r.toFixed(1))),
     setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
     poolThreads: burst.config.queue.concurrency, setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)), ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
     poolCpuMsPerSet: Number(poolCpuMsPerSet.toFixed(2)),
   });
-  // The file work the pipeline must do per set, alone: what no coordinator design can avoid.
-  const floor = await ioFloor(files.slice(0, 500), payloads[0] === undefined ? [] : analyze(payloads[0]).artifacts.map((a) => a.content));
-  const cores = availableParallelism();
-  const ceilingSetsPerS = (cores * 1000) / (poolCpuMsPerSet + floor.cpuMsPerSet);
-  emit({
-    scenario: 'io-floor', sets: floor.sets, cpuMsPerSet: Number(floor.cpuMsPerSet.toFixed(2)), wallMsPerSet: Number(floor.wallMsPerSet.toFixed(2)), cores,
-    ceilingSetsPerS: Number(ceilingSetsPerS.toFixed(1)), ceilingRatioToOneThread: Number((ceilingSetsPerS / bareSetsPerS).toFixed(3)),
-  });
+  if (floor) {
+    // The file work the pipeline must do per set, alone: what no coordinator design can avoid.
+    const work = await ioFloor(files.slice(0, 500), payloads[0] === undefined ? [] : analyze(payloads[0]).artifacts.map((a) => a.content));
+    const cores = availableParallelism();
+    const ceilingSetsPerS = (cores * 1000) / (poolCpuMsPerSet + work.cpuMsPerSet);
+    emit({
+      scenario: 'io-floor', ...decay, sets: work.sets, cpuMsPerSet: Number(work.cpuMsPerSet.toFixed(2)), wallMsPerSet: Number(work.wallMsPerSet.toFixed(2)), cores,
+      ceilingSetsPerS: Number(ceilingSetsPerS.toFixed(1)), ceilingRatioToOneThread: Number((ceilingSetsPerS / bareSetsPerS).toFixed(3)),
+    });
+  }
   await stop();
   await pipeline.coordinator.drain();
   await pipeline.close();
+  removeWorkspace(burst.dir);
+  return { setsPerS: pipelineSetsPerS, files };
+}
+
+async function throughputAndLatency(): Promise<void> {
+  // Phase 1: the burst of SETS sets (the issue's throughput figure), then a TCSPC-typical burst.
+  const main = await burstWithBaselines('small', SETS, true);
+  if (!args.includes('--skip-tcspc')) await burstWithBaselines('tcspc', Math.min(SETS, TCSPC_SETS), false);
+  const pipelineSetsPerS = main.setsPerS;
+  const files = main.files;
 
   // Phase 2: steady arrivals at 60 % of the measured throughput (latency). WARMUP_SETS sets go first
   // and are waited for (worker threads loading the analysis modules); they are reported apart as the
@@ -217,6 +249,7 @@ async function throughputAndLatency(): Promise<void> {
   await stopSteady();
   await steadyPipeline.coordinator.drain();
   await steadyPipeline.close();
+  removeWorkspace(steady.dir);
 }
 
 /**
@@ -282,7 +315,8 @@ async function backlog(dirArg: string | undefined): Promise<void> {
   await pipeline.coordinator.drain();
   await pipeline.close();
   const maxRssBytes = process.resourceUsage().maxRSS * 1024;
-  emit({ scenario: 'backlog', files: sets * 4, sets, wallMs, setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)), peakRssMbSampled: Math.round(peakRss / 1e6), maxRssMbProcess: Math.round(maxRssBytes / 1e6), rssBeforeMb: Math.round(rssBefore / 1e6), ledgerBytes: readFileSync(join(config.folders.state, 'ledger.sqlite')).length });
+  emit({ scenario: 'backlog', files: sets * 4, sets, wallMs, setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)), peakRssMbSampled: Math.round(peakRss / 1e6), maxRssMbProcess: Math.round(maxRssBytes / 1e6), rssBeforeMb: Math.round(rssBefore / 1e6), ledgerBytes: statSync(join(config.folders.state, 'ledger.sqlite')).size });
+  removeWorkspace(written.dir);
 }
 
 // The backlog runs in a child process of its own so its peak RSS is neither the earlier phases' nor
@@ -294,7 +328,8 @@ if (args.includes('--backlog-only')) {
   await throughputAndLatency();
   if (!args.includes('--skip-backlog')) {
     const { dir } = writeBacklog();
-    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES), '--backlog-dir', dir], { stdio: 'inherit' });
+    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES), '--backlog-dir', dir, ...args.filter((a) => a === '--keep-workspaces')], { stdio: 'inherit' });
     if (child.status !== 0) process.exitCode = 1;
+    removeWorkspace(dir);
   }
 }
