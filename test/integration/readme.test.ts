@@ -1,11 +1,11 @@
 // The README cannot drift: its example commands run against the real CLI, its three-line config
 // validates, and its exit-code table matches the one the CLI prints.
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { EXIT_CODES } from '../../src/cli/exit-codes.js';
 import { REPO_ROOT, runDriftlight } from '../helpers/cli.js';
+import { tempDir } from '../helpers/temp-dir.js';
 
 const readme = readFileSync(join(REPO_ROOT, 'README.md'), 'utf8');
 
@@ -42,7 +42,7 @@ describe('README', () => {
   it('the three-line config passes `config check`', () => {
     const config = blockAfter('A config of three lines works', 'yaml');
     expect(config.trim().split('\n')).toHaveLength(3);
-    const folder = mkdtempSync(join(tmpdir(), 'driftlight-readme-'));
+    const folder = tempDir('driftlight-readme-');
     const file = join(folder, 'driftlight.yaml');
     writeFileSync(file, config.replace('/data/fluorometer-exports', join(folder, 'inbox')));
     const run = runDriftlight(['config', 'check', '--config', file]);

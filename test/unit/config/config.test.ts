@@ -1,14 +1,14 @@
 // Config: defaults, a three-line config, error messages naming the path, folder resolution, and the
 // documented option table matching the schema (docs/configuration.md cannot drift).
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { ConfigInvalid } from '../../../src/model/errors.js';
 import { configOptionRows, configOptionsMarkdown, loadConfig, resolveConfig } from '../../../src/config/index.js';
+import { tempDir } from '../../helpers/temp-dir.js';
 
 function tempConfig(text: string): string {
-  const dir = mkdtempSync(join(tmpdir(), 'dl-config-'));
+  const dir = tempDir('dl-config-');
   const file = join(dir, 'driftlight.yaml');
   writeFileSync(file, text);
   return file;

@@ -1,13 +1,13 @@
 // The config's queue section: defaults taken from QUEUE_DEFAULTS (one source), runWorker's
 // backend-dependent default, and `--redis URL` selecting bullmq over the config file.
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { configFromOptions } from '../../../src/cli/config-option.js';
 import { resolveConfig } from '../../../src/config/index.js';
 import { coordinatorRunsWorker } from '../../../src/config/sections/queue.js';
 import { QUEUE_DEFAULTS } from '../../../src/queue/index.js';
+import { tempDir } from '../../helpers/temp-dir.js';
 
 describe('config queue section', () => {
   it('fills its defaults from QUEUE_DEFAULTS', () => {
@@ -25,7 +25,7 @@ describe('config queue section', () => {
   });
 
   it('--redis URL selects bullmq at that URL over the config file and keeps its other queue options', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'dl-config-'));
+    const dir = tempDir('dl-config-');
     const file = join(dir, 'driftlight.yaml');
     writeFileSync(file, 'queue: { backend: in-process, redisUrl: redis://elsewhere:6379, prefix: lab2, runWorker: false }\n');
     const config = configFromOptions({ config: file, redis: 'redis://queue-host:6380' });

@@ -1,13 +1,13 @@
 // Durable outputs on real files: atomic writes leave no temp files, quarantine writes NAME.error.json.
-import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { fsyncDirectoryAsync, moveFile, quarantineFile, uniqueTarget, writeFileAtomic, writeFileAtomicAsync } from '../../../src/output/index.js';
+import { tempDir } from '../../helpers/temp-dir.js';
 
 describe('output', () => {
   it('writes atomically, replacing the target, with no temp file left', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'dl-out-'));
+    const dir = tempDir('dl-out-');
     const path = join(dir, 'deep', 'r.json');
     writeFileAtomic(path, 'one');
     writeFileAtomic(path, 'two');
@@ -16,7 +16,7 @@ describe('output', () => {
   });
 
   it('creates a missing folder only when a write or move needs it, and reports a vanished source', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'dl-out-'));
+    const dir = tempDir('dl-out-');
     const result = join(dir, 'results', '2026-03-14', 'set-a.json');
     await writeFileAtomicAsync(result, '{"a":1}\n', { syncFolder: false });
     await fsyncDirectoryAsync(join(dir, 'results', '2026-03-14'));
@@ -32,7 +32,7 @@ describe('output', () => {
   });
 
   it('quarantines a file with its reason and never overwrites an earlier one', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'dl-out-'));
+    const dir = tempDir('dl-out-');
     const now = new Date('2026-03-14T10:00:00Z');
     for (let i = 0; i < 2; i++) {
       const input = join(dir, 'bad.csv');

@@ -1,18 +1,16 @@
 // The ledger on real SQLite: WAL mode, migrations applied once and extensible, file/set states, status.
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import {
   applyMigrations, DECAY_IRF_CANDIDATES_SQL, filesAwaitingMoveSql, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone,
   markSetQueued, MIGRATIONS, openLedger, PAIRING_CANDIDATES_SQL, RECENT_REFERENCE_SETS_SQL, setFileState, setsInState,
 } from '../../../src/store/index.js';
+import { tempDir } from '../../helpers/temp-dir.js';
 
 const now = new Date('2026-03-14T10:00:00Z');
 
 describe('ledger', () => {
   it('opens in WAL mode and applies each migration once, including appended ones', () => {
-    const dir = mkdtempSync(join(tmpdir(), 'dl-ledger-'));
+    const dir = tempDir('dl-ledger-');
     const extra = { id: '9001-test-extra', up: (db: import('better-sqlite3').Database) => db.exec('CREATE TABLE extra_test (id INTEGER)') };
     const ledger = openLedger(dir, { migrations: [...MIGRATIONS, extra] });
     expect(ledger.database.pragma('journal_mode', { simple: true })).toBe('wal');
@@ -25,7 +23,7 @@ describe('ledger', () => {
   });
 
   it('records files and sets through their states and reports status', () => {
-    const ledger = openLedger(mkdtempSync(join(tmpdir(), 'dl-ledger-')));
+    const ledger = openLedger(tempDir('dl-ledger-'));
     const file = ledger.transaction(() => insertFile(ledger, { sha256: 'a'.repeat(64), path: '/in/x.csv', name: 'x.csv', sizeBytes: 10 }, now));
     expect(file.state).toBe('seen');
     insertSet(ledger, { id: 'x-aaaa', sampleId: 'x', role: 'sample', source: 'pattern', createdAt: now, deadlineAt: now });
@@ -45,7 +43,7 @@ describe('ledger', () => {
 
   it('answers the queries run at every dispatch and start from an index, newest first, without sorting the ledger', () => {
     // Query plans, not timings: a plan that scans the table or sorts it would grow with months of data.
-    const ledger = openLedger(mkdtempSync(join(tmpdir(), 'dl-ledger-')));
+    const ledger = openLedger(tempDir('dl-ledger-'));
     const plan = (sql: string, ...args: unknown[]): string =>
       (ledger.database.prepare(`EXPLAIN QUERY PLAN ${sql}`).all(...args) as { detail: string }[]).map((r) => r.detail).join('; ');
     expect(plan(PAIRING_CANDIDATES_SQL, 'blank', 200)).toMatch(/^SEARCH files USING INDEX files_part_seen \(part=\?\)$/);
