@@ -45,7 +45,10 @@ export async function runReprocess(options: { config?: string; since: string }, 
       stdout.write(changes.length === 0 ? `${setId}: unchanged\n` : `${setId}: ${changes.map((c) => `${c.field} ${c.before} → ${c.after}`).join('; ')}\n`);
     });
     const stamp = Date.now().toString(36);
-    for (const set of sets) await coordinator.enqueue(set.id, `${set.id}~r${stamp}`);
+    for (const set of sets) {
+      const notRun = await coordinator.enqueue(set.id, `${set.id}~r${stamp}`);
+      if (notRun !== undefined) stdout.write(`${set.id}: not re-run (INPUT_MISSING: ${notRun}); its earlier result stands\n`);
+    }
     await coordinator.drain();
     stdout.write(`driftlight reprocess: ${sets.length} sets since ${since.toISOString()}, ${changed} changed\n`);
     return changed;

@@ -27,6 +27,7 @@ export const ERROR_CODES = {
   EXCITATION_MISMATCH: { kind: 'input', hint: 'Measure the blank at the same excitation wavelength as the sample, or widen the tolerance in the options.' },
   MANIFEST_INVALID: { kind: 'input', hint: 'Fix the set manifest (NAME.set.yaml); docs/pipeline.md describes its fields.' },
   DUPLICATE_INPUT: { kind: 'input', hint: 'This content was already processed; run `driftlight reprocess` to analyse it again.' },
+  INPUT_MISSING: { kind: 'input', hint: 'An input of the set was moved or deleted before it was analysed; put it back in the inbox under a new name, or re-export it.' },
   SET_FAILED: { kind: 'input', hint: 'The measurement set could not be analysed; see the message, fix the inputs and drop them in again.' },
   // Configuration (class ConfigInvalid: fix the config, then restart)
   CONFIG_INVALID: { kind: 'config', hint: 'Fix the named config path; `driftlight config check` validates a file.' },

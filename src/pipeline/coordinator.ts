@@ -5,6 +5,7 @@ import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { basename, dirname } from 'node:path';
 import type { Logger } from 'pino';
+import { InputRejected } from '../model/errors.js';
 import type { MeasurementRole } from '../model/spectrum.js';
 import type { AnalysisJobPayload, AnalysisOutput, PayloadFile } from '../analysis/payload.js';
 import type { SetPart } from '../analysis/result.js';
@@ -361,16 +362,37 @@ export class Coordinator {
     }
   }
 
-  /** Builds the payload of a set from the ledger and enqueues it (also used by recovery and reprocess). */
-  async enqueue(setId: string, jobId: string = setId): Promise<void> {
-    const payload = buildPayload({
-      ledger: this.ledger, config: this.config, configHash: this.hash, softwareVersion: this.softwareVersion, rules: this.rules,
-      ...(this.detectorCurve === undefined ? {} : { detectorCurve: this.detectorCurve }), now: this.clock(),
-      contentOf: (file) => this.contents.take(file.id),
-    }, setId);
+  /**
+   * Builds the payload of a set from the ledger and enqueues it (also used by recovery and reprocess).
+   * When an input is gone (INPUT_MISSING) a set's first run fails with that reason and its remaining
+   * files are quarantined, instead of stopping the pipeline; a re-run (`jobId` ≠ `setId`) leaves the
+   * set as it was. Returns undefined when enqueued, else why not.
+   */
+  async enqueue(setId: string, jobId: string = setId): Promise<string | undefined> {
+    let payload: AnalysisJobPayload;
+    try {
+      payload = buildPayload({
+        ledger: this.ledger, config: this.config, configHash: this.hash, softwareVersion: this.softwareVersion, rules: this.rules,
+        ...(this.detectorCurve === undefined ? {} : { detectorCurve: this.detectorCurve }), now: this.clock(),
+        contentOf: (file) => this.contents.take(file.id),
+      }, setId);
+    } catch (error) {
+      if (!(error instanceof InputRejected) || error.code !== 'INPUT_MISSING') throw error;
+      const log = this.logger.child({ setId });
+      if (jobId !== setId) {
+        log.warn({ code: error.code, message: error.message }, 'set not re-run: an input is missing');
+        return error.message;
+      }
+      commitFailure(this.ledger, this.config, setId, { code: error.code, message: error.message, hint: error.hint }, this.clock());
+      this.counts.setsFailed += 1;
+      log.error({ code: error.code, message: error.message }, 'set failed: an input is missing; its other files are quarantined');
+      this.notify(setId, undefined);
+      return error.message;
+    }
     this.inFlight.add(jobId);
     this.counts.setsDispatched += 1;
     await this.queue.enqueue(jobId, payload);
+    return undefined;
   }
 
   /**

@@ -1,6 +1,7 @@
 // Turning a ready set into a job: choose pairings for missing parts (most recent valid IRF, blank,
 // absorbance, reference standard within their windows) and build the self-contained payload.
 import { readFileSync } from 'node:fs';
+import { InputRejected } from '../model/errors.js';
 import type { MeasurementRole } from '../model/spectrum.js';
 import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
 import type { SetPart } from '../analysis/result.js';
@@ -112,6 +113,17 @@ export function decodeText(bytes: Uint8Array): string {
   }
 }
 
+/** The text of a recorded input where it is now; INPUT_MISSING when it is no longer there (moved or deleted by hand). */
+function readInput(file: FileRecord): string {
+  const location = currentLocation(file);
+  try {
+    return readText(location);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error;
+    throw new InputRejected('INPUT_MISSING', `${file.name} is no longer at ${location}`, { file: file.name });
+  }
+}
+
 /** Where a file is now: its archive copy once moved, else where it was seen. */
 export function currentLocation(file: FileRecord): string {
   return file.archivePath ?? file.quarantinePath ?? file.path;
@@ -139,7 +151,7 @@ export interface PayloadContext {
   readonly contentOf?: (file: FileRecord) => Uint8Array | undefined;
 }
 
-/** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts). */
+/** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts); throws InputRejected INPUT_MISSING when an input is gone. */
 export function buildPayload(context: PayloadContext, setId: string): AnalysisJobPayload {
   const { ledger, config } = context;
   const set = getSet(ledger, setId);
@@ -150,7 +162,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   for (const file of own) {
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
     const held = context.contentOf?.(file);
-    const content = held === undefined ? readText(currentLocation(file)) : decodeText(held);
+    const content = held === undefined ? readInput(file) : decodeText(held);
     files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content });
   }
   let referenceSetId: string | undefined;
@@ -160,7 +172,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     if (pairing.part === 'reference-emission') referenceSetId = pairing.fromSetId ?? undefined;
     files.push({
       name: file.name, sha256: file.sha256, part: pairing.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'paired',
-      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readText(currentLocation(file)),
+      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readInput(file),
     });
   }
   if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve')) files.push(context.detectorCurve);

@@ -14,13 +14,13 @@ const opened: { pipeline: Pipeline; dir: string }[] = [];
 afterEach(async () => {
   for (const { pipeline, dir } of opened.splice(0)) {
     await pipeline.close();
-    rmSync(dir, { recursive: true, force: true });
+    if (dir !== '') rmSync(dir, { recursive: true, force: true });
   }
 });
 
-/** A pipeline on a temp workspace; dispatch held (batch mode) so a test decides when sets go out. */
-function start(): { pipeline: Pipeline; inbox: string; dir: string } {
-  const dir = mkdtempSync(join(tmpdir(), 'dl-coord-'));
+/** A pipeline on a temp workspace (or on `existing` again); dispatch held (batch mode) so a test decides when sets go out. */
+function start(existing?: string): { pipeline: Pipeline; inbox: string; dir: string } {
+  const dir = existing ?? mkdtempSync(join(tmpdir(), 'dl-coord-'));
   const config = resolveConfig({
     assembly: { setTimeoutMs: 600_000 },
     queue: { concurrency: 2 },
@@ -28,7 +28,7 @@ function start(): { pipeline: Pipeline; inbox: string; dir: string } {
   }, { baseDir: dir });
   const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }) });
   pipeline.coordinator.holdDispatch = true;
-  opened.push({ pipeline, dir });
+  opened.push({ pipeline, dir: existing === undefined ? dir : '' });
   mkdirSync(config.folders.inbox, { recursive: true });
   return { pipeline, inbox: config.folders.inbox, dir };
 }
@@ -97,5 +97,29 @@ describe('coordinator batches', () => {
     expect(states).toEqual([{ state: 'done', n: 12 }]);
     const unarchived = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
     expect(unarchived.n).toBe(0);
+  });
+
+  it('fails a set whose input vanished before dispatch with INPUT_MISSING and quarantines the rest, without stopping', async () => {
+    const first = start();
+    const set = generateSet('gone-01', 13);
+    const paths = drop(first.inbox, set.files);
+    await first.pipeline.coordinator.intakeMany(paths);
+    await first.pipeline.close();
+    opened.splice(0, 1, { pipeline: first.pipeline, dir: first.dir });
+    // Someone tidies the inbox while driftlight is down; the restart has no cached bytes.
+    rmSync(paths[1] ?? '');
+    const again = start(first.dir);
+    const failed: string[] = [];
+    again.pipeline.coordinator.onCommitted((id, path) => { if (path === undefined) failed.push(id); });
+    await again.pipeline.coordinator.recover();
+    await again.pipeline.coordinator.tick(true);
+    await again.pipeline.coordinator.drain();
+    expect(failed).toHaveLength(1);
+    const row = again.pipeline.ledger.database.prepare(`SELECT state, error_code AS code, error_message AS message FROM sets`).get() as { state: string; code: string; message: string };
+    expect(row).toMatchObject({ state: 'failed', code: 'INPUT_MISSING' });
+    expect(row.message).toContain(set.files[1]?.name);
+    expect(filesUnder(first.inbox)).toEqual([]);
+    const quarantined = filesUnder(join(first.dir, 'quarantine'));
+    expect(quarantined).toEqual(expect.arrayContaining([set.files[0]?.name, set.files[2]?.name]));
   });
 });
