@@ -1,6 +1,6 @@
 // Committing finished jobs, in the order that makes a crash at any moment recoverable:
 // result JSONs (atomic, fsynced) → outbox files → ledger transaction (sets done, results index,
-// files done) → archive moves (recorded). Jobs finishing together are committed as one batch.
+// files done; durable: the WAL is fsynced before any file moves) → archive moves (recorded). Jobs finishing together are committed as one batch.
 // A failed set's files go to quarantine with the reason, and so do own files the worker's readers
 // rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
@@ -66,7 +66,7 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
       outcomes.set(setId, { ok: false, setId, error });
     }
   }
-  ledger.transaction(() => {
+  ledger.durableTransaction(() => {
     for (const { item: { result }, path, sha256, rejected } of committed) {
       markSetDone(ledger, result.setId, path, result.partial, now);
       upsertResult(ledger, {
@@ -129,7 +129,7 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
   const first = rejected[0];
   if (first === undefined || rejected.length < own.length) return 0;
   const names = rejected.map((r) => r.file.name).join(', ');
-  ledger.transaction(() => {
+  ledger.durableTransaction(() => {
     markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
     for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
@@ -142,7 +142,7 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
 
 /** Records a set as failed and quarantines its own files with the failure. */
 export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): void {
-  ledger.transaction(() => {
+  ledger.durableTransaction(() => {
     markSetFailed(ledger, setId, failure, now);
     for (const file of filesOfSet(ledger, setId)) {
       if (file.state !== 'rejected') setFileError(ledger, file.id, 'failed', failure, now);

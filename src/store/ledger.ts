@@ -14,6 +14,12 @@ export interface Ledger {
   prepare(sql: string): Statement;
   /** Runs `work` in one transaction (all or nothing). */
   transaction<T>(work: () => T): T;
+  /**
+   * Like transaction(), and the commit is on disk when it returns (synchronous = FULL for this one
+   * commit: the WAL is fsynced). For the commits that irreversible file moves follow, so a power
+   * cut cannot leave the files moved and the ledger without the state that moved them.
+   */
+  durableTransaction<T>(work: () => T): T;
   close(): void;
 }
 
@@ -40,6 +46,14 @@ export function openLedger(stateDir: string, options: { migrations?: readonly Mi
     },
     transaction<T>(work: () => T): T {
       return database.transaction(work)();
+    },
+    durableTransaction<T>(work: () => T): T {
+      database.pragma('synchronous = FULL');
+      try {
+        return database.transaction(work)();
+      } finally {
+        database.pragma('synchronous = NORMAL');
+      }
     },
     close() {
       database.close();

@@ -52,4 +52,20 @@ describe('ledger', () => {
     expect(plan(filesAwaitingMoveSql(1), 'done')).toMatch(/^SEARCH files USING INDEX files_unplaced \(state=\?\)$/);
     ledger.close();
   });
+
+  it('commits a durable transaction with the WAL synced (synchronous FULL) and returns to NORMAL after it', () => {
+    const ledger = openLedger(tempDir('dl-ledger-'));
+    // SQLite: synchronous 1 = NORMAL, 2 = FULL (sqlite.org/pragma.html#pragma_synchronous).
+    expect(ledger.database.pragma('synchronous', { simple: true })).toBe(1);
+    const inside = ledger.durableTransaction(() => {
+      insertSet(ledger, { id: 'd-aaaa', sampleId: 'd', role: 'sample', source: 'pattern', createdAt: now, deadlineAt: now });
+      return ledger.database.pragma('synchronous', { simple: true });
+    });
+    expect(inside).toBe(2);
+    expect(ledger.database.pragma('synchronous', { simple: true })).toBe(1);
+    expect(getSet(ledger, 'd-aaaa')?.state).toBe('open');
+    expect(() => ledger.durableTransaction(() => { throw new Error('rolled back'); })).toThrow('rolled back');
+    expect(ledger.database.pragma('synchronous', { simple: true })).toBe(1);
+    ledger.close();
+  });
 });
