@@ -1,6 +1,7 @@
 // Committing finished jobs, in the order that makes a crash at any moment recoverable:
 // result JSONs (atomic, fsynced) → outbox files → ledger transaction (sets done, results index,
-// files done; durable: the WAL is fsynced before any file moves) → archive moves (recorded). Jobs finishing together are committed as one batch.
+// files done; durable: the WAL is fsynced before any file moves) → archive moves (recorded).
+// Jobs finishing together are committed as one batch.
 // A failed set's files go to quarantine with the reason, and so do own files the worker's readers
 // rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
@@ -14,17 +15,18 @@ import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
 import { filesOfSet, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
 import { upsertResult } from '../store/results.js';
-import { getSet, markSetDone, markSetFailed } from '../store/sets.js';
+import { markSetDone, markSetFailed } from '../store/sets.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
 import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
 import { rejectFile } from './intake.js';
 
-/** One finished set to commit: the worker's output and the result after the result stages. */
+/** One finished set to commit: the worker's output, the result after the result stages, and when the set was created (it names the day folders). */
 export interface CommitItem {
   readonly output: AnalysisOutput;
   readonly result: AnalysisResult;
+  readonly setCreatedAt: Date;
 }
 
 /** What became of one item of a batch commit: its result path and rejected-file count, or the error that left it queued. */
@@ -44,11 +46,8 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   const written = await Promise.all(items.map(async (item) => {
     const setId = item.result.setId;
     try {
-      const set = getSet(ledger, setId);
-      if (set === undefined) throw new Error(`ledger: set ${setId} does not exist`);
-      const createdAt = new Date(set.createdAt);
-      const file = await writeResult(config.folders.results, item.result, createdAt, { syncFolder: false });
-      return { item, createdAt, file };
+      const file = await writeResult(config.folders.results, item.result, item.setCreatedAt, { syncFolder: false });
+      return { item, file };
     } catch (error) {
       outcomes.set(setId, { ok: false, setId, error });
       return undefined;
@@ -57,49 +56,57 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   const durable = written.filter((w) => w !== undefined);
   await Promise.all([...new Set(durable.map((w) => dirname(w.file.path)))].map((dir) => fsyncDirectoryAsync(dir)));
   const committed: { item: CommitItem; path: string; sha256: string; rejected: { file: FileRecord; reason: RejectedInput }[] }[] = [];
-  for (const { item, createdAt, file } of durable) {
+  for (const { item, file } of durable) {
     const setId = item.result.setId;
     try {
-      writeOutbox(config.folders.outbox, setId, createdAt, item.output.artifacts);
-      committed.push({ item, path: file.path, sha256: file.sha256, rejected: rejectedOwnFiles(ledger, setId, item.output.rejectedInputs ?? []) });
+      writeOutbox(config.folders.outbox, setId, item.setCreatedAt, item.output.artifacts);
+      const rejectedInputs = item.output.rejectedInputs ?? [];
+      const rejected = rejectedInputs.length === 0 ? [] : rejectedOwnFiles(filesOfSet(ledger, setId), rejectedInputs);
+      committed.push({ item, path: file.path, sha256: file.sha256, rejected });
     } catch (error) {
       outcomes.set(setId, { ok: false, setId, error });
     }
   }
-  ledger.durableTransaction(() => {
-    for (const { item: { result }, path, sha256, rejected } of committed) {
-      markSetDone(ledger, result.setId, path, result.partial, now);
-      upsertResult(ledger, {
-        setId: result.setId, path, sampleId: result.sampleId, role: result.role,
-        acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
-        tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
-        krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
-        resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
-      });
-      setFilesOfSetState(ledger, result.setId, 'done', now);
-      for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
-    }
-  });
-  await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+  if (committed.length > 0) {
+    ledger.durableTransaction(() => {
+      for (const { item: { result }, path, sha256, rejected } of committed) {
+        markSetDone(ledger, result.setId, path, result.partial, now);
+        upsertResult(ledger, {
+          setId: result.setId, path, sampleId: result.sampleId, role: result.role,
+          acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
+          tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
+          krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
+          resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
+        });
+        setFilesOfSetState(ledger, result.setId, 'done', now);
+        for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
+      }
+    });
+    await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+  }
   for (const { item: { result }, path, rejected } of committed) {
-    for (const { file, reason } of rejected) {
-      const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
-      rejectFile(ledger, config, file, error, now, 'rejected', result.setId);
-    }
+    quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now);
     outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length });
   }
   return items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') });
 }
 
-/** The set's own files (still in the inbox) that the worker's readers rejected, each with its reason. */
-function rejectedOwnFiles(ledger: Ledger, setId: string, rejectedInputs: readonly RejectedInput[]): { file: FileRecord; reason: RejectedInput }[] {
-  if (rejectedInputs.length === 0) return [];
+/** Among a set's own files (`files`), those still in the inbox that the worker's readers rejected, each with its reason. */
+function rejectedOwnFiles(files: readonly FileRecord[], rejectedInputs: readonly RejectedInput[]): { file: FileRecord; reason: RejectedInput }[] {
   const out: { file: FileRecord; reason: RejectedInput }[] = [];
-  for (const file of filesOfSet(ledger, setId)) {
+  for (const file of files) {
     const reason = rejectedInputs.find((r) => r.sha256 === file.sha256 && r.name === file.name);
     if (reason !== undefined && file.archivePath === null && file.quarantinePath === null) out.push({ file, reason });
   }
   return out;
+}
+
+/** Quarantines own files of `setId` the worker's readers rejected, each with its own reason (code, line, hint). */
+function quarantineRejectedOwnFiles(ledger: Ledger, config: DriftlightConfig, setId: string, rejected: readonly { file: FileRecord; reason: RejectedInput }[], now: Date): void {
+  for (const { file, reason } of rejected) {
+    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
+    rejectFile(ledger, config, file, error, now, 'rejected', setId);
+  }
 }
 
 /** Moves every own file of the done sets `setIds` still in the inbox to archive/YYYY-MM-DD/ (idempotent), with one fsync per archive folder and one transaction recording the moves. */
@@ -124,8 +131,9 @@ export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, 
  */
 export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, setId: string, rejectedInputs: readonly RejectedInput[], now: Date): number {
   if (rejectedInputs.length === 0) return 0;
-  const own = filesOfSet(ledger, setId).filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
-  const rejected = rejectedOwnFiles(ledger, setId, rejectedInputs);
+  const files = filesOfSet(ledger, setId);
+  const own = files.filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
+  const rejected = rejectedOwnFiles(files, rejectedInputs);
   const first = rejected[0];
   if (first === undefined || rejected.length < own.length) return 0;
   const names = rejected.map((r) => r.file.name).join(', ');
@@ -133,10 +141,7 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
     markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
     for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
-  for (const { file, reason } of rejected) {
-    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
-    rejectFile(ledger, config, file, error, now, 'rejected', setId);
-  }
+  quarantineRejectedOwnFiles(ledger, config, setId, rejected, now);
   return rejected.length;
 }
 

@@ -160,11 +160,6 @@ export class Coordinator {
     if (queued.length > 0) this.logger.info({ sets: queued.length }, 'recovery: re-enqueued queued sets');
   }
 
-  /** Takes one stable file: records, reads and assembles it (bad files are quarantined). */
-  intake(path: string): Promise<void> {
-    return this.intakeMany([path]);
-  }
-
   /**
    * Takes stable files in order: each is hashed and read (bad ones quarantined), then the accepted
    * ones of a chunk are recorded and placed in their sets in one ledger transaction, and the sets
@@ -384,9 +379,8 @@ export class Coordinator {
         return error.message;
       }
       commitFailure(this.ledger, this.config, setId, { code: error.code, message: error.message, hint: error.hint }, this.clock());
-      this.counts.setsFailed += 1;
       log.error({ code: error.code, message: error.message }, 'set failed: an input is missing; its other files are quarantined');
-      this.notify(setId, undefined);
+      this.setFailed(setId);
       return error.message;
     }
     this.inFlight.add(jobId);
@@ -417,7 +411,7 @@ export class Coordinator {
       // Let outcomes that finish together (several threads, one event-loop turn) join one batch, and
       // while other jobs are still running give them COMMIT_WINDOW_MS to join it.
       await new Promise<void>((resolve) => setImmediate(resolve));
-      if (this.inFlight.size > this.commitBuffer.length && COMMIT_WINDOW_MS > 0) await new Promise<void>((resolve) => setTimeout(resolve, COMMIT_WINDOW_MS));
+      if (this.inFlight.size > this.commitBuffer.length) await new Promise<void>((resolve) => setTimeout(resolve, COMMIT_WINDOW_MS));
       while (this.commitBuffer.length > 0) {
         const batch = this.commitBuffer.splice(0, COMMIT_BATCH_MAX);
         try {
@@ -455,9 +449,8 @@ export class Coordinator {
         }
         if (outcome.status === 'failed') {
           commitFailure(this.ledger, this.config, setId, outcome.failure, now);
-          this.counts.setsFailed += 1;
           log.error({ code: outcome.failure.code, message: outcome.failure.message }, 'set failed; its files are quarantined');
-          this.notify(setId, undefined);
+          this.setFailed(setId);
           entry.resolve();
           continue;
         }
@@ -465,14 +458,13 @@ export class Coordinator {
         if (unreadable > 0) {
           this.counts.filesRejected += unreadable;
           this.counts.filesAccepted -= unreadable;
-          this.counts.setsFailed += 1;
           log.warn({ files: unreadable }, 'no file of the set could be read; the set failed and its files are quarantined');
-          this.notify(setId, undefined);
+          this.setFailed(setId);
           entry.resolve();
           continue;
         }
         const result = await applyStages(this.stages, outcome.value.result, context);
-        toCommit.push({ entry, item: { output: outcome.value, result } });
+        toCommit.push({ entry, item: { output: outcome.value, result, setCreatedAt: new Date(set.createdAt) } });
       } catch (error) {
         entry.reject(error);
       }
@@ -526,6 +518,12 @@ export class Coordinator {
       }
       await this.dispatchReady(sets, this.clock(), true);
     }
+  }
+
+  /** Counts a set that failed and tells the listeners (no result path). */
+  private setFailed(setId: string): void {
+    this.counts.setsFailed += 1;
+    this.notify(setId, undefined);
   }
 
   private notify(setId: string, path: string | undefined): void {

@@ -2,8 +2,8 @@
 // decay, IRF column) and its metadata (sample id, role, acquisition time, excitation, solvent), all
 // of which sit in the metadata lines, the column header and the first data rows. A delimited text
 // file is therefore read at intake only up to its first HEAD_DATA_ROWS data rows (at most
-// HEAD_LINES lines); the full read and validation happen
-// in the worker, which reports an unreadable own file back for quarantine (see commit.ts).
+// HEAD_LINES lines); the full read and validation happen in the worker, which reports an
+// unreadable own file back for quarantine (see commit.ts).
 // JCAMP-DX, JSON, UTF-16 and short files are read whole, and a head that does not read is read
 // whole, so a file bad near its top is still rejected at intake with the reader's own error.
 import { InputRejected } from '../model/errors.js';

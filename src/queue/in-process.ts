@@ -8,7 +8,6 @@ import type { ResolvedQueueOptions } from './options.js';
 import { OutcomeHub, type OutcomeListener } from './outcome-hub.js';
 import { createTaskPool, type TaskPool } from './task-pool.js';
 
-
 interface PendingJob<Payload> {
   readonly id: string;
   readonly payload: Payload;
