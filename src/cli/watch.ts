@@ -27,6 +27,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     onFile: batchStableFiles(serial, (paths) => coordinator.intakeMany(paths)),
     onReady: () => logger.info({ inbox: config.folders.inbox }, 'watching'),
     onError: (error) => logger.error({ err: error }, 'watcher error'),
+    onMissed: (paths) => logger.warn({ files: paths.length, first: paths[0] }, 'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats'),
   });
   const tickMs = Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
   const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);

@@ -18,7 +18,7 @@ export class StableFiles {
   constructor(
     private readonly stabilityWindowMs: number,
     private readonly pollIntervalMs: number,
-    private readonly onStable: (path: string) => void,
+    private readonly onStable: (path: string, stat: { readonly sizeBytes: number; readonly mtimeMs: number }) => void,
     private readonly now: () => number = Date.now,
   ) {}
 
@@ -37,6 +37,11 @@ export class StableFiles {
     this.pending.delete(path);
   }
 
+  /** Whether `path` is still settling. */
+  has(path: string): boolean {
+    return this.pending.has(path);
+  }
+
   /** Files still settling. */
   get size(): number {
     return this.pending.size;
@@ -52,7 +57,7 @@ export class StableFiles {
   /** Reports every file whose quiet period is over and whose size and mtime did not change; re-arms the others. */
   private check(): void {
     const nowMs = this.now();
-    const stable: string[] = [];
+    const stable: { path: string; sizeBytes: number; mtimeMs: number }[] = [];
     for (const [path, entry] of this.pending) {
       if (entry.quietUntilMs > nowMs) continue;
       const stat = statOrUndefined(path);
@@ -60,7 +65,7 @@ export class StableFiles {
         this.pending.delete(path);
       } else if (stat.size === entry.sizeBytes && stat.mtimeMs === entry.mtimeMs) {
         this.pending.delete(path);
-        stable.push(path);
+        stable.push({ path, sizeBytes: stat.size, mtimeMs: stat.mtimeMs });
       } else {
         entry.sizeBytes = stat.size;
         entry.mtimeMs = stat.mtimeMs;
@@ -71,7 +76,7 @@ export class StableFiles {
       clearInterval(this.timer);
       this.timer = undefined;
     }
-    for (const path of stable) this.onStable(path);
+    for (const { path, sizeBytes, mtimeMs } of stable) this.onStable(path, { sizeBytes, mtimeMs });
   }
 }
 

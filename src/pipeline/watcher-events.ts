@@ -1,6 +1,13 @@
 // The event-driven inbox watcher (OS file events through fs.watch, one watch per folder): a change
 // costs one stat of the file it names, never a re-listing of the folder, so a burst of thousands of
 // files stays cheap. Completed files are reported through StableFiles. Used unless watch.usePolling.
+//
+// OS events can be lost: Linux drops inotify events once its queue (fs.inotify.max_queued_events,
+// 16384 by default) is full, and Node's fs.watch does not say so. A burst of more than ~8,000 files
+// written while the event loop is busy overflows it (seen on the bench machine: files stayed in the
+// inbox unseen until the next start). So the watcher also re-lists the inbox tree every
+// `watch.rescanIntervalMs` and takes every file it has not reported (or that changed since), and
+// reports those through `onMissed`.
 import { lstatSync, readdirSync, statSync, watch, type FSWatcher } from 'node:fs';
 import { basename, join } from 'node:path';
 import type { WatchConfig } from '../config/sections/watch.js';
@@ -8,11 +15,23 @@ import { compileGlobs, isIgnoredFile } from './ignore.js';
 import { StableFiles } from './stable-files.js';
 import type { InboxWatcher, InboxWatcherEvents } from './watcher-types.js';
 
-/** Starts watching `inboxDir` and its sub-folders with OS events. */
-export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, events: InboxWatcherEvents): InboxWatcher {
+/** What the watcher needs of fs.watch (replaceable in tests, e.g. by one that loses every event). */
+export type FolderWatchFn = (dir: string, listener: (event: string, name: string | Buffer | null) => void) => Pick<FSWatcher, 'close' | 'on'>;
+
+const osFolderWatch: FolderWatchFn = (dir, listener) => watch(dir, { persistent: true }, listener);
+
+type FileStat = { readonly sizeBytes: number; readonly mtimeMs: number };
+
+/** Starts watching `inboxDir` and its sub-folders with OS events, re-listing the tree every `options.rescanIntervalMs`. */
+export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, events: InboxWatcherEvents, folderWatch: FolderWatchFn = osFolderWatch): InboxWatcher {
   const extra = compileGlobs(options.ignoreGlobs);
-  const stable = new StableFiles(options.stabilityWindowMs, options.pollIntervalMs, (path) => events.onFile(path));
-  const folders = new Map<string, FSWatcher>();
+  /** Files handed to onFile and still in the inbox, with their size and mtime then. */
+  const reported = new Map<string, FileStat>();
+  const stable = new StableFiles(options.stabilityWindowMs, options.pollIntervalMs, (path, stat) => {
+    reported.set(path, stat);
+    events.onFile(path);
+  });
+  const folders = new Map<string, Pick<FSWatcher, 'close' | 'on'>>();
   let closed = false;
 
   const report = (error: unknown): void => {
@@ -28,32 +47,36 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     }
   };
 
-  /** Looks at one path named by an event or a listing: follows new folders, tracks files. */
-  const examine = (path: string, isRoot = false): void => {
-    let kind: 'file' | 'folder' | 'gone' | 'other';
-    let fileStat: { size: number; mtimeMs: number } | undefined;
+  type Kind = { kind: 'file'; stat: FileStat } | { kind: 'folder' | 'gone' | 'other' };
+  const kindOf = (path: string): Kind => {
     try {
       const link = lstatSync(path);
       const target = link.isSymbolicLink() ? statSync(path) : link;
-      kind = target.isFile() ? 'file' : target.isDirectory() ? 'folder' : 'other';
-      if (kind === 'file') fileStat = { size: target.size, mtimeMs: target.mtimeMs };
+      if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
+      return { kind: target.isDirectory() ? 'folder' : 'other' };
     } catch {
-      kind = 'gone';
+      return { kind: 'gone' };
     }
-    if (kind === 'gone') {
+  };
+
+  /** Looks at one path named by an event or a listing: follows new folders, tracks files. */
+  const examine = (path: string, isRoot = false): void => {
+    const found = kindOf(path);
+    if (found.kind === 'gone') {
       stable.forget(path);
+      reported.delete(path);
       unwatchFolder(path);
-    } else if (kind === 'folder') {
+    } else if (found.kind === 'folder') {
       if ((isRoot || !basename(path).startsWith('.')) && !folders.has(path)) watchFolder(path);
-    } else if (kind === 'file' && !isIgnoredFile(path, extra)) {
-      stable.touch(path, fileStat);
+    } else if (found.kind === 'file' && !isIgnoredFile(path, extra)) {
+      stable.touch(path, { size: found.stat.sizeBytes, mtimeMs: found.stat.mtimeMs });
     }
   };
 
   /** Watches one folder (before listing it, so nothing arriving meanwhile is missed) and examines its entries. */
   const watchFolder = (dir: string): void => {
     try {
-      const watcher = watch(dir, { persistent: true }, (_event, name) => {
+      const watcher = folderWatch(dir, (_event, name) => {
         if (closed) return;
         if (name === null) listFolder(dir);
         else examine(join(dir, name.toString()));
@@ -70,16 +93,58 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     listFolder(dir);
   };
 
-  const listFolder = (dir: string): void => {
-    let names: string[];
+  const namesIn = (dir: string): string[] | undefined => {
     try {
-      names = readdirSync(dir);
+      return readdirSync(dir);
     } catch (error) {
       if ((error as NodeJS.ErrnoException).code !== 'ENOENT') report(error);
-      return;
+      return undefined;
     }
-    for (const name of names) examine(join(dir, name));
   };
+
+  const listFolder = (dir: string): void => {
+    for (const name of namesIn(dir) ?? []) examine(join(dir, name));
+  };
+
+  /**
+   * Re-lists the watched tree: a file neither settling nor reported with its current size and mtime
+   * was missed by the OS events and is tracked now; a folder not watched is watched; reported files
+   * no longer present are forgotten. Returns the missed files.
+   */
+  const rescan = (): string[] => {
+    const missed: string[] = [];
+    const present = new Set<string>();
+    const walk = (dir: string): void => {
+      for (const name of namesIn(dir) ?? []) {
+        const path = join(dir, name);
+        const found = kindOf(path);
+        if (found.kind === 'folder') {
+          if (name.startsWith('.')) continue;
+          if (folders.has(path)) walk(path);
+          else watchFolder(path);
+        } else if (found.kind === 'file' && !isIgnoredFile(path, extra)) {
+          present.add(path);
+          if (stable.has(path)) continue;
+          const before = reported.get(path);
+          if (before?.sizeBytes === found.stat.sizeBytes && before.mtimeMs === found.stat.mtimeMs) continue;
+          missed.push(path);
+          stable.touch(path, { size: found.stat.sizeBytes, mtimeMs: found.stat.mtimeMs });
+        }
+      }
+    };
+    for (const dir of [...folders.keys()]) if (kindOf(dir).kind !== 'folder') unwatchFolder(dir);
+    if (folders.has(inboxDir)) walk(inboxDir);
+    else examine(inboxDir, true);
+    for (const path of reported.keys()) if (!present.has(path)) reported.delete(path);
+    return missed;
+  };
+
+  const rescanTimer = setInterval(() => {
+    if (closed) return;
+    const missed = rescan();
+    if (missed.length > 0) events.onMissed?.(missed);
+  }, options.rescanIntervalMs);
+  rescanTimer.unref();
 
   examine(inboxDir, true);
   setImmediate(() => {
@@ -88,6 +153,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   return {
     async close() {
       closed = true;
+      clearInterval(rescanTimer);
       for (const watcher of folders.values()) watcher.close();
       folders.clear();
       stable.close();

@@ -6,6 +6,8 @@ export interface InboxWatcherEvents {
   /** The initial scan has finished (every file present at start has been reported or is settling). */
   readonly onReady?: () => void;
   readonly onError?: (error: Error) => void;
+  /** The periodic rescan found files the OS events had not reported (lost events); they are settling now and are reported through onFile. */
+  readonly onMissed?: (paths: readonly string[]) => void;
 }
 
 export interface InboxWatcher {

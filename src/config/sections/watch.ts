@@ -7,6 +7,8 @@ export const watchSection = z
       .describe('A file is read only after its size has not changed for this long, in ms. Default: 2000'),
     pollIntervalMs: z.number().int().min(10).max(60_000).default(100)
       .describe('How often the size of a growing file is checked, in ms. Default: 100'),
+    rescanIntervalMs: z.number().int().min(100).max(3_600_000).default(30_000)
+      .describe('How often the inbox tree is re-listed to catch files whose OS events were lost (queue overflow), in ms. Default: 30000'),
     usePolling: z.boolean().default(false)
       .describe('Poll the folder instead of using OS events (network shares). Default: false'),
     ignoreGlobs: z.array(z.string()).default([])
