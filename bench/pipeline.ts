@@ -1,7 +1,8 @@
 // Pipeline benchmark (JSON lines): throughput and latency (file stable → result written) for 1,000
 // sets of emission + absorbance + decay + IRF through the embedded default (watcher, in-process
 // worker-thread pool, SQLite ledger); bare analyze() throughput for the ratio; and a 10,000-file
-// backlog present at start-up with peak RSS. Run: `npm run build && node dist/bench/pipeline.js`
+// backlog present at start-up with peak RSS. The measured burst runs through a pipeline warmed by
+// an earlier burst of as many sets (reported as the cold figures), as bare analyze() is JIT-warmed. Run: `npm run build && node dist/bench/pipeline.js`
 // (options: --sets N, --backlog-files N, --skip-backlog, --skip-tcspc, --keep-workspaces,
 // --backlog-only [--backlog-dir DIR]). Workspaces are removed after each scenario unless kept.
 import { spawnSync } from 'node:child_process';
@@ -35,6 +36,12 @@ const BACKLOG_FILES = argValue('--backlog-files', 10_000);
 const STABILITY_MS = 200;
 /** Rounds of the bare analyze() measurement (their mean is the baseline). */
 const BARE_ROUNDS = 3;
+/**
+ * Sets run through a fresh pipeline before the measured burst (reported as the cold burst), so the
+ * measured burst compares a warmed pipeline with the JIT-warmed bare analyze(): a pipeline runs for
+ * months, and its worker threads compile the analysis during their first few hundred sets.
+ */
+const WARMUP_BURST_SETS = 1000;
 /** Sets sent before the latency measurement while the worker threads warm up (reported as the cold start). */
 const WARMUP_SETS = 20;
 
@@ -89,9 +96,32 @@ function setFiles(sampleId: string, seed: number, shape: DecayShape = 'small'): 
   ];
 }
 
-/** Removes a bench workspace (results, archive, ledger) unless --keep-workspaces was given. */
+/** Workspaces to remove when the bench ends. */
+const workspacesToRemove: string[] = [];
+
+/**
+ * Removes a bench workspace (results, archive, ledger) when the bench ends, unless --keep-workspaces
+ * was given. Not at once: on an ext4 file system without a journal (this bench machine), the kernel
+ * skips inodes freed in the last 60–360 s when it allocates new ones, scanning past each of them, so
+ * thousands of files deleted just before a scenario made its file creation several times dearer.
+ */
 function removeWorkspace(dir: string): void {
-  if (!args.includes('--keep-workspaces')) rmSync(dir, { recursive: true, force: true });
+  if (!args.includes('--keep-workspaces')) workspacesToRemove.push(dir);
+}
+
+function removeWorkspacesNow(): void {
+  for (const dir of workspacesToRemove.splice(0)) rmSync(dir, { recursive: true, force: true });
+}
+
+/** Mean time to create (open, write 100 bytes, close) one new file in a new folder of the OS temp dir, in µs: how dear file creation is on this machine right now. */
+function fileCreationProbeUs(files = 2000): number {
+  const dir = mkdtempSync(join(tmpdir(), 'dl-bench-probe-'));
+  const content = 'x'.repeat(100);
+  const t0 = performance.now();
+  for (let i = 0; i < files; i++) writeFileSync(join(dir, `p${i}`), content);
+  const us = ((performance.now() - t0) * 1000) / files;
+  removeWorkspace(dir);
+  return us;
 }
 
 /** A bench workspace (new, or the existing folder `existing`) and its config. */
@@ -139,6 +169,23 @@ function latencies(pipeline: Pipeline, prefix: string): number[] {
   return rows.map((r) => Date.parse(r.doneAt) - Date.parse(r.lastSeen)).sort((a, b) => a - b);
 }
 
+/**
+ * Writes `files` into the inbox in one go and waits until their sets are done (`doneBefore` sets
+ * were done already); returns sets per second from the first of them seen to the last result, and
+ * the CPU used after the writes (this process writes the files; that is not the pipeline's cost).
+ */
+async function timedBurst(pipeline: Pipeline, files: readonly { name: string; content: string }[][], prefix: string, doneBefore: number): Promise<{ setsPerS: number; wallMs: number; firstStableToLastResultMs: number; cpu: ReturnType<typeof cpuSince> }> {
+  const t0 = Date.now();
+  for (const set of files) for (const f of set) writeFileSync(join(pipeline.config.folders.inbox, f.name), f.content);
+  // The writes block the event loop, so the watcher has not reported anything yet.
+  const cpu0 = cpuNow();
+  await waitForDone(pipeline, doneBefore + files.length);
+  const cpu = cpuSince(cpu0);
+  const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files WHERE name LIKE ?').get(`${prefix}%`) as { t: string }).t);
+  const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets WHERE sample_id LIKE ?').get(`${prefix}%`) as { t: string }).t);
+  return { setsPerS: files.length / ((lastDone - firstSeen) / 1000), wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, cpu };
+}
+
 const quantile = (sorted: readonly number[], q: number): number => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? Number.NaN;
 
 /**
@@ -150,22 +197,20 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
   const burst = workspace();
   const logger = createLogger(burst.config.logging, burst.config.logFile);
   const files = Array.from({ length: sets }, (_u, i) => setFiles(`bench-${String(i).padStart(5, '0')}`, i + 1, shape));
+  // Warm-up sets: seeds after the measured ones, so no IRF repeats one of theirs (acquisition offsets are seed mod 3600 s).
+  const warmupSets = Math.min(sets, WARMUP_BURST_SETS);
+  const warmupFiles = Array.from({ length: warmupSets }, (_u, i) => setFiles(`warm-${String(i).padStart(5, '0')}`, sets + i + 1, shape));
+  const fsCreateUsPerFile = fileCreationProbeUs();
   const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
   const stop = await startWatching(pipeline);
-  const t0 = Date.now();
-  for (const set of files) for (const f of set) writeFileSync(join(burst.config.folders.inbox, f.name), f.content);
-  // After the writes (this process writes the files; that is not the pipeline's cost). The writes
-  // block the event loop, so the watcher has not reported anything yet.
-  const cpu0 = cpuNow();
-  await waitForDone(pipeline, sets);
-  const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files').get() as { t: string }).t);
-  const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets').get() as { t: string }).t);
-  const pipelineSetsPerS = sets / ((lastDone - firstSeen) / 1000);
-  const cpu = cpuSince(cpu0);
+  const cold = await timedBurst(pipeline, warmupFiles, 'warm-', 0);
+  const warm = await timedBurst(pipeline, files, 'bench-', warmupSets);
+  const pipelineSetsPerS = warm.setsPerS;
   const decay = { decayChannels: DECAY_SHAPES[shape].channels };
   emit({
-    scenario: 'burst', ...decay, sets, files: sets * 4, concurrency: burst.config.queue.concurrency, wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
-    processCpuMsPerSet: Number((cpu.processMs / sets).toFixed(2)), mainThreadCpuMsPerSet: cpu.mainThreadMs === undefined ? null : Number((cpu.mainThreadMs / sets).toFixed(2)),
+    scenario: 'burst', ...decay, sets, files: sets * 4, concurrency: burst.config.queue.concurrency, wallMs: warm.wallMs, firstStableToLastResultMs: warm.firstStableToLastResultMs, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
+    processCpuMsPerSet: Number((warm.cpu.processMs / sets).toFixed(2)), mainThreadCpuMsPerSet: warm.cpu.mainThreadMs === undefined ? null : Number((warm.cpu.mainThreadMs / sets).toFixed(2)),
+    warmupSets, coldSetsPerS: Number(cold.setsPerS.toFixed(2)), coldProcessCpuMsPerSet: Number((cold.cpu.processMs / warmupSets).toFixed(2)), fsCreateUsPerFile: Number(fsCreateUsPerFile.toFixed(1)),
   });
 
   // Bare analyze(): the same payloads, one thread, no I/O; JIT warmed first, then BARE_ROUNDS rounds
@@ -185,7 +230,8 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
   // The fits alone through the same worker-thread pool (no ledger, files or watcher): what the
   // analysis can do with these threads on this machine.
   const pool = createTaskPool({ processorHref: ANALYZE_PROCESSOR_URL.href, concurrency: burst.config.queue.concurrency, jobTimeoutMs: 60_000 });
-  await Promise.all(payloads.slice(0, 50).map((payload) => pool.run(payload)));
+  // Warmed like the pipeline's threads (each thread JIT-compiles the analysis on its own).
+  for (let round = 0; round < 3; round++) await Promise.all(payloads.map((payload) => pool.run(payload)));
   const p0 = performance.now();
   const poolCpu0 = cpuNow();
   await Promise.all([...measured, ...measured].map((payload) => pool.run(payload)));
@@ -283,7 +329,7 @@ async function ioFloor(sets: readonly { name: string; content: string }[][], art
   }
   const wallMs = performance.now() - t0;
   const cpu = cpuSince(cpu0);
-  rmSync(dir, { recursive: true, force: true });
+  removeWorkspace(dir);
   return { sets: sets.length, cpuMsPerSet: cpu.processMs / sets.length, wallMsPerSet: wallMs / sets.length };
 }
 
@@ -333,3 +379,4 @@ if (args.includes('--backlog-only')) {
     removeWorkspace(dir);
   }
 }
+removeWorkspacesNow();
