@@ -151,11 +151,12 @@ export class Coordinator {
     return this.openSets.size;
   }
 
-  /** Crash recovery: re-enqueues queued sets; finishing moves of done/failed files happens on intake and here. */
+  /** Crash recovery: finishes (or finds) interrupted moves of done/failed files, then re-enqueues queued sets (whose payloads may borrow those files). */
   async recover(): Promise<void> {
+    const moves = recoverMoves(this.ledger, this.config, this.clock());
+    if (moves.moved + moves.relocated > 0) this.logger.info(moves, 'recovery: finished interrupted moves and recorded moved files whose location was lost');
     const queued = this.ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[];
     for (const { id } of queued) await this.enqueue(id);
-    recoverMoves(this.ledger, this.config, this.clock());
     this.openSets = OpenSets.load(this.ledger);
     if (queued.length > 0) this.logger.info({ sets: queued.length }, 'recovery: re-enqueued queued sets');
   }

@@ -1,29 +1,78 @@
 // Crash recovery of file moves: a done set's files still in the inbox are archived; a failed set's or
 // rejected file's inputs still in the inbox are quarantined. Queued sets are re-enqueued by the
 // coordinator; files recorded as `seen` are re-read by the start-up scan.
-import { existsSync } from 'node:fs';
+//
+// The transaction that records where files were moved follows the moves and is not fsynced on its
+// own, so a power cut just after the moves can leave a done (or rejected) file that is neither in the
+// inbox nor recorded where it went. Such a file is looked for in the folder it was moved to (archive
+// by first-seen day, quarantine by the day of its error), under its name and the `~N` names a move
+// takes when the name is in use, and matched by sha256; its location is then recorded. Without this,
+// a later set could not borrow such an IRF or blank (INPUT_MISSING).
+import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import { extname, join } from 'node:path';
 import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesAwaitingMove } from '../store/files.js';
+import { filesAwaitingMove, setFileLocation, type FileRecord } from '../store/files.js';
+import { dayFolderName } from '../output/dated-path.js';
 import { finishArchiveMove, rejectFile } from './intake.js';
 
-/** Finishes archive and quarantine moves interrupted by a crash; returns how many files it moved. */
-export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date): number {
+/** What recovery did: files moved now, and moved files whose unrecorded location it found. */
+export interface MoveRecovery {
+  readonly moved: number;
+  readonly relocated: number;
+}
+
+/** Most `~N` names looked at per file (uniqueTarget takes the smallest free N, so they run without gaps). */
+const MAX_SUFFIX = 10_000;
+
+/** The copy of `file` (same sha256) in `dir` under its name or a `~N` name, if any. */
+export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha256'>): string | undefined {
+  const ext = extname(file.name);
+  const stem = file.name.slice(0, file.name.length - ext.length);
+  for (let n = 0; n <= MAX_SUFFIX; n++) {
+    const candidate = join(dir, n === 0 ? file.name : `${stem}~${n}${ext}`);
+    if (!existsSync(candidate)) {
+      if (n > 0) return undefined;
+      continue;
+    }
+    if (createHash('sha256').update(readFileSync(candidate)).digest('hex') === file.sha256) return candidate;
+  }
+  return undefined;
+}
+
+/** Finishes archive and quarantine moves interrupted by a crash and records moves whose record was lost. */
+export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date): MoveRecovery {
   let moved = 0;
+  let relocated = 0;
   for (const file of filesAwaitingMove(ledger, ['done'])) {
-    if (file.archivePath === null && existsSync(file.path)) {
+    if (file.archivePath !== null) continue;
+    if (existsSync(file.path)) {
       finishArchiveMove(ledger, config, file, now);
       moved += 1;
+      continue;
+    }
+    const copy = findMovedCopy(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file);
+    if (copy !== undefined) {
+      ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
+      relocated += 1;
     }
   }
   for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) {
-    if (file.quarantinePath === null && existsSync(file.path)) {
+    if (file.quarantinePath !== null) continue;
+    if (existsSync(file.path)) {
       const error = new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
       moved += 1;
+      continue;
+    }
+    const copy = findMovedCopy(join(config.folders.quarantine, dayFolderName(new Date(file.updatedAt))), file);
+    if (copy !== undefined) {
+      ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: copy }, now));
+      relocated += 1;
     }
   }
-  return moved;
+  return { moved, relocated };
 }

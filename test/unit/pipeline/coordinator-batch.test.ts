@@ -1,6 +1,6 @@
 // The coordinator's batched paths, in process (no CLI): stable files taken many at a time, the
 // payload built from the bytes hashed at intake, finished sets committed as a group.
-import { mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pino } from 'pino';
@@ -97,6 +97,31 @@ describe('coordinator batches', () => {
     expect(states).toEqual([{ state: 'done', n: 12 }]);
     const unarchived = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
     expect(unarchived.n).toBe(0);
+  });
+
+  it('after a power cut lost the record of where done files were archived, the restart finds each archived copy by its sha256 (not a same-named other file) and records it', async () => {
+    const first = start();
+    const set = generateSet('lost-01', 14);
+    await first.pipeline.coordinator.intakeMany(drop(first.inbox, set.files));
+    await first.pipeline.coordinator.tick(true);
+    await first.pipeline.coordinator.drain();
+    const db = first.pipeline.ledger.database;
+    const archived = db.prepare(`SELECT id, name, archive_path AS archivePath FROM files ORDER BY id`).all() as { id: number; name: string; archivePath: string }[];
+    expect(archived).toHaveLength(set.files.length);
+    // The last transaction (archive paths) did not survive; meanwhile the first file's archived copy
+    // took a ~1 name because another export of the same name, with other content, holds the name.
+    db.prepare(`UPDATE files SET archive_path = NULL`).run();
+    const moved = archived[0];
+    if (moved === undefined) throw new Error('no archived file');
+    const renamed = moved.archivePath.replace(/(\.[^.]+)$/, '~1$1');
+    renameSync(moved.archivePath, renamed);
+    writeFileSync(moved.archivePath, 'another export that happens to have the same name\n');
+    await first.pipeline.close();
+    opened.splice(0, 1, { pipeline: first.pipeline, dir: first.dir });
+    const again = start(first.dir);
+    await again.pipeline.coordinator.recover();
+    const after = again.pipeline.ledger.database.prepare(`SELECT id, archive_path AS archivePath FROM files ORDER BY id`).all() as { id: number; archivePath: string | null }[];
+    expect(after.map((f) => f.archivePath)).toEqual([renamed, ...archived.slice(1).map((f) => f.archivePath)]);
   });
 
   it('fails a set whose input vanished before dispatch with INPUT_MISSING and quarantines the rest, without stopping', async () => {
