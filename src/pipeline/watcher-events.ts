@@ -31,7 +31,12 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     reported.set(path, stat);
     events.onFile(path);
   });
-  const folders = new Map<string, Pick<FSWatcher, 'close' | 'on'>>();
+  /**
+   * Watched folders, with the identity (inode and birth time) each had when its watch began: a folder
+   * deleted and made again is a new folder the old watch does not see, even when ext4 gives it the
+   * same inode number.
+   */
+  const folders = new Map<string, { watcher: Pick<FSWatcher, 'close' | 'on'>; identity: string }>();
   let closed = false;
 
   const report = (error: unknown): void => {
@@ -39,7 +44,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   };
 
   const unwatchFolder = (dir: string): void => {
-    for (const [path, watcher] of folders) {
+    for (const [path, { watcher }] of folders) {
       if (path === dir || path.startsWith(`${dir}/`) || path.startsWith(`${dir}\\`)) {
         watcher.close();
         folders.delete(path);
@@ -47,13 +52,13 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     }
   };
 
-  type Kind = { kind: 'file'; stat: FileStat } | { kind: 'folder' | 'gone' | 'other' };
+  type Kind = { kind: 'file'; stat: FileStat } | { kind: 'folder'; identity: string } | { kind: 'gone' | 'other' };
   const kindOf = (path: string): Kind => {
     try {
       const link = lstatSync(path);
       const target = link.isSymbolicLink() ? statSync(path) : link;
       if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
-      return { kind: target.isDirectory() ? 'folder' : 'other' };
+      return target.isDirectory() ? { kind: 'folder', identity: `${target.ino}:${target.birthtimeMs}` } : { kind: 'other' };
     } catch {
       return { kind: 'gone' };
     }
@@ -67,14 +72,17 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
       reported.delete(path);
       unwatchFolder(path);
     } else if (found.kind === 'folder') {
-      if ((isRoot || !basename(path).startsWith('.')) && !folders.has(path)) watchFolder(path);
+      if (!isRoot && basename(path).startsWith('.')) return;
+      const watched = folders.get(path);
+      if (watched !== undefined && watched.identity !== found.identity) unwatchFolder(path);
+      if (!folders.has(path)) watchFolder(path, found.identity);
     } else if (found.kind === 'file' && !isIgnoredFile(path, extra)) {
       stable.touch(path, { size: found.stat.sizeBytes, mtimeMs: found.stat.mtimeMs });
     }
   };
 
   /** Watches one folder (before listing it, so nothing arriving meanwhile is missed) and examines its entries. */
-  const watchFolder = (dir: string): void => {
+  const watchFolder = (dir: string, identity: string): void => {
     try {
       const watcher = folderWatch(dir, (_event, name) => {
         if (closed) return;
@@ -85,7 +93,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
         unwatchFolder(dir);
         report(error);
       });
-      folders.set(dir, watcher);
+      folders.set(dir, { watcher, identity });
     } catch (error) {
       report(error);
       return;
@@ -108,8 +116,9 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
 
   /**
    * Re-lists the watched tree: a file neither settling nor reported with its current size and mtime
-   * was missed by the OS events and is tracked now; a folder not watched is watched; reported files
-   * no longer present are forgotten. Returns the missed files.
+   * was missed by the OS events and is tracked now; a folder not watched (or deleted and made again
+   * since its watch began) is watched; reported files no longer present are forgotten. Returns the
+   * missed files.
    */
   const rescan = (): string[] => {
     const missed: string[] = [];
@@ -121,7 +130,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
         if (found.kind === 'folder') {
           if (name.startsWith('.')) continue;
           if (folders.has(path)) walk(path);
-          else watchFolder(path);
+          else watchFolder(path, found.identity);
         } else if (found.kind === 'file' && !isIgnoredFile(path, extra)) {
           present.add(path);
           if (stable.has(path)) continue;
@@ -132,7 +141,10 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
         }
       }
     };
-    for (const dir of [...folders.keys()]) if (kindOf(dir).kind !== 'folder') unwatchFolder(dir);
+    for (const [dir, { identity }] of [...folders]) {
+      const now = kindOf(dir);
+      if (now.kind !== 'folder' || now.identity !== identity) unwatchFolder(dir);
+    }
     if (folders.has(inboxDir)) walk(inboxDir);
     else examine(inboxDir, true);
     for (const path of reported.keys()) if (!present.has(path)) reported.delete(path);
@@ -154,7 +166,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
     async close() {
       closed = true;
       clearInterval(rescanTimer);
-      for (const watcher of folders.values()) watcher.close();
+      for (const { watcher } of folders.values()) watcher.close();
       folders.clear();
       stable.close();
     },

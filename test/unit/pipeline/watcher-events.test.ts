@@ -2,7 +2,7 @@
 // takes every file whose events never came (an fs.watch that reports nothing stands in for an
 // inotify queue overflow), and a real burst larger than Linux's default inotify queue
 // (fs.inotify.max_queued_events = 16384 events, about two per new file) is reported in full.
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { resolveConfig } from '../../../src/config/resolve.js';
@@ -43,6 +43,27 @@ describe('watchInboxWithEvents', () => {
     writeFileSync(join(inbox, 'a.csv'), 'x\n1\n2\n');
     await until(() => reported.length >= 3, 3000);
     expect(reported.filter((p) => p === join(inbox, 'a.csv'))).toHaveLength(2);
+    await watcher.close();
+  });
+
+  it('watches an inbox deleted and made again (a new folder the old watch cannot see, even with the same inode number) from the next rescan on', async () => {
+    const base = tempDir('dl-watch-remade-');
+    const inbox = join(base, 'inbox');
+    mkdirSync(inbox);
+    const reported: string[] = [];
+    const watcher = watchInboxWithEvents(inbox, watchOptions(1000), { onFile: (p) => reported.push(p) });
+    await sleep(50);
+    rmSync(inbox, { recursive: true });
+    mkdirSync(inbox);
+    writeFileSync(join(inbox, 'first.csv'), 'x\n1\n');
+    await until(() => reported.length >= 1, 3000);
+    expect(reported).toEqual([join(inbox, 'first.csv')]);
+    // Watched again: a new file is reported by its events, well before the next rescan.
+    const t0 = Date.now();
+    writeFileSync(join(inbox, 'second.csv'), 'x\n2\n');
+    await until(() => reported.length >= 2, 3000);
+    expect(reported[1]).toBe(join(inbox, 'second.csv'));
+    expect(Date.now() - t0).toBeLessThan(700);
     await watcher.close();
   });
 
