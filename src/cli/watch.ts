@@ -2,6 +2,7 @@
 // dispatches them, commits results; on a signal it stops watching, drains running jobs and exits.
 // On bullmq it does not wait for the Redis backlog: queued jobs persist there and their outcomes
 // are swept in at the next start, so it only closes the queue.
+import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import { batchStableFiles } from '../pipeline/intake-batcher.js';
 import { openPipeline } from '../pipeline/runtime.js';
@@ -23,8 +24,19 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   const serial = (work: () => Promise<void>): void => {
     chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
   };
+  // Files whose intake failed for a reason other than the file (an I/O or ledger error) are taken
+  // again every watch.rescanIntervalMs while they are still in the inbox.
+  const intakeAgain = new Set<string>();
+  const intake = async (paths: readonly string[]): Promise<void> => {
+    for (const path of await coordinator.intakeMany(paths)) intakeAgain.add(path);
+  };
+  const retryTimer = setInterval(() => {
+    const paths = [...intakeAgain].filter((path) => existsSync(path));
+    intakeAgain.clear();
+    if (paths.length > 0) serial(() => intake(paths));
+  }, config.watch.rescanIntervalMs);
   const watcher = watchInbox(config.folders.inbox, config.watch, {
-    onFile: batchStableFiles(serial, (paths) => coordinator.intakeMany(paths)),
+    onFile: batchStableFiles(serial, intake),
     onReady: () => logger.info({ inbox: config.folders.inbox }, 'watching'),
     onError: (error) => logger.error({ err: error }, 'watcher error'),
     onMissed: (paths) => logger.warn({ files: paths.length, first: paths[0] }, 'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats'),
@@ -38,6 +50,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   logger.info({ signal }, persistentQueue ? 'stopping: jobs left in Redis are picked up at the next start' : 'stopping: draining running jobs');
   clearInterval(timer);
   clearInterval(clockTimer);
+  clearInterval(retryTimer);
   await watcher.close();
   logger.debug('watcher closed');
   await chain;

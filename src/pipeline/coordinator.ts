@@ -165,16 +165,20 @@ export class Coordinator {
    * Takes stable files in order: each is hashed and read (bad ones quarantined), then the accepted
    * ones of a chunk are recorded and placed in their sets in one ledger transaction, and the sets
    * that became ready are dispatched. A crash leaves either nothing of a chunk (the start-up scan
-   * reads its files again) or all of it.
+   * reads its files again) or all of it. Returns the files whose intake failed for a reason other
+   * than the file itself (an I/O or ledger error, logged): they stay in the inbox, to be taken again.
    */
-  async intakeMany(paths: readonly string[]): Promise<void> {
+  async intakeMany(paths: readonly string[]): Promise<string[]> {
+    const failed: string[] = [];
     for (let start = 0; start < paths.length; start += INTAKE_CHUNK_FILES) {
       if (start > 0) await new Promise<void>((resolve) => setImmediate(resolve));
-      await this.intakeChunk(paths.slice(start, start + INTAKE_CHUNK_FILES));
+      failed.push(...await this.intakeChunk(paths.slice(start, start + INTAKE_CHUNK_FILES)));
     }
+    return failed;
   }
 
-  private async intakeChunk(paths: readonly string[]): Promise<void> {
+  private async intakeChunk(paths: readonly string[]): Promise<string[]> {
+    const failed: string[] = [];
     const now = this.clock();
     const accepted: AcceptedFile[] = [];
     const pending = new Map<string, { name: string; path: string }>();
@@ -183,7 +187,8 @@ export class Coordinator {
       try {
         outcome = intakeFile(this.ledger, this.config, path, now, pending);
       } catch (error) {
-        this.logger.error({ file: path, err: error }, 'intake failed; the file stays in the inbox and is retried at the next start');
+        this.logger.error({ file: path, err: error }, 'intake failed; the file stays in the inbox and is tried again later');
+        failed.push(path);
         continue;
       }
       if (outcome.kind === 'rejected') {
@@ -194,7 +199,7 @@ export class Coordinator {
         pending.set(outcome.file.sha256, { name: outcome.file.name, path: outcome.file.path });
       }
     }
-    if (accepted.length === 0) return;
+    if (accepted.length === 0) return failed;
     const touched = new Set<OpenSet>();
     const recordedIds: number[] = [];
     try {
@@ -209,8 +214,8 @@ export class Coordinator {
     } catch (error) {
       // Rolled back: the in-memory view is rebuilt from the ledger; the files stay in the inbox.
       this.openSets = OpenSets.load(this.ledger);
-      this.logger.error({ files: accepted.map((a) => a.file.path), err: error }, 'intake failed; the files stay in the inbox and are retried at the next start');
-      return;
+      this.logger.error({ files: accepted.map((a) => a.file.path), err: error }, 'intake failed; the files stay in the inbox and are tried again later');
+      return [...failed, ...accepted.map((a) => a.file.path)];
     }
     accepted.forEach((item, index) => {
       const fileId = recordedIds[index];
@@ -218,6 +223,7 @@ export class Coordinator {
     });
     this.counts.filesAccepted += accepted.length;
     await this.dispatchReady([...touched], now);
+    return failed;
   }
 
   /** Records a data file and places it in an open set (inside the intake transaction); returns its file id. */

@@ -5,11 +5,11 @@
 /** Returns the watcher's onFile callback: paths collect until `schedule` runs `intakeMany` on all of them. */
 export function batchStableFiles(
   schedule: (work: () => Promise<void>) => void,
-  intakeMany: (paths: string[]) => Promise<void>,
+  intakeMany: (paths: string[]) => Promise<unknown>,
 ): (path: string) => void {
   const waiting: string[] = [];
   return (path) => {
     waiting.push(path);
-    if (waiting.length === 1) schedule(() => intakeMany(waiting.splice(0)));
+    if (waiting.length === 1) schedule(async () => { await intakeMany(waiting.splice(0)); });
   };
 }
