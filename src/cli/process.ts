@@ -20,6 +20,8 @@ export interface BatchSummary {
   readonly done: number;
   readonly partial: number;
   readonly failed: number;
+  /** Files whose intake failed for a reason that is not the file's (I/O or ledger error): left where they are, taken at the next run. */
+  readonly notTaken: number;
 }
 
 /** Runs one batch over `paths` with the config file `configFile`; returns the summary (also printed). */
@@ -39,20 +41,21 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
       progress.update(committed, Math.max(coordinator.counts.setsDispatched, committed));
     });
     coordinator.holdDispatch = true;
-    await coordinator.intakeMany(files);
+    const notTaken = await coordinator.intakeMany(files);
     await coordinator.tick(true);
     await coordinator.drain();
     progress.finish();
     const c = coordinator.counts;
     const summary: BatchSummary = {
       files: files.length, accepted: c.filesAccepted, rejected: c.filesRejected,
-      sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed,
+      sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed, notTaken: notTaken.length,
     };
     stdout.write(
       `driftlight process: ${summary.files} files, ${summary.accepted} accepted, ${c.filesRejected} rejected; ` +
         `${summary.sets} sets: ${summary.done} done (${summary.partial} partial), ${summary.failed} failed\n` +
         `  results:    ${config.folders.results}\n  outbox:     ${config.folders.outbox}\n` +
-        `  archive:    ${config.folders.archive}\n  quarantine: ${config.folders.quarantine}\n`,
+        `  archive:    ${config.folders.archive}\n  quarantine: ${config.folders.quarantine}\n` +
+        (notTaken.length === 0 ? '' : `  not taken:  ${notTaken.length} file(s) could not be read or recorded (left where they are; the reason is in ${config.logFile}); run again: ${notTaken.slice(0, 3).join(', ')}${notTaken.length > 3 ? ', …' : ''}\n`),
     );
     return summary;
   } finally {
@@ -70,7 +73,7 @@ export const processCommand: CommandModule = {
         .option('-v, --verbose', 'also log to stdout'),
     )).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean }) => {
       const summary = await runBatch(paths, options);
-      process.exitCode = summary.rejected > 0 || summary.failed > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
+      process.exitCode = summary.rejected > 0 || summary.failed > 0 || summary.notTaken > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
     });
   },
 };

@@ -3,8 +3,10 @@
 // completes its set (`watch` does so every watch.rescanIntervalMs).
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { Writable } from 'node:stream';
 import { pino } from 'pino';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import { runBatch } from '../../../src/cli/process.js';
 import { resolveConfig } from '../../../src/config/resolve.js';
 import { openPipeline, type Pipeline } from '../../../src/pipeline/runtime.js';
 import { generateSet } from '../../integration/pipeline-helpers.js';
@@ -56,5 +58,24 @@ describe('intake failures that are not the file’s fault', () => {
     const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as { partial: boolean; provenance: { inputs: { file: string }[] } };
     expect(result.partial).toBe(false);
     expect(result.provenance.inputs.map((i) => i.file).sort()).toEqual(set.files.map((f) => f.name).sort());
+  });
+
+  it('`process` reports such a file as not taken (exit 3 in the CLI), and the next run takes it', async () => {
+    const dir = tempDir('dl-intake-retry-cli-');
+    writeFileSync(join(dir, 'driftlight.yaml'), 'logging: { stdout: "off" }\nqueue: { concurrency: 1 }\n');
+    mkdirSync(join(dir, 'inbox'));
+    const set = generateSet('retry-02', 22);
+    for (const f of set.files) writeFileSync(join(dir, 'inbox', f.name), f.content);
+    const troubled = join(dir, 'inbox', set.files[0]?.name ?? '');
+    failOnce.add(troubled);
+    let printed = '';
+    const out = new Writable({ write(chunk: Buffer, _enc, done) { printed += chunk.toString(); done(); } });
+    const first = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
+    expect(first).toMatchObject({ files: 3, accepted: 2, notTaken: 1 });
+    expect(printed).toContain(`not taken:  1 file(s)`);
+    expect(printed).toContain(troubled);
+    expect(existsSync(troubled)).toBe(true);
+    const second = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
+    expect(second).toMatchObject({ files: 1, accepted: 1, notTaken: 0, done: 1, failed: 0 });
   });
 });
