@@ -7,14 +7,17 @@ export function dayFolderName(at: Date): string {
   return at.toISOString().slice(0, 10);
 }
 
+/** `name` itself for n = 0, else `stem~N.ext`: the names a move tries, in order, when a name is in use. */
+export function numberedName(name: string, n: number): string {
+  if (n === 0) return name;
+  const ext = extname(name);
+  return `${name.slice(0, name.length - ext.length)}~${n}${ext}`;
+}
+
 /** `dir/name`, or `dir/stem~N.ext` with the smallest N that does not exist yet. */
 export function uniqueTarget(dir: string, name: string): string {
-  let candidate = join(dir, name);
-  if (!existsSync(candidate)) return candidate;
-  const ext = extname(name);
-  const stemPart = name.slice(0, name.length - ext.length);
-  for (let n = 1; ; n++) {
-    candidate = join(dir, `${stemPart}~${n}${ext}`);
+  for (let n = 0; ; n++) {
+    const candidate = join(dir, numberedName(name, n));
     if (!existsSync(candidate)) return candidate;
   }
 }

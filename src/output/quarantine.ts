@@ -22,6 +22,11 @@ export interface QuarantineRecord extends QuarantineReason {
   readonly quarantinedAt: string;
 }
 
+/** The folder a file quarantined at `at` goes to: quarantine/YYYY-MM-DD/. */
+export function quarantineFolder(quarantineDir: string, at: Date): string {
+  return join(quarantineDir, dayFolderName(at));
+}
+
 /** Moves `path` into the quarantine folder with its NAME.error.json; returns the new path. */
 export function quarantineFile(
   quarantineDir: string,
@@ -31,7 +36,7 @@ export function quarantineFile(
   now: Date,
   sha256?: string,
 ): string {
-  const dir = join(quarantineDir, dayFolderName(now));
+  const dir = quarantineFolder(quarantineDir, now);
   const target = uniqueTarget(dir, name);
   const record: QuarantineRecord = {
     file: name,

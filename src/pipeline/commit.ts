@@ -5,7 +5,7 @@
 // A failed set's files go to quarantine with the reason, and so do own files the worker's readers
 // rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
-import { dirname, join } from 'node:path';
+import { dirname } from 'node:path';
 import { fsyncDirectoryAsync } from '../output/atomic-write.js';
 import type { AnalysisOutput, RejectedInput } from '../analysis/payload.js';
 import type { AnalysisResult } from '../analysis/result.js';
@@ -16,11 +16,11 @@ import type { Ledger } from '../store/ledger.js';
 import { filesOfSet, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
 import { upsertResult } from '../store/results.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
-import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
+import { uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
 import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
-import { rejectFile } from './intake.js';
+import { archiveFolderOf, rejectFile } from './intake.js';
 
 /** One finished set to commit: the worker's output, the result after the result stages, and when the set was created (it names the day folders). */
 export interface CommitItem {
@@ -115,7 +115,7 @@ export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, 
   for (const setId of setIds) {
     for (const file of filesOfSet(ledger, setId)) {
       if (file.archivePath !== null || file.state !== 'done') continue;
-      const target = uniqueTarget(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file.name);
+      const target = uniqueTarget(archiveFolderOf(config, file), file.name);
       if (moveFile(file.path, target, { syncFolder: false })) moved.push({ id: file.id, target });
     }
   }

@@ -60,10 +60,15 @@ export function rejectFile(ledger: Ledger, config: DriftlightConfig, file: FileR
   ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: target }, now));
 }
 
+/** The folder a done file is archived in: archive/YYYY-MM-DD/ of the day it was first seen. */
+export function archiveFolderOf(config: DriftlightConfig, file: Pick<FileRecord, 'firstSeenAt'>): string {
+  return join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt)));
+}
+
 /** Finishes an interrupted archive move of a done file still in the inbox. */
 export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file: FileRecord, now: Date): void {
   if (file.archivePath !== null || !existsSync(file.path)) return;
-  const target = uniqueTarget(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file.name);
+  const target = uniqueTarget(archiveFolderOf(config, file), file.name);
   moveFile(file.path, target);
   ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: target }, now));
 }

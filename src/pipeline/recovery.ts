@@ -10,14 +10,15 @@
 // a later set could not borrow such an IRF or blank (INPUT_MISSING).
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
-import { extname, join } from 'node:path';
+import { join } from 'node:path';
 import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
 import { filesAwaitingMove, setFileLocation, type FileRecord } from '../store/files.js';
-import { dayFolderName } from '../output/dated-path.js';
-import { finishArchiveMove, rejectFile } from './intake.js';
+import { numberedName } from '../output/dated-path.js';
+import { quarantineFolder } from '../output/quarantine.js';
+import { archiveFolderOf, finishArchiveMove, rejectFile } from './intake.js';
 
 /** What recovery did: files moved now, and moved files whose unrecorded location it found. */
 export interface MoveRecovery {
@@ -28,12 +29,10 @@ export interface MoveRecovery {
 /** Most `~N` names looked at per file (uniqueTarget takes the smallest free N, so they run without gaps). */
 const MAX_SUFFIX = 10_000;
 
-/** The copy of `file` (same sha256) in `dir` under its name or a `~N` name, if any. */
+/** The copy of `file` (same sha256) in `dir` under its name or a `~N` name (numberedName, as uniqueTarget gives them), if any. */
 export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha256'>): string | undefined {
-  const ext = extname(file.name);
-  const stem = file.name.slice(0, file.name.length - ext.length);
   for (let n = 0; n <= MAX_SUFFIX; n++) {
-    const candidate = join(dir, n === 0 ? file.name : `${stem}~${n}${ext}`);
+    const candidate = join(dir, numberedName(file.name, n));
     if (!existsSync(candidate)) {
       if (n > 0) return undefined;
       continue;
@@ -48,27 +47,26 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
   let moved = 0;
   let relocated = 0;
   for (const file of filesAwaitingMove(ledger, ['done'])) {
-    if (file.archivePath !== null) continue;
     if (existsSync(file.path)) {
       finishArchiveMove(ledger, config, file, now);
       moved += 1;
       continue;
     }
-    const copy = findMovedCopy(join(config.folders.archive, dayFolderName(new Date(file.firstSeenAt))), file);
+    const copy = findMovedCopy(archiveFolderOf(config, file), file);
     if (copy !== undefined) {
       ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
       relocated += 1;
     }
   }
   for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) {
-    if (file.quarantinePath !== null) continue;
     if (existsSync(file.path)) {
       const error = new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
       moved += 1;
       continue;
     }
-    const copy = findMovedCopy(join(config.folders.quarantine, dayFolderName(new Date(file.updatedAt))), file);
+    // rejectFile records the error (updated_at) and quarantines the file with the same time.
+    const copy = findMovedCopy(quarantineFolder(config.folders.quarantine, new Date(file.updatedAt)), file);
     if (copy !== undefined) {
       ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: copy }, now));
       relocated += 1;
