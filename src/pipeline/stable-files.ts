@@ -3,6 +3,12 @@
 // costs one stat when it is touched and one when its quiet period ends, whatever the folder size.
 import { statSync } from 'node:fs';
 
+/** A file's size and modification time, as one stat read them. */
+export interface FileStat {
+  readonly sizeBytes: number;
+  readonly mtimeMs: number;
+}
+
 interface Pending {
   sizeBytes: number;
   mtimeMs: number;
@@ -18,17 +24,17 @@ export class StableFiles {
   constructor(
     private readonly stabilityWindowMs: number,
     private readonly pollIntervalMs: number,
-    private readonly onStable: (path: string, stat: { readonly sizeBytes: number; readonly mtimeMs: number }) => void,
+    private readonly onStable: (path: string, stat: FileStat) => void,
     private readonly now: () => number = Date.now,
   ) {}
 
   /** Notes that `path` was created or written (`stat`: its size and mtime when the caller just read them); it is reported after a quiet stability window. */
-  touch(path: string, stat: { size: number; mtimeMs: number } | undefined = statOrUndefined(path)): void {
+  touch(path: string, stat: FileStat | undefined = statOrUndefined(path)): void {
     if (stat === undefined) {
       this.pending.delete(path);
       return;
     }
-    this.pending.set(path, { sizeBytes: stat.size, mtimeMs: stat.mtimeMs, quietUntilMs: this.now() + this.stabilityWindowMs });
+    this.pending.set(path, { sizeBytes: stat.sizeBytes, mtimeMs: stat.mtimeMs, quietUntilMs: this.now() + this.stabilityWindowMs });
     this.timer ??= setInterval(() => this.check(), this.pollIntervalMs);
   }
 
@@ -57,17 +63,17 @@ export class StableFiles {
   /** Reports every file whose quiet period is over and whose size and mtime did not change; re-arms the others. */
   private check(): void {
     const nowMs = this.now();
-    const stable: { path: string; sizeBytes: number; mtimeMs: number }[] = [];
+    const stable: { path: string; stat: FileStat }[] = [];
     for (const [path, entry] of this.pending) {
       if (entry.quietUntilMs > nowMs) continue;
       const stat = statOrUndefined(path);
       if (stat === undefined) {
         this.pending.delete(path);
-      } else if (stat.size === entry.sizeBytes && stat.mtimeMs === entry.mtimeMs) {
+      } else if (stat.sizeBytes === entry.sizeBytes && stat.mtimeMs === entry.mtimeMs) {
         this.pending.delete(path);
-        stable.push({ path, sizeBytes: stat.size, mtimeMs: stat.mtimeMs });
+        stable.push({ path, stat });
       } else {
-        entry.sizeBytes = stat.size;
+        entry.sizeBytes = stat.sizeBytes;
         entry.mtimeMs = stat.mtimeMs;
         entry.quietUntilMs = nowMs + this.stabilityWindowMs;
       }
@@ -76,14 +82,14 @@ export class StableFiles {
       clearInterval(this.timer);
       this.timer = undefined;
     }
-    for (const { path, sizeBytes, mtimeMs } of stable) this.onStable(path, { sizeBytes, mtimeMs });
+    for (const { path, stat } of stable) this.onStable(path, stat);
   }
 }
 
-function statOrUndefined(path: string): { size: number; mtimeMs: number } | undefined {
+function statOrUndefined(path: string): FileStat | undefined {
   try {
     const stat = statSync(path);
-    return stat.isFile() ? { size: stat.size, mtimeMs: stat.mtimeMs } : undefined;
+    return stat.isFile() ? { sizeBytes: stat.size, mtimeMs: stat.mtimeMs } : undefined;
   } catch {
     return undefined;
   }

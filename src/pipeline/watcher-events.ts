@@ -12,15 +12,13 @@ import { lstatSync, readdirSync, statSync, watch, type FSWatcher } from 'node:fs
 import { basename, join } from 'node:path';
 import type { WatchConfig } from '../config/sections/watch.js';
 import { compileGlobs, isIgnoredFile } from './ignore.js';
-import { StableFiles } from './stable-files.js';
+import { StableFiles, type FileStat } from './stable-files.js';
 import type { InboxWatcher, InboxWatcherEvents } from './watcher-types.js';
 
 /** What the watcher needs of fs.watch (replaceable in tests, e.g. by one that loses every event). */
 export type FolderWatchFn = (dir: string, listener: (event: string, name: string | Buffer | null) => void) => Pick<FSWatcher, 'close' | 'on'>;
 
 const osFolderWatch: FolderWatchFn = (dir, listener) => watch(dir, { persistent: true }, listener);
-
-type FileStat = { readonly sizeBytes: number; readonly mtimeMs: number };
 
 /** Starts watching `inboxDir` and its sub-folders with OS events, re-listing the tree every `options.rescanIntervalMs`. */
 export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, events: InboxWatcherEvents, folderWatch: FolderWatchFn = osFolderWatch): InboxWatcher {
@@ -77,7 +75,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
       if (watched !== undefined && watched.identity !== found.identity) unwatchFolder(path);
       if (!folders.has(path)) watchFolder(path, found.identity);
     } else if (found.kind === 'file' && !isIgnoredFile(path, extra)) {
-      stable.touch(path, { size: found.stat.sizeBytes, mtimeMs: found.stat.mtimeMs });
+      stable.touch(path, found.stat);
     }
   };
 
@@ -137,7 +135,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
           const before = reported.get(path);
           if (before?.sizeBytes === found.stat.sizeBytes && before.mtimeMs === found.stat.mtimeMs) continue;
           missed.push(path);
-          stable.touch(path, { size: found.stat.sizeBytes, mtimeMs: found.stat.mtimeMs });
+          stable.touch(path, found.stat);
         }
       }
     };
