@@ -25,7 +25,8 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
   };
   // Files whose intake failed for a reason other than the file (an I/O or ledger error) are taken
-  // again every watch.rescanIntervalMs while they are still in the inbox.
+  // again every watch.rescanIntervalMs while they are still in the inbox, and file moves that
+  // failed after their commit (archive or quarantine folder not writable) are finished then too.
   const intakeAgain = new Set<string>();
   const intake = async (paths: readonly string[]): Promise<void> => {
     for (const path of await coordinator.intakeMany(paths)) intakeAgain.add(path);
@@ -34,6 +35,9 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     const paths = [...intakeAgain].filter((path) => existsSync(path));
     intakeAgain.clear();
     if (paths.length > 0) serial(() => intake(paths));
+    serial(async () => {
+      coordinator.repairMoves();
+    });
   }, config.watch.rescanIntervalMs);
   const watcher = watchInbox(config.folders.inbox, config.watch, {
     onFile: batchStableFiles(serial, intake),

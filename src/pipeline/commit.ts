@@ -29,17 +29,22 @@ export interface CommitItem {
   readonly setCreatedAt: Date;
 }
 
-/** What became of one item of a batch commit: its result path and rejected-file count, or the error that left it queued. */
+/**
+ * What became of one item of a batch commit: its result path and rejected-file count, or the error
+ * that left it queued. `movesFailed` is the error of file moves that failed after the set was
+ * committed done: its inputs stay in the inbox until a later recoverMoves() moves them.
+ */
 export type CommitItemOutcome =
-  | { readonly ok: true; readonly setId: string; readonly path: string; readonly filesRejected: number }
+  | { readonly ok: true; readonly setId: string; readonly path: string; readonly filesRejected: number; readonly movesFailed?: unknown }
   | { readonly ok: false; readonly setId: string; readonly error: unknown };
 
 /**
  * Commits a batch of finished sets (group commit): result JSONs written in parallel, one fsync per
  * result folder, outbox files, one ledger transaction for every set, archive moves with one fsync
  * per archive folder and one transaction recording them, then own files the worker rejected go to
- * quarantine. An item whose result or outbox cannot be written stays queued (re-run at the next
- * start) without holding back the others.
+ * quarantine. An item whose result or outbox cannot be written is not committed (the caller keeps
+ * it queued) without holding back the others. Moves that fail once the ledger says done do not undo
+ * the commit: the item reports them in `movesFailed` and recoverMoves() finishes them later.
  */
 export async function commitResults(ledger: Ledger, config: DriftlightConfig, items: readonly CommitItem[], now: Date): Promise<CommitItemOutcome[]> {
   const outcomes = new Map<string, CommitItemOutcome>();
@@ -82,11 +87,23 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
         for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
       }
     });
-    await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+  }
+  let archiveError: unknown;
+  if (committed.length > 0) {
+    try {
+      await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+    } catch (error) {
+      archiveError = error;
+    }
   }
   for (const { item: { result }, path, rejected } of committed) {
-    quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now);
-    outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length });
+    let movesFailed = archiveError;
+    try {
+      quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now);
+    } catch (error) {
+      movesFailed ??= error;
+    }
+    outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length, ...(movesFailed === undefined ? {} : { movesFailed }) });
   }
   return items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') });
 }

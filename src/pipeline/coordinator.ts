@@ -19,7 +19,7 @@ import { commitFailure, commitResults, commitUnreadableSet, type CommitItem } fr
 import { ContentCache } from './content-cache.js';
 import { buildPayload, choosePairings, readText } from './dispatch.js';
 import { intakeFile, type IntakeFile, type IntakeResult } from './intake.js';
-import { recoverMoves } from './recovery.js';
+import { recoverMoves, type MoveRecovery } from './recovery.js';
 import type { SetManifest } from './manifest.js';
 import { OpenSets, toView, type OpenSet } from './open-sets.js';
 import { applyStages, type ResultStage } from './result-stage.js';
@@ -65,6 +65,32 @@ export const COMMIT_BATCH_MAX = 64;
 export const COMMIT_WINDOW_MS = 10;
 /** Jobs dispatched and not yet committed, per worker (backpressure; room for a commit group). */
 export const MAX_IN_FLIGHT_PER_WORKER = 8;
+/**
+ * Wait before a failed commit (results, outbox or archive folder not writable, disk full, ledger
+ * error) is tried again, in ms; doubled after each failure up to COMMIT_RETRY_MAX_MS. The outcome is
+ * kept meanwhile and holds its in-flight slot, so during a long outage dispatch pauses once every
+ * slot is held instead of running analyses whose results cannot be written.
+ */
+export const COMMIT_RETRY_FIRST_MS = 1000;
+export const COMMIT_RETRY_MAX_MS = 60_000;
+/**
+ * Failed commits of one outcome after which it is let go (the set stays queued and is re-run at the
+ * next start) when the error is not an I/O or database error (which may pass; those are retried
+ * for as long as the process runs).
+ */
+export const COMMIT_RETRY_MAX_FAILURES_OTHER = 3;
+
+/** Whether `error` comes from the file system or the database (a system errno code or an SQLite code), i.e. may pass. */
+export function isEnvironmentError(error: unknown): boolean {
+  const code = (error as { code?: unknown } | null)?.code;
+  return typeof code === 'string' && (/^E[A-Z0-9]+$/.test(code) || code.startsWith('SQLITE_'));
+}
+
+interface HeldCommit {
+  readonly outcome: JobOutcome<AnalysisOutput>;
+  readonly failures: number;
+  timer: NodeJS.Timeout | undefined;
+}
 
 interface PendingCommit {
   readonly outcome: JobOutcome<AnalysisOutput>;
@@ -104,6 +130,10 @@ export class Coordinator {
   /** Outcomes waiting for the next group commit. */
   private readonly commitBuffer: PendingCommit[] = [];
   private committing: Promise<void> | undefined;
+  /** Outcomes whose commit failed, kept (in flight) until their retry (in-process queue only), by job id. */
+  private readonly heldCommits = new Map<string, HeldCommit>();
+  /** Set while drain() runs: a failed commit is then let go instead of held. */
+  private draining = false;
 
   constructor(options: CoordinatorOptions) {
     this.config = options.config;
@@ -154,11 +184,26 @@ export class Coordinator {
   /** Crash recovery: finishes (or finds) interrupted moves of done/failed files, then re-enqueues queued sets (whose payloads may borrow those files). */
   async recover(): Promise<void> {
     const moves = recoverMoves(this.ledger, this.config, this.clock());
-    if (moves.moved + moves.relocated > 0) this.logger.info(moves, 'recovery: finished interrupted moves and recorded moved files whose location was lost');
+    if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'recovery: finished interrupted moves and recorded moved files whose location was lost');
+    if (moves.failed > 0) this.logger.error({ files: moves.failed, err: moves.firstError }, 'recovery: files could not be moved to the archive or quarantine; they stay in the inbox and are tried again (watch: every watch.rescanIntervalMs)');
     const queued = this.ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[];
     for (const { id } of queued) await this.enqueue(id);
     this.openSets = OpenSets.load(this.ledger);
     if (queued.length > 0) this.logger.info({ sets: queued.length }, 'recovery: re-enqueued queued sets');
+  }
+
+  /**
+   * Finishes file moves that failed after their set or file was recorded (an archive or quarantine
+   * folder briefly not writable): `watch` calls it every watch.rescanIntervalMs. Cheap when there
+   * is nothing to move (one indexed query); skipped while a group commit runs. Returns what it did.
+   */
+  repairMoves(): MoveRecovery {
+    // A commit between its moves and the transaction recording them would look like lost records.
+    if (this.committing !== undefined) return { moved: 0, relocated: 0, failed: 0 };
+    const moves = recoverMoves(this.ledger, this.config, this.clock());
+    if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'repair: finished file moves that had failed');
+    if (moves.failed > 0) this.logger.warn({ files: moves.failed, err: moves.firstError }, 'repair: files still cannot be moved out of the inbox; tried again later');
+    return moves;
   }
 
   /**
@@ -399,17 +444,77 @@ export class Coordinator {
   /**
    * Takes a job outcome into the next group commit. On the in-process queue nothing is persisted,
    * so the worker slot is freed at once and the commit runs on (tracked in inFlight; a crash before
-   * it lands leaves the set queued, re-enqueued at the next start). On a persistent queue the job is
-   * acknowledged only after its commit.
+   * it lands leaves the set queued, re-enqueued at the next start); a commit that fails is held and
+   * tried again (holdFailedCommit). On a persistent queue the job is acknowledged only after its
+   * commit, and a failed commit leaves the job to the queue's own retries.
    */
   private onOutcome(outcome: JobOutcome<AnalysisOutput>): Promise<void> {
+    if (this.detachCommits) {
+      this.takeIntoCommit(outcome);
+      return Promise.resolve();
+    }
     const committed = new Promise<void>((resolve, reject) => this.commitBuffer.push({ outcome, resolve, reject }));
     this.committing ??= this.runCommits();
-    if (!this.detachCommits) return committed;
-    committed.catch((error: unknown) => {
-      this.logger.error({ setId: setIdOfJob(outcome.id), err: error }, 'commit failed; the set stays queued and is re-run at the next start');
+    return committed;
+  }
+
+  /** Puts a detached outcome (in-process queue) into the next group commit; a failure holds it for a retry. */
+  private takeIntoCommit(outcome: JobOutcome<AnalysisOutput>): void {
+    // Settled once, like a promise: runCommits rejects a whole batch when commitBatch throws,
+    // entries it had already resolved included.
+    let settled = false;
+    this.commitBuffer.push({
+      outcome,
+      resolve: () => {
+        if (settled) return;
+        settled = true;
+        this.heldCommits.delete(outcome.id);
+      },
+      reject: (error) => {
+        if (settled) return;
+        settled = true;
+        this.holdFailedCommit(outcome, error);
+      },
     });
-    return Promise.resolve();
+    this.committing ??= this.runCommits();
+  }
+
+  /**
+   * A detached outcome whose commit failed is kept, with its in-flight slot, and committed again
+   * after COMMIT_RETRY_FIRST_MS, doubling to COMMIT_RETRY_MAX_MS: a results share that is briefly
+   * away or a full disk must not leave a set queued until the next start, which for `watch` may be
+   * months away. An error that is neither an I/O nor a database error is let go after
+   * COMMIT_RETRY_MAX_FAILURES_OTHER failures, and during drain() at once: the set stays queued and
+   * is re-run at the next start (as before the retries existed).
+   */
+  private holdFailedCommit(outcome: JobOutcome<AnalysisOutput>, error: unknown): void {
+    const failures = (this.heldCommits.get(outcome.id)?.failures ?? 0) + 1;
+    const log = this.logger.child({ setId: setIdOfJob(outcome.id) });
+    if (this.draining || (!isEnvironmentError(error) && failures >= COMMIT_RETRY_MAX_FAILURES_OTHER)) {
+      this.heldCommits.delete(outcome.id);
+      log.error({ err: error, failures }, 'commit failed; the set stays queued and is re-run at the next start');
+      return;
+    }
+    const retryInMs = Math.min(COMMIT_RETRY_MAX_MS, COMMIT_RETRY_FIRST_MS * 2 ** (failures - 1));
+    // The first failure at error level, the repeats of a lasting outage at warn.
+    log[failures === 1 ? 'error' : 'warn']({ err: error, failures, retryInMs }, 'commit failed (are the results, outbox and archive folders writable, is the disk full?); the outcome is kept and committed again later');
+    const timer = setTimeout(() => this.retryHeldCommit(outcome.id), retryInMs);
+    timer.unref();
+    this.heldCommits.set(outcome.id, { outcome, failures, timer });
+  }
+
+  /** Puts a held outcome into the next group commit (its timer fired, or drain() wants it now). */
+  private retryHeldCommit(jobId: string): void {
+    const held = this.heldCommits.get(jobId);
+    if (held === undefined || held.timer === undefined) return;
+    clearTimeout(held.timer);
+    held.timer = undefined;
+    this.takeIntoCommit(held.outcome);
+  }
+
+  /** Outcomes whose commit failed and that wait for a retry. */
+  get heldCommitCount(): number {
+    return this.heldCommits.size;
   }
 
   /** Commits buffered outcomes in batches until none is left; outcomes arriving meanwhile join the next batch. */
@@ -426,7 +531,9 @@ export class Coordinator {
         } catch (error) {
           for (const entry of batch) entry.reject(error);
         }
-        for (const { outcome } of batch) this.inFlight.delete(outcome.id);
+        for (const { outcome } of batch) {
+          if (!this.heldCommits.has(outcome.id)) this.inFlight.delete(outcome.id);
+        }
         try {
           await this.dispatchWaiting();
         } catch (error) {
@@ -501,6 +608,9 @@ export class Coordinator {
       this.counts.setsDone += 1;
       if (result.partial) this.counts.setsPartial += 1;
       log.info({ result: committed.path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');
+      if (committed.movesFailed !== undefined) {
+        log.error({ err: committed.movesFailed }, 'result committed, but moving its inputs out of the inbox failed; they are moved by the next repair (watch: every watch.rescanIntervalMs; process: its next run)');
+      }
       for (const stage of this.stages) {
         if (stage.afterCommit === undefined) continue;
         Promise.resolve()
@@ -537,12 +647,22 @@ export class Coordinator {
     for (const listener of this.committedListeners) listener(setId, path);
   }
 
-  /** Waits until every dispatched job (and every ready set waiting for capacity) is committed. */
+  /**
+   * Waits until every dispatched job (and every ready set waiting for capacity) is committed. Held
+   * failed commits are tried once more at once; one that fails again is let go (its set stays queued
+   * and is re-run at the next start), so a lasting outage cannot keep `watch` from stopping.
+   */
   async drain(): Promise<void> {
-    while (this.inFlight.size > 0 || this.readyWaiting.length > 0) {
-      if (this.inFlight.size === 0) await this.dispatchWaiting();
-      await this.queue.drain();
-      if (this.inFlight.size > 0) await new Promise((r) => setTimeout(r, 20));
+    this.draining = true;
+    try {
+      for (const jobId of [...this.heldCommits.keys()]) this.retryHeldCommit(jobId);
+      while (this.inFlight.size > 0 || this.readyWaiting.length > 0) {
+        if (this.inFlight.size === 0) await this.dispatchWaiting();
+        await this.queue.drain();
+        if (this.inFlight.size > 0) await new Promise((r) => setTimeout(r, 20));
+      }
+    } finally {
+      this.draining = false;
     }
   }
 }

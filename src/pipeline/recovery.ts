@@ -20,10 +20,12 @@ import { numberedName } from '../output/dated-path.js';
 import { quarantineFolder } from '../output/quarantine.js';
 import { archiveFolderOf, finishArchiveMove, rejectFile } from './intake.js';
 
-/** What recovery did: files moved now, and moved files whose unrecorded location it found. */
+/** What recovery did: files moved now, moved files whose unrecorded location it found, and files it could not move now (with the first error). */
 export interface MoveRecovery {
   readonly moved: number;
   readonly relocated: number;
+  readonly failed: number;
+  readonly firstError?: unknown;
 }
 
 /** Most `~N` names looked at per file (uniqueTarget takes the smallest free N, so they run without gaps). */
@@ -42,28 +44,42 @@ export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha2
   return undefined;
 }
 
-/** Finishes archive and quarantine moves interrupted by a crash and records moves whose record was lost. */
+/**
+ * Finishes archive and quarantine moves interrupted by a crash (or that failed: a folder not
+ * writable) and records moves whose record was lost. A file that cannot be moved now is counted in
+ * `failed` and left for the next call; the others are still moved.
+ */
 export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date): MoveRecovery {
   let moved = 0;
   let relocated = 0;
-  for (const file of filesAwaitingMove(ledger, ['done'])) {
+  let failed = 0;
+  let firstError: unknown;
+  const attempt = (work: () => void): void => {
+    try {
+      work();
+    } catch (error) {
+      failed += 1;
+      firstError ??= error;
+    }
+  };
+  for (const file of filesAwaitingMove(ledger, ['done'])) attempt(() => {
     if (existsSync(file.path)) {
       finishArchiveMove(ledger, config, file, now);
       moved += 1;
-      continue;
+      return;
     }
     const copy = findMovedCopy(archiveFolderOf(config, file), file);
     if (copy !== undefined) {
       ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
       relocated += 1;
     }
-  }
-  for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) {
+  });
+  for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) attempt(() => {
     if (existsSync(file.path)) {
       const error = new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
       moved += 1;
-      continue;
+      return;
     }
     // rejectFile records the error (updated_at) and quarantines the file with the same time.
     const copy = findMovedCopy(quarantineFolder(config.folders.quarantine, new Date(file.updatedAt)), file);
@@ -71,6 +87,6 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
       ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: copy }, now));
       relocated += 1;
     }
-  }
-  return { moved, relocated };
+  });
+  return { moved, relocated, failed, ...(firstError === undefined ? {} : { firstError }) };
 }

@@ -8,7 +8,7 @@ export const watchSection = z
     pollIntervalMs: z.number().int().min(10).max(60_000).default(100)
       .describe('How often the size of a growing file is checked, in ms. Default: 100'),
     rescanIntervalMs: z.number().int().min(100).max(3_600_000).default(30_000)
-      .describe('How often the inbox tree is re-listed to catch files whose OS events were lost (queue overflow), in ms. Default: 30000'),
+      .describe('How often `watch` re-lists the inbox tree (files whose OS events were lost), takes again files whose intake failed, and finishes file moves that had failed, in ms. Default: 30000'),
     usePolling: z.boolean().default(false)
       .describe('Poll the folder instead of using OS events (network shares). Default: false'),
     ignoreGlobs: z.array(z.string()).default([])

@@ -1,0 +1,137 @@
+// A commit that fails for a reason outside the set (results folder not writable, a full disk) must
+// not leave the set queued until the next start: the in-process coordinator keeps the outcome and
+// commits it again (after 1 s, doubling); file moves that fail after the commit are finished by
+// repairMoves(); drain() lets held commits go so a lasting outage cannot keep `watch` from stopping.
+// Folders are "blocked" by putting a regular file where the folder belongs (works as root too).
+import { existsSync, mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { pino } from 'pino';
+import { afterEach, describe, expect, it } from 'vitest';
+import { resolveConfig } from '../../../src/config/resolve.js';
+import { isEnvironmentError } from '../../../src/pipeline/coordinator.js';
+import { openPipeline, type Pipeline } from '../../../src/pipeline/runtime.js';
+import type { ResultStage } from '../../../src/pipeline/result-stage.js';
+import { generateSet } from '../../integration/pipeline-helpers.js';
+import { tempDir } from '../../helpers/temp-dir.js';
+
+const opened: Pipeline[] = [];
+afterEach(async () => {
+  for (const pipeline of opened.splice(0)) await pipeline.close();
+});
+
+/** Puts a regular file where the (empty) folder `path` is, so creating anything in it fails (ENOTDIR), as root too. */
+function block(path: string): void {
+  rmSync(path, { recursive: true, force: true });
+  writeFileSync(path, 'a file where a folder belongs');
+}
+
+/** Makes `path` a folder again. */
+function unblock(path: string): void {
+  rmSync(path);
+  mkdirSync(path);
+}
+
+const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
+
+async function waitUntil(what: string, condition: () => boolean, timeoutMs = 10_000): Promise<void> {
+  const start = Date.now();
+  while (!condition()) {
+    if (Date.now() - start > timeoutMs) throw new Error(`timed out waiting for ${what}`);
+    await sleep(25);
+  }
+}
+
+function setup(name: string, stages?: ResultStage[]): { pipeline: Pipeline; inbox: string; dir: string; paths: string[]; setState: () => string | undefined } {
+  const dir = tempDir(`dl-commit-retry-${name}-`);
+  const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
+  const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }), ...(stages === undefined ? {} : { stages }) });
+  opened.push(pipeline);
+  const inbox = config.folders.inbox;
+  mkdirSync(inbox, { recursive: true });
+  const set = generateSet(`retry-${name}`, 31);
+  const paths = set.files.map((f) => {
+    const path = join(inbox, f.name);
+    writeFileSync(path, f.content);
+    return path;
+  });
+  const setState = (): string | undefined => (pipeline.ledger.database.prepare(`SELECT state FROM sets LIMIT 1`).get() as { state: string } | undefined)?.state;
+  return { pipeline, inbox, dir, paths, setState };
+}
+
+describe('commits that fail for reasons outside the set', () => {
+  it('classifies system and SQLite error codes as environment errors, other errors not', () => {
+    expect(isEnvironmentError(Object.assign(new Error('no space'), { code: 'ENOSPC' }))).toBe(true);
+    expect(isEnvironmentError(Object.assign(new Error('not a dir'), { code: 'ENOTDIR' }))).toBe(true);
+    expect(isEnvironmentError(Object.assign(new Error('full'), { code: 'SQLITE_FULL' }))).toBe(true);
+    expect(isEnvironmentError(new TypeError('x is undefined'))).toBe(false);
+    expect(isEnvironmentError(Object.assign(new Error('bad'), { code: 'NON_NUMERIC' }))).toBe(false);
+  });
+
+  it('holds a commit whose results folder is not writable and commits it once the folder is back, without a restart', async () => {
+    const { pipeline, dir, paths, setState } = setup('results');
+    block(join(dir, 'results'));
+    let resultPath: string | undefined;
+    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    expect(await pipeline.coordinator.intakeMany(paths)).toEqual([]);
+    await pipeline.coordinator.tick(true);
+    await waitUntil('the first commit to fail and be held', () => pipeline.coordinator.heldCommitCount === 1);
+    expect(setState()).toBe('queued');
+    expect(paths.every((p) => existsSync(p))).toBe(true);
+    expect(pipeline.coordinator.pendingJobs).toBe(1); // the held outcome keeps its slot
+    unblock(join(dir, 'results'));
+    await waitUntil('the retried commit', () => resultPath !== undefined);
+    expect(existsSync(resultPath ?? '')).toBe(true);
+    expect(setState()).toBe('done');
+    expect(pipeline.coordinator.heldCommitCount).toBe(0);
+    expect(pipeline.coordinator.pendingJobs).toBe(0);
+    expect(paths.some((p) => existsSync(p))).toBe(false);
+    const archived = readdirSync(join(dir, 'archive'), { recursive: true }).map(String).filter((p) => p.endsWith('.csv'));
+    expect(archived).toHaveLength(paths.length);
+  }, 20_000);
+
+  it('keeps a set done when its inputs cannot be archived, and repairMoves() archives them later', async () => {
+    const { pipeline, dir, paths, setState } = setup('archive');
+    block(join(dir, 'archive'));
+    let resultPath: string | undefined;
+    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    await pipeline.coordinator.intakeMany(paths);
+    await pipeline.coordinator.tick(true);
+    await pipeline.coordinator.drain();
+    expect(resultPath).toBeDefined();
+    expect(setState()).toBe('done');
+    expect(paths.every((p) => existsSync(p))).toBe(true);
+    expect(pipeline.coordinator.repairMoves()).toMatchObject({ moved: 0, relocated: 0, failed: paths.length }); // still blocked: tried, nothing moved
+    unblock(join(dir, 'archive'));
+    expect(pipeline.coordinator.repairMoves().moved).toBe(paths.length);
+    expect(paths.some((p) => existsSync(p))).toBe(false);
+    const unplaced = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
+    expect(unplaced.n).toBe(0);
+  }, 20_000);
+
+  it('drain() lets a held commit go: the set stays queued for the next start and nothing hangs', async () => {
+    const { pipeline, dir, paths, setState } = setup('drain');
+    block(join(dir, 'results'));
+    await pipeline.coordinator.intakeMany(paths);
+    await pipeline.coordinator.tick(true);
+    await waitUntil('the held commit', () => pipeline.coordinator.heldCommitCount === 1);
+    await pipeline.coordinator.drain();
+    expect(pipeline.coordinator.heldCommitCount).toBe(0);
+    expect(pipeline.coordinator.pendingJobs).toBe(0);
+    expect(setState()).toBe('queued');
+    expect(paths.every((p) => existsSync(p))).toBe(true);
+  }, 20_000);
+
+  it('lets go of an outcome after 3 failures when the error is not an I/O or database error', async () => {
+    let calls = 0;
+    const failing: ResultStage = { name: 'always-fails', apply: () => { calls += 1; throw new TypeError('a bug in a result stage'); } };
+    const { pipeline, setState, paths } = setup('bug', [failing]);
+    await pipeline.coordinator.intakeMany(paths);
+    await pipeline.coordinator.tick(true);
+    // Failures at 0 s, 1 s and 3 s (waits of 1 s, then 2 s); the third lets it go.
+    await waitUntil('three attempts', () => calls === 3 && pipeline.coordinator.pendingJobs === 0, 15_000);
+    expect(pipeline.coordinator.heldCommitCount).toBe(0);
+    await sleep(300);
+    expect(calls).toBe(3);
+    expect(setState()).toBe('queued');
+  }, 20_000);
+});
