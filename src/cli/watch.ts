@@ -4,6 +4,7 @@
 // are swept in at the next start, so it only closes the queue.
 import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
+import { reopenLogFiles } from '../output/logger.js';
 import { batchStableFiles } from '../pipeline/intake-batcher.js';
 import { openPipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
@@ -45,6 +46,13 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     onError: (error) => logger.error({ err: error }, 'watcher error'),
     onMissed: (paths) => logger.warn({ files: paths.length, first: paths[0] }, 'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats'),
   });
+  // SIGHUP (sent by logrotate after it renamed the log file) reopens the log file; without a
+  // handler the signal would end the process.
+  const onHangup = (): void => {
+    reopenLogFiles();
+    logger.info('log file reopened (SIGHUP)');
+  };
+  process.on('SIGHUP', onHangup);
   const tickMs = Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
   const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);
   // Time-based QC (a control not measured by its deadline) is checked once a minute.
@@ -55,6 +63,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   clearInterval(timer);
   clearInterval(clockTimer);
   clearInterval(retryTimer);
+  process.off('SIGHUP', onHangup);
   await watcher.close();
   logger.debug('watcher closed');
   await chain;
