@@ -22,6 +22,8 @@ export interface BatchSummary {
   readonly failed: number;
   /** Files whose intake failed for a reason that is not the file's (I/O or ledger error): left where they are, taken at the next run. */
   readonly notTaken: number;
+  /** Sets analysed whose result could not be committed (results folder not writable, disk full): still queued, run again at the next run. */
+  readonly notCommitted: number;
 }
 
 /** Runs one batch over `paths` with the config file `configFile`; returns the summary (also printed). */
@@ -48,14 +50,15 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
     const c = coordinator.counts;
     const summary: BatchSummary = {
       files: files.length, accepted: c.filesAccepted, rejected: c.filesRejected,
-      sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed, notTaken: notTaken.length,
+      sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed, notTaken: notTaken.length, notCommitted: c.setsNotCommitted,
     };
     stdout.write(
       `driftlight process: ${summary.files} files, ${summary.accepted} accepted, ${c.filesRejected} rejected; ` +
         `${summary.sets} sets: ${summary.done} done (${summary.partial} partial), ${summary.failed} failed\n` +
         `  results:    ${config.folders.results}\n  outbox:     ${config.folders.outbox}\n` +
         `  archive:    ${config.folders.archive}\n  quarantine: ${config.folders.quarantine}\n` +
-        (notTaken.length === 0 ? '' : `  not taken:  ${notTaken.length} file(s) could not be read or recorded (left where they are; the reason is in ${config.logFile}); run again: ${notTaken.slice(0, 3).join(', ')}${notTaken.length > 3 ? ', …' : ''}\n`),
+        (notTaken.length === 0 ? '' : `  not taken:  ${notTaken.length} file(s) could not be read or recorded (left where they are; the reason is in ${config.logFile}); run again: ${notTaken.slice(0, 3).join(', ')}${notTaken.length > 3 ? ', …' : ''}\n`) +
+        (c.setsNotCommitted === 0 ? '' : `  not committed: ${c.setsNotCommitted} set(s) analysed but their results could not be written (the reason is in ${config.logFile}); their files stay in the inbox, run again\n`),
     );
     return summary;
   } finally {
@@ -73,7 +76,7 @@ export const processCommand: CommandModule = {
         .option('-v, --verbose', 'also log to stdout'),
     )).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean }) => {
       const summary = await runBatch(paths, options);
-      process.exitCode = summary.rejected > 0 || summary.failed > 0 || summary.notTaken > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
+      process.exitCode = summary.rejected > 0 || summary.failed > 0 || summary.notTaken > 0 || summary.notCommitted > 0 ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
     });
   },
 };

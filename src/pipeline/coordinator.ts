@@ -45,6 +45,8 @@ export interface CoordinatorCounts {
   setsDone: number;
   setsFailed: number;
   setsPartial: number;
+  /** Sets whose outcome could not be committed and was let go (held commits at drain()): they stay queued and run again at the next start. */
+  setsNotCommitted: number;
 }
 
 /** Parses the set id out of a job id (`SETID` or `SETID~rN` for re-runs). */
@@ -103,7 +105,7 @@ type AcceptedFile = Extract<IntakeResult, { kind: 'data' | 'manifest' }>;
 export class Coordinator {
   /** Batch mode: sets are only dispatched by tick(true), in dependency order (supporting, reference, samples). */
   holdDispatch = false;
-  readonly counts: CoordinatorCounts = { filesAccepted: 0, filesRejected: 0, setsDispatched: 0, setsDone: 0, setsFailed: 0, setsPartial: 0 };
+  readonly counts: CoordinatorCounts = { filesAccepted: 0, filesRejected: 0, setsDispatched: 0, setsDone: 0, setsFailed: 0, setsPartial: 0, setsNotCommitted: 0 };
   private readonly config: DriftlightConfig;
   private readonly ledger: Ledger;
   private readonly queue: JobQueue<AnalysisJobPayload, AnalysisOutput>;
@@ -492,6 +494,7 @@ export class Coordinator {
     const log = this.logger.child({ setId: setIdOfJob(outcome.id) });
     if (this.draining || (!isEnvironmentError(error) && failures >= COMMIT_RETRY_MAX_FAILURES_OTHER)) {
       this.heldCommits.delete(outcome.id);
+      this.counts.setsNotCommitted += 1;
       log.error({ err: error, failures }, 'commit failed; the set stays queued and is re-run at the next start');
       return;
     }

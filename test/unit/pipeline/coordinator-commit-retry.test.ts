@@ -118,6 +118,7 @@ describe('commits that fail for reasons outside the set', () => {
     expect(pipeline.coordinator.heldCommitCount).toBe(0);
     expect(pipeline.coordinator.pendingJobs).toBe(0);
     expect(setState()).toBe('queued');
+    expect(pipeline.coordinator.counts.setsNotCommitted).toBe(1);
     expect(paths.every((p) => existsSync(p))).toBe(true);
   }, 20_000);
 
@@ -134,4 +135,31 @@ describe('commits that fail for reasons outside the set', () => {
     expect(calls).toBe(3);
     expect(setState()).toBe('queued');
   }, 20_000);
+});
+
+describe('`process` when a result cannot be written', () => {
+  it('reports the set as not committed (exit 3 in the CLI), keeps its files, and the next run commits it', async () => {
+    const { runBatch } = await import('../../../src/cli/process.js');
+    const { dayFolderName } = await import('../../../src/output/dated-path.js');
+    const { Writable } = await import('node:stream');
+    const dir = tempDir('dl-commit-retry-cli-');
+    writeFileSync(join(dir, 'driftlight.yaml'), 'logging: { stdout: "off" }\nqueue: { concurrency: 1 }\n');
+    mkdirSync(join(dir, 'inbox'));
+    const set = generateSet('retry-cli', 32);
+    for (const f of set.files) writeFileSync(join(dir, 'inbox', f.name), f.content);
+    // A file in place of the day folder the result goes to (today's and tomorrow's, in case the run spans midnight UTC).
+    const days = [new Date(), new Date(Date.now() + 86_400_000)].map(dayFolderName);
+    mkdirSync(join(dir, 'results'));
+    for (const day of days) writeFileSync(join(dir, 'results', day), 'a file where a folder belongs');
+    let printed = '';
+    const out = new Writable({ write(chunk: Buffer, _enc, done) { printed += chunk.toString(); done(); } });
+    const first = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
+    expect(first).toMatchObject({ sets: 1, done: 0, failed: 0, notCommitted: 1 });
+    expect(printed).toContain('not committed: 1 set(s)');
+    expect(set.files.every((f) => existsSync(join(dir, 'inbox', f.name)))).toBe(true);
+    for (const day of days) rmSync(join(dir, 'results', day));
+    const second = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
+    expect(second).toMatchObject({ sets: 1, done: 1, failed: 0, notCommitted: 0 });
+    expect(set.files.some((f) => existsSync(join(dir, 'inbox', f.name)))).toBe(false);
+  }, 30_000);
 });
