@@ -28,7 +28,9 @@ export class DriftlightError extends Error {
     super(message, details.cause === undefined ? undefined : { cause: details.cause });
     this.name = new.target.name;
     this.code = code;
-    this.hint = details.hint ?? ERROR_CODES[code].hint;
+    // A code read back from the ledger may be one this version does not list (another version's, or a
+    // system error code carried by a job failure): no hint then, rather than a TypeError.
+    this.hint = details.hint ?? (ERROR_CODES as Readonly<Record<string, { readonly hint: string } | undefined>>)[code]?.hint ?? 'See the message and the log.';
     this.file = details.file;
     this.line = details.line;
     this.configPath = details.configPath;

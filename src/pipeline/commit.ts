@@ -144,33 +144,48 @@ export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, 
  * When the worker's readers rejected every own data file of a set (files are classified from their
  * head at intake, so a file broken further down is found only there), the set fails instead of
  * getting an empty result: each file goes to quarantine with its own reason and the set records the
- * first one. Returns the number of files quarantined, or 0 when some own file was readable.
+ * first one. Returns the number of files rejected (0 when some own file was readable) and the error
+ * of quarantine moves that failed once the failure was recorded (the files then stay in the inbox
+ * until a later recoverMoves()).
  */
-export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, setId: string, rejectedInputs: readonly RejectedInput[], now: Date): number {
-  if (rejectedInputs.length === 0) return 0;
+export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, setId: string, rejectedInputs: readonly RejectedInput[], now: Date): { files: number; movesFailed?: unknown } {
+  if (rejectedInputs.length === 0) return { files: 0 };
   const files = filesOfSet(ledger, setId);
   const own = files.filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
   const rejected = rejectedOwnFiles(files, rejectedInputs);
   const first = rejected[0];
-  if (first === undefined || rejected.length < own.length) return 0;
+  if (first === undefined || rejected.length < own.length) return { files: 0 };
   const names = rejected.map((r) => r.file.name).join(', ');
   ledger.durableTransaction(() => {
     markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
     for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
-  quarantineRejectedOwnFiles(ledger, config, setId, rejected, now);
-  return rejected.length;
+  try {
+    quarantineRejectedOwnFiles(ledger, config, setId, rejected, now);
+    return { files: rejected.length };
+  } catch (error) {
+    return { files: rejected.length, movesFailed: error };
+  }
 }
 
-/** Records a set as failed and quarantines its own files with the failure. */
-export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): void {
+/**
+ * Records a set as failed and quarantines its own files with the failure. Returns the error of
+ * quarantine moves that failed once the failure was recorded (the files then stay in the inbox until
+ * a later recoverMoves()), or undefined; a ledger error is thrown.
+ */
+export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): unknown {
   ledger.durableTransaction(() => {
     markSetFailed(ledger, setId, failure, now);
     for (const file of filesOfSet(ledger, setId)) {
       if (file.state !== 'rejected') setFileError(ledger, file.id, 'failed', failure, now);
     }
   });
-  quarantineFailedFiles(ledger, config, setId, failure, now);
+  try {
+    quarantineFailedFiles(ledger, config, setId, failure, now);
+    return undefined;
+  } catch (error) {
+    return error;
+  }
 }
 
 /** Quarantines the failed files of a set not yet moved (idempotent; used by recovery too). */

@@ -432,8 +432,9 @@ export class Coordinator {
         log.warn({ code: error.code, message: error.message }, 'set not re-run: an input is missing');
         return error.message;
       }
-      commitFailure(this.ledger, this.config, setId, { code: error.code, message: error.message, hint: error.hint }, this.clock());
+      const movesFailed = commitFailure(this.ledger, this.config, setId, { code: error.code, message: error.message, hint: error.hint }, this.clock());
       log.error({ code: error.code, message: error.message }, 'set failed: an input is missing; its other files are quarantined');
+      this.logMovesFailed(log, movesFailed);
       this.setFailed(setId);
       return error.message;
     }
@@ -565,17 +566,19 @@ export class Coordinator {
           continue;
         }
         if (outcome.status === 'failed') {
-          commitFailure(this.ledger, this.config, setId, outcome.failure, now);
+          const movesFailed = commitFailure(this.ledger, this.config, setId, outcome.failure, now);
           log.error({ code: outcome.failure.code, message: outcome.failure.message }, 'set failed; its files are quarantined');
+          this.logMovesFailed(log, movesFailed);
           this.setFailed(setId);
           entry.resolve();
           continue;
         }
         const unreadable = commitUnreadableSet(this.ledger, this.config, setId, outcome.value.rejectedInputs ?? [], now);
-        if (unreadable > 0) {
-          this.counts.filesRejected += unreadable;
-          this.counts.filesAccepted -= unreadable;
-          log.warn({ files: unreadable }, 'no file of the set could be read; the set failed and its files are quarantined');
+        if (unreadable.files > 0) {
+          this.counts.filesRejected += unreadable.files;
+          this.counts.filesAccepted -= unreadable.files;
+          log.warn({ files: unreadable.files }, 'no file of the set could be read; the set failed and its files are quarantined');
+          this.logMovesFailed(log, unreadable.movesFailed);
           this.setFailed(setId);
           entry.resolve();
           continue;
@@ -611,9 +614,7 @@ export class Coordinator {
       this.counts.setsDone += 1;
       if (result.partial) this.counts.setsPartial += 1;
       log.info({ result: committed.path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');
-      if (committed.movesFailed !== undefined) {
-        log.error({ err: committed.movesFailed }, 'result committed, but moving its inputs out of the inbox failed; they are moved by the next repair (watch: every watch.rescanIntervalMs; process: its next run)');
-      }
+      this.logMovesFailed(log, committed.movesFailed);
       for (const stage of this.stages) {
         if (stage.afterCommit === undefined) continue;
         Promise.resolve()
@@ -638,6 +639,12 @@ export class Coordinator {
       }
       await this.dispatchReady(sets, this.clock(), true);
     }
+  }
+
+  /** Logs file moves that failed after a set was recorded done or failed (error undefined: none failed). */
+  private logMovesFailed(log: Logger, error: unknown): void {
+    if (error === undefined) return;
+    log.error({ err: error }, 'set recorded, but moving its inputs out of the inbox failed; they are moved by the next repair (watch: every watch.rescanIntervalMs; process: its next run)');
   }
 
   /** Counts a set that failed and tells the listeners (no result path). */

@@ -76,7 +76,10 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
   });
   for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) attempt(() => {
     if (existsSync(file.path)) {
-      const error = new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
+      // As quarantineFailedFiles words it for a failed set's files; a rejected file keeps its own code.
+      const error = file.state === 'failed'
+        ? new InputRejected('SET_FAILED', `set ${file.setId ?? '?'} failed: ${file.errorCode ?? 'SET_FAILED'}: ${file.errorMessage ?? 'unknown reason'}`)
+        : new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
       moved += 1;
       return;

@@ -44,3 +44,13 @@ describe('createDecay', () => {
     expect(codeOf(() => createDecay({ timeNs, counts }))).toBe(code);
   });
 });
+
+describe('InputRejected with a code read back from the ledger', () => {
+  it('keeps a code this version does not list and gives a generic hint instead of throwing', () => {
+    // A job failure may carry a system code (e.g. ERR_WORKER_OUT_OF_MEMORY) or another version's code.
+    const error = new InputRejected('ERR_WORKER_OUT_OF_MEMORY' as 'SET_FAILED', 'worker ran out of memory');
+    expect(error.code).toBe('ERR_WORKER_OUT_OF_MEMORY');
+    expect(error.hint).toBe('See the message and the log.');
+    expect(new InputRejected('SET_FAILED', 'x').hint).toContain('could not be analysed');
+  });
+});

@@ -8,7 +8,10 @@ import { join } from 'node:path';
 import { pino } from 'pino';
 import { afterEach, describe, expect, it } from 'vitest';
 import { resolveConfig } from '../../../src/config/resolve.js';
-import { isEnvironmentError } from '../../../src/pipeline/coordinator.js';
+import type { AnalysisJobPayload, AnalysisOutput } from '../../../src/analysis/payload.js';
+import { Coordinator, isEnvironmentError } from '../../../src/pipeline/coordinator.js';
+import type { JobOutcome, JobQueue } from '../../../src/queue/job-queue.js';
+import { openLedger } from '../../../src/store/ledger.js';
 import { openPipeline, type Pipeline } from '../../../src/pipeline/runtime.js';
 import type { ResultStage } from '../../../src/pipeline/result-stage.js';
 import { generateSet } from '../../integration/pipeline-helpers.js';
@@ -106,6 +109,46 @@ describe('commits that fail for reasons outside the set', () => {
     expect(paths.some((p) => existsSync(p))).toBe(false);
     const unplaced = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
     expect(unplaced.n).toBe(0);
+  }, 20_000);
+
+  it('records a failed set even when its files cannot be quarantined, and repairMoves() quarantines them later', async () => {
+    // A queue whose every job fails permanently (as a fit that cannot converge would).
+    const dir = tempDir('dl-commit-retry-quarantine-');
+    const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
+    const ledger = openLedger(config.folders.state);
+    let deliver: ((outcome: JobOutcome<AnalysisOutput>) => void | Promise<void>) | undefined;
+    const queue: JobQueue<AnalysisJobPayload, AnalysisOutput> = {
+      enqueue: async (id) => { setImmediate(() => void deliver?.({ id, status: 'failed', failure: { code: 'FIT_DIVERGED', message: 'no fit converged', permanent: true }, attempts: 1 })); },
+      onOutcome: (listener) => { deliver = listener; },
+      stats: async () => ({ waiting: 0, active: 0, completed: 0, failed: 0 }),
+      drain: async () => undefined,
+      close: async () => undefined,
+    };
+    const coordinator = new Coordinator({ config, ledger, queue, logger: pino({ level: 'silent' }), softwareVersion: 'test', stages: [] });
+    try {
+      mkdirSync(config.folders.inbox, { recursive: true });
+      const paths = generateSet('retry-quarantine', 33).files.map((f) => {
+        const path = join(config.folders.inbox, f.name);
+        writeFileSync(path, f.content);
+        return path;
+      });
+      block(join(dir, 'quarantine'));
+      await coordinator.intakeMany(paths);
+      await coordinator.tick(true);
+      await coordinator.drain();
+      expect((ledger.database.prepare(`SELECT state FROM sets`).get() as { state: string }).state).toBe('failed');
+      expect(coordinator.counts.setsFailed).toBe(1);
+      expect(paths.every((p) => existsSync(p))).toBe(true);
+      unblock(join(dir, 'quarantine'));
+      const repaired = coordinator.repairMoves();
+      expect(repaired.moved).toBe(paths.length);
+      expect(paths.some((p) => existsSync(p))).toBe(false);
+      const quarantined = readdirSync(join(dir, 'quarantine'), { recursive: true }).map(String);
+      expect(quarantined.filter((p) => p.endsWith('.csv'))).toHaveLength(paths.length);
+      expect(quarantined.filter((p) => p.endsWith('.error.json'))).toHaveLength(paths.length);
+    } finally {
+      ledger.close();
+    }
   }, 20_000);
 
   it('drain() lets a held commit go: the set stays queued for the next start and nothing hangs', async () => {
