@@ -15,24 +15,13 @@ import { openLedger } from '../../../src/store/ledger.js';
 import { openPipeline, type Pipeline } from '../../../src/pipeline/runtime.js';
 import type { ResultStage } from '../../../src/pipeline/result-stage.js';
 import { generateSet } from '../../integration/pipeline-helpers.js';
+import { blockFolder, unblockFolder } from '../../helpers/blocked-folder.js';
 import { tempDir } from '../../helpers/temp-dir.js';
 
 const opened: Pipeline[] = [];
 afterEach(async () => {
   for (const pipeline of opened.splice(0)) await pipeline.close();
 });
-
-/** Puts a regular file where the (empty) folder `path` is, so creating anything in it fails (ENOTDIR), as root too. */
-function block(path: string): void {
-  rmSync(path, { recursive: true, force: true });
-  writeFileSync(path, 'a file where a folder belongs');
-}
-
-/** Makes `path` a folder again. */
-function unblock(path: string): void {
-  rmSync(path);
-  mkdirSync(path);
-}
 
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
@@ -72,7 +61,7 @@ describe('commits that fail for reasons outside the set', () => {
 
   it('holds a commit whose results folder is not writable and commits it once the folder is back, without a restart', async () => {
     const { pipeline, dir, paths, setState } = setup('results');
-    block(join(dir, 'results'));
+    blockFolder(join(dir, 'results'));
     let resultPath: string | undefined;
     pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
     expect(await pipeline.coordinator.intakeMany(paths)).toEqual([]);
@@ -81,7 +70,7 @@ describe('commits that fail for reasons outside the set', () => {
     expect(setState()).toBe('queued');
     expect(paths.every((p) => existsSync(p))).toBe(true);
     expect(pipeline.coordinator.pendingJobs).toBe(1); // the held outcome keeps its slot
-    unblock(join(dir, 'results'));
+    unblockFolder(join(dir, 'results'));
     await waitUntil('the retried commit', () => resultPath !== undefined);
     expect(existsSync(resultPath ?? '')).toBe(true);
     expect(setState()).toBe('done');
@@ -94,7 +83,7 @@ describe('commits that fail for reasons outside the set', () => {
 
   it('keeps a set done when its inputs cannot be archived, and repairMoves() archives them later', async () => {
     const { pipeline, dir, paths, setState } = setup('archive');
-    block(join(dir, 'archive'));
+    blockFolder(join(dir, 'archive'));
     let resultPath: string | undefined;
     pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
     await pipeline.coordinator.intakeMany(paths);
@@ -104,7 +93,7 @@ describe('commits that fail for reasons outside the set', () => {
     expect(setState()).toBe('done');
     expect(paths.every((p) => existsSync(p))).toBe(true);
     expect(pipeline.coordinator.repairMoves()).toMatchObject({ moved: 0, relocated: 0, failed: paths.length }); // still blocked: tried, nothing moved
-    unblock(join(dir, 'archive'));
+    unblockFolder(join(dir, 'archive'));
     expect(pipeline.coordinator.repairMoves().moved).toBe(paths.length);
     expect(paths.some((p) => existsSync(p))).toBe(false);
     const unplaced = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
@@ -132,14 +121,14 @@ describe('commits that fail for reasons outside the set', () => {
         writeFileSync(path, f.content);
         return path;
       });
-      block(join(dir, 'quarantine'));
+      blockFolder(join(dir, 'quarantine'));
       await coordinator.intakeMany(paths);
       await coordinator.tick(true);
       await coordinator.drain();
       expect((ledger.database.prepare(`SELECT state FROM sets`).get() as { state: string }).state).toBe('failed');
       expect(coordinator.counts.setsFailed).toBe(1);
       expect(paths.every((p) => existsSync(p))).toBe(true);
-      unblock(join(dir, 'quarantine'));
+      unblockFolder(join(dir, 'quarantine'));
       const repaired = coordinator.repairMoves();
       expect(repaired.moved).toBe(paths.length);
       expect(paths.some((p) => existsSync(p))).toBe(false);
@@ -153,7 +142,7 @@ describe('commits that fail for reasons outside the set', () => {
 
   it('drain() lets a held commit go: the set stays queued for the next start and nothing hangs', async () => {
     const { pipeline, dir, paths, setState } = setup('drain');
-    block(join(dir, 'results'));
+    blockFolder(join(dir, 'results'));
     await pipeline.coordinator.intakeMany(paths);
     await pipeline.coordinator.tick(true);
     await waitUntil('the held commit', () => pipeline.coordinator.heldCommitCount === 1);
