@@ -97,12 +97,8 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
     }
   }
   for (const { item: { result }, path, rejected } of committed) {
-    let movesFailed = archiveError;
-    try {
-      quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now);
-    } catch (error) {
-      movesFailed ??= error;
-    }
+    const quarantineError = errorOf(() => quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now));
+    const movesFailed = archiveError ?? quarantineError;
     outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length, ...(movesFailed === undefined ? {} : { movesFailed }) });
   }
   return items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') });
@@ -160,12 +156,8 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
     markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
     for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
-  try {
-    quarantineRejectedOwnFiles(ledger, config, setId, rejected, now);
-    return { files: rejected.length };
-  } catch (error) {
-    return { files: rejected.length, movesFailed: error };
-  }
+  const movesFailed = errorOf(() => quarantineRejectedOwnFiles(ledger, config, setId, rejected, now));
+  return { files: rejected.length, ...(movesFailed === undefined ? {} : { movesFailed }) };
 }
 
 /**
@@ -180,20 +172,29 @@ export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: s
       if (file.state !== 'rejected') setFileError(ledger, file.id, 'failed', failure, now);
     }
   });
-  try {
-    quarantineFailedFiles(ledger, config, setId, failure, now);
-    return undefined;
-  } catch (error) {
-    return error;
-  }
+  return errorOf(() => quarantineFailedFiles(ledger, config, setId, failure, now));
 }
 
-/** Quarantines the failed files of a set not yet moved (idempotent; used by recovery too). */
+/** The error a failed set's own files are quarantined with (SET_FAILED, naming the set's failure); recovery words it the same way. */
+export function setFailedError(setId: string, failure: { code: string; message: string; hint?: string }): InputRejected {
+  return new InputRejected('SET_FAILED', `set ${setId} failed: ${failure.code}: ${failure.message}`, failure.hint === undefined ? {} : { hint: failure.hint });
+}
+
+/** Quarantines the failed files of a set not yet moved (idempotent). */
 export function quarantineFailedFiles(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): void {
   for (const file of filesOfSet(ledger, setId)) {
     if (file.state !== 'failed' || file.quarantinePath !== null) continue;
-    const error = new InputRejected('SET_FAILED', `set ${setId} failed: ${failure.code}: ${failure.message}`, failure.hint === undefined ? {} : { hint: failure.hint });
-    rejectFile(ledger, config, file, error, now, 'failed', setId);
+    rejectFile(ledger, config, file, setFailedError(setId, failure), now, 'failed', setId);
+  }
+}
+
+/** Runs `work` and returns what it threw (undefined when it did not): for file moves that must not undo what the ledger already recorded. */
+function errorOf(work: () => void): unknown {
+  try {
+    work();
+    return undefined;
+  } catch (error) {
+    return error;
   }
 }
 

@@ -18,6 +18,7 @@ import type { Ledger } from '../store/ledger.js';
 import { filesAwaitingMove, setFileLocation, type FileRecord } from '../store/files.js';
 import { numberedName } from '../output/dated-path.js';
 import { quarantineFolder } from '../output/quarantine.js';
+import { setFailedError } from './commit.js';
 import { archiveFolderOf, finishArchiveMove, rejectFile } from './intake.js';
 
 /** What recovery did: files moved now, moved files whose unrecorded location it found, and files it could not move now (with the first error). */
@@ -76,9 +77,9 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
   });
   for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) attempt(() => {
     if (existsSync(file.path)) {
-      // As quarantineFailedFiles words it for a failed set's files; a rejected file keeps its own code.
+      // A failed set's file is worded as the commit words it; a rejected file keeps its own code.
       const error = file.state === 'failed'
-        ? new InputRejected('SET_FAILED', `set ${file.setId ?? '?'} failed: ${file.errorCode ?? 'SET_FAILED'}: ${file.errorMessage ?? 'unknown reason'}`)
+        ? setFailedError(file.setId ?? '?', { code: file.errorCode ?? 'SET_FAILED', message: file.errorMessage ?? 'unknown reason' })
         : new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
       rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
       moved += 1;
