@@ -1,5 +1,6 @@
 // Outbox: corrected spectra (CSV, JCAMP-DX) and fitted decays produced by the analysis, written
 // atomically under outbox/YYYY-MM-DD/<setId>/ for downstream tools.
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomic } from './atomic-write.js';
 import { dayFolderName } from './dated-path.js';
@@ -14,6 +15,8 @@ export interface OutboxArtifact {
 /** Writes every artifact of a set (atomically; not fsynced: the result JSON is the durable record and outbox files are rewritten on a re-run); returns the paths written. */
 export function writeOutbox(outboxDir: string, setId: string, setCreatedAt: Date, artifacts: readonly OutboxArtifact[]): string[] {
   const dir = join(outboxDir, dayFolderName(setCreatedAt), setId);
+  // The set's folder is new (or there from an earlier run): made first, so no write tries and fails.
+  if (artifacts.length > 0) mkdirSync(dir, { recursive: true });
   return artifacts.map((artifact) => {
     const path = join(dir, artifact.name.replace(/[/\\]/g, '_'));
     writeFileAtomic(path, artifact.content, { durable: false });

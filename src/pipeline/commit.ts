@@ -13,7 +13,7 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesOfSet, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
+import { filesOfSet, filesToArchive, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
 import { upsertResult } from '../store/results.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
 import { uniqueTarget } from '../output/dated-path.js';
@@ -126,8 +126,7 @@ function quarantineRejectedOwnFiles(ledger: Ledger, config: DriftlightConfig, se
 export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setIds: readonly string[], now: Date): Promise<void> {
   const moved: { id: number; target: string }[] = [];
   for (const setId of setIds) {
-    for (const file of filesOfSet(ledger, setId)) {
-      if (file.archivePath !== null || file.state !== 'done') continue;
+    for (const file of filesToArchive(ledger, setId)) {
       const target = uniqueTarget(archiveFolderOf(config, file), file.name);
       if (moveFile(file.path, target, { syncFolder: false })) moved.push({ id: file.id, target });
     }

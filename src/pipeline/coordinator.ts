@@ -12,7 +12,7 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobOutcome, JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
-import { advanceFilesOfSet, assembleRecordedFile, getFile, insertAssembledFile, insertFileId } from '../store/files.js';
+import { advanceFilesOfSet, assembleRecordedFile, filesOfSet, getFile, insertAssembledFile, insertFileId, type FileRecord } from '../store/files.js';
 import { deleteOpenSet, getSet, insertPairing, insertSet, markSetQueued } from '../store/sets.js';
 import { classifyFile, makeSetId, partsPresent, placeFile, setReadiness, type AssemblyRules } from './assemble.js';
 import { commitFailure, commitResults, commitUnreadableSet, type CommitItem } from './commit.js';
@@ -369,7 +369,7 @@ export class Coordinator {
   private async dispatchReady(sets: readonly OpenSet[], now: Date, force = false): Promise<void> {
     if (this.holdDispatch && !force) return;
     const empty: OpenSet[] = [];
-    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[] }[] = [];
+    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[]; own?: FileRecord[] }[] = [];
     for (const set of sets) {
       if (this.openSets.get(set.id) !== set) continue;
       if (set.files.length === 0 && set.manifest === undefined) {
@@ -393,7 +393,8 @@ export class Coordinator {
       for (const set of empty) deleteOpenSet(this.ledger, set.id);
       for (const entry of chosen) {
         const { set } = entry;
-        const { pairings } = choosePairings(this.ledger, this.config, this.rules, set, partsPresent(toView(set).files), now);
+        entry.own = filesOfSet(this.ledger, set.id);
+        const { pairings } = choosePairings(this.ledger, this.config, this.rules, set, partsPresent(toView(set).files), now, entry.own);
         for (const pairing of pairings) insertPairing(this.ledger, pairing);
         markSetQueued(this.ledger, set.id, set.id, now);
         advanceFilesOfSet(this.ledger, set.id, 'assembled', 'queued', now);
@@ -405,8 +406,8 @@ export class Coordinator {
       this.openSets.delete(set.id);
       this.logger.info({ setId: set.id, reason, missing, paired }, 'set dispatched');
     }
-    for (const { set } of chosen) {
-      await this.enqueue(set.id);
+    for (const { set, own } of chosen) {
+      await this.enqueue(set.id, set.id, own);
       for (const f of set.files) this.contents.delete(f.fileId);
     }
   }
@@ -415,15 +416,17 @@ export class Coordinator {
    * Builds the payload of a set from the ledger and enqueues it (also used by recovery and reprocess).
    * When an input is gone (INPUT_MISSING) a set's first run fails with that reason and its remaining
    * files are quarantined, instead of stopping the pipeline; a re-run (`jobId` ≠ `setId`) leaves the
-   * set as it was. Returns undefined when enqueued, else why not.
+   * set as it was. `ownFiles`: the set's own files when the caller has just read them. Returns
+   * undefined when enqueued, else why not.
    */
-  async enqueue(setId: string, jobId: string = setId): Promise<string | undefined> {
+  async enqueue(setId: string, jobId: string = setId, ownFiles?: readonly FileRecord[]): Promise<string | undefined> {
     let payload: AnalysisJobPayload;
     try {
       payload = buildPayload({
         ledger: this.ledger, config: this.config, configHash: this.hash, softwareVersion: this.softwareVersion, rules: this.rules,
         ...(this.detectorCurve === undefined ? {} : { detectorCurve: this.detectorCurve }), now: this.clock(),
         contentOf: (file) => this.contents.take(file.id),
+        ...(ownFiles === undefined ? {} : { ownFiles }),
       }, setId);
     } catch (error) {
       if (!(error instanceof InputRejected) || error.code !== 'INPUT_MISSING') throw error;

@@ -7,7 +7,7 @@ import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
 import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRecord } from '../store/files.js';
+import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRecord, type PairingFile } from '../store/files.js';
 import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
@@ -15,16 +15,16 @@ import { analysisSettingsFrom } from './settings.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
 
-function measuredAt(file: FileRecord): Date {
+function measuredAt(file: PairingFile): Date {
   const acquired = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
   return new Date(Number.isFinite(acquired) ? acquired : Date.parse(file.firstSeenAt));
 }
 
-function toCandidate(file: FileRecord): PairingCandidate {
+function toCandidate(file: PairingFile): PairingCandidate {
   return { fileId: file.id, setId: file.setId, sampleId: file.sampleId, measuredAt: measuredAt(file) };
 }
 
-/** Parts to borrow for a set and the required parts that stay missing (with reasons). */
+/** Parts to borrow for a set and the required parts that stay missing (with reasons); `own` is the set's own files when the caller has already read them. */
 export function choosePairings(
   ledger: Ledger,
   config: DriftlightConfig,
@@ -32,11 +32,12 @@ export function choosePairings(
   set: { id: string; sampleId: string; role: MeasurementRole },
   present: ReadonlySet<SetPart>,
   now: Date,
+  own: readonly FileRecord[] = filesOfSet(ledger, set.id),
 ): { pairings: PairingRecord[]; missing: { part: SetPart; reason: string }[] } {
   const pairings: PairingRecord[] = [];
   const windows = config.assembly.pairingWindowHours;
-  const referenceTime = setMeasuredAt(ledger, set.id) ?? now;
-  const borrow = (part: SetPart, candidates: FileRecord[], windowHours: number, sameSample = false): boolean => {
+  const referenceTime = setMeasuredAt(own) ?? now;
+  const borrow = (part: SetPart, candidates: readonly PairingFile[], windowHours: number, sameSample = false): boolean => {
     const chosen = choosePairing(candidates.map(toCandidate), referenceTime, windowHours, { excludeSetId: set.id, ...(sameSample ? { sampleId: set.sampleId } : {}) });
     if (chosen === undefined) return false;
     pairings.push({ setId: set.id, part, fileId: chosen.fileId, fromSetId: chosen.setId });
@@ -73,10 +74,10 @@ export function choosePairings(
   return { pairings, missing };
 }
 
-/** When a set was measured: the earliest acquisition time of its own files, if any says. */
-function setMeasuredAt(ledger: Ledger, setId: string): Date | undefined {
+/** When a set was measured: the earliest acquisition time of its own files (`own`), if any says. */
+function setMeasuredAt(own: readonly FileRecord[]): Date | undefined {
   let earliest: number | undefined;
-  for (const file of filesOfSet(ledger, setId)) {
+  for (const file of own) {
     const t = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
     if (Number.isFinite(t) && (earliest === undefined || t < earliest)) earliest = t;
   }
@@ -149,6 +150,8 @@ export interface PayloadContext {
   readonly now: Date;
   /** The bytes of an own file read at intake, if still held (see ContentCache); else the file is read from disk. */
   readonly contentOf?: (file: FileRecord) => Uint8Array | undefined;
+  /** The set's own files when the caller has just read them (the dispatch transaction), else they are read here. */
+  readonly ownFiles?: readonly FileRecord[];
 }
 
 /** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts); throws InputRejected INPUT_MISSING when an input is gone. */
@@ -158,7 +161,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   if (set === undefined) throw new Error(`ledger: set ${setId} does not exist`);
   const manifest = set.manifestJson === null ? undefined : (JSON.parse(set.manifestJson) as StoredManifest).manifest;
   const files: PayloadFile[] = [];
-  const own = filesOfSet(ledger, setId);
+  const own = context.ownFiles ?? filesOfSet(ledger, setId);
   for (const file of own) {
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
     const held = context.contentOf?.(file);

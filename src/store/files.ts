@@ -117,6 +117,17 @@ export function filesOfSet(ledger: Ledger, setId: string): FileRecord[] {
   return (ledger.prepare('SELECT * FROM files WHERE set_id = ? ORDER BY id').all(setId) as FileRow[]).map(toRecord);
 }
 
+/** A done own file of a set still waiting for its archive move: only what the move needs. */
+export type FileToArchive = Pick<FileRecord, 'id' | 'path' | 'name' | 'firstSeenAt'>;
+
+/** SQL of filesToArchive (index files_set; exported for the query-plan test). */
+export const FILES_TO_ARCHIVE_SQL = `SELECT id, path, name, first_seen_at AS firstSeenAt FROM files WHERE set_id = ? AND state = 'done' AND archive_path IS NULL ORDER BY id`;
+
+/** The done own files of a set not yet moved to the archive, oldest first (the commit's archive moves; fewer columns than filesOfSet). */
+export function filesToArchive(ledger: Ledger, setId: string): FileToArchive[] {
+  return ledger.prepare(FILES_TO_ARCHIVE_SQL).all(setId) as FileToArchive[];
+}
+
 /** Stores the classification of a file read successfully. */
 export function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
   ledger
@@ -186,19 +197,24 @@ export function setFileLocation(ledger: Ledger, id: number, where: { archivePath
   }
 }
 
-/** SQL of pairingCandidates (walks index files_part_seen newest first; exported for the query-plan test). */
-export const PAIRING_CANDIDATES_SQL = `SELECT * FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;
+/** What pairing needs of a candidate file: who it is, whose set it belongs to, and when it was measured (acquiredAt, else firstSeenAt). */
+export type PairingFile = Pick<FileRecord, 'id' | 'setId' | 'sampleId' | 'acquiredAt' | 'firstSeenAt'>;
+
+const PAIRING_COLUMNS = 'id, set_id AS setId, sample_id AS sampleId, acquired_at AS acquiredAt, first_seen_at AS firstSeenAt';
+
+/** SQL of pairingCandidates (walks index files_part_seen newest first; exported for the query-plan test). Only the columns pairing uses: up to `limit` rows are read per dispatch. */
+export const PAIRING_CANDIDATES_SQL = `SELECT ${PAIRING_COLUMNS} FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;
 
 /** Pairing candidates: the newest `limit` files of `part` (by first seen) not rejected; the caller filters by measurement time. */
-export function pairingCandidates(ledger: Ledger, part: string, limit = 200): FileRecord[] {
-  return (ledger.prepare(PAIRING_CANDIDATES_SQL).all(part, limit) as FileRow[]).map(toRecord);
+export function pairingCandidates(ledger: Ledger, part: string, limit = 200): PairingFile[] {
+  return ledger.prepare(PAIRING_CANDIDATES_SQL).all(part, limit) as PairingFile[];
 }
 
 /** SQL of decayIrfCandidates (the partial index files_irf_decays, named because the planner would otherwise walk every decay). */
-export const DECAY_IRF_CANDIDATES_SQL = `SELECT * FROM files INDEXED BY files_irf_decays WHERE part = 'decay' AND has_irf_column = 1
+export const DECAY_IRF_CANDIDATES_SQL = `SELECT ${PAIRING_COLUMNS} FROM files INDEXED BY files_irf_decays WHERE part = 'decay' AND has_irf_column = 1
   AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;
 
 /** Decay files that carry their own IRF column (usable as an IRF), newest first. */
-export function decayIrfCandidates(ledger: Ledger, limit = 200): FileRecord[] {
-  return (ledger.prepare(DECAY_IRF_CANDIDATES_SQL).all(limit) as FileRow[]).map(toRecord);
+export function decayIrfCandidates(ledger: Ledger, limit = 200): PairingFile[] {
+  return ledger.prepare(DECAY_IRF_CANDIDATES_SQL).all(limit) as PairingFile[];
 }

@@ -1,7 +1,7 @@
 // The ledger on real SQLite: WAL mode, migrations applied once and extensible, file/set states, status.
 import { describe, expect, it } from 'vitest';
 import {
-  applyMigrations, DECAY_IRF_CANDIDATES_SQL, filesAwaitingMoveSql, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone,
+  applyMigrations, DECAY_IRF_CANDIDATES_SQL, FILES_TO_ARCHIVE_SQL, filesAwaitingMoveSql, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone,
   markSetQueued, MIGRATIONS, openLedger, PAIRING_CANDIDATES_SQL, RECENT_REFERENCE_SETS_SQL, setFileState, setsInState,
 } from '../../../src/store/index.js';
 import { tempDir } from '../../helpers/temp-dir.js';
@@ -50,6 +50,8 @@ describe('ledger', () => {
     expect(plan(DECAY_IRF_CANDIDATES_SQL, 200)).toMatch(/^SCAN files USING INDEX files_irf_decays$/);
     expect(plan(RECENT_REFERENCE_SETS_SQL, 'x', 50)).toMatch(/^SEARCH sets USING INDEX sets_role_created \(role=\?\)$/);
     expect(plan(filesAwaitingMoveSql(1), 'done')).toMatch(/^SEARCH files USING INDEX files_unplaced \(state=\?\)$/);
+    // Not files_state: every done file of months would match state = 'done'.
+    expect(plan(FILES_TO_ARCHIVE_SQL, 'x-aaaa')).toMatch(/^SEARCH files USING INDEX files_set \(set_id=\?\)$/);
     ledger.close();
   });
 
