@@ -1,9 +1,9 @@
 // The worker-thread side of the task pool: loads the processor module once per thread and runs one
-// payload, returning plain data. Errors never cross the thread boundary as exceptions (their code,
+// payload (or each payload of a BatchTask, in order), returning plain data. Errors never cross the thread boundary as exceptions (their code,
 // hint and permanence would be lost); they come back as a JobFailure instead.
 import { workerData } from 'node:worker_threads';
 import { toJobFailure } from './job-failure.js';
-import type { TaskResult } from './task-result.js';
+import { isBatchTask, type TaskResult } from './task-result.js';
 
 type Processor = (payload: unknown) => unknown;
 
@@ -21,7 +21,7 @@ async function loadProcessor(): Promise<Processor> {
 }
 
 /** Runs one payload through the processor; never throws. */
-export default async function runPoolTask(payload: unknown): Promise<TaskResult> {
+async function runOne(payload: unknown): Promise<TaskResult> {
   try {
     processorPromise ??= loadProcessor();
     const processor = await processorPromise;
@@ -29,4 +29,12 @@ export default async function runPoolTask(payload: unknown): Promise<TaskResult>
   } catch (error) {
     return { ok: false, failure: toJobFailure(error) };
   }
+}
+
+/** Runs one payload, or each payload of a BatchTask in order (one result each: a failure stays that payload's own); never throws. */
+export default async function runPoolTask(task: unknown): Promise<TaskResult | TaskResult[]> {
+  if (!isBatchTask(task)) return runOne(task);
+  const results: TaskResult[] = [];
+  for (const payload of task.payloads) results.push(await runOne(payload));
+  return results;
 }

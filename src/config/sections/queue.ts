@@ -18,7 +18,7 @@ export const queueSection = z
     backoffMs: z.number().int().min(0).default(D.backoffMs)
       .describe(`First retry delay in ms, doubled at each further attempt. Default: ${D.backoffMs}`),
     jobTimeoutMs: z.number().int().min(100).default(D.jobTimeoutMs)
-      .describe(`Per-job time limit in ms. Default: ${D.jobTimeoutMs}`),
+      .describe(`Per-job time limit in ms (in-process: a share of waiting jobs handed to one thread together gets the sum of theirs). Default: ${D.jobTimeoutMs}`),
     redisUrl: z.string().min(1).default(D.redisUrl)
       .describe(`Redis connection URL (bullmq backend; \`--redis URL\` overrides it). Default: ${D.redisUrl}`),
     prefix: z.string().min(1).default(D.prefix).describe(`Redis key prefix (bullmq). Default: ${D.prefix}`),

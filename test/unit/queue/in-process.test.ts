@@ -1,5 +1,8 @@
 // The JobQueue contract against the in-process (worker-thread) backend, plus its own behaviour.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { tempDir } from '../../helpers/temp-dir.js';
 import { createJobQueue, resolveQueueOptions } from '../../../src/queue/index.js';
 import { COMPUTE_PROCESSOR, describeJobQueueContract, outcomeRecorder, type ComputePayload, type ComputeResult } from './contract.js';
 
@@ -41,6 +44,45 @@ describe('in-process backend', () => {
     await queue.close();
     expect(recorder.byId.get('x')).toMatchObject({ status: 'completed' });
     expect(lines.join('')).toContain('job outcome listener failed');
+  });
+
+  it('hands a backlog out in shares: a share over its time limit costs none of its jobs an attempt, and each then runs alone under its own limit', async () => {
+    // One thread: 'first' runs alone (nothing else waits yet); the next three go as one share with
+    // 3 × 400 ms, which 'hang' (a 3 s spin) overruns. Each of the three then runs alone: 'hang' fails
+    // with JOB_TIMEOUT after its one attempt, the other two complete on their first counted attempt.
+    const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, attempts: 1, jobTimeoutMs: 400 });
+    const recorder = outcomeRecorder();
+    queue.onOutcome(recorder.listener);
+    const logFile = join(tempDir('dl-share-'), 'starts.log');
+    await queue.enqueue('first', { id: 'first', n: 1, sleepMs: 100, logFile });
+    await queue.enqueue('before', { id: 'before', n: 2, logFile });
+    await queue.enqueue('hang', { id: 'hang', n: 3, spinMs: 3_000, logFile });
+    await queue.enqueue('after', { id: 'after', n: 4, logFile });
+    await queue.drain();
+    await queue.close();
+    const starts = readFileSync(logFile, 'utf8').split('\n').filter((line) => line.includes(' start ')).map((line) => line.split(' ')[0]);
+    // In the share: before, hang (stopped there); then each alone.
+    expect(starts).toEqual(['first', 'before', 'hang', 'before', 'hang', 'after']);
+    expect(recorder.byId.get('first')).toMatchObject({ status: 'completed', attempts: 1, value: { square: 1 } });
+    expect(recorder.byId.get('before')).toMatchObject({ status: 'completed', attempts: 1, value: { square: 4 } });
+    expect(recorder.byId.get('after')).toMatchObject({ status: 'completed', attempts: 1, value: { square: 16 } });
+    expect(recorder.byId.get('hang')).toMatchObject({ status: 'failed', attempts: 1, failure: { code: 'JOB_TIMEOUT', permanent: false } });
+    expect([...recorder.deliveries.values()].every((n) => n === 1)).toBe(true);
+  });
+
+  it('keeps each job of a share its own outcome: a permanent failure in the middle fails that job only', async () => {
+    const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, attempts: 3, backoffMs: 10 });
+    const recorder = outcomeRecorder();
+    queue.onOutcome(recorder.listener);
+    await queue.enqueue('lead', { id: 'lead', n: 1, sleepMs: 100 });
+    for (let n = 2; n <= 5; n += 1) await queue.enqueue(`j-${n}`, n === 3 ? { id: `j-${n}`, n, fail: 'permanent-code' } : { id: `j-${n}`, n });
+    const during = await queue.stats();
+    await queue.drain();
+    await queue.close();
+    // While 'lead' runs alone, the four others wait.
+    expect(during).toMatchObject({ active: 1, waiting: 4 });
+    expect(recorder.byId.get('j-3')).toMatchObject({ status: 'failed', attempts: 1, failure: { code: 'NON_NUMERIC', permanent: true } });
+    for (const n of [2, 4, 5]) expect(recorder.byId.get(`j-${n}`)).toMatchObject({ status: 'completed', attempts: 1, value: { square: n * n } });
   });
 
   it('reports a crashed worker thread as a transient WORKER_LOST failure', async () => {
