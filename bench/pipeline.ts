@@ -2,7 +2,8 @@
 // sets of emission + absorbance + decay + IRF through the embedded default (watcher, in-process
 // worker-thread pool, SQLite ledger); bare analyze() throughput for the ratio; and a 10,000-file
 // backlog present at start-up with peak RSS. The measured burst runs through a pipeline warmed by
-// an earlier burst of as many sets (reported as the cold figures), as bare analyze() is JIT-warmed. Run: `npm run build && node dist/bench/pipeline.js`
+// an earlier burst of as many sets (reported as the cold figures), as bare analyze() is JIT-warmed;
+// bare analyze() is measured in rounds just before and just after the measured burst. Run: `npm run build && node dist/bench/pipeline.js`
 // (options: --sets N, --backlog-files N, --skip-backlog, --skip-tcspc, --keep-workspaces,
 // --backlog-only [--backlog-dir DIR]). Workspaces are removed after each scenario unless kept.
 import { spawnSync } from 'node:child_process';
@@ -22,6 +23,7 @@ import { moveFile } from '../src/output/move-file.js';
 import { buildPayload } from '../src/pipeline/dispatch.js';
 import { batchStableFiles } from '../src/pipeline/intake-batcher.js';
 import { ANALYZE_PROCESSOR_URL, openPipeline, type Pipeline } from '../src/pipeline/runtime.js';
+import { MAX_JOBS_PER_TASK } from '../src/queue/in-process.js';
 import { createTaskPool } from '../src/queue/task-pool.js';
 import { watchInbox } from '../src/pipeline/watcher.js';
 import { softwareVersion } from '../src/cli/version.js';
@@ -34,7 +36,7 @@ const argValue = (name: string, fallback: number): number => {
 const SETS = argValue('--sets', 1000);
 const BACKLOG_FILES = argValue('--backlog-files', 10_000);
 const STABILITY_MS = 200;
-/** Rounds of the bare analyze() measurement (their mean is the baseline). */
+/** Rounds of the bare analyze() measurement on each side of the measured burst (the mean of all is the baseline). */
 const BARE_ROUNDS = 3;
 /**
  * Sets run through a fresh pipeline before the measured burst (reported as the cold burst), so the
@@ -204,7 +206,24 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
   const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
   const stop = await startWatching(pipeline);
   const cold = await timedBurst(pipeline, warmupFiles, 'warm-', 0);
+
+  // Bare analyze(): payloads of the same shape (the warm-up sets), one thread, no I/O; JIT warmed
+  // first, then BARE_ROUNDS rounds before the measured burst and BARE_ROUNDS after it. The ratio
+  // uses the mean of all of them: this shared machine's speed drifts by ±25 % within minutes, and
+  // rounds on one side of the burst only would carry that drift into the ratio.
+  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets WHERE sample_id LIKE 'warm-%' ORDER BY id LIMIT 250`).all() as { id: string }[]).map((r) => r.id);
+  const rules = { fileNamePatterns: [], referencePatterns: [], controlPatterns: [], requiredParts: burst.config.assembly.requiredParts, referenceRequiredParts: burst.config.assembly.referenceRequiredParts, setTimeoutMs: 0 };
+  const payloads = setIds.map((id) => buildPayload({ ledger: pipeline.ledger, config: burst.config, configHash: '0'.repeat(64), softwareVersion: softwareVersion(), rules, now: new Date() }, id));
+  for (const payload of payloads.slice(0, 50)) analyze(payload);
+  const measured = payloads.slice(50);
+  const bareRounds = (): number[] => Array.from({ length: BARE_ROUNDS }, () => {
+    const b0 = performance.now();
+    for (const payload of measured) analyze(payload);
+    return measured.length / ((performance.now() - b0) / 1000);
+  });
+  const roundsBefore = bareRounds();
   const warm = await timedBurst(pipeline, files, 'bench-', warmupSets);
+  const roundsAfter = bareRounds();
   const pipelineSetsPerS = warm.setsPerS;
   const decay = { decayChannels: DECAY_SHAPES[shape].channels };
   emit({
@@ -212,34 +231,24 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
     processCpuMsPerSet: Number((warm.cpu.processMs / sets).toFixed(2)), mainThreadCpuMsPerSet: warm.cpu.mainThreadMs === undefined ? null : Number((warm.cpu.mainThreadMs / sets).toFixed(2)),
     warmupSets, coldSetsPerS: Number(cold.setsPerS.toFixed(2)), coldProcessCpuMsPerSet: Number((cold.cpu.processMs / warmupSets).toFixed(2)), fsCreateUsPerFile: Number(fsCreateUsPerFile.toFixed(1)),
   });
-
-  // Bare analyze(): the same payloads, one thread, no I/O; JIT warmed first, then BARE_ROUNDS rounds
-  // (their mean), so a passing slowdown of this shared machine weighs less in the ratio.
-  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets ORDER BY id LIMIT 250`).all() as { id: string }[]).map((r) => r.id);
-  const rules = { fileNamePatterns: [], referencePatterns: [], controlPatterns: [], requiredParts: burst.config.assembly.requiredParts, referenceRequiredParts: burst.config.assembly.referenceRequiredParts, setTimeoutMs: 0 };
-  const payloads = setIds.map((id) => buildPayload({ ledger: pipeline.ledger, config: burst.config, configHash: '0'.repeat(64), softwareVersion: softwareVersion(), rules, now: new Date() }, id));
-  for (const payload of payloads.slice(0, 50)) analyze(payload);
-  const measured = payloads.slice(50);
-  const rounds: number[] = [];
-  for (let round = 0; round < BARE_ROUNDS; round++) {
-    const b0 = performance.now();
-    for (const payload of measured) analyze(payload);
-    rounds.push(measured.length / ((performance.now() - b0) / 1000));
-  }
+  const rounds = [...roundsBefore, ...roundsAfter];
   const bareSetsPerS = rounds.reduce((a, b) => a + b, 0) / rounds.length;
   // The fits alone through the same worker-thread pool (no ledger, files or watcher): what the
-  // analysis can do with these threads on this machine.
+  // analysis can do with these threads on this machine. Payloads go MAX_JOBS_PER_TASK to a task, as
+  // the in-process queue hands them out under a backlog.
   const pool = createTaskPool({ processorHref: ANALYZE_PROCESSOR_URL.href, concurrency: burst.config.queue.concurrency, jobTimeoutMs: 60_000 });
+  const runAll = (all: readonly unknown[]): Promise<unknown> =>
+    Promise.all(Array.from({ length: Math.ceil(all.length / MAX_JOBS_PER_TASK) }, (_u, k) => pool.runBatch(all.slice(k * MAX_JOBS_PER_TASK, (k + 1) * MAX_JOBS_PER_TASK))));
   // Warmed like the pipeline's threads (each thread JIT-compiles the analysis on its own).
-  for (let round = 0; round < 3; round++) await Promise.all(payloads.map((payload) => pool.run(payload)));
+  for (let round = 0; round < 3; round++) await runAll(payloads);
   const p0 = performance.now();
   const poolCpu0 = cpuNow();
-  await Promise.all([...measured, ...measured].map((payload) => pool.run(payload)));
+  await runAll([...measured, ...measured]);
   const poolSetsPerS = (2 * measured.length) / ((performance.now() - p0) / 1000);
   const poolCpuMsPerSet = cpuSince(poolCpu0).processMs / (2 * measured.length);
   await pool.close();
   emit({
-    scenario: 'bare-analyze', ...decay, sets: measured.length, rounds: rounds.map((r) => Number(r.toFixed(1))),
+    scenario: 'bare-analyze', ...decay, sets: measured.length, roundsBeforeBurst: roundsBefore.map((r) => Number(r.toFixed(1))), roundsAfterBurst: roundsAfter.map((r) => Number(r.toFixed(1))),
     setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
     poolThreads: burst.config.queue.concurrency, setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)), ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
     poolCpuMsPerSet: Number(poolCpuMsPerSet.toFixed(2)),
