@@ -11,6 +11,8 @@ import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRe
 import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
+import { archiveFolderOf } from './intake.js';
+import { findMovedCopy } from './recovery.js';
 import { analysisSettingsFrom } from './settings.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
@@ -114,13 +116,20 @@ export function decodeText(bytes: Uint8Array): string {
   }
 }
 
-/** The text of a recorded input where it is now; INPUT_MISSING when it is no longer there (moved or deleted by hand). */
-function readInput(file: FileRecord): string {
+/**
+ * The text of a recorded input where it is now; INPUT_MISSING when it is no longer there (moved or
+ * deleted by hand). A done file not at its recorded place may be in the middle of its archive move
+ * (moved, the record of where not yet written, as a commit running at the same moment leaves it), so
+ * its archive folder is searched for the copy with its sha256 (findMovedCopy) before giving up.
+ */
+function readInput(config: DriftlightConfig, file: FileRecord): string {
   const location = currentLocation(file);
   try {
     return readText(location);
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error;
+    const moved = file.archivePath === null && file.quarantinePath === null ? findMovedCopy(archiveFolderOf(config, file), file) : undefined;
+    if (moved !== undefined) return readText(moved);
     throw new InputRejected('INPUT_MISSING', `${file.name} is no longer at ${location}`, { file: file.name });
   }
 }
@@ -165,7 +174,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   for (const file of own) {
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
     const held = context.contentOf?.(file);
-    const content = held === undefined ? readInput(file) : decodeText(held);
+    const content = held === undefined ? readInput(config, file) : decodeText(held);
     files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content });
   }
   let referenceSetId: string | undefined;
@@ -175,7 +184,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     if (pairing.part === 'reference-emission') referenceSetId = pairing.fromSetId ?? undefined;
     files.push({
       name: file.name, sha256: file.sha256, part: pairing.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'paired',
-      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readInput(file),
+      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readInput(config, file),
     });
   }
   if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve')) files.push(context.detectorCurve);
