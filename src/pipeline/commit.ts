@@ -1,7 +1,9 @@
 // Committing finished jobs, in the order that makes a crash at any moment recoverable:
 // result JSONs (atomic, fsynced) → outbox files → ledger transaction (sets done, results index,
-// files done; durable: the WAL is fsynced before any file moves) → archive moves (recorded).
-// Jobs finishing together are committed as one batch.
+// files done; durable: the WAL is fsynced before any file moves) → archive moves, whose new paths
+// are recorded in the next batch's transaction (or on their own when no batch follows at once).
+// Jobs finishing together are committed as one batch. Until a move is recorded, dispatch finds the
+// moved copy by its sha256 (dispatch.ts readInput), and so does recovery after a crash.
 // A failed set's files go to quarantine with the reason, and so do own files the worker's readers
 // rejected (the set's result then reports that part missing).
 import { createHash } from 'node:crypto';
@@ -38,15 +40,30 @@ export type CommitItemOutcome =
   | { readonly ok: true; readonly setId: string; readonly path: string; readonly filesRejected: number; readonly movesFailed?: unknown }
   | { readonly ok: false; readonly setId: string; readonly error: unknown };
 
+/** An archive move done and not yet recorded in the ledger: the file's id and where it went. */
+export interface ArchivedFile {
+  readonly id: number;
+  readonly archivePath: string;
+}
+
+/** What commitResults did: one outcome per item, and the archive moves it made, which the caller records later (earlierMoves of the next call, or recordArchiveMoves). */
+export interface CommitBatchResult {
+  readonly outcomes: CommitItemOutcome[];
+  readonly unrecordedMoves: ArchivedFile[];
+}
+
 /**
  * Commits a batch of finished sets (group commit): result JSONs written in parallel, one fsync per
- * result folder, outbox files, one ledger transaction for every set, archive moves with one fsync
- * per archive folder and one transaction recording them, then own files the worker rejected go to
- * quarantine. An item whose result or outbox cannot be written is not committed (the caller keeps
- * it queued) without holding back the others. Moves that fail once the ledger says done do not undo
- * the commit: the item reports them in `movesFailed` and recoverMoves() finishes them later.
+ * result folder, outbox files, one ledger transaction for every set (which also records
+ * `earlierMoves`, the archive moves of earlier batches), archive moves with one fsync per archive
+ * folder, then own files the worker rejected go to quarantine. The new archive moves come back
+ * unrecorded (with `earlierMoves` when no transaction ran): one transaction fewer per batch. An item
+ * whose result or outbox cannot be written is not committed (the caller keeps it queued) without
+ * holding back the others. Moves that fail once the ledger says done do not undo the commit: the
+ * item reports them in `movesFailed` and recoverMoves() finishes them later. Throws only when the
+ * ledger transaction fails (rolled back: nothing of it, `earlierMoves` included, was recorded).
  */
-export async function commitResults(ledger: Ledger, config: DriftlightConfig, items: readonly CommitItem[], now: Date): Promise<CommitItemOutcome[]> {
+export async function commitResults(ledger: Ledger, config: DriftlightConfig, items: readonly CommitItem[], now: Date, earlierMoves: readonly ArchivedFile[] = []): Promise<CommitBatchResult> {
   const outcomes = new Map<string, CommitItemOutcome>();
   const written = await Promise.all(items.map(async (item) => {
     const setId = item.result.setId;
@@ -74,6 +91,7 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   }
   if (committed.length > 0) {
     ledger.durableTransaction(() => {
+      recordMoves(ledger, earlierMoves, now);
       for (const { item: { result }, path, sha256, rejected } of committed) {
         markSetDone(ledger, result.setId, path, result.partial, now);
         upsertResult(ledger, {
@@ -89,9 +107,10 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
     });
   }
   let archiveError: unknown;
+  const unrecordedMoves: ArchivedFile[] = committed.length > 0 ? [] : [...earlierMoves];
   if (committed.length > 0) {
     try {
-      await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), now);
+      await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), unrecordedMoves);
     } catch (error) {
       archiveError = error;
     }
@@ -101,7 +120,10 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
     const movesFailed = archiveError ?? quarantineError;
     outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length, ...(movesFailed === undefined ? {} : { movesFailed }) });
   }
-  return items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') });
+  return {
+    outcomes: items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') }),
+    unrecordedMoves,
+  };
 }
 
 /** Among a set's own files (`files`), those still in the inbox that the worker's readers rejected, each with its reason. */
@@ -122,17 +144,36 @@ function quarantineRejectedOwnFiles(ledger: Ledger, config: DriftlightConfig, se
   }
 }
 
-/** Moves every own file of the done sets `setIds` still in the inbox to archive/YYYY-MM-DD/ (idempotent), with one fsync per archive folder and one transaction recording the moves. */
-export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setIds: readonly string[], now: Date): Promise<void> {
-  const moved: { id: number; target: string }[] = [];
-  for (const setId of setIds) {
-    for (const file of filesToArchive(ledger, setId)) {
-      const target = uniqueTarget(archiveFolderOf(config, file), file.name);
-      if (moveFile(file.path, target, { syncFolder: false })) moved.push({ id: file.id, target });
+/**
+ * Moves every own file of the done sets `setIds` still in the inbox to archive/YYYY-MM-DD/, with one
+ * fsync per archive folder, and appends each move to `moved` as it happens (so a move made before a
+ * later one fails is not lost); the caller records them (recordArchiveMoves, or the next commit).
+ */
+export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setIds: readonly string[], moved: ArchivedFile[]): Promise<void> {
+  const folders = new Set<string>();
+  try {
+    for (const setId of setIds) {
+      for (const file of filesToArchive(ledger, setId)) {
+        const target = uniqueTarget(archiveFolderOf(config, file), file.name);
+        if (moveFile(file.path, target, { syncFolder: false })) {
+          moved.push({ id: file.id, archivePath: target });
+          folders.add(dirname(target));
+        }
+      }
     }
+  } finally {
+    await Promise.all([...folders].map((dir) => fsyncDirectoryAsync(dir)));
   }
-  await Promise.all([...new Set(moved.map((m) => dirname(m.target)))].map((dir) => fsyncDirectoryAsync(dir)));
-  if (moved.length > 0) ledger.transaction(() => { for (const m of moved) setFileLocation(ledger, m.id, { archivePath: m.target }, now); });
+}
+
+/** Records archive moves in the ledger, in the caller's transaction. */
+function recordMoves(ledger: Ledger, moves: readonly ArchivedFile[], now: Date): void {
+  for (const m of moves) setFileLocation(ledger, m.id, { archivePath: m.archivePath }, now);
+}
+
+/** Records archive moves that no commit has recorded yet, in one transaction. */
+export function recordArchiveMoves(ledger: Ledger, moves: readonly ArchivedFile[], now: Date): void {
+  if (moves.length > 0) ledger.transaction(() => recordMoves(ledger, moves, now));
 }
 
 /**

@@ -15,7 +15,7 @@ import type { Ledger } from '../store/ledger.js';
 import { advanceFilesOfSet, assembleRecordedFile, filesOfSet, getFile, insertAssembledFile, insertFileId, type FileRecord } from '../store/files.js';
 import { deleteOpenSet, getSet, insertPairing, insertSet, markSetQueued } from '../store/sets.js';
 import { classifyFile, makeSetId, partsPresent, placeFile, setReadiness, type AssemblyRules } from './assemble.js';
-import { commitFailure, commitResults, commitUnreadableSet, type CommitItem } from './commit.js';
+import { commitFailure, commitResults, commitUnreadableSet, recordArchiveMoves, type ArchivedFile, type CommitItem } from './commit.js';
 import { ContentCache } from './content-cache.js';
 import { buildPayload, choosePairings, readText } from './dispatch.js';
 import { intakeFile, type IntakeFile, type IntakeResult } from './intake.js';
@@ -131,6 +131,8 @@ export class Coordinator {
   private readonly contents = new ContentCache();
   /** Outcomes waiting for the next group commit. */
   private readonly commitBuffer: PendingCommit[] = [];
+  /** Archive moves made and not yet recorded: the next commit's transaction records them (one transaction fewer per batch), else runCommits on its way out. */
+  private readonly unrecordedMoves: ArchivedFile[] = [];
   private committing: Promise<void> | undefined;
   /** Outcomes whose commit failed, kept (in flight) until their retry (in-process queue only), by job id. */
   private readonly heldCommits = new Map<string, HeldCommit>();
@@ -202,6 +204,7 @@ export class Coordinator {
   repairMoves(): MoveRecovery {
     // A commit between its moves and the transaction recording them would look like lost records.
     if (this.committing !== undefined) return { moved: 0, relocated: 0, failed: 0 };
+    this.recordMovesNow();
     const moves = recoverMoves(this.ledger, this.config, this.clock());
     if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'repair: finished file moves that had failed');
     if (moves.failed > 0) this.logger.warn({ files: moves.failed, err: moves.firstError }, 'repair: files still cannot be moved out of the inbox; tried again later');
@@ -548,7 +551,19 @@ export class Coordinator {
         }
       }
     } finally {
+      this.recordMovesNow();
       this.committing = undefined;
+    }
+  }
+
+  /** Records the archive moves no commit has recorded yet (when no batch follows); a failure leaves them to the next commit, recovery and repair. */
+  private recordMovesNow(): void {
+    if (this.unrecordedMoves.length === 0) return;
+    try {
+      recordArchiveMoves(this.ledger, this.unrecordedMoves, this.clock());
+      this.unrecordedMoves.length = 0;
+    } catch (error) {
+      this.logger.error({ err: error, files: this.unrecordedMoves.length }, 'archive moves not recorded; the next commit records them, or the repair finds them');
     }
   }
 
@@ -594,9 +609,14 @@ export class Coordinator {
     }
     if (toCommit.length === 0) return;
     let outcomes;
+    const carried = this.unrecordedMoves.splice(0);
     try {
-      outcomes = await commitResults(this.ledger, this.config, toCommit.map((c) => c.item), now);
+      const done = await commitResults(this.ledger, this.config, toCommit.map((c) => c.item), now, carried);
+      outcomes = done.outcomes;
+      this.unrecordedMoves.push(...done.unrecordedMoves);
     } catch (error) {
+      // The transaction rolled back: the carried moves are still unrecorded.
+      this.unrecordedMoves.unshift(...carried);
       for (const { entry } of toCommit) entry.reject(error);
       return;
     }
