@@ -16,9 +16,9 @@ import type { TaskResult } from './task-result.js';
  * them (ready jobs / threads, rounded up) up to this many, so a backlog costs one message each way
  * per share instead of per job; with few jobs waiting (steady arrivals) every job goes alone and no
  * outcome waits for another job. Each job keeps its own attempt, outcome and time limit (a share's
- * limit is the sum of its jobs'). bench/pipeline, 1,000-set burst on the 2-core machine: 4 per task
- * took the main thread's CPU from 3.7–3.9 to 3.2–3.4 ms/set and the burst from 160–171 to
- * 182–184 sets/s.
+ * limit is the sum of its jobs'). Measured on the 2-core machine, 1,000 sets of bench/pipeline's
+ * shape in a burst, workspace on tmpfs, two runs each: 4 per task took the main thread's CPU from
+ * 3.7–3.9 to 3.2–3.4 ms/set and the burst from 160–171 to 182–184 sets/s.
  */
 export const MAX_JOBS_PER_TASK = 4;
 
