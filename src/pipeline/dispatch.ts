@@ -11,8 +11,7 @@ import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRe
 import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
-import { archiveFolderOf } from './intake.js';
-import { findMovedCopy } from './recovery.js';
+import { findArchivedCopy } from './recovery.js';
 import { analysisSettingsFrom } from './settings.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
@@ -120,7 +119,7 @@ export function decodeText(bytes: Uint8Array): string {
  * The text of a recorded input where it is now; INPUT_MISSING when it is no longer there (moved or
  * deleted by hand). A done file not at its recorded place may be in the middle of its archive move
  * (moved, the record of where not yet written, as a commit running at the same moment leaves it), so
- * its archive folder is searched for the copy with its sha256 (findMovedCopy) before giving up.
+ * its archive folder is searched for the copy with its sha256 (findArchivedCopy) before giving up.
  */
 function readInput(config: DriftlightConfig, file: FileRecord): string {
   const location = currentLocation(file);
@@ -128,7 +127,7 @@ function readInput(config: DriftlightConfig, file: FileRecord): string {
     return readText(location);
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error;
-    const moved = file.archivePath === null && file.quarantinePath === null ? findMovedCopy(archiveFolderOf(config, file), file) : undefined;
+    const moved = file.archivePath === null && file.quarantinePath === null ? findArchivedCopy(config, file) : undefined;
     if (moved !== undefined) return readText(moved);
     throw new InputRejected('INPUT_MISSING', `${file.name} is no longer at ${location}`, { file: file.name });
   }

@@ -45,6 +45,11 @@ export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha2
   return undefined;
 }
 
+/** The archived copy of a done file whose archive path is not recorded: findMovedCopy in the archive folder the commit moved it to. */
+export function findArchivedCopy(config: DriftlightConfig, file: Pick<FileRecord, 'name' | 'sha256' | 'firstSeenAt'>): string | undefined {
+  return findMovedCopy(archiveFolderOf(config, file), file);
+}
+
 /**
  * Finishes archive and quarantine moves interrupted by a crash (or that failed: a folder not
  * writable) and records moves whose record was lost. A file that cannot be moved now is counted in
@@ -69,7 +74,7 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
       moved += 1;
       return;
     }
-    const copy = findMovedCopy(archiveFolderOf(config, file), file);
+    const copy = findArchivedCopy(config, file);
     if (copy !== undefined) {
       ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
       relocated += 1;

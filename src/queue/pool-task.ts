@@ -1,6 +1,7 @@
 // The worker-thread side of the task pool: loads the processor module once per thread and runs one
-// payload (or each payload of a BatchTask, in order), returning plain data. Errors never cross the thread boundary as exceptions (their code,
-// hint and permanence would be lost); they come back as a JobFailure instead.
+// payload (or each payload of a BatchTask, in order), returning plain data. Errors never cross the
+// thread boundary as exceptions (their code, hint and permanence would be lost); they come back as a
+// JobFailure instead.
 import { workerData } from 'node:worker_threads';
 import { toJobFailure } from './job-failure.js';
 import { isBatchTask, type TaskResult } from './task-result.js';
