@@ -1,8 +1,11 @@
 // Outbox: corrected spectra (CSV, JCAMP-DX) and fitted decays produced by the analysis, written
-// atomically under outbox/YYYY-MM-DD/<setId>/ for downstream tools.
-import { mkdirSync } from 'node:fs';
+// under outbox/YYYY-MM-DD/<setId>/ for downstream tools. A set's folder appears whole: its files are
+// written into a hidden temporary folder beside it (`.<setId>.<pid>.<n>.tmp`), which is then renamed
+// into place, so a tool watching the outbox never finds a set folder with some of its files missing.
+// A re-run whose set folder exists already replaces each file atomically instead.
+import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from './atomic-write.js';
+import { inFolder, writeFileAtomic } from './atomic-write.js';
 import { dayFolderName } from './dated-path.js';
 
 /** One file the analysis produced for the outbox (text content). */
@@ -12,14 +15,59 @@ export interface OutboxArtifact {
   readonly content: string;
 }
 
-/** Writes every artifact of a set (atomically; not fsynced: the result JSON is the durable record and outbox files are rewritten on a re-run); returns the paths written. */
+let counter = 0;
+
+/** The file name an artifact gets in its set folder (path separators replaced, so it cannot leave the folder). */
+function fileNameOf(artifact: OutboxArtifact): string {
+  return artifact.name.replace(/[/\\]/g, '_');
+}
+
+/** Writes `content` into a new file at `path` (no temp file: its folder is not visible yet). */
+function writeNewFile(path: string, content: string): void {
+  const fd = openSync(path, 'w');
+  try {
+    const bytes = Buffer.from(content, 'utf8');
+    let offset = 0;
+    while (offset < bytes.length) offset += writeSync(fd, bytes, offset, bytes.length - offset);
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** Whether a rename failed because its target is a folder that already holds files. */
+function isOccupied(error: unknown): boolean {
+  const code = (error as NodeJS.ErrnoException | undefined)?.code;
+  return code === 'ENOTEMPTY' || code === 'EEXIST';
+}
+
+/**
+ * Writes every artifact of a set into outbox/YYYY-MM-DD/<setId>/ and returns the paths written. A new
+ * set folder is filled while hidden and renamed into place whole (one rename for the set, not one per
+ * file); an existing one (a re-run) gets each file replaced atomically. Not fsynced: the result JSON
+ * is the durable record, and outbox files are rewritten on a re-run. A crash can leave a hidden
+ * `.<setId>.*.tmp` folder in the day folder, which downstream tools skip as they skip any dot-folder.
+ */
 export function writeOutbox(outboxDir: string, setId: string, setCreatedAt: Date, artifacts: readonly OutboxArtifact[]): string[] {
-  const dir = join(outboxDir, dayFolderName(setCreatedAt), setId);
-  // The set's folder is new (or there from an earlier run): made first, so no write tries and fails.
-  if (artifacts.length > 0) mkdirSync(dir, { recursive: true });
-  return artifacts.map((artifact) => {
-    const path = join(dir, artifact.name.replace(/[/\\]/g, '_'));
-    writeFileAtomic(path, artifact.content, { durable: false });
-    return path;
-  });
+  if (artifacts.length === 0) return [];
+  const dayDir = join(outboxDir, dayFolderName(setCreatedAt));
+  const dir = join(dayDir, setId);
+  const names = artifacts.map(fileNameOf);
+  counter += 1;
+  const temp = join(dayDir, `.${setId}.${process.pid}.${counter}.tmp`);
+  inFolder(dayDir, () => mkdirSync(temp));
+  try {
+    artifacts.forEach((artifact, i) => writeNewFile(join(temp, names[i] ?? ''), artifact.content));
+  } catch (error) {
+    rmSync(temp, { recursive: true, force: true });
+    throw error;
+  }
+  try {
+    renameSync(temp, dir);
+  } catch (error) {
+    rmSync(temp, { recursive: true, force: true });
+    if (!isOccupied(error)) throw error;
+    // The set folder exists with files in it (a re-run): replace each file atomically.
+    artifacts.forEach((artifact, i) => writeFileAtomic(join(dir, names[i] ?? ''), artifact.content, { durable: false }));
+  }
+  return names.map((name) => join(dir, name));
 }
