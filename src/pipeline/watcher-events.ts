@@ -53,8 +53,11 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   type Kind = { kind: 'file'; stat: FileStat } | { kind: 'folder'; identity: string } | { kind: 'gone' | 'other' };
   const kindOf = (path: string): Kind => {
     try {
-      const link = lstatSync(path);
-      const target = link.isSymbolicLink() ? statSync(path) : link;
+      // A path gone is the usual answer here (every input moved out of the inbox raises an event):
+      // no exception for it, which costs several times the lstat itself.
+      const link = lstatSync(path, { throwIfNoEntry: false });
+      const target = link?.isSymbolicLink() === true ? statSync(path, { throwIfNoEntry: false }) : link;
+      if (target === undefined) return { kind: 'gone' };
       if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
       return target.isDirectory() ? { kind: 'folder', identity: `${target.ino}:${target.birthtimeMs}` } : { kind: 'other' };
     } catch {
