@@ -68,10 +68,11 @@ export const COMMIT_WINDOW_MS = 10;
 /**
  * Jobs dispatched and not yet committed, per worker (backpressure; room for a commit group while
  * the threads work on their next shares). Under a backlog each thread holds a share of up to
- * MAX_JOBS_PER_TASK (queue/in-process.ts) jobs while a commit group waits COMMIT_WINDOW_MS and then its fsyncs, so 8 per
- * worker let dispatch stall behind commits. Measured on the 2-core machine, bench/pipeline's burst
- * of 1,000 sets, runs interleaved: 8 → 16 took the burst from 497–534 to 544–571 sets/s (tmpfs,
- * three runs each) and from 412–422 to 432–443 sets/s (disk, two runs each); 32 was no better than 16.
+ * MAX_JOBS_PER_TASK (queue/in-process.ts) jobs while a commit group waits COMMIT_WINDOW_MS and then
+ * its fsyncs, so 8 per worker let dispatch stall behind commits. Measured on the 2-core machine,
+ * bench/pipeline's burst of 1,000 sets, runs interleaved: 8 → 16 took the burst from 497–534 to
+ * 544–571 sets/s on tmpfs (three runs each) and from 486–495 to 529–552 sets/s on disk (two runs
+ * each); 32 was no better than 16.
  */
 export const MAX_IN_FLIGHT_PER_WORKER = 16;
 /**
