@@ -33,8 +33,14 @@ interface PendingJob<Payload> {
 class InProcessJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
   private readonly pool: TaskPool;
   private readonly hub: OutcomeHub<Result>;
-  /** Every id enqueued in this queue's lifetime (de-duplication). */
+  /**
+   * Ids this queue knows (de-duplication): every job waiting, retrying or running, and the latest
+   * finished ones, as many as queue.retention keeps (BullMQ keeps that many finished jobs too).
+   * Bounded, so months of `watch` do not grow it without end.
+   */
   private readonly known = new Set<string>();
+  /** Finished ids still remembered, oldest first, by how they finished. */
+  private readonly finishedIds: Record<'completed' | 'failed', string[]> = { completed: [], failed: [] };
   private readonly ready: PendingJob<Payload>[] = [];
   private readonly retryTimers = new Map<string, NodeJS.Timeout>();
   private readonly running = new Set<Promise<void>>();
@@ -171,7 +177,19 @@ class InProcessJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
   }
 
   private async finish(outcome: JobOutcome<Result>): Promise<void> {
+    this.rememberFinished(outcome.id, outcome.status);
     await this.hub.deliver(outcome);
+  }
+
+  /** Keeps a finished id among the remembered ones, forgetting the oldest beyond queue.retention's count for its status. */
+  private rememberFinished(id: string, status: 'completed' | 'failed'): void {
+    const ids = this.finishedIds[status];
+    ids.push(id);
+    const keep = status === 'completed' ? this.options.retention.completedCount : this.options.retention.failedCount;
+    while (ids.length > keep) {
+      const oldest = ids.shift();
+      if (oldest !== undefined) this.known.delete(oldest);
+    }
   }
 
   private checkIdle(): void {

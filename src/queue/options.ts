@@ -29,7 +29,7 @@ export type QueueBackendOptions = JobQueueOptions & {
   readonly prefix?: string;
   /** BullMQ: queue name; one per coordinator (instrument). Default 'analyze'. */
   readonly queueName?: string;
-  /** BullMQ: safety cap on finished jobs kept before the coordinator acknowledges them. Default 1000/5000. */
+  /** Finished jobs remembered (de-duplication of their ids; BullMQ: also the cap on finished jobs kept in Redis before the coordinator acknowledges them). Default 1000/5000. */
   readonly retention?: Partial<QueueRetention>;
   /** BullMQ: also run a worker inside this process (else only `driftlight worker` runs jobs). Default false. */
   readonly runWorker?: boolean;

@@ -26,9 +26,9 @@ export const queueSection = z
     retention: z
       .strictObject({
         completedCount: z.number().int().min(0).default(D.retention.completedCount)
-          .describe(`Completed jobs kept (bullmq). Default: ${D.retention.completedCount}`),
+          .describe(`Completed jobs remembered: enqueueing one of their ids again runs nothing (bullmq keeps the jobs in Redis; in-process only their ids). Default: ${D.retention.completedCount}`),
         failedCount: z.number().int().min(0).default(D.retention.failedCount)
-          .describe(`Failed jobs kept (bullmq). Default: ${D.retention.failedCount}`),
+          .describe(`Failed jobs remembered, as completedCount. Default: ${D.retention.failedCount}`),
       })
       .prefault({}),
     runWorker: z.boolean().optional()

@@ -85,6 +85,33 @@ describe('in-process backend', () => {
     for (const n of [2, 4, 5]) expect(recorder.byId.get(`j-${n}`)).toMatchObject({ status: 'completed', attempts: 1, value: { square: n * n } });
   });
 
+  it('remembers only as many finished ids as queue.retention keeps, so months of watch do not grow it without end', async () => {
+    // Retention 2 completed / 1 failed: after c-1, c-2, c-3 complete and f-1, f-2 fail, c-1 and f-1
+    // are forgotten (enqueued again, they run again) while c-2, c-3 and f-2 are still known (no-op).
+    const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, retention: { completedCount: 2, failedCount: 1 } });
+    const recorder = outcomeRecorder();
+    queue.onOutcome(recorder.listener);
+    const logFile = join(tempDir('dl-retain-'), 'starts.log');
+    for (const id of ['c-1', 'c-2', 'c-3']) {
+      await queue.enqueue(id, { id, n: 1, logFile });
+      await queue.drain();
+    }
+    for (const id of ['f-1', 'f-2']) {
+      await queue.enqueue(id, { id, n: 1, fail: 'permanent-code', logFile });
+      await queue.drain();
+    }
+    for (const id of ['c-1', 'c-2', 'c-3']) await queue.enqueue(id, { id, n: 1, logFile });
+    for (const id of ['f-1', 'f-2']) await queue.enqueue(id, { id, n: 1, fail: 'permanent-code', logFile });
+    await queue.drain();
+    await queue.close();
+    const starts = readFileSync(logFile, 'utf8').split('\n').filter((line) => line.includes(' start ')).map((line) => line.split(' ')[0]);
+    expect(starts).toEqual(['c-1', 'c-2', 'c-3', 'f-1', 'f-2', 'c-1', 'f-1']);
+    expect(recorder.deliveries.get('c-1')).toBe(2);
+    expect(recorder.deliveries.get('c-2')).toBe(1);
+    expect(recorder.deliveries.get('f-1')).toBe(2);
+    expect(recorder.deliveries.get('f-2')).toBe(1);
+  });
+
   it('reports a crashed worker thread as a transient WORKER_LOST failure', async () => {
     const crashing = new URL('../../fixtures/queue/crash.mjs', import.meta.url);
     const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: crashing, concurrency: 1, attempts: 2, backoffMs: 10 });
