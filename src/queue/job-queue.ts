@@ -3,7 +3,8 @@
 //
 // A job is identified by a caller-chosen id (the measurement set's content hash): enqueueing an id
 // that is already waiting or running, or finished and still retained (queue.retention: the latest
-// 1,000 completed and 5,000 failed by default), does not create a second job. The processor is a module file (compiled JS) whose default export is
+// 1,000 completed and 5,000 failed by default), does not create a second job. The processor is a
+// module file (compiled JS) whose default export is
 // `(payload: unknown) => unknown | Promise<unknown>`; it must be stateless so that a job gives the
 // same result on any backend. A processor signals "do not retry" by throwing an error whose
 // `permanent` property is true or whose `code` is an InputRejected/AnalysisFailed/Config code
