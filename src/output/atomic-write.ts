@@ -23,13 +23,14 @@ export function inFolder<T>(dir: string, operation: () => T): T {
   }
 }
 
-function tempPathFor(path: string): string {
+/** A new hidden temporary path beside `path` (`.NAME.PID.N.tmp`), for a file or folder renamed onto `path` once written. */
+export function tempPathFor(path: string): string {
   counter += 1;
   return join(dirname(path), `.${basename(path)}.${process.pid}.${counter}.tmp`);
 }
 
-/** Writes all of `bytes` to `fd`. */
-function writeAll(fd: number, content: string | Uint8Array): void {
+/** Writes all of `content` (UTF-8 for a string) to the open file `fd`. */
+export function writeAll(fd: number, content: string | Uint8Array): void {
   const bytes = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
   let offset = 0;
   while (offset < bytes.length) offset += writeSync(fd, bytes, offset, bytes.length - offset);

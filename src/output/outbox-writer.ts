@@ -3,9 +3,9 @@
 // written into a hidden temporary folder beside it (`.<setId>.<pid>.<n>.tmp`), which is then renamed
 // into place, so a tool watching the outbox never finds a set folder with some of its files missing.
 // A re-run whose set folder exists already replaces each file atomically instead.
-import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, renameSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { inFolder, writeFileAtomic } from './atomic-write.js';
+import { inFolder, tempPathFor, writeAll, writeFileAtomic } from './atomic-write.js';
 import { dayFolderName } from './dated-path.js';
 
 /** One file the analysis produced for the outbox (text content). */
@@ -14,8 +14,6 @@ export interface OutboxArtifact {
   readonly name: string;
   readonly content: string;
 }
-
-let counter = 0;
 
 /** The file name an artifact gets in its set folder (path separators replaced, so it cannot leave the folder). */
 function fileNameOf(artifact: OutboxArtifact): string {
@@ -26,9 +24,7 @@ function fileNameOf(artifact: OutboxArtifact): string {
 function writeNewFile(path: string, content: string): void {
   const fd = openSync(path, 'w');
   try {
-    const bytes = Buffer.from(content, 'utf8');
-    let offset = 0;
-    while (offset < bytes.length) offset += writeSync(fd, bytes, offset, bytes.length - offset);
+    writeAll(fd, content);
   } finally {
     closeSync(fd);
   }
@@ -52,8 +48,7 @@ export function writeOutbox(outboxDir: string, setId: string, setCreatedAt: Date
   const dayDir = join(outboxDir, dayFolderName(setCreatedAt));
   const dir = join(dayDir, setId);
   const names = artifacts.map(fileNameOf);
-  counter += 1;
-  const temp = join(dayDir, `.${setId}.${process.pid}.${counter}.tmp`);
+  const temp = tempPathFor(dir);
   inFolder(dayDir, () => mkdirSync(temp));
   try {
     artifacts.forEach((artifact, i) => writeNewFile(join(temp, names[i] ?? ''), artifact.content));
