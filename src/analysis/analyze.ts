@@ -5,7 +5,7 @@ import type { Spectrum } from '../model/spectrum.js';
 import { ramanTest } from '../spectra/index.js';
 import { buildArtifacts } from './artifacts.js';
 import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
-import { absorbanceSummary, correctEmission, emissionMetrics } from './emission-step.js';
+import { absorbanceSummary, correctEmission, emissionMetrics, type CorrectedEmission } from './emission-step.js';
 import { decayOf, parseInputs, spectrumOf } from './parse-inputs.js';
 import type { AnalysisJobPayload, AnalysisOutput, RejectedInput } from './payload.js';
 import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary } from './result.js';
@@ -33,11 +33,11 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
 
   // Emission: corrections in order, then metrics.
   let correctedEmission: Spectrum | undefined;
-  let yieldEmission: Spectrum | undefined;
+  let sampleCorrection: CorrectedEmission | undefined;
   if (emissionRaw !== undefined && payload.role !== 'raman') {
     const done = correctEmission(emissionRaw, { ...(blank ? { blank } : {}), ...(detectorCurve ? { detectorCurve } : {}), ...(absorbance ? { absorbance } : {}), ...(excitationNm === undefined ? {} : { excitationNm }) }, settings, 'emission', context);
     correctedEmission = done.corrected;
-    yieldEmission = done.forYield;
+    sampleCorrection = done;
   }
   const emission = correctedEmission === undefined ? undefined : attempt(context, 'emission metrics', () => emissionMetrics(correctedEmission));
   let absorbanceInfo: AbsorbanceSummary | undefined;
@@ -65,26 +65,35 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     const refAbsorbance = spectrumOf(parsed, 'reference-absorbance', context);
     const standardId = settings.reference?.standardId;
     const refFile = parsed.get('reference-emission')?.file;
-    let refYieldEmission: Spectrum | undefined;
+    let referenceCorrection: CorrectedEmission | undefined;
     if (refEmissionRaw !== undefined) {
       const refExcitationNm = refEmissionRaw.metadata.excitationNm ?? excitationNm;
       const done = correctEmission(refEmissionRaw, { ...(detectorCurve ? { detectorCurve } : {}), ...(refAbsorbance ? { absorbance: refAbsorbance } : {}), ...(refExcitationNm === undefined ? {} : { excitationNm: refExcitationNm }) }, settings, 'reference-emission', context);
-      refYieldEmission = done.forYield;
+      referenceCorrection = done;
       referenceEmissionMetrics = attempt(context, 'reference emission metrics', () => emissionMetrics(done.corrected));
       if (refAbsorbance !== undefined && refExcitationNm !== undefined) {
         referenceAbsorbanceInfo = absorbanceSummary(refAbsorbance, refExcitationNm, settings.cuvette.pathLengthCm);
       }
     }
+    const refusedCorrection = [
+      ...(sampleCorrection?.refused ?? []).map((r) => `the ${r.name} correction of the sample emission was refused (${r.reason})`),
+      ...(referenceCorrection?.refused ?? []).map((r) => `the ${r.name} correction of the reference emission was refused (${r.reason})`),
+    ][0];
     const why =
-      yieldEmission === undefined ? 'no sample emission spectrum'
+      sampleCorrection === undefined ? 'no sample emission spectrum'
         : absorbanceInfo === undefined ? 'no sample absorbance at the excitation wavelength'
-          : refYieldEmission === undefined ? 'no reference-standard emission in the set or paired within the window'
+          : referenceCorrection === undefined ? 'no reference-standard emission in the set or paired within the window'
             : referenceAbsorbanceInfo === undefined ? 'no reference-standard absorbance at its excitation wavelength'
               : standardId === undefined ? 'the reference standard is not named (references[].standardId or the manifest standardId)'
                 : undefined;
     if (why !== undefined) markMissing(context, 'quantumYield', why, false);
-    else if (yieldEmission !== undefined && absorbanceInfo !== undefined && refYieldEmission !== undefined && referenceAbsorbanceInfo !== undefined && standardId !== undefined) {
-      const inputs = { sampleEmission: yieldEmission, sampleAbsorbance: absorbanceInfo, sampleSolvent: solvent, referenceEmission: refYieldEmission, referenceAbsorbance: referenceAbsorbanceInfo, standardId, referenceSetId: refFile?.pairedFromSetId };
+    else if (refusedCorrection !== undefined) markMissing(context, 'quantumYield', `not computed: ${refusedCorrection}; a yield from uncorrected data would be wrong`);
+    else if (sampleCorrection !== undefined && absorbanceInfo !== undefined && referenceCorrection !== undefined && referenceAbsorbanceInfo !== undefined && standardId !== undefined) {
+      const inputs = {
+        sampleEmission: sampleCorrection.corrected, sampleCorrections: sampleCorrection.applied, sampleAbsorbance: absorbanceInfo, sampleSolvent: solvent,
+        referenceEmission: referenceCorrection.corrected, referenceCorrections: referenceCorrection.applied, referenceAbsorbance: referenceAbsorbanceInfo,
+        standardId, referenceSetId: refFile?.pairedFromSetId, excitationNm,
+      };
       quantumYield = attempt(context, 'quantumYield', () => computeQuantumYield(inputs, settings, context));
     }
   }
@@ -94,7 +103,8 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     const tauNs = decayOutcome.summary.tauMeanIntensityNs;
     rates = attempt(context, 'rates', () => computeRates(q, tauNs));
   } else if (SAMPLE_ROLES.has(payload.role)) {
-    markMissing(context, 'rates', quantumYield === undefined ? 'no quantum yield' : 'no lifetime', false);
+    const yieldReason = context.missing.find((m) => m.what === 'quantumYield')?.reason;
+    markMissing(context, 'rates', quantumYield === undefined ? `no quantum yield${yieldReason === undefined ? '' : ` (${yieldReason})`}` : 'no lifetime', false);
   }
 
   // Raman sensitivity (raman sets).

@@ -16,8 +16,10 @@ import { markMissing, reasonOf, type StepContext } from './step-context.js';
 export interface CorrectedEmission {
   /** After every correction that could be applied. */
   readonly corrected: Spectrum;
-  /** After blank and detector corrections only (used for relative yields, where absorptance accounts for absorption). */
-  readonly forYield: Spectrum;
+  /** Names of the corrections applied to `corrected`, in order. */
+  readonly applied: readonly string[];
+  /** Corrections that were due but refused, with the reason (a quantity computed from `corrected` would be wrong). */
+  readonly refused: readonly { readonly name: string; readonly reason: string }[];
 }
 
 function record(context: StepContext, target: AppliedCorrection['target'], result: CorrectionResult): Spectrum {
@@ -26,11 +28,19 @@ function record(context: StepContext, target: AppliedCorrection['target'], resul
   return result.spectrum;
 }
 
-function tryCorrection(context: StepContext, target: AppliedCorrection['target'], what: string, apply: () => CorrectionResult): CorrectionResult | undefined {
+function tryCorrection(
+  context: StepContext,
+  target: AppliedCorrection['target'],
+  what: string,
+  apply: () => CorrectionResult,
+  refused: { name: string; reason: string }[],
+): CorrectionResult | undefined {
   try {
     return apply();
   } catch (error) {
-    markMissing(context, `${what} (${target})`, reasonOf(error));
+    const reason = reasonOf(error);
+    markMissing(context, `${what} (${target})`, reason);
+    refused.push({ name: what, reason });
     return undefined;
   }
 }
@@ -45,15 +55,22 @@ export function correctEmission(
 ): CorrectedEmission {
   let spectrum = emission;
   const { blank, detectorCurve, absorbance } = inputs;
+  const applied: string[] = [];
+  const refused: { name: string; reason: string }[] = [];
   if (blank !== undefined) {
-    const done = tryCorrection(context, target, 'subtractBlank', () => subtractBlank(spectrum, blank));
-    if (done !== undefined) spectrum = record(context, target, done);
+    const done = tryCorrection(context, target, 'subtractBlank', () => subtractBlank(spectrum, blank), refused);
+    if (done !== undefined) {
+      spectrum = record(context, target, done);
+      applied.push(done.record.name);
+    }
   }
   if (detectorCurve !== undefined) {
-    const done = tryCorrection(context, target, 'applyDetectorCorrection', () => applyDetectorCorrection(spectrum, detectorCurve));
-    if (done !== undefined) spectrum = record(context, target, done);
+    const done = tryCorrection(context, target, 'applyDetectorCorrection', () => applyDetectorCorrection(spectrum, detectorCurve), refused);
+    if (done !== undefined) {
+      spectrum = record(context, target, done);
+      applied.push(done.record.name);
+    }
   }
-  const forYield = spectrum;
   if (absorbance !== undefined && settings.innerFilter !== 'none') {
     const method = settings.innerFilter;
     const done = tryCorrection(context, target, 'correctInnerFilter', () =>
@@ -63,10 +80,14 @@ export function correctEmission(
         cellPathCm: settings.cuvette.pathLengthCm,
         excitationZoneCm: [settings.cuvette.excitationWindowStartCm, settings.cuvette.excitationWindowEndCm],
       }),
+      refused,
     );
-    if (done !== undefined) spectrum = record(context, target, done);
+    if (done !== undefined) {
+      spectrum = record(context, target, done);
+      applied.push(done.record.name);
+    }
   }
-  return { corrected: spectrum, forYield };
+  return { corrected: spectrum, applied, refused };
 }
 
 /** Peak, width and integral of an emission spectrum. */

@@ -27,6 +27,13 @@ export interface AnalysisSettings {
   readonly defaultRefractiveIndex: number;
   readonly cuvette: { readonly pathLengthCm: number; readonly excitationWindowStartCm: number; readonly excitationWindowEndCm: number };
   readonly maxFileBytes: number;
+  /** Integration window and band-edge check of relative yields (config analysis.yieldWindowNm etc.); defaults as in the config section. */
+  readonly yieldWindow?: {
+    readonly windowNm?: readonly [number, number];
+    readonly scatterExclusionNm: number;
+    readonly bandEdgeFraction: number;
+    readonly bandEdgeAction: 'refuse' | 'flag';
+  };
   /** The standard for the reference used by this set (when one is part of the payload). */
   readonly reference?: {
     readonly standardId: string;

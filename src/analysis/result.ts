@@ -103,6 +103,30 @@ export interface UncertaintyBudgetEntry {
   readonly source: string;
   /** Relative standard uncertainty contributed (dimensionless, e.g. 0.02 = 2 %). */
   readonly relativeUncertainty: number;
+  /** Standard uncertainty of the input itself (unit of the input); always written by analyze(). */
+  readonly inputStandardUncertainty?: number;
+  /** Where it came from: 'stated in …', 'estimated from noise: …' or 'assumed: …'; always written by analyze(). */
+  readonly basis?: string;
+}
+
+/** The numbers Φ was computed from, so that anyone can recompute it (Brouwer, Pure Appl. Chem. 83, 2213 (2011)). */
+export interface QuantumYieldInputs {
+  /** ∫F dλ of the corrected sample emission over windowNm (value unit × nm). */
+  readonly sampleIntegral: number;
+  readonly referenceIntegral: number;
+  /** Absorbances (base-10, 1 cm) at the excitation wavelengths. */
+  readonly sampleAbsorbance: number;
+  readonly referenceAbsorbance: number;
+  readonly sampleRefractiveIndex: number;
+  readonly referenceRefractiveIndex: number;
+  readonly referenceYield: number;
+  /** 'absorptance': f = 1 − 10^(−A) (spectra not corrected for inner filter); 'absorbance': f = A (inner filter already corrected in both). */
+  readonly lightAbsorbed: 'absorptance' | 'absorbance';
+  /** Integration window in nm, the same for both spectra. */
+  readonly windowNm: readonly [number, number];
+  /** Corrections applied to each spectrum before integration, in order. */
+  readonly sampleCorrections: readonly string[];
+  readonly referenceCorrections: readonly string[];
 }
 
 /** The relative quantum yield against a reference standard. */
@@ -113,6 +137,10 @@ export interface QuantumYieldSummary {
   readonly standardId: string;
   /** Set whose reference measurement was used. */
   readonly referenceSetId?: string;
+  /** Always written by analyze() (optional only for results stored before it was added). */
+  readonly inputs?: QuantumYieldInputs;
+  /** Reasons to look twice: 'above-one-within-uncertainty', 'band-not-at-baseline'. Always written by analyze(). */
+  readonly flags?: readonly string[];
   readonly warnings: readonly string[];
 }
 

@@ -1,20 +1,31 @@
 // Relative quantum yield of the sample against a reference standard measured in (or paired into)
-// the set, and the excited-state rate constants from Φ and τ.
+// the set, and the excited-state rate constants from Φ and τ. Φ is computed from exactly the spectra
+// whose corrections the result lists, over one recorded window, through the same budget code path as
+// the `yield` command (photophysics/yield-from-spectra.ts).
+import { AnalysisFailed } from '../model/errors.js';
+import { formatSignificant } from '../model/format-number.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { findSolvent, findStandard, rateConstantsFromYield, relativeQuantumYield, standardWarnings } from '../photophysics/index.js';
-import { integrateIntensity } from '../spectra/index.js';
+import { findSolvent, findStandard, quantumYieldFromSpectra, rateConstantsFromYield, standardWarnings, type QuantumYieldStandard } from '../photophysics/index.js';
+import { bandEdgeFractions, defaultIntegrationWindow } from '../spectra/index.js';
 import type { AnalysisSettings } from './payload.js';
 import type { AbsorbanceSummary, QuantumYieldSummary, RateConstantsSummary } from './result.js';
 import type { StepContext } from './step-context.js';
 
+/** Defaults of settings.yieldWindow (the config section states them too). */
+const WINDOW_DEFAULTS = { scatterExclusionNm: 15, bandEdgeFraction: 0.1, bandEdgeAction: 'refuse' } as const;
+
 export interface YieldInputs {
+  /** Emission spectra after every correction in sampleCorrections / referenceCorrections. */
   readonly sampleEmission: Spectrum;
+  readonly sampleCorrections: readonly string[];
   readonly sampleAbsorbance: AbsorbanceSummary;
   readonly sampleSolvent: string | undefined;
   readonly referenceEmission: Spectrum;
+  readonly referenceCorrections: readonly string[];
   readonly referenceAbsorbance: AbsorbanceSummary;
   readonly standardId: string;
   readonly referenceSetId: string | undefined;
+  readonly excitationNm: number | undefined;
 }
 
 /** The refractive index of a solvent: the config map, the built-in table, else the default (with a warning). */
@@ -29,41 +40,108 @@ export function refractiveIndexFor(solvent: string | undefined, settings: Analys
   return settings.defaultRefractiveIndex;
 }
 
-/** Φ = Φ_ref·(F/F_ref)·(f_ref/f)·(n²/n_ref²) via the photophysics module; throws what it throws. */
+function standardUncertaintyBasis(standard: QuantumYieldStandard): string {
+  if (standard.uncertaintyBasis === 'stated') return `stated in ${standard.source}`;
+  if (standard.uncertaintyBasis === 'range') return `estimated from the published range (half-range/√3, GUM 4.3.7), ${standard.source}`;
+  return `assumed: 4 % of the value (no uncertainty published in ${standard.source})`;
+}
+
+const isInnerFilter = (name: string): boolean => name.startsWith('correctInnerFilter');
+
+/**
+ * Φ = Φ_ref·(F/F_ref)·(f_ref/f)·(n²/n_ref²) (Brouwer, Pure Appl. Chem. 83, 2213 (2011)) from the corrected spectra.
+ * When both spectra are corrected for the inner filter the attenuation is already undone, so f = A (the dilute-limit
+ * form; 1 − 10^(−A) ≈ ln10·A·10^(−A/2) is what the uncorrected spectra need); otherwise f = 1 − 10^(−A).
+ * Throws AnalysisFailed when sample and reference were not corrected alike, when a band is not back to baseline
+ * (bandEdgeAction 'refuse'), or when Φ exceeds 1 by more than 3 u.
+ */
 export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSettings, context: StepContext): QuantumYieldSummary {
+  const sampleInner = inputs.sampleCorrections.some(isInnerFilter);
+  const referenceInner = inputs.referenceCorrections.some(isInnerFilter);
+  if (sampleInner !== referenceInner) {
+    throw new AnalysisFailed(
+      'OUT_OF_RANGE',
+      `the inner-filter correction was applied to the ${sampleInner ? 'sample' : 'reference'} emission only; a yield from spectra corrected differently would be wrong — see the missing correction's reason`,
+    );
+  }
   const configured = settings.reference;
   const standard = findStandard(inputs.standardId);
   const referenceYield = configured?.quantumYield ?? standard.quantumYield;
-  const referenceYieldU = configured?.quantumYieldStdUncertainty ?? standard.standardUncertainty;
+  const referenceYieldU = configured?.quantumYieldStdUncertainty === undefined
+    ? { value: standard.standardUncertainty, basis: standardUncertaintyBasis(standard) }
+    : { value: configured.quantumYieldStdUncertainty, basis: 'stated in the config (references[].quantumYieldStdUncertainty)' };
   const referenceN = configured?.refractiveIndex ?? standard.refractiveIndex;
   const sampleN = refractiveIndexFor(inputs.sampleSolvent, settings, context);
-  const warnings = standardWarnings(standard, inputs.referenceAbsorbance.excitationNm);
-  const qy = relativeQuantumYield({
-    sampleIntegral: integrateIntensity(inputs.sampleEmission),
-    referenceIntegral: integrateIntensity(inputs.referenceEmission),
+  const windowSettings = { ...WINDOW_DEFAULTS, ...settings.yieldWindow };
+  const windowNm = windowSettings.windowNm ?? defaultIntegrationWindow([inputs.sampleEmission, inputs.referenceEmission], inputs.excitationNm, windowSettings.scatterExclusionNm);
+  const flags: string[] = [];
+  const warnings = [...standardWarnings(standard, inputs.referenceAbsorbance.excitationNm)];
+  for (const [role, spectrum] of [['sample', inputs.sampleEmission], ['reference', inputs.referenceEmission]] as const) {
+    const edges = bandEdgeFractions(spectrum, windowNm);
+    const worst = Math.max(edges.lower, edges.upper);
+    if (!(worst <= windowSettings.bandEdgeFraction)) {
+      const side = edges.lower >= edges.upper ? `${formatSignificant(windowNm[0])} nm (lower)` : `${formatSignificant(windowNm[1])} nm (upper)`;
+      const message = `the ${role} emission is not back to baseline at ${side}: ${formatSignificant(100 * worst, 3)} % of its peak, above ${formatSignificant(100 * windowSettings.bandEdgeFraction)} % (analysis.bandEdgeFraction); the scan may be cut short inside its band — measure the whole band or set analysis.yieldWindowNm`;
+      if (windowSettings.bandEdgeAction === 'refuse') throw new AnalysisFailed('OUT_OF_RANGE', message);
+      if (!flags.includes('band-not-at-baseline')) flags.push('band-not-at-baseline');
+      warnings.push(message);
+    }
+  }
+  const lightAbsorbed = sampleInner ? 'absorbance' : 'absorptance';
+  const qy = quantumYieldFromSpectra({
+    sampleEmission: inputs.sampleEmission,
+    referenceEmission: inputs.referenceEmission,
+    windowNm,
     sampleAbsorbance: inputs.sampleAbsorbance.absorbanceAtExcitation,
     referenceAbsorbance: inputs.referenceAbsorbance.absorbanceAtExcitation,
     sampleRefractiveIndex: sampleN,
     referenceRefractiveIndex: referenceN,
     referenceYield,
-    uncertainties: { referenceYield: referenceYieldU },
-    options: { absorbanceWarnLimit: Math.min(settings.maxAbsorbanceForYield, 0.1) },
+    referenceYieldUncertainty: referenceYieldU,
+    options: { lightAbsorbed, absorbanceWarnLimit: Math.min(settings.maxAbsorbanceForYield, 0.1) },
   });
+  if (qy.quantumYield > 1) {
+    const excess = (qy.quantumYield - 1) / qy.standardUncertainty;
+    if (!(excess <= 3)) {
+      throw new AnalysisFailed(
+        'OUT_OF_RANGE',
+        `the yield ${formatSignificant(qy.quantumYield)} exceeds 1 by ${Number.isFinite(excess) ? formatSignificant(excess, 2) : 'infinitely many'} standard uncertainties (u = ${formatSignificant(qy.standardUncertainty, 2)}); check the corrections, absorbances and the standard`,
+      );
+    }
+    flags.push('above-one-within-uncertainty');
+  }
   return {
     value: qy.quantumYield,
     standardUncertainty: qy.standardUncertainty,
     budget: qy.budget.map((line) => ({
       source: line.quantity,
       relativeUncertainty: qy.quantumYield > 0 ? line.contribution / qy.quantumYield : 0,
+      inputStandardUncertainty: line.standardUncertainty,
+      basis: line.basis,
     })),
     standardId: standard.id,
     ...(inputs.referenceSetId === undefined ? {} : { referenceSetId: inputs.referenceSetId }),
+    inputs: {
+      sampleIntegral: qy.sampleIntegral,
+      referenceIntegral: qy.referenceIntegral,
+      sampleAbsorbance: inputs.sampleAbsorbance.absorbanceAtExcitation,
+      referenceAbsorbance: inputs.referenceAbsorbance.absorbanceAtExcitation,
+      sampleRefractiveIndex: sampleN,
+      referenceRefractiveIndex: referenceN,
+      referenceYield,
+      lightAbsorbed,
+      windowNm: [windowNm[0], windowNm[1]],
+      sampleCorrections: [...inputs.sampleCorrections],
+      referenceCorrections: [...inputs.referenceCorrections],
+    },
+    flags,
     warnings: [...warnings, ...qy.warnings],
   };
 }
 
-/** k_r, k_nr, τ0 from Φ and the intensity-weighted mean τ (Birks 1976). */
+/** k_r, k_nr, τ0 from Φ and the intensity-weighted mean τ (Birks 1976); a Φ above 1 within its uncertainty enters as 1. */
 export function computeRates(quantumYield: QuantumYieldSummary, tauNs: number): RateConstantsSummary {
-  const rates = rateConstantsFromYield({ quantumYield: quantumYield.value, tauNs, quantumYieldUncertainty: quantumYield.standardUncertainty });
+  const phi = Math.min(quantumYield.value, 1);
+  const rates = rateConstantsFromYield({ quantumYield: phi, tauNs, quantumYieldUncertainty: quantumYield.standardUncertainty });
   return { krPerS: rates.krPerS, knrPerS: rates.knrPerS, tau0Ns: rates.tau0Ns, totalDecayRatePerS: rates.totalDecayRatePerS };
 }

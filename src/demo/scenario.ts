@@ -3,7 +3,7 @@
 // by a manifest, and one malformed export. Seeded, so the files and their truth are reproducible.
 import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from './synthetic.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from './synthetic.js';
 
 export interface DemoFile {
   readonly name: string;
@@ -51,7 +51,8 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
 
   // Reference standard: rhodamine 6G in ethanol (Φ = 0.95 in the standards table).
   const refA = 0.045;
-  const refEm = emissionSpectrum({ peakNm: 552, widthNm: 38, integral: emissionIntegralFor(0.95, refA, ETHANOL_N) },
+  const refBand = { bandPeakNm: 528, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: refA };
+  const refEm = emissionSpectrum({ peakNm: 552, widthNm: 38, integral: emissionIntegralUnattenuated(0.95, refA, ETHANOL_N), innerFilter: refBand },
     { sampleId: 'REF-R6G-0314', role: 'reference', excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at('08:40') }, random);
   const refAbs = absorbanceSpectrum({ bandPeakNm: 528, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: refA },
     { sampleId: 'REF-R6G-0314', role: 'reference', solvent: 'ethanol', acquiredAt: at('08:35') }, random);
@@ -69,7 +70,8 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
     { id: 'CTRL-teal-0314', role: 'control' as const, qy: 0.8, tau: 4.1, a: 0.035, peak: 536, layout: 'manifest' },
   ];
   for (const s of samples) {
-    const em = emissionSpectrum({ peakNm: s.peak, widthNm: 42, integral: emissionIntegralFor(s.qy, s.a, ETHANOL_N) },
+    const band = { bandPeakNm: s.peak - 25, bandWidthNm: 55, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.a };
+    const em = emissionSpectrum({ peakNm: s.peak, widthNm: 42, integral: emissionIntegralUnattenuated(s.qy, s.a, ETHANOL_N), innerFilter: band },
       { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at('10:00') }, random);
     const abs = absorbanceSpectrum({ bandPeakNm: s.peak - 25, bandWidthNm: 55, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.a },
       { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), solvent: 'ethanol', acquiredAt: at('09:55') }, random);

@@ -20,9 +20,29 @@ export function emissionIntegralFor(quantumYield: number, absorbanceAtExcitation
   return (scale * quantumYield * (1 - 10 ** -absorbanceAtExcitation)) / refractiveIndex ** 2;
 }
 
-/** A Gaussian emission band (nm) whose integral is `integral`, with seeded noise (relative to the peak). */
+/** Integral of the unattenuated band in the centred right-angle model: K·Φ·ln10·A/n² (dilute limit; observed = this × 10^(−(A_ex+A_em)/2), Lakowicz ch. 2). */
+export function emissionIntegralUnattenuated(quantumYield: number, absorbanceAtExcitation: number, refractiveIndex: number, scale = 1e7): number {
+  return (scale * quantumYield * Math.LN10 * absorbanceAtExcitation) / refractiveIndex ** 2;
+}
+
+/** The absorption band of absorbanceSpectrum as a noiseless function of nm (for attenuating an emission band). */
+export function absorbanceBandAt(band: { bandPeakNm: number; bandWidthNm: number; excitationNm: number; absorbanceAtExcitation: number }): (nm: number) => number {
+  const sigma = band.bandWidthNm / (2 * Math.sqrt(2 * Math.log(2)));
+  const shape = (nm: number): number => Math.exp(-((nm - band.bandPeakNm) ** 2) / (2 * sigma * sigma));
+  const peak = band.absorbanceAtExcitation / shape(band.excitationNm);
+  return (nm) => peak * shape(nm);
+}
+
+/**
+ * A Gaussian emission band (nm) whose integral is `integral`, with seeded noise (relative to the peak). With `innerFilter`
+ * (the sample's absorption band), each point is attenuated by 10^(−(A_ex + A_em(λ))/2), the centred right-angle model
+ * (Lakowicz, 3rd ed., ch. 2), and `integral` is that of the unattenuated band.
+ */
 export function emissionSpectrum(
-  spec: { peakNm: number; widthNm: number; integral: number; fromNm?: number; toNm?: number; stepNm?: number; noiseRelative?: number },
+  spec: {
+    peakNm: number; widthNm: number; integral: number; fromNm?: number; toNm?: number; stepNm?: number; noiseRelative?: number;
+    innerFilter?: { bandPeakNm: number; bandWidthNm: number; excitationNm: number; absorbanceAtExcitation: number };
+  },
   metadata: Partial<SpectrumMetadata>,
   random: UniformSource,
 ): Spectrum {
@@ -30,8 +50,11 @@ export function emissionSpectrum(
   const sigma = spec.widthNm / (2 * Math.sqrt(2 * Math.log(2)));
   const peak = spec.integral / (sigma * Math.sqrt(2 * Math.PI));
   const noise = (spec.noiseRelative ?? 0.002) * peak;
+  const band = spec.innerFilter === undefined ? undefined : absorbanceBandAt(spec.innerFilter);
+  const excitationAbsorbance = spec.innerFilter?.absorbanceAtExcitation ?? 0;
   const values = Float64Array.from(wavelengthNm, (nm) => {
-    const v = peak * Math.exp(-((nm - spec.peakNm) ** 2) / (2 * sigma * sigma)) + noise * sampleStandardNormal(random);
+    const attenuation = band === undefined ? 1 : 10 ** (-(excitationAbsorbance + band(nm)) / 2);
+    const v = peak * attenuation * Math.exp(-((nm - spec.peakNm) ** 2) / (2 * sigma * sigma)) + noise * sampleStandardNormal(random);
     return Math.round(v * 1000) / 1000;
   });
   return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata });

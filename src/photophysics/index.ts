@@ -38,3 +38,4 @@ export {
 export { stricklerBergRate, resolveStricklerBergOptions, STRICKLER_BERG_CONSTANT, type StricklerBergOptions, type StricklerBergResult } from './strickler-berg.js';
 export { SOLVENT_VISCOSITIES, viscosityOf, diffusionLimitPerMPerS, type SolventViscosity } from './viscosities.js';
 export { sternVolmer, resolveSternVolmerOptions, type QuenchSeriesInput, type SternVolmerOptions, type SternVolmerResult, type QuenchingMechanism } from './stern-volmer.js';
+export { quantumYieldFromSpectra, type LabelledUncertainty, type SpectraYieldInput, type SpectraYieldResult } from './yield-from-spectra.js';

@@ -54,6 +54,8 @@ export interface RelativeYieldInput {
   /** True when sample and reference are in the same solvent: n cancels exactly and has no budget line (default: n values equal). */
   readonly sameSolvent?: boolean;
   readonly uncertainties?: RelativeYieldUncertainties;
+  /** How each given uncertainty was obtained (e.g. 'estimated from noise: …'); a given value without one is labelled 'stated'. */
+  readonly uncertaintyBasis?: Partial<Record<keyof RelativeYieldUncertainties, string>>;
   readonly options?: RelativeYieldOptions;
 }
 
@@ -100,32 +102,35 @@ export function relativeQuantumYield(input: RelativeYieldInput): QuantumYieldRes
   const nReference = input.referenceRefractiveIndex;
   const quantumYield =
     input.referenceYield * (input.sampleIntegral / input.referenceIntegral) * (fReference / fSample) * ((nSample * nSample) / (nReference * nReference));
-  if (quantumYield > 1) warnings.push(`the yield ${quantumYield.toFixed(3)} exceeds 1; check the corrections, absorbances and standard`);
-
-  const stated = (value: number | undefined, fallback: number, fallbackBasis: string): [number, string] =>
-    value === undefined ? [fallback, fallbackBasis] : [value, 'stated'];
+  if (quantumYield > 1) warnings.push(`the yield ${quantumYield.toPrecision(4)} exceeds 1; check the corrections, absorbances and standard`);
+  const given = input.uncertaintyBasis ?? {};
+  const NOT_STATED = 'assumed zero: not stated';
+  const absorbanceDefault = `assumed: ${options.defaultAbsorbanceUncertainty} (photometric repeatability, common practice)`;
+  const indexDefault = `assumed: ${options.defaultRefractiveIndexUncertainty} (table value, see refractive-indices.ts)`;
+  const stated = (value: number | undefined, fallback: number, fallbackBasis: string, key: keyof RelativeYieldUncertainties): [number, string] =>
+    value === undefined ? [fallback, fallbackBasis] : [value, given[key] ?? 'stated'];
   const lines: BudgetInput[] = [];
-  const [uRef, uRefBasis] = stated(u.referenceYield, 0, 'not stated');
+  const [uRef, uRefBasis] = stated(u.referenceYield, 0, NOT_STATED, 'referenceYield');
   lines.push({ quantity: 'referenceYield', value: input.referenceYield, standardUncertainty: uRef, sensitivityCoefficient: quantumYield / input.referenceYield, basis: uRefBasis });
-  const [uF, uFBasis] = stated(u.sampleIntegral, 0, 'not stated');
+  const [uF, uFBasis] = stated(u.sampleIntegral, 0, NOT_STATED, 'sampleIntegral');
   lines.push({ quantity: 'sampleIntegral', value: input.sampleIntegral, standardUncertainty: uF, sensitivityCoefficient: quantumYield / input.sampleIntegral, basis: uFBasis });
-  const [uFr, uFrBasis] = stated(u.referenceIntegral, 0, 'not stated');
+  const [uFr, uFrBasis] = stated(u.referenceIntegral, 0, NOT_STATED, 'referenceIntegral');
   lines.push({ quantity: 'referenceIntegral', value: input.referenceIntegral, standardUncertainty: uFr, sensitivityCoefficient: -quantumYield / input.referenceIntegral, basis: uFrBasis });
-  const [uA, uABasis] = stated(u.sampleAbsorbance, options.defaultAbsorbanceUncertainty, 'practice default');
+  const [uA, uABasis] = stated(u.sampleAbsorbance, options.defaultAbsorbanceUncertainty, absorbanceDefault, 'sampleAbsorbance');
   lines.push({ quantity: 'sampleAbsorbance', value: input.sampleAbsorbance, standardUncertainty: uA, sensitivityCoefficient: (-quantumYield / fSample) * absorbedSlope(input.sampleAbsorbance), basis: uABasis });
-  const [uAr, uArBasis] = stated(u.referenceAbsorbance, options.defaultAbsorbanceUncertainty, 'practice default');
+  const [uAr, uArBasis] = stated(u.referenceAbsorbance, options.defaultAbsorbanceUncertainty, absorbanceDefault, 'referenceAbsorbance');
   lines.push({ quantity: 'referenceAbsorbance', value: input.referenceAbsorbance, standardUncertainty: uAr, sensitivityCoefficient: (quantumYield / fReference) * absorbedSlope(input.referenceAbsorbance), basis: uArBasis });
   const sameSolvent = input.sameSolvent ?? nSample === nReference;
   if (!sameSolvent) {
-    const [un, unBasis] = stated(u.sampleRefractiveIndex, options.defaultRefractiveIndexUncertainty, 'practice default');
+    const [un, unBasis] = stated(u.sampleRefractiveIndex, options.defaultRefractiveIndexUncertainty, indexDefault, 'sampleRefractiveIndex');
     lines.push({ quantity: 'sampleRefractiveIndex', value: nSample, standardUncertainty: un, sensitivityCoefficient: (2 * quantumYield) / nSample, basis: unBasis });
-    const [unr, unrBasis] = stated(u.referenceRefractiveIndex, options.defaultRefractiveIndexUncertainty, 'practice default');
+    const [unr, unrBasis] = stated(u.referenceRefractiveIndex, options.defaultRefractiveIndexUncertainty, indexDefault, 'referenceRefractiveIndex');
     lines.push({ quantity: 'referenceRefractiveIndex', value: nReference, standardUncertainty: unr, sensitivityCoefficient: (-2 * quantumYield) / nReference, basis: unrBasis });
   }
   // The detector correction enters as a factor D = 1 on the integral ratio: ∂Φ/∂D = Φ.
-  const [uD, uDBasis] = stated(u.detectorCorrectionRelative, 0, 'not stated');
+  const [uD, uDBasis] = stated(u.detectorCorrectionRelative, 0, NOT_STATED, 'detectorCorrectionRelative');
   lines.push({ quantity: 'detectorCorrection', value: 1, standardUncertainty: uD, sensitivityCoefficient: quantumYield, basis: uDBasis });
-  for (const line of lines) if (line.basis === 'not stated') warnings.push(`u(${line.quantity}) not stated: its contribution is counted as zero`);
+  for (const line of lines) if (line.basis === NOT_STATED) warnings.push(`u(${line.quantity}) not stated: its contribution is counted as zero`);
   const budget = combineUncertainty(lines);
   return Object.freeze({
     quantumYield,

@@ -16,6 +16,12 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     defaultRefractiveIndex: config.analysis.defaultRefractiveIndex,
     cuvette: { ...config.instrument.cuvette },
     maxFileBytes: config.limits.maxFileBytes,
+    yieldWindow: {
+      ...(config.analysis.yieldWindowNm === undefined ? {} : { windowNm: config.analysis.yieldWindowNm }),
+      scatterExclusionNm: config.analysis.scatterExclusionNm,
+      bandEdgeFraction: config.analysis.bandEdgeFraction,
+      bandEdgeAction: config.analysis.bandEdgeAction,
+    },
     ...(reference === undefined
       ? {}
       : {

@@ -31,3 +31,4 @@ export { stokesShift } from './stokes-shift.js';
 export { ramanTest, ramanPeakNm, resolveRamanOptions, WATER_RAMAN_SHIFT_PER_CM, type RamanOptions, type RamanTestResult } from './raman.js';
 export { trapezoid } from './integrate.js';
 export { interpolateAt, resampleOnto } from './interpolate.js';
+export { bandEdgeFractions, defaultIntegrationWindow } from './band-coverage.js';

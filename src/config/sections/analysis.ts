@@ -15,6 +15,14 @@ export const analysisSection = z
       .describe('Refractive index by solvent name (as written in the files), for yields. Default: {} (built-in table)'),
     defaultRefractiveIndex: z.number().min(1).max(3).default(1.333)
       .describe('Refractive index used when a solvent is unknown. Default: 1.333'),
+    yieldWindowNm: z.tuple([z.number().positive(), z.number().positive()]).refine(([a, b]) => b > a, { message: 'yieldWindowNm needs from < to' }).optional()
+      .describe('Integration window of both emission spectra for a yield, [from, to] in nm. Default: the range common to sample and reference, scatterExclusionNm away from the excitation line and its second order'),
+    scatterExclusionNm: z.number().nonnegative().default(15)
+      .describe('Distance in nm kept from the excitation wavelength and from twice it (Rayleigh line, second order) by the default yield window (common practice). Default: 15'),
+    bandEdgeFraction: z.number().positive().max(1).default(0.1)
+      .describe('A band whose value at either edge of the yield window exceeds this fraction of its peak is not back to baseline (scan cut short). Default: 0.1'),
+    bandEdgeAction: z.enum(['refuse', 'flag']).default('refuse')
+      .describe('What a band not back to baseline does to the yield: refuse (yield missing with the reason) or flag (yield reported with a flag). Default: refuse'),
   })
   .prefault({});
 

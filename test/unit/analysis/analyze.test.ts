@@ -39,8 +39,8 @@ describe('analyze', () => {
       { ...file('REF-R6G-0314_em.csv', 'reference-emission', 'reference', 'paired'), pairedFromSetId: 'ref-set' },
       { ...file('REF-R6G-0314_abs.jdx', 'reference-absorbance', 'reference', 'paired'), pairedFromSetId: 'ref-set' },
     ]));
-    expect(result.partial).toBe(false);
     expect(result.missing).toEqual([]);
+    expect(result.partial).toBe(false);
     expect(result.decayFit?.irfSource).toBe('decay-column');
     expect(result.decayFit?.tauMeanIntensityNs).toBeCloseTo(truth?.tauNs ?? 0, 0);
     expect(Math.abs((result.decayFit?.tauMeanIntensityNs ?? 0) / (truth?.tauNs ?? 1) - 1)).toBeLessThan(0.03);
