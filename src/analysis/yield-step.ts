@@ -3,10 +3,9 @@
 // whose corrections the result lists, over one recorded window, through the same budget code path as
 // the `yield` command (photophysics/yield-from-spectra.ts).
 import { AnalysisFailed } from '../model/errors.js';
-import { formatSignificant } from '../model/format-number.js';
 import type { Spectrum } from '../model/spectrum.js';
 import { findSolvent, findStandard, quantumYieldFromSpectra, rateConstantsFromYield, standardWarnings, type QuantumYieldStandard } from '../photophysics/index.js';
-import { bandEdgeFractions, defaultIntegrationWindow } from '../spectra/index.js';
+import { defaultIntegrationWindow } from '../spectra/index.js';
 import type { AnalysisSettings } from './payload.js';
 import type { AbsorbanceSummary, QuantumYieldSummary, RateConstantsSummary } from './result.js';
 import type { StepContext } from './step-context.js';
@@ -52,8 +51,8 @@ const isInnerFilter = (name: string): boolean => name.startsWith('correctInnerFi
  * Φ = Φ_ref·(F/F_ref)·(f_ref/f)·(n²/n_ref²) (Brouwer, Pure Appl. Chem. 83, 2213 (2011)) from the corrected spectra.
  * When both spectra are corrected for the inner filter the attenuation is already undone, so f = A (the dilute-limit
  * form; 1 − 10^(−A) ≈ ln10·A·10^(−A/2) is what the uncorrected spectra need); otherwise f = 1 − 10^(−A).
- * Throws AnalysisFailed when sample and reference were not corrected alike, when a band is not back to baseline
- * (bandEdgeAction 'refuse'), or when Φ exceeds 1 by more than 3 u.
+ * Throws AnalysisFailed when sample and reference were not corrected alike, and what quantumYieldFromSpectra throws
+ * (band not back to baseline with bandEdgeAction 'refuse', Φ above 1 by more than 3 u).
  */
 export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSettings, context: StepContext): QuantumYieldSummary {
   const sampleInner = inputs.sampleCorrections.some(isInnerFilter);
@@ -74,19 +73,7 @@ export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSetti
   const sampleN = refractiveIndexFor(inputs.sampleSolvent, settings, context);
   const windowSettings = { ...WINDOW_DEFAULTS, ...settings.yieldWindow };
   const windowNm = windowSettings.windowNm ?? defaultIntegrationWindow([inputs.sampleEmission, inputs.referenceEmission], inputs.excitationNm, windowSettings.scatterExclusionNm);
-  const flags: string[] = [];
-  const warnings = [...standardWarnings(standard, inputs.referenceAbsorbance.excitationNm)];
-  for (const [role, spectrum] of [['sample', inputs.sampleEmission], ['reference', inputs.referenceEmission]] as const) {
-    const edges = bandEdgeFractions(spectrum, windowNm);
-    const worst = Math.max(edges.lower, edges.upper);
-    if (!(worst <= windowSettings.bandEdgeFraction)) {
-      const side = edges.lower >= edges.upper ? `${formatSignificant(windowNm[0])} nm (lower)` : `${formatSignificant(windowNm[1])} nm (upper)`;
-      const message = `the ${role} emission is not back to baseline at ${side}: ${formatSignificant(100 * worst, 3)} % of its peak, above ${formatSignificant(100 * windowSettings.bandEdgeFraction)} % (analysis.bandEdgeFraction); the scan may be cut short inside its band — measure the whole band or set analysis.yieldWindowNm`;
-      if (windowSettings.bandEdgeAction === 'refuse') throw new AnalysisFailed('OUT_OF_RANGE', message);
-      if (!flags.includes('band-not-at-baseline')) flags.push('band-not-at-baseline');
-      warnings.push(message);
-    }
-  }
+  const warnings = standardWarnings(standard, inputs.referenceAbsorbance.excitationNm);
   const lightAbsorbed = sampleInner ? 'absorbance' : 'absorptance';
   const qy = quantumYieldFromSpectra({
     sampleEmission: inputs.sampleEmission,
@@ -99,17 +86,9 @@ export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSetti
     referenceYield,
     referenceYieldUncertainty: referenceYieldU,
     options: { lightAbsorbed, absorbanceWarnLimit: Math.min(settings.maxAbsorbanceForYield, 0.1) },
+    bandEdgeFraction: windowSettings.bandEdgeFraction,
+    bandEdgeAction: windowSettings.bandEdgeAction,
   });
-  if (qy.quantumYield > 1) {
-    const excess = (qy.quantumYield - 1) / qy.standardUncertainty;
-    if (!(excess <= 3)) {
-      throw new AnalysisFailed(
-        'OUT_OF_RANGE',
-        `the yield ${formatSignificant(qy.quantumYield)} exceeds 1 by ${Number.isFinite(excess) ? formatSignificant(excess, 2) : 'infinitely many'} standard uncertainties (u = ${formatSignificant(qy.standardUncertainty, 2)}); check the corrections, absorbances and the standard`,
-      );
-    }
-    flags.push('above-one-within-uncertainty');
-  }
   return {
     value: qy.quantumYield,
     standardUncertainty: qy.standardUncertainty,
@@ -134,7 +113,7 @@ export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSetti
       sampleCorrections: [...inputs.sampleCorrections],
       referenceCorrections: [...inputs.referenceCorrections],
     },
-    flags,
+    flags: [...qy.flags],
     warnings: [...warnings, ...qy.warnings],
   };
 }

@@ -3,14 +3,16 @@
 import type { Command } from 'commander';
 import { ConfigInvalid, InputRejected } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
+import { formatSignificant } from '../model/format-number.js';
 import {
   findSolvent,
   findStandard,
-  relativeQuantumYield,
+  quantumYieldFromSpectra,
   standardWarnings,
+  type LabelledUncertainty,
   type QuantumYieldStandard,
 } from '../photophysics/index.js';
-import { integralWithUncertainty, interpolateAt } from '../spectra/index.js';
+import { defaultIntegrationWindow, interpolateAt } from '../spectra/index.js';
 import type { CommandModule } from './command-module.js';
 import { finiteNumber, readSpectrumFile, toJson } from './correct.js';
 
@@ -26,7 +28,27 @@ interface YieldCliOptions {
   readonly referenceIndex?: number;
   readonly excitationNm?: number;
   readonly detectorUncertainty?: number;
+  readonly windowNm?: readonly [number, number];
+  readonly scatterExclusionNm: number;
+  readonly bandEdgeFraction: number;
+  readonly bandEdgeAction: string;
   readonly json?: boolean;
+}
+
+/** Parses "FROM,TO" (nm) for --window-nm. */
+function windowOption(text: string): [number, number] {
+  const parts = text.split(',').map((p) => Number(p.trim()));
+  const [from, to] = parts;
+  if (parts.length !== 2 || from === undefined || to === undefined || !Number.isFinite(from) || !Number.isFinite(to) || !(to > from)) {
+    throw new ConfigInvalid(`--window-nm "${text}" is not FROM,TO in nm with FROM < TO`, { configPath: '--window-nm' });
+  }
+  return [from, to];
+}
+
+function standardUncertaintyBasis(standard: QuantumYieldStandard): string {
+  if (standard.uncertaintyBasis === 'stated') return `stated in ${standard.source}`;
+  if (standard.uncertaintyBasis === 'range') return `estimated from the published range (half-range/√3, GUM 4.3.7), ${standard.source}`;
+  return `assumed: 4 % of the value (no uncertainty published in ${standard.source})`;
 }
 
 function absorbanceAt(spectrum: Spectrum, excitationNm: number, file: string): number {
@@ -68,24 +90,33 @@ function runYield(options: YieldCliOptions): void {
   if (standard !== undefined) warnings.push(...standardWarnings(standard, referenceExcitationNm ?? excitationNm));
   const sampleIndex = refractiveIndex(options.sampleIndex, sample, undefined, 'sample');
   const referenceIndex = refractiveIndex(options.referenceIndex, reference, standard?.refractiveIndex, 'reference');
-  const sampleIntegral = integralWithUncertainty(sample);
-  const referenceIntegral = integralWithUncertainty(reference);
   const referenceYield = standard?.quantumYield ?? (options.referenceYield as number);
-  const referenceYieldUncertainty = options.referenceYieldUncertainty ?? standard?.standardUncertainty;
-  const result = relativeQuantumYield({
-    sampleIntegral: sampleIntegral.integral,
-    referenceIntegral: referenceIntegral.integral,
+  const referenceYieldUncertainty: LabelledUncertainty | undefined = options.referenceYieldUncertainty !== undefined
+    ? { value: options.referenceYieldUncertainty, basis: 'stated by the user (--reference-yield-uncertainty)' }
+    : standard === undefined ? undefined : { value: standard.standardUncertainty, basis: standardUncertaintyBasis(standard) };
+  if (options.bandEdgeAction !== 'refuse' && options.bandEdgeAction !== 'flag') {
+    throw new ConfigInvalid(`--band-edge-action must be refuse or flag, not "${options.bandEdgeAction}"`, { configPath: '--band-edge-action' });
+  }
+  // The excitation line closest to the bands bounds the default window; a second, different one is the user's to check.
+  const referenceLine = referenceExcitationNm ?? excitationNm;
+  if (options.windowNm === undefined && Math.abs(referenceLine - excitationNm) > 1) {
+    warnings.push(`sample and reference were excited at different wavelengths (${formatSignificant(excitationNm)} and ${formatSignificant(referenceLine)} nm): the default window keeps ${formatSignificant(options.scatterExclusionNm)} nm from the lower one only; give --window-nm when a scatter line lies inside the bands`);
+  }
+  const windowNm = options.windowNm ?? defaultIntegrationWindow([sample, reference], Math.min(excitationNm, referenceLine), options.scatterExclusionNm);
+  const result = quantumYieldFromSpectra({
+    sampleEmission: sample,
+    referenceEmission: reference,
+    windowNm,
     sampleAbsorbance: absorbanceAt(sampleAbsorbanceSpectrum, excitationNm, options.sampleAbsorbance),
-    referenceAbsorbance: absorbanceAt(referenceAbsorbanceSpectrum, referenceExcitationNm ?? excitationNm, options.referenceAbsorbance),
+    referenceAbsorbance: absorbanceAt(referenceAbsorbanceSpectrum, referenceLine, options.referenceAbsorbance),
     sampleRefractiveIndex: sampleIndex.value,
     referenceRefractiveIndex: referenceIndex.value,
     referenceYield,
-    uncertainties: {
-      ...(referenceYieldUncertainty === undefined ? {} : { referenceYield: referenceYieldUncertainty }),
-      ...(sampleIntegral.standardUncertainty === undefined ? {} : { sampleIntegral: sampleIntegral.standardUncertainty }),
-      ...(referenceIntegral.standardUncertainty === undefined ? {} : { referenceIntegral: referenceIntegral.standardUncertainty }),
-      ...(options.detectorUncertainty === undefined ? {} : { detectorCorrectionRelative: options.detectorUncertainty }),
-    },
+    ...(referenceYieldUncertainty === undefined ? {} : { referenceYieldUncertainty }),
+    ...(options.detectorUncertainty === undefined ? {} : { detectorCorrectionRelative: { value: options.detectorUncertainty, basis: 'stated by the user (--detector-uncertainty)' } }),
+    bandEdgeFraction: options.bandEdgeFraction,
+    bandEdgeAction: options.bandEdgeAction,
+    settingNames: { fraction: '--band-edge-fraction', window: '--window-nm' },
   });
   const allWarnings = [...warnings, ...result.warnings];
   if (options.json === true) {
@@ -96,6 +127,10 @@ function runYield(options: YieldCliOptions): void {
         budget: result.budget,
         dominantContribution: result.dominantContribution,
         excitationNm,
+        windowNm,
+        sampleIntegral: result.sampleIntegral,
+        referenceIntegral: result.referenceIntegral,
+        flags: result.flags,
         referenceYield,
         ...(standard === undefined ? {} : { standard: standard.id, standardStatus: standard.status }),
         sampleRefractiveIndex: sampleIndex,
@@ -106,10 +141,11 @@ function runYield(options: YieldCliOptions): void {
     return;
   }
   const lines = [
-    `quantum yield ${result.quantumYield.toFixed(4)} ± ${result.standardUncertainty.toFixed(4)} (standard uncertainty; dominant: ${result.dominantContribution})`,
-    'budget (quantity, value, u, |c·u|, share of variance):',
+    `quantum yield ${formatSignificant(result.quantumYield)} ± ${formatSignificant(result.standardUncertainty, 2)} (standard uncertainty; dominant: ${result.dominantContribution})`,
+    `integration window ${formatSignificant(windowNm[0])}–${formatSignificant(windowNm[1])} nm${result.flags.length > 0 ? `; flags: ${result.flags.join(', ')}` : ''}`,
+    'budget (quantity, value, u, |c·u|, share of variance, basis):',
     ...result.budget.map(
-      (l) => `  ${l.quantity.padEnd(26)} ${l.value.toPrecision(6).padStart(12)} ${l.standardUncertainty.toPrecision(3).padStart(10)} ${l.contribution.toPrecision(3).padStart(10)} ${(100 * l.varianceShare).toFixed(1).padStart(5)} %  (${l.basis})`,
+      (l) => `  ${l.quantity.padEnd(26)} ${formatSignificant(l.value, 6).padStart(12)} ${formatSignificant(l.standardUncertainty, 3).padStart(10)} ${formatSignificant(l.contribution, 3).padStart(10)} ${formatSignificant(100 * l.varianceShare, 3).padStart(5)} %  (${l.basis})`,
     ),
     ...allWarnings.map((w) => `warning: ${w}`),
   ];
@@ -120,7 +156,7 @@ export const yieldCommand: CommandModule = {
   register(program: Command): void {
     program
       .command('yield')
-      .description('Relative fluorescence quantum yield Φ = Φr·(F/Fr)·(fr/f)·(n²/nr²), f = 1 − 10^(−A) (Brouwer 2011), with an uncertainty budget. Spectra must already be corrected.')
+      .description('Relative fluorescence quantum yield Φ = Φr·(F/Fr)·(fr/f)·(n²/nr²), f = 1 − 10^(−A) (Brouwer 2011), with an uncertainty budget whose lines say how each u was obtained. Spectra must already be corrected (blank, detector), not for the inner filter.')
       .requiredOption('--sample <file>', 'corrected emission spectrum of the sample')
       .requiredOption('--sample-absorbance <file>', 'absorbance spectrum of the sample')
       .requiredOption('--reference <file>', 'corrected emission spectrum of the reference')
@@ -132,6 +168,10 @@ export const yieldCommand: CommandModule = {
       .option('--reference-index <n>', 'refractive index of the reference solvent (default: standard or file solvent)', finiteNumber)
       .option('--excitation-nm <nm>', 'excitation wavelength in nm (default: from the sample file)', finiteNumber)
       .option('--detector-uncertainty <relative>', 'relative standard uncertainty of the detector-correction ratio', finiteNumber)
+      .option('--window-nm <from,to>', 'integration window in nm for both spectra (default: their common range, kept --scatter-exclusion-nm from the excitation line and twice it)', windowOption)
+      .option('--scatter-exclusion-nm <nm>', 'distance kept from the excitation line and its second order by the default window', finiteNumber, 15)
+      .option('--band-edge-fraction <fraction>', 'a band above this fraction of its peak at a window edge is not back to baseline', finiteNumber, 0.1)
+      .option('--band-edge-action <action>', 'refuse or flag a band not back to baseline', 'refuse')
       .option('--json', 'print the result as JSON')
       .action((options: YieldCliOptions) => {
         runYield(options);
