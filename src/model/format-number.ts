@@ -8,7 +8,7 @@ export function formatSignificant(value: number, digits = 4): string {
   const magnitude = Math.abs(value);
   if (magnitude >= 1e7 || magnitude < 1e-4) {
     const [mantissa = '', exponent = ''] = value.toExponential(digits - 1).split('e');
-    return `${stripZeros(mantissa)}e${exponent}`;
+    return `${stripZeros(mantissa)}e${exponent.replace(/^\+/, '')}`;
   }
   // toPrecision may answer in exponent form for large integers; Number() turns it back into plain digits.
   return stripZeros(String(Number(value.toPrecision(digits))));
