@@ -4,7 +4,7 @@
 // the `yield` command (photophysics/yield-from-spectra.ts).
 import { AnalysisFailed } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { findSolvent, findStandard, quantumYieldFromSpectra, rateConstantsFromYield, standardWarnings, type QuantumYieldStandard } from '../photophysics/index.js';
+import { findSolvent, findStandard, quantumYieldFromSpectra, rateConstantsFromYield, standardUncertaintyBasis, standardWarnings } from '../photophysics/index.js';
 import { defaultIntegrationWindow } from '../spectra/index.js';
 import type { AnalysisSettings } from './payload.js';
 import type { AbsorbanceSummary, QuantumYieldSummary, RateConstantsSummary } from './result.js';
@@ -37,12 +37,6 @@ export function refractiveIndexFor(solvent: string | undefined, settings: Analys
   }
   context.warnings.push(`no refractive index for solvent "${solvent ?? 'unknown'}": used ${settings.defaultRefractiveIndex}`);
   return settings.defaultRefractiveIndex;
-}
-
-function standardUncertaintyBasis(standard: QuantumYieldStandard): string {
-  if (standard.uncertaintyBasis === 'stated') return `stated in ${standard.source}`;
-  if (standard.uncertaintyBasis === 'range') return `estimated from the published range (half-range/√3, GUM 4.3.7), ${standard.source}`;
-  return `assumed: 4 % of the value (no uncertainty published in ${standard.source})`;
 }
 
 const isInnerFilter = (name: string): boolean => name.startsWith('correctInnerFilter');

@@ -8,6 +8,7 @@ import {
   findSolvent,
   findStandard,
   quantumYieldFromSpectra,
+  standardUncertaintyBasis,
   standardWarnings,
   type LabelledUncertainty,
   type QuantumYieldStandard,
@@ -43,12 +44,6 @@ function windowOption(text: string): [number, number] {
     throw new ConfigInvalid(`--window-nm "${text}" is not FROM,TO in nm with FROM < TO`, { configPath: '--window-nm' });
   }
   return [from, to];
-}
-
-function standardUncertaintyBasis(standard: QuantumYieldStandard): string {
-  if (standard.uncertaintyBasis === 'stated') return `stated in ${standard.source}`;
-  if (standard.uncertaintyBasis === 'range') return `estimated from the published range (half-range/√3, GUM 4.3.7), ${standard.source}`;
-  return `assumed: 4 % of the value (no uncertainty published in ${standard.source})`;
 }
 
 function absorbanceAt(spectrum: Spectrum, excitationNm: number, file: string): number {

@@ -2,7 +2,7 @@
 // Strickler–Berg and Stern–Volmer.
 export type { ReferenceStatus } from './reference-status.js';
 export { SOLVENT_REFRACTIVE_INDICES, findSolvent, refractiveIndexOf, type SolventRefractiveIndex } from './refractive-indices.js';
-export { STANDARDS, findStandard, standardWarnings, type QuantumYieldStandard } from './standards.js';
+export { BROUWER_2011, STANDARDS, findStandard, standardUncertaintyBasis, standardWarnings, type QuantumYieldStandard } from './standards.js';
 export { combineUncertainty, type BudgetInput, type BudgetLine, type UncertaintyBudget } from './uncertainty-budget.js';
 export { absorptanceFromAbsorbance } from './absorptance.js';
 export {

@@ -1,4 +1,4 @@
-// Refractive indices of common solvents at the sodium D line (REFERENCES.md, with status), found by name.
+// Refractive indices of common solvents at the sodium D line, with source and status, found by name.
 import { InputRejected } from '../model/errors.js';
 import type { ReferenceStatus } from './reference-status.js';
 
@@ -14,9 +14,9 @@ export interface SolventRefractiveIndex {
   readonly source: string;
 }
 
-const CRC = 'CRC Handbook of Chemistry and Physics (REFERENCES.md)';
+const CRC = 'CRC Handbook of Chemistry and Physics';
 
-/** Solvent refractive-index table (REFERENCES.md "Refractive indices"). */
+/** Solvent refractive-index table (sodium D line; CRC Handbook where confirmed). */
 export const SOLVENT_REFRACTIVE_INDICES: readonly SolventRefractiveIndex[] = Object.freeze([
   { id: 'water', names: ['water', 'h2o'], refractiveIndex: 1.333, temperatureC: 20, standardUncertainty: 0.0005, status: 'confirmed', source: `${CRC}: 1.33336` },
   { id: 'methanol', names: ['methanol', 'meoh'], refractiveIndex: 1.329, temperatureC: 20, standardUncertainty: 0.0005, status: 'confirmed', source: CRC },
@@ -25,9 +25,9 @@ export const SOLVENT_REFRACTIVE_INDICES: readonly SolventRefractiveIndex[] = Obj
   { id: 'toluene', names: ['toluene'], refractiveIndex: 1.4969, temperatureC: 20, standardUncertainty: 0.0005, status: 'confirmed', source: CRC },
   { id: 'acetonitrile', names: ['acetonitrile', 'mecn', 'ch3cn'], refractiveIndex: 1.3442, temperatureC: 20, standardUncertainty: 0.0005, status: 'confirmed', source: CRC },
   { id: 'dmso', names: ['dmso', 'dimethyl sulfoxide', 'dimethylsulfoxide'], refractiveIndex: 1.4768, temperatureC: 25, standardUncertainty: 0.0005, status: 'confirmed', source: CRC },
-  { id: 'h2so4-0.5m', names: ['0.5 m h2so4', 'h2so4 0.5 m', '0.5m h2so4', 'sulfuric acid 0.5 m'], refractiveIndex: 1.339, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'REFERENCES.md (memory)' },
-  { id: 'hclo4-0.1m', names: ['0.1 m hclo4', 'hclo4 0.1 m', '0.1m hclo4', 'perchloric acid 0.1 m'], refractiveIndex: 1.334, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'REFERENCES.md (memory)' },
-  { id: 'naoh-0.1m', names: ['0.1 m naoh', 'naoh 0.1 m', '0.1m naoh', 'sodium hydroxide 0.1 m'], refractiveIndex: 1.334, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'REFERENCES.md (memory)' },
+  { id: 'h2so4-0.5m', names: ['0.5 m h2so4', 'h2so4 0.5 m', '0.5m h2so4', 'sulfuric acid 0.5 m'], refractiveIndex: 1.339, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'from memory (no published source confirmed)' },
+  { id: 'hclo4-0.1m', names: ['0.1 m hclo4', 'hclo4 0.1 m', '0.1m hclo4', 'perchloric acid 0.1 m'], refractiveIndex: 1.334, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'from memory (no published source confirmed)' },
+  { id: 'naoh-0.1m', names: ['0.1 m naoh', 'naoh 0.1 m', '0.1m naoh', 'sodium hydroxide 0.1 m'], refractiveIndex: 1.334, temperatureC: undefined, standardUncertainty: 0.002, status: 'memory', source: 'from memory (no published source confirmed)' },
 ]);
 
 function normalizeName(name: string): string {

@@ -7,6 +7,7 @@ import type { ReferenceConfig } from '../config/sections/references.js';
 /** The settings analyze() needs, taken from the resolved config (plus the reference standard used, if any). */
 export function analysisSettingsFrom(config: DriftlightConfig, reference?: { standardId: string; entry?: ReferenceConfig }): AnalysisSettings {
   const entry = reference?.entry;
+  const [windowFromNm, windowToNm] = config.analysis.yieldWindowNm ?? [];
   return {
     components: config.analysis.components,
     estimator: config.analysis.estimator,
@@ -17,7 +18,7 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     cuvette: { ...config.instrument.cuvette },
     maxFileBytes: config.limits.maxFileBytes,
     yieldWindow: {
-      ...(config.analysis.yieldWindowNm === undefined ? {} : { windowNm: config.analysis.yieldWindowNm }),
+      ...(windowFromNm === undefined || windowToNm === undefined ? {} : { windowNm: [windowFromNm, windowToNm] as const }),
       scatterExclusionNm: config.analysis.scatterExclusionNm,
       bandEdgeFraction: config.analysis.bandEdgeFraction,
       bandEdgeAction: config.analysis.bandEdgeAction,

@@ -15,8 +15,8 @@ export const analysisSection = z
       .describe('Refractive index by solvent name (as written in the files), for yields. Default: {} (built-in table)'),
     defaultRefractiveIndex: z.number().min(1).max(3).default(1.333)
       .describe('Refractive index used when a solvent is unknown. Default: 1.333'),
-    yieldWindowNm: z.tuple([z.number().positive(), z.number().positive()]).refine(([a, b]) => b > a, { message: 'yieldWindowNm needs from < to' }).optional()
-      .describe('Integration window of both emission spectra for a yield, [from, to] in nm. Default: the range common to sample and reference, scatterExclusionNm away from the excitation line and its second order'),
+    yieldWindowNm: z.array(z.number().positive()).length(2).refine((w) => (w[1] ?? 0) > (w[0] ?? 0), { message: 'yieldWindowNm needs [from, to] with from < to' }).optional()
+      .describe('Integration window of both emission spectra for a yield, [from, to] in nm (two numbers). Default: the range common to sample and reference, scatterExclusionNm away from the excitation line and its second order'),
     scatterExclusionNm: z.number().nonnegative().default(15)
       .describe('Distance in nm kept from the excitation wavelength and from twice it (Rayleigh line, second order) by the default yield window (common practice). Default: 15'),
     bandEdgeFraction: z.number().positive().max(1).default(0.1)

@@ -22,6 +22,22 @@ describe('quantum-yield standards', () => {
     expect(STANDARDS.every((s) => s.standardUncertainty > 0)).toBe(true);
   });
 
+  it('shows for every standard its value, uncertainty, solvent, temperature and a citable source (issue 15 item 8)', () => {
+    for (const s of STANDARDS) {
+      expect(s.quantumYield).toBeGreaterThan(0);
+      expect(s.standardUncertainty).toBeGreaterThan(0);
+      expect(s.solvent).not.toBe('');
+      expect(s.temperature).toMatch(/°C/);
+      // Authors, journal, volume, first page (year): a reference a lab can look up.
+      expect(s.source).toMatch(/^[A-Z].*, [A-Z][A-Za-z. ]+ \d+, \d+ \(\d{4}\)/);
+    }
+    // A value not yet re-read in its source says so, names the source to check and how to state one's own value.
+    const warning = standardWarnings(findStandard('rhodamine-6g-ethanol'), 480).join(' ');
+    expect(warning).toContain('Kubin & Fletcher, J. Lumin. 27, 455 (1982)');
+    expect(warning).toContain('references[].quantumYield');
+    expect(standardWarnings(findStandard('cresyl-violet-methanol'), 580)).toEqual([]);
+  });
+
   it('finds solvents by common name (n from REFERENCES.md, confirmed)', () => {
     expect(findSolvent('Ethanol')?.refractiveIndex).toBe(1.3618);
     expect(findSolvent('0.1M NaOH')?.id).toBe('naoh-0.1m');
