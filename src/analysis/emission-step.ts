@@ -65,7 +65,7 @@ export function correctEmission(
     }
   }
   if (detectorCurve !== undefined) {
-    const done = tryCorrection(context, target, 'applyDetectorCorrection', () => applyDetectorCorrection(spectrum, detectorCurve), refused);
+    const done = tryCorrection(context, target, 'applyDetectorCorrection', () => applyDetectorCorrection(spectrum, detectorCurve, { curveMeaning: settings.detectorCurveMeaning ?? 'from-header' }), refused);
     if (done !== undefined) {
       spectrum = record(context, target, done);
       applied.push(done.record.name);

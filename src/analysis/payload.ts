@@ -27,6 +27,8 @@ export interface AnalysisSettings {
   readonly defaultRefractiveIndex: number;
   readonly cuvette: { readonly pathLengthCm: number; readonly excitationWindowStartCm: number; readonly excitationWindowEndCm: number };
   readonly maxFileBytes: number;
+  /** What the detector curve holds (config instrument.detectorCurveMeaning); default 'from-header'. */
+  readonly detectorCurveMeaning?: 'from-header' | 'multiply' | 'divide';
   /** Integration window and band-edge check of relative yields (config analysis.yieldWindowNm etc.); defaults as in the config section. */
   readonly yieldWindow?: {
     readonly windowNm?: readonly [number, number];

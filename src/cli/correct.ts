@@ -4,6 +4,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { basename, extname } from 'node:path';
 import { InvalidArgumentError, type Command } from 'commander';
 import { readData, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
+import { formatSignificant } from '../model/format-number.js';
 import { ConfigInvalid, InputRejected } from '../model/errors.js';
 import type { Spectrum, SpectrumKind } from '../model/spectrum.js';
 import {
@@ -50,6 +51,7 @@ export function finiteNumber(text: string): number {
 interface CorrectCliOptions {
   readonly blank?: string;
   readonly detectorCurve?: string;
+  readonly detectorCurveMeaning: string;
   readonly absorbance?: string;
   readonly innerFilter?: 'centred' | 'geometric';
   readonly excitationNm?: number;
@@ -70,7 +72,11 @@ function runCorrect(path: string, options: CorrectCliOptions): void {
     if (records.length > 0 && findReferenceChannel(blank) !== undefined) blank = normalizeByReferenceChannel(blank).spectrum;
     apply(subtractBlank(spectrum, blank));
   }
-  if (options.detectorCurve !== undefined) apply(applyDetectorCorrection(spectrum, readSpectrumFile(options.detectorCurve, 'detector-correction')));
+  const curveMeaning = options.detectorCurveMeaning;
+  if (curveMeaning !== 'from-header' && curveMeaning !== 'multiply' && curveMeaning !== 'divide') {
+    throw new ConfigInvalid(`--detector-curve-meaning must be from-header, multiply or divide, not "${curveMeaning}"`, { configPath: '--detector-curve-meaning' });
+  }
+  if (options.detectorCurve !== undefined) apply(applyDetectorCorrection(spectrum, readSpectrumFile(options.detectorCurve, 'detector-correction'), { curveMeaning }));
   if (options.absorbance !== undefined) {
     const absorbance = readSpectrumFile(options.absorbance, 'absorbance');
     apply(
@@ -96,8 +102,8 @@ function runCorrect(path: string, options: CorrectCliOptions): void {
   const lines = [
     `${path}: ${records.length} correction(s) applied`,
     ...records.map((r, i) => `  ${i + 1}. ${r.name}${r.warnings.length > 0 ? ` (warnings: ${r.warnings.join('; ')})` : ''}`),
-    `peak ${metrics.peakWavelengthNm.toFixed(2)} nm, FWHM ${metrics.fwhmNm === undefined ? 'n/a' : `${metrics.fwhmNm.toFixed(2)} nm`}, ` +
-      `centroid ${metrics.centroidNm.toFixed(2)} nm, integral ${metrics.integratedIntensity.toPrecision(6)} ${spectrum.valueUnit}·nm`,
+    `peak ${formatSignificant(metrics.peakWavelengthNm, 5)} nm, FWHM ${metrics.fwhmNm === undefined ? 'n/a' : `${formatSignificant(metrics.fwhmNm, 3)} nm`}, ` +
+      `centroid ${formatSignificant(metrics.centroidNm, 5)} nm, integral ${formatSignificant(metrics.integratedIntensity, 4)} ${spectrum.valueUnit}·nm`,
     ...metrics.warnings.map((w) => `warning: ${w}`),
     ...(options.out === undefined ? [] : [`written: ${options.out}`]),
   ];
@@ -111,7 +117,8 @@ export const correctCommand: CommandModule = {
       .description('Correct an emission spectrum (reference channel, solvent blank, detector curve, inner filter) and report its metrics.')
       .argument('<spectrum>', 'emission spectrum file (CSV/TSV, JCAMP-DX or driftlight JSON)')
       .option('--blank <file>', 'solvent blank at the same excitation wavelength (subtracted; removes the solvent Raman band)')
-      .option('--detector-curve <file>', 'emission correction factors vs wavelength (multiplied; never extrapolated)')
+      .option('--detector-curve <file>', 'detector curve vs wavelength: correction factors (multiplied) or relative response (divided); never extrapolated')
+      .option('--detector-curve-meaning <how>', 'multiply (correction factors), divide (relative response / sensitivity) or from-header (read it from the curve; refused when it does not tell)', 'from-header')
       .option('--absorbance <file>', 'absorbance spectrum of the sample, for the inner-filter correction')
       .option('--inner-filter <method>', 'inner-filter form: centred (10^((Aex+Aem)/2)) or geometric (viewed zone 0.4–0.6 cm); default centred', (text: string) => {
         if (text !== 'centred' && text !== 'geometric') throw new InvalidArgumentError('expected centred or geometric');

@@ -16,6 +16,7 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     refractiveIndex: { ...config.analysis.refractiveIndex },
     defaultRefractiveIndex: config.analysis.defaultRefractiveIndex,
     cuvette: { ...config.instrument.cuvette },
+    detectorCurveMeaning: config.instrument.detectorCurveMeaning,
     maxFileBytes: config.limits.maxFileBytes,
     yieldWindow: {
       ...(windowFromNm === undefined || windowToNm === undefined ? {} : { windowNm: [windowFromNm, windowToNm] as const }),

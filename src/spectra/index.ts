@@ -8,7 +8,7 @@ export {
   resolveReferenceChannelOptions,
   type ReferenceChannelOptions,
 } from './reference-channel.js';
-export { applyDetectorCorrection, resolveDetectorCorrectionOptions, type DetectorCorrectionOptions } from './detector-correction.js';
+export { applyDetectorCorrection, detectorCurveMeaningFromHeader, resolveDetectorCorrectionOptions, type DetectorCorrectionOptions } from './detector-correction.js';
 export {
   correctInnerFilter,
   centredInnerFilterFactor,

@@ -57,6 +57,18 @@ describe('driftlight correct', () => {
     expect(run.stderr).toContain('AXIS_NOT_COVERED');
   });
 
+  it('refuses a detector curve that does not say whether to multiply or divide, unless told (issue 15 item 5)', () => {
+    const silentCurve = write('silent-curve.csv', writeSpectrumCsv(makeSpectrum('detector-correction', absorbanceAxis, absorbanceAxis.map(() => 2), { valueUnit: 'a.u.' })));
+    const refused = runDriftlight(['correct', samplePath, '--detector-curve', silentCurve]);
+    expect(refused.status).toBe(3);
+    expect(refused.stderr).toContain('does not say whether it holds correction factors');
+    expect(refused.stderr).toContain('--detector-curve-meaning');
+    const told = runDriftlight(['correct', samplePath, '--detector-curve', silentCurve, '--detector-curve-meaning', 'divide', '--json']);
+    expect(told.status).toBe(0);
+    const report = JSON.parse(told.stdout) as { corrections: { parameters: Record<string, unknown> }[] };
+    expect(report.corrections[0]?.parameters['curveMeaning']).toBe('divide');
+  });
+
   it('refuses a blank measured at another excitation wavelength (exit 3, EXCITATION_MISMATCH)', () => {
     const otherBlank = write('blank-360.csv', writeSpectrumCsv(makeSpectrum('blank', blankAxis, solvent(blankAxis), { metadata: { excitationNm: 360 } })));
     const run = runDriftlight(['correct', samplePath, '--blank', otherBlank]);

@@ -4,7 +4,9 @@ import { z } from 'zod';
 export const instrumentSection = z
   .strictObject({
     detectorCorrectionFile: z.string().min(1).optional()
-      .describe('Spectral correction curve (wavelength, factor) applied to every emission spectrum; relative to the config file. Default: none'),
+      .describe('Spectral correction curve (wavelength, value) applied to every emission spectrum; relative to the config file. Default: none'),
+    detectorCurveMeaning: z.enum(['from-header', 'multiply', 'divide']).default('from-header')
+      .describe('What the detector curve holds: multiply (correction factors) or divide (relative response / sensitivity); from-header reads it from the curve\'s value column, unit or header and refuses the curve when they do not tell. Default: from-header'),
     irfValidityHours: z.number().min(0).default(24)
       .describe('An IRF is valid for pairing this long after it was recorded, in hours. Default: 24'),
     cuvette: z

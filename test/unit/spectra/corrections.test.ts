@@ -113,3 +113,41 @@ describe('hashSpectrumData', () => {
     expect(hashSpectrumData(a)).not.toBe(hashSpectrumData(c));
   });
 });
+
+describe('detector curve direction (issue 15 item 5)', () => {
+  // Round trip (exact by construction): a known emission E(λ) seen through a known relative response R(λ) is M = E·R;
+  // correcting M with R (divide) or with the factors 1/R (multiply) must give E back.
+  const axis = Array.from({ length: 201 }, (_u, i) => 400 + i);
+  const emission = axis.map((nm) => 1000 * Math.exp(-((nm - 500) ** 2) / (2 * 25 ** 2)));
+  const response = axis.map((nm) => 0.2 + 0.8 * Math.exp(-((nm - 450) ** 2) / (2 * 120 ** 2)));
+  const measured = makeSpectrum('emission', axis, emission.map((e, i) => e * (response[i] as number)));
+
+  it('divides by a curve whose column says relative response, and multiplies by one that says correction factor', () => {
+    const responseCurve = makeSpectrum('detector-correction', axis, response, { valueColumn: 'relative response' });
+    const factorCurve = makeSpectrum('detector-correction', axis, response.map((r) => 1 / r), { valueColumn: 'correction factor' });
+    for (const curve of [responseCurve, factorCurve]) {
+      const done = applyDetectorCorrection(measured, curve);
+      done.spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
+    }
+    expect(applyDetectorCorrection(measured, responseCurve).record.parameters['curveMeaning']).toBe('divide');
+    expect(applyDetectorCorrection(measured, responseCurve).record.parameters['curveMeaningFrom']).toBe('value column "relative response"');
+  });
+
+  it('reads "sensitivity" in the unit or a header entry as a response', () => {
+    const byUnit = makeSpectrum('detector-correction', axis, response, { valueUnit: 'sensitivity (a.u.)', valueColumn: 'value' });
+    const byHeader = makeSpectrum('detector-correction', axis, response, { valueColumn: 'value', metadata: { extra: { 'curve type': 'detector sensitivity' } } });
+    for (const curve of [byUnit, byHeader]) applyDetectorCorrection(measured, curve).spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
+  });
+
+  it('refuses a curve that does not say what it holds, with a hint naming the option, and obeys the explicit option', () => {
+    const silent = makeSpectrum('detector-correction', axis, response, { valueColumn: 'value', valueUnit: 'a.u.' });
+    expect(codeOf(() => applyDetectorCorrection(measured, silent))).toBe('INPUT_INVALID');
+    expect(() => applyDetectorCorrection(measured, silent)).toThrow(/does not say whether it holds correction factors/);
+    try {
+      applyDetectorCorrection(measured, silent);
+    } catch (error) {
+      expect((error as { hint: string }).hint).toContain('instrument.detectorCurveMeaning');
+    }
+    applyDetectorCorrection(measured, silent, { curveMeaning: 'divide' }).spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
+  });
+});

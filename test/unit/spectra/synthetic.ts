@@ -36,7 +36,7 @@ export function makeSpectrum(
   kind: SpectrumInput['kind'],
   wavelengthNm: readonly number[],
   values: readonly number[],
-  extras: { noiseSigma?: number; seed?: number; metadata?: SpectrumInput['metadata']; valueUnit?: string; otherColumns?: SpectrumInput['otherColumns'] } = {},
+  extras: { noiseSigma?: number; seed?: number; metadata?: SpectrumInput['metadata']; valueUnit?: string; valueColumn?: string; otherColumns?: SpectrumInput['otherColumns'] } = {},
 ): Spectrum {
   const normal = seededNormal(extras.seed ?? 1);
   const noisy = extras.noiseSigma === undefined ? values : values.map((v) => v + (extras.noiseSigma as number) * normal());
@@ -45,6 +45,7 @@ export function makeSpectrum(
     wavelengthNm,
     values: noisy,
     ...(extras.valueUnit === undefined ? {} : { valueUnit: extras.valueUnit }),
+    ...(extras.valueColumn === undefined ? {} : { valueColumn: extras.valueColumn }),
     ...(extras.metadata === undefined ? {} : { metadata: extras.metadata }),
     ...(extras.otherColumns === undefined ? {} : { otherColumns: extras.otherColumns }),
   });
