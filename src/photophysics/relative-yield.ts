@@ -1,6 +1,7 @@
 // Relative (single-point) fluorescence quantum yield against a standard, with a GUM uncertainty budget.
 import { z } from 'zod';
 import { AnalysisFailed, InputRejected } from '../model/errors.js';
+import { formatSignificant } from '../model/format-number.js';
 import { resolveWithSchema } from '../spectra/options.js';
 import { absorptanceFromAbsorbance, absorptanceSlope } from './absorptance.js';
 import { combineUncertainty, type BudgetInput, type BudgetLine } from './uncertainty-budget.js';
@@ -69,14 +70,14 @@ export interface QuantumYieldResult {
 }
 
 function checkAbsorbance(absorbance: number, role: string, limits: { warn: number; refuse: number }, warnings: string[]): void {
-  if (!(absorbance > 0)) throw new InputRejected('INPUT_INVALID', `the ${role} absorbance at excitation is ${absorbance}; it must be positive`);
+  if (!(absorbance > 0)) throw new InputRejected('INPUT_INVALID', `the ${role} absorbance at excitation is ${formatSignificant(absorbance)}; it must be positive`);
   if (absorbance > limits.refuse) {
     throw new AnalysisFailed(
       'OUT_OF_RANGE',
-      `the ${role} absorbance at excitation is ${absorbance}, above ${limits.refuse}; inner-filter effects make a relative yield untrustworthy — dilute it`,
+      `the ${role} absorbance at excitation is ${formatSignificant(absorbance)}, above ${limits.refuse}; inner-filter effects make a relative yield untrustworthy — dilute it`,
     );
   }
-  if (absorbance > limits.warn) warnings.push(`the ${role} absorbance at excitation is ${absorbance} (> ${limits.warn}, Brouwer 2011)`);
+  if (absorbance > limits.warn) warnings.push(`the ${role} absorbance at excitation is ${formatSignificant(absorbance)} (> ${limits.warn}, Brouwer 2011)`);
 }
 
 /** Φ = Φ_ref·(F/F_ref)·(f_ref/f)·(n²/n_ref²), f = 1 − 10^(−A) (Brouwer, Pure Appl. Chem. 83, 2213 (2011)), with a first-order GUM budget. */
@@ -88,7 +89,7 @@ export function relativeQuantumYield(input: RelativeYieldInput): QuantumYieldRes
   checkAbsorbance(input.sampleAbsorbance, 'sample', limits, warnings);
   checkAbsorbance(input.referenceAbsorbance, 'reference', limits, warnings);
   for (const [name, value] of [['sample integral', input.sampleIntegral], ['reference integral', input.referenceIntegral]] as const) {
-    if (!(value > 0)) throw new InputRejected('INPUT_INVALID', `the ${name} is ${value}; it must be positive`);
+    if (!(value > 0)) throw new InputRejected('INPUT_INVALID', `the ${name} is ${formatSignificant(value)}; it must be positive`);
   }
   if (!(input.referenceYield > 0 && input.referenceYield <= 1)) {
     throw new InputRejected('INPUT_INVALID', `the reference yield ${input.referenceYield} is outside (0, 1]`);

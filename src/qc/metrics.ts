@@ -1,5 +1,6 @@
 // The QC metric vocabulary: what a control or instrument observation can carry, with the wording and
 // unit used in technician-facing messages. One table; add a metric by adding a row.
+import { formatSignificant } from '../model/format-number.js';
 
 /** Every metric the rules engine can watch, with its message label, unit and display decimals. */
 export const METRICS = {
@@ -32,10 +33,10 @@ export interface ControlObservation {
   readonly metrics: Partial<Record<MetricName, number>>;
 }
 
-/** `value` formatted with the metric's display decimals and unit ("4.012 ns"). */
+/** `value` formatted with the metric's display decimals and unit ("4.012 ns"); from 1e5 up, 5 significant digits ("7.4142e7 a.u."). */
 export function formatMetricValue(metric: MetricName, value: number): string {
   const { unit, decimals } = METRICS[metric];
-  const text = value.toFixed(decimals);
+  const text = Math.abs(value) >= 1e5 ? formatSignificant(value, 5) : value.toFixed(decimals);
   if (unit === '') return text;
   return unit === '%' ? `${text} %` : `${text} ${unit}`;
 }

@@ -22,3 +22,11 @@ describe('formatSignificant', () => {
     expect(formatSignificant(Number.POSITIVE_INFINITY)).toBe('Infinity');
   });
 });
+
+describe('QC messages use it for large values (issue 15 item 9)', () => {
+  it('prints an intensity per absorbed light of 74141691.8185 as 7.4142e7 a.u., and small values with the metric decimals', async () => {
+    const { formatMetricValue } = await import('../../../src/qc/metrics.js');
+    expect(formatMetricValue('intensityPerAbsorbedLight', 74141691.8185)).toBe('7.4142e7 a.u.');
+    expect(formatMetricValue('meanLifetimeNs', 4.01234)).toBe('4.012 ns');
+  });
+});
