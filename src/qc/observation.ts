@@ -24,7 +24,10 @@ export function metricsOfResult(result: AnalysisResult): Partial<Record<MetricNa
   put('controlQuantumYield', result.quantumYield?.value);
   put('meanLifetimeNs', result.decayFit?.tauMeanIntensityNs);
   put('fitChi2Reduced', result.decayFit?.chi2Reduced);
-  const emission = result.spectra.emission;
+  // A correction of the sample emission that was refused (listed in `missing` as "NAME (emission)") leaves the
+  // emission metrics uncorrected: they are not judged (issue 15: a quantity that depends on a failed step is missing).
+  const emissionCorrectionRefused = result.missing.some((m) => m.what.endsWith(' (emission)'));
+  const emission = emissionCorrectionRefused ? undefined : result.spectra.emission;
   const absorbance = result.spectra.absorbance;
   put('peakWavelengthNm', emission?.peakWavelengthNm);
   put('fwhmNm', emission?.fwhmNm);

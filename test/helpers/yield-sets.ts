@@ -21,6 +21,8 @@ export interface YieldSetSpec {
   readonly absorbanceNoise?: number;
   readonly sampleRangeNm?: readonly [number, number];
   readonly referenceRangeNm?: readonly [number, number];
+  /** Sample absorption band (default peak 511 nm, FWHM 55 nm). */
+  readonly sampleBand?: { readonly peakNm: number; readonly widthNm: number };
   /** Reference absorption band (default peak 528 nm, FWHM 60 nm). */
   readonly referenceBand?: { readonly peakNm: number; readonly widthNm: number };
   readonly withDecay?: boolean;
@@ -47,7 +49,8 @@ export const BASE_SETTINGS: AnalysisSettings = {
 /** A control set and its paired reference, generated from `random`. */
 export function yieldSet(spec: YieldSetSpec, random: UniformSource, setId = 'teal-test'): AnalysisJobPayload {
   const excitationNm = spec.excitationNm ?? 480;
-  const sampleBand = { bandPeakNm: 511, bandWidthNm: 55, excitationNm, absorbanceAtExcitation: spec.sampleAbsorbance };
+  const sampleShape = spec.sampleBand ?? { peakNm: 511, widthNm: 55 };
+  const sampleBand = { bandPeakNm: sampleShape.peakNm, bandWidthNm: sampleShape.widthNm, excitationNm, absorbanceAtExcitation: spec.sampleAbsorbance };
   const refBandShape = spec.referenceBand ?? { peakNm: 528, widthNm: 60 };
   const referenceBand = { bandPeakNm: refBandShape.peakNm, bandWidthNm: refBandShape.widthNm, excitationNm, absorbanceAtExcitation: spec.referenceAbsorbance };
   const [sFrom, sTo] = spec.sampleRangeNm ?? [excitationNm + 10, 745];

@@ -5,6 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { analyze } from '../../../src/analysis/analyze.js';
 import type { AnalysisResult } from '../../../src/analysis/result.js';
 import { createSeededRandom } from '../../../src/decay/index.js';
+import { metricsOfResult } from '../../../src/qc/observation.js';
 import { readData } from '../../../src/formats/index.js';
 import { trapezoid } from '../../../src/spectra/integrate.js';
 import { BASE_SETTINGS, yieldSet } from '../../helpers/yield-sets.js';
@@ -62,6 +63,17 @@ describe('a failed correction stops what depends on it; Φ above 1 (issue 15 ite
     expect(reason).toContain('correctInnerFilter correction of the reference emission was refused');
     expect(result.missing.find((m) => m.what === 'rates')?.reason).toContain('no quantum yield');
     expect(result.partial).toBe(true);
+  });
+
+  it('gives QC nothing computed from an emission whose inner-filter correction was refused', () => {
+    const { result } = analyze(yieldSet({ sampleYield: 0.8, sampleAbsorbance: 0.04, referenceAbsorbance: 0.045, sampleBand: { peakNm: 590, widthNm: 40 } }, createSeededRandom(17)));
+    expect(result.missing.map((m) => m.what)).toContain('correctInnerFilter (emission)');
+    expect(result.quantumYield).toBeUndefined();
+    const metrics = metricsOfResult(result);
+    expect(metrics.controlQuantumYield).toBeUndefined();
+    expect(metrics.intensityPerAbsorbedLight).toBeUndefined();
+    expect(metrics.peakWavelengthNm).toBeUndefined();
+    expect(metrics.absorbanceAtExcitation).toBeCloseTo(0.04, 2);
   });
 
   it('reports Φ slightly above 1 within its uncertainty with a flag and still gives rates', () => {
