@@ -55,7 +55,7 @@ export interface EmissionMetrics {
   readonly peakWavelengthNm: number;
   /** Value at the maximum (unit of the spectrum). */
   readonly peakValue: number;
-  /** Integrated intensity over the wavelength range (value unit × nm). */
+  /** Integrated intensity over the whole wavelength range (value unit × nm); Φ uses quantumYield.inputs.sampleIntegral, over its windowNm. */
   readonly integratedIntensity: number;
   /** Full width at half maximum in nm, when it could be determined. */
   readonly fwhmNm?: number;
