@@ -51,6 +51,25 @@ describe('driftlight demo and process', () => {
     }
   });
 
+  it('gives a Φ in every result file that a hand recomputation from the file\'s own numbers reproduces (issue 15)', () => {
+    // Brouwer, Pure Appl. Chem. 83, 2213 (2011): Φx = Φr·(Fx/Fr)·(fr/fx)·(nx²/nr²), with the absorbed fraction the
+    // result says it used (f = 1 − 10^(−A), or A when both spectra were corrected for the inner filter).
+    type Inputs = { sampleIntegral: number; referenceIntegral: number; sampleAbsorbance: number; referenceAbsorbance: number; sampleRefractiveIndex: number; referenceRefractiveIndex: number; referenceYield: number; lightAbsorbed: string; sampleCorrections: string[]; referenceCorrections: string[] };
+    const withYield = readResults(workspace).filter((x) => (x.result as { quantumYield?: unknown }).quantumYield !== undefined);
+    expect(withYield).toHaveLength(3);
+    for (const { result } of withYield) {
+      const q = (result as unknown as { quantumYield: { value: number; inputs: Inputs } }).quantumYield;
+      const i = q.inputs;
+      const f = (a: number): number => (i.lightAbsorbed === 'absorptance' ? 1 - 10 ** -a : a);
+      const byHand = i.referenceYield * (i.sampleIntegral / i.referenceIntegral) * (f(i.referenceAbsorbance) / f(i.sampleAbsorbance)) * (i.sampleRefractiveIndex ** 2 / i.referenceRefractiveIndex ** 2);
+      expect(byHand / q.value).toBeCloseTo(1, 12);
+      // The corrections Φ's spectra went through are those the result lists for them.
+      const listed = (result as unknown as { corrections: { name: string; target: string }[] }).corrections;
+      expect(i.sampleCorrections).toEqual(listed.filter((c) => c.target === 'emission').map((c) => c.name));
+      expect(i.referenceCorrections).toEqual(listed.filter((c) => c.target === 'reference-emission').map((c) => c.name));
+    }
+  });
+
   it('archives every good input, quarantines the malformed one with its reason, and writes the outbox', () => {
     expect(listFiles(join(workspace, 'inbox'))).toEqual([]);
     expect(listFiles(join(workspace, 'archive'))).toHaveLength(13);
