@@ -98,7 +98,9 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     }
   }
   let rates: AnalysisResult['rates'];
-  if (quantumYield !== undefined && decayOutcome !== undefined) {
+  if (quantumYield !== undefined && decayOutcome !== undefined && !decayOutcome.fit.acceptable) {
+    markMissing(context, 'rates', `the lifetime fit is not acceptable: ${decayOutcome.fit.unacceptableReasons.join('; ')}`, false);
+  } else if (quantumYield !== undefined && decayOutcome !== undefined) {
     const q = quantumYield;
     const tauNs = decayOutcome.summary.tauMeanIntensityNs;
     rates = attempt(context, 'rates', () => computeRates(q, tauNs));

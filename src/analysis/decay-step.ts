@@ -33,6 +33,7 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
     components: settings.components,
     estimator: settings.estimator,
     ...(irfCounts === undefined ? {} : { irfCounts }),
+    ...(settings.scatter === undefined ? {} : { scatter: settings.scatter }),
   });
   if (!fit.converged) context.warnings.push('the lifetime fit did not converge; treat τ with caution');
   return {
@@ -48,6 +49,8 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       tauMeanIntensityNs: fit.tauMeanIntensityNs,
       chi2Reduced: fit.chi2Reduced,
       converged: fit.converged,
+      acceptable: fit.acceptable,
+      unacceptableReasons: [...fit.unacceptableReasons],
       estimator: settings.estimator,
       totalCounts: totalCounts(decay.counts),
       irfSource,

@@ -27,6 +27,8 @@ export interface AnalysisSettings {
   readonly defaultRefractiveIndex: number;
   readonly cuvette: { readonly pathLengthCm: number; readonly excitationWindowStartCm: number; readonly excitationWindowEndCm: number };
   readonly maxFileBytes: number;
+  /** Fit a scatter term (a fraction of the IRF) in lifetime fits (config analysis.scatter); default false. */
+  readonly scatter?: boolean;
   /** What the detector curve holds (config instrument.detectorCurveMeaning); default 'from-header'. */
   readonly detectorCurveMeaning?: 'from-header' | 'multiply' | 'divide';
   /** Integration window and band-edge check of relative yields (config analysis.yieldWindowNm etc.); defaults as in the config section. */

@@ -90,6 +90,10 @@ export interface DecayFitSummary {
   readonly tauMeanIntensityNs: number;
   readonly chi2Reduced: number;
   readonly converged: boolean;
+  /** False when the fit is not believable (a parameter at a bound, τ outside the resolvable range, cancelling amplitudes): QC and rates skip it. Always written by analyze(). */
+  readonly acceptable?: boolean;
+  /** Why the fit is not acceptable; empty when it is. Always written by analyze(). */
+  readonly unacceptableReasons?: readonly string[];
   readonly estimator: string;
   /** Total counts in the decay histogram. */
   readonly totalCounts: number;

@@ -16,6 +16,7 @@ interface FitDecayFlags {
   readonly estimator: FitDecayOptions['estimator'];
   readonly range?: readonly [number, number];
   readonly fix: Readonly<Partial<Record<ParameterName, number>>>;
+  readonly scatter?: boolean;
   readonly json?: boolean;
 }
 
@@ -91,6 +92,7 @@ export function formatFitReport(file: string, fit: DecayFitResult): string {
   const lines = [
     `${file}: ${fit.model} fit, ${fit.components.length} component(s), estimator ${fit.estimator}`,
     `  status      ${fit.converged ? 'converged' : 'NOT CONVERGED'} after ${fit.iterations} iterations (${fit.reason}); ${fit.starts} start(s)`,
+    `  acceptable  ${fit.acceptable ? 'yes' : `NO: ${fit.unacceptableReasons.join('; ')}`}`,
     `  range       ${fit.rangeNs[0].toFixed(3)} … ${fit.rangeNs[1].toFixed(3)} ns (channels ${fit.rangeChannels[0] + 1}–${fit.rangeChannels[1]}), ${fit.photonsInRange} of ${fit.photons} counts`,
     '  component   tau (ns)     std err    68% profile interval     amplitude    a-fraction  i-fraction',
     ...fit.components.map((component, index) => {
@@ -123,6 +125,7 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
     components: flags.components,
     estimator: flags.estimator,
     fixed: flags.fix,
+    scatter: flags.scatter === true,
     ...(flags.range === undefined ? {} : { rangeNs: flags.range }),
     ...(irfCounts === undefined ? {} : { irfCounts }),
   });
@@ -140,6 +143,7 @@ export const fitDecayCommand: CommandModule = {
       .option('--estimator <name>', 'ml, lsq-neyman or lsq-pearson', parseEstimator, 'ml')
       .option('--range <start:end>', 'fit range in ns, e.g. 1.5:40 (default: from the IRF rise to the end)', parseRange)
       .option('--fix <name=value>', 'hold a parameter, e.g. tau1=3.9 (ns); repeatable', parseFix, {})
+      .option('--scatter', 'fit a scatter term (a fraction of the IRF added to the model; needs an IRF)')
       .option('--json', 'print the full result as JSON')
       .addHelpText('after', `\n${exitCodesHelp()}`)
       .action(async (path: string, flags: FitDecayFlags) => {

@@ -2,6 +2,7 @@
 // (inverse Fisher information) and profile intervals, mean lifetimes, goodness of fit, residual tests,
 // information criteria and warnings.
 import type { ComponentFit } from './component-fit.js';
+import { fitAcceptability } from './acceptability.js';
 import { estimatorResiduals, pearsonChiSquare, poissonDeviance } from './estimators.js';
 import { akaikeCriterion, bayesianCriterion } from './information-criteria.js';
 import { invertPositiveDefinite } from './linear-algebra.js';
@@ -155,14 +156,23 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     amplitudeFraction: amplitudeSum !== 0 ? component.amplitude / amplitudeSum : 0,
     intensityFraction: weightedSum !== 0 ? (component.amplitude * component.tauNs) / weightedSum : 0,
   }));
+  const atBound: string[] = [];
   for (let i = 0; i < freeCount; i++) {
     const value = parameters[i] as number;
     const fixedByBounds = layout.lower[i] === layout.upper[i];
     if (!fixedByBounds && (value <= (layout.lower[i] as number) || value >= (layout.upper[i] as number))) {
       const label = layout.labels[i] ?? `parameter ${i + 1}`;
-      if (!label.startsWith('background') && !label.startsWith('scatter')) warnings.push(`${label} is at its bound (${value})`);
+      if (!label.startsWith('background') && !label.startsWith('scatter')) {
+        warnings.push(`${label} is at its bound (${value})`);
+        atBound.push(`${label} is at its ${value <= (layout.lower[i] as number) ? 'lower' : 'upper'} bound (${value})`);
+      }
     }
   }
+  const unacceptableReasons = fitAcceptability({
+    converged: outcome.converged, channelWidthNs: prepared.channelWidthNs, windowNs: prepared.counts.length * prepared.channelWidthNs,
+    components: withFractions, atBound,
+  });
+  if (unacceptableReasons.length > 0) warnings.push(`the fit is not acceptable: ${unacceptableReasons.join('; ')}`);
   const irfFwhmNs = prepared.irfFwhmNs;
   if (irfFwhmNs !== undefined) {
     for (const component of withFractions) {
@@ -200,6 +210,8 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     model: prepared.irfUnit === undefined ? 'tail' : 'reconvolution',
     estimator: options.estimator,
     converged: outcome.converged,
+    acceptable: unacceptableReasons.length === 0,
+    unacceptableReasons,
     iterations: outcome.iterations,
     reason: outcome.reason,
     components: withFractions,

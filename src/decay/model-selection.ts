@@ -1,5 +1,6 @@
 // Choice of the number of exponentials for components: 'auto'. Candidates 1–3 are fitted on the same
-// channels; a model with one more component is accepted only when it converged, lowers BIC by more than
+// channels; a model with one more component is accepted only when it converged, is acceptable (no parameter
+// at a bound, no lifetime outside the resolvable range: acceptability.ts), lowers BIC by more than
 // BIC_MARGIN, and keeps every amplitude above zero (no degenerate component). The margin 10 is the
 // "very strong evidence" level of Kass & Raftery, J. Am. Stat. Assoc. 90, 773 (1995) (from memory).
 import type { DecayFitResult, ModelSelection, SelectionCandidate } from './result.js';
@@ -17,8 +18,9 @@ export function selectComponents(fits: readonly DecayFitResult[]): { chosen: Dec
     runsZ: fit.runsTest.z,
     durbinWatson: fit.durbinWatson,
     converged: fit.converged,
+    acceptable: fit.acceptable,
   }));
-  const first = fits.find((fit) => fit.converged) ?? fits[0];
+  const first = fits.find((fit) => fit.acceptable) ?? fits.find((fit) => fit.converged) ?? fits[0];
   if (first === undefined) throw new RangeError('model selection needs at least one candidate');
   let chosen = first;
   const notes: string[] = [];
@@ -30,6 +32,10 @@ export function selectComponents(fits: readonly DecayFitResult[]): { chosen: Dec
       break;
     }
     const gain = chosen.bic - candidate.bic;
+    if (!candidate.acceptable) {
+      notes.push(`${n} components are not acceptable (${candidate.unacceptableReasons.join('; ')})`);
+      break;
+    }
     const degenerate = candidate.components.some((component) => !(component.amplitude > 0));
     if (gain <= BIC_MARGIN) {
       notes.push(`${n} components lower BIC by only ${gain.toFixed(1)} (needs > ${BIC_MARGIN})`);

@@ -55,6 +55,7 @@ export interface SelectionCandidate {
   readonly runsZ: number;
   readonly durbinWatson: number;
   readonly converged: boolean;
+  readonly acceptable: boolean;
 }
 
 export interface ModelSelection {
@@ -65,6 +66,13 @@ export interface ModelSelection {
 }
 
 export interface DecayFitResult extends FitStatus {
+  /**
+   * False when the fit is not believable (src/decay/acceptability.ts): not converged, a parameter at a bound,
+   * τ below half a channel or above ten windows, or cancelling amplitudes. QC and rate constants skip it.
+   */
+  readonly acceptable: boolean;
+  /** Why the fit is not acceptable, one sentence each; empty when acceptable. */
+  readonly unacceptableReasons: readonly string[];
   /** 'reconvolution' (with an IRF) or 'tail' (no IRF: fitted from the range start). */
   readonly model: 'reconvolution' | 'tail';
   readonly estimator: Estimator;

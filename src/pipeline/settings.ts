@@ -11,6 +11,7 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
   return {
     components: config.analysis.components,
     estimator: config.analysis.estimator,
+    scatter: config.analysis.scatter,
     innerFilter: config.analysis.innerFilter,
     maxAbsorbanceForYield: config.analysis.maxAbsorbanceForYield,
     refractiveIndex: { ...config.analysis.refractiveIndex },

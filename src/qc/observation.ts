@@ -22,7 +22,8 @@ export function metricsOfResult(result: AnalysisResult): Partial<Record<MetricNa
     if (value !== undefined && Number.isFinite(value)) metrics[name] = value;
   };
   put('controlQuantumYield', result.quantumYield?.value);
-  put('meanLifetimeNs', result.decayFit?.tauMeanIntensityNs);
+  // A lifetime fit marked not acceptable (issue 15.6) is not judged.
+  if (result.decayFit?.acceptable !== false) put('meanLifetimeNs', result.decayFit?.tauMeanIntensityNs);
   put('fitChi2Reduced', result.decayFit?.chi2Reduced);
   // A correction of the sample emission that was refused (listed in `missing` as "NAME (emission)") leaves the
   // emission metrics uncorrected: they are not judged (issue 15: a quantity that depends on a failed step is missing).

@@ -4,7 +4,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createSeededRandom, gaussianIrf, simulateDecay } from '../../src/decay/index.js';
+import { createSeededRandom, gaussianIrf, samplePoisson, simulateDecay } from '../../src/decay/index.js';
 import { runDriftlight } from '../helpers/cli.js';
 
 interface CliFit {
@@ -77,5 +77,25 @@ describe('driftlight fit-decay', () => {
   it('exits 2 on a bad option value or a missing file', () => {
     expect(runDriftlight(['fit-decay', withIrf, '--components', 'seven']).status).toBe(2);
     expect(runDriftlight(['fit-decay', join(directory, 'missing.csv')]).status).toBe(2);
+  });
+
+  it('fits the scatter term with --scatter (issue 15.6) and says whether the fit is acceptable', () => {
+    // 5,000 scattered photons (IRF-shaped) added to the 3.9 ns decay: truth scatter fraction 5,000 / (5·10⁴ + 5,000 + background) ≈ 0.08.
+    const random = createSeededRandom(8);
+    const irfSum = irf.reduce((a, b) => a + b, 0);
+    const scattered = Array.from(decay.counts, (c, k) => c + samplePoisson((5000 * (irf[k] as number)) / irfSum, random));
+    const path = join(directory, 'dye-scatter.csv');
+    writeFileSync(path, ['time (ns),counts,irf', ...scattered.map((c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n');
+    const withScatter = runDriftlight(['fit-decay', path, '--scatter', '--json']);
+    expect(withScatter.status).toBe(0);
+    const fit = JSON.parse(withScatter.stdout) as CliFit & { scatterFraction: number; freeParameters: string[]; acceptable: boolean };
+    expect(fit.freeParameters).toContain('scatterCounts');
+    expect(fit.scatterFraction).toBeGreaterThan(0.04);
+    expect(fit.scatterFraction).toBeLessThan(0.12);
+    expect(fit.acceptable).toBe(true);
+    const without = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as { freeParameters: string[]; scatterFraction: number };
+    expect(without.freeParameters).not.toContain('scatterCounts');
+    expect(without.scatterFraction).toBe(0);
+    expect(runDriftlight(['fit-decay', path, '--scatter']).stdout).toMatch(/^ {2}acceptable {2}yes$/m);
   });
 });

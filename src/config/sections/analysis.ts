@@ -7,6 +7,8 @@ export const analysisSection = z
       .describe('Exponential components in the lifetime fit (1–4 or auto). Default: 1'),
     estimator: z.enum(['ml', 'lsq-neyman', 'lsq-pearson']).default('ml')
       .describe('Fit estimator: Poisson maximum likelihood or weighted least squares. Default: ml'),
+    scatter: z.boolean().default(false)
+      .describe('Fit a scatter term (a fraction of the IRF added to the decay model) in lifetime fits. Default: false'),
     innerFilter: z.enum(['none', 'centred', 'geometric']).default('centred')
       .describe('Inner-filter correction form for emission spectra. Default: centred'),
     maxAbsorbanceForYield: z.number().positive().default(0.1)

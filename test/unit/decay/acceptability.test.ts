@@ -1,0 +1,102 @@
+// Issue 15.6: a fit that is not believable is marked `acceptable: false` with its reasons, and model
+// selection never adds such a component. Truth comes from seeded simulations (src/decay/simulate.ts);
+// the limits (half a channel, ten windows, amplitudes that cancel by more than half) are this project's
+// stated choices, documented in docs/decay.md.
+import { describe, expect, it } from 'vitest';
+import { createSeededRandom, expectedDecayCounts, fitDecay, gaussianIrf, samplePoisson, simulateDecay } from '../../../src/decay/index.js';
+import { fitAcceptability } from '../../../src/decay/acceptability.js';
+import { createDecay } from '../../../src/model/index.js';
+
+/** The demo control: 4.1 ns, 512 channels of 50 ps (window 25.6 ns), IRF 250 ps FWHM with 2·10⁴ counts, 3·10⁵ photons. */
+function monoControl(seed: number): ReturnType<typeof simulateDecay> {
+  const channels = 512;
+  const widthNs = 0.05;
+  const irf = Float64Array.from(gaussianIrf(channels, widthNs, 1.5, 0.25), (value) => Math.round(value * 20000));
+  return simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [4.1], photons: 3e5, irf, backgroundPerChannel: 2 }, createSeededRandom(seed));
+}
+
+describe('fit acceptability', () => {
+  it('flags a second lifetime stuck at its upper bound (25,600 ns = 1000 windows) on a mono-exponential control', () => {
+    // Seed 6 reproduces issue 15.6: τ2 at the 25,600 ns bound.
+    const fit = fitDecay(monoControl(6), { components: 2, profileIntervals: false });
+    expect(fit.components[1]?.tauNs).toBeGreaterThan(256);
+    expect(fit.acceptable).toBe(false);
+    expect(fit.unacceptableReasons.some((reason) => /at its (upper|lower) bound/.test(reason))).toBe(true);
+    expect(fit.unacceptableReasons.some((reason) => /window/.test(reason))).toBe(true);
+    expect(fit.warnings.some((w) => w.startsWith('the fit is not acceptable'))).toBe(true);
+  });
+
+  it('flags a component far shorter than a channel (a second τ of ~13 ps with 50 ps channels)', () => {
+    const fit = fitDecay(monoControl(2), { components: 2, profileIntervals: false });
+    expect(fit.components[0]?.tauNs).toBeLessThan(0.025);
+    expect(fit.acceptable).toBe(false);
+    expect(fit.unacceptableReasons.some((reason) => /channel width/.test(reason))).toBe(true);
+  });
+
+  it('accepts clean mono fits with one component and clean bi-exponential fits with two (10 seeds each)', () => {
+    for (let seed = 1; seed <= 10; seed++) {
+      const mono = fitDecay(monoControl(seed), { profileIntervals: false });
+      expect(mono.unacceptableReasons).toEqual([]);
+      expect(mono.acceptable).toBe(true);
+      const channels = 512;
+      const widthNs = 0.05;
+      const bi = simulateDecay({
+        channels, channelWidthNs: widthNs, tauNs: [0.6, 3.5], intensityFractions: [0.35, 0.65], photons: 3e5,
+        irf: gaussianIrf(channels, widthNs, 1.5, 0.25), backgroundPerChannel: 2,
+      }, createSeededRandom(100 + seed));
+      const two = fitDecay(bi, { components: 2, profileIntervals: false });
+      expect(two.unacceptableReasons).toEqual([]);
+      expect(two.acceptable).toBe(true);
+    }
+  });
+
+  it("components: 'auto' never adds a component shorter than half a channel (clean bi-exponential, IRF ~2.5 channels per FWHM)", () => {
+    // Truth integrated on channels 10× finer and summed, so the data are the continuous physics, not the model.
+    const channels = 256;
+    const widthNs = 0.1;
+    const fine = 10;
+    const irfFine = gaussianIrf(channels * fine, widthNs / fine, 2, 0.25);
+    const expectedFine = expectedDecayCounts({
+      channels: channels * fine, channelWidthNs: widthNs / fine, tauNs: [0.5, 3], intensityFractions: [0.3, 0.7], photons: 1e6, irf: irfFine, backgroundPerChannel: 0.1,
+    });
+    const binned = (values: Float64Array): Float64Array => Float64Array.from({ length: channels }, (_unused, k) => {
+      let sum = 0;
+      for (let j = 0; j < fine; j++) sum += values[k * fine + j] as number;
+      return sum;
+    });
+    const expected = binned(expectedFine);
+    const irf = binned(irfFine);
+    for (const seed of [1, 2, 3]) {
+      const random = createSeededRandom(seed);
+      const counts = Float64Array.from(expected, (mean) => samplePoisson(mean, random));
+      const decay = createDecay({ timeNs: Float64Array.from({ length: channels }, (_unused, k) => k * widthNs), counts, channelWidthNs: widthNs, irfCounts: irf });
+      const fit = fitDecay(decay, { components: 'auto', profileIntervals: false });
+      expect(fit.selection?.chosenComponents).toBe(2);
+      expect(fit.selection?.reason).toMatch(/3 components .*not acceptable/);
+      expect(fit.selection?.candidates[2]?.acceptable).toBe(false);
+      expect(fit.acceptable).toBe(true);
+      // Truth 0.5 and 3 ns (simulation input); 5 % covers the flat-IRF-in-channel model error at 2.5 channels per FWHM.
+      expect(Math.abs((fit.components[0]?.tauNs ?? 0) / 0.5 - 1)).toBeLessThan(0.05);
+      expect(Math.abs((fit.components[1]?.tauNs ?? 0) / 3 - 1)).toBeLessThan(0.05);
+    }
+  });
+
+  it('flags amplitudes that cancel (opposite signs summing to less than half their magnitudes)', () => {
+    const base = { converged: true, channelWidthNs: 0.05, windowNs: 25.6, atBound: [] as string[] };
+    const cancelling = fitAcceptability({
+      ...base,
+      components: [{ tauNs: 2, amplitude: 100, tauFixed: false }, { tauNs: 2.5, amplitude: -90, tauFixed: false }],
+    });
+    expect(cancelling.some((reason) => /cancel/.test(reason))).toBe(true);
+    // A rise term (negative amplitude) that does not cancel most of the decay is allowed.
+    const rise = fitAcceptability({
+      ...base,
+      components: [{ tauNs: 0.3, amplitude: -20, tauFixed: false }, { tauNs: 4, amplitude: 100, tauFixed: false }],
+    });
+    expect(rise).toEqual([]);
+    // A fixed lifetime is the caller's choice and is not judged; a free one beyond ten windows is.
+    expect(fitAcceptability({ ...base, components: [{ tauNs: 1000, amplitude: 5, tauFixed: true }] })).toEqual([]);
+    expect(fitAcceptability({ ...base, components: [{ tauNs: 1000, amplitude: 5, tauFixed: false }] })[0]).toMatch(/10 × the window/);
+    expect(fitAcceptability({ ...base, converged: false, components: [{ tauNs: 4, amplitude: 5, tauFixed: false }] })[0]).toMatch(/did not converge/);
+  });
+});
