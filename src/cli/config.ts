@@ -2,7 +2,10 @@
 // the option table (the generated part of docs/configuration.md).
 import type { Command } from 'commander';
 import { configOptionsMarkdown } from '../config/options-table.js';
+import { effectiveRuleSet } from '../pipeline/qc-rule-set.js';
+import { ruleSetWarnings } from '../qc/index.js';
 import type { CommandModule } from './command-module.js';
+import { formatControls } from './rules.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
 
 export const configCommand: CommandModule = {
@@ -11,9 +14,14 @@ export const configCommand: CommandModule = {
     withConfigOption(config.command('check').description('validate the config (exit 2 with the bad path if invalid)')).action(
       (options: { config?: string }) => {
         const resolved = configFromOptions(options);
+        const ruleSet = effectiveRuleSet(resolved);
+        const warnings = ruleSetWarnings(ruleSet);
         process.stdout.write(
           `config OK: ${resolved.configFile ?? '(built-in defaults)'}\n` +
-            Object.entries(resolved.folders).map(([k, v]) => `  ${k.padEnd(10)} ${v}`).join('\n') + '\n',
+            Object.entries(resolved.folders).map(([k, v]) => `  ${k.padEnd(10)} ${v}`).join('\n') + '\n' +
+            `QC controls (rules from ${resolved.rules.file ?? 'the built-in rules/default.yaml'}, time zone ${ruleSet.timeZone}):\n` +
+            formatControls(ruleSet).join('\n') + '\n' +
+            warnings.map((warning) => `warning: ${warning}\n`).join(''),
         );
       },
     );

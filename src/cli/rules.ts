@@ -7,7 +7,7 @@ import type { Command } from 'commander';
 import type { AnalysisResult } from '../analysis/result.js';
 import { RESULT_SCHEMA } from '../analysis/result.js';
 import { ConfigInvalid } from '../model/errors.js';
-import { loadRuleSetFile, withConfigControls } from '../pipeline/qc-stage.js';
+import { effectiveRuleSet, loadRuleSetFile } from '../pipeline/qc-rule-set.js';
 import {
   establishBaseline,
   localParts,
@@ -19,7 +19,10 @@ import {
   ruleKindOf,
   sortByAcquisition,
   zonedTimeToEpochMs,
-  INSTRUMENT_SCOPE,
+  describeScope,
+  rulesJudgingControl,
+  ruleSetWarnings,
+  scopeJudgesControl,
   type BaselineRecord,
   type ControlObservation,
   type MetricName,
@@ -31,20 +34,31 @@ import { baselineRecords, observationHistory, saveBaseline } from '../store/qc-s
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
 
-/** The rule set as text: header, controls, then one line per rule. */
-export function formatRuleSet(ruleSet: RuleSet, source: string): string {
-  const lines = [`${source}: valid rule set${ruleSet.name === undefined ? '' : ` "${ruleSet.name}"`} (time zone ${ruleSet.timeZone})`, '', 'controls:'];
+/** The controls of a rule set, each with its match, targets and the ids of the rules that judge it. */
+export function formatControls(ruleSet: RuleSet): string[] {
+  const lines: string[] = [];
+  if (ruleSet.controls.length === 0) lines.push('  (none defined: add a `controls` entry to driftlight.yaml)');
   for (const control of ruleSet.controls) {
     const match = Object.entries(control.match).map(([key, value]) => `${key} ${String(value)}`).join(', ');
     const targets = Object.entries(control.targets).map(([metric, target]) => `${metric} ${target.mean} ± ${target.sd}`);
+    const judging = rulesJudgingControl(ruleSet, control.id).map((rule) => rule.id);
     lines.push(`  ${control.id}  match: ${match}`);
     lines.push(`    ${targets.length === 0 ? '' : `targets: ${targets.join('; ')}; `}other metrics: baseline from the first ${control.baselineRuns} runs`);
+    lines.push(`    judged by: ${judging.length === 0 ? '(no rule)' : judging.join(', ')}`);
   }
+  return lines;
+}
+
+/** The rule set as text: header, controls (with the rules judging each), rules, warnings. */
+export function formatRuleSet(ruleSet: RuleSet, source: string): string {
+  const lines = [`${source}: valid rule set${ruleSet.name === undefined ? '' : ` "${ruleSet.name}"`} (time zone ${ruleSet.timeZone})`, '', 'controls:'];
+  lines.push(...formatControls(ruleSet));
   lines.push('', 'rules:');
   for (const rule of ruleSet.rules) {
-    const scope = rule.scope === INSTRUMENT_SCOPE ? 'instrument' : rule.scope.control;
-    lines.push(`  ${rule.id.padEnd(20)} ${rule.severity.padEnd(8)} ${rule.metric} @ ${scope}: ${ruleKindOf(rule).describe(rule)}`);
+    lines.push(`  ${rule.id.padEnd(20)} ${rule.severity.padEnd(8)} ${rule.metric} @ ${describeScope(rule.scope)}: ${ruleKindOf(rule).describe(rule)}`);
   }
+  const warnings = ruleSetWarnings(ruleSet);
+  if (warnings.length > 0) lines.push('', ...warnings.map((warning) => `warning: ${warning}`));
   return `${lines.join('\n')}\n`;
 }
 
@@ -151,7 +165,7 @@ function formatAlertLine(alert: SimulatedAlert): string {
 function chartMetrics(ruleSet: RuleSet, controlId: string): MetricName[] {
   const metrics = new Set<MetricName>();
   for (const rule of ruleSet.rules) {
-    if (rule.scope !== INSTRUMENT_SCOPE && rule.scope.control === controlId && ruleKindOf(rule).needsBaseline) metrics.add(rule.metric);
+    if (scopeJudgesControl(rule.scope, controlId) && ruleKindOf(rule).needsBaseline) metrics.add(rule.metric);
   }
   return [...metrics];
 }
@@ -160,15 +174,18 @@ export const rulesCommand: CommandModule = {
   register(program: Command) {
     const rules = program.command('rules').description('QC rule sets: validate, replay history, rebaseline a control');
 
-    rules
-      .command('check')
-      .description('validate a rule set file and print its controls and rules (exit 2 naming the config path when invalid)')
-      .argument('<file>', 'rule set YAML')
-      .option('--json', 'print the validated rule set as JSON')
-      .action((file: string, options: { json?: boolean }) => {
-        const ruleSet = loadRuleSetFile(file);
-        process.stdout.write(options.json === true ? `${JSON.stringify(ruleSet, null, 2)}\n` : formatRuleSet(ruleSet, file));
-      });
+    withConfigOption(
+      rules
+        .command('check')
+        .description('validate a rule set file and print its controls and rules; with --config, the merged view (config controls + rules) (exit 2 naming the config path when invalid)')
+        .argument('[file]', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .option('--json', 'print the validated rule set as JSON'),
+    ).action((file: string | undefined, options: { json?: boolean; config?: string }) => {
+      const config = options.config === undefined ? undefined : configFromOptions(options);
+      const ruleSet = config === undefined ? loadRuleSetFile(file) : effectiveRuleSet(config, file);
+      const source = `${file ?? config?.rules.file ?? 'built-in rules/default.yaml'}${config === undefined ? '' : ` + controls of ${config.configFile ?? 'the config'}`}`;
+      process.stdout.write(options.json === true ? `${JSON.stringify(ruleSet, null, 2)}\n` : formatRuleSet(ruleSet, source));
+    });
 
     withConfigOption(
       rules
@@ -179,8 +196,7 @@ export const rulesCommand: CommandModule = {
         .option('--json', 'print JSON lines'),
     ).action((options: { history: string; rules?: string; json?: boolean; config?: string }) => {
       const config = options.config === undefined ? undefined : configFromOptions(options);
-      const base = loadRuleSetFile(options.rules ?? config?.rules.file);
-      const ruleSet = config === undefined ? base : withConfigControls(base, config.controls);
+      const ruleSet = config === undefined ? loadRuleSetFile(options.rules) : effectiveRuleSet(config, options.rules);
       const observations = observationsFromResultsDir(options.history, ruleSet);
       const alerts = simulateAlerts(observations, ruleSet);
       if (options.json === true) {
@@ -200,7 +216,7 @@ export const rulesCommand: CommandModule = {
         .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)'),
     ).action((controlId: string, options: { from: string; rules?: string; config?: string }) => {
       const config = configFromOptions(options);
-      const ruleSet = withConfigControls(loadRuleSetFile(options.rules ?? config.rules.file), config.controls);
+      const ruleSet = effectiveRuleSet(config, options.rules);
       const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
       if (control === undefined) {
         throw new ConfigInvalid(`no control "${controlId}" in the rule set (known: ${ruleSet.controls.map((c) => c.id).join(', ') || 'none'})`, { hint: 'Name a control id from `driftlight rules check`.' });

@@ -1,13 +1,9 @@
 // The QC result stage: for a control (or instrument-check) result, evaluates the rule set against
 // the ledger's history and baselines, adds the flags to result.qc.flags and records observation and
 // flags in the ledger; afterCommit hands flags and recovery notices to the alert dispatcher
-// (fire-and-forget). Also loads the rule set file and merges the config's `controls` entries.
-import { existsSync, readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
+// (fire-and-forget). The effective rule set comes from qc-rule-set.ts.
 import type { AnalysisResult, QcFlag as ResultQcFlag } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
-import type { ControlConfig } from '../config/sections/controls.js';
-import { ConfigInvalid } from '../model/errors.js';
 import {
   createAlertDispatcher,
   createChannels,
@@ -16,15 +12,12 @@ import {
   type SecretSource,
 } from '../output/alerts/index.js';
 import {
-  controlSchema,
   detectRecoveries,
   evaluateClockRules,
   evaluateRuleStates,
   flagKey,
   INSTRUMENT_SCOPE,
   observationFromResult,
-  parseRuleSet,
-  type ControlDefinition,
   type QcFlag,
   type RecoveryNotice,
   type RuleSet,
@@ -41,44 +34,10 @@ import {
   recordObservation,
   replaceFlagsOfSet,
 } from '../store/qc-store.js';
+import { effectiveRuleSet } from './qc-rule-set.js';
 import type { ResultStage, ResultStageContext } from './result-stage.js';
 
-/** rules/default.yaml of the installed package (from src/ under vitest, from dist/src/ when built). */
-export function defaultRuleSetFile(): string {
-  const candidates = ['../../rules/default.yaml', '../../../rules/default.yaml'].map((relative) => fileURLToPath(new URL(relative, import.meta.url)));
-  const found = candidates.find((candidate) => existsSync(candidate));
-  if (found === undefined) throw new ConfigInvalid('the built-in rule set rules/default.yaml is missing from the installation', { configPath: 'rules.file' });
-  return found;
-}
-
-/** Reads and validates a rule-set file (default: the built-in one); throws ConfigInvalid. */
-export function loadRuleSetFile(file?: string): RuleSet {
-  const path = file ?? defaultRuleSetFile();
-  if (!existsSync(path)) throw new ConfigInvalid(`rule set file not found: ${path}`, { file: path, configPath: 'rules.file' });
-  return parseRuleSet(readFileSync(path, 'utf8'), path);
-}
-
-/** The config's `controls` entries as rule-set controls (targets from targetYield/sdYield, targetTauNs/sdTauNs). */
-export function controlsFromConfig(entries: readonly ControlConfig[]): ControlDefinition[] {
-  return entries.map((entry, index) => {
-    const targets: Record<string, { mean: number; sd: number }> = {};
-    if (entry.targetYield !== undefined && entry.sdYield !== undefined) targets['controlQuantumYield'] = { mean: entry.targetYield, sd: entry.sdYield };
-    if (entry.targetTauNs !== undefined && entry.sdTauNs !== undefined) targets['meanLifetimeNs'] = { mean: entry.targetTauNs, sd: entry.sdTauNs };
-    const parsed = controlSchema.safeParse({ id: entry.id, match: { sampleIdPattern: entry.sampleIdPattern }, targets, baselineRuns: entry.baselineRuns });
-    if (!parsed.success) {
-      const issue = parsed.error.issues[0];
-      throw new ConfigInvalid(issue?.message ?? 'invalid control', { configPath: `controls[${index}]${issue === undefined ? '' : `.${issue.path.join('.')}`}` });
-    }
-    return parsed.data;
-  });
-}
-
-/** The rule set with the config's controls added (a control id defined in the rule file wins). */
-export function withConfigControls(ruleSet: RuleSet, entries: readonly ControlConfig[]): RuleSet {
-  const known = new Set(ruleSet.controls.map((control) => control.id));
-  const extra = controlsFromConfig(entries).filter((control) => !known.has(control.id));
-  return extra.length === 0 ? ruleSet : Object.freeze({ ...ruleSet, controls: [...ruleSet.controls, ...extra] });
-}
+export { controlsFromConfig, defaultRuleSetFile, loadRuleSetFile, withConfigControls } from './qc-rule-set.js';
 
 /** A rules-engine flag in the result's qc.flags form (same severities: info, warning, critical). */
 export function toResultFlag(flag: QcFlag): ResultQcFlag {
@@ -164,7 +123,7 @@ export function createQcStage(options: QcStageOptions): QcStage {
 
 /** The stage as the pipeline runs it: rule file from config.rules.file (or the built-in), config controls merged, alerts per config.alerts. */
 export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logger: AlertLogger; env?: SecretSource }): QcStage {
-  const ruleSet = withConfigControls(loadRuleSetFile(config.rules.file), config.controls);
+  const ruleSet = effectiveRuleSet(config);
   const channels = createChannels(config.alerts, { env: dependencies.env ?? process.env, logger: dependencies.logger });
   return createQcStage({
     ruleSet,

@@ -4,7 +4,7 @@ import type { BaselineRecord } from './baselines.js';
 import { resolveBaseline } from './baselines.js';
 import type { ControlObservation, MetricName } from './metrics.js';
 import { flagKey, type QcFlag } from './qc-flag.js';
-import { INSTRUMENT_SCOPE, scopeId } from './rule-base.js';
+import { INSTRUMENT_SCOPE, isInstrumentScope, scopeJudgesControl } from './rule-base.js';
 import type { EstablishedBaseline, RuleFinding, SeriesPoint } from './rule-kind.js';
 import { ruleKindOf, type Rule } from './rule-kinds/registry.js';
 import type { RuleSet } from './rule-set.js';
@@ -43,14 +43,14 @@ export function seriesFor(
   return points;
 }
 
-/** Turns a kind's findings into flags. */
-function toFlags(rule: Rule, findings: readonly RuleFinding[], acquiredAt: string, setId: string): QcFlag[] {
+/** Turns a kind's findings into flags carrying the judged control (or "instrument"). */
+function toFlags(rule: Rule, controlId: string, findings: readonly RuleFinding[], acquiredAt: string, setId: string): QcFlag[] {
   return findings.map((finding) => ({
     ruleId: rule.id,
     kind: rule.kind,
     check: finding.check,
     severity: finding.severity,
-    controlId: scopeId(rule.scope),
+    controlId,
     metric: rule.metric,
     values: finding.values,
     message: finding.message,
@@ -59,11 +59,16 @@ function toFlags(rule: Rule, findings: readonly RuleFinding[], acquiredAt: strin
   }));
 }
 
+/** The scope id whose series a rule judges for this observation: "instrument", the observation's control, or undefined. */
+export function judgedScope(rule: Rule, observation: ControlObservation): string | undefined {
+  if (isInstrumentScope(rule.scope)) return INSTRUMENT_SCOPE;
+  return scopeJudgesControl(rule.scope, observation.controlId) ? observation.controlId : undefined;
+}
+
 /** True when the rule judges this observation (scope matches and the metric is present and finite). */
 export function ruleApplies(rule: Rule, observation: ControlObservation): boolean {
-  const scope = scopeId(rule.scope);
   const value = observation.metrics[rule.metric];
-  return (scope === INSTRUMENT_SCOPE || scope === observation.controlId) && value !== undefined && Number.isFinite(value);
+  return judgedScope(rule, observation) !== undefined && value !== undefined && Number.isFinite(value);
 }
 
 /**
@@ -89,8 +94,8 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
   const seriesCache = new Map<string, SeriesPoint[]>();
   for (const rule of ruleSet.rules) {
     const kind = ruleKindOf(rule);
-    if (kind.evaluate === undefined || !ruleApplies(rule, observation)) continue;
-    const controlId = scopeId(rule.scope);
+    const controlId = judgedScope(rule, observation);
+    if (kind.evaluate === undefined || controlId === undefined || !ruleApplies(rule, observation)) continue;
     const cacheKey = `${controlId}|${rule.metric}`;
     let points = seriesCache.get(cacheKey);
     if (points === undefined) {
@@ -110,7 +115,7 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
     }
     const context = { controlId, metric: rule.metric, series: chartSeries, baseline };
     const findings = kind.evaluate(rule, context);
-    flags.push(...toFlags(rule, findings, observation.acquiredAt, observation.setId));
+    flags.push(...toFlags(rule, controlId, findings, observation.acquiredAt, observation.setId));
     if (findings.length === 0 && kind.settled !== undefined && !kind.settled(rule, context)) {
       unsettledKeys.push(flagKey({ ruleId: rule.id, controlId, metric: rule.metric }));
     }
@@ -135,10 +140,12 @@ export function evaluateClockRules(input: ClockEvaluationInput): QcFlag[] {
   for (const rule of input.ruleSet.rules) {
     const kind = ruleKindOf(rule);
     if (kind.evaluateClock === undefined) continue;
-    const controlId = scopeId(rule.scope);
-    const history = input.history.filter((observation) => observation.controlId === controlId);
-    const findings = kind.evaluateClock(rule, { controlId, history, nowEpochMs, timeZone });
-    flags.push(...toFlags(rule, findings, epochMsToIso(nowEpochMs), ''));
+    for (const control of input.ruleSet.controls) {
+      if (!scopeJudgesControl(rule.scope, control.id)) continue;
+      const history = input.history.filter((observation) => observation.controlId === control.id);
+      const findings = kind.evaluateClock(rule, { controlId: control.id, history, nowEpochMs, timeZone });
+      flags.push(...toFlags(rule, control.id, findings, epochMsToIso(nowEpochMs), ''));
+    }
   }
   return flags;
 }

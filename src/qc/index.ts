@@ -1,9 +1,9 @@
 // Public entry of the QC rules engine (pure core): metrics, rule sets, evaluation, recovery, replay.
 export { METRICS, METRIC_NAMES, formatMetricValue, metricLabel, type ControlObservation, type MetricName } from './metrics.js';
-export { SEVERITIES, INSTRUMENT_SCOPE, severityRank, type Severity, type RuleScope } from './rule-base.js';
+export { SEVERITIES, INSTRUMENT_SCOPE, severityRank, describeScope, isInstrumentScope, namedControls, scopeJudgesControl, type Severity, type RuleScope } from './rule-base.js';
 export type { QcFlag, RecoveryNotice } from './qc-flag.js';
 export { flagKey } from './qc-flag.js';
-export { parseRuleSet, formatConfigPath, type RuleSet } from './rule-set.js';
+export { parseRuleSet, formatConfigPath, rulesJudgingControl, ruleSetWarnings, withControls, describeRuleScope, type RuleSet } from './rule-set.js';
 export { RULE_KINDS, RULE_KIND_NAMES, ruleKindOf, type Rule, type RuleKindName } from './rule-kinds/registry.js';
 export { DEFAULT_BASELINE_RUNS, findControl, isControlMatch, controlSchema, type ControlDefinition } from './controls.js';
 export { establishBaseline, resolveBaseline, latestBaselineRecord, type BaselineRecord, type ResolvedBaseline } from './baselines.js';

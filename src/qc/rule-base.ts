@@ -32,10 +32,16 @@ export function wholeNumberAtLeast(min: number): z.ZodNumber {
   return z.number({ error: message }).int({ error: message }).gte(min, { error: message });
 }
 
-export const scopeSchema = z.union([z.literal(INSTRUMENT_SCOPE), z.strictObject({ control: z.string().min(1) })], {
-  error: `expected "${INSTRUMENT_SCOPE}" or { control: CONTROL_ID }`,
-});
-export type RuleScope = z.output<typeof scopeSchema>;
+export const scopeSchema = z.union(
+  [
+    z.literal(INSTRUMENT_SCOPE),
+    z.strictObject({ control: z.string().min(1) }),
+    z.strictObject({ controls: z.array(z.string().min(1), { error: 'expected a list of control ids' }).min(1, { error: 'name at least one control' }) }),
+  ],
+  { error: `expected "${INSTRUMENT_SCOPE}", { control: CONTROL_ID } or { controls: [CONTROL_ID, …] }; leave it out to judge every control` },
+);
+/** Absent: every control. `instrument`: instrument checks. `{ control }` / `{ controls }`: only those controls. */
+export type RuleScope = z.output<typeof scopeSchema> | undefined;
 
 /** The shape shared by every rule; each kind file spreads it and adds `kind` and its parameters. */
 export const baseRuleShape = {
@@ -44,7 +50,8 @@ export const baseRuleShape = {
     error: 'expected letters, digits, ".", "_" or "-"',
   }),
   metric: z.enum(METRIC_NAMES, { error: `expected one of ${METRIC_NAMES.join(', ')}` }),
-  scope: scopeSchema,
+  /** Which results the rule judges; default every control (see RuleScope). */
+  scope: scopeSchema.optional(),
   severity: z.enum(SEVERITIES, { error: `expected one of ${SEVERITIES.join(', ')}` }),
   /** Free text shown by `driftlight rules check`. */
   description: z.string().optional(),
@@ -54,12 +61,31 @@ export interface BaseRule {
   readonly id: string;
   readonly kind: string;
   readonly metric: z.output<typeof baseRuleShape.metric>;
-  readonly scope: RuleScope;
+  readonly scope?: RuleScope;
   readonly severity: Severity;
   readonly description?: string | undefined;
 }
 
-/** The controlId a rule's flags carry: the control id, or "instrument". */
-export function scopeId(scope: RuleScope): string {
-  return scope === INSTRUMENT_SCOPE ? INSTRUMENT_SCOPE : scope.control;
+/** True for a rule scoped to the instrument (judges instrument checks of any result). */
+export function isInstrumentScope(scope: RuleScope): scope is typeof INSTRUMENT_SCOPE {
+  return scope === INSTRUMENT_SCOPE;
+}
+
+/** The control ids a scope names, or undefined when it judges every control (or is the instrument scope). */
+export function namedControls(scope: RuleScope): readonly string[] | undefined {
+  if (scope === undefined || scope === INSTRUMENT_SCOPE) return undefined;
+  return 'control' in scope ? [scope.control] : scope.controls;
+}
+
+/** True when a rule with this scope judges the control `controlId` (never the instrument pseudo-control). */
+export function scopeJudgesControl(scope: RuleScope, controlId: string): boolean {
+  if (scope === INSTRUMENT_SCOPE || controlId === INSTRUMENT_SCOPE) return false;
+  const named = namedControls(scope);
+  return named === undefined || named.includes(controlId);
+}
+
+/** Short text of a scope: "instrument", "every control" or the named ids. */
+export function describeScope(scope: RuleScope): string {
+  if (scope === INSTRUMENT_SCOPE) return INSTRUMENT_SCOPE;
+  return namedControls(scope)?.join(', ') ?? 'every control';
 }

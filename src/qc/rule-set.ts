@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { LineCounter, parseDocument } from 'yaml';
 import { ConfigInvalid } from '../model/errors.js';
 import { controlSchema, type ControlDefinition } from './controls.js';
-import { INSTRUMENT_SCOPE, scopeId } from './rule-base.js';
+import { describeScope, isInstrumentScope, namedControls, scopeJudgesControl } from './rule-base.js';
 import { RULE_KIND_NAMES, RULE_KINDS, type Rule, type RuleKindName } from './rule-kinds/registry.js';
 import { isValidTimeZone } from './time.js';
 
@@ -50,7 +50,10 @@ function parseRule(raw: unknown, index: number, problems: Problem[]): Rule | und
   return result.data;
 }
 
-/** Cross-entry checks: unique ids, scopes that name a defined control, charts that need a control baseline. */
+/**
+ * Cross-entry checks: unique ids, charts that need a control baseline, and — when the file defines
+ * controls of its own — scopes that name a defined control (else checked when merged with the config).
+ */
 function crossCheck(controls: readonly ControlDefinition[], rules: readonly Rule[], problems: Problem[]): void {
   const controlIds = new Set<string>();
   controls.forEach((control, index) => {
@@ -61,11 +64,11 @@ function crossCheck(controls: readonly ControlDefinition[], rules: readonly Rule
   rules.forEach((rule, index) => {
     if (ruleIds.has(rule.id)) problems.push({ path: ['rules', index, 'id'], message: `duplicate rule id "${rule.id}"` });
     ruleIds.add(rule.id);
-    const scope = scopeId(rule.scope);
-    if (scope !== INSTRUMENT_SCOPE && !controlIds.has(scope)) {
-      problems.push({ path: ['rules', index, 'scope', 'control'], message: `no control with id "${scope}" is defined under controls` });
+    const unknown = controls.length === 0 ? [] : (namedControls(rule.scope) ?? []).filter((id) => !controlIds.has(id));
+    if (unknown.length > 0) {
+      problems.push({ path: ['rules', index, 'scope'], message: `no control with id "${unknown.join('", "')}" is defined under controls` });
     }
-    if (scope === INSTRUMENT_SCOPE && RULE_KINDS[rule.kind].needsBaseline) {
+    if (isInstrumentScope(rule.scope) && RULE_KINDS[rule.kind].needsBaseline) {
       problems.push({ path: ['rules', index, 'scope'], message: `${rule.kind} judges against a control's mean and SD; scope it to a control` });
     }
   });
@@ -113,4 +116,61 @@ export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
     });
   }
   return Object.freeze(ruleSet);
+}
+
+/** The rules that judge a control (scope absent, or naming it), in file order. O(rules). */
+export function rulesJudgingControl(ruleSet: RuleSet, controlId: string): Rule[] {
+  return ruleSet.rules.filter((rule) => scopeJudgesControl(rule.scope, controlId));
+}
+
+/**
+ * The rule set with more controls (e.g. from driftlight.yaml) and optionally another default zone.
+ * A control id defined twice, or a rule naming an undefined control, throws ConfigInvalid (pure).
+ */
+export function withControls(ruleSet: RuleSet, extra: readonly ControlDefinition[], sourceName: string, timeZone?: string): RuleSet {
+  const known = new Map(ruleSet.controls.map((control) => [control.id, control]));
+  for (const [index, control] of extra.entries()) {
+    if (known.has(control.id)) {
+      throw new ConfigInvalid(`control "${control.id}" is defined twice: in the rule set and in the config's controls`, {
+        file: sourceName,
+        configPath: `controls[${index}].id`,
+        hint: 'Define each control once, in driftlight.yaml `controls` (id, sampleIdPattern, targets); remove it from the rule file.',
+      });
+    }
+    known.set(control.id, control);
+  }
+  const merged: RuleSet = Object.freeze({
+    ...ruleSet,
+    controls: [...ruleSet.controls, ...extra],
+    ...(timeZone === undefined ? {} : { timeZone }),
+  });
+  merged.rules.forEach((rule, index) => {
+    const unknown = (namedControls(rule.scope) ?? []).filter((id) => !known.has(id));
+    if (unknown.length > 0) {
+      throw new ConfigInvalid(`rule "${rule.id}" names control "${unknown.join('", "')}", which no controls entry defines (defined: ${[...known.keys()].join(', ') || 'none'})`, {
+        configPath: `rules[${index}].scope`,
+        hint: 'Add the control to driftlight.yaml `controls`, or leave the rule\'s scope out so it judges every control.',
+      });
+    }
+  });
+  return merged;
+}
+
+/** Warnings about a merged rule set: no control defined, or a control that no rule judges. O(controls × rules). */
+export function ruleSetWarnings(ruleSet: RuleSet): string[] {
+  const warnings: string[] = [];
+  if (ruleSet.controls.length === 0) {
+    warnings.push('no control is defined: only instrument checks are judged (add a `controls` entry to driftlight.yaml)');
+  }
+  for (const control of ruleSet.controls) {
+    if (rulesJudgingControl(ruleSet, control.id).length === 0) {
+      warnings.push(`control "${control.id}" is judged by no rule: every rule is scoped to other controls or the instrument`);
+    }
+  }
+  return warnings;
+}
+
+/** "yield-westgard (controlQuantumYield @ every control)". */
+export function describeRuleScope(rule: Rule): string {
+  return `${rule.id} (${rule.metric} @ ${describeScope(rule.scope)})`;
 }

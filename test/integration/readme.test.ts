@@ -1,6 +1,6 @@
 // The README cannot drift: its example commands run against the real CLI, its three-line config
 // validates, and its exit-code table matches the one the CLI prints.
-import { readFileSync, writeFileSync } from 'node:fs';
+import { cpSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { EXIT_CODES } from '../../src/cli/exit-codes.js';
@@ -48,6 +48,41 @@ describe('README', () => {
     const run = runDriftlight(['config', 'check', '--config', file]);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
+  });
+
+  it('the three-line config, run on the demo day with its control 30 % low, flags the control (issue 16.1)', () => {
+    // Before issue 16.1 a config control got no rule (every built-in rule was scoped to a built-in
+    // control), so this run raised nothing. The control emission is scaled by 0.7: Φ = 0.8 × 0.7 = 0.56
+    // (relative yield is proportional to the integrated emission, Brouwer, Pure Appl. Chem. 83, 2213,
+    // 2011), i.e. 8 SD below the config's target 0.8 ± 0.03 — a 1-3s rejection (Westgard rules, common practice).
+    const config = blockAfter('A config of three lines works', 'yaml');
+    const folder = tempDir('driftlight-readme-qc-');
+    const inbox = join(folder, 'inbox');
+    cpSync(join(REPO_ROOT, 'examples/day/inbox'), inbox, { recursive: true });
+    const emission = join(inbox, 'run0314-a.csv');
+    const scaled = readFileSync(emission, 'utf8')
+      .split('\n')
+      .map((line) => (/^\d+(\.\d+)?,[\d.]+$/.test(line) ? `${line.split(',')[0]},${(Number(line.split(',')[1]) * 0.7).toFixed(3)}` : line))
+      .join('\n');
+    writeFileSync(emission, scaled);
+    const file = join(folder, 'driftlight.yaml');
+    writeFileSync(file, config.replace('/data/fluorometer-exports', inbox));
+    const check = runDriftlight(['config', 'check', '--config', file]);
+    expect(check.stdout).toMatch(/teal {2}match: sampleIdPattern \^CTRL-teal\n.*targets: controlQuantumYield 0\.8 ± 0\.03.*\n\s+judged by: yield-westgard/);
+    expect(check.stdout).not.toContain('warning:');
+    runDriftlight(['process', '--config', file, inbox]);
+    const resultsDir = join(folder, 'results');
+    const controlFile = readdirSync(resultsDir, { recursive: true, encoding: 'utf8' }).find((name) => /CTRL-teal-0314.*\.json$/.test(name));
+    expect(controlFile).toBeDefined();
+    const result = JSON.parse(readFileSync(join(resultsDir, controlFile ?? ''), 'utf8')) as {
+      quantumYield?: { value: number };
+      qc: { flags: { rule: string; severity: string; message: string }[] };
+    };
+    expect(result.quantumYield?.value).toBeGreaterThan(0.5);
+    expect(result.quantumYield?.value).toBeLessThan(0.6);
+    const rejection = result.qc.flags.find((flag) => flag.rule === 'yield-westgard:1-3s');
+    expect(rejection?.severity).toBe('critical');
+    expect(rejection?.message).toMatch(/below target 0\.800/);
   });
 
   it('documents every exit code the CLI uses', () => {

@@ -12,12 +12,27 @@ import { BASELINE_YIELDS, controlResult, writeResults } from './rules-fixtures.j
 const workDir = mkdtempSync(join(tmpdir(), 'driftlight-rules-'));
 afterAll(() => rmSync(workDir, { recursive: true, force: true }));
 
+/** The control, defined once in driftlight.yaml (the shipped rule set defines none: issue 16.1). */
+const CONTROLS_YAML = 'controls: [{ id: fluorescein-daily, sampleIdPattern: "^CTRL-FLU" }]\n';
+const controlsConfig = join(workDir, 'controls.yaml');
+writeFileSync(controlsConfig, `folders: { state: ${join(workDir, 'state-sim')} }\n${CONTROLS_YAML}`);
+
 describe('driftlight rules check', () => {
   it('validates the shipped rule set and prints its rules', () => {
     const run = runDriftlight(['rules', 'check', 'rules/default.yaml']);
     expect(run.status).toBe(0);
     expect(run.stdout).toContain('valid rule set "driftlight default rules"');
-    expect(run.stdout).toMatch(/yield-ewma\s+warning\s+controlQuantumYield @ fluorescein-daily: EWMA λ = 0.2, L = 2.962/);
+    expect(run.stdout).toMatch(/yield-ewma\s+warning\s+controlQuantumYield @ every control: EWMA λ = 0.2, L = 2.962/);
+    expect(run.stdout).toContain('warning: no control is defined');
+  });
+
+  it('--config shows the merged view: each config control with the rules that judge it', () => {
+    const run = runDriftlight(['rules', 'check', '--config', controlsConfig]);
+    expect(run.stderr).toBe('');
+    expect(run.status).toBe(0);
+    expect(run.stdout).toContain('fluorescein-daily  match: sampleIdPattern ^CTRL-FLU');
+    expect(run.stdout).toMatch(/judged by: yield-westgard, yield-ewma, yield-cusum, .*control-missing/);
+    expect(run.stdout).not.toContain('warning:');
   });
 
   it('exits 2 naming the file, line and config path of an invalid rule', () => {
@@ -44,7 +59,7 @@ describe('driftlight rules simulate', () => {
   writeResults(resultsDir, results);
 
   it('lists the alerts that would have fired, in time order, with recoveries and a missing control', () => {
-    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml']);
+    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml', '--config', controlsConfig]);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
     const lines = run.stdout.trim().split('\n');
@@ -58,7 +73,7 @@ describe('driftlight rules simulate', () => {
   });
 
   it('--json prints one alert object per line', () => {
-    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml', '--json']);
+    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml', '--config', controlsConfig, '--json']);
     expect(run.status).toBe(0);
     const alerts = run.stdout.trim().split('\n').map((line) => JSON.parse(line) as { type: string; ruleId: string; check: string; setId: string });
     expect(alerts.find((alert) => alert.check === '1-3s')).toMatchObject({ type: 'flag', ruleId: 'yield-westgard', setId: 'ctrl-020' });
@@ -70,7 +85,7 @@ describe('driftlight rules rebaseline', () => {
   it('stores a new baseline computed from the ledger runs since the date', () => {
     const stateDir = join(workDir, 'state');
     const configFile = join(workDir, 'driftlight.yaml');
-    writeFileSync(configFile, `folders:\n  state: ${stateDir}\n`);
+    writeFileSync(configFile, `folders:\n  state: ${stateDir}\n${CONTROLS_YAML}`);
     const ledger = openLedger(stateDir);
     const shifted = BASELINE_YIELDS.map((value, day) => controlResult(30 + day, value - 0.02));
     for (const result of [...BASELINE_YIELDS.map((value, day) => controlResult(day, value)), ...shifted]) {

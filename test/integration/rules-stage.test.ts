@@ -7,13 +7,15 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { alertsSection } from '../../src/config/sections/alerts.js';
 import { createAlertDispatcher, createChannels, type AlertDispatcher } from '../../src/output/alerts/index.js';
-import { createQcStage, loadRuleSetFile } from '../../src/pipeline/qc-stage.js';
+import { createQcStage, loadRuleSetFile, withConfigControls } from '../../src/pipeline/qc-stage.js';
 import { openLedger } from '../../src/store/ledger.js';
 import { ledgerAlertState, ledgerDeliveryRecorder, observationHistory, openFlags, recentDeliveries } from '../../src/store/qc-store.js';
 import { memoryLogger } from '../unit/output/alerts/alert-fixtures.js';
 import { BASELINE_YIELDS, controlResult } from './rules-fixtures.js';
 
 const workDir = mkdtempSync(join(tmpdir(), 'driftlight-qc-stage-'));
+/** The shipped rules with the control defined once, as driftlight.yaml `controls` would (issue 16.1). */
+const ruleSetWithControl = () => withConfigControls(loadRuleSetFile(), [{ id: 'fluorescein-daily', sampleIdPattern: '^CTRL-FLU', baselineRuns: 20 }]);
 afterAll(() => rmSync(workDir, { recursive: true, force: true }));
 
 describe('QC result stage', () => {
@@ -32,7 +34,7 @@ describe('QC result stage', () => {
     const channels = createChannels(alerts, { env: {}, logger });
     let dispatcher: AlertDispatcher | undefined;
     const stage = createQcStage({
-      ruleSet: loadRuleSetFile(),
+      ruleSet: ruleSetWithControl(),
       dispatcherFor: (forLedger) => {
         dispatcher = createAlertDispatcher({ alerts, channels, state: ledgerAlertState(forLedger), recorder: ledgerDeliveryRecorder(forLedger), logger });
         return dispatcher;
@@ -79,7 +81,7 @@ describe('QC result stage', () => {
 
   it('ignores results that are neither a control nor an instrument check', async () => {
     const ledger = openLedger(join(workDir, 'state-2'));
-    const stage = createQcStage({ ruleSet: loadRuleSetFile() });
+    const stage = createQcStage({ ruleSet: ruleSetWithControl() });
     const sample = { ...controlResult(0, 0.5, 'dye-07'), role: 'sample' as const };
     expect(await stage.apply(sample, { ledger, now: new Date() })).toBe(sample);
     expect(observationHistory(ledger)).toEqual([]);

@@ -18,7 +18,7 @@ export const controlMissingRuleSchema = z
     /** IANA zone ("Europe/Berlin") or offset ("+01:00"); default: the evaluation's zone, else the rule set's. */
     timeZone: z.string().refine(isValidTimeZone, { error: 'expected an IANA time zone such as Europe/Berlin, or an offset such as +01:00' }).optional(),
   })
-  .refine((rule) => rule.scope !== INSTRUMENT_SCOPE, { error: 'control-missing needs { control: CONTROL_ID }', path: ['scope'] });
+  .refine((rule) => rule.scope !== INSTRUMENT_SCOPE, { error: 'control-missing judges controls: leave scope out or name { controls: [CONTROL_ID] }', path: ['scope'] });
 export type ControlMissingRule = z.output<typeof controlMissingRuleSchema>;
 
 export const controlMissingKind = defineRuleKind({

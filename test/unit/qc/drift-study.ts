@@ -1,11 +1,13 @@
 // The drift study behind docs/qc.md: the default rule set replayed over simulated daily control
 // yields (seeded), measuring days to detect a slow drift and false alarms while in control.
 import { readFileSync } from 'node:fs';
-import { createSeededRandom, parseRuleSet, replayObservations, type ControlObservation, type QcFlag, type RuleSet } from '../../../src/qc/index.js';
+import { controlSchema, createSeededRandom, parseRuleSet, replayObservations, withControls, type ControlObservation, type QcFlag, type RuleSet } from '../../../src/qc/index.js';
 
-export const DEFAULT_RULE_SET: RuleSet = parseRuleSet(
-  readFileSync(new URL('../../../rules/default.yaml', import.meta.url), 'utf8'),
-  'rules/default.yaml',
+/** The shipped rule set (no control of its own) with the study's control defined as driftlight.yaml would define it. */
+export const DEFAULT_RULE_SET: RuleSet = withControls(
+  parseRuleSet(readFileSync(new URL('../../../rules/default.yaml', import.meta.url), 'utf8'), 'rules/default.yaml'),
+  [controlSchema.parse({ id: 'fluorescein-daily', match: { sampleIdPattern: '^CTRL-FLU' } })],
+  'test',
 );
 
 /** Scenario: fluorescein control, Φ = 0.925 (Magde et al. 2002), 1.5 % CV day to day, 20-run baseline. */
