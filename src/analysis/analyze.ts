@@ -2,6 +2,7 @@
 // rate constants into one AnalysisResult. A partial set gives a partial result that says what is
 // missing and why; nothing here reads files, the clock or the environment.
 import type { Spectrum } from '../model/spectrum.js';
+import { readAcquisitionTime } from '../model/acquisition-time.js';
 import { ramanTest } from '../spectra/index.js';
 import { buildArtifacts } from './artifacts.js';
 import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
@@ -124,12 +125,13 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
   const artifacts = buildArtifacts(payload.setId, { ...(correctedEmission ? { correctedEmission } : {}), ...(decay ? { decay } : {}), ...(fitColumns ? { fitColumns } : {}) }, context);
   for (const w of quantumYield?.warnings ?? []) context.warnings.push(`quantum yield: ${w}`);
 
+  const acquisition = acquisitionOfSet(payload, primaryMetadata?.acquiredAt, context.warnings);
   const result: AnalysisResult = {
     schema: RESULT_SCHEMA,
     setId: payload.setId,
     role: payload.role,
     sampleId: payload.sampleId,
-    ...(primaryMetadata?.acquiredAt === undefined ? {} : { acquiredAt: primaryMetadata.acquiredAt }),
+    ...(acquisition === undefined ? {} : { acquiredAt: acquisition.acquiredAt }),
     ...(solvent === undefined ? {} : { solvent }),
     ...(excitationNm === undefined ? {} : { excitationNm }),
     partial: context.partial,
@@ -156,9 +158,20 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
       softwareVersion: payload.softwareVersion,
       corrections: context.corrections.map((c) => `${c.name}:${c.target}`),
       analyzedAt: payload.analyzedAt,
+      ...(acquisition === undefined ? {} : { acquiredAtSource: acquisition.source }),
     },
   };
   return { result, artifacts, rejectedInputs };
+}
+
+/** The set's acquisition time: as read at intake (payload), else the first input's metadata read by readAcquisitionTime (ISO 8601 and unambiguous spellings); a refused one is left out with a warning. */
+function acquisitionOfSet(payload: AnalysisJobPayload, metadataText: string | undefined, warnings: string[]): AnalysisJobPayload['acquisition'] {
+  if (payload.acquisition !== undefined) return payload.acquisition;
+  if (metadataText === undefined) return undefined;
+  const reading = readAcquisitionTime(metadataText);
+  if (reading.ok) return { acquiredAt: reading.iso, source: 'metadata' };
+  warnings.push(`acquisition time left out: ${reading.message} (${reading.code}; ${reading.hint})`);
+  return undefined;
 }
 
 function firstMetadata(parsed: ReturnType<typeof parseInputs>): { acquiredAt?: string; solvent?: string } | undefined {

@@ -57,6 +57,8 @@ export interface AnalysisJobPayload {
   /** Parts the set needed but neither had nor could borrow, with the reason. */
   readonly missingParts: readonly { readonly part: SetPart; readonly reason: string }[];
   readonly settings: AnalysisSettings;
+  /** When the set was measured (canonical UTC ISO 8601, read at intake by src/model/acquisition-time.ts) and whether that came from the files' metadata or their modification time; without it analyze() reads the first input's metadata. */
+  readonly acquisition?: { readonly acquiredAt: string; readonly source: 'metadata' | 'file-modified' };
   /** ISO 8601 time of the analysis (the coordinator's clock). */
   readonly analyzedAt: string;
   readonly configHash: string;

@@ -189,6 +189,8 @@ export interface ResultProvenance {
   readonly corrections: readonly string[];
   /** When the analysis ran (ISO 8601, UTC), supplied by the coordinator. */
   readonly analyzedAt: string;
+  /** Where acquiredAt came from: the files' own acquisition time ('metadata') or, when they carried none, the file's modification time ('file-modified'). */
+  readonly acquiredAtSource?: 'metadata' | 'file-modified';
 }
 
 export interface AnalysisResult {
@@ -196,7 +198,7 @@ export interface AnalysisResult {
   readonly setId: string;
   readonly role: SetRole;
   readonly sampleId: string;
-  /** Acquisition time of the primary measurement (ISO 8601) when the files say it. */
+  /** When the set was measured: canonical UTC ISO 8601 read by src/model/acquisition-time.ts (provenance.acquiredAtSource says from what). */
   readonly acquiredAt?: string;
   readonly solvent?: string;
   readonly excitationNm?: number;

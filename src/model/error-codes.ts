@@ -22,6 +22,8 @@ export const ERROR_CODES = {
   JCAMP_INVALID: { kind: 'input', hint: 'The JCAMP-DX file breaks the standard; check the ##XYDATA block and its factors.' },
   JSON_INVALID: { kind: 'input', hint: 'The JSON does not match the driftlight data schema (schemas/data.schema.json).' },
   METADATA_INVALID: { kind: 'input', hint: 'A metadata value could not be read; check its number format and unit.' },
+  DATE_AMBIGUOUS: { kind: 'input', hint: 'State the instrument\'s date order and time zone in the config (instrument.dateOrder: DMY, MDY or YMD; instrument.timeZone), or export ISO 8601 dates.' },
+  DATE_INVALID: { kind: 'input', hint: 'The acquisition time names a date or time that does not exist (31 February, 25:00); fix the instrument clock or export ISO 8601 dates.' },
   INPUT_INVALID: { kind: 'input', hint: 'The input does not meet the requirements of this analysis; see the message.' },
   AXIS_NOT_COVERED: { kind: 'input', hint: 'The correction data (blank, detector curve, absorbance) must cover the whole spectrum; trim the spectrum or supply a wider curve.' },
   EXCITATION_MISMATCH: { kind: 'input', hint: 'Measure the blank at the same excitation wavelength as the sample, or widen the tolerance in the options.' },

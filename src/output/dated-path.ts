@@ -1,10 +1,11 @@
-// Folder names by day (YYYY-MM-DD, UTC) and collision-free target names for moves.
+// Folder names by day (YYYY-MM-DD; UTC or the lab's zone) and collision-free target names for moves.
 import { existsSync } from 'node:fs';
 import { extname, join } from 'node:path';
+import { localDateOf } from '../model/acquisition-time.js';
 
-/** `YYYY-MM-DD` of `at` in UTC. */
-export function dayFolderName(at: Date): string {
-  return at.toISOString().slice(0, 10);
+/** `YYYY-MM-DD` of `at` in `timeZone` (IANA or ±HH:MM; default UTC). */
+export function dayFolderName(at: Date, timeZone = 'UTC'): string {
+  return timeZone === 'UTC' ? at.toISOString().slice(0, 10) : localDateOf(at.getTime(), timeZone);
 }
 
 /** `name` itself for n = 0, else `stem~N.ext`: the names a move tries, in order, when a name is in use. */

@@ -37,15 +37,15 @@ function isOccupied(error: unknown): boolean {
 }
 
 /**
- * Writes every artifact of a set into outbox/YYYY-MM-DD/<setId>/ and returns the paths written. A new
+ * Writes every artifact of a set into outbox/YYYY-MM-DD/<setId>/ (the day of `filedAt`, the set's acquisition time, in `timeZone`) and returns the paths written. A new
  * set folder is filled while hidden and renamed into place whole (one rename for the set, not one per
  * file); an existing one (a re-run) gets each file replaced atomically. Not fsynced: the result JSON
  * is the durable record, and outbox files are rewritten on a re-run. A crash can leave a hidden
  * `.<setId>.*.tmp` folder in the day folder, which downstream tools skip as they skip any dot-folder.
  */
-export function writeOutbox(outboxDir: string, setId: string, setCreatedAt: Date, artifacts: readonly OutboxArtifact[]): string[] {
+export function writeOutbox(outboxDir: string, setId: string, filedAt: Date, artifacts: readonly OutboxArtifact[], timeZone = 'UTC'): string[] {
   if (artifacts.length === 0) return [];
-  const dayDir = join(outboxDir, dayFolderName(setCreatedAt));
+  const dayDir = join(outboxDir, dayFolderName(filedAt, timeZone));
   const dir = join(dayDir, setId);
   const names = artifacts.map(fileNameOf);
   const temp = tempPathFor(dir);

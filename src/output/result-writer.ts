@@ -1,5 +1,6 @@
-// Result files: results/YYYY-MM-DD/<setId>.json (day of the set's creation, so a re-run after a
-// crash finds and replaces the same file rather than adding a second one), written atomically.
+// Result files: results/YYYY-MM-DD/<setId>.json (day the set was measured, in the lab's zone: fixed
+// by the set's files, so a re-run after a crash finds and replaces the same file rather than adding
+// a second one), written atomically.
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -7,9 +8,9 @@ import type { AnalysisResult } from '../analysis/result.js';
 import { writeFileAtomicAsync } from './atomic-write.js';
 import { dayFolderName } from './dated-path.js';
 
-/** Where the result of `setId` (created at `setCreatedAt`) lives. */
-export function resultPathFor(resultsDir: string, setId: string, setCreatedAt: Date): string {
-  return join(resultsDir, dayFolderName(setCreatedAt), `${setId}.json`);
+/** Where the result of `setId` (filed under the day of `filedAt` in `timeZone`, default UTC) lives. */
+export function resultPathFor(resultsDir: string, setId: string, filedAt: Date, timeZone = 'UTC'): string {
+  return join(resultsDir, dayFolderName(filedAt, timeZone), `${setId}.json`);
 }
 
 /** Serialises a result as the canonical pretty JSON written to disk. */
@@ -18,8 +19,8 @@ export function serializeResult(result: AnalysisResult): string {
 }
 
 /** Writes the result atomically with its fsync off the event loop (and its folder's, unless `syncFolder` is false: the caller then fsyncs it once for a batch); returns its path and the sha256 of the bytes written. */
-export async function writeResult(resultsDir: string, result: AnalysisResult, setCreatedAt: Date, options: { syncFolder?: boolean } = {}): Promise<{ path: string; sha256: string }> {
-  const path = resultPathFor(resultsDir, result.setId, setCreatedAt);
+export async function writeResult(resultsDir: string, result: AnalysisResult, filedAt: Date, options: { syncFolder?: boolean; timeZone?: string } = {}): Promise<{ path: string; sha256: string }> {
+  const path = resultPathFor(resultsDir, result.setId, filedAt, options.timeZone);
   const text = serializeResult(result);
   await writeFileAtomicAsync(path, text, options);
   return { path, sha256: createHash('sha256').update(text).digest('hex') };

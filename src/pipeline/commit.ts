@@ -19,16 +19,23 @@ import { filesOfSet, filesToArchive, setFileError, setFileLocation, setFilesOfSe
 import { upsertResult } from '../store/results.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
 import { uniqueTarget } from '../output/dated-path.js';
+import { acquisitionEpochMs } from '../model/acquisition-time.js';
 import { moveFile } from '../output/move-file.js';
 import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
 import { archiveFolderOf, rejectFile } from './intake.js';
 
-/** One finished set to commit: the worker's output, the result after the result stages, and when the set was created (it names the day folders). */
+/** One finished set to commit: the worker's output, the result after the result stages, and when the set was created (the day folders are named by the result's acquisition time, else by this). */
 export interface CommitItem {
   readonly output: AnalysisOutput;
   readonly result: AnalysisResult;
   readonly setCreatedAt: Date;
+}
+
+/** The time a set's result and outbox are filed by: its acquisition time (read at intake), else when the set was created. */
+function filedAt(item: CommitItem): Date {
+  const epochMs = item.result.acquiredAt === undefined ? undefined : acquisitionEpochMs(item.result.acquiredAt);
+  return epochMs === undefined ? item.setCreatedAt : new Date(epochMs);
 }
 
 /**
@@ -68,7 +75,7 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   const written = await Promise.all(items.map(async (item) => {
     const setId = item.result.setId;
     try {
-      const file = await writeResult(config.folders.results, item.result, item.setCreatedAt, { syncFolder: false });
+      const file = await writeResult(config.folders.results, item.result, filedAt(item), { syncFolder: false, timeZone: config.instrument.timeZone });
       return { item, file };
     } catch (error) {
       outcomes.set(setId, { ok: false, setId, error });
@@ -81,7 +88,7 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   for (const { item, file } of durable) {
     const setId = item.result.setId;
     try {
-      writeOutbox(config.folders.outbox, setId, item.setCreatedAt, item.output.artifacts);
+      writeOutbox(config.folders.outbox, setId, filedAt(item), item.output.artifacts, config.instrument.timeZone);
       const rejectedInputs = item.output.rejectedInputs ?? [];
       const rejected = rejectedInputs.length === 0 ? [] : rejectedOwnFiles(filesOfSet(ledger, setId), rejectedInputs);
       committed.push({ item, path: file.path, sha256: file.sha256, rejected });

@@ -18,7 +18,7 @@ import { classifyFile, makeSetId, partsPresent, placeFile, setReadiness, type As
 import { commitFailure, commitResults, commitUnreadableSet, recordArchiveMoves, type ArchivedFile, type CommitItem } from './commit.js';
 import { ContentCache } from './content-cache.js';
 import { buildPayload, choosePairings, readText } from './dispatch.js';
-import { intakeFile, type IntakeFile, type IntakeResult } from './intake.js';
+import { intakeFile, type Acquisition, type IntakeFile, type IntakeResult } from './intake.js';
 import { recoverMoves, type MoveRecovery } from './recovery.js';
 import type { SetManifest } from './manifest.js';
 import { OpenSets, toView, type OpenSet } from './open-sets.js';
@@ -265,7 +265,7 @@ export class Coordinator {
         for (const item of accepted) {
           const fileId = item.kind === 'manifest'
             ? this.placeManifest(item.file, item.manifest, now, touched)
-            : this.placeData(item.file, item.parsed, now, touched);
+            : this.placeData(item.file, item.parsed, item.acquisition, now, touched);
           recordedIds.push(fileId);
         }
       });
@@ -285,7 +285,7 @@ export class Coordinator {
   }
 
   /** Records a data file and places it in an open set (inside the intake transaction); returns its file id. */
-  private placeData(file: IntakeFile, parsed: ParsedData, now: Date, touched: Set<OpenSet>): number {
+  private placeData(file: IntakeFile, parsed: ParsedData, acquisition: Acquisition, now: Date, touched: Set<OpenSet>): number {
     const metadata = parsed.type === 'spectrum' ? parsed.spectrum.metadata : parsed.decay.metadata;
     const hasIrfColumn = parsed.type === 'decay' && parsed.decay.irfCounts !== undefined;
     const classification = classifyFile({
@@ -311,7 +311,7 @@ export class Coordinator {
     const part: SetPart = listed?.part ?? classification.part;
     const role: MeasurementRole = listed?.role ?? classification.role;
     const facts = {
-      dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: metadata.acquiredAt ?? null,
+      dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: acquisition.acquiredAt, acquiredSource: acquisition.source,
       excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
     };
     let fileId: number;

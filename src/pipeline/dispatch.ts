@@ -7,7 +7,8 @@ import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
 import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type FileRecord, type PairingFile } from '../store/files.js';
+import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type AcquiredSource, type FileRecord, type PairingFile } from '../store/files.js';
+import { acquisitionEpochMs, isoFromEpochMs } from '../model/acquisition-time.js';
 import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
@@ -16,9 +17,10 @@ import { analysisSettingsFrom } from './settings.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
 
+/** When a file was measured: its stored acquisition time (read by the one reader), else when it was first seen (rows recorded before acquisition times were stored canonically). */
 function measuredAt(file: PairingFile): Date {
-  const acquired = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
-  return new Date(Number.isFinite(acquired) ? acquired : Date.parse(file.firstSeenAt));
+  const acquired = file.acquiredAt === null ? undefined : acquisitionEpochMs(file.acquiredAt);
+  return new Date(acquired ?? acquisitionEpochMs(file.firstSeenAt) ?? 0);
 }
 
 function toCandidate(file: PairingFile): PairingCandidate {
@@ -77,12 +79,24 @@ export function choosePairings(
 
 /** When a set was measured: the earliest acquisition time of its own files (`own`), if any says. */
 function setMeasuredAt(own: readonly FileRecord[]): Date | undefined {
-  let earliest: number | undefined;
+  const acquisition = setAcquisition(own);
+  return acquisition === undefined ? undefined : new Date(acquisition.epochMs);
+}
+
+/** A set's acquisition time: the earliest of its own files' (metadata before modification times), with where it came from. */
+export function setAcquisition(own: readonly FileRecord[]): { epochMs: number; acquiredAt: string; source: AcquiredSource } | undefined {
+  let chosen: { epochMs: number; acquiredAt: string; source: AcquiredSource } | undefined;
   for (const file of own) {
-    const t = file.acquiredAt === null ? Number.NaN : Date.parse(file.acquiredAt);
-    if (Number.isFinite(t) && (earliest === undefined || t < earliest)) earliest = t;
+    if (file.acquiredAt === null || file.dataType === 'manifest' || file.state === 'rejected') continue;
+    const epochMs = acquisitionEpochMs(file.acquiredAt);
+    if (epochMs === undefined) continue;
+    const source: AcquiredSource = file.acquiredSource ?? 'metadata';
+    const better = chosen === undefined
+      || (source === 'metadata' && chosen.source !== 'metadata')
+      || (source === chosen.source && epochMs < chosen.epochMs);
+    if (better) chosen = { epochMs, acquiredAt: isoFromEpochMs(epochMs), source };
   }
-  return earliest === undefined ? undefined : new Date(earliest);
+  return chosen;
 }
 
 function mostRecentReferenceSet(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
@@ -193,6 +207,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   const missingParts = requiredPartsFor(role, context.rules)
     .filter((part) => !have.has(part))
     .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));
+  const acquisition = setAcquisition(own);
   const reference =
     referenceSetId !== undefined ? standardForSet(config, referenceSetId, ledger)
       : role === 'reference' ? standardForSet(config, setId, ledger) : undefined;
@@ -208,6 +223,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     files,
     missingParts,
     settings: analysisSettingsFrom(config, reference),
+    ...(acquisition === undefined ? {} : { acquisition: { acquiredAt: acquisition.acquiredAt, source: acquisition.source } }),
     analyzedAt: context.now.toISOString(),
     configHash: context.configHash,
     softwareVersion: context.softwareVersion,

@@ -9,13 +9,37 @@ import { ERROR_CODES } from '../model/error-codes.js';
 import type { ParsedData } from '../formats/index.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesBySha256, insertFile, setFileError, setFileLocation, type FileRecord, type NewFile } from '../store/files.js';
+import { filesBySha256, insertFile, setFileError, setFileLocation, type AcquiredSource, type FileRecord, type NewFile } from '../store/files.js';
+import { isoFromEpochMs, readAcquisitionTime } from '../model/acquisition-time.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
 import { quarantineFile } from '../output/quarantine.js';
 import { isManifestName, parseManifest, type SetManifest } from './manifest.js';
 import { readForAssembly } from './sniff.js';
 import { join } from 'node:path';
+
+/** When a file was measured, as stored in the ledger: canonical UTC ISO 8601 and where it came from. */
+export interface Acquisition {
+  readonly acquiredAt: string;
+  readonly source: AcquiredSource;
+}
+
+/**
+ * The acquisition time of a file read at intake: its metadata read by the one reader
+ * (readAcquisitionTime, with instrument.dateOrder and instrument.timeZone), else the file's
+ * modification time, recorded as such (never the analysis time). Throws InputRejected
+ * DATE_AMBIGUOUS or DATE_INVALID for a time that cannot be read as one instant.
+ */
+export function acquisitionOf(parsed: ParsedData, modifiedMs: number, config: DriftlightConfig, fileName: string): Acquisition {
+  const text = parsed.type === 'spectrum' ? parsed.spectrum.metadata.acquiredAt : parsed.decay.metadata.acquiredAt;
+  if (text === undefined || text.trim() === '') return { acquiredAt: isoFromEpochMs(Math.round(modifiedMs)), source: 'file-modified' };
+  const reading = readAcquisitionTime(text, {
+    ...(config.instrument.dateOrder === undefined ? {} : { dateOrder: config.instrument.dateOrder }),
+    timeZone: config.instrument.timeZone,
+  });
+  if (!reading.ok) throw new InputRejected(reading.code, reading.message, { file: fileName, hint: reading.hint });
+  return { acquiredAt: reading.iso, source: 'metadata' };
+}
 
 /** A file read at intake: already in the ledger (`id`), or to be recorded in the same transaction that assembles it. */
 export type IntakeFile = NewFile & { readonly id?: number };
@@ -24,7 +48,7 @@ export type IntakeResult =
   | { readonly kind: 'gone' }
   | { readonly kind: 'known' }
   | { readonly kind: 'rejected' }
-  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData; readonly bytes: Uint8Array }
+  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData; readonly bytes: Uint8Array; readonly acquisition: Acquisition }
   | { readonly kind: 'manifest'; readonly file: IntakeFile; readonly manifest: SetManifest; readonly bytes: Uint8Array };
 
 /** Files read earlier in the same intake batch but not recorded yet, by sha256 (for duplicate detection). */
@@ -76,10 +100,12 @@ export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file
 /** Reads a stable file; returns what it is and its bytes (recorded by the caller when it assembles it), or that it was handled (known, rejected, gone); `pending` lists files of the same batch not yet recorded. */
 export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date, pending: PendingIntake = new Map()): IntakeResult {
   let sizeBytes: number;
+  let modifiedMs: number;
   try {
     const stat = statSync(path);
     if (!stat.isFile()) return { kind: 'gone' };
     sizeBytes = stat.size;
+    modifiedMs = stat.mtimeMs;
   } catch {
     return { kind: 'gone' };
   }
@@ -88,7 +114,7 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
   const known = filesBySha256(ledger, sha256);
   const samePath = known.filter((f) => f.path === path);
   for (const record of samePath) {
-    if (record.state === 'seen') return readRecorded(ledger, config, record, bytes ?? readFileSync(path), now);
+    if (record.state === 'seen') return readRecorded(ledger, config, record, bytes ?? readFileSync(path), now, modifiedMs);
     if (record.state === 'assembled' || record.state === 'queued') return { kind: 'known' };
     if (record.state === 'done' && record.archivePath === null) {
       finishArchiveMove(ledger, config, record, now);
@@ -105,7 +131,7 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
   const original = recorded ?? (inBatch === undefined ? undefined : { name: inBatch.name, setId: null });
   const newFile: NewFile = { sha256, path, name, sizeBytes };
   if (original === undefined && sizeBytes <= config.limits.maxFileBytes) {
-    return readRecorded(ledger, config, newFile, bytes ?? readFileSync(path), now);
+    return readRecorded(ledger, config, newFile, bytes ?? readFileSync(path), now, modifiedMs);
   }
   const file = ledger.transaction(() => insertFile(ledger, newFile, now));
   if (original !== undefined) {
@@ -118,12 +144,13 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
 }
 
 /** Reads a data file's head or a manifest; a bad file is recorded (if it is not yet) and quarantined. */
-function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date): IntakeResult {
+function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date, modifiedMs: number): IntakeResult {
   try {
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
       return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name), bytes };
     }
-    return { kind: 'data', file, parsed: readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes }), bytes };
+    const parsed = readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes });
+    return { kind: 'data', file, parsed, bytes, acquisition: acquisitionOf(parsed, modifiedMs, config, file.name) };
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;
     const record = 'id' in file ? file : ledger.transaction(() => insertFile(ledger, file, now));

@@ -61,12 +61,8 @@ export function observationFromResult(
   if (controlId === undefined) return undefined;
   const metrics = metricsOfResult(result);
   if (Object.keys(metrics).length === 0) return undefined;
-  return {
-    controlId,
-    setId: result.setId,
-    // A missing or unreadable acquisition time falls back to the analysis time (never drops a control).
-    acquiredAt:
-      result.acquiredAt !== undefined && parseIsoToEpochMs(result.acquiredAt) !== undefined ? result.acquiredAt : result.provenance.analyzedAt,
-    metrics,
-  };
+  // Judged at its acquisition time only, never the analysis time: the pipeline always records one
+  // (the file's modification time when the file carried none, see provenance.acquiredAtSource).
+  if (result.acquiredAt === undefined || parseIsoToEpochMs(result.acquiredAt) === undefined) return undefined;
+  return { controlId, setId: result.setId, acquiredAt: result.acquiredAt, metrics };
 }

@@ -1,43 +1,13 @@
 // Clock-free time arithmetic for the pure core: ISO 8601 parsing to epoch ms and local wall-clock
 // parts in an IANA zone (through Intl, which is pure) or a fixed ±HH:MM offset.
 
-const ISO_PATTERN =
-  /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,9}))?)?)?(Z|[+-]\d{2}:?\d{2})?$/;
+import { acquisitionEpochMs, daysFromCivil } from '../model/acquisition-time.js';
 
-/** Days since 1970-01-01 of a proleptic Gregorian date (H. Hinnant's days_from_civil). O(1). */
-export function daysFromCivil(year: number, month: number, day: number): number {
-  const shiftedYear = month <= 2 ? year - 1 : year;
-  const era = Math.floor(shiftedYear / 400);
-  const yearOfEra = shiftedYear - era * 400;
-  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
-  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
-  return era * 146097 + dayOfEra - 719468;
-}
+export { daysFromCivil };
 
-/** Epoch ms of an ISO 8601 date-time ("2026-12-01T09:30:00+01:00"; no offset means UTC); undefined if unreadable. */
+/** Epoch ms of a date-time read by the one acquisition-time reader (src/model/acquisition-time.ts; no offset means UTC); undefined if unreadable or ambiguous. */
 export function parseIsoToEpochMs(text: string): number | undefined {
-  const match = ISO_PATTERN.exec(text.trim());
-  if (match === null) return undefined;
-  const [, year, month, day, hour, minute, second, fraction, zone] = match;
-  const monthNumber = Number(month);
-  const dayNumber = Number(day);
-  if (monthNumber < 1 || monthNumber > 12 || dayNumber < 1 || dayNumber > 31) return undefined;
-  let offsetMinutes = 0;
-  if (zone !== undefined && zone !== 'Z') {
-    const digits = zone.replace(':', '');
-    const sign = digits.startsWith('-') ? -1 : 1;
-    offsetMinutes = sign * (Number(digits.slice(1, 3)) * 60 + Number(digits.slice(3, 5)));
-  }
-  const fractionMs = fraction === undefined ? 0 : Number(`0.${fraction}`) * 1000;
-  const days = daysFromCivil(Number(year), monthNumber, dayNumber);
-  return (
-    days * 86_400_000 +
-    Number(hour ?? 0) * 3_600_000 +
-    Number(minute ?? 0) * 60_000 +
-    Number(second ?? 0) * 1000 +
-    fractionMs -
-    offsetMinutes * 60_000
-  );
+  return acquisitionEpochMs(text);
 }
 
 /** Epoch ms of an ISO string, throwing RangeError naming `what` when it cannot be read. */

@@ -4,6 +4,9 @@ import type { Ledger } from './ledger.js';
 export const FILE_STATES = ['seen', 'assembled', 'queued', 'done', 'rejected', 'failed'] as const;
 export type FileState = (typeof FILE_STATES)[number];
 
+/** Where a stored acquisition time came from. */
+export type AcquiredSource = 'metadata' | 'file-modified';
+
 export interface FileRecord {
   readonly id: number;
   readonly sha256: string;
@@ -18,7 +21,10 @@ export interface FileRecord {
   readonly part: string | null;
   readonly role: string | null;
   readonly sampleId: string | null;
+  /** Acquisition time as canonical UTC ISO 8601 (src/model/acquisition-time.ts), or null when unknown. */
   readonly acquiredAt: string | null;
+  /** Where acquiredAt came from: the file's metadata, or its modification time when it carried none. */
+  readonly acquiredSource: AcquiredSource | null;
   readonly excitationNm: number | null;
   readonly solvent: string | null;
   readonly hasIrfColumn: boolean;
@@ -32,7 +38,7 @@ export interface FileRecord {
 interface FileRow {
   id: number; sha256: string; path: string; name: string; size_bytes: number; first_seen_at: string;
   updated_at: string; state: FileState; data_type: FileRecord['dataType']; part: string | null;
-  role: string | null; sample_id: string | null; acquired_at: string | null; excitation_nm: number | null;
+  role: string | null; sample_id: string | null; acquired_at: string | null; acquired_source?: AcquiredSource | null; excitation_nm: number | null;
   solvent: string | null; has_irf_column: number; set_id: string | null; archive_path: string | null;
   quarantine_path: string | null; error_code: string | null; error_message: string | null;
 }
@@ -41,7 +47,7 @@ function toRecord(row: FileRow): FileRecord {
   return {
     id: row.id, sha256: row.sha256, path: row.path, name: row.name, sizeBytes: row.size_bytes,
     firstSeenAt: row.first_seen_at, updatedAt: row.updated_at, state: row.state, dataType: row.data_type,
-    part: row.part, role: row.role, sampleId: row.sample_id, acquiredAt: row.acquired_at,
+    part: row.part, role: row.role, sampleId: row.sample_id, acquiredAt: row.acquired_at, acquiredSource: row.acquired_source ?? null,
     excitationNm: row.excitation_nm, solvent: row.solvent, hasIrfColumn: row.has_irf_column === 1,
     setId: row.set_id, archivePath: row.archive_path, quarantinePath: row.quarantine_path,
     errorCode: row.error_code, errorMessage: row.error_message,
@@ -62,7 +68,9 @@ export interface FileFacts {
   readonly part: string | null;
   readonly role: string | null;
   readonly sampleId: string | null;
+  /** Canonical UTC ISO 8601 acquisition time (readAcquisitionTime), or null for a manifest. */
   readonly acquiredAt: string | null;
+  readonly acquiredSource?: AcquiredSource | null;
   readonly excitationNm: number | null;
   readonly solvent: string | null;
   readonly hasIrfColumn: boolean;
@@ -131,9 +139,9 @@ export function filesToArchive(ledger: Ledger, setId: string): FileToArchive[] {
 /** Stores the classification of a file read successfully. */
 export function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
   ledger
-    .prepare(`UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, excitation_nm = ?,
+    .prepare(`UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, acquired_source = ?, excitation_nm = ?,
               solvent = ?, has_irf_column = ?, updated_at = ? WHERE id = ?`)
-    .run(facts.dataType, facts.part, facts.role, facts.sampleId, facts.acquiredAt, facts.excitationNm, facts.solvent,
+    .run(facts.dataType, facts.part, facts.role, facts.sampleId, facts.acquiredAt, facts.acquiredSource ?? null, facts.excitationNm, facts.solvent,
       facts.hasIrfColumn ? 1 : 0, now.toISOString(), id);
 }
 
@@ -142,10 +150,10 @@ export function insertAssembledFile(ledger: Ledger, file: NewFile, facts: FileFa
   const at = now.toISOString();
   const info = ledger
     .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state, data_type, part, role, sample_id,
-              acquired_at, excitation_nm, solvent, has_irf_column, set_id)
-              VALUES (?, ?, ?, ?, ?, ?, 'assembled', ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+              acquired_at, acquired_source, excitation_nm, solvent, has_irf_column, set_id)
+              VALUES (?, ?, ?, ?, ?, ?, 'assembled', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
     .run(file.sha256, file.path, file.name, file.sizeBytes, at, at, facts.dataType, facts.part, facts.role, facts.sampleId,
-      facts.acquiredAt, facts.excitationNm, facts.solvent, facts.hasIrfColumn ? 1 : 0, setId);
+      facts.acquiredAt, facts.acquiredSource ?? null, facts.excitationNm, facts.solvent, facts.hasIrfColumn ? 1 : 0, setId);
   return Number(info.lastInsertRowid);
 }
 

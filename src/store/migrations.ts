@@ -4,6 +4,7 @@
 // and appending it to MIGRATIONS below.
 import type { Database } from 'better-sqlite3';
 import { QC_MIGRATIONS } from './qc-migrations.js';
+import { ACQUISITION_MIGRATIONS } from './acquisition-migrations.js';
 
 export interface Migration {
   /** Stable, sortable id such as '0001-core'; recorded once applied. */
@@ -110,7 +111,7 @@ const CORE_MIGRATIONS: readonly Migration[] = [
 ];
 
 /** Every migration, in the order applied. Append other modules' lists here. */
-export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS];
+export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS];
 
 /** Applies every migration of `migrations` not yet recorded, each in its own transaction; returns the ids applied. */
 export function applyMigrations(database: Database, migrations: readonly Migration[] = MIGRATIONS): string[] {

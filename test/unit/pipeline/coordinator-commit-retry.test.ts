@@ -179,8 +179,8 @@ describe('`process` when a result cannot be written', () => {
     mkdirSync(join(dir, 'inbox'));
     const set = generateSet('retry-cli', 32);
     for (const f of set.files) writeFileSync(join(dir, 'inbox', f.name), f.content);
-    // A file in place of the day folder the result goes to (today's and tomorrow's, in case the run spans midnight UTC).
-    const days = [new Date(), new Date(Date.now() + 86_400_000)].map(dayFolderName);
+    // A file in place of the day folder the result goes to: the set's acquisition day (results are filed by acquisition date).
+    const days = [dayFolderName(new Date('2026-03-14T09:55:00Z'))];
     mkdirSync(join(dir, 'results'));
     for (const day of days) writeFileSync(join(dir, 'results', day), 'a file where a folder belongs');
     let printed = '';
