@@ -14,8 +14,12 @@ const gradientOptionsSchema = z
     abscissa: z.enum(['absorbance', 'absorptance']).default('absorbance'),
     /** Warn when a series' R² (about the mean) falls below this (default 0.99; practice). */
     minRSquared: z.number().min(0).max(1).default(0.99),
-    /** Warn when |b2·x_max/b1| of a quadratic through the origin exceeds this and |t| > 3 (default 0.05). */
+    /** Warn when |b2·x_max/b1| of a quadratic through the origin exceeds this and b2 is significant at `curvatureAlpha` (default 0.05). */
     maxRelativeCurvature: z.number().positive().default(0.05),
+    /** Two-sided significance level of the t test on the quadratic term, n − 2 degrees of freedom (default 0.01). */
+    curvatureAlpha: z.number().positive().max(0.5).default(0.01),
+    /** Significance level of the exact runs test for too few residual sign runs (Swed & Eisenhart 1943; default 0.01). */
+    residualRunsAlpha: z.number().positive().max(0.5).default(0.01),
     /** Warn when the highest absorbance of a series exceeds this (default 0.1; practice). */
     absorbanceWarnLimit: z.number().positive().default(0.1),
     /** u(n) used when none is given (default 0.0005). */
@@ -68,15 +72,18 @@ function fitSeries(series: DilutionSeries, role: string, options: Readonly<z.out
   const highestAbsorbance = Math.max(...series.absorbances);
   if (fit.rSquared < options.minRSquared) warnings.push(`the ${role} series is not linear: R² = ${fit.rSquared.toFixed(4)} < ${options.minRSquared}`);
   if (
-    fit.relativeCurvature !== undefined && fit.curvatureTStatistic !== undefined &&
-    Math.abs(fit.relativeCurvature) > options.maxRelativeCurvature && Math.abs(fit.curvatureTStatistic) > 3
+    fit.relativeCurvature !== undefined && fit.curvaturePValue !== undefined &&
+    Math.abs(fit.relativeCurvature) > options.maxRelativeCurvature && fit.curvaturePValue < options.curvatureAlpha
   ) {
     warnings.push(
       `the ${role} series curves ${fit.relativeCurvature < 0 ? 'downwards (inner filter or aggregation?)' : 'upwards'}: ` +
-        `relative curvature ${fit.relativeCurvature.toFixed(3)} at the highest point`,
+        `relative curvature ${fit.relativeCurvature.toFixed(3)} at the highest point (t test p = ${fit.curvaturePValue.toPrecision(2)} < ${options.curvatureAlpha})`,
     );
   }
-  if (fit.pointCount >= 5 && fit.residualSignRuns > 0 && fit.residualSignRuns <= 2) warnings.push(`the ${role} residuals show a systematic pattern (${fit.residualSignRuns} sign runs)`);
+  // Exact runs test: with 5 points no sign pattern reaches p < 0.2, with 7 none p < 0.03, so short series are never flagged.
+  if (fit.residualRunsPValue < options.residualRunsAlpha) {
+    warnings.push(`the ${role} residuals show a systematic pattern (${fit.residualSignRuns} sign runs, runs test p = ${fit.residualRunsPValue.toPrecision(2)} < ${options.residualRunsAlpha})`);
+  }
   if (highestAbsorbance > options.absorbanceWarnLimit) warnings.push(`the ${role} series reaches A = ${highestAbsorbance} (> ${options.absorbanceWarnLimit})`);
   return Object.freeze({ ...fit, highestAbsorbance });
 }

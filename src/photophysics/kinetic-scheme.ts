@@ -151,7 +151,7 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
       input.processes.filter((p) => p.kind === kind).reduce((s, p) => s + p.ratePerS * ((populations[p.from] as Float64Array)[ti] as number), 0),
     );
   for (const p of input.processes) {
-    if (p.kind !== 'absorption' && p.ratePerS > 0) warnings.push(...timeScalePlausibility(p.kind, 1e9 / p.ratePerS));
+    if (p.kind !== 'absorption' && p.ratePerS > 0) warnings.push(...timeScalePlausibility(p.kind, 1e9 / p.ratePerS, p.to === states[0]));
   }
   return Object.freeze({
     states: [...states],

@@ -1,6 +1,8 @@
 // Least-squares lines through the origin (ordinary or weighted), a quadratic-through-origin curvature test
 // and the residual sign-run count; used by the gradient yield method and Stern–Volmer analysis.
 import { InputRejected } from '../model/errors.js';
+import { runsTestTooFew } from './runs-test.js';
+import { studentTTwoSidedPValue } from './student-t.js';
 
 export interface OriginLineFit {
   readonly slope: number;
@@ -13,8 +15,12 @@ export interface OriginLineFit {
   readonly residualSignRuns: number;
   /** Quadratic term relative to the linear one at the largest x, b2·x_max/b1 of y = b1 x + b2 x²; < 0 means saturation. */
   readonly relativeCurvature: number | undefined;
-  /** t statistic of b2 (b2 / se(b2)); |t| > 3 marks significant curvature. */
+  /** t statistic of b2 (b2 / se(b2)). */
   readonly curvatureTStatistic: number | undefined;
+  /** Two-sided p-value of that t with n − 2 degrees of freedom (Student t; A&S 26.7.1). */
+  readonly curvaturePValue: number | undefined;
+  /** Exact one-sided p-value of the runs test for too few residual sign runs (Swed & Eisenhart 1943). */
+  readonly residualRunsPValue: number;
   readonly pointCount: number;
 }
 
@@ -94,16 +100,71 @@ export function fitThroughOrigin(x: readonly number[], y: readonly number[], wei
   }
   const quadratic = quadraticThroughOrigin(x, y, weights);
   const xMax = Math.max(...x.map(Math.abs));
+  // Residuals at rounding level (exact data) carry no sign information.
+  const yScale = Math.max(...y.map(Math.abs));
+  const signedResiduals = residuals.map((r) => (Math.abs(r) <= 1e-12 * yScale ? 0 : r));
+  const curvatureT = quadratic === undefined || !(quadratic.b2StandardError > 0) ? undefined : quadratic.b2 / quadratic.b2StandardError;
   return Object.freeze({
     slope,
     slopeStandardError: n > 1 ? Math.sqrt(ssResidual / (n - 1) / sxx) : 0,
     rSquared: ssTotal > 0 ? 1 - ssResidual / ssTotal : 1,
     residuals: Object.freeze(residuals),
-    // Residuals at rounding level (exact data) carry no sign information.
-    residualSignRuns: signRuns(residuals.map((r) => (Math.abs(r) <= 1e-12 * Math.max(...y.map(Math.abs)) ? 0 : r))),
+    residualSignRuns: signRuns(signedResiduals),
+    residualRunsPValue: runsTestTooFew(signedResiduals).pValue,
     relativeCurvature: quadratic === undefined || quadratic.b1 === 0 ? undefined : (quadratic.b2 * xMax) / quadratic.b1,
-    curvatureTStatistic:
-      quadratic === undefined || !(quadratic.b2StandardError > 0) ? undefined : quadratic.b2 / quadratic.b2StandardError,
+    curvatureTStatistic: curvatureT,
+    curvaturePValue: curvatureT === undefined ? undefined : studentTTwoSidedPValue(curvatureT, n - 2),
     pointCount: n,
   });
+}
+
+export interface QuadraticFit {
+  /** Coefficients of y = c0 + c1·x + c2·x². */
+  readonly c0: number;
+  readonly c1: number;
+  readonly c2: number;
+  /** t = c2/se(c2) (±∞ when the data lie exactly on a curved quadratic), n − 3 degrees of freedom. */
+  readonly c2TStatistic: number;
+  readonly degreesOfFreedom: number;
+}
+
+/** Weighted least-squares quadratic with intercept, y = c0 + c1 x + c2 x², and the t statistic of c2 (normal equations, 3×3; Draper & Smith, Applied Regression Analysis §2); undefined with < 4 points or a singular design. */
+export function quadraticWithIntercept(x: readonly number[], y: readonly number[], weights?: readonly number[]): QuadraticFit | undefined {
+  const n = x.length;
+  if (n < 4) return undefined;
+  const m = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+  const r = [0, 0, 0];
+  for (let i = 0; i < n; i++) {
+    const w = weights?.[i] ?? 1;
+    const row = [1, x[i] as number, (x[i] as number) ** 2];
+    for (let a = 0; a < 3; a++) {
+      r[a] = (r[a] as number) + w * (row[a] as number) * (y[i] as number);
+      for (let b = 0; b < 3; b++) m[a * 3 + b] = (m[a * 3 + b] as number) + w * (row[a] as number) * (row[b] as number);
+    }
+  }
+  const at = (i: number): number => m[i] as number;
+  const cofactor = [
+    at(4) * at(8) - at(5) * at(7), at(2) * at(7) - at(1) * at(8), at(1) * at(5) - at(2) * at(4),
+    at(5) * at(6) - at(3) * at(8), at(0) * at(8) - at(2) * at(6), at(2) * at(3) - at(0) * at(5),
+    at(3) * at(7) - at(4) * at(6), at(1) * at(6) - at(0) * at(7), at(0) * at(4) - at(1) * at(3),
+  ];
+  const determinant = at(0) * (cofactor[0] as number) + at(1) * (cofactor[3] as number) + at(2) * (cofactor[6] as number);
+  if (!(Math.abs(determinant) > 0) || !Number.isFinite(determinant)) return undefined;
+  const inverse = cofactor.map((c) => c / determinant);
+  const coefficient = (a: number): number => (inverse[a * 3] as number) * (r[0] as number) + (inverse[a * 3 + 1] as number) * (r[1] as number) + (inverse[a * 3 + 2] as number) * (r[2] as number);
+  const c0 = coefficient(0), c1 = coefficient(1), c2 = coefficient(2);
+  let ssResidual = 0;
+  let yScale = 0;
+  for (let i = 0; i < n; i++) {
+    const xi = x[i] as number;
+    ssResidual += (weights?.[i] ?? 1) * ((y[i] as number) - c0 - c1 * xi - c2 * xi * xi) ** 2;
+    yScale = Math.max(yScale, Math.abs(y[i] as number));
+  }
+  const degreesOfFreedom = n - 3;
+  const c2StandardError = Math.sqrt(Math.max(0, (ssResidual / degreesOfFreedom) * (inverse[8] as number)));
+  const xMax = Math.max(...x.map(Math.abs));
+  let c2TStatistic: number;
+  if (c2StandardError > 1e-12 * yScale / Math.max(xMax * xMax, 1e-300)) c2TStatistic = c2 / c2StandardError;
+  else c2TStatistic = Math.abs(c2 * xMax * xMax) > 1e-9 * yScale ? Math.sign(c2) * Number.POSITIVE_INFINITY : 0;
+  return Object.freeze({ c0, c1, c2, c2TStatistic, degreesOfFreedom });
 }

@@ -3,15 +3,16 @@
 import { z } from 'zod';
 import { InputRejected } from '../model/errors.js';
 import { resolveWithSchema } from '../spectra/options.js';
-import { fitThroughOrigin, quadraticThroughOrigin } from './linear-fit.js';
+import { fitThroughOrigin, quadraticWithIntercept } from './linear-fit.js';
+import { studentTUpperTail } from './student-t.js';
 import { diffusionLimitPerMPerS, viscosityOf } from './viscosities.js';
 
 const sternVolmerOptionsSchema = z
   .object({
     /** 'auto' weights by 1/u² when ratio uncertainties are given, else ordinary least squares. */
     weighting: z.enum(['auto', 'ordinary', 'weighted']).default('auto'),
-    /** |t| of the quadratic term above which the intensity plot counts as curved (default 3). */
-    curvatureTThreshold: z.number().positive().default(3),
+    /** One-sided significance level of the t test on the quadratic term of F0/F vs [Q] (default 0.01). */
+    curvatureAlpha: z.number().positive().max(0.5).default(0.01),
     /** Sample temperature in K for the diffusion limit (default 298.15). */
     temperatureK: z.number().positive().default(298.15),
   })
@@ -60,9 +61,10 @@ export interface SternVolmerResult {
   readonly kqStandardUncertaintyPerMPerS: number | undefined;
   readonly kqBasis: 'lifetimes' | 'intensities' | undefined;
   readonly mechanism: QuenchingMechanism;
-  /** Relative curvature b2·[Q]max/b1 of the intensity plot and its t statistic. */
+  /** Relative curvature c2·[Q]max/c1 of F0/F = c0 + c1[Q] + c2[Q]² (free intercept), its t statistic and one-sided p-value. */
   readonly intensityCurvature: number | undefined;
   readonly intensityCurvatureT: number | undefined;
+  readonly intensityCurvaturePValue: number | undefined;
   readonly diffusionLimitPerMPerS: number | undefined;
   readonly exceedsDiffusionLimit: boolean | undefined;
   readonly warnings: readonly string[];
@@ -97,8 +99,13 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
   const weights = useWeights ? input.intensityRatioUncertainties?.map((u) => 1 / (u * u)) : undefined;
   const excess = ratios.map((r) => r - 1);
   const intensityFit = fitThroughOrigin(q, excess, weights, 'Stern–Volmer intensity series');
-  const quadratic = quadraticThroughOrigin(q, excess, weights);
-  const curved = intensityFit.curvatureTStatistic !== undefined && intensityFit.curvatureTStatistic > options.curvatureTThreshold;
+  // Curvature test on F0/F = c0 + c1[Q] + c2[Q]² with a free intercept: an error in F0 scales every ratio
+  // alike (a change of c0, not curvature), and weights 1/(F0/F)² assume a constant relative error of F
+  // (practice) unless uncertainties are given. One-sided t test on c2 > 0 with n − 3 degrees of freedom.
+  const curvatureWeights = weights ?? ratios.map((r) => 1 / (r * r));
+  const quadratic = quadraticWithIntercept(q, ratios, curvatureWeights);
+  const curvaturePValue = quadratic === undefined ? undefined : studentTUpperTail(quadratic.c2TStatistic, quadratic.degreesOfFreedom);
+  const curved = curvaturePValue !== undefined && curvaturePValue < options.curvatureAlpha;
 
   let kdPerM: number | undefined;
   let kdStandardErrorPerM: number | undefined;
@@ -131,11 +138,13 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     }
   } else if (curved && quadratic !== undefined) {
     mechanism = 'combined';
-    // F0/F − 1 = (K_D + K_S)[Q] + K_D·K_S[Q]²: the two constants are the roots of t² − b1·t + b2 = 0.
-    const discriminant = quadratic.b1 * quadratic.b1 - 4 * quadratic.b2;
+    // F0/F = c0·(1 + (K_D + K_S)[Q] + K_D·K_S[Q]²): the two constants are the roots of t² − b1·t + b2 = 0, b = c/c0.
+    const b1 = quadratic.c1 / quadratic.c0;
+    const b2 = quadratic.c2 / quadratic.c0;
+    const discriminant = b1 * b1 - 4 * b2;
     if (discriminant >= 0) {
-      const r1 = (quadratic.b1 + Math.sqrt(discriminant)) / 2;
-      const r2 = (quadratic.b1 - Math.sqrt(discriminant)) / 2;
+      const r1 = (b1 + Math.sqrt(discriminant)) / 2;
+      const r2 = (b1 - Math.sqrt(discriminant)) / 2;
       warnings.push(`upward curvature: the combined model gives constants ${r1.toPrecision(4)} and ${r2.toPrecision(4)} M⁻¹; lifetimes are needed to tell which is dynamic`);
     } else warnings.push('upward curvature beyond the combined static–dynamic model (sphere-of-action quenching?)');
   } else {
@@ -172,8 +181,9 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     kqStandardUncertaintyPerMPerS,
     kqBasis,
     mechanism,
-    intensityCurvature: intensityFit.relativeCurvature,
-    intensityCurvatureT: intensityFit.curvatureTStatistic,
+    intensityCurvature: quadratic === undefined || quadratic.c1 === 0 ? undefined : (quadratic.c2 * Math.max(...q)) / quadratic.c1,
+    intensityCurvatureT: quadratic?.c2TStatistic,
+    intensityCurvaturePValue: curvaturePValue,
     diffusionLimitPerMPerS: limit,
     exceedsDiffusionLimit: exceeds,
     warnings: Object.freeze(warnings),

@@ -75,4 +75,11 @@ describe('driftlight correct', () => {
     expect(run.status).toBe(3);
     expect(run.stderr).toContain('EXCITATION_MISMATCH');
   });
+
+  it('refuses an inner-filter correction above A = 1.5 with exit 3 (docs/spectra.md; issue 17 item 5)', () => {
+    const dense = write('absorbance-dense.csv', writeSpectrumCsv(makeSpectrum('absorbance', absorbanceAxis, absorbanceAxis.map(() => 2), { valueUnit: 'absorbance' })));
+    const run = runDriftlight(['correct', samplePath, '--absorbance', dense, '--inner-filter', 'centred']);
+    expect(run.stderr).toContain('OUT_OF_RANGE');
+    expect(run.status).toBe(3);
+  });
 });

@@ -41,5 +41,22 @@ describe('gradientQuantumYield', () => {
     expect(text).toMatch(/curves downwards/);
     expect(text).toMatch(/reaches A = 0.5/);
     expect(result.sampleFit.relativeCurvature as number).toBeLessThan(-0.05);
+    expect(result.sampleFit.curvaturePValue as number).toBeLessThan(0.01);
+  });
+
+  it('flags a systematic residual pattern by the exact runs test on a long, gently curved series', () => {
+    // Twelve points of emission ∝ absorptance 1 − 10^(−A) up to A = 0.12 with a small alternating wobble:
+    // residuals of the straight line run + … + − … − + … + (3 runs of 12, runs test p < 0.01).
+    const longAbsorbances = Array.from({ length: 12 }, (_, i) => 0.01 * (i + 1));
+    const integrals = longAbsorbances.map((a, i) => 1e7 * (1 - 10 ** -a) * (1 + 1e-5 * (i % 2 === 0 ? 1 : -1)));
+    const result = gradientQuantumYield({
+      sample: { absorbances: longAbsorbances, integrals },
+      reference: { absorbances, integrals: absorbances.map((a) => 4.0e6 * a) },
+      referenceYield: 0.6, sampleRefractiveIndex: 1.333, referenceRefractiveIndex: 1.333,
+      options: { absorbanceWarnLimit: 0.2 },
+    });
+    expect(result.sampleFit.residualSignRuns).toBeLessThanOrEqual(3);
+    expect(result.sampleFit.residualRunsPValue).toBeLessThan(0.01);
+    expect(result.warnings.join(' | ')).toMatch(/sample residuals show a systematic pattern .*runs test p = /);
   });
 });
