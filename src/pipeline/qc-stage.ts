@@ -14,7 +14,7 @@ import {
 import {
   detectRecoveries,
   evaluateClockRules,
-  evaluateRuleStates,
+  judgeFrom,
   flagKey,
   INSTRUMENT_SCOPE,
   observationFromResult,
@@ -23,9 +23,9 @@ import {
   type RuleSet,
 } from '../qc/index.js';
 import type { Ledger } from '../store/ledger.js';
+import { closeClockFlagsCoveredBy, flagSignaturesOfSets, reconcileOpenFlags, replaceVerdictsOfSet, verdictKeysOfScopes } from '../store/qc-order-store.js';
 import {
   baselineRecords,
-  closeFlags,
   ledgerAlertState,
   ledgerDeliveryRecorder,
   observationHistory,
@@ -84,19 +84,45 @@ export function createQcStage(options: QcStageOptions): QcStage {
       const observation = observationFromResult(result, ruleSet.controls);
       if (observation === undefined) return result;
       const { ledger } = context;
+      const nowIso = context.now.toISOString();
       const scopes = [observation.controlId, INSTRUMENT_SCOPE];
-      const history = observationHistory(ledger).filter((earlier) => earlier.setId !== observation.setId);
-      const { flags, unsettledKeys } = evaluateRuleStates({ history, observation, ruleSet, baselines: baselineRecords(ledger) });
-      const active = openFlags(ledger, scopes).filter((flag) => flag.setId !== observation.setId);
-      const recoveries = detectRecoveries({ activeFlags: active, newFlags: flags, observation, unsettledKeys });
+      let outcome: { flags: QcFlag[]; recoveries: RecoveryNotice[]; ownFlags: QcFlag[] } = { flags: [], recoveries: [], ownFlags: [] };
       ledger.transaction(() => {
+        // Issue 16.2: insert the run at its acquisition time, judge it and every later run again, and
+        // derive open alarms from the newest deciding verdicts, so arrival order changes nothing.
+        const openBefore = openFlags(ledger, scopes);
         recordObservation(ledger, observation);
-        replaceFlagsOfSet(ledger, observation.setId, flags);
-        closeFlags(ledger, recoveries.map(flagKey), context.now.toISOString());
+        const all = observationHistory(ledger);
+        const judged = judgeFrom(observation, all, ruleSet, baselineRecords(ledger));
+        const known = flagSignaturesOfSets(ledger, judged.map((run) => run.observation.setId));
+        for (const run of judged) {
+          replaceFlagsOfSet(ledger, run.observation.setId, run.flags);
+          replaceVerdictsOfSet(ledger, run.observation.setId, run.verdicts);
+        }
+        const keys = [...new Set([...verdictKeysOfScopes(ledger, scopes), ...openBefore.map(flagKey)])];
+        const { closed } = reconcileOpenFlags(ledger, keys, nowIso);
+        const clockClosed = closeClockFlagsCoveredBy(ledger, observation.controlId, observation.acquiredAt, ruleSet.timeZone, nowIso);
+        const openAfter = new Set(openFlags(ledger, scopes).map(flagKey));
+        // Alert only flags that are new and still open (a late run's flag already superseded is history).
+        const fresh = judged.flatMap((run) =>
+          run.flags.filter((flag) => openAfter.has(flagKey(flag)) && !known.has(`${flag.setId}|${flagKey(flag)}|${flag.check}`)),
+        );
+        // "Back in control" only when this run is the newest of its scope and itself decides it.
+        const newest = judged[judged.length - 1]?.observation.setId === observation.setId;
+        const ownVerdicts = judged.find((run) => run.observation.setId === observation.setId)?.verdicts ?? [];
+        const settledHere = new Set(ownVerdicts.filter((verdict) => verdict.status === 'settled').map((verdict) => verdict.key));
+        const recoveredKeys = new Set([...closed.filter((key) => newest && settledHere.has(key)), ...clockClosed]);
+        const recoveries = detectRecoveries({
+          activeFlags: openBefore.filter((flag) => recoveredKeys.has(flagKey(flag))),
+          newFlags: [],
+          observation,
+        });
+        const ownFlags = judged.find((run) => run.observation.setId === observation.setId)?.flags ?? [];
+        outcome = { flags: fresh, recoveries, ownFlags: [...ownFlags] };
       });
-      pending.set(result.setId, { flags, recoveries });
-      if (flags.length === 0) return result;
-      return { ...result, qc: { ...result.qc, flags: [...result.qc.flags, ...flags.map(toResultFlag)] } };
+      pending.set(result.setId, { flags: outcome.flags, recoveries: outcome.recoveries });
+      if (outcome.ownFlags.length === 0) return result;
+      return { ...result, qc: { ...result.qc, flags: [...result.qc.flags, ...outcome.ownFlags.map(toResultFlag)] } };
     },
     afterCommit(result: AnalysisResult, context: ResultStageContext): void {
       const outcome = pending.get(result.setId);

@@ -83,6 +83,8 @@ export interface RuleStates {
   readonly flags: QcFlag[];
   /** rule|control|metric keys of quiet rules that have not yet shown recovery (see RuleKindDefinition.settled). */
   readonly unsettledKeys: string[];
+  /** rule|control|metric keys of every rule that judged this observation (fired, unsettled or settled). */
+  readonly judgedKeys: string[];
 }
 
 /** Flags plus the keys of rules not yet settled, for recovery detection (pure). O(rules × history). */
@@ -91,6 +93,7 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
   const baselines = input.baselines ?? [];
   const flags: QcFlag[] = [];
   const unsettledKeys: string[] = [];
+  const judgedKeys: string[] = [];
   const seriesCache = new Map<string, SeriesPoint[]>();
   for (const rule of ruleSet.rules) {
     const kind = ruleKindOf(rule);
@@ -115,12 +118,13 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
     }
     const context = { controlId, metric: rule.metric, series: chartSeries, baseline };
     const findings = kind.evaluate(rule, context);
+    judgedKeys.push(flagKey({ ruleId: rule.id, controlId, metric: rule.metric }));
     flags.push(...toFlags(rule, controlId, findings, observation.acquiredAt, observation.setId));
     if (findings.length === 0 && kind.settled !== undefined && !kind.settled(rule, context)) {
       unsettledKeys.push(flagKey({ ruleId: rule.id, controlId, metric: rule.metric }));
     }
   }
-  return { flags, unsettledKeys };
+  return { flags, unsettledKeys, judgedKeys };
 }
 
 export interface ClockEvaluationInput {

@@ -13,3 +13,13 @@ export { replayObservations, sortByAcquisition, type ReplayOutcome, type ReplayS
 export { createSeededRandom, type SeededRandom } from './seeded-random.js';
 export { parseIsoToEpochMs, epochMsToIso, localParts, isValidTimeZone, zonedTimeToEpochMs, parseClockTime } from './time.js';
 export { observationFromResult } from './observation.js';
+export {
+  acquisitionOf,
+  compareAcquisition,
+  judgeFrom,
+  judgeRun,
+  openStateFromVerdicts,
+  type RuleVerdict,
+  type RunJudgement,
+  type VerdictStatus,
+} from './acquisition-order.js';

@@ -67,4 +67,34 @@ export const QC_MIGRATIONS: readonly { readonly id: string; up(database: Databas
       `);
     },
   },
+  {
+    // Issue 16.2/16.7: per-run rule verdicts (so an alarm's open state follows acquisition order, not
+    // arrival order) and the audit trail of what people did (acknowledge, exclude, rebaseline).
+    id: '0101-qc-verdicts-actions',
+    up(database) {
+      database.exec(`
+        CREATE TABLE qc_verdicts (
+          set_id TEXT NOT NULL,
+          flag_key TEXT NOT NULL,
+          status TEXT NOT NULL CHECK (status IN ('fired','unsettled','settled')),
+          acquired_at_ms INTEGER NOT NULL,
+          PRIMARY KEY (set_id, flag_key)
+        );
+        CREATE INDEX qc_verdicts_key ON qc_verdicts (flag_key, acquired_at_ms);
+        CREATE TABLE qc_actions (
+          id INTEGER PRIMARY KEY,
+          action TEXT NOT NULL CHECK (action IN ('acknowledge','exclude','include','rebaseline')),
+          control_id TEXT NOT NULL,
+          set_id TEXT,
+          flag_key TEXT,
+          comment TEXT NOT NULL,
+          by_user TEXT NOT NULL,
+          at_iso TEXT NOT NULL,
+          detail_json TEXT NOT NULL DEFAULT '{}'
+        );
+        CREATE INDEX qc_actions_control ON qc_actions (control_id, action);
+        ALTER TABLE qc_flags ADD COLUMN acknowledged_action_id INTEGER;
+      `);
+    },
+  },
 ];
