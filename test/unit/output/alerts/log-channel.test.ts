@@ -12,8 +12,8 @@ describe('log channel', () => {
     const channel = createLogChannel(logChannelSchema.parse({ id: 'log', type: 'log' }), logger);
     const [critical] = messagesFromFlags([flag('yield-westgard', 'critical'), flag('yield-westgard', 'critical', '2-2s')], '2026-03-02T09:00:00.000Z');
     if (critical === undefined) throw new Error('no message');
-    await channel.send(critical);
-    await channel.send(messageFromRecovery(recovery('yield-westgard'), 'critical', '2026-03-03T09:00:00.000Z'));
+    await channel.send(critical, new AbortController().signal);
+    await channel.send(messageFromRecovery(recovery('yield-westgard'), 'critical', '2026-03-03T09:00:00.000Z'), new AbortController().signal);
     expect(logger.lines.map((line) => line.level)).toEqual(['info', 'info']);
     expect(logger.lines.map((line) => (line.object as { category?: string }).category)).toEqual(['qc', 'qc']);
     const [flagLine, recoveryLine] = logger.lines;
