@@ -14,5 +14,7 @@ import { quenchCommand } from './quench.js';
 import { inspectCommand } from './inspect.js';
 import { rulesCommand } from './rules.js';
 import { fitDecayCommand } from './fit-decay.js';
+import { chartCommand } from './chart.js';
+import { exportCommand } from './export.js';
 
-export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand];
+export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand];
