@@ -16,5 +16,6 @@ import { rulesCommand } from './rules.js';
 import { fitDecayCommand } from './fit-decay.js';
 import { chartCommand } from './chart.js';
 import { exportCommand } from './export.js';
+import { digestCommand } from './digest.js';
 
-export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand];
+export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand, digestCommand];

@@ -11,6 +11,7 @@ import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { softwareVersion } from './version.js';
+import { startWatchDigest } from './digest.js';
 
 /** How often time-based result-stage checks run while watching, in ms. */
 const CLOCK_CHECK_INTERVAL_MS = 60_000;
@@ -21,6 +22,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion() });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
+  const digestSchedule = startWatchDigest(pipeline);
   let chain: Promise<void> = Promise.resolve();
   const serial = (work: () => Promise<void>): void => {
     chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
@@ -64,6 +66,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   clearInterval(clockTimer);
   clearInterval(retryTimer);
   process.off('SIGHUP', onHangup);
+  await digestSchedule?.stop();
   await watcher.close();
   logger.debug('watcher closed');
   await chain;

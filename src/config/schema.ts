@@ -5,6 +5,7 @@ import { alertsSection } from './sections/alerts.js';
 import { analysisSection } from './sections/analysis.js';
 import { assemblySection } from './sections/assembly.js';
 import { controlsSection } from './sections/controls.js';
+import { digestSection } from './sections/digest.js';
 import { foldersSection } from './sections/folders.js';
 import { instrumentSection } from './sections/instrument.js';
 import { limitsSection } from './sections/limits.js';
@@ -27,6 +28,7 @@ export const CONFIG_SECTIONS = {
   limits: limitsSection,
   rules: rulesSection,
   alerts: alertsSection,
+  digest: digestSection,
 } as const;
 
 export const configSchema = z.strictObject(CONFIG_SECTIONS);

@@ -41,7 +41,7 @@ export function standalonePage(title: string, bodyHtml: string): string {
 
 /** An HTML table from a header row and body rows (cells escaped; numeric-looking cells right-aligned). */
 export function tableHtml(header: readonly string[], rows: readonly (readonly string[])[]): string {
-  const cell = (text: string): string => (/^[−+-]?\d/.test(text) ? `<td class="num">${escapeXml(text)}</td>` : `<td>${escapeXml(text)}</td>`);
+  const cell = (text: string): string => (/^[−+-]?\d[\d.,]*(e[+-]?\d+)?( [^\s\d]{1,4})?( \/ \d+)?$/i.test(text) ? `<td class="num">${escapeXml(text)}</td>` : `<td>${escapeXml(text)}</td>`);
   return `<table><thead><tr>${header.map((h) => `<th scope="col">${escapeXml(h)}</th>`).join('')}</tr></thead>` +
     `<tbody>${rows.map((row) => `<tr>${row.map(cell).join('')}</tr>`).join('')}</tbody></table>`;
 }

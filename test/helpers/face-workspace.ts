@@ -7,7 +7,7 @@ import { seedQcHistory, tealRuleSet, TEAL_RULES_YAML, type HistoryOptions } from
 import { runDriftlight } from './cli.js';
 import { tempDir } from './temp-dir.js';
 
-/** Runs `driftlight demo` into a new temp folder and seeds the QC history; returns the workspace and its config path. */
+/** Runs `driftlight demo` into a new temp folder and seeds the QC history (30 days up to 2026-12-05 unless told); returns the workspace and its config path. */
 export function faceWorkspace(history: Partial<HistoryOptions> = {}): { dir: string; config: string } {
   const dir = join(tempDir('driftlight-face-'), 'ws');
   const demo = runDriftlight(['demo', '--workspace', dir]);
