@@ -2,7 +2,7 @@
 import type { Decay } from '../model/decay.js';
 import type { Spectrum, SpectrumKind } from '../model/spectrum.js';
 import { InputRejected } from '../model/errors.js';
-import { readData } from '../formats/index.js';
+import { readMeasurements, type ParsedData } from '../formats/index.js';
 import type { AnalysisJobPayload, PayloadFile, RejectedInput } from './payload.js';
 import type { SetPart } from './result.js';
 import { markMissing, reasonOf, type StepContext } from './step-context.js';
@@ -19,9 +19,12 @@ const KIND_HINT: Readonly<Record<SetPart, SpectrumKind | 'decay'>> = {
 
 const encoder = new TextEncoder();
 
-/** Reads one payload file, or throws InputRejected (file, line, hint). */
-function readInput(file: PayloadFile, maxFileBytes: number): ReturnType<typeof readData> {
-  return readData(encoder.encode(file.content), { fileName: file.name, maxBytes: maxFileBytes, kindHint: KIND_HINT[file.part] });
+/** Reads every measurement of one payload file, or throws InputRejected (file, line, hint). */
+function readInput(file: PayloadFile, settings: AnalysisJobPayload['settings']): ParsedData[] {
+  return readMeasurements(encoder.encode(file.content), {
+    fileName: file.name, maxBytes: settings.maxFileBytes, kindHint: KIND_HINT[file.part],
+    ...(settings.formatProfiles === undefined ? {} : { profiles: settings.formatProfiles }),
+  });
 }
 
 /**
@@ -35,15 +38,21 @@ export function parseInputs(payload: AnalysisJobPayload, context: StepContext, r
       context.warnings.push(`${file.name}: a second ${file.part} file in the set was not used`);
       continue;
     }
-    let data: ReturnType<typeof readData>;
+    let all: ParsedData[];
     try {
-      data = readInput(file, payload.settings.maxFileBytes);
+      all = readInput(file, payload.settings);
     } catch (error) {
       markMissing(context, file.part, reasonOf(error));
       if (error instanceof InputRejected && file.origin === 'own') {
         rejected.push({ name: file.name, sha256: file.sha256, code: error.code, message: error.message, hint: error.hint, ...(error.line === undefined ? {} : { line: error.line }) });
       }
       continue;
+    }
+    const data = all[0] as ParsedData;
+    if (all.length > 1) {
+      // Several measurements in one file (decay columns, spectra sharing an axis, x,y pairs): this
+      // result analyses the first; the others are named here so none is dropped unseen.
+      context.warnings.push(`${file.name} holds ${all.length} measurements (${all.map((measurement) => measurement.layout.valueColumn).join(', ')}); this result analyses "${data.layout.valueColumn}" (${data.id}); the others were read but not analysed: ${all.slice(1).map((measurement) => measurement.id).join(', ')}`);
     }
     parsed.set(file.part, data.type === 'spectrum' ? { file, type: 'spectrum', spectrum: data.spectrum } : { file, type: 'decay', decay: data.decay });
   }

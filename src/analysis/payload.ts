@@ -2,6 +2,7 @@
 // Everything analyze() needs travels inside it (file contents, parts, settings, clock), so the same
 // payload gives the same result on any backend.
 import type { MeasurementRole } from '../model/spectrum.js';
+import type { FormatProfile } from '../formats/index.js';
 import type { AnalysisResult, SetPart } from './result.js';
 
 /** One input file, with its content as text. */
@@ -29,6 +30,8 @@ export interface AnalysisSettings {
   readonly maxFileBytes: number;
   /** Fit a scatter term (a fraction of the IRF) in lifetime fits (config analysis.scatter); default false. */
   readonly scatter?: boolean;
+  /** Instrument profiles (config formats.profiles) the readers apply by file pattern; absent when none are configured. */
+  readonly formatProfiles?: readonly FormatProfile[];
   /** What the detector curve holds (config instrument.detectorCurveMeaning); default 'from-header'. */
   readonly detectorCurveMeaning?: 'from-header' | 'multiply' | 'divide';
   /** Integration window and band-edge check of relative yields (config analysis.yieldWindowNm etc.); defaults as in the config section. */

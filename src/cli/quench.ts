@@ -3,6 +3,7 @@
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { InputRejected } from '../model/errors.js';
+import { readConcentrationName } from '../formats/index.js';
 import { sternVolmer, type QuenchSeriesInput } from '../photophysics/index.js';
 import type { CommandModule } from './command-module.js';
 import { finiteNumber, toJson } from './correct.js';
@@ -29,6 +30,7 @@ interface ParsedSeries {
 export function parseQuenchSeries(text: string, file: string): ParsedSeries {
   const metadata: Record<string, string> = {};
   let header: string[] | undefined;
+  let rawHeader: string[] = [];
   const rows: { line: number; cells: string[] }[] = [];
   text.split(/\r\n|\n|\r/).forEach((raw, index) => {
     const line = raw.trim();
@@ -38,26 +40,34 @@ export function parseQuenchSeries(text: string, file: string): ParsedSeries {
       if (match !== null) metadata[normalize(match[1] ?? '')] = (match[2] ?? '').trim();
       return;
     }
-    const cells = line.split(/\s*[,;\t]\s*|\s+/).filter((c) => c !== '');
-    if (header === undefined) header = cells.map(normalize);
-    else rows.push({ line: index + 1, cells });
+    // One separator per line (comma, semicolon or tab; else runs of spaces), so "[KI] (mM)" stays one name.
+    const separator = /\t/.test(line) ? /\s*\t\s*/ : /;/.test(line) ? /\s*;\s*/ : /,/.test(line) ? /\s*,\s*/ : /\s+/;
+    const cells = line.split(separator).filter((c) => c !== '');
+    if (header === undefined) {
+      rawHeader = cells;
+      header = cells.map(normalize);
+    } else rows.push({ line: index + 1, cells });
   });
   if (header === undefined || rows.length === 0) throw new InputRejected('NO_DATA', 'no header row and data rows found', { file });
   const names = header;
   const columns: Partial<Record<keyof typeof COLUMNS, number[]>> = {};
   for (const [role, aliases] of Object.entries(COLUMNS) as [keyof typeof COLUMNS, readonly string[]][]) {
-    const index = names.findIndex((name) => aliases.includes(name));
+    let index = names.findIndex((name) => aliases.includes(name));
+    // A concentration column is also any name with a concentration unit: "[KI] (mM)", "acrylamide (µM)", "quencher_M".
+    const concentration = role === 'concentration' ? rawHeader.map((name) => readConcentrationName(name)) : [];
+    if (role === 'concentration' && index < 0) index = concentration.findIndex((reading) => reading !== undefined);
     if (index < 0) continue;
+    const toMolar = concentration[index]?.toMolar ?? 1;
     columns[role] = rows.map(({ line, cells }) => {
       const value = Number(cells[index]);
       if (cells[index] === undefined || !Number.isFinite(value)) {
         throw new InputRejected('NON_NUMERIC', `column "${names[index]}" holds "${cells[index] ?? ''}"`, { file, line });
       }
-      return value;
+      return value * toMolar;
     });
   }
   if (columns.concentration === undefined) {
-    throw new InputRejected('MISSING_COLUMN', `no quencher concentration column (one of ${COLUMNS.concentration.join(', ')}); found ${names.join(', ')}`, { file, line: 1 });
+    throw new InputRejected('MISSING_COLUMN', `no quencher concentration column (one of ${COLUMNS.concentration.join(', ')}, or a name with a unit M, mM, µM, nM such as "[KI] (mM)"); found ${rawHeader.join(', ')}`, { file, line: 1 });
   }
   if (columns.ratio === undefined && columns.intensity === undefined) {
     throw new InputRejected('MISSING_COLUMN', `no F0/F (f0_over_f) or intensity column; found ${names.join(', ')}`, { file });

@@ -7,6 +7,7 @@ import { assemblySection } from './sections/assembly.js';
 import { controlsSection } from './sections/controls.js';
 import { digestSection } from './sections/digest.js';
 import { foldersSection } from './sections/folders.js';
+import { formatsSection } from './sections/formats.js';
 import { instrumentSection } from './sections/instrument.js';
 import { limitsSection } from './sections/limits.js';
 import { loggingSection } from './sections/logging.js';
@@ -26,6 +27,7 @@ export const CONFIG_SECTIONS = {
   queue: queueSection,
   logging: loggingSection,
   limits: limitsSection,
+  formats: formatsSection,
   rules: rulesSection,
   alerts: alertsSection,
   digest: digestSection,

@@ -15,6 +15,8 @@ export interface DecayBuildInput {
   readonly unit: AxisUnit;
   readonly valueIndices: readonly number[];
   readonly requestedIndex: number | undefined;
+  /** The IRF column fixed by a profile (default: found by name). */
+  readonly irfIndex?: number | undefined;
   readonly mapped: MappedHeader;
   readonly metadata: Record<string, unknown>;
   readonly file: string;
@@ -31,6 +33,50 @@ function scaleToNs(values: Float64Array, factor: number): Float64Array {
   return values.map((value) => value * factor);
 }
 
+/** Relative spacing tolerance (as in axis-checks.ts and the model). */
+const SPACING_TOLERANCE = 1e-3;
+
+/** The rounding step of written numbers: the largest 10^-d (d = 0 … 12) of which every value is a whole multiple. */
+function roundingQuantum(values: Float64Array): number {
+  for (let digits = 0; digits <= 12; digits++) {
+    const scale = 10 ** digits;
+    let whole = true;
+    for (let i = 0; i < values.length && whole; i++) {
+      const scaled = (values[i] as number) * scale;
+      whole = Math.abs(scaled - Math.round(scaled)) <= 1e-6 * Math.max(1, Math.abs(scaled));
+    }
+    if (whole) return 1 / scale;
+  }
+  return 0;
+}
+
+/**
+ * A time axis written with fewer digits than its channel width needs (0.0122 ns channels written
+ * to 0.01 ns) is uneven only by its rounding: when every value lies within one rounding step of
+ * t0 + i·w (w from the header, else the mean step), the channels are rebuilt exactly. Returns
+ * undefined when the axis is already even, or when it is uneven beyond its rounding.
+ */
+function restoreRoundedAxis(values: Float64Array, statedWidth: number | undefined): { values: Float64Array; width: number; quantum: number; source: string } | undefined {
+  const n = values.length;
+  if (n < 3) return undefined;
+  const first = values[0] as number;
+  const meanStep = ((values[n - 1] as number) - first) / (n - 1);
+  let even = true;
+  for (let i = 1; i < n && even; i++) even = Math.abs((values[i] as number) - (values[i - 1] as number) - meanStep) <= SPACING_TOLERANCE * Math.abs(meanStep);
+  if (even) return undefined;
+  const quantum = roundingQuantum(values);
+  if (!(quantum > 0) || quantum < SPACING_TOLERANCE * Math.abs(meanStep)) return undefined;
+  const direction = Math.sign(meanStep);
+  const usable = statedWidth !== undefined && Math.abs(statedWidth - Math.abs(meanStep)) <= (2 * quantum) / (n - 1) + SPACING_TOLERANCE * statedWidth;
+  const width = usable ? statedWidth : Math.abs(meanStep);
+  const rebuilt = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    rebuilt[i] = first + direction * i * width;
+    if (Math.abs((rebuilt[i] as number) - (values[i] as number)) > quantum * (1 + 1e-9)) return undefined;
+  }
+  return { values: rebuilt, width, quantum, source: usable ? 'channel width from the header' : 'mean step of the axis' };
+}
+
 /** Builds the Decay; columns not used as counts or IRF are listed in `ignoredColumns`. */
 export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColumns: string[]; countsColumn: string; irfColumn: string | null } {
   const { table, axis, unit, file, mapped } = input;
@@ -42,9 +88,15 @@ export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColum
   if (countsIndex === undefined) {
     return reject('MISSING_COLUMN', 'the decay has no counts column (only an IRF column)', file, table.unitLine);
   }
-  const irfIndex = roles.find((entry) => entry.role === 'irf' && entry.index !== countsIndex)?.index;
+  const irfIndex = input.irfIndex ?? roles.find((entry) => entry.role === 'irf' && entry.index !== countsIndex)?.index;
   const direction = checkMonotonic(axis.values, table.lineOfRow, file, 'time axis');
-  checkUniform(axis.values, table.lineOfRow, file);
+  const statedWidthInAxisUnit = mapped.numbers.channelWidthNs === undefined || unit.quantity === 'channel' ? undefined : mapped.numbers.channelWidthNs / unit.toModelFactor;
+  const restored = restoreRoundedAxis(axis.values, statedWidthInAxisUnit);
+  if (restored === undefined) checkUniform(axis.values, table.lineOfRow, file);
+  const axisValues = restored?.values ?? axis.values;
+  if (restored !== undefined) {
+    input.conversions.push({ code: 'axis-rounding-restored', detail: `the time axis is written to ${restored.quantum} ${unit.symbol}; channels rebuilt as t0 + i × ${restored.width} ${unit.symbol} (${restored.source})` });
+  }
   const countsColumn = columns[countsIndex] as RawColumn;
   checkNonNegative(countsColumn.values, table.lineOfRow, file, `"${countsColumn.name}"`);
   const irfColumn = irfIndex === undefined ? undefined : (columns[irfIndex] as RawColumn);
@@ -57,13 +109,13 @@ export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColum
         'Add a header line such as "channel width (ps): 25", or give the axis in time units.');
     }
     const width = channelWidthNs;
-    timeNs = axis.values.map((channel) => channel * width);
+    timeNs = axisValues.map((channel) => channel * width);
     input.conversions.push({ code: 'channel-to-time', detail: `t[ns] = channel × ${width} ns` });
   } else {
-    timeNs = scaleToNs(axis.values, unit.toModelFactor);
-    if (channelWidthNs === undefined && axis.values.length > 1) {
+    timeNs = scaleToNs(axisValues, unit.toModelFactor);
+    if (channelWidthNs === undefined && axisValues.length > 1) {
       // The width from the axis in its own unit, scaled once: 50 ps → 0.05 ns rather than a mean of scaled values.
-      const rawWidth = Math.abs(((axis.values[axis.values.length - 1] as number) - (axis.values[0] as number)) / (axis.values.length - 1));
+      const rawWidth = restored?.width ?? Math.abs(((axisValues[axisValues.length - 1] as number) - (axisValues[0] as number)) / (axisValues.length - 1));
       channelWidthNs = (scaleToNs(Float64Array.of(rawWidth), unit.toModelFactor)[0] as number);
     }
     if (unit.toModelFactor !== 1) input.conversions.push({ code: 'time-unit-to-ns', detail: `${unit.symbol} → ns (× ${unit.toModelFactor})` });

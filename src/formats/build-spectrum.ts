@@ -20,6 +20,8 @@ export interface SpectrumBuildInput {
   readonly kindHint: SpectrumKind | undefined;
   readonly valueUnit: string | undefined;
   readonly metadata: Record<string, unknown>;
+  /** Excitation wavelength in nm (header or profile), needed to convert a Raman-shift axis. */
+  readonly excitationNm: number | undefined;
   readonly file: string;
   /** Conversions applied are appended here. */
   readonly conversions: LayoutConversion[];
@@ -47,6 +49,7 @@ function chooseValueColumn(input: SpectrumBuildInput): number {
 function axisToNm(input: SpectrumBuildInput): Float64Array {
   const { axis, unit, table, file } = input;
   const raw = axis.values;
+  if (unit.quantity === 'raman-shift') return ramanShiftToNm(input);
   if (unit.quantity === 'wavelength') {
     if (unit.toModelFactor === 1) return raw;
     input.conversions.push({ code: 'micrometre-to-nanometre', detail: `${unit.symbol} → nm (× ${unit.toModelFactor})` });
@@ -62,6 +65,23 @@ function axisToNm(input: SpectrumBuildInput): Float64Array {
   input.conversions.push(unit.quantity === 'wavenumber'
     ? { code: 'wavenumber-to-wavelength', detail: 'λ[nm] = 10⁷ / ν̃[cm⁻¹]' }
     : { code: 'energy-to-wavelength', detail: `λ[nm] = ${HC_EV_NM} / E[eV]` });
+  return nm;
+}
+
+/** A Raman-shift axis to absolute wavelength: λ = 1 / (1/λex − Δν̃·10⁻⁷) nm (Δν̃ in cm⁻¹ from the excitation line); throws EXCITATION_REQUIRED without λex. */
+function ramanShiftToNm(input: SpectrumBuildInput): Float64Array {
+  const { axis, table, file, excitationNm } = input;
+  if (excitationNm === undefined || !(excitationNm > 0)) {
+    return reject('EXCITATION_REQUIRED', `the axis "${axis.name}" is a Raman shift (relative to the excitation line), and no excitation wavelength is given`, file, table.unitLine);
+  }
+  const inverseExcitation = NM_PER_INVERSE_CM / excitationNm;
+  const nm = new Float64Array(axis.values.length);
+  for (let i = 0; i < nm.length; i++) {
+    const absolute = inverseExcitation - (axis.values[i] as number);
+    if (!(absolute > 0)) reject('NON_FINITE', `the Raman shift ${axis.values[i] as number} cm⁻¹ exceeds the excitation wavenumber ${inverseExcitation} cm⁻¹`, file, table.lineOfRow(i));
+    nm[i] = NM_PER_INVERSE_CM / absolute;
+  }
+  input.conversions.push({ code: 'raman-shift-to-wavelength', detail: `λ[nm] = 10⁷ / (10⁷/${excitationNm} − Δν̃[cm⁻¹]) (excitation ${excitationNm} nm)` });
   return nm;
 }
 
@@ -106,16 +126,16 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
   const others: Array<[string, Float64Array]> = input.valueIndices
     .filter((index) => index !== valueIndex)
     .map((index) => [(table.columns[index] as RawColumn).name, (table.columns[index] as RawColumn).values]);
-  if (input.unit.quantity === 'wavenumber' || input.unit.quantity === 'energy') {
+  if (input.unit.quantity === 'wavenumber' || input.unit.quantity === 'raman-shift' || input.unit.quantity === 'energy') {
     if (DENSITY_KINDS.includes(kind)) {
-      const numerator = input.unit.quantity === 'wavenumber' ? NM_PER_INVERSE_CM : HC_EV_NM;
+      const numerator = input.unit.quantity === 'energy' ? HC_EV_NM : NM_PER_INVERSE_CM;
       const jacobian = (column: Float64Array): Float64Array => column.map((value, i) => (value * numerator) / ((wavelengthNm[i] as number) ** 2));
       values = jacobian(values);
       for (const entry of others) entry[1] = jacobian(entry[1]);
       input.conversions.push({ code: 'jacobian-intensity', detail: `I(λ) = I(${input.unit.symbol})·${numerator}/λ² on every value column` });
     }
   }
-  const ascendingInNm = (input.unit.quantity === 'wavelength') === (direction === 1);
+  const ascendingInNm = (input.unit.quantity === 'wavelength' || input.unit.quantity === 'raman-shift') === (direction === 1);
   if (!ascendingInNm) {
     wavelengthNm = reversed(wavelengthNm);
     values = reversed(values);

@@ -65,3 +65,58 @@ export function decodeText(bytes: Uint8Array): { text: string; encoding: 'utf-8'
 export function splitLines(text: string): string[] {
   return text.split(/\r\n|\n|\r/);
 }
+
+/** The text encoding a file was written in, as far as the reader can tell. */
+export type TextEncodingName = 'utf-8' | 'latin1' | 'utf-16le' | 'utf-16be';
+
+/** UTF-16 byte order of `content`: from its BOM, else from where the zero bytes of ASCII text fall (common practice for text sniffing); null for 8-bit text. */
+export function utf16Order(content: Uint8Array): { order: 'le' | 'be'; bom: boolean } | null {
+  if (content.length >= 2 && content[0] === 0xff && content[1] === 0xfe) return { order: 'le', bom: true };
+  if (content.length >= 2 && content[0] === 0xfe && content[1] === 0xff) return { order: 'be', bom: true };
+  const end = Math.min(content.length - (content.length % 2), 1024);
+  if (end < 8) return null;
+  let zeroEven = 0;
+  let zeroOdd = 0;
+  for (let i = 0; i < end; i += 2) {
+    if (content[i] === 0) zeroEven++;
+    if (content[i + 1] === 0) zeroOdd++;
+  }
+  const pairs = end / 2;
+  // ASCII text in UTF-16 has a zero in (nearly) every pair, always on the same side.
+  if (zeroOdd > 0.9 * pairs && zeroEven < 0.05 * pairs) return { order: 'le', bom: false };
+  if (zeroEven > 0.9 * pairs && zeroOdd < 0.05 * pairs) return { order: 'be', bom: false };
+  return null;
+}
+
+const utf16leDecoder = new TextDecoder('utf-16le');
+const utf16beDecoder = new TextDecoder('utf-16be');
+const utf8Encoder = new TextEncoder();
+const CTRL_Z = 0x1a;
+
+/**
+ * Brings file bytes to what the readers scan: UTF-16 (LE/BE, with or without BOM) transcoded to
+ * UTF-8, and a final Ctrl-Z (0x1A, the old DOS end-of-file mark) with any blanks after it dropped.
+ */
+export function normaliseBytes(content: Uint8Array): { bytes: Uint8Array; utf16: 'utf-16le' | 'utf-16be' | null; utf16Bom: boolean; ctrlZ: boolean } {
+  let bytes = content;
+  let utf16: 'utf-16le' | 'utf-16be' | null = null;
+  let utf16Bom = false;
+  const order = utf16Order(content);
+  if (order !== null) {
+    const body = content.subarray(order.bom ? 2 : 0, content.length - ((content.length - (order.bom ? 2 : 0)) % 2));
+    bytes = utf8Encoder.encode((order.order === 'le' ? utf16leDecoder : utf16beDecoder).decode(body));
+    utf16 = order.order === 'le' ? 'utf-16le' : 'utf-16be';
+    utf16Bom = order.bom;
+  }
+  let end = bytes.length;
+  while (end > 0 && (bytes[end - 1] === 10 || bytes[end - 1] === 13 || bytes[end - 1] === 32 || bytes[end - 1] === 9)) end--;
+  const ctrlZ = end > 0 && bytes[end - 1] === CTRL_Z;
+  if (ctrlZ) bytes = bytes.subarray(0, end - 1);
+  return { bytes, utf16, utf16Bom, ctrlZ };
+}
+
+/** Text of a data file for callers that carry it as a string (UTF-16 or UTF-8, else Latin-1), the same characters the readers see. */
+export function decodeDataText(content: Uint8Array): string {
+  const { bytes } = normaliseBytes(content);
+  return decodeText(bytes).text;
+}

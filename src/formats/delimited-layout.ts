@@ -57,7 +57,8 @@ function splitFields(line: string, delimiter: DelimiterName): string[] {
   if (trimmed === '') return [];
   const fields = (delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : trimmed.split(delimiter).map((field) => field.trim()))
     .map((field) => (field.length >= 2 && field.startsWith('"') && field.endsWith('"') ? field.slice(1, -1).trim() : field));
-  if (fields.length > 1 && fields[fields.length - 1] === '') fields.pop();
+  // Spreadsheets pad rows with empty cells: every trailing empty field is dropped.
+  while (fields.length > 1 && fields[fields.length - 1] === '') fields.pop();
   return fields;
 }
 
@@ -136,8 +137,72 @@ function nameSplits(line: string, delimiter: DelimiterName): string[][] {
   return [splitNameLine(line, null), merged, tokens];
 }
 
-/** Detects the layout of delimited text starting at byte `start` (after any BOM); throws NO_DATA, NON_NUMERIC or UNKNOWN_LAYOUT. */
-export function detectDelimitedLayout(content: Uint8Array, start: number, file: string): DelimitedLayout {
+/** What a profile fixes about a delimited layout (anything left undefined is sniffed). */
+export interface LayoutOverrides {
+  readonly delimiter?: DelimiterName;
+  readonly decimalMark?: '.' | ',';
+  /** Lines before the first data row. */
+  readonly headerLines?: number;
+  /** 1-based line of the column names; 0 = none. */
+  readonly columnNamesLine?: number;
+}
+
+/** A run of RUN_LENGTH lines holding exactly one number each (a single-column histogram), from the top. */
+function findSingleColumn(lines: readonly string[], lastLine: number): { index: number; columns: number } | null {
+  const single = (line: string): boolean => NUMERIC['.'].test(line.trim().replace(/[,;\t ]+$/, ''));
+  for (let i = 0; i <= lastLine; i++) {
+    if (!single(lines[i] ?? '')) continue;
+    let run = 1;
+    for (let j = i + 1; j <= lastLine && run < RUN_LENGTH; j++) {
+      const line = lines[j] ?? '';
+      if (line.trim() === '') continue;
+      if (!single(line)) break;
+      run++;
+    }
+    if (run >= Math.min(RUN_LENGTH, lastLine - i + 1)) return { index: i, columns: 1 };
+  }
+  return null;
+}
+
+/** True when `values` are strictly monotonic and all within [low, high]. */
+function monotonicWithin(values: readonly number[], low: number, high: number): boolean {
+  if (values.length < 2 || values.some((value) => !(value >= low && value <= high))) return false;
+  const direction = Math.sign((values[1] as number) - (values[0] as number));
+  return direction !== 0 && values.every((value, i) => i === 0 || Math.sign(value - (values[i - 1] as number)) === direction);
+}
+
+/** Wavelength range (nm) in which the axes of an excitation–emission matrix are looked for. */
+const MATRIX_NM = [150, 2000] as const;
+
+/** Throws MATRIX_LAYOUT when the block is an excitation–emission matrix: a row of wavelengths over a column of wavelengths. */
+function rejectMatrix(lines: readonly string[], index: number, lastLine: number, candidate: Candidate, columns: number, file: string): void {
+  if (columns < 4) return;
+  const numbers = (fields: readonly string[]): number[] => fields.map((field) => Number(candidate.decimalMark === ',' ? field.replace(',', '.') : field));
+  const hint = 'An excitation–emission matrix is not analysed yet: export one emission spectrum per excitation wavelength (axis column and one value column), or several spectra sharing one axis with the excitation in each column name.';
+  let above = index - 1;
+  while (above >= 0 && (lines[above] ?? '').trim() === '') above--;
+  const firstColumn: number[] = [];
+  for (let i = index; i <= lastLine && firstColumn.length < 8; i++) {
+    const fields = splitFields(lines[i] ?? '', candidate.delimiter);
+    if (fields.length > 0) firstColumn.push(...numbers(fields.slice(0, 1)));
+  }
+  if (above >= 0) {
+    const fields = splitFields(stripCommentMarker(lines[above] ?? '').text, candidate.delimiter);
+    const pattern = NUMERIC[candidate.decimalMark];
+    if (fields.length === columns && !pattern.test(fields[0] ?? '') && fields.slice(1).every((field) => pattern.test(field))
+      && monotonicWithin(numbers(fields.slice(1)), MATRIX_NM[0], MATRIX_NM[1])) {
+      reject('MATRIX_LAYOUT', `the line above the data holds ${columns - 1} wavelengths (${fields[1] ?? ''} … ${fields[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`, file, above + 1, hint);
+    }
+  }
+  const top = splitFields(lines[index] ?? '', candidate.delimiter);
+  const corner = Number(top[0]);
+  if (corner === 0 && monotonicWithin(numbers(top.slice(1)), MATRIX_NM[0], MATRIX_NM[1]) && monotonicWithin(firstColumn.slice(1), MATRIX_NM[0], MATRIX_NM[1])) {
+    reject('MATRIX_LAYOUT', `the first row holds a 0 corner and ${columns - 1} wavelengths (${top[1] ?? ''} … ${top[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`, file, index + 1, hint);
+  }
+}
+
+/** Detects the layout of delimited text starting at byte `start` (after any BOM); throws NO_DATA, NON_NUMERIC, MATRIX_LAYOUT or UNKNOWN_LAYOUT. */
+export function detectDelimitedLayout(content: Uint8Array, start: number, file: string, overrides: LayoutOverrides = {}): DelimitedLayout {
   const sampleEnd = Math.min(content.length, start + SAMPLE_BYTES);
   let cut = sampleEnd;
   if (sampleEnd < content.length) {
@@ -148,12 +213,34 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   let lastLine = lines.length - 1;
   while (lastLine > 0 && (lines[lastLine] ?? '').trim() === '') lastLine--;
   let best: { candidate: Candidate; index: number; columns: number } | null = null;
-  for (const candidate of CANDIDATES) {
+  const candidates = CANDIDATES.filter((candidate) => (overrides.delimiter === undefined || candidate.delimiter === overrides.delimiter)
+    && (overrides.decimalMark === undefined || candidate.decimalMark === overrides.decimalMark));
+  if (candidates.length === 0 && overrides.delimiter !== undefined) candidates.push({ delimiter: overrides.delimiter, decimalMark: overrides.decimalMark ?? '.' });
+  for (const candidate of candidates) {
+    if (overrides.headerLines !== undefined) {
+      let index = overrides.headerLines;
+      while (index <= lastLine && (lines[index] ?? '').trim() === '') index++;
+      const columns = numericFieldCount(lines[index] ?? '', candidate);
+      if (columns > 0 && (best === null || columns > best.columns)) best = { candidate, index, columns };
+      continue;
+    }
     const found = findDataStart(lines, candidate, lastLine);
     if (found === null) continue;
     if (best === null || found.index < best.index || (found.index === best.index && found.columns > best.columns)) {
       best = { candidate, ...found };
     }
+  }
+  let singleColumn = false;
+  if (best === null && overrides.delimiter === undefined && overrides.headerLines === undefined) {
+    const found = findSingleColumn(lines, lastLine);
+    if (found !== null) {
+      best = { candidate: { delimiter: 'whitespace', decimalMark: '.' }, ...found };
+      singleColumn = true;
+    }
+  }
+  if (best === null && overrides.headerLines !== undefined) {
+    return reject('NO_DATA', `line ${overrides.headerLines + 1} (after the ${overrides.headerLines} header lines of the profile) is not a row of numbers`, file, overrides.headerLines + 1,
+      'Check headerLines, delimiter and decimalMark of the formats profile matching this file.');
   }
   if (best === null) {
     return reject('NO_DATA', 'no block of rows with two or more numeric columns was found', file, undefined,
@@ -161,6 +248,7 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   }
   const { candidate, index, columns } = best;
   const delimiterChar = candidate.delimiter === 'whitespace' ? null : candidate.delimiter;
+  if (overrides.headerLines === undefined) rejectMatrix(lines, index, lastLine, candidate, columns, file);
   // A header line just above the block that has the block's column count and a numeric first field
   // is a data row with a bad value: report it instead of silently treating it as header.
   for (let i = index - 1; i >= 0; i--) {
@@ -178,7 +266,17 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   let columnNames: string[] | null = null;
   let lastHeader = index - 1;
   while (lastHeader >= 0 && (lines[lastHeader] ?? '').trim() === '') lastHeader--;
-  if (lastHeader >= 0) {
+  if (overrides.columnNamesLine !== undefined) {
+    const named = overrides.columnNamesLine - 1;
+    if (named >= 0) {
+      const names = dropTrailingEmpty(nameSplits(lines[named] ?? '', candidate.delimiter).find((split) => dropTrailingEmpty(split).length === columns) ?? []);
+      if (names.length !== columns) {
+        reject('MISSING_COLUMN', `line ${named + 1} (the profile's columnNamesLine) does not hold ${columns} column names`, file, named + 1, 'Check columnNamesLine and delimiter of the formats profile matching this file.');
+      }
+      columnNames = names;
+      nameLineIndex = named;
+    }
+  } else if (lastHeader >= 0 && columns > 1) {
     const candidateNames = nameSplits(lines[lastHeader] ?? '', candidate.delimiter).find((split) => dropTrailingEmpty(split).length === columns);
     if (candidateNames !== undefined) {
       const names = dropTrailingEmpty(candidateNames);
@@ -200,6 +298,13 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
     const entry = parseHeaderLine(lines[i] ?? '', i + 1, delimiterChar);
     if (entry !== null) headerEntries.push(entry);
   }
+  if (singleColumn && columnNames === null && lastHeader >= 0 && lastHeader === index - 1) {
+    const name = stripCommentMarker((lines[lastHeader] ?? '').trim()).text.trim();
+    if (/^[A-Za-z][\w ()[\]/.-]*$/.test(name) && lookupKey(name) === undefined && !name.includes(':') && !name.includes('=')) {
+      columnNames = [name];
+      nameLineIndex = lastHeader;
+    }
+  }
   return {
     delimiter: candidate.delimiter,
     decimalMark: candidate.decimalMark,
@@ -215,7 +320,9 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
 }
 
 function dropTrailingEmpty(fields: readonly string[]): string[] {
-  return fields.length > 1 && fields[fields.length - 1] === '' ? fields.slice(0, -1) : [...fields];
+  let end = fields.length;
+  while (end > 1 && fields[end - 1] === '') end--;
+  return fields.slice(0, end);
 }
 
 /** A split is a column-name row when no field is numeric, and it is not a `key,value` metadata entry. */

@@ -4,6 +4,7 @@
 import type { DelimiterName } from './types.js';
 import { bytesToString, parseNumberBytes } from './number-bytes.js';
 import { reject } from './reject.js';
+import { decodeText } from './bytes.js';
 
 export interface ScanRequest {
   readonly delimiter: DelimiterName;
@@ -19,6 +20,8 @@ export interface ScanResult {
   readonly rowCount: number;
   /** 1-based file line of each data row. */
   readonly lineOfRow: (row: number) => number;
+  /** A text block after the data (a summary such as an integral line) that ended the data: its first line and its text. */
+  readonly trailer?: { readonly line: number; readonly text: string };
 }
 
 const NEWLINE = 10;
@@ -50,6 +53,10 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
     while (lineStart < length && (content[lineStart] === SPACE || content[lineStart] === TAB)) lineStart++;
     const first = content[lineStart];
     if (lineStart >= length) break;
+    if (row > 0 && first !== undefined && startsText(content, lineStart, delimiter)) {
+      const trailer = readTrailer(content, lineStart, line, file);
+      return finish(columns, row, skippedBeforeRow, firstDataLine, trailer);
+    }
     if (first === NEWLINE || first === CARRIAGE_RETURN || first === HASH) {
       let end = lineStart;
       while (end < length && content[end] !== NEWLINE && content[end] !== CARRIAGE_RETURN) end++;
@@ -126,9 +133,9 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
       (columns[column] as Float64Array)[row] = value;
       if (!atLineEnd && !whitespace) cursor++;
     }
-    // After the last column: allow trailing blanks and one trailing delimiter, then the line end.
+    // After the last column: allow trailing blanks and trailing delimiters (empty spreadsheet cells), then the line end.
     while (cursor < length && (content[cursor] === SPACE || content[cursor] === TAB)) cursor++;
-    if (!whitespace && cursor < length && content[cursor] === delimiter) {
+    while (!whitespace && cursor < length && content[cursor] === delimiter) {
       cursor++;
       while (cursor < length && (content[cursor] === SPACE || content[cursor] === TAB)) cursor++;
     }
@@ -139,13 +146,43 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
     row++;
     line++;
   }
-  const rowCount = row;
+  return finish(columns, row, skippedBeforeRow, firstDataLine, undefined);
+}
+
+function finish(columns: Float64Array[], rowCount: number, skippedBeforeRow: readonly number[], firstDataLine: number, trailer: ScanResult['trailer']): ScanResult {
   const views = columns.map((column) => column.subarray(0, rowCount));
   return {
     columns: views,
     rowCount,
     lineOfRow: (target: number) => firstDataLine + target + countAtMost(skippedBeforeRow, target),
+    ...(trailer === undefined ? {} : { trailer }),
   };
+}
+
+/** True when the line at `at` starts with a word (a letter, "[" or a non-ASCII character) that is not NaN or Inf: text after the data. */
+function startsText(content: Uint8Array, at: number, delimiter: number): boolean {
+  const byte = content[at] as number;
+  const letter = (byte >= 65 && byte <= 90) || (byte >= 97 && byte <= 122) || byte === 91 || byte >= 128;
+  if (!letter) return false;
+  let end = at;
+  while (end < content.length && content[end] !== delimiter && content[end] !== NEWLINE && content[end] !== CARRIAGE_RETURN && content[end] !== TAB && content[end] !== SPACE) end++;
+  return !/^(?:nan|inf|infinity)$/i.test(bytesToString(content, at, end));
+}
+
+/** Reads the text block that ended the data; throws UNKNOWN_LAYOUT when numeric rows follow it again (a second data block). */
+function readTrailer(content: Uint8Array, start: number, line: number, file: string): { line: number; text: string } {
+  const text = decodeText(content.subarray(start)).text;
+  const lines = text.split(/\r\n|\n|\r/);
+  let numericRun = 0;
+  for (let i = 0; i < lines.length; i++) {
+    const numeric = /^\s*[-+]?(?:\d|\.\d)/.test(lines[i] ?? '');
+    numericRun = numeric ? numericRun + 1 : (lines[i] ?? '').trim() === '' ? numericRun : 0;
+    if (numericRun >= 2) {
+      reject('UNKNOWN_LAYOUT', `the data ends at line ${line} with "${(lines[0] ?? '').trim().slice(0, 40)}", but numeric rows follow again at line ${line + i}: the file holds a second block of data`, file, line + i,
+        'Export one measurement per file, or declare the layout in a formats profile (docs/formats.md).');
+    }
+  }
+  return { line, text };
 }
 
 const POW10: readonly number[] = Array.from({ length: 23 }, (_, k) => 10 ** k);

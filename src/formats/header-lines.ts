@@ -12,11 +12,17 @@ export function stripCommentMarker(line: string): { text: string; commented: boo
   return match === null ? { text: line, commented: false } : { text: line.slice(match[0].length), commented: true };
 }
 
+/** Section lines ("[Header]", "[Data]", "[Measurement 1]") and rows of empty spreadsheet cells are structure, not metadata. */
+export function isStructureLine(text: string): boolean {
+  const trimmed = text.trim();
+  return /^\[[^\]=:]*\]$/.test(trimmed) || /^[,;\t ]+$/.test(trimmed);
+}
+
 /** Parses one header line (1-based `line`) given the data delimiter character (or null for white space); null for a blank line. */
 export function parseHeaderLine(raw: string, line: number, delimiter: string | null): HeaderEntry | null {
   const { text: body, commented } = stripCommentMarker(raw.trim());
   const text = body.trim();
-  if (text === '') return null;
+  if (text === '' || isStructureLine(text)) return null;
   const colon = text.indexOf(':');
   const equals = text.indexOf('=');
   const cut = colon < 0 ? equals : equals < 0 ? colon : Math.min(colon, equals);

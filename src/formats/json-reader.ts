@@ -61,9 +61,9 @@ export function readDataJson(content: Uint8Array, file: string): ParsedData {
   if (data.type === 'spectrum') {
     const spectrum = withFile(file, () => createSpectrum(data.spectrum));
     const layout: LayoutInfo = { ...base, columnNames: ['wavelengthNm', spectrum.valueColumn, ...Object.keys(spectrum.otherColumns)], axisColumn: 'wavelengthNm', valueColumn: spectrum.valueColumn, irfColumn: null, axisUnitFound: 'nm' };
-    return { type: 'spectrum', spectrum, layout: Object.freeze(layout) };
+    return { type: 'spectrum', id: file, spectrum, layout: Object.freeze(layout) };
   }
   const decay = withFile(file, () => createDecay(data.decay));
   const layout: LayoutInfo = { ...base, columnNames: ['timeNs', 'counts', ...(decay.irfCounts === undefined ? [] : ['irfCounts'])], axisColumn: 'timeNs', valueColumn: 'counts', irfColumn: decay.irfCounts === undefined ? null : 'irfCounts', axisUnitFound: 'ns' };
-  return { type: 'decay', decay, layout: Object.freeze(layout) };
+  return { type: 'decay', id: file, decay, layout: Object.freeze(layout) };
 }

@@ -1,10 +1,10 @@
 // Writer for driftlight's own JSON data file ("driftlight.data/1", schemas/data.schema.json).
 // JSON numbers use the shortest round-trip text, so every value reads back exactly.
-import type { ParsedData } from './types.js';
+import type { MeasurementContent } from './types.js';
 import { DATA_FORMAT_TAG } from './json-schema.js';
 
 /** Writes parsed data as one driftlight.data/1 JSON document (compact, newline-terminated); the source layout is kept as `sourceLayout`. */
-export function writeDataJson(data: ParsedData): string {
+export function writeDataJson(data: MeasurementContent): string {
   if (data.type === 'spectrum') {
     const { spectrum } = data;
     const otherColumns: Record<string, number[]> = {};

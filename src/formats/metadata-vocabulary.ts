@@ -3,7 +3,7 @@
 // Unknown keys are kept verbatim in metadata.extra. The vocabulary is listed in docs/formats.md.
 import { MEASUREMENT_ROLES, type MeasurementRole } from '../model/spectrum.js';
 import { parseNumberText } from './number-bytes.js';
-import { normaliseUnitText, splitNameAndUnit } from './units.js';
+import { lookupAxisUnit, normaliseUnitText, splitCamelCase, splitNameAndUnit } from './units.js';
 import { reject } from './reject.js';
 import { setOwn } from './own-record.js';
 
@@ -33,7 +33,7 @@ interface VocabularyRow {
 
 /** The vocabulary table, one row per field; writers use `canonical`, readers accept every spelling in `keys`. */
 export const VOCABULARY: readonly VocabularyRow[] = [
-  { field: 'excitationNm', quantity: 'wavelength-nm', canonical: 'excitation wavelength (nm)', keys: ['excitation', 'excitation wavelength', 'ex wavelength', 'ex', 'exc', 'excitation lambda', 'lambda ex', 'ex lambda', 'lambdaex', 'excitation wl', 'ex wl'] },
+  { field: 'excitationNm', quantity: 'wavelength-nm', canonical: 'excitation wavelength (nm)', keys: ['excitation', 'excitation wavelength', 'ex wavelength', 'exc wavelength', 'ex', 'exc', 'excitation lambda', 'lambda ex', 'ex lambda', 'lambdaex', 'excitation wl', 'ex wl'] },
   { field: 'emissionNm', quantity: 'wavelength-nm', canonical: 'emission wavelength (nm)', keys: ['emission', 'emission wavelength', 'em wavelength', 'em', 'emission lambda', 'lambda em', 'em lambda', 'lambdaem', 'detection wavelength', 'emission wl', 'em wl'] },
   { field: 'excitationSlitNm', quantity: 'wavelength-nm', canonical: 'excitation slit (nm)', keys: ['excitation slit', 'ex slit', 'excitation bandpass', 'ex bandpass', 'excitation bandwidth', 'ex bandwidth', 'excitation slit width'] },
   { field: 'emissionSlitNm', quantity: 'wavelength-nm', canonical: 'emission slit (nm)', keys: ['emission slit', 'em slit', 'emission bandpass', 'em bandpass', 'emission bandwidth', 'em bandwidth', 'emission slit width'] },
@@ -47,12 +47,15 @@ export const VOCABULARY: readonly VocabularyRow[] = [
   { field: 'repetitionRateHz', quantity: 'frequency-hz', canonical: 'repetition rate (Hz)', keys: ['repetition rate', 'rep rate', 'reprate', 'laser repetition rate', 'pulse rate', 'sync rate'] },
   { field: 'countRatePerS', quantity: 'rate-per-s', canonical: 'count rate (1/s)', keys: ['count rate', 'countrate', 'detector count rate'] },
   { field: 'collectionTimeS', quantity: 'time-s', canonical: 'collection time (s)', keys: ['collection time', 'acquisition duration', 'measurement duration'] },
-  { field: 'channelWidthNs', quantity: 'time-ns', canonical: 'channel width (ns)', keys: ['channel width', 'time per channel', 'bin width', 'time resolution', 'channel resolution', 'resolution per channel', 'ns per channel', 'ps per channel'] },
+  { field: 'channelWidthNs', quantity: 'time-ns', canonical: 'channel width (ns)', keys: ['channel width', 'time per channel', 'bin width', 'time resolution', 'channel resolution', 'resolution per channel', 'ns per channel', 'ps per channel', 'resolution'] },
   { field: 'kind', quantity: 'text', canonical: 'kind', keys: ['kind', 'type', 'measurement', 'measurement type', 'spectrum type', 'data type', 'scan type'] },
   { field: 'valueColumn', quantity: 'text', canonical: 'value column', keys: ['value column', 'values column', 'y column'] },
   { field: 'valueUnit', quantity: 'text', canonical: 'value unit', keys: ['value unit', 'y unit', 'y units', 'yunits'] },
   { field: 'axisUnit', quantity: 'text', canonical: 'axis unit', keys: ['axis unit', 'x unit', 'x units', 'xunits'] },
 ];
+
+/** Keys that name a field only when their value carries that field's unit ("Resolution: 12 ps" is a channel width, "Resolution: 1 nm" is not). */
+const UNIT_GATED_KEYS: ReadonlySet<string> = new Set(['resolution']);
 
 const ROW_BY_KEY = new Map<string, VocabularyRow>(VOCABULARY.flatMap((row) => row.keys.map((key) => [key, row] as const)));
 const ROW_BY_FIELD = new Map<MetadataField, VocabularyRow>(VOCABULARY.map((row) => [row.field, row] as const));
@@ -67,18 +70,33 @@ const UNIT_FACTORS: Readonly<Record<Exclude<Quantity, 'text' | 'temperature-c'>,
   'rate-per-s': { '1/s': 1, '/s': 1, 's-1': 1, cps: 1, hz: 1, 'counts/s': 1, kcps: 1e3, khz: 1e3, mcps: 1e6, mhz: 1e6 },
 };
 
-/** Normalises a header key: lower case, unit in brackets removed, punctuation to spaces ("Ex. Wavelength [nm]" → "ex wavelength"). */
-export function normaliseKey(key: string): { key: string; unitLabel: string | null } {
-  const stripped = key.replace(/^\$+/, '');
-  const whole = normaliseWords(stripped);
-  if (ROW_BY_KEY.has(whole)) return { key: whole, unitLabel: null };
-  const { base, unitLabel } = splitNameAndUnit(stripped);
-  return { key: normaliseWords(base), unitLabel };
+/** Unit labels a header key may end with: the axis units and the units of the vocabulary's quantities. */
+function isKeyUnit(label: string): boolean {
+  const unit = normaliseUnitText(label).replace(/\s+/g, '');
+  if (lookupAxisUnit(unit) !== undefined && lookupAxisUnit(unit)?.quantity !== 'channel') return true;
+  return KEY_UNITS.has(unit);
 }
 
-/** Lower case, λ spelled out, punctuation as single spaces. */
+const KEY_UNITS = new Set(['hz', 'khz', 'mhz', 'ghz', 'cm', 'mm', 'm', 'c', '°c', 'degc', 'k', 'fs', 'min', 'h', '1/s', 's-1', 'cps', 'kcps', 'mcps', 'å']);
+
+/**
+ * Normalises a header key by its parts: split into words whatever the separator or case, and a
+ * trailing unit taken off ("Ex. Wavelength [nm]", "ExcWavelength", "channel_width_ps",
+ * "Resolution [ps]" → "ex wavelength", "exc wavelength", "channel width" + ps, "resolution" + ps).
+ */
+export function normaliseKey(key: string): { key: string; unitLabel: string | null } {
+  const stripped = key.replace(/^\$+/, '').trim();
+  const whole = normaliseWords(stripped);
+  if (ROW_BY_KEY.has(whole)) return { key: whole, unitLabel: null };
+  const { base, unitLabel } = splitNameAndUnit(stripped, isKeyUnit);
+  const words = normaliseWords(base);
+  if (unitLabel !== null || ROW_BY_KEY.has(words)) return { key: words, unitLabel };
+  return { key: words, unitLabel: null };
+}
+
+/** Lower case, camel case split, λ spelled out, punctuation as single spaces. */
 function normaliseWords(text: string): string {
-  return text
+  return splitCamelCase(text)
     .toLowerCase()
     .replace(/λ/g, 'lambda ')
     .replace(/[._\-/:#]+/g, ' ')
@@ -135,6 +153,15 @@ export function readRole(entry: HeaderEntry, file: string): MeasurementRole {
   return role;
 }
 
+/** True when a unit-gated entry's value (or key) carries a unit of `quantity` that converts. */
+function carriesUnitOf(entry: HeaderEntry, quantity: Quantity, keyUnit: string | null): boolean {
+  if (quantity === 'text') return false;
+  const match = /^\s*[+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?\s*(.*?)\s*$/.exec(entry.value);
+  if (match === null) return false;
+  const unit = (match[1] ?? '') === '' ? keyUnit : (match[1] ?? '');
+  return unit !== null && unit !== '' && convertQuantity(1, unit, quantity) !== undefined;
+}
+
 /** Mapped header: typed values per field (numbers already in the field's unit, strings trimmed), the line each came from, and unknown entries verbatim. */
 export interface MappedHeader {
   readonly numbers: Partial<Record<MetadataField, number>>;
@@ -157,7 +184,7 @@ export function mapHeader(entries: readonly HeaderEntry[], file: string): Mapped
   for (const entry of entries) {
     const { key, unitLabel } = normaliseKey(entry.key);
     const row = ROW_BY_KEY.get(key);
-    if (row === undefined) {
+    if (row === undefined || entry.value.trim() === '' || (UNIT_GATED_KEYS.has(key) && !carriesUnitOf(entry, row.quantity, unitLabel))) {
       setOwn(extra, entry.key, entry.value);
       continue;
     }

@@ -27,6 +27,8 @@ export interface RawTable {
   readonly declaredAxisUnit?: string;
   /** Kind words declared by the container (JCAMP ##DATA TYPE), used when the header names no kind. */
   readonly declaredKind?: string;
+  /** Text after the data that ended it (a summary block): its first line and its lines, read as header entries too. */
+  readonly trailer?: { readonly line: number; readonly lineCount: number };
   /** Value unit declared by the container (JCAMP ##YUNITS mapped), used when the header names none. */
   readonly declaredValueUnit?: string;
 }

@@ -21,7 +21,15 @@ export interface LayoutConversion {
     | 'transmittance-to-absorbance'
     | 'time-unit-to-ns'
     | 'channel-to-time'
-    | 'axis-unit-assumed';
+    | 'axis-unit-assumed'
+    | 'raman-shift-to-wavelength'
+    | 'axis-rounding-restored'
+    | 'constant-column-as-metadata'
+    | 'summary-after-data'
+    | 'end-of-file-mark-dropped'
+    | 'single-column-histogram'
+    | 'column-pairs-split'
+    | 'profile-applied';
   /** Human-readable detail, e.g. "ps → ns (× 0.001)". */
   readonly detail: string;
 }
@@ -51,15 +59,22 @@ export interface LayoutInfo {
   readonly hasBom: boolean;
   /** Line ending found first. */
   readonly lineEnding: 'lf' | 'crlf' | 'cr' | 'none';
-  /** Text encoding used to read header text ('utf-8', or 'latin1' when the bytes are not valid UTF-8). */
-  readonly encoding: 'utf-8' | 'latin1';
+  /** Text encoding of the file ('utf-8'; 'latin1' when the bytes are not valid UTF-8; UTF-16 transcoded before reading). */
+  readonly encoding: 'utf-8' | 'latin1' | 'utf-16le' | 'utf-16be';
+  /** Every column read as a measurement of its own (several when one file holds several decays or spectra). */
+  readonly measurementColumns?: readonly string[];
+  /** The formats profile that fixed this layout (its name), when one matched. */
+  readonly profile?: string;
   /** Conversions applied, in order. */
   readonly conversions: readonly LayoutConversion[];
   /** JCAMP-DX only: the version label and the data table form found. */
   readonly jcamp?: { readonly version: string; readonly table: string; readonly compression: readonly string[] };
 }
 
-/** A parsed file: a spectrum or a decay histogram, with its layout. */
-export type ParsedData =
+/** One measurement read from a file: a spectrum or a decay histogram, its id (the file name, with "#column" when the file holds several) and its layout. */
+export type ParsedData = MeasurementContent & { readonly id: string };
+
+/** A spectrum or a decay with its layout (what the writers take). */
+export type MeasurementContent =
   | { readonly type: 'spectrum'; readonly spectrum: Spectrum; readonly layout: LayoutInfo }
   | { readonly type: 'decay'; readonly decay: Decay; readonly layout: LayoutInfo };

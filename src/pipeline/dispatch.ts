@@ -14,6 +14,7 @@ import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandid
 import type { StoredManifest } from './open-sets.js';
 import { findArchivedCopy } from './recovery.js';
 import { analysisSettingsFrom } from './settings.js';
+import { decodeDataText, utf16Order } from '../formats/index.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
 
@@ -120,8 +121,9 @@ export function readText(path: string): string {
   return decodeText(readFileSync(path));
 }
 
-/** Bytes as text: UTF-8 when valid, else Latin-1. */
+/** Bytes as text: UTF-16 (LE/BE, with or without BOM) when the readers see it so, else UTF-8 when valid, else Latin-1. */
 export function decodeText(bytes: Uint8Array): string {
+  if (utf16Order(bytes) !== null) return decodeDataText(bytes);
   try {
     return utf8.decode(bytes);
   } catch {

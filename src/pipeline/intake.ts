@@ -149,7 +149,7 @@ function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
       return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name), bytes };
     }
-    const parsed = readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes });
+    const parsed = readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes, profiles: config.formats.profiles });
     return { kind: 'data', file, parsed, bytes, acquisition: acquisitionOf(parsed, modifiedMs, config, file.name) };
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;

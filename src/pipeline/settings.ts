@@ -19,6 +19,7 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     cuvette: { ...config.instrument.cuvette },
     detectorCurveMeaning: config.instrument.detectorCurveMeaning,
     maxFileBytes: config.limits.maxFileBytes,
+    ...(config.formats.profiles.length === 0 ? {} : { formatProfiles: config.formats.profiles }),
     yieldWindow: {
       ...(windowFromNm === undefined || windowToNm === undefined ? {} : { windowNm: [windowFromNm, windowToNm] as const }),
       scatterExclusionNm: config.analysis.scatterExclusionNm,

@@ -7,7 +7,7 @@
 // JCAMP-DX, JSON, UTF-16 and short files are read whole, and a head that does not read is read
 // whole, so a file bad near its top is still rejected at intake with the reader's own error.
 import { InputRejected } from '../model/errors.js';
-import { readData, sniffFormat, type ParsedData } from '../formats/index.js';
+import { readData, sniffFormat, utf16Order, type FormatProfile, type ParsedData } from '../formats/index.js';
 
 /** Most lines of a delimited file read at intake. */
 export const HEAD_LINES = 64;
@@ -54,11 +54,11 @@ export function intakeHeadEnd(bytes: Uint8Array): number | undefined {
 }
 
 function isUtf16(bytes: Uint8Array): boolean {
-  return (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
+  return utf16Order(bytes) !== null;
 }
 
 /** Reads what set assembly needs from a data file: its head for long delimited files, else the whole file; throws InputRejected. */
-export function readForAssembly(bytes: Uint8Array, options: { fileName: string; maxBytes: number }): ParsedData {
+export function readForAssembly(bytes: Uint8Array, options: { fileName: string; maxBytes: number; profiles?: readonly FormatProfile[] }): ParsedData {
   const end = intakeHeadEnd(bytes);
   if (end === undefined || isUtf16(bytes) || sniffFormat(bytes) !== 'delimited') return readData(bytes, options);
   try {

@@ -4,7 +4,7 @@
 // where the layout asks for one.
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { readData } from '../../../src/formats/index.js';
+import { readMeasurements } from '../../../src/formats/index.js';
 import { bytes } from './helpers.js';
 
 type Delimiter = ',' | '\t' | ';' | ' ' | '   ';
@@ -53,12 +53,19 @@ function render(axis: readonly number[], columns: readonly number[][], c: Layout
 describe('delimited layouts (property)', () => {
   it('reads back the same numbers in every layout (fast-check, 300 runs)', () => {
     fc.assert(fc.property(table, layoutCase, ({ axis, columns }, c) => {
-      const data = readData(bytes(render(axis, columns, c)), { fileName: 'layout.txt' });
-      expect(data.type).toBe('spectrum');
-      if (data.type !== 'spectrum') return;
-      expect(Array.from(data.spectrum.wavelengthNm)).toEqual(axis);
-      expect(Array.from(data.spectrum.values)).toEqual(columns[0]);
-      expect(Object.values(data.spectrum.otherColumns).map((column) => Array.from(column))).toEqual(columns.slice(1));
+      const all = readMeasurements(bytes(render(axis, columns, c)), { fileName: 'layout.txt' });
+      // Several value columns sharing the axis are several spectra (issue 18), each with its column in its id.
+      expect(all).toHaveLength(columns.length);
+      const data = all[0];
+      expect(data?.type).toBe('spectrum');
+      if (data?.type !== 'spectrum') return;
+      all.forEach((measurement, k) => {
+        if (measurement.type !== 'spectrum') throw new Error('expected a spectrum');
+        expect(Array.from(measurement.spectrum.wavelengthNm)).toEqual(axis);
+        expect(Array.from(measurement.spectrum.values)).toEqual(columns[k]);
+        expect(Object.keys(measurement.spectrum.otherColumns)).toEqual([]);
+        if (columns.length > 1) expect(measurement.id).toBe(`layout.txt#${measurement.layout.valueColumn}`);
+      });
       // A table of whole numbers only shows no decimal mark at all; the reader then reports its default '.'.
       const anyFraction = [...axis, ...columns.flat()].some((value) => String(value).includes('.'));
       expect(data.layout.decimalMark).toBe(c.decimalComma && anyFraction ? ',' : '.');

@@ -2,7 +2,7 @@
 // against the outcome make_layouts.py computed for it (numbers from Python, not from driftlight).
 // No layout may be misread, and each outcome must be the one recorded as "after" in layouts.json.
 // LAYOUTS_RECORD=FILE writes the outcomes as JSON (used to fill the "before"/"after" columns).
-import { writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
 import { layoutOutcome, loadLayouts, type LayoutOutcome } from './layouts-outcome.js';
 
@@ -22,6 +22,14 @@ describe('layout table (test/fixtures/formats/layouts)', () => {
     if (entry.expect.type === 'rejected') expect(outcome.summary).toBe(`refused ${String(entry.expect.code)}`);
     else expect(outcome.summary).toBe('read');
     expect(outcome.summary).toBe(entry.after);
+  });
+
+  it('is listed row by row in docs/formats.md with its before and after', () => {
+    const docs = readFileSync(new URL('../../../docs/formats.md', import.meta.url), 'utf8');
+    for (const entry of layouts) {
+      expect(docs).toContain(`| \`${entry.file}\` | ${entry.group} | ${entry.layout} | ${entry.before ?? ''} | ${entry.after ?? ''} |`);
+    }
+    expect(layouts.filter((entry) => (entry.after ?? '').startsWith('misread'))).toEqual([]);
   });
 
   afterAll(() => {

@@ -65,7 +65,7 @@ describe('bad input', () => {
     ['a metadata unit that is unknown', 'Excitation: 350 parsecs\nwavelength (nm),b\n400,1\n401,2\n', 'METADATA_INVALID', 1],
     ['an unknown role', 'Role: spare\nwavelength (nm),b\n400,1\n401,2\n', 'METADATA_INVALID', 1],
     ['a header without data', 'Sample: x\nSolvent: water\n', 'NO_DATA', undefined],
-    ['a single numeric column', '400\n401\n402\n403\n', 'NO_DATA', undefined],
+    ['a single numeric column without a channel width (issue 18: read as a histogram only with one)', '400\n401\n402\n403\n', 'MISSING_COLUMN', undefined],
     ['%T at zero', 'wavelength (nm),%T\n400,50\n401,0\n402,20\n', 'NON_FINITE', 3],
     ['JCAMP-DX without ##END', '##TITLE=t\n##JCAMP-DX=5.01\n##XUNITS=NANOMETERS\n##FIRSTX=1\n##LASTX=3\n##XYDATA=(X++(Y..Y))\n1 1 2 3\n', 'TRUNCATED', 7],
     ['JCAMP-DX without version', '##TITLE=t\n##XUNITS=NANOMETERS\n##FIRSTX=400\n##LASTX=402\n##XYDATA=(X++(Y..Y))\n400 1 2 3\n##END=\n', 'JCAMP_INVALID', 1],
