@@ -1,21 +1,31 @@
 // `driftlight inspect FILE...`: reads each file with the formats module and prints what was found
-// (kind, points, axis and value ranges, layout, metadata), as text or one JSON line per file.
+// (kind, points, axis and value ranges, layout, metadata) for every measurement the file holds, as
+// text or one JSON line per measurement. `--explain` adds how each line, column and header key was
+// read and, for a refused or ambiguous file, a formats profile that reads it.
 import { readFile, stat } from 'node:fs/promises';
 import { InvalidArgumentError, type Command } from 'commander';
 import type { CommandModule } from './command-module.js';
 import { EXIT_CODES, exitCodesHelp } from './exit-codes.js';
 import { reportError } from './report-error.js';
 import { InputRejected } from '../model/errors.js';
-import { DEFAULT_MAX_BYTES, readData, type ParsedData } from '../formats/index.js';
+import { DEFAULT_MAX_BYTES, explainData, readMeasurements, type Explanation, type FormatProfile, type ParsedData } from '../formats/index.js';
+import { loadConfig } from '../config/index.js';
+import { withConfigOption } from './config-option.js';
 
 interface InspectFlags {
   readonly json?: boolean;
+  readonly explain?: boolean;
+  readonly config?: string;
   readonly maxBytes: number;
+  /** Instrument profiles (config formats.profiles); loaded from --config by the command. */
+  readonly profiles?: readonly FormatProfile[];
 }
 
 /** Summary of one parsed file, the --json line. */
 export interface InspectSummary {
   readonly file: string;
+  /** The measurement's id: the file name, with "#column" when the file holds several. */
+  readonly id: string;
   readonly type: 'spectrum' | 'decay';
   readonly kind: string;
   readonly points: number;
@@ -41,7 +51,7 @@ export function summarise(file: string, data: ParsedData): InspectSummary {
   if (data.type === 'spectrum') {
     const { spectrum } = data;
     return {
-      file, type: 'spectrum', kind: spectrum.kind, points: spectrum.wavelengthNm.length,
+      file, id: data.id, type: 'spectrum', kind: spectrum.kind, points: spectrum.wavelengthNm.length,
       axis: { unit: 'nm', ...range(spectrum.wavelengthNm) },
       values: { unit: spectrum.valueUnit, column: spectrum.valueColumn, ...range(spectrum.values) },
       metadata: spectrum.metadata, layout: data.layout,
@@ -49,7 +59,7 @@ export function summarise(file: string, data: ParsedData): InspectSummary {
   }
   const { decay } = data;
   return {
-    file, type: 'decay', kind: 'decay', points: decay.timeNs.length,
+    file, id: data.id, type: 'decay', kind: 'decay', points: decay.timeNs.length,
     axis: { unit: 'ns', ...range(decay.timeNs) },
     values: { unit: 'counts', column: data.layout.valueColumn, ...range(decay.counts) },
     metadata: { ...decay.metadata, channelWidthNs: decay.channelWidthNs, irfColumn: data.layout.irfColumn },
@@ -64,7 +74,7 @@ export function formatSummary(summary: InspectSummary): string {
   const metadata = Object.entries(summary.metadata as Record<string, unknown>)
     .flatMap(([key, value]) => (key === 'extra' ? Object.entries(value as Record<string, string>).map(([k, v]) => `extra["${k}"]=${v}`) : [`${key}=${String(value)}`]));
   const lines = [
-    summary.file,
+    summary.id === summary.file ? summary.file : `${summary.file}  [measurement ${summary.id}]`,
     `  kind        ${summary.type === 'decay' ? 'decay histogram' : `${summary.kind} spectrum`}`,
     `  points      ${summary.points}`,
     `  axis        ${shortNumber(summary.axis.min)} … ${shortNumber(summary.axis.max)} ${summary.axis.unit} (file column "${layout.axisColumn}"${layout.axisUnitFound === null ? '' : `, unit as found: ${layout.axisUnitFound}`})`,
@@ -103,9 +113,19 @@ export async function inspectFiles(files: readonly string[], flags: InspectFlags
       }
       continue;
     }
+    const options = { fileName: file, maxBytes: flags.maxBytes, ...(flags.profiles === undefined ? {} : { profiles: flags.profiles }) };
     try {
-      const summary = summarise(file, readData(content, { fileName: file, maxBytes: flags.maxBytes }));
-      stdout.write(flags.json === true ? `${JSON.stringify(summary)}\n` : formatSummary(summary));
+      try {
+        for (const data of readMeasurements(content, options)) {
+          const summary = summarise(file, data);
+          stdout.write(flags.json === true ? `${JSON.stringify(summary)}\n` : formatSummary(summary));
+        }
+      } finally {
+        if (flags.explain === true) {
+          const explanation = explainData(content, options);
+          stdout.write(flags.json === true ? `${JSON.stringify({ explain: explanation })}\n` : formatExplanation(explanation));
+        }
+      }
     } catch (error) {
       if (error instanceof InputRejected) {
         stderr.write(`${error.toUserLine()}\n  hint: ${error.hint}\n`);
@@ -119,6 +139,28 @@ export async function inspectFiles(files: readonly string[], flags: InspectFlags
   if (internal) return EXIT_CODES.internal.code;
   if (unreadable) return EXIT_CODES.usage.code;
   return rejected ? EXIT_CODES.rejected.code : EXIT_CODES.ok.code;
+}
+
+/** The human-readable --explain block: lines, columns, keys, outcome and a profile when one is offered. */
+export function formatExplanation(explanation: Explanation): string {
+  const out = [`${explanation.file}: how it was read`];
+  const section = (title: string, items: Explanation['lines']) => {
+    if (items.length === 0) return;
+    out.push(`  ${title}`);
+    for (const item of items) out.push(`    ${item.where.padEnd(12)} ${JSON.stringify(item.text.length > 60 ? `${item.text.slice(0, 57)}...` : item.text)} → ${item.readAs}`);
+  };
+  section('lines', explanation.lines);
+  section('columns', explanation.columns);
+  section('header keys', explanation.keys);
+  const outcome = explanation.outcome;
+  if ('read' in outcome) out.push(`  outcome      read: ${outcome.read.join(', ')}`);
+  else out.push(`  outcome      refused ${outcome.refused.code}${outcome.refused.line === undefined ? '' : ` at line ${outcome.refused.line}`}: ${outcome.refused.message}`, `               hint: ${outcome.refused.hint}`);
+  if (explanation.ambiguity !== null) out.push(`  why a profile: ${explanation.ambiguity}`);
+  if (explanation.profile !== null) {
+    out.push(`  profile (${explanation.profile.note}):`);
+    for (const line of explanation.profile.yaml.trimEnd().split('\n')) out.push(`    ${line}`);
+  } else if (explanation.ambiguity !== null) out.push('  no profile offered: the layout cannot be declared by a profile (see the hint)');
+  return `${out.join('\n')}\n`;
 }
 
 function parseMaxBytes(text: string): number {
@@ -136,15 +178,19 @@ function shortNumber(value: number): string {
 
 export const inspectCommand: CommandModule = {
   register(program: Command): void {
-    program
+    const command = program
       .command('inspect')
       .description('Read data files (delimited text, JCAMP-DX, driftlight JSON) and show what driftlight finds: kind, points, axis and value ranges, layout and metadata.')
       .argument('<files...>', 'data files to read')
-      .option('--json', 'print one JSON object per line per file instead of text')
+      .option('--json', 'print one JSON object per line per measurement instead of text')
+      .option('--explain', 'show how each line, column and header key was read; for a refused or ambiguous file, print a formats profile that reads it')
       .option('--max-bytes <n>', 'largest accepted file in bytes', parseMaxBytes, DEFAULT_MAX_BYTES)
       .addHelpText('after', `\nRejected files are reported on stderr as FILE:LINE: CODE: message.\n${exitCodesHelp()}`)
       .action(async (files: string[], flags: InspectFlags) => {
-        process.exitCode = await inspectFiles(files, flags, process.stdout, process.stderr);
+        // Profiles come from the config only when one is named, so inspect needs no config otherwise.
+        const profiles = flags.config === undefined ? undefined : loadConfig(flags.config).formats.profiles;
+        process.exitCode = await inspectFiles(files, { ...flags, ...(profiles === undefined ? {} : { profiles }) }, process.stdout, process.stderr);
       });
+    withConfigOption(command);
   },
 };

@@ -11,3 +11,4 @@ export { writeDataJson } from './json-writer.js';
 export { DATA_SCHEMA, DATA_FORMAT_TAG } from './json-schema.js';
 export { VOCABULARY } from './metadata-vocabulary.js';
 export { readConcentrationName } from './concentration.js';
+export { explainData, type Explanation, type ExplainedItem } from './explain.js';

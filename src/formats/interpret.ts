@@ -204,7 +204,8 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
   if (kindText !== undefined && metaKind === undefined && mapped.sources.kind !== undefined) {
     setOwn(mapped.extra, mapped.sources.kind.key, mapped.sources.kind.value);
   }
-  const nameKind = kindFromFileName(file);
+  // A profile's kind is the lab's own declaration: it wins over what the file name suggests.
+  const nameKind = profile?.kind === undefined ? kindFromFileName(file) : undefined;
   const columns = working.columns;
   const axisIndex = profile?.axisColumn !== undefined ? columnIndex(columns, profile.axisColumn, 'axis column of the profile', file, undefined) : working.axisColumnIndex ?? findAxisColumn(columns);
   const axis = columns[axisIndex] as RawColumn;
