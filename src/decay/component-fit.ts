@@ -38,7 +38,7 @@ export function datasetModelFor(prepared: PreparedDecay, components: number): Da
   if (prepared.irfUnit !== undefined) {
     return createReconvolutionModel({
       irfUnit: prepared.irfUnit, channelWidthNs: prepared.channelWidthNs, periodNs: prepared.periodNs,
-      firstChannel, endChannel, components,
+      firstChannel, endChannel, components, irfWithinChannel: prepared.irfWithinChannel,
     });
   }
   return createTailModel({

@@ -37,6 +37,8 @@ export interface FitDecayOptions {
   readonly profileIntervals?: boolean;
   /** Iteration cap of the Levenberg–Marquardt loop. Default 200. */
   readonly maxIterations?: number;
+  /** IRF within a channel: 'second-order' (Catmull–Rom shift and Δ²/12 flat-channel correction, bias O(Δ⁴)) or 'flat' (piecewise-constant IRF, linear shift, bias O(Δ²)); docs/decay.md. Default 'second-order'. */
+  readonly irfWithinChannel?: 'flat' | 'second-order';
 }
 
 const parameterName = z.enum(PARAMETER_NAMES as [ParameterName, ...ParameterName[]]);
@@ -72,6 +74,7 @@ const schema = z
     confidenceLevel: z.number().gt(0).lt(1).default(0.6827),
     profileIntervals: z.boolean().default(true),
     maxIterations: z.number().int().min(1).max(10_000).default(200),
+    irfWithinChannel: z.enum(['flat', 'second-order']).default('second-order'),
   })
   .strict();
 

@@ -4,6 +4,7 @@
 // the shifted IRF is kept while the shift does not change. O(c·channels); buffers are allocated once.
 import type { DatasetModel } from './dataset-model.js';
 import { convolveExponentialWithIrf, type ConvolutionBuffers } from './exponential-convolution.js';
+import { shiftIrfSecondOrder } from './irf-second-order.js';
 import { shiftIrf } from './irf-shift.js';
 import { addComponentWithDerivatives } from './reconvolution-component.js';
 
@@ -18,11 +19,17 @@ export interface ReconvolutionSetup {
   /** End of the fit range (exclusive). */
   readonly endChannel: number;
   readonly components: number;
+  /** 'flat' (IRF flat within a channel, linear sub-channel shift) or 'second-order' (irf-second-order.ts). Default 'second-order'. */
+  readonly irfWithinChannel?: IrfWithinChannel;
 }
+
+/** How the IRF is treated within a channel (see irf-second-order.ts). */
+export type IrfWithinChannel = 'flat' | 'second-order';
 
 /** Builds the reconvolution model with its scratch buffers allocated once (see header for the formula). */
 export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetModel {
   const { irfUnit, channelWidthNs, periodNs, firstChannel, endChannel, components } = setup;
+  const shiftInto = (setup.irfWithinChannel ?? 'second-order') === 'flat' ? shiftIrf : shiftIrfSecondOrder;
   const channelCount = endChannel - firstChannel;
   const shifted = new Float64Array(irfUnit.length);
   const slope = new Float64Array(irfUnit.length);
@@ -55,7 +62,7 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
   };
   const prepareShiftedIrf = (shiftNs: number, withSlope: boolean): void => {
     if (shiftNs === shiftedForNs && (!withSlope || shiftNs === slopeForNs)) return;
-    shiftIrf(irfUnit, shiftNs, channelWidthNs, shifted, withSlope ? slope : undefined, shiftedChannels);
+    shiftInto(irfUnit, shiftNs, channelWidthNs, shifted, withSlope ? slope : undefined, shiftedChannels);
     shiftedForNs = shiftNs;
     slopeForNs = withSlope ? shiftNs : Number.NaN;
   };

@@ -75,3 +75,43 @@ export function simulateDecay(spec: DecaySimulation, random: UniformSource, repe
     metadata: repetitionRateHz === undefined ? {} : { repetitionRateHz },
   });
 }
+
+export interface ExactGaussianDecaySpec {
+  readonly channels: number;
+  readonly channelWidthNs: number;
+  /** Centre and FWHM of the (continuous) Gaussian IRF, ns. */
+  readonly irfCentreNs: number;
+  readonly irfFwhmNs: number;
+  readonly tauNs: readonly number[];
+  /** Intensity fractions (sum 1); default equal. */
+  readonly intensityFractions?: readonly number[];
+  /** Expected decay photons over an unbounded window. */
+  readonly photons: number;
+  readonly backgroundPerChannel?: number;
+}
+
+/**
+ * Expected counts per channel of a continuous Gaussian IRF convolved with Σ exponentials, integrated over
+ * each channel in closed form: the CDF of the exponentially modified Gaussian,
+ * F(t) = Φ(z) − exp(−(t − μ)/τ + σ²/(2τ²))·Φ(z − σ/τ), z = (t − μ)/σ (Grushka, Anal. Chem. 44, 1733 (1972)).
+ * Independent of the reconvolution model (no histogram IRF), so it measures the model's channel error; O(c·channels).
+ */
+export function exactGaussianDecayCounts(spec: ExactGaussianDecaySpec): Float64Array {
+  const sigmaNs = spec.irfFwhmNs / (2 * Math.sqrt(2 * Math.log(2)));
+  const expected = new Float64Array(spec.channels).fill(spec.backgroundPerChannel ?? 0);
+  spec.tauNs.forEach((tauNs, i) => {
+    const photons = spec.photons * (spec.intensityFractions?.[i] ?? 1 / spec.tauNs.length);
+    const cdf = (timeNs: number): number => {
+      const z = (timeNs - spec.irfCentreNs) / sigmaNs;
+      const exponent = -(timeNs - spec.irfCentreNs) / tauNs + (sigmaNs * sigmaNs) / (2 * tauNs * tauNs);
+      return normalCdf(z) - Math.exp(exponent) * normalCdf(z - sigmaNs / tauNs);
+    };
+    let previous = cdf(0);
+    for (let k = 0; k < spec.channels; k++) {
+      const next = cdf((k + 1) * spec.channelWidthNs);
+      expected[k] = (expected[k] as number) + photons * Math.max(next - previous, 0);
+      previous = next;
+    }
+  });
+  return expected;
+}

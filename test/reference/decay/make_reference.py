@@ -17,19 +17,21 @@ from decay_model import expected_counts, fit_decay, gaussian_irf, poisson_devian
 HERE = os.path.dirname(os.path.abspath(__file__))
 
 CASES = [
-    # name, channels, window ns, taus, intensity fractions, photons, background, shift ns, irf fwhm ns, period ns
-    ('mono-fluorescein-like', 1024, 50.0, [4.1], [1.0], 1e5, 2.0, 0.0, 0.2, None),
-    ('bi-0.8-4.0', 4096, 50.0, [0.8, 4.0], [0.3, 0.7], 1e5, 1.0, 0.02, 0.2, None),
-    ('mono-shifted-1.74', 512, 25.0, [1.74], [1.0], 2e4, 0.5, 0.035, 0.2, None),
-    ('mono-periodic-12ns', 1024, 12.5, [12.0], [1.0], 5e4, 1.0, 0.0, 0.1, 12.5),
-    ('bi-low-counts', 256, 20.0, [0.5, 2.5], [0.4, 0.6], 5e3, 0.2, 0.0, 0.15, None),
+    # name, channels, window ns, taus, intensity fractions, photons, background, shift ns, irf fwhm ns, period ns, irf mode
+    ('mono-fluorescein-like', 1024, 50.0, [4.1], [1.0], 1e5, 2.0, 0.0, 0.2, None, 'second-order'),
+    ('bi-0.8-4.0', 4096, 50.0, [0.8, 4.0], [0.3, 0.7], 1e5, 1.0, 0.02, 0.2, None, 'second-order'),
+    ('mono-shifted-1.74', 512, 25.0, [1.74], [1.0], 2e4, 0.5, 0.035, 0.2, None, 'second-order'),
+    ('mono-periodic-12ns', 1024, 12.5, [12.0], [1.0], 5e4, 1.0, 0.0, 0.1, 12.5, 'second-order'),
+    ('bi-low-counts', 256, 20.0, [0.5, 2.5], [0.4, 0.6], 5e3, 0.2, 0.0, 0.15, None, 'second-order'),
+    ('mono-shifted-flat', 512, 25.0, [1.74], [1.0], 2e4, 0.5, 0.035, 0.2, None, 'flat'),
+    ('mono-coarse-0.3', 200, 10.0, [0.3], [1.0], 5e4, 0.5, 0.021, 0.15, None, 'second-order'),
 ]
 
 
-def intensity_amplitudes(taus, fractions, photons, irf_unit, width_ns, period_ns):
+def intensity_amplitudes(taus, fractions, photons, irf_unit, width_ns, period_ns, irf_mode):
     amps = []
     for tau, fraction in zip(taus, fractions):
-        unit = expected_counts(np.array([tau, 1.0, 0.0, 0.0]), irf_unit, width_ns, 1, period_ns)
+        unit = expected_counts(np.array([tau, 1.0, 0.0, 0.0]), irf_unit, width_ns, 1, period_ns, irf_mode)
         amps.append(fraction * photons / unit.sum())
     return amps
 
@@ -38,15 +40,15 @@ def main():
     rng = np.random.default_rng(20261201)
     decays = []
     references = []
-    for name, channels, window_ns, taus, fractions, photons, background, shift_ns, fwhm_ns, period_ns in CASES:
+    for name, channels, window_ns, taus, fractions, photons, background, shift_ns, fwhm_ns, period_ns, irf_mode in CASES:
         width_ns = window_ns / channels
         irf_mean = gaussian_irf(channels, width_ns, 0.1 * window_ns, fwhm_ns) * 2e5
         irf_counts = rng.poisson(irf_mean).astype(float)
         irf_unit = irf_counts / irf_counts.sum()
         c = len(taus)
-        amps = intensity_amplitudes(taus, fractions, photons, irf_unit, width_ns, period_ns)
+        amps = intensity_amplitudes(taus, fractions, photons, irf_unit, width_ns, period_ns, irf_mode)
         truth = np.array(taus + amps + [shift_ns, background])
-        counts = rng.poisson(expected_counts(truth, irf_unit, width_ns, c, period_ns)).astype(float)
+        counts = rng.poisson(expected_counts(truth, irf_unit, width_ns, c, period_ns, irf_mode)).astype(float)
         rise = int(np.argmax(irf_unit >= 0.01 * irf_unit.max()))
         first = max(0, rise - max(5, int(np.ceil(fwhm_ns / width_ns))))
         end = channels
@@ -54,8 +56,8 @@ def main():
         shift_limit = max(10 * width_ns, 2 * fwhm_ns)
         lower = np.array([width_ns / 50] * c + [0.0] * c + [-shift_limit, 0.0])
         upper = np.array([1000 * window_ns] * c + [np.inf] * c + [shift_limit, np.inf])
-        x, result = fit_decay(counts, irf_unit, width_ns, c, first, end, start, lower, upper, period_ns)
-        model = expected_counts(x, irf_unit, width_ns, c, period_ns)[first:end]
+        x, result = fit_decay(counts, irf_unit, width_ns, c, first, end, start, lower, upper, period_ns, irf_mode)
+        model = expected_counts(x, irf_unit, width_ns, c, period_ns, irf_mode)[first:end]
         decays.append({
             'name': name,
             'channelWidthNs': width_ns,
@@ -64,6 +66,7 @@ def main():
             'rangeNs': [first * width_ns, (end - 1) * width_ns],
             'components': c,
             'periodNs': period_ns,
+            'irfWithinChannel': irf_mode,
             'truth': {'tauNs': taus, 'amplitudes': amps, 'shiftNs': shift_ns, 'backgroundPerChannel': background},
         })
         references.append({

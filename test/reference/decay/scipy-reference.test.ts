@@ -14,6 +14,7 @@ interface ReferenceDecay {
   rangeNs: [number, number];
   components: 1 | 2;
   periodNs: number | null;
+  irfWithinChannel: 'flat' | 'second-order';
 }
 interface ReferenceFit {
   name: string;
@@ -45,6 +46,7 @@ describe('fitDecay agrees with scipy.optimize.least_squares on the Poisson devia
       rangeNs: input.rangeNs,
       profileIntervals: false,
       ...(input.periodNs === null ? {} : { repetitionRateHz: 1e9 / input.periodNs }),
+      irfWithinChannel: input.irfWithinChannel,
     });
     expect(fit.converged).toBe(true);
     expect(reference.success).toBe(true);
