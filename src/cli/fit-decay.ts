@@ -100,6 +100,14 @@ export function formatFitReport(file: string, fit: DecayFitResult): string {
       const profile = interval === undefined ? 'n/a' : `${formatNumber(interval.lowNs)} … ${formatNumber(interval.highNs)}`;
       return `  ${String(index + 1).padEnd(11)} ${formatNumber(component.tauNs, 5).padEnd(12)} ${formatNumber(component.tauNsStdErr, 3).padEnd(10)} ${profile.padEnd(24)} ${component.amplitude.toPrecision(5).padEnd(12)} ${component.amplitudeFraction.toFixed(4).padEnd(11)} ${component.intensityFraction.toFixed(4)}${component.tauFixed ? '  (fixed)' : ''}`;
     }),
+    ...fit.components.flatMap((component, index) => {
+      const interval = component.tauNsInterval;
+      return [
+        ...(interval?.lowReason === undefined ? [] : [`  interval    tau${index + 1} low end missing: ${interval.lowReason}`]),
+        ...(interval?.highReason === undefined ? [] : [`  interval    tau${index + 1} high end missing: ${interval.highReason}`]),
+      ];
+    }),
+    ...fit.errorNotes.map((note) => `  errors      ${note}`),
     `  mean tau    amplitude-weighted ${fit.tauMeanAmplitudeNs.toPrecision(5)} ns, intensity-weighted ${fit.tauMeanIntensityNs.toPrecision(5)} ns`,
     `  shift       ${fit.shiftNs.toPrecision(4)} ns; background ${fit.backgroundPerChannel.toPrecision(4)} counts/channel; scatter fraction ${fit.scatterFraction.toPrecision(3)}`,
     `  goodness    chi2_red ${fit.chi2Reduced.toFixed(4)}; deviance ${fit.deviance.toFixed(2)} (${fit.degreesOfFreedom} dof); Durbin-Watson ${fit.durbinWatson.toFixed(3)}; runs z ${fit.runsTest.z.toFixed(2)}; AIC ${fit.aic.toFixed(2)}; BIC ${fit.bic.toFixed(2)}`,

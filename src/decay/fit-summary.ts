@@ -1,10 +1,11 @@
 // Turns a finished single-decay fit into the plain-JSON DecayFitResult: components with standard errors
 // (inverse Fisher information) and profile intervals, mean lifetimes, goodness of fit, residual tests,
 // information criteria and warnings.
-import type { ComponentFit } from './component-fit.js';
+import { datasetModelFor, type ComponentFit } from './component-fit.js';
 import { fitAcceptability } from './acceptability.js';
 import { estimatorResiduals, pearsonChiSquare, poissonDeviance } from './estimators.js';
 import { akaikeCriterion, bayesianCriterion } from './information-criteria.js';
+import { irfNoiseVariances } from './irf-noise.js';
 import { invertPositiveDefinite } from './linear-algebra.js';
 import { chiSquareQuantileOneDof } from './normal-distribution.js';
 import type { ResolvedFitDecayOptions } from './options.js';
@@ -24,36 +25,59 @@ export interface ParameterCovariance {
   readonly errors: readonly (number | undefined)[];
   /** Covariance of free parameters i and j, or undefined. */
   covariance(i: number, j: number): number | undefined;
+  /** Free parameters that sat on a bound but were counted as free in the inversion (widened errors). */
+  readonly boundCountedAsFree: readonly number[];
 }
 
-/** Inverse Fisher information (Cramér–Rao covariance) of a finished fit, over the free parameters not on a bound. */
-export function parameterCovariance(fit: ComponentFit): ParameterCovariance {
+/**
+ * Inverse Fisher information (Cramér–Rao covariance) of a finished fit. Parameters on a bound get no error
+ * of their own. With `widenForBounds`, they are still counted as free in the inversion, so the errors of
+ * the parameters they correlate with are the unconstrained ones instead of those conditional on the
+ * bound (which are too small when the bound is active by chance, e.g. a background of 0); when that
+ * matrix is singular the interior-only inverse is used.
+ */
+export function parameterCovariance(fit: ComponentFit, widenForBounds = false): ParameterCovariance {
   const { problem, layout, outcome } = fit;
   const size = layout.labels.length;
   const information = problem.information(outcome.parameters);
   const interior: number[] = [];
+  const onBound: number[] = [];
   for (let i = 0; i < size; i++) {
     const value = outcome.parameters[i] as number;
     if (value > (layout.lower[i] as number) && value < (layout.upper[i] as number)) interior.push(i);
+    else if (layout.lower[i] !== layout.upper[i]) onBound.push(i);
   }
-  const reduced = new Float64Array(interior.length * interior.length);
-  interior.forEach((row, a) => interior.forEach((column, b) => {
-    reduced[a * interior.length + b] = information[row * size + column] as number;
-  }));
-  const inverse = invertPositiveDefinite(reduced, interior.length);
-  const position = new Map(interior.map((index, a) => [index, a]));
+  const invert = (set: readonly number[]): Float64Array | undefined => {
+    const reduced = new Float64Array(set.length * set.length);
+    set.forEach((row, a) => set.forEach((column, b) => {
+      reduced[a * set.length + b] = information[row * size + column] as number;
+    }));
+    return invertPositiveDefinite(reduced, set.length);
+  };
+  let counted = interior;
+  let inverse: Float64Array | undefined;
+  if (widenForBounds && onBound.length > 0) {
+    const all = [...interior, ...onBound].sort((a, b) => a - b);
+    inverse = invert(all);
+    if (inverse !== undefined) counted = all;
+  }
+  if (counted === interior) inverse = invert(interior);
+  const boundCountedAsFree = counted === interior ? [] : onBound;
+  const position = new Map(counted.map((index, a) => [index, a]));
+  const onBoundSet = new Set(onBound);
   const covariance = (i: number, j: number): number | undefined => {
     const a = position.get(i);
     const b = position.get(j);
     if (inverse === undefined || a === undefined || b === undefined) return undefined;
-    const value = inverse[a * interior.length + b] as number;
+    const value = inverse[a * counted.length + b] as number;
     return Number.isFinite(value) ? value : undefined;
   };
   const errors = Array.from({ length: size }, (_unused, i) => {
+    if (onBoundSet.has(i)) return undefined;
     const variance = covariance(i, i);
     return variance !== undefined && variance > 0 ? Math.sqrt(variance) : undefined;
   });
-  return { errors, covariance };
+  return { errors, covariance, boundCountedAsFree };
 }
 
 /**
@@ -91,6 +115,40 @@ export function runsTestResiduals(residuals: Float64Array, model: Float64Array):
   return kept;
 }
 
+
+/**
+ * Extra variance of each free parameter from the IRF's counting noise (irf-noise.ts), or undefined with
+ * the reason in `errorNotes` (no IRF, a tail fit, or an IRF that is not whole counts).
+ */
+function irfNoiseFor(
+  fit: ComponentFit, prepared: PreparedDecay, local: Float64Array, covariance: ParameterCovariance, errorNotes: string[],
+): Float64Array | undefined {
+  const { irfUnit, irfTotalCounts } = prepared;
+  if (irfUnit === undefined || irfTotalCounts === undefined) return undefined;
+  if (!prepared.irfIsCounts) {
+    errorNotes.push('the IRF is not whole counts (a model or a normalised IRF): its noise is not propagated and the errors assume it exact');
+    return undefined;
+  }
+  const term = fit.layout.terms[0];
+  if (term === undefined) return undefined;
+  const { firstChannel, endChannel } = prepared.range;
+  const model = datasetModelFor(prepared, fit.components);
+  const channels = endChannel - firstChannel;
+  const expected = new Float64Array(channels);
+  const jacobian = new Float64Array(local.length * channels);
+  model.evaluate(local, true, expected, jacobian);
+  const variances = irfNoiseVariances({
+    irfUnit, irfTotalCounts, channelWidthNs: prepared.channelWidthNs, irfWithinChannel: prepared.irfWithinChannel,
+    firstChannel, endChannel, components: fit.components, local, model: expected, jacobian,
+    freeIndex: term.freeIndex, freeCount: fit.layout.labels.length, covariance: covariance.covariance,
+  });
+  errorNotes.push(
+    `the IRF's counting noise (${irfTotalCounts.toPrecision(4)} counts, multinomial) is propagated to first order and included in the standard errors` +
+      (prepared.periodNs === undefined ? '' : ' (earlier pulses neglected in that part)'),
+  );
+  return variances;
+}
+
 /** Builds the DecayFitResult of a single-decay fit (see header). */
 export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options: ResolvedFitDecayOptions): DecayFitResult {
   const { problem, layout, outcome, components } = fit;
@@ -105,13 +163,27 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
   const residualSquares = estimatorResiduals(options.estimator, counts, model, residuals, undefined);
   const freeCount = layout.labels.length;
   const degreesOfFreedom = Math.max(channels - freeCount, 1);
-  const covariance = parameterCovariance(fit);
-  const errors = covariance.errors;
+  const covariance = parameterCovariance(fit, true);
   const warnings = [...prepared.warnings];
+  const errorNotes: string[] = [];
+  for (const index of covariance.boundCountedAsFree) {
+    const label = layout.labels[index] ?? `parameter ${index + 1}`;
+    errorNotes.push(`${label} is at its bound (${(parameters[index] as number).toPrecision(4)}): the other parameters' errors are computed as if it were free (widened, not conditional on the bound)`);
+  }
+  const irfVariances = irfNoiseFor(fit, prepared, local, covariance, errorNotes);
+  const errors = covariance.errors.map((error, index) => {
+    const extra = irfVariances?.[index] ?? 0;
+    return error === undefined ? undefined : Math.sqrt(error * error + extra);
+  });
   if (!outcome.converged) warnings.push(`the fit did not converge: ${outcome.reason}`);
   const errorOf = (slot: number): number | undefined => {
     const free = term.freeIndex[slot] as number;
     return free >= 0 ? errors[free] : undefined;
+  };
+  const irfErrorOf = (slot: number): number | undefined => {
+    const free = term.freeIndex[slot] as number;
+    const variance = free >= 0 ? irfVariances?.[free] : undefined;
+    return variance === undefined ? undefined : Math.sqrt(variance);
   };
   const deltaObjective = chiSquareQuantileOneDof(options.confidenceLevel);
   const componentResults: ComponentResult[] = [];
@@ -122,17 +194,33 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
       local[components + i] as number, tauNs, prepared.channelWidthNs, term.freeIndex[components + i] as number, free, covariance,
     );
     const tauNsStdErr = errorOf(i);
+    const tauNsStdErrFromIrf = irfErrorOf(i);
     let tauNsInterval: LifetimeInterval | undefined;
-    if (free >= 0 && options.profileIntervals && outcome.converged && tauNsStdErr !== undefined) {
-      const { low, high } = profileInterval(
+    if (free >= 0 && options.profileIntervals && !outcome.converged) {
+      tauNsInterval = { lowReason: 'the fit did not converge', highReason: 'the fit did not converge', level: options.confidenceLevel, deltaObjective };
+    } else if (free >= 0 && options.profileIntervals && tauNsStdErr === undefined) {
+      const why = 'the lifetime has no standard error (at a bound or not identifiable)';
+      tauNsInterval = { lowReason: why, highReason: why, level: options.confidenceLevel, deltaObjective };
+    } else if (free >= 0 && options.profileIntervals && tauNsStdErr !== undefined) {
+      const profile = profileInterval(
         problem, parameters, outcome.objective, free, layout.lower, layout.upper, tauNsStdErr, deltaObjective, options.maxIterations,
       );
-      tauNsInterval = { ...(low === undefined ? {} : { lowNs: low }), ...(high === undefined ? {} : { highNs: high }), level: options.confidenceLevel, deltaObjective };
+      // The profile holds the IRF fixed; its counting noise is added in quadrature to each half-width.
+      const irfVariance = tauNsStdErrFromIrf === undefined ? 0 : deltaObjective * tauNsStdErrFromIrf * tauNsStdErrFromIrf;
+      const widen = (end: number): number => tauNs + Math.sign(end - tauNs) * Math.sqrt((end - tauNs) ** 2 + irfVariance);
+      tauNsInterval = {
+        ...(profile.low === undefined ? {} : { lowNs: widen(profile.low) }),
+        ...(profile.high === undefined ? {} : { highNs: widen(profile.high) }),
+        ...(profile.lowReason === undefined ? {} : { lowReason: profile.lowReason }),
+        ...(profile.highReason === undefined ? {} : { highReason: profile.highReason }),
+        level: options.confidenceLevel, deltaObjective,
+      };
     }
     if (free >= 0 && tauNsStdErr === undefined) warnings.push(`tau${i + 1}Ns has no standard error (at a bound or not identifiable)`);
     componentResults.push({
       tauNs,
       ...(tauNsStdErr === undefined ? {} : { tauNsStdErr }),
+      ...(tauNsStdErrFromIrf === undefined || tauNsStdErr === undefined ? {} : { tauNsStdErrFromIrf }),
       ...(tauNsInterval === undefined ? {} : { tauNsInterval }),
       amplitude,
       ...(amplitudeStdErr === undefined ? {} : { amplitudeStdErr }),
@@ -239,6 +327,7 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     freeParameters: [...layout.labels],
     pileUpCorrected: prepared.pileUpCorrected,
     starts: fit.starts,
+    errorNotes,
     warnings,
   };
 }

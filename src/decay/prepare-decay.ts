@@ -26,6 +26,9 @@ export interface PreparedDecay {
   /** Total recorded counts of the histogram (before any correction). */
   readonly photons: number;
   readonly pileUpCorrected: boolean;
+  /** Recorded IRF counts (its sum before normalisation) and whether every value is a whole count (Poisson data). */
+  readonly irfTotalCounts: number | undefined;
+  readonly irfIsCounts: boolean;
   /** How the reconvolution model treats the IRF within a channel (options.irfWithinChannel). */
   readonly irfWithinChannel: IrfWithinChannel;
   readonly warnings: readonly string[];
@@ -74,6 +77,8 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
   let irfUnit: Float64Array | undefined;
   let irfFwhmNs: number | undefined;
   let irfRiseChannel: number | undefined;
+  let irfTotalCounts: number | undefined;
+  let irfIsCounts = false;
   if (irfSource !== undefined) {
     if (irfSource.length !== channels) {
       throw new InputRejected('LENGTH_MISMATCH', `the IRF has ${irfSource.length} channels but the decay has ${channels}`);
@@ -88,6 +93,8 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
       sum += value;
     }
     if (!(sum > 0)) throw new InputRejected('INPUT_INVALID', 'the IRF has no counts');
+    irfTotalCounts = sum;
+    irfIsCounts = irf.every((value) => Number.isInteger(value));
     for (let k = 0; k < channels; k++) irf[k] = (irf[k] as number) / sum;
     irfUnit = irf;
     irfFwhmNs = fullWidthHalfMaximumNs(irf, channelWidthNs);
@@ -122,6 +129,6 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
   }
   return {
     timeNs: decay.timeNs, channelWidthNs, counts, irfUnit, irfFwhmNs, irfRiseChannel, periodNs, range, photons,
-    pileUpCorrected, irfWithinChannel: options.irfWithinChannel, warnings,
+    pileUpCorrected, irfTotalCounts, irfIsCounts, irfWithinChannel: options.irfWithinChannel, warnings,
   };
 }

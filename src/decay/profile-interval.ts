@@ -8,14 +8,28 @@ import { minimiseLevenbergMarquardt, type SumOfSquaresObjective } from './levenb
 export interface ProfileSide {
   /** The interval end, or undefined when a bound or a failed refit came first. */
   readonly value: number | undefined;
+  /** Why the end is missing. */
+  readonly reason?: string;
 }
 
-/** Low and high ends of the profile interval of parameter `index`; each side costs ~5–10 warm-started refits. */
+/**
+ * Low and high ends of the profile interval of parameter `index`; each side costs ~5–10 warm-started refits.
+ * A refit that does not converge from the warm start is retried from the best fit with twice the
+ * iterations; a missing end carries its reason.
+ */
 export function profileInterval(
   objective: SumOfSquaresObjective, best: Float64Array, bestObjective: number, index: number,
   lower: Float64Array, upper: Float64Array, standardError: number, deltaObjective: number, maxIterations: number,
-): { low: number | undefined; high: number | undefined } {
-  const side = (direction: 1 | -1): number | undefined => {
+): { low: number | undefined; high: number | undefined; lowReason?: string; highReason?: string } {
+  const side = (direction: 1 | -1): ProfileSide => {
+    let failedAt: number | undefined;
+    const value = sideValue(direction, (at) => (failedAt = at));
+    if (value !== undefined) return { value };
+    const limit = direction > 0 ? (upper[index] as number) : (lower[index] as number);
+    if (failedAt !== undefined) return { value, reason: `the refit with the lifetime held at ${failedAt.toPrecision(4)} did not converge` };
+    return { value, reason: `the objective rises by less than ${deltaObjective.toPrecision(3)} between the fit and the bound ${limit.toPrecision(4)} (or 12 widening steps): the interval is open on this side` };
+  };
+  const sideValue = (direction: 1 | -1, onFailure: (at: number) => void): number | undefined => {
     const centre = best[index] as number;
     const target = Math.sqrt(deltaObjective);
     let warm = Float64Array.from(best);
@@ -26,8 +40,16 @@ export function profileInterval(
       high[index] = value;
       const start = Float64Array.from(warm);
       start[index] = value;
-      const outcome = minimiseLevenbergMarquardt(objective, start, low, high, maxIterations);
-      if (!outcome.converged) return undefined;
+      let outcome = minimiseLevenbergMarquardt(objective, start, low, high, maxIterations);
+      if (!outcome.converged) {
+        const cold = Float64Array.from(best);
+        cold[index] = value;
+        outcome = minimiseLevenbergMarquardt(objective, cold, low, high, 2 * maxIterations);
+      }
+      if (!outcome.converged) {
+        onFailure(value);
+        return undefined;
+      }
       warm = Float64Array.from(outcome.parameters);
       return Math.sqrt(Math.max(outcome.objective - bestObjective, 0));
     };
@@ -75,5 +97,11 @@ export function profileInterval(
     }
     return 0.5 * (inside + outer);
   };
-  return { low: side(-1), high: side(1) };
+  const low = side(-1);
+  const high = side(1);
+  return {
+    low: low.value, high: high.value,
+    ...(low.reason === undefined ? {} : { lowReason: low.reason }),
+    ...(high.reason === undefined ? {} : { highReason: high.reason }),
+  };
 }

@@ -15,6 +15,9 @@ export interface LifetimeInterval {
   readonly lowNs?: number;
   /** Upper end in ns; absent as for lowNs. */
   readonly highNs?: number;
+  /** Why lowNs / highNs is absent (the bound was reached first, or a constrained refit failed). */
+  readonly lowReason?: string;
+  readonly highReason?: string;
   /** Confidence level, e.g. 0.6827. */
   readonly level: number;
   /** Objective rise that defines the interval (chi-square quantile with one degree of freedom). */
@@ -23,8 +26,10 @@ export interface LifetimeInterval {
 
 export interface ComponentResult {
   readonly tauNs: number;
-  /** Standard error from the Fisher information; absent when fixed, at a bound or not estimable. */
+  /** Standard error: inverse Fisher information (parameters at a bound counted as free, see `errorNotes`) plus the IRF's counting noise when propagated; absent when fixed, at a bound or not estimable. */
   readonly tauNsStdErr?: number;
+  /** The part of tauNsStdErr due to the IRF's counting noise (added in quadrature), when propagated. */
+  readonly tauNsStdErrFromIrf?: number;
   /** Profile (support-plane) interval; absent when not computed or the lifetime is fixed. */
   readonly tauNsInterval?: LifetimeInterval;
   /** Counts per channel at t = 0 (reconvolution) or at the fit start (tail fit), for τ ≫ channel width. */
@@ -117,6 +122,8 @@ export interface DecayFitResult extends FitStatus {
   readonly pileUpCorrected: boolean;
   /** Start-value sets tried. */
   readonly starts: number;
+  /** How the standard errors were formed: parameters at a bound counted as free, IRF noise propagated or why not. */
+  readonly errorNotes: readonly string[];
   readonly warnings: readonly string[];
   /** Present when components was 'auto'. */
   readonly selection?: ModelSelection;
