@@ -1,7 +1,8 @@
 // `driftlight rules check FILE` (validate and print a rule set), `driftlight rules simulate`
 // (replay stored results in acquisition order and list the alerts that would have fired) and
 // `driftlight rules rebaseline CONTROL --from DATE` (start a new baseline in the ledger).
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { userInfo } from 'node:os';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import type { AnalysisResult } from '../analysis/result.js';
@@ -30,6 +31,7 @@ import {
   type RuleSet,
 } from '../qc/index.js';
 import { openLedger } from '../store/ledger.js';
+import { acknowledgeFlags, excludedSetIds, qcActions, recordAction, type QcAction } from '../store/qc-actions-store.js';
 import { baselineRecords, observationHistory, saveBaseline } from '../store/qc-store.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
@@ -155,6 +157,49 @@ export function simulateAlerts(observations: readonly ControlObservation[], rule
   return alerts.sort((a, b) => (parseIsoToEpochMs(a.at) ?? 0) - (parseIsoToEpochMs(b.at) ?? 0));
 }
 
+/**
+ * Text lines of simulated alerts, with repeated control-missing lines of a control summarised in one
+ * line (first and last day, count) placed at the first one.
+ */
+export function formatAlertLines(alerts: readonly SimulatedAlert[]): string[] {
+  const missingByControl = new Map<string, SimulatedAlert[]>();
+  for (const alert of alerts) {
+    if (alert.check !== 'control missing') continue;
+    missingByControl.set(alert.controlId, [...(missingByControl.get(alert.controlId) ?? []), alert]);
+  }
+  const lines: string[] = [];
+  for (const alert of alerts) {
+    const group = alert.check === 'control missing' ? (missingByControl.get(alert.controlId) ?? []) : [];
+    if (group.length < 2) {
+      lines.push(formatAlertLine(alert));
+      continue;
+    }
+    if (group[0] !== alert) continue;
+    const last = group[group.length - 1] ?? alert;
+    lines.push(
+      `${alert.at}  ${alert.severity.toUpperCase().padEnd(9)} ${alert.ruleId} control missing  ${alert.controlId}  ` +
+        `no control result by the due time on ${group.length} days, ${alert.at.slice(0, 10)} to ${last.at.slice(0, 10)} (one line per day with --json).`,
+    );
+  }
+  return lines;
+}
+
+/** One line per recorded action: when, what, who, why. */
+export function formatActionLine(action: QcAction): string {
+  const target = [action.setId === undefined ? undefined : `run ${action.setId}`, action.flagKey === undefined ? undefined : `flag ${action.flagKey}`].filter((part) => part !== undefined).join(', ');
+  return `${action.atIso}  ${action.action.toUpperCase().padEnd(11)} ${action.controlId}${target === '' ? '' : `  ${target}`}  by ${action.by}: ${action.comment}`;
+}
+
+/** Who did it: --by, else the OS user. */
+function actor(by: string | undefined): string {
+  if (by !== undefined && by.trim() !== '') return by.trim();
+  try {
+    return userInfo().username;
+  } catch {
+    throw new ConfigInvalid('cannot tell who is acting: the OS user is unknown', { hint: 'Pass --by NAME.' });
+  }
+}
+
 /** One text line per simulated alert. */
 function formatAlertLine(alert: SimulatedAlert): string {
   const tag = alert.type === 'recovery' ? 'RECOVERED' : alert.severity.toUpperCase();
@@ -197,14 +242,30 @@ export const rulesCommand: CommandModule = {
     ).action((options: { history: string; rules?: string; json?: boolean; config?: string }) => {
       const config = options.config === undefined ? undefined : configFromOptions(options);
       const ruleSet = config === undefined ? loadRuleSetFile(options.rules) : effectiveRuleSet(config, options.rules);
-      const observations = observationsFromResultsDir(options.history, ruleSet);
+      // Actions recorded in the config's ledger (acknowledgements, exclusions, rebaselines) are shown,
+      // and excluded runs are left out of the replay as the pipeline leaves them out (issue 16.7).
+      const ledgerFile = config === undefined ? undefined : join(config.folders.state, 'ledger.sqlite');
+      let actions: QcAction[] = [];
+      let excluded = new Set<string>();
+      if (config !== undefined && ledgerFile !== undefined && existsSync(ledgerFile)) {
+        const ledger = openLedger(config.folders.state);
+        try {
+          actions = qcActions(ledger);
+          excluded = excludedSetIds(ledger);
+        } finally {
+          ledger.close();
+        }
+      }
+      const observations = observationsFromResultsDir(options.history, ruleSet).filter((observation) => !excluded.has(observation.setId));
       const alerts = simulateAlerts(observations, ruleSet);
       if (options.json === true) {
         for (const alert of alerts) process.stdout.write(`${JSON.stringify(alert)}\n`);
+        for (const action of actions) process.stdout.write(`${JSON.stringify({ type: 'action', ...action })}\n`);
         return;
       }
-      process.stdout.write(`replayed ${observations.length} QC observation(s); ${alerts.filter((a) => a.type === 'flag').length} flag(s), ${alerts.filter((a) => a.type === 'recovery').length} recovery notice(s)\n`);
-      for (const alert of alerts) process.stdout.write(`${formatAlertLine(alert)}\n`);
+      process.stdout.write(`replayed ${observations.length} QC observation(s)${excluded.size === 0 ? '' : ` (${excluded.size} excluded)`}; ${alerts.filter((a) => a.type === 'flag').length} flag(s), ${alerts.filter((a) => a.type === 'recovery').length} recovery notice(s)\n`);
+      for (const line of formatAlertLines(alerts)) process.stdout.write(`${line}\n`);
+      if (actions.length > 0) process.stdout.write(`actions:\n${actions.map((action) => `  ${formatActionLine(action)}`).join('\n')}\n`);
     });
 
     withConfigOption(
@@ -213,8 +274,10 @@ export const rulesCommand: CommandModule = {
         .description('start a new baseline for CONTROL from DATE: computed now from the ledger when enough runs exist, else from the next runs')
         .argument('<control>', 'control id')
         .requiredOption('--from <date>', 'first day of the new baseline (YYYY-MM-DD, UTC midnight, or an ISO date-time)')
-        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)'),
-    ).action((controlId: string, options: { from: string; rules?: string; config?: string }) => {
+        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .requiredOption('--comment <text>', 'why (recorded with who and when)')
+        .option('--by <name>', 'who (default: the OS user)'),
+    ).action((controlId: string, options: { from: string; rules?: string; config?: string; comment: string; by?: string }) => {
       const config = configFromOptions(options);
       const ruleSet = effectiveRuleSet(config, options.rules);
       const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
@@ -226,9 +289,21 @@ export const rulesCommand: CommandModule = {
       const fromIso = new Date(fromMs).toISOString();
       const ledger = openLedger(config.folders.state);
       try {
-        const runs = observationHistory(ledger, [controlId]).filter((o) => (parseIsoToEpochMs(o.acquiredAt) ?? -Infinity) >= fromMs);
+        const excluded = excludedSetIds(ledger);
+        const runs = observationHistory(ledger, [controlId]).filter((o) => (parseIsoToEpochMs(o.acquiredAt) ?? -Infinity) >= fromMs && !excluded.has(o.setId));
         const createdAt = new Date().toISOString();
+        const by = actor(options.by);
+        const outcome: Record<string, unknown> = {};
         for (const metric of chartMetrics(ruleSet, controlId)) {
+          const declared = control.targets[metric];
+          if (declared !== undefined) {
+            // The truth: a declared target wins over any baseline (docs/qc.md), so none is stored for it.
+            outcome[metric] = { declared };
+            process.stdout.write(
+              `${controlId} ${metricLabel(metric)}: not rebaselined — the config declares target ${declared.mean} ± ${declared.sd}, which the charts keep judging against (remove the target to judge against a baseline)\n`,
+            );
+            continue;
+          }
           const points = runs.filter((o) => o.metrics[metric] !== undefined).slice(0, control.baselineRuns);
           const values = points.map((o) => o.metrics[metric] ?? 0);
           const established = points.length >= control.baselineRuns ? establishBaseline(values, control.baselineExcludeBeyondSd) : undefined;
@@ -237,13 +312,74 @@ export const rulesCommand: CommandModule = {
             ? { controlId, metric, fromIso }
             : { controlId, metric, fromIso, mean: established.mean, sd: established.sd, runs: established.runs, throughIso: through };
           ledger.transaction(() => saveBaseline(ledger, record, createdAt));
+          outcome[metric] = established === undefined ? { fromIso, runsSoFar: points.length } : { mean: established.mean, sd: established.sd, runs: established.runs };
           process.stdout.write(
             established === undefined
               ? `${controlId} ${metricLabel(metric)}: new baseline starts ${fromIso}; ${points.length} of ${control.baselineRuns} runs so far, charts resume after ${control.baselineRuns}\n`
               : `${controlId} ${metricLabel(metric)}: baseline mean ${Number(established.mean.toPrecision(6))}, SD ${Number(established.sd.toPrecision(4))} from ${established.runs} runs (${fromIso} to ${through})\n`,
           );
         }
-        process.stdout.write(`${baselineRecords(ledger).filter((r) => r.controlId === controlId).length} baseline record(s) stored for ${controlId}\n`);
+        ledger.transaction(() => {
+          recordAction(ledger, { action: 'rebaseline', controlId, comment: options.comment, by, atIso: createdAt, detail: { fromIso, excludedRuns: [...excluded], metrics: outcome } });
+        });
+        process.stdout.write(`${baselineRecords(ledger).filter((r) => r.controlId === controlId).length} baseline record(s) stored for ${controlId}; recorded: rebaseline by ${by}: ${options.comment}\n`);
+      } finally {
+        ledger.close();
+      }
+    });
+
+    withConfigOption(
+      rules
+        .command('ack')
+        .description('acknowledge the flags of a run (or one rule of it) with a comment: they close and stay in the history with who, when and why')
+        .argument('<set>', 'set id of the flagged run')
+        .requiredOption('--comment <text>', 'why (recorded with who and when)')
+        .option('--rule <id>', 'only this rule\'s flags')
+        .option('--by <name>', 'who (default: the OS user)'),
+    ).action((setId: string, options: { comment: string; rule?: string; by?: string; config?: string }) => {
+      const config = configFromOptions(options);
+      const ledger = openLedger(config.folders.state);
+      try {
+        const run = observationHistory(ledger).find((observation) => observation.setId === setId);
+        if (run === undefined) throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, { hint: 'Use a set id from `driftlight rules simulate` or the result file name.' });
+        const key = options.rule === undefined ? undefined : `${options.rule}|${run.controlId}|`;
+        const atIso = new Date().toISOString();
+        const by = actor(options.by);
+        let marked = 0;
+        ledger.transaction(() => {
+          const id = recordAction(ledger, { action: 'acknowledge', controlId: run.controlId, setId, flagKey: options.rule, comment: options.comment, by, atIso, detail: {} });
+          if (key === undefined) marked = acknowledgeFlags(ledger, setId, undefined, id, atIso);
+          else for (const metric of Object.keys(run.metrics)) marked += acknowledgeFlags(ledger, setId, `${key}${metric}`, id, atIso);
+        });
+        process.stdout.write(`acknowledged ${marked} flag(s) of run ${setId} (${run.controlId}) by ${by}: ${options.comment}\n`);
+      } finally {
+        ledger.close();
+      }
+    });
+
+    withConfigOption(
+      rules
+        .command('exclude')
+        .description('leave a run out of the baseline and the charts (e.g. a known bad cuvette), recorded with who, when and why; `--include` takes it back')
+        .argument('<set>', 'set id of the run')
+        .requiredOption('--comment <text>', 'why (recorded with who and when)')
+        .option('--include', 'take a previously excluded run back')
+        .option('--by <name>', 'who (default: the OS user)'),
+    ).action((setId: string, options: { comment: string; include?: boolean; by?: string; config?: string }) => {
+      const config = configFromOptions(options);
+      const ledger = openLedger(config.folders.state);
+      try {
+        const run = observationHistory(ledger).find((observation) => observation.setId === setId);
+        if (run === undefined) throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, { hint: 'Use a set id from `driftlight rules simulate` or the result file name.' });
+        const by = actor(options.by);
+        const action = options.include === true ? 'include' : 'exclude';
+        ledger.transaction(() => {
+          recordAction(ledger, { action, controlId: run.controlId, setId, comment: options.comment, by, atIso: new Date().toISOString(), detail: { acquiredAt: run.acquiredAt } });
+        });
+        process.stdout.write(
+          `${action === 'exclude' ? 'excluded' : 'included'} run ${setId} (${run.controlId}, acquired ${run.acquiredAt}) by ${by}: ${options.comment}\n` +
+            `Charts use it from the next run on; run \`driftlight rules rebaseline ${run.controlId} --from DATE --comment …\` to recompute a baseline without it.\n`,
+        );
       } finally {
         ledger.close();
       }

@@ -23,6 +23,7 @@ import {
   type RuleSet,
 } from '../qc/index.js';
 import type { Ledger } from '../store/ledger.js';
+import { excludedSetIds } from '../store/qc-actions-store.js';
 import { closeClockFlagsCoveredBy, flagSignaturesOfSets, reconcileOpenFlags, replaceVerdictsOfSet, verdictKeysOfScopes } from '../store/qc-order-store.js';
 import {
   baselineRecords,
@@ -37,7 +38,7 @@ import {
 import { effectiveRuleSet } from './qc-rule-set.js';
 import type { ResultStage, ResultStageContext } from './result-stage.js';
 
-export { controlsFromConfig, defaultRuleSetFile, loadRuleSetFile, withConfigControls } from './qc-rule-set.js';
+export { controlsFromConfig, defaultRuleSetFile, effectiveRuleSet, loadRuleSetFile, withConfigControls } from './qc-rule-set.js';
 
 /** A rules-engine flag in the result's qc.flags form (same severities: info, warning, critical). */
 export function toResultFlag(flag: QcFlag): ResultQcFlag {
@@ -92,7 +93,9 @@ export function createQcStage(options: QcStageOptions): QcStage {
         // derive open alarms from the newest deciding verdicts, so arrival order changes nothing.
         const openBefore = openFlags(ledger, scopes);
         recordObservation(ledger, observation);
-        const all = observationHistory(ledger);
+        // Runs excluded by `rules exclude` (a known bad cuvette) leave the baseline and the charts (issue 16.7).
+        const excluded = excludedSetIds(ledger);
+        const all = observationHistory(ledger).filter((run) => !excluded.has(run.setId) || run.setId === observation.setId);
         const judged = judgeFrom(observation, all, ruleSet, baselineRecords(ledger));
         const known = flagSignaturesOfSets(ledger, judged.map((run) => run.observation.setId));
         for (const run of judged) {

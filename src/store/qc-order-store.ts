@@ -40,7 +40,7 @@ export function verdictKeysOfScopes(ledger: Ledger, scopes: readonly string[]): 
  */
 export function reconcileOpenFlags(ledger: Ledger, keys: readonly string[], nowIso: string): { closed: string[]; opened: string[] } {
   const state = openStateFromVerdicts(verdictsOf(ledger, keys));
-  const select = ledger.database.prepare("SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE flag_key = ? AND set_id != ''");
+  const select = ledger.database.prepare("SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE flag_key = ? AND set_id != '' AND acknowledged_action_id IS NULL");
   const setOpen = ledger.database.prepare('UPDATE qc_flags SET open = 1, recovered_at = NULL WHERE id = ?');
   const setClosed = ledger.database.prepare('UPDATE qc_flags SET open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE id = ?');
   const closed: string[] = [];

@@ -3,9 +3,11 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { createQcStage, effectiveRuleSet } from '../../src/pipeline/qc-stage.js';
+import { loadConfig } from '../../src/config/load.js';
 import { observationFromResult } from '../../src/qc/index.js';
 import { openLedger } from '../../src/store/ledger.js';
-import { baselineRecords, recordObservation } from '../../src/store/qc-store.js';
+import { baselineRecords, openFlags, recordObservation } from '../../src/store/qc-store.js';
 import { runDriftlight } from '../helpers/cli.js';
 import { BASELINE_YIELDS, controlResult, writeResults } from './rules-fixtures.js';
 
@@ -94,7 +96,7 @@ describe('driftlight rules rebaseline', () => {
     }
     ledger.close();
 
-    const run = runDriftlight(['rules', 'rebaseline', 'fluorescein-daily', '--from', '2026-04-01', '--config', configFile]);
+    const run = runDriftlight(['rules', 'rebaseline', 'fluorescein-daily', '--from', '2026-04-01', '--config', configFile, '--comment', 'new lamp', '--by', 'tester']);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
     // 2026-04-01 is day 30: the shifted runs, mean 0.925 − 0.02 = 0.905 (computed from BASELINE_YIELDS).
@@ -108,8 +110,62 @@ describe('driftlight rules rebaseline', () => {
   });
 
   it('exits 2 for an unknown control', () => {
-    const run = runDriftlight(['rules', 'rebaseline', 'no-such-control', '--from', '2026-04-01', '--config', join(workDir, 'driftlight.yaml')]);
+    const run = runDriftlight(['rules', 'rebaseline', 'no-such-control', '--from', '2026-04-01', '--config', join(workDir, 'driftlight.yaml'), '--comment', 'x']);
     expect(run.status).toBe(2);
     expect(run.stderr).toContain('no control "no-such-control"');
+  });
+});
+
+describe('alarm handling (issue 16.7)', () => {
+  const dir = join(workDir, 'handling');
+  const stateDir = join(dir, 'state');
+  const resultsDir = join(dir, 'results');
+  const configFile = join(workDir, 'handling.yaml');
+  // The lab is in Auckland (UTC+13 in March): runs at 08:00 UTC are 21:00 local, after the 10:00 due time.
+  writeFileSync(
+    configFile,
+    `folders: { state: ${stateDir} }\nrules: { timeZone: Pacific/Auckland }\ncontrols:\n  - { id: fluorescein-daily, sampleIdPattern: "^CTRL-FLU", targetTauNs: 4.0, sdTauNs: 0.1 }\n`,
+  );
+  const results = [...BASELINE_YIELDS.map((value, day) => controlResult(day, value)), controlResult(20, 0.9)];
+  writeResults(resultsDir, results);
+
+  it('acknowledges a flag and excludes a run with who, when and why, shown by rules simulate', async () => {
+    const config = loadConfig(configFile);
+    const stage = createQcStage({ ruleSet: effectiveRuleSet(config) });
+    const ledger = openLedger(stateDir);
+    for (const result of results) await stage.apply(result, { ledger, now: new Date(result.acquiredAt ?? 0) });
+    ledger.close();
+
+    const ack = runDriftlight(['rules', 'ack', 'ctrl-020', '--rule', 'yield-westgard', '--comment', 'air bubble in the cuvette', '--by', 'dana', '--config', configFile]);
+    expect(ack.stderr).toBe('');
+    expect(ack.stdout).toMatch(/^acknowledged [1-9]\d* flag\(s\) of run ctrl-020 \(fluorescein-daily\) by dana: air bubble in the cuvette/);
+    const exclude = runDriftlight(['rules', 'exclude', 'ctrl-020', '--comment', 'bad cuvette', '--by', 'dana', '--config', configFile]);
+    expect(exclude.status).toBe(0);
+    expect(exclude.stdout).toContain('excluded run ctrl-020 (fluorescein-daily, acquired 2026-03-22T08:00:00.000Z) by dana: bad cuvette');
+
+    const reopened = openLedger(stateDir);
+    const stillOpen = openFlags(reopened, ['fluorescein-daily']).filter((flag) => flag.ruleId === 'yield-westgard');
+    reopened.close();
+    expect(stillOpen).toEqual([]);
+
+    const simulate = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--config', configFile]);
+    expect(simulate.stderr).toBe('');
+    const lines = simulate.stdout.trim().split('\n');
+    expect(lines[0]).toMatch(/^replayed 20 QC observation\(s\) \(1 excluded\)/);
+    expect(lines).toContainEqual(expect.stringMatching(/ACKNOWLEDGE fluorescein-daily {2}run ctrl-020, flag yield-westgard {2}by dana: air bubble in the cuvette$/));
+    expect(lines).toContainEqual(expect.stringMatching(/EXCLUDE +fluorescein-daily {2}run ctrl-020 {2}by dana: bad cuvette$/));
+    // control-missing judged in the config's zone, and its repeats summarised in one line.
+    const missing = lines.filter((line) => line.includes('control-missing'));
+    expect(missing).toHaveLength(1);
+    expect(missing[0]).toMatch(/control missing {2}fluorescein-daily {2}no control result by the due time on 14 days, 2026-03-02 to 2026-03-19/);
+  });
+
+  it('rebaseline tells the truth when a target is declared, and records who and why', () => {
+    const run = runDriftlight(['rules', 'rebaseline', 'fluorescein-daily', '--from', '2026-03-02', '--comment', 'new lamp', '--by', 'dana', '--config', configFile]);
+    expect(run.stderr).toBe('');
+    expect(run.stdout).toContain('fluorescein-daily mean lifetime: not rebaselined — the config declares target 4 ± 0.1, which the charts keep judging against');
+    // The yield has no declared target: its baseline is computed from the 20 runs (ctrl-020 excluded).
+    expect(run.stdout).toMatch(/fluorescein-daily control yield: baseline mean 0\.925, SD 0\.007847 from 20 runs/);
+    expect(run.stdout).toContain('recorded: rebaseline by dana: new lamp');
   });
 });
