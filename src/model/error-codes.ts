@@ -33,6 +33,7 @@ export const ERROR_CODES = {
   MANIFEST_INVALID: { kind: 'input', hint: 'Fix the set manifest (NAME.set.yaml); docs/pipeline.md describes its fields.' },
   DUPLICATE_INPUT: { kind: 'input', hint: 'This content was already processed; run `driftlight reprocess` to analyse it again.' },
   INPUT_MISSING: { kind: 'input', hint: 'An input of the set was moved or deleted before it was analysed; put it back in the inbox under a new name, or re-export it.' },
+  SYMLINK_REFUSED: { kind: 'input', hint: 'driftlight does not follow symbolic links (they may point outside the inbox); copy the file itself into the inbox, or set watch.symlinks: inside-inbox for links that resolve inside it.' },
   SET_FAILED: { kind: 'input', hint: 'The measurement set could not be analysed; see the message, fix the inputs and drop them in again.' },
   // Configuration (class ConfigInvalid: fix the config, then restart)
   CONFIG_INVALID: { kind: 'config', hint: 'Fix the named config path; `driftlight config check` validates a file.' },

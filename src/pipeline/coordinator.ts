@@ -339,8 +339,12 @@ export class Coordinator {
     const fileId = file.id ?? insertFileId(this.ledger, file, now);
     insertSet(this.ledger, { id, sampleId: manifest.sampleId, role: manifest.role, source: 'manifest', createdAt: now, deadlineAt: set.deadlineAt, manifestJson });
     assembleRecordedFile(this.ledger, fileId, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, id, now);
-    // Claim listed files already waiting in other open sets.
+    // Claim listed files already waiting in other open sets. Only plain sets give files up: a
+    // manifest set keeps what its own manifest lists, and lives until complete or timed out, even
+    // while it has no files yet (issue 20: a second manifest deleted the first's empty set).
     for (const other of this.openSets.all()) {
+      if (other.manifest !== undefined) continue;
+      let claimed = 0;
       for (const member of [...other.files]) {
         const listed = manifest.files.find((f) => f.file === member.name);
         if (listed === undefined || dirname(member.path) !== dir) continue;
@@ -349,8 +353,9 @@ export class Coordinator {
         this.ledger.prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?').run(id, listed.part, listed.role ?? null, member.fileId);
         other.files.splice(other.files.indexOf(member), 1);
         set.files.push({ ...member, part: listed.part });
+        claimed += 1;
       }
-      if (other.files.length === 0) {
+      if (claimed > 0 && other.files.length === 0) {
         deleteOpenSet(this.ledger, other.id);
         this.openSets.delete(other.id);
         touched.delete(other);

@@ -2,8 +2,8 @@
 // then read what set assembly needs (a data file's head, see sniff.ts, or a set manifest). Bad files
 // are quarantined with their reason.
 import { createHash } from 'node:crypto';
-import { closeSync, existsSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
-import { basename } from 'node:path';
+import { closeSync, existsSync, lstatSync, openSync, readFileSync, readlinkSync, readSync, realpathSync, renameSync, statSync } from 'node:fs';
+import { basename, relative, resolve, isAbsolute } from 'node:path';
 import { DriftlightError, InputRejected } from '../model/errors.js';
 import { ERROR_CODES } from '../model/error-codes.js';
 import type { ParsedData } from '../formats/index.js';
@@ -102,6 +102,12 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
   let sizeBytes: number;
   let modifiedMs: number;
   try {
+    const link = lstatSync(path, { throwIfNoEntry: false });
+    if (link === undefined) return { kind: 'gone' };
+    if (link.isSymbolicLink()) {
+      const refusal = takeLink(config, path);
+      if (refusal !== undefined) return rejectLink(ledger, config, path, refusal, now);
+    }
     const stat = statSync(path);
     if (!stat.isFile()) return { kind: 'gone' };
     sizeBytes = stat.size;
@@ -157,4 +163,61 @@ function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord
     rejectFile(ledger, config, record, error.withLocation(file.name), now);
     return { kind: 'rejected' };
   }
+}
+
+/** Whether `path` lies inside `folder` (both resolved). */
+function isInside(path: string, folder: string): boolean {
+  const rel = relative(folder, path);
+  return rel !== '' && !rel.startsWith('..') && !isAbsolute(rel);
+}
+
+/**
+ * Decides about a symbolic link in the inbox (watch.symlinks): returns why it is refused, or
+ * undefined once the file it points to (inside the inbox, `inside-inbox` only) has been renamed
+ * over the link, so that the file itself is taken, archived and hashed, never the link.
+ */
+function takeLink(config: DriftlightConfig, path: string): string | undefined {
+  let target = '?';
+  try {
+    target = readlinkSync(path);
+  } catch {
+    // Unreadable link: refused below with the target unknown.
+  }
+  let real: string;
+  try {
+    real = realpathSync(path);
+  } catch {
+    return `${basename(path)} is a symbolic link to ${target}, which does not exist (a dangling link)`;
+  }
+  if (config.watch.symlinks !== 'inside-inbox') {
+    return `${basename(path)} is a symbolic link (to ${target}); links are not followed (watch.symlinks: refuse), so nothing outside the inbox is read or moved`;
+  }
+  let inbox: string;
+  try {
+    inbox = realpathSync(config.folders.inbox);
+  } catch {
+    inbox = resolve(config.folders.inbox);
+  }
+  if (!isInside(real, inbox)) return `${basename(path)} is a symbolic link to ${real}, outside the inbox ${inbox}; only links resolving inside the inbox are taken (watch.symlinks: inside-inbox)`;
+  if (!statSync(real).isFile()) return `${basename(path)} is a symbolic link to the folder ${real}; links to folders are never followed`;
+  try {
+    renameSync(real, path);
+  } catch (error) {
+    return `${basename(path)} is a symbolic link to ${real}, which could not be moved in its place (${(error as NodeJS.ErrnoException).code ?? 'error'})`;
+  }
+  return undefined;
+}
+
+/** Records a refused symbolic link and quarantines the link itself (what it points to is left alone). */
+function rejectLink(ledger: Ledger, config: DriftlightConfig, path: string, reason: string, now: Date): IntakeResult {
+  let target = '';
+  try {
+    target = readlinkSync(path);
+  } catch {
+    // Gone meanwhile: recorded with an empty target.
+  }
+  const sha256 = createHash('sha256').update(`symlink\0${path}\0${target}`).digest('hex');
+  const file = ledger.transaction(() => insertFile(ledger, { sha256, path, name: basename(path), sizeBytes: 0 }, now));
+  rejectFile(ledger, config, file, new InputRejected('SYMLINK_REFUSED', reason, { file: basename(path) }), now);
+  return { kind: 'rejected' };
 }

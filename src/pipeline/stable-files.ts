@@ -1,7 +1,7 @@
 // Write-completion tracking for the event watcher: a file is reported once its size and mtime have
 // not changed for the stability window (so a file still being written is never read). Each file
 // costs one stat when it is touched and one when its quiet period ends, whatever the folder size.
-import { statSync } from 'node:fs';
+import { lstatSync } from 'node:fs';
 
 /** A file's size and modification time, as one stat read them. */
 export interface FileStat {
@@ -88,8 +88,9 @@ export class StableFiles {
 
 function statOrUndefined(path: string): FileStat | undefined {
   try {
-    const stat = statSync(path);
-    return stat.isFile() ? { sizeBytes: stat.size, mtimeMs: stat.mtimeMs } : undefined;
+    // lstat: a symbolic link is judged as the link (intake refuses or resolves it), never followed here.
+    const stat = lstatSync(path);
+    return stat.isFile() || stat.isSymbolicLink() ? { sizeBytes: stat.size, mtimeMs: stat.mtimeMs } : undefined;
   } catch {
     return undefined;
   }

@@ -51,11 +51,15 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   };
 
   type Kind = { kind: 'file'; stat: FileStat } | { kind: 'folder'; identity: string } | { kind: 'gone' | 'other' };
-  const kindOf = (path: string): Kind => {
+  const kindOf = (path: string, isRoot = false): Kind => {
     try {
       // A path gone is the usual answer here (every input moved out of the inbox raises an event):
       // no exception for it, which costs several times the lstat itself.
       const link = lstatSync(path, { throwIfNoEntry: false });
+      // A symbolic link below the inbox is never followed (it may lead outside): it is reported as
+      // a file of its own, and intake refuses it or takes what it points to (watch.symlinks). Only
+      // the inbox itself may be a link (a configured path).
+      if (link?.isSymbolicLink() === true && !isRoot) return { kind: 'file', stat: { sizeBytes: link.size, mtimeMs: link.mtimeMs } };
       const target = link?.isSymbolicLink() === true ? statSync(path, { throwIfNoEntry: false }) : link;
       if (target === undefined) return { kind: 'gone' };
       if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
@@ -67,7 +71,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
 
   /** Looks at one path named by an event or a listing: follows new folders, tracks files. */
   const examine = (path: string, isRoot = false): void => {
-    const found = kindOf(path);
+    const found = kindOf(path, isRoot);
     if (found.kind === 'gone') {
       stable.forget(path);
       reported.delete(path);
@@ -143,7 +147,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
       }
     };
     for (const [dir, { identity }] of [...folders]) {
-      const now = kindOf(dir);
+      const now = kindOf(dir, dir === inboxDir);
       if (now.kind !== 'folder' || now.identity !== identity) unwatchFolder(dir);
     }
     if (folders.has(inboxDir)) walk(inboxDir);

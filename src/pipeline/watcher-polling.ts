@@ -13,6 +13,9 @@ export function watchInboxByPolling(inboxDir: string, options: WatchConfig, even
     persistent: true,
     ignoreInitial: false,
     usePolling: true,
+    // Links are not followed (they may lead outside the inbox): each is reported as a file, and
+    // intake refuses it or takes what it points to (watch.symlinks).
+    followSymlinks: false,
     interval: options.pollIntervalMs,
     awaitWriteFinish: { stabilityThreshold: options.stabilityWindowMs, pollInterval: options.pollIntervalMs },
     ignored: (path, stats) => {

@@ -11,6 +11,8 @@ export const watchSection = z
       .describe('How often `watch` re-lists the inbox tree (files whose OS events were lost), takes again files whose intake failed, and finishes file moves that had failed, in ms. Default: 30000'),
     usePolling: z.boolean().default(false)
       .describe('Poll the folder instead of using OS events (network shares). Default: false'),
+    symlinks: z.enum(['refuse', 'inside-inbox']).default('refuse')
+      .describe('Symbolic links in the inbox: `refuse` quarantines every link (the link itself; what it points to is never read or moved); `inside-inbox` takes a link to a file whose real path lies inside the inbox as that file (the link is removed) and refuses the others. Links to folders are never followed. Default: refuse'),
     ignoreGlobs: z.array(z.string()).default([])
       .describe('Extra file-name patterns to ignore (* and ? wildcards) on top of hidden and temporary files. Default: []'),
   })
