@@ -2,7 +2,9 @@
 // the option table (the generated part of docs/configuration.md).
 import type { Command } from 'commander';
 import { configOptionsMarkdown } from '../config/options-table.js';
+import { DriftlightError } from '../model/errors.js';
 import { effectiveRuleSet } from '../pipeline/qc-rule-set.js';
+import { missingFolders } from '../pipeline/runtime.js';
 import { ruleSetWarnings } from '../qc/index.js';
 import type { CommandModule } from './command-module.js';
 import { formatControls } from './rules.js';
@@ -14,6 +16,13 @@ export const configCommand: CommandModule = {
     withConfigOption(config.command('check').description('validate the config (exit 2 with the bad path if invalid)')).action(
       (options: { config?: string }) => {
         const resolved = configFromOptions(options);
+        const missing = missingFolders(resolved);
+        if (missing.length > 0) {
+          throw new DriftlightError('FOLDER_MISSING', `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist: \`watch\` would refuse to start`, {
+            file: resolved.configFile ?? '(defaults)',
+            hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config.',
+          });
+        }
         const ruleSet = effectiveRuleSet(resolved);
         const warnings = ruleSetWarnings(ruleSet);
         process.stdout.write(

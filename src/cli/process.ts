@@ -31,7 +31,7 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
   const config = configFromOptions(options);
   for (const p of paths) if (!existsSync(p)) throw new ConfigInvalid(`no such file or folder: ${p}`, { hint: 'Pass existing files or folders to `driftlight process`.' });
   const logger = createLogger({ ...config.logging, stdout: options.verbose === true ? config.logging.stdout : 'off' }, config.logFile);
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger });
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger, command: 'process' });
   const { coordinator } = pipeline;
   try {
     await coordinator.recover();

@@ -1,4 +1,5 @@
 // Turns any thrown value into the one-line user message and the exit code; no stack trace for users.
+import { ERROR_CODES } from '../model/error-codes.js';
 import { AnalysisFailed, DriftlightError, InputRejected } from '../model/errors.js';
 import { EXIT_CODES } from './exit-codes.js';
 
@@ -7,7 +8,7 @@ export function reportError(error: unknown, stderr: NodeJS.WritableStream = proc
   if (error instanceof DriftlightError) {
     stderr.write(`${error.toUserLine()}\n  hint: ${error.hint}\n`);
     if (error instanceof InputRejected || error instanceof AnalysisFailed) return EXIT_CODES.rejected.code;
-    return error.code === 'CONFIG_INVALID' ? EXIT_CODES.usage.code : EXIT_CODES.internal.code;
+    return ERROR_CODES[error.code].kind === 'config' ? EXIT_CODES.usage.code : EXIT_CODES.internal.code;
   }
   const message = error instanceof Error ? error.message : String(error);
   stderr.write(`INTERNAL: ${message}\n  hint: this is a driftlight bug; rerun with DRIFTLIGHT_DEBUG=1 for the stack trace and report it.\n`);

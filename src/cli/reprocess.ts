@@ -26,7 +26,7 @@ export async function runReprocess(options: { config?: string; since: string }, 
   if (Number.isNaN(since.getTime())) throw new ConfigInvalid(`--since "${options.since}" is not a date`, { hint: 'Give an ISO date such as 2026-03-14 or 2026-03-14T08:00:00Z.' });
   const config = configFromOptions(options);
   const logger = createLogger({ ...config.logging, stdout: 'off' }, config.logFile);
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger });
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger, command: 'reprocess' });
   const { coordinator, ledger } = pipeline;
   try {
     const sets = finishedSetsSince(ledger, since).filter((s) => s.state === 'done' && s.resultPath !== null);

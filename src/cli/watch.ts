@@ -6,7 +6,7 @@ import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import { reopenLogFiles } from '../output/logger.js';
 import { batchStableFiles } from '../pipeline/intake-batcher.js';
-import { openPipeline } from '../pipeline/runtime.js';
+import { missingFolders, openPipeline, requiredFolders } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
@@ -19,7 +19,7 @@ const CLOCK_CHECK_INTERVAL_MS = 60_000;
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
 export async function runWatch(options: ConfigCliOptions, stop: Promise<string>): Promise<void> {
   const config = configFromOptions(options);
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion() });
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), command: 'watch', requireFolders: requiredFolders(config) });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
   const digestSchedule = startWatchDigest(pipeline);
@@ -34,7 +34,24 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   const intake = async (paths: readonly string[]): Promise<void> => {
     for (const path of await coordinator.intakeMany(paths)) intakeAgain.add(path);
   };
+  // The inbox or results folder vanishing while running (a share unmounted) is an error logged once
+  // per rescan interval while it lasts; dispatch pauses (results would land in a new local folder)
+  // and everything resumes by itself when the folder is back.
+  let foldersMissing: string[] = [];
+  const checkFolders = (): boolean => {
+    const missing = missingFolders(config);
+    if (missing.length > 0) {
+      logger.error({ alert: 'folder-missing', folders: missing, retryInMs: config.watch.rescanIntervalMs }, `${missing.join(' and ')} missing (unmounted share?); dispatch paused, checked again every watch.rescanIntervalMs`);
+      coordinator.holdDispatch = true;
+    } else if (foldersMissing.length > 0) {
+      logger.warn({ folders: foldersMissing }, 'missing folders are back; resuming');
+      coordinator.holdDispatch = false;
+    }
+    foldersMissing = missing;
+    return missing.length === 0;
+  };
   const retryTimer = setInterval(() => {
+    if (!checkFolders()) return;
     const paths = [...intakeAgain].filter((path) => existsSync(path));
     intakeAgain.clear();
     if (paths.length > 0) serial(() => intake(paths));

@@ -13,6 +13,8 @@ export type DriftlightConfig = DriftlightConfigParsed & {
   readonly baseDir: string;
   /** Absolute path of the log file. */
   readonly logFile: string;
+  /** The folders the config file names itself (`folders.*` keys present), as opposed to defaults beside it. */
+  readonly configuredFolders: readonly string[];
 };
 
 /** Formats a zod issue path as `controls[0].targetYield`. */
@@ -78,5 +80,7 @@ export function resolveConfig(raw: unknown, options: { baseDir: string; configFi
   };
   const rules = { ...config.rules, ...(config.rules.file === undefined ? {} : { file: abs(config.rules.file) }) };
   const logFile = isAbsolute(config.logging.file) ? config.logging.file : join(folders.state, config.logging.file);
-  return deepFreeze({ ...config, folders, instrument, rules, configFile: options.configFile, baseDir, logFile });
+  const rawFolders = (raw as { folders?: unknown } | null | undefined)?.folders;
+  const configuredFolders = typeof rawFolders === 'object' && rawFolders !== null ? Object.keys(rawFolders) : [];
+  return deepFreeze({ ...config, folders, instrument, rules, configFile: options.configFile, baseDir, logFile, configuredFolders });
 }

@@ -36,6 +36,8 @@ export const ERROR_CODES = {
   SYMLINK_REFUSED: { kind: 'input', hint: 'driftlight does not follow symbolic links (they may point outside the inbox); copy the file itself into the inbox, or set watch.symlinks: inside-inbox for links that resolve inside it.' },
   SET_FAILED: { kind: 'input', hint: 'The measurement set could not be analysed; see the message, fix the inputs and drop them in again.' },
   // Configuration (class ConfigInvalid: fix the config, then restart)
+  ALREADY_RUNNING: { kind: 'config', hint: 'Another driftlight instance holds the state folder; stop it, or give this one its own folders.state.' },
+  FOLDER_MISSING: { kind: 'config', hint: 'The folder does not exist (an unmounted share?); mount or create it, or fix folders.* in the config.' },
   CONFIG_INVALID: { kind: 'config', hint: 'Fix the named config path; `driftlight config check` validates a file.' },
   // Transient (class Transient: retried with backoff)
   TRANSIENT: { kind: 'transient', hint: 'A temporary failure; it will be retried automatically.' },

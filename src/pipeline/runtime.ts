@@ -1,6 +1,7 @@
 // Wires one pipeline instance: ledger, logger, job queue (createJobQueue with the config's queue
 // section and workers/analyze-job.js as processor) and the coordinator. Used by the CLI commands.
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { DriftlightError } from '../model/errors.js';
 import type { Logger } from 'pino';
 import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
 import type { DriftlightConfig } from '../config/resolve.js';
@@ -10,6 +11,7 @@ import { createJobQueue } from '../queue/index.js';
 import type { JobQueue } from '../queue/job-queue.js';
 import { openLedger, type Ledger } from '../store/ledger.js';
 import { Coordinator } from './coordinator.js';
+import { acquireInstanceLock } from './instance-lock.js';
 import type { ResultStage } from './result-stage.js';
 import { defaultResultStages } from './stage-table.js';
 
@@ -33,14 +35,54 @@ export interface Pipeline {
   close(): Promise<void>;
 }
 
-/** Opens the pipeline for `config`: creates folders, opens the ledger, starts the queue; stages default to the stage table. */
+type FolderName = keyof DriftlightConfig['folders'];
+
+/**
+ * Folders that must exist before `watch` starts, so an unmounted share is not replaced by a new
+ * empty folder: the inbox, and the results folder when the config names it (the default `results`
+ * beside the config file is driftlight's own and is created).
+ */
+export function requiredFolders(config: DriftlightConfig): FolderName[] {
+  return config.configuredFolders.includes('results') ? ['inbox', 'results'] : ['inbox'];
+}
+
+/** The folders among `names` that are missing (or not folders), as `folders.NAME (path)`. */
+export function missingFolders(config: DriftlightConfig, names: readonly FolderName[] = requiredFolders(config)): string[] {
+  return names.filter((name) => {
+    try {
+      return !statSync(config.folders[name]).isDirectory();
+    } catch {
+      return true;
+    }
+  }).map((name) => `folders.${name} (${config.folders[name]})`);
+}
+
+/**
+ * Opens the pipeline for `config`: takes the state folder's instance lock, creates the other
+ * folders (`requireFolders` must exist already: FOLDER_MISSING), opens the ledger, starts the
+ * queue; stages default to the stage table.
+ */
 export function openPipeline(
   config: DriftlightConfig,
-  options: { softwareVersion: string; stages?: readonly ResultStage[]; logger?: Logger; clock?: () => Date },
+  options: { softwareVersion: string; stages?: readonly ResultStage[]; logger?: Logger; clock?: () => Date; command?: string; requireFolders?: readonly FolderName[] },
 ): Pipeline {
+  const missing = missingFolders(config, options.requireFolders ?? []);
+  if (missing.length > 0) {
+    throw new DriftlightError('FOLDER_MISSING', `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist; not started (it is not created, so an unmounted share is not replaced by an empty folder)`, {
+      hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config; `driftlight config check` lists the folders.',
+    });
+  }
+  mkdirSync(config.folders.state, { recursive: true });
+  const lock = acquireInstanceLock(config.folders.state, options.command ?? 'pipeline');
   for (const dir of Object.values(config.folders)) mkdirSync(dir, { recursive: true });
   const logger = options.logger ?? createLogger(config.logging, config.logFile);
-  const ledger = openLedger(config.folders.state);
+  let ledger: Ledger;
+  try {
+    ledger = openLedger(config.folders.state);
+  } catch (error) {
+    lock.release();
+    throw error;
+  }
   const q = config.queue;
   const queue = createJobQueue<AnalysisJobPayload, AnalysisOutput>({
     processorFile: ANALYZE_PROCESSOR_URL,
@@ -86,6 +128,7 @@ export function openPipeline(
       await Promise.all(stages.map((stage) => stage.idle?.()));
       logger.debug('stages idle');
       ledger.close();
+      lock.release();
       logger.debug('ledger closed');
       // Bounded: a flush callback that never fires must not keep the process from exiting.
       await new Promise<void>((resolve) => {

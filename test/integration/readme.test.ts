@@ -1,6 +1,6 @@
 // The README cannot drift: its example commands run against the real CLI, its three-line config
 // validates, and its exit-code table matches the one the CLI prints.
-import { cpSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { cpSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { EXIT_CODES } from '../../src/cli/exit-codes.js';
@@ -45,6 +45,8 @@ describe('README', () => {
     const folder = tempDir('driftlight-readme-');
     const file = join(folder, 'driftlight.yaml');
     writeFileSync(file, config.replace('/data/fluorometer-exports', join(folder, 'inbox')));
+    // The inbox must exist (an unmounted share is refused, not created).
+    mkdirSync(join(folder, 'inbox'));
     const run = runDriftlight(['config', 'check', '--config', file]);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
