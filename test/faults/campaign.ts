@@ -1,0 +1,191 @@
+// The fault campaign (issue 20): `driftlight watch` as a real process, killed with SIGKILL at seeded
+// random moments and restarted, with storage outages (the results folder replaced by a file for a
+// while), while sets arrive: plain sets, one in five declared by a manifest (written before or
+// after its files), symbolic links to files outside the inbox (to be refused, never followed), and
+// slow writers (files appended in pieces, each pause shorter than the stability window). At the end
+// one clean run drains everything, and the campaign counts what happened: every set must have
+// exactly one result (lost 0, duplicated 0), nothing may stay in the inbox or the ledger unfinished
+// (stuck 0), every link must be quarantined and its target left alone.
+import { spawnSync, type ChildProcess } from 'node:child_process';
+import { appendFileSync, existsSync, mkdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { seededRandom } from '../../src/demo/synthetic.js';
+import { blockFolder, unblockFolder } from '../helpers/blocked-folder.js';
+import { CLI_PATH } from '../helpers/cli.js';
+import { generateSet, listFiles, makeWorkspace, readResults, startWatch, stopWatch, waitFor, type GeneratedSet } from '../integration/pipeline-helpers.js';
+
+export interface CampaignOptions {
+  readonly sets: number;
+  /** SIGKILL restarts while sets arrive. */
+  readonly kills: number;
+  /** Storage outages (results folder gone for `outageMs`). */
+  readonly outages: number;
+  readonly outageMs: number;
+  readonly seed: number;
+  /** Sets written per step (a step every 100 ms). */
+  readonly setsPerStep: number;
+  /** How long the final drain may take, in ms. */
+  readonly drainTimeoutMs: number;
+}
+
+/** One row of the campaign table. */
+export interface CampaignRow {
+  readonly faultsInjected: number;
+  readonly kills: number;
+  readonly outages: number;
+  readonly sets: number;
+  readonly manifestSets: number;
+  readonly slowWriterSets: number;
+  readonly symlinks: number;
+  readonly results: number;
+  readonly lost: number;
+  readonly duplicated: number;
+  readonly stuck: number;
+  /** Links not quarantined, or whose target was moved or changed. */
+  readonly linksFollowed: number;
+  readonly seconds: number;
+}
+
+const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
+
+interface PlannedSet {
+  readonly set: GeneratedSet;
+  readonly kind: 'plain' | 'manifest-first' | 'manifest-last' | 'slow';
+}
+
+function manifestText(set: GeneratedSet): string {
+  const part = (name: string): string => (name.includes('-e.') ? 'emission' : name.includes('-a.') ? 'absorbance' : 'decay');
+  return [`sampleId: ${set.sampleId}`, 'role: sample', 'files:', ...set.files.map((f) => `  - { file: ${f.name}, part: ${part(f.name)} }`), ''].join('\n');
+}
+
+/** Runs the campaign in a fresh workspace and returns its row (and the workspace, for inspection). */
+export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; dir: string }> {
+  const startedAt = Date.now();
+  const dir = makeWorkspace('', { stabilityWindowMs: 400, setTimeoutMs: 600_000 });
+  const inbox = join(dir, 'inbox');
+  const results = join(dir, 'results');
+  const outside = join(dir, 'outside');
+  mkdirSync(outside);
+  const random = seededRandom(options.seed);
+  const planned: PlannedSet[] = Array.from({ length: options.sets }, (_u, i) => {
+    const id = `camp-${String(i).padStart(4, '0')}`;
+    const roll = i % 5;
+    // One in five by manifest (alternately before and after its files), one in five slow.
+    if (roll === 1) return { set: generateSet(id, 5000 + i, { nameStyle: 'opaque' }), kind: i % 10 === 1 ? 'manifest-first' : 'manifest-last' };
+    if (roll === 3) return { set: generateSet(id, 5000 + i), kind: 'slow' };
+    return { set: generateSet(id, 5000 + i), kind: 'plain' };
+  });
+  const links: { link: string; target: string; content: string }[] = [];
+  const slowWrites: Promise<void>[] = [];
+  let next = 0;
+
+  const writeSlowly = async (path: string, content: string): Promise<void> => {
+    const pieces = 4;
+    const size = Math.ceil(content.length / pieces);
+    writeFileSync(path, content.slice(0, size));
+    for (let p = 1; p < pieces; p++) {
+      await sleep(40);
+      appendFileSync(path, content.slice(p * size, (p + 1) * size));
+    }
+  };
+
+  const writeSome = (count: number): void => {
+    for (const { set, kind } of planned.slice(next, next + count)) {
+      if (kind === 'manifest-first') writeFileSync(join(inbox, `${set.sampleId}.set.yaml`), manifestText(set));
+      for (const f of set.files) {
+        if (kind === 'slow') slowWrites.push(writeSlowly(join(inbox, f.name), f.content));
+        else writeFileSync(join(inbox, f.name), f.content);
+      }
+      if (kind === 'manifest-last') writeFileSync(join(inbox, `${set.sampleId}.set.yaml`), manifestText(set));
+      // One link in ten sets, to a file outside the inbox: refused, its target left alone.
+      if (next % 10 === 7) {
+        const target = join(outside, `${set.sampleId}-outside.csv`);
+        const content = set.files[0]?.content ?? '';
+        writeFileSync(target, content);
+        const link = join(inbox, `${set.sampleId}-link.csv`);
+        symlinkSync(target, link);
+        links.push({ link, target, content });
+      }
+      next += 1;
+    }
+  };
+
+  // Fault schedule: kills and outages at seeded moments while the sets arrive.
+  const faults: ('kill' | 'outage')[] = [...Array<'kill'>(options.kills).fill('kill'), ...Array<'outage'>(options.outages).fill('outage')];
+  for (let i = faults.length - 1; i > 0; i--) {
+    const j = Math.floor(random.nextUniform() * (i + 1));
+    [faults[i], faults[j]] = [faults[j] as 'kill' | 'outage', faults[i] as 'kill' | 'outage'];
+  }
+  let child: ChildProcess = startWatch(dir);
+  for (const fault of faults) {
+    const waitMs = 500 + Math.floor(random.nextUniform() * 2000);
+    const started = Date.now();
+    while (Date.now() - started < waitMs) {
+      if (next < planned.length) writeSome(options.setsPerStep);
+      await sleep(100);
+    }
+    if (fault === 'kill') {
+      child.kill('SIGKILL');
+      await new Promise((r) => child.once('exit', r));
+      child = startWatch(dir);
+    } else {
+      blockFolder(results);
+      await sleep(options.outageMs);
+      unblockFolder(results);
+    }
+  }
+  while (next < planned.length) {
+    writeSome(options.setsPerStep);
+    await sleep(100);
+  }
+  await Promise.all(slowWrites);
+  // Stop the last faulted run cleanly (it may have been started a moment ago) and drain in one clean run.
+  await sleep(1000);
+  await stopWatch(child);
+  const logPath = join(dir, 'state', 'driftlight.log');
+  const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
+  const before = watchingLines();
+  const final = startWatch(dir);
+  const expectedIds = new Set(planned.map((p) => p.set.sampleId));
+  try {
+    await waitFor('the final watch to start', () => watchingLines() > before, 60_000);
+    await waitFor('every set to have a result and the inbox to be empty', () => {
+      const have = new Set(readResults(dir).map((r) => r.result.sampleId));
+      return [...expectedIds].every((id) => have.has(id)) && listFiles(inbox).length === 0;
+    }, options.drainTimeoutMs, 250).catch(() => undefined);
+    await sleep(500);
+  } finally {
+    await stopWatch(final);
+  }
+  const found = readResults(dir);
+  const bySample = new Map<string, number>();
+  for (const r of found) bySample.set(r.result.sampleId, (bySample.get(r.result.sampleId) ?? 0) + 1);
+  const lost = [...expectedIds].filter((id) => !bySample.has(id)).length;
+  // Extra results for a set, and results under a sample id no set has (invented ids).
+  const duplicated = [...bySample.entries()].reduce((n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count), 0);
+  const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], { encoding: 'utf8' });
+  const parsed = JSON.parse(status.stdout) as { sets: Record<string, number> };
+  const unfinished = (parsed.sets['open'] ?? 0) + (parsed.sets['queued'] ?? 0);
+  const stuck = listFiles(inbox).length + unfinished;
+  const quarantined = new Set(listFiles(join(dir, 'quarantine')).map((p) => p.split('/').pop()));
+  const linksFollowed = links.filter(({ link, target, content }) => {
+    const name = link.split('/').pop() ?? '';
+    return !quarantined.has(name) || !existsSync(target) || readFileSync(target, 'utf8') !== content;
+  }).length;
+  const row: CampaignRow = {
+    faultsInjected: faults.length, kills: options.kills, outages: options.outages,
+    sets: planned.length,
+    manifestSets: planned.filter((p) => p.kind.startsWith('manifest')).length,
+    slowWriterSets: planned.filter((p) => p.kind === 'slow').length,
+    symlinks: links.length,
+    results: found.length, lost, duplicated, stuck, linksFollowed,
+    seconds: Math.round((Date.now() - startedAt) / 1000),
+  };
+  return { row, dir };
+}
+
+/** The row as a Markdown table (header + one line). */
+export function campaignTable(row: CampaignRow): string {
+  const keys = Object.keys(row) as (keyof CampaignRow)[];
+  return [`| ${keys.join(' | ')} |`, `| ${keys.map(() => '---').join(' | ')} |`, `| ${keys.map((k) => String(row[k])).join(' | ')} |`].join('\n');
+}
