@@ -1,81 +1,56 @@
-// `driftlight demo [--workspace DIR]`: copies the bundled example day (examples/day: invented
-// exports in several layouts, one malformed) into a fresh workspace (default ./workspace), runs
-// `process` over it with the embedded default engine, and prints where everything went and the key
-// numbers next to the generator's truth.
+// `driftlight demo [--keep DIR]`: a month of an invented lab's exports (src/demo/month.ts: faults
+// injected on known days) replayed through the real watch loop with an accelerated clock and a
+// local webhook receiver; prints one line per day, then a summary: sets, rejected files and why,
+// alerts with their days, where the results are. Without --keep the workspace is removed at the end.
 import type { Command } from 'commander';
-import { cpSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import type { AnalysisResult } from '../analysis/result.js';
-import type { DemoTruth } from '../demo/scenario.js';
-import { ConfigInvalid } from '../model/errors.js';
 import type { CommandModule } from './command-module.js';
+import { runDemoMonth, type DemoRunReport } from './demo-run.js';
 import { EXIT_CODES } from './exit-codes.js';
-import { runBatch } from './process.js';
 
-const EXAMPLE_DAY = fileURLToPath(new URL('../../../examples/day/', import.meta.url));
-const MARKER = '.driftlight-demo';
-
-function fmt(value: number | undefined, digits: number): string {
-  return value === undefined ? '—' : value.toPrecision(digits);
-}
-
-/** Prepares `dir` as a fresh demo workspace (refusing a non-empty folder that is not one). */
-export function prepareWorkspace(dir: string): void {
-  if (existsSync(dir) && readdirSync(dir).length > 0) {
-    if (!existsSync(join(dir, MARKER))) {
-      throw new ConfigInvalid(`the workspace ${dir} exists and is not a driftlight demo workspace`, { hint: 'Pass an empty or new folder with --workspace.' });
-    }
-    rmSync(dir, { recursive: true, force: true });
+/** The summary printed after the replay. */
+export function demoSummary(report: DemoRunReport, kept: boolean): string {
+  const lines: string[] = [];
+  const { truth } = report.month;
+  lines.push('', `driftlight demo: ${truth.lab}, ${report.month.arrivals.length} files over 30 days, replayed in ${(report.elapsedMs / 1000).toFixed(1)} s`);
+  lines.push(`sets processed: ${report.setsProcessed} (${report.setsPartial} partial: a part missing, flagged in the result)`);
+  lines.push(`rejected files: ${report.rejected.length}`);
+  for (const r of report.rejected) lines.push(`  ${r.file}: ${r.code} (${r.message})`);
+  const flags = report.alerts.filter((a) => a.payload['type'] !== 'recovery');
+  lines.push(`alerts sent to the webhook: ${flags.length} (+ ${report.alerts.length - flags.length} recovery notices)`);
+  for (const a of report.alerts) {
+    const p = a.payload;
+    lines.push(`  day ${String(a.day).padStart(2)}  ${String(p['type']).padEnd(8)} ${String(p['severity']).padEnd(8)} ${String(p['ruleId'])} on ${String(p['metric'])} (run of ${String(p['acquiredAt']).slice(0, 10)})`);
   }
-  mkdirSync(dir, { recursive: true });
-  writeFileSync(join(dir, MARKER), 'created by `driftlight demo`; safe to delete\n');
-  cpSync(join(EXAMPLE_DAY, 'driftlight.yaml'), join(dir, 'driftlight.yaml'));
-  cpSync(join(EXAMPLE_DAY, 'inbox'), join(dir, 'inbox'), { recursive: true });
-}
-
-/** The key-numbers table of the demo results against the truth. */
-export function demoTable(results: readonly AnalysisResult[], truth: readonly DemoTruth[]): string {
-  const header = ['sample', 'role', 'tau ns (true)', 'QY (true)', 'k_r 1/s', 'k_nr 1/s', 'tau0 ns', 'partial'];
-  const rows = results.map((r) => {
-    const t = truth.find((x) => x.sampleId === r.sampleId);
-    return [
-      r.sampleId, r.role,
-      `${fmt(r.decayFit?.tauMeanIntensityNs, 3)} (${t?.tauNs ?? '—'})`,
-      `${fmt(r.quantumYield?.value, 3)} (${t?.quantumYield ?? '—'})`,
-      fmt(r.rates?.krPerS, 3), fmt(r.rates?.knrPerS, 3), fmt(r.rates?.tau0Ns, 3), r.partial ? 'yes' : 'no',
-    ];
-  });
-  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => (r[i] ?? '').length)));
-  const line = (cells: readonly string[]): string => cells.map((c, i) => c.padEnd(widths[i] ?? 0)).join('  ');
-  return [line(header), ...rows.map(line)].join('\n') + '\n';
-}
-
-function readResults(resultsDir: string): AnalysisResult[] {
-  const out: AnalysisResult[] = [];
-  if (!existsSync(resultsDir)) return out;
-  for (const day of readdirSync(resultsDir).sort()) {
-    for (const name of readdirSync(join(resultsDir, day)).sort()) {
-      if (name.endsWith('.json')) out.push(JSON.parse(readFileSync(join(resultsDir, day, name), 'utf8')) as AnalysisResult);
-    }
-  }
-  return out;
+  lines.push('injected faults (truth):');
+  for (const f of truth.faults) lines.push(`  from day ${f.fromDay}: ${f.description}`);
+  lines.push(`  day ${truth.malformed.day}: malformed export ${truth.malformed.file}; day ${truth.missingIrf.day}: decay without IRF (${truth.missingIrf.sampleId});` +
+    ` day ${truth.lateReExport.arrivesDay}: day-${truth.lateReExport.acquiredDay} control re-exported; day ${truth.europeanDate.day}: date written ${truth.europeanDate.written}`);
+  const w = report.workspace;
+  lines.push(kept ? `workspace: ${w}` : `workspace removed (${w}); run \`driftlight demo --keep DIR\` to keep it`);
+  lines.push(`  results:    ${join(w, 'results')}`, `  quarantine: ${join(w, 'quarantine')}`, `  outbox:     ${join(w, 'outbox')}`, `  truth:      ${join(w, 'truth.json')}`, `  webhook:    ${join(w, 'webhook-received.json')} (every alert POST the local receiver got)`);
+  lines.push('  digest HTML, control chart, summary CSV: not produced yet (the digest and export of issue 21 are not on main)');
+  return `${lines.join('\n')}\n`;
 }
 
 export const demoCommand: CommandModule = {
   register(program: Command) {
     program
       .command('demo')
-      .description('run the bundled example day through the pipeline in a fresh workspace (default ./workspace)')
-      .option('-w, --workspace <dir>', 'workspace folder (created; replaced if it is an earlier demo workspace)', 'workspace')
-      .action(async (options: { workspace: string }) => {
-        const dir = resolve(options.workspace);
-        prepareWorkspace(dir);
-        process.stdout.write(`driftlight demo: workspace ${dir}\n`);
-        const summary = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') });
-        const truth = JSON.parse(readFileSync(join(EXAMPLE_DAY, 'truth.json'), 'utf8')) as DemoTruth[];
-        process.stdout.write(`\n${demoTable(readResults(join(dir, 'results')), truth)}`);
-        process.stdout.write(`\n(${summary.rejected} input rejected on purpose: see quarantine/*/*.error.json)\n`);
+      .description('replay a month of an invented lab (faults injected) through the watch loop, with alerts to a local webhook')
+      .option('--keep <dir>', 'run in this folder and leave it there (created; replaced if it is an earlier demo workspace)')
+      .option('--seed <n>', 'seed of the scenario (same seed, same files)', (text: string) => Number.parseInt(text, 10))
+      .action(async (options: { keep?: string; seed?: number }) => {
+        const dir = options.keep === undefined ? join(mkdtempSync(join(tmpdir(), 'driftlight-demo-')), 'workspace') : resolve(options.keep);
+        process.stdout.write(`driftlight demo: replaying 30 days into ${dir}\n`);
+        try {
+          const report = await runDemoMonth(dir, (line) => process.stdout.write(`${line}\n`), options.seed);
+          process.stdout.write(demoSummary(report, options.keep !== undefined));
+        } finally {
+          if (options.keep === undefined) rmSync(join(dir, '..'), { recursive: true, force: true });
+        }
         process.exitCode = EXIT_CODES.ok.code;
       });
   },

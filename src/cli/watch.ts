@@ -6,7 +6,7 @@ import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import { reopenLogFiles } from '../output/logger.js';
 import { batchStableFiles } from '../pipeline/intake-batcher.js';
-import { missingFolders, openPipeline, requiredFolders } from '../pipeline/runtime.js';
+import { missingFolders, openPipeline, requiredFolders, type Pipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
@@ -16,10 +16,23 @@ import { startWatchDigest } from './digest.js';
 /** How often time-based result-stage checks run while watching, in ms. */
 const CLOCK_CHECK_INTERVAL_MS = 60_000;
 
+/** What an in-process caller (the demo) may change about the watch loop; the CLI passes none. */
+export interface WatchRuntimeOptions {
+  /** The clock the pipeline reads (set deadlines, QC times, alert cooldowns). Default: the system clock. */
+  readonly clock?: () => Date;
+  /** How often time-based QC checks run, in ms of real time. Default: 60000 */
+  readonly clockCheckIntervalMs?: number;
+  /** How often open sets' deadlines are checked, in ms of real time. Default: assembly.setTimeoutMs / 4, within 50–1000 */
+  readonly tickIntervalMs?: number;
+  /** Called once the watcher has listed the inbox and reports new files. */
+  readonly onReady?: (pipeline: Pipeline) => void;
+}
+
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
-export async function runWatch(options: ConfigCliOptions, stop: Promise<string>): Promise<void> {
+export async function runWatch(options: ConfigCliOptions, stop: Promise<string>, runtime: WatchRuntimeOptions = {}): Promise<void> {
   const config = configFromOptions(options);
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), command: 'watch', requireFolders: requiredFolders(config) });
+  const clock = runtime.clock ?? ((): Date => new Date());
+  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), command: 'watch', requireFolders: requiredFolders(config), ...(runtime.clock === undefined ? {} : { clock: runtime.clock }) });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
   const digestSchedule = startWatchDigest(pipeline);
@@ -61,7 +74,10 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
   }, config.watch.rescanIntervalMs);
   const watcher = watchInbox(config.folders.inbox, config.watch, {
     onFile: batchStableFiles(serial, intake),
-    onReady: () => logger.info({ inbox: config.folders.inbox }, 'watching'),
+    onReady: () => {
+      logger.info({ inbox: config.folders.inbox }, 'watching');
+      runtime.onReady?.(pipeline);
+    },
     onError: (error) => logger.error({ err: error }, 'watcher error'),
     onMissed: (paths) => logger.warn({ files: paths.length, first: paths[0] }, 'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats'),
   });
@@ -72,10 +88,10 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>)
     logger.info('log file reopened (SIGHUP)');
   };
   process.on('SIGHUP', onHangup);
-  const tickMs = Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
+  const tickMs = runtime.tickIntervalMs ?? Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
   const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);
   // Time-based QC (a control not measured by its deadline) is checked once a minute.
-  const clockTimer = setInterval(() => serial(async () => pipeline.clockTick(new Date())), CLOCK_CHECK_INTERVAL_MS);
+  const clockTimer = setInterval(() => serial(async () => pipeline.clockTick(clock())), runtime.clockCheckIntervalMs ?? CLOCK_CHECK_INTERVAL_MS);
   const signal = await stop;
   const persistentQueue = config.queue.backend === 'bullmq';
   logger.info({ signal }, persistentQueue ? 'stopping: jobs left in Redis are picked up at the next start' : 'stopping: draining running jobs');

@@ -150,8 +150,8 @@ export function createQcStage(options: QcStageOptions): QcStage {
   };
 }
 
-/** The stage as the pipeline runs it: rule file from config.rules.file (or the built-in), config controls merged, alerts per config.alerts. */
-export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logger: AlertLogger; env?: SecretSource }): QcStage {
+/** The stage as the pipeline runs it: rule file from config.rules.file (or the built-in), config controls merged, alerts per config.alerts; `nowMs` (default Date.now) times cooldowns. */
+export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logger: AlertLogger; env?: SecretSource; nowMs?: () => number }): QcStage {
   const ruleSet = effectiveRuleSet(config);
   const channels = createChannels(config.alerts, { env: dependencies.env ?? process.env, logger: dependencies.logger });
   return createQcStage({
@@ -163,6 +163,7 @@ export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logg
         state: ledgerAlertState(ledger),
         recorder: ledgerDeliveryRecorder(ledger),
         logger: dependencies.logger,
+        ...(dependencies.nowMs === undefined ? {} : { nowMs: dependencies.nowMs }),
       }),
   });
 }

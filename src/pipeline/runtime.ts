@@ -102,7 +102,7 @@ export function openPipeline(
     outcomeSweepMs: q.outcomeSweepMs,
     logger,
   });
-  const stages = options.stages ?? defaultResultStages(config, logger);
+  const stages = options.stages ?? defaultResultStages(config, logger, options.clock);
   const coordinator = new Coordinator({
     config, ledger, queue, logger, softwareVersion: options.softwareVersion,
     stages,

@@ -6,14 +6,14 @@ import type { ResultStage } from './result-stage.js';
 import { qcStageFromConfig } from './qc-stage.js';
 
 /** Builds a stage from the resolved config and the pipeline's logger. */
-export type ResultStageFactory = (config: DriftlightConfig, context: { readonly logger: Logger }) => ResultStage;
+export type ResultStageFactory = (config: DriftlightConfig, context: { readonly logger: Logger; readonly clock?: () => Date }) => ResultStage;
 
 export const RESULT_STAGE_FACTORIES: readonly ResultStageFactory[] = [
   // Control QC: rules from config.rules.file (or rules/default.yaml), flags into the result, alerts after commit.
-  (config, { logger }) => qcStageFromConfig(config, { logger }),
+  (config, { logger, clock }) => qcStageFromConfig(config, { logger, ...(clock === undefined ? {} : { nowMs: () => clock().getTime() }) }),
 ];
 
-/** The configured stages, in table order. */
-export function defaultResultStages(config: DriftlightConfig, logger: Logger): ResultStage[] {
-  return RESULT_STAGE_FACTORIES.map((factory) => factory(config, { logger }));
+/** The configured stages, in table order; `clock` (default: the system clock) times alert cooldowns. */
+export function defaultResultStages(config: DriftlightConfig, logger: Logger, clock?: () => Date): ResultStage[] {
+  return RESULT_STAGE_FACTORIES.map((factory) => factory(config, { logger, ...(clock === undefined ? {} : { clock }) }));
 }
