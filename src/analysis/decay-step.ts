@@ -1,7 +1,7 @@
 // Fits the set's decay by reconvolution with its IRF (a column of the decay file, or a separate IRF
 // measurement on the same channels), or by a tail fit when no IRF is available.
 import { totalCounts, type Decay } from '../model/decay.js';
-import { fitDecay, type DecayFitResult } from '../decay/index.js';
+import { fitDecay, fullWidthHalfMaximumNs, type DecayFitResult } from '../decay/index.js';
 import type { AnalysisSettings } from './payload.js';
 import type { DecayFitSummary } from './result.js';
 import { markMissing, type StepContext } from './step-context.js';
@@ -54,6 +54,7 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       estimator: settings.estimator,
       totalCounts: totalCounts(decay.counts),
       irfSource,
+      ...(irfCounts === undefined ? {} : { irfFwhmNs: fullWidthHalfMaximumNs(irfCounts, decay.channelWidthNs) }),
       warnings: [...fit.warnings],
     },
   };

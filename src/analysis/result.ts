@@ -99,6 +99,8 @@ export interface DecayFitSummary {
   readonly totalCounts: number;
   /** Where the IRF came from: a column of the decay file, a separate file, or none (tail fit). */
   readonly irfSource: 'decay-column' | 'irf-file' | 'none';
+  /** Full width at half maximum of the IRF used, in ns (interpolated half-maximum crossings); absent without an IRF. QC metric irfWidthNs. */
+  readonly irfFwhmNs?: number;
   readonly warnings: readonly string[];
 }
 

@@ -9,6 +9,7 @@ export type {
 } from './result.js';
 export { createSeededRandom, samplePoisson, sampleStandardNormal, type UniformSource } from './random.js';
 export { expectedDecayCounts, gaussianIrf, simulateDecay, type DecaySimulation } from './simulate.js';
+export { fullWidthHalfMaximumNs } from './irf-metrics.js';
 export { coatesCorrection, PILE_UP_RATE_FRACTION } from './pile-up.js';
 export { durbinWatson, residualAutocorrelation, runsTest } from './residual-tests.js';
 export { chiSquareQuantileOneDof, normalCdf, normalQuantile } from './normal-distribution.js';

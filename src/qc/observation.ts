@@ -25,6 +25,7 @@ export function metricsOfResult(result: AnalysisResult): Partial<Record<MetricNa
   // A lifetime fit marked not acceptable (issue 15.6) is not judged.
   if (result.decayFit?.acceptable !== false) put('meanLifetimeNs', result.decayFit?.tauMeanIntensityNs);
   put('fitChi2Reduced', result.decayFit?.chi2Reduced);
+  put('irfWidthNs', result.decayFit?.irfFwhmNs);
   // A correction of the sample emission that was refused (listed in `missing` as "NAME (emission)") leaves the
   // emission metrics uncorrected: they are not judged (issue 15: a quantity that depends on a failed step is missing).
   const emissionCorrectionRefused = result.missing.some((m) => m.what.endsWith(' (emission)'));
