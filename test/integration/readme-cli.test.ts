@@ -18,7 +18,12 @@ function readmeRows(): { words: string[]; options: string[] }[] {
     .filter((line) => line.startsWith('| `driftlight '))
     .map((line) => {
       const cell = line.slice(3, line.indexOf('` |')).replaceAll('\\|', '|');
-      const words = cell.replace(/^driftlight /, '').split(/\s+/).filter((w) => /^[a-z][a-z-]*(\|[a-z-]+)*$/.test(w));
+      // The command and its subcommands: the leading lowercase words, up to the first argument or option.
+      const words: string[] = [];
+      for (const token of cell.replace(/^driftlight /, '').split(/\s+/)) {
+        if (!/^[a-z][a-z-]*(\|[a-z-]+)*$/.test(token)) break;
+        words.push(token);
+      }
       return { words, options: [...cell.matchAll(/--[a-z][a-z-]*/g)].map((m) => m[0]) };
     });
 }
