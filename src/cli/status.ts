@@ -4,11 +4,18 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { LEDGER_FILE_NAME, openLedger } from '../store/ledger.js';
 import { ledgerStatus, type LedgerStatus } from '../store/status.js';
+import { openQcFlagCounts, undeliveredAlerts } from '../store/alert-outbox.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
 
+/** What `status` adds about QC and alerts: open flags and deliveries not delivered. */
+export interface AttentionStatus {
+  readonly openQcFlags: { readonly info: number; readonly warning: number; readonly critical: number };
+  readonly alerts: ReturnType<typeof undeliveredAlerts>;
+}
+
 /** The status as plain text lines. */
-export function formatStatus(status: LedgerStatus): string {
+export function formatStatus(status: LedgerStatus, attention?: AttentionStatus): string {
   const files = Object.entries(status.files).map(([k, v]) => `${k} ${v}`).join(', ');
   const sets = Object.entries(status.sets).map(([k, v]) => `${k} ${v}`).join(', ');
   const lines = [`files: ${files}`, `sets:  ${sets}`, `results: ${status.results}`];
@@ -19,12 +26,24 @@ export function formatStatus(status: LedgerStatus): string {
     lines.push('last errors:');
     for (const e of status.lastErrors) lines.push(`  ${e.at}  ${e.name}: ${e.code}: ${e.message}`);
   }
+  if (attention !== undefined) {
+    const flags = attention.openQcFlags;
+    lines.push(`QC flags open: ${flags.critical} critical, ${flags.warning} warning, ${flags.info} info`);
+    const { pending, expired, latest } = attention.alerts;
+    if (pending + expired === 0) lines.push('alerts not delivered: none');
+    else {
+      lines.push(`alerts not delivered: ${pending} still retried, ${expired} expired (given up)`);
+      for (const a of latest) {
+        lines.push(`  ${new Date(a.createdAtMs).toISOString()}  ${a.channelId}  ${a.key} (${a.severity}): ${a.status}, ${a.attempts} attempt(s): ${a.lastError ?? 'not tried yet'}`);
+      }
+    }
+  }
   return `${lines.join('\n')}\n`;
 }
 
 export const statusCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(program.command('status').description('show counts by state, the oldest waiting set and the last errors'))
+    withConfigOption(program.command('status').description('show counts by state, the oldest waiting set, the last errors, open QC flags and alerts not delivered'))
       .option('--json', 'print JSON')
       .action((options: { config?: string; json?: boolean }) => {
         const config = configFromOptions(options);
@@ -35,7 +54,8 @@ export const statusCommand: CommandModule = {
         const ledger = openLedger(config.folders.state);
         try {
           const status = ledgerStatus(ledger);
-          process.stdout.write(options.json === true ? `${JSON.stringify(status, null, 2)}\n` : formatStatus(status));
+          const attention: AttentionStatus = { openQcFlags: openQcFlagCounts(ledger), alerts: undeliveredAlerts(ledger) };
+          process.stdout.write(options.json === true ? `${JSON.stringify({ ...status, ...attention }, null, 2)}\n` : formatStatus(status, attention));
         } finally {
           ledger.close();
         }

@@ -25,6 +25,7 @@ import {
 import type { Ledger } from '../store/ledger.js';
 import { excludedSetIds } from '../store/qc-actions-store.js';
 import { closeClockFlagsCoveredBy, flagSignaturesOfSets, reconcileOpenFlags, replaceVerdictsOfSet, verdictKeysOfScopes } from '../store/qc-order-store.js';
+import { ledgerAlertOutbox } from '../store/alert-outbox.js';
 import {
   baselineRecords,
   ledgerAlertState,
@@ -76,6 +77,7 @@ export function createQcStage(options: QcStageOptions): QcStage {
     if (existing === undefined) {
       existing = options.dispatcherFor(ledger);
       dispatchers.set(ledger, existing);
+      existing.retryDue(); // deliveries a previous run left in the outbox
     }
     return existing;
   };
@@ -144,8 +146,12 @@ export function createQcStage(options: QcStageOptions): QcStage {
     async idle(): Promise<void> {
       await Promise.all([...dispatchers.values()].map((existing) => existing.idle()));
     },
+    resume(context: ResultStageContext): void {
+      dispatcher(context.ledger); // creating it retries what the outbox holds
+    },
     onClock(context: ResultStageContext): void {
       this.checkClock(context.ledger, context.now);
+      dispatcher(context.ledger)?.retryDue();
     },
   };
 }
@@ -162,6 +168,7 @@ export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logg
         channels,
         state: ledgerAlertState(ledger),
         recorder: ledgerDeliveryRecorder(ledger),
+        outbox: ledgerAlertOutbox(ledger),
         logger: dependencies.logger,
         ...(dependencies.nowMs === undefined ? {} : { nowMs: dependencies.nowMs }),
       }),

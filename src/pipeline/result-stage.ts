@@ -21,6 +21,8 @@ export interface ResultStage {
   afterCommit?(result: AnalysisResult, context: ResultStageContext): void | Promise<void>;
   /** Called by `watch` about once a minute for time-based checks (e.g. a control not measured by its deadline). */
   onClock?(context: ResultStageContext): void;
+  /** Picks up background work a previous run left unfinished (alert deliveries waiting in the outbox); `process` calls it at start. */
+  resume?(context: ResultStageContext): void;
   /** Resolves when the stage's background work (e.g. alert deliveries) has finished; awaited before the ledger closes. */
   idle?(): Promise<void>;
 }

@@ -2,6 +2,7 @@
 // (wait = backoffMs · 2^(attempt − 1)); returns the outcome instead of throwing.
 import type { AlertChannel } from './alert-channel.js';
 import type { AlertMessage } from './alert-message.js';
+import { describeDeliveryError } from './delivery-error.js';
 
 export interface RetryPolicy {
   /** Attempts including the first (≥ 1). */
@@ -15,13 +16,13 @@ export interface RetryPolicy {
 export interface DeliveryOutcome {
   readonly status: 'delivered' | 'failed';
   readonly attempts: number;
-  /** Last error message when failed. */
+  /** Last error when failed, with its causes (describeDeliveryError). */
   readonly error?: string;
 }
 
-/** Waits `ms` milliseconds (timer not keeping the process alive). */
+/** Waits `ms` milliseconds. The timer keeps the process alive: `process` awaits a delivery burst before it summarises and exits (an unref'd wait let Node exit mid-burst with code 13). */
 export function sleepMs(ms: number): Promise<void> {
-  return new Promise((resolve) => setTimeout(resolve, ms).unref());
+  return new Promise((resolve) => setTimeout(resolve, ms));
 }
 
 /** Sends with retries; never throws. O(attempts). */
@@ -44,7 +45,7 @@ export async function deliverWithRetry(
       await Promise.race([channel.send(message, controller.signal), aborted]);
       return { status: 'delivered', attempts: attempt };
     } catch (error) {
-      lastError = controller.signal.aborted ? `timed out after ${policy.timeoutMs} ms` : error instanceof Error ? error.message : String(error);
+      lastError = controller.signal.aborted ? `timed out after ${policy.timeoutMs} ms` : describeDeliveryError(error);
     } finally {
       clearTimeout(timer);
     }

@@ -22,7 +22,8 @@ export function createEmailChannel(config: EmailChannelConfig, configPath: strin
     host: config.host,
     port: config.port,
     secure: config.secure,
-    requireTLS: config.requireTls,
+    // TLS is required unless the config explicitly allows plain text (alerts.channels[].allowPlainText).
+    requireTLS: !config.secure && !config.allowPlainText,
     connectionTimeout: config.timeoutMs,
     greetingTimeout: config.timeoutMs,
     socketTimeout: config.timeoutMs,

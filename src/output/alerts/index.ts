@@ -8,3 +8,5 @@ export * from './dispatcher.js';
 export * from './log-channel.js';
 export { createWebhookChannel, signWebhookBody, SIGNATURE_HEADER } from './webhook-channel.js';
 export { createEmailChannel } from './email-channel.js';
+export * from './alert-outbox.js';
+export * from './delivery-error.js';

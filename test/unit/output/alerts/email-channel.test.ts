@@ -53,10 +53,10 @@ afterEach(async () => {
   sink = undefined;
 });
 
-function dispatcherFor(port: number, env: Record<string, string>) {
+function dispatcherFor(port: number, env: Record<string, string>, allowPlainText = true) {
   const alerts = alertsSection.parse({
     channels: [
-      { id: 'lab-mail', type: 'email', host: '127.0.0.1', port, from: 'driftlight@lab.example', to: ['qc@lab.example'], username: 'qc-bot', passwordEnv: 'DL_TEST_SMTP_PASSWORD', attempts: 2, backoffMs: 10, timeoutMs: 5000 },
+      { id: 'lab-mail', type: 'email', host: '127.0.0.1', port, from: 'driftlight@lab.example', to: ['qc@lab.example'], username: 'qc-bot', passwordEnv: 'DL_TEST_SMTP_PASSWORD', attempts: 2, backoffMs: 10, timeoutMs: 5000, allowPlainText },
     ],
     routing: { info: [], warning: ['lab-mail'], critical: ['lab-mail'] },
   });
@@ -68,6 +68,20 @@ function dispatcherFor(port: number, env: Record<string, string>) {
 }
 
 describe('email channel (real SMTP sink)', () => {
+  it('refuses to send over a server without TLS unless the config allows plain text, and records why (issue 16.6)', async () => {
+    const { port, mails } = await startSink(); // this sink offers no STARTTLS
+    const { dispatcher, recorder, channels, logger } = dispatcherFor(port, { DL_TEST_SMTP_PASSWORD: PASSWORD }, false);
+    dispatcher.dispatch([flag('yield-westgard', 'critical')]);
+    await dispatcher.idle();
+    for (const channel of channels.values()) channel.close?.();
+    expect(mails).toHaveLength(0);
+    expect(recorder.records[0]).toMatchObject({ status: 'failed', channelId: 'lab-mail' });
+    expect(recorder.records[0]?.error).toMatch(/STARTTLS|TLS/i);
+    expect(logger.lines.some((line) => line.level === 'error' && line.message.includes('stays in the outbox'))).toBe(true);
+    expect(() => alertsSection.parse({ channels: [{ id: 'm', type: 'email', host: 'h', from: 'a@b.c', to: ['d@e.f'], requireTls: false }], routing: { info: [], warning: ['m'], critical: ['m'] } }))
+      .toThrow(/allowPlainText: true/);
+  });
+
   it('logs in with the password from the environment and sends subject and body', async () => {
     const { port, mails } = await startSink();
     const { dispatcher, recorder, channels } = dispatcherFor(port, { DL_TEST_SMTP_PASSWORD: PASSWORD });
