@@ -77,7 +77,7 @@ export function createQcStage(options: QcStageOptions): QcStage {
     if (existing === undefined) {
       existing = options.dispatcherFor(ledger);
       dispatchers.set(ledger, existing);
-      existing.retryDue(); // deliveries a previous run left in the outbox
+      existing.retryDue?.(); // deliveries a previous run left in the outbox
     }
     return existing;
   };
@@ -151,7 +151,7 @@ export function createQcStage(options: QcStageOptions): QcStage {
     },
     onClock(context: ResultStageContext): void {
       this.checkClock(context.ledger, context.now);
-      dispatcher(context.ledger)?.retryDue();
+      dispatcher(context.ledger)?.retryDue?.();
     },
   };
 }

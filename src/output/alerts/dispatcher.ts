@@ -30,14 +30,14 @@ export interface DispatcherDependencies {
 export interface AlertDispatcher {
   /** Queues alerts for new flags and recovery notices; returns at once. Returns the messages that will be sent. */
   dispatch(flags: readonly QcFlag[], recoveries?: readonly RecoveryNotice[]): AlertMessage[];
-  /** Tries again every outbox delivery that is due (and expires those past their time); returns at once. */
-  retryDue(): void;
+  /** Tries again every outbox delivery that is due (and expires those past their time); returns at once. Optional so test doubles need not have it. */
+  retryDue?(): void;
   /** Resolves when every delivery attempt under way has finished (delivered, or waiting in the outbox for its next attempt). */
   idle(): Promise<void>;
 }
 
 /** Builds a dispatcher over configured channels, an alert state store and a delivery recorder. */
-export function createAlertDispatcher(dependencies: DispatcherDependencies): AlertDispatcher {
+export function createAlertDispatcher(dependencies: DispatcherDependencies): AlertDispatcher & Required<Pick<AlertDispatcher, 'retryDue'>> {
   const { alerts, channels, state, recorder, logger } = dependencies;
   const nowMs = dependencies.nowMs ?? Date.now;
   const sleep = dependencies.sleep ?? sleepMs;
