@@ -58,7 +58,7 @@ export async function emailDigest(channel: EmailChannelConfig, data: DigestData,
     throw new ConfigInvalid(`environment variable ${channel.passwordEnv} (the SMTP password) is not set`, { configPath: 'digest.emailChannel' });
   }
   const transport = nodemailer.createTransport({
-    host: channel.host, port: channel.port, secure: channel.secure, requireTLS: channel.requireTls,
+    host: channel.host, port: channel.port, secure: channel.secure, requireTLS: !channel.secure && !channel.allowPlainText,
     connectionTimeout: channel.timeoutMs, greetingTimeout: channel.timeoutMs, socketTimeout: channel.timeoutMs,
     ...(channel.username === undefined ? {} : { auth: { user: channel.username, pass: password ?? '' } }),
   });

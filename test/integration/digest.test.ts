@@ -96,7 +96,7 @@ describe('daily digest', () => {
         }
       })();
       const forms = await renderDigest(data);
-      await emailDigest({ id: 'mail', type: 'email', host: '127.0.0.1', port, secure: false, requireTls: false, from: 'driftlight@lab.example', to: ['qc@lab.example'], timeoutMs: 5000, attempts: 1, backoffMs: 0 }, data, forms);
+      await emailDigest({ id: 'mail', type: 'email', host: '127.0.0.1', port, secure: false, requireTls: false, allowPlainText: true, from: 'driftlight@lab.example', to: ['qc@lab.example'], timeoutMs: 5000, attempts: 1, backoffMs: 0 }, data, forms);
       expect(mails).toHaveLength(1);
       const mail = mails[0] ?? '';
       expect(mail).toMatch(/Content-Type: multipart\/alternative/i);
