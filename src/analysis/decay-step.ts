@@ -29,11 +29,15 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
     }
   }
   if (irfCounts === undefined) context.warnings.push('no usable IRF: the lifetime comes from a tail fit');
+  const repetitionRateHz = decay.metadata.repetitionRateHz ?? settings.repetitionRateHz;
   const fit = fitDecay(decay, {
     components: settings.components,
     estimator: settings.estimator,
     ...(irfCounts === undefined ? {} : { irfCounts }),
     ...(settings.scatter === undefined ? {} : { scatter: settings.scatter }),
+    ...(settings.pileUpCorrection === undefined ? {} : { pileUpCorrection: settings.pileUpCorrection }),
+    // The file's own repetition rate wins over the instrument's configured one.
+    ...(repetitionRateHz === undefined ? {} : { repetitionRateHz }),
   });
   if (!fit.converged) context.warnings.push('the lifetime fit did not converge; treat τ with caution');
   return {
@@ -51,6 +55,8 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       converged: fit.converged,
       acceptable: fit.acceptable,
       unacceptableReasons: [...fit.unacceptableReasons],
+      pileUpCorrected: fit.pileUpCorrected,
+      ...(repetitionRateHz === undefined ? {} : { repetitionRateHz }),
       estimator: settings.estimator,
       totalCounts: totalCounts(decay.counts),
       irfSource,

@@ -32,6 +32,10 @@ export interface AnalysisSettings {
   readonly scatter?: boolean;
   /** Instrument profiles (config formats.profiles) the readers apply by file pattern; absent when none are configured. */
   readonly formatProfiles?: readonly FormatProfile[];
+  /** Coates pile-up correction before fitting (config analysis.pileUpCorrection); default false. */
+  readonly pileUpCorrection?: boolean;
+  /** Repetition rate in Hz for decays whose file states none (config instrument.repetitionRateMHz). */
+  readonly repetitionRateHz?: number;
   /** What the detector curve holds (config instrument.detectorCurveMeaning); default 'from-header'. */
   readonly detectorCurveMeaning?: 'from-header' | 'multiply' | 'divide';
   /** Integration window and band-edge check of relative yields (config analysis.yieldWindowNm etc.); defaults as in the config section. */

@@ -94,6 +94,10 @@ export interface DecayFitSummary {
   readonly acceptable?: boolean;
   /** Why the fit is not acceptable; empty when it is. Always written by analyze(). */
   readonly unacceptableReasons?: readonly string[];
+  /** True when the Coates pile-up correction was applied before fitting (config analysis.pileUpCorrection). */
+  readonly pileUpCorrected?: boolean;
+  /** Repetition rate in Hz the fit used (file, else config instrument.repetitionRateMHz); absent when unknown. */
+  readonly repetitionRateHz?: number;
   readonly estimator: string;
   /** Total counts in the decay histogram. */
   readonly totalCounts: number;

@@ -17,6 +17,8 @@ interface FitDecayFlags {
   readonly range?: readonly [number, number];
   readonly fix: Readonly<Partial<Record<ParameterName, number>>>;
   readonly scatter?: boolean;
+  readonly repetitionRateMhz?: number;
+  readonly pileUpCorrection?: boolean;
   readonly json?: boolean;
 }
 
@@ -29,6 +31,12 @@ function parseComponents(text: string): FitDecayOptions['components'] {
 function parseEstimator(text: string): FitDecayOptions['estimator'] {
   if (text === 'ml' || text === 'lsq-neyman' || text === 'lsq-pearson') return text;
   throw new InvalidArgumentError('expected ml, lsq-neyman or lsq-pearson');
+}
+
+function parsePositive(text: string): number {
+  const value = Number(text);
+  if (text.trim() === '' || !Number.isFinite(value) || value <= 0) throw new InvalidArgumentError('expected a positive number, e.g. 80');
+  return value;
 }
 
 function parseRange(text: string): readonly [number, number] {
@@ -134,6 +142,8 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
     estimator: flags.estimator,
     fixed: flags.fix,
     scatter: flags.scatter === true,
+    pileUpCorrection: flags.pileUpCorrection === true,
+    ...(flags.repetitionRateMhz === undefined ? {} : { repetitionRateHz: flags.repetitionRateMhz * 1e6 }),
     ...(flags.range === undefined ? {} : { rangeNs: flags.range }),
     ...(irfCounts === undefined ? {} : { irfCounts }),
   });
@@ -152,6 +162,8 @@ export const fitDecayCommand: CommandModule = {
       .option('--range <start:end>', 'fit range in ns, e.g. 1.5:40 (default: from the IRF rise to the end)', parseRange)
       .option('--fix <name=value>', 'hold a parameter, e.g. tau1=3.9 (ns); repeatable', parseFix, {})
       .option('--scatter', 'fit a scatter term (a fraction of the IRF added to the model; needs an IRF)')
+      .option('--repetition-rate-mhz <MHz>', 'excitation repetition rate in MHz (overrides the file); earlier pulses are modelled when the period spans the histogram', parsePositive)
+      .option('--pile-up-correction', 'apply the Coates pile-up correction (needs the collection time and the repetition rate)')
       .option('--json', 'print the full result as JSON')
       .addHelpText('after', `\n${exitCodesHelp()}`)
       .action(async (path: string, flags: FitDecayFlags) => {

@@ -3,6 +3,7 @@
 // information criteria and warnings.
 import { datasetModelFor, type ComponentFit } from './component-fit.js';
 import { fitAcceptability } from './acceptability.js';
+import { earlierPulseSuspicion, periodicBackgroundWarning } from './earlier-pulses.js';
 import { estimatorResiduals, pearsonChiSquare, poissonDeviance } from './estimators.js';
 import { akaikeCriterion, bayesianCriterion } from './information-criteria.js';
 import { irfNoiseVariances } from './irf-noise.js';
@@ -256,10 +257,22 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
       }
     }
   }
-  const unacceptableReasons = fitAcceptability({
-    converged: outcome.converged, channelWidthNs: prepared.channelWidthNs, windowNs: prepared.counts.length * prepared.channelWidthNs,
-    components: withFractions, atBound,
-  });
+  const earlierPulses = prepared.repetitionRateHz === undefined
+    ? earlierPulseSuspicion({ counts: prepared.counts, model, firstChannel: prepared.range.firstChannel, backgroundPerChannel: local[2 * components + 1] as number })
+    : undefined;
+  if (earlierPulses !== undefined) warnings.push(earlierPulses);
+  if (prepared.periodNs !== undefined) {
+    const longest = withFractions.reduce((most, component) => Math.max(most, component.tauNs), 0);
+    const periodic = periodicBackgroundWarning(longest, prepared.periodNs, (term.freeIndex[2 * components + 1] as number) >= 0);
+    if (periodic !== undefined) warnings.push(periodic);
+  }
+  const unacceptableReasons = [
+    ...fitAcceptability({
+      converged: outcome.converged, channelWidthNs: prepared.channelWidthNs, windowNs: prepared.counts.length * prepared.channelWidthNs,
+      components: withFractions, atBound,
+    }),
+    ...(earlierPulses === undefined ? [] : ['the repetition rate is unknown and light from earlier pulses is not excluded']),
+  ];
   if (unacceptableReasons.length > 0) warnings.push(`the fit is not acceptable: ${unacceptableReasons.join('; ')}`);
   const irfFwhmNs = prepared.irfFwhmNs;
   if (irfFwhmNs !== undefined) {

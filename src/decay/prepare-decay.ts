@@ -20,8 +20,10 @@ export interface PreparedDecay {
   readonly irfFwhmNs: number | undefined;
   /** First channel of the IRF rise (≥ 1 % of its peak). */
   readonly irfRiseChannel: number | undefined;
-  /** Excitation period in ns when the repetition rate is known. */
+  /** Excitation period in ns when the repetition rate is known and the period spans the histogram (earlier pulses modelled). */
   readonly periodNs: number | undefined;
+  /** Repetition rate in Hz from the options or the file's metadata, when known. */
+  readonly repetitionRateHz: number | undefined;
   readonly range: ChannelRange;
   /** Total recorded counts of the histogram (before any correction). */
   readonly photons: number;
@@ -108,12 +110,12 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
   const countRatePerS = decay.metadata.countRatePerS ?? (collectionTimeS !== undefined && collectionTimeS > 0 ? photons / collectionTimeS : undefined);
   if (countRatePerS !== undefined && repetitionRateHz !== undefined && countRatePerS > PILE_UP_RATE_FRACTION * repetitionRateHz) {
     warnings.push(
-      `count rate ${countRatePerS.toPrecision(3)} /s exceeds ${PILE_UP_RATE_FRACTION * 100} % of the repetition rate ${repetitionRateHz.toPrecision(3)} Hz: pile-up distorts the decay${options.pileUpCorrection ? '' : ' (consider pileUpCorrection)'}`,
+      `count rate ${countRatePerS.toPrecision(3)} /s exceeds ${PILE_UP_RATE_FRACTION * 100} % of the repetition rate ${repetitionRateHz.toPrecision(3)} Hz: pile-up distorts the decay${options.pileUpCorrection ? '' : '; apply the pile-up correction (fit-decay --pile-up-correction, config analysis.pileUpCorrection, option pileUpCorrection)'}`,
     );
   }
   if (options.pileUpCorrection) {
     if (collectionTimeS === undefined || repetitionRateHz === undefined) {
-      warnings.push('pile-up correction requested but the collection time or repetition rate is unknown; not applied');
+      warnings.push('pile-up correction requested but the collection time or repetition rate is unknown; not applied (give the repetition rate with fit-decay --repetition-rate-mhz or config instrument.repetitionRateMHz, and a "collection time" line in the file)');
     } else {
       counts = coatesCorrection(decay.counts, collectionTimeS * repetitionRateHz);
       pileUpCorrected = true;
@@ -128,7 +130,7 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
     warnings.push(`peak counts are low (${peakCounts} < ${LOW_PEAK_COUNTS}); lifetimes are imprecise`);
   }
   return {
-    timeNs: decay.timeNs, channelWidthNs, counts, irfUnit, irfFwhmNs, irfRiseChannel, periodNs, range, photons,
+    timeNs: decay.timeNs, channelWidthNs, counts, irfUnit, irfFwhmNs, irfRiseChannel, periodNs, repetitionRateHz, range, photons,
     pileUpCorrected, irfTotalCounts, irfIsCounts, irfWithinChannel: options.irfWithinChannel, warnings,
   };
 }

@@ -12,6 +12,8 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     components: config.analysis.components,
     estimator: config.analysis.estimator,
     scatter: config.analysis.scatter,
+    pileUpCorrection: config.analysis.pileUpCorrection,
+    ...(config.instrument.repetitionRateMHz === undefined ? {} : { repetitionRateHz: config.instrument.repetitionRateMHz * 1e6 }),
     innerFilter: config.analysis.innerFilter,
     maxAbsorbanceForYield: config.analysis.maxAbsorbanceForYield,
     refractiveIndex: { ...config.analysis.refractiveIndex },

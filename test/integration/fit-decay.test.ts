@@ -4,7 +4,9 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createSeededRandom, gaussianIrf, samplePoisson, simulateDecay } from '../../src/decay/index.js';
+import { createSeededRandom, expectedDecayCounts, gaussianIrf, samplePoisson, simulateDecay } from '../../src/decay/index.js';
+import { writeDecayCsv } from '../../src/formats/csv-writer.js';
+import { createDecay } from '../../src/model/decay.js';
 import { runDriftlight } from '../helpers/cli.js';
 
 interface CliFit {
@@ -97,5 +99,34 @@ describe('driftlight fit-decay', () => {
     expect(without.freeParameters).not.toContain('scatterCounts');
     expect(without.scatterFraction).toBe(0);
     expect(runDriftlight(['fit-decay', path, '--scatter']).stdout).toMatch(/^ {2}acceptable {2}yes$/m);
+  });
+
+  it('takes the repetition rate from --repetition-rate-mhz (issue 17.1) and turns on --pile-up-correction (issue 17.4)', () => {
+    // 4 ns at 80 MHz, window = one period (12.5 ns): truth folded from 60 single pulses, 2 counts/channel background.
+    const n = 500;
+    const width = 12.5 / n;
+    const pulseIrf = gaussianIrf(n, width, 1.5, 0.2);
+    const longIrf = new Float64Array(n * 60);
+    longIrf.set(pulseIrf);
+    const long = expectedDecayCounts({ channels: n * 60, channelWidthNs: width, tauNs: [4], photons: 1e5, irf: longIrf });
+    const expected = new Float64Array(n).fill(2);
+    for (let k = 0; k < long.length; k++) expected[k % n] = (expected[k % n] as number) + (long[k] as number);
+    const random = createSeededRandom(5);
+    const counts = Float64Array.from(expected, (mean) => samplePoisson(mean, random));
+    const path = join(directory, 'dye-80mhz.csv');
+    const timeNs = Float64Array.from({ length: n }, (_unused, k) => Number((k * width).toPrecision(12)));
+    const irfColumn = Float64Array.from(pulseIrf, (value) => Math.round(value * 1e5));
+    writeFileSync(path, writeDecayCsv(createDecay({ timeNs, counts, channelWidthNs: width, irfCounts: irfColumn, metadata: { collectionTimeS: 1 } })));
+    const unknown = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as { acceptable: boolean; warnings: string[] };
+    expect(unknown.acceptable).toBe(false);
+    expect(unknown.warnings.some((w) => w.includes('--repetition-rate-mhz'))).toBe(true);
+    const known = runDriftlight(['fit-decay', path, '--repetition-rate-mhz', '80', '--pile-up-correction', '--json']);
+    expect(known.status).toBe(0);
+    const fit = JSON.parse(known.stdout) as CliFit & { acceptable: boolean; pileUpCorrected: boolean; warnings: string[] };
+    expect(fit.acceptable).toBe(true);
+    expect(fit.pileUpCorrected).toBe(true);
+    expect(fit.warnings.some((w) => w.startsWith('light from earlier pulses'))).toBe(false);
+    expect(Math.abs((fit.components[0]?.tauNs ?? 0) - 4)).toBeLessThan(3 * (fit.components[0]?.tauNsStdErr ?? 0));
+    expect(runDriftlight(['fit-decay', path, '--repetition-rate-mhz', '-3']).status).toBe(2);
   });
 });

@@ -9,6 +9,8 @@ export const analysisSection = z
       .describe('Fit estimator: Poisson maximum likelihood or weighted least squares. Default: ml'),
     scatter: z.boolean().default(false)
       .describe('Fit a scatter term (a fraction of the IRF added to the decay model) in lifetime fits. Default: false'),
+    pileUpCorrection: z.boolean().default(false)
+      .describe('Apply the Coates pile-up correction to decays before fitting (needs the collection time and the repetition rate). Default: false'),
     innerFilter: z.enum(['none', 'centred', 'geometric']).default('centred')
       .describe('Inner-filter correction form for emission spectra. Default: centred'),
     maxAbsorbanceForYield: z.number().positive().default(0.1)

@@ -13,6 +13,8 @@ export const instrumentSection = z
       .describe('Order of day, month and year in the instrument\'s numeric dates: DMY (05.12.2026 = 5 December), MDY (12/05/2026 = 5 December) or YMD. Without it a date whose day and month could be swapped is refused (DATE_AMBIGUOUS). Default: none (ISO 8601 and unambiguous dates only)'),
     timeZone: z.string().refine(isKnownTimeZone, { error: 'expected an IANA time zone such as Europe/Berlin, or an offset such as +01:00' }).default('UTC')
       .describe('Time zone of acquisition times written without one (IANA name such as Europe/Berlin, or +01:00); results and outbox are filed by the acquisition date in this zone. Default: UTC'),
+    repetitionRateMHz: z.number().positive().optional()
+      .describe('Excitation repetition rate of this instrument in MHz, used for decays whose file does not state one (earlier pulses are then modelled). Default: none (a decay whose tail has not died out by the end of the window is flagged)'),
     irfValidityHours: z.number().min(0).default(24)
       .describe('An IRF is valid for pairing this long after it was recorded, in hours. Default: 24'),
     cuvette: z

@@ -9,3 +9,14 @@ describe('decay settings from the config', () => {
     expect(analysisSettingsFrom(resolveConfig({ analysis: { scatter: true } }, { baseDir: '/tmp' })).scatter).toBe(true);
   });
 });
+
+describe('repetition rate and pile-up correction from the config (issue 17.1, 17.4)', () => {
+  it('passes instrument.repetitionRateMHz (in Hz) and analysis.pileUpCorrection (default false)', () => {
+    const defaults = analysisSettingsFrom(resolveConfig({}, { baseDir: '/tmp' }));
+    expect(defaults.repetitionRateHz).toBeUndefined();
+    expect(defaults.pileUpCorrection).toBe(false);
+    const set = analysisSettingsFrom(resolveConfig({ instrument: { repetitionRateMHz: 80 }, analysis: { pileUpCorrection: true } }, { baseDir: '/tmp' }));
+    expect(set.repetitionRateHz).toBe(80e6);
+    expect(set.pileUpCorrection).toBe(true);
+  });
+});
