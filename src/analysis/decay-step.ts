@@ -1,7 +1,9 @@
 // Fits the set's decay by reconvolution with its IRF (a column of the decay file, or a separate IRF
-// measurement on the same channels), or by a tail fit when no IRF is available.
+// measurement placed on the decay's channels by its own time axis), or by a tail fit when no IRF is available.
 import { totalCounts, type Decay } from '../model/decay.js';
 import { fitDecay, fullWidthHalfMaximumNs, type DecayFitResult } from '../decay/index.js';
+import { alignIrfToDecay } from '../decay/irf-axis.js';
+import { InputRejected } from '../model/errors.js';
 import type { AnalysisSettings } from './payload.js';
 import type { DecayFitSummary } from './result.js';
 import { markMissing, type StepContext } from './step-context.js';
@@ -19,13 +21,15 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
     irfCounts = decay.irfCounts;
     irfSource = 'decay-column';
   } else if (irf !== undefined) {
-    const counts = irf.irfCounts ?? irf.counts;
-    const sameChannels = counts.length === decay.counts.length && Math.abs(irf.channelWidthNs - decay.channelWidthNs) <= 1e-3 * decay.channelWidthNs;
-    if (sameChannels) {
-      irfCounts = counts;
+    // The IRF file's own time axis places it on the decay's channels (resampled, offset applied) or refuses it.
+    try {
+      const aligned = alignIrfToDecay({ timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs }, decay);
+      irfCounts = aligned.counts;
       irfSource = 'irf-file';
-    } else {
-      markMissing(context, 'irf', `the IRF has ${counts.length} channels of ${irf.channelWidthNs} ns but the decay has ${decay.counts.length} of ${decay.channelWidthNs} ns`);
+      if (aligned.note !== undefined) context.warnings.push(aligned.note);
+    } catch (error) {
+      if (!(error instanceof InputRejected)) throw error;
+      markMissing(context, 'irf', `${error.code}: ${error.message}; ${error.hint}`);
     }
   }
   if (irfCounts === undefined) context.warnings.push('no usable IRF: the lifetime comes from a tail fit');

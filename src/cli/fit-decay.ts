@@ -2,6 +2,7 @@
 // fits lifetimes with the decay engine and prints a text report with an ASCII residual plot, or JSON.
 import { readFile } from 'node:fs/promises';
 import { InvalidArgumentError, type Command } from 'commander';
+import { alignIrfToDecay } from '../decay/irf-axis.js';
 import { fitDecay, PARAMETER_NAMES, type DecayFitResult, type FitDecayOptions, type ParameterName } from '../decay/index.js';
 import { readData } from '../formats/index.js';
 import type { Decay } from '../model/decay.js';
@@ -130,11 +131,15 @@ export function formatFitReport(file: string, fit: DecayFitResult): string {
 async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
   const decay = await readDecay(path, 'decay');
   let irfCounts: ArrayLike<number> | undefined;
+  let irfNote: string | undefined;
   if (flags.irf !== undefined) {
     const irf = await readDecay(flags.irf, 'IRF');
-    irfCounts = irf.irfCounts ?? irf.counts;
-    if (irfCounts.length !== decay.counts.length) {
-      throw new InputRejected('LENGTH_MISMATCH', `the IRF has ${irfCounts.length} channels but the decay has ${decay.counts.length}`, { file: flags.irf });
+    try {
+      const aligned = alignIrfToDecay({ timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs }, decay);
+      irfCounts = aligned.counts;
+      irfNote = aligned.note;
+    } catch (error) {
+      throw error instanceof InputRejected ? error.withLocation(flags.irf) : error;
     }
   }
   const fit = fitDecay(decay, {
@@ -147,7 +152,8 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
     ...(flags.range === undefined ? {} : { rangeNs: flags.range }),
     ...(irfCounts === undefined ? {} : { irfCounts }),
   });
-  process.stdout.write(flags.json === true ? `${JSON.stringify({ file: path, ...fit }, null, 2)}\n` : formatFitReport(path, fit));
+  const reported = irfNote === undefined ? fit : { ...fit, warnings: [irfNote, ...fit.warnings] };
+  process.stdout.write(flags.json === true ? `${JSON.stringify({ file: path, ...reported }, null, 2)}\n` : formatFitReport(path, reported));
 }
 
 export const fitDecayCommand: CommandModule = {
@@ -156,7 +162,7 @@ export const fitDecayCommand: CommandModule = {
       .command('fit-decay')
       .argument('<decay>', 'decay histogram file (CSV/TSV/text, JCAMP-DX or driftlight JSON); an "irf" column is used as the IRF')
       .description('Fit fluorescence lifetimes: reconvolution with the IRF (or a tail fit without one), Poisson ML or weighted LS.')
-      .option('--irf <file>', 'IRF measured on the same channels (its irf or counts column)')
+      .option('--irf <file>', 'IRF file (its irf or counts column), placed on the decay\'s channels by its own time axis (resampled when finer, refused when coarser)')
       .option('--components <n>', 'number of exponentials 1-4, or auto (BIC)', parseComponents, 1)
       .option('--estimator <name>', 'ml, lsq-neyman or lsq-pearson', parseEstimator, 'ml')
       .option('--range <start:end>', 'fit range in ns, e.g. 1.5:40 (default: from the IRF rise to the end)', parseRange)

@@ -29,6 +29,7 @@ export const ERROR_CODES = {
   EXCITATION_REQUIRED: { kind: 'input', hint: 'A Raman-shift axis is relative to the excitation line; add "excitation wavelength (nm): 350" to the header or excitationNm to a formats profile.' },
   INPUT_INVALID: { kind: 'input', hint: 'The input does not meet the requirements of this analysis; see the message.' },
   AXIS_NOT_COVERED: { kind: 'input', hint: 'The correction data (blank, detector curve, absorbance) must cover the whole spectrum; trim the spectrum or supply a wider curve.' },
+  IRF_AXIS_MISMATCH: { kind: 'input', hint: 'Record the IRF with the same or finer channels than the decay, and check both files\' time axes (zero and unit): the IRF must fall inside the decay\'s window.' },
   EXCITATION_MISMATCH: { kind: 'input', hint: 'Measure the blank at the same excitation wavelength as the sample, or widen the tolerance in the options.' },
   MANIFEST_INVALID: { kind: 'input', hint: 'Fix the set manifest (NAME.set.yaml); docs/pipeline.md describes its fields.' },
   DUPLICATE_INPUT: { kind: 'input', hint: 'This content was already processed; run `driftlight reprocess` to analyse it again.' },

@@ -129,4 +129,25 @@ describe('driftlight fit-decay', () => {
     expect(Math.abs((fit.components[0]?.tauNs ?? 0) - 4)).toBeLessThan(3 * (fit.components[0]?.tauNsStdErr ?? 0));
     expect(runDriftlight(['fit-decay', path, '--repetition-rate-mhz', '-3']).status).toBe(2);
   });
+
+  it('places a separate IRF file by its own time axis (issue 15.7): finer is resampled, coarser exits 3 with IRF_AXIS_MISMATCH', () => {
+    // The same Gaussian IRF (centre 2 ns, FWHM 0.2 ns) integrated on 25 ps channels from −1 ns: truth on the decay's channels is `irf`.
+    const fineWidth = 0.0125;
+    const fine = gaussianIrf(4 * channels, fineWidth, 3, 0.2);
+    const finePath = join(directory, 'irf-fine.csv');
+    writeFileSync(finePath, ['time (ns),counts', ...Array.from(fine, (v, k) => `${(-1 + k * fineWidth).toFixed(6)},${Math.round(v * 1e5)}`)].join('\n') + '\n');
+    const run = runDriftlight(['fit-decay', decayOnly, '--irf', finePath, '--json']);
+    expect(run.status).toBe(0);
+    const fit = JSON.parse(run.stdout) as CliFit & { warnings: string[]; shiftNs: number };
+    expect(fit.warnings[0]).toMatch(/^the IRF was resampled .* and placed by its own time axis/);
+    expect(Math.abs((fit.components[0]?.tauNs ?? 0) - 3.9)).toBeLessThan(3 * (fit.components[0]?.tauNsStdErr ?? 0));
+    expect(Math.abs(fit.shiftNs)).toBeLessThan(0.02);
+    const coarsePath = join(directory, 'irf-coarse.csv');
+    const coarse = gaussianIrf(channels / 4, 4 * widthNs, 2, 0.2);
+    writeFileSync(coarsePath, ['time (ns),counts', ...Array.from(coarse, (v, k) => `${(k * 4 * widthNs).toFixed(6)},${Math.round(v * 1e5)}`)].join('\n') + '\n');
+    const refused = runDriftlight(['fit-decay', decayOnly, '--irf', coarsePath]);
+    expect(refused.status).toBe(3);
+    expect(refused.stderr).toMatch(/irf-coarse\.csv.*IRF_AXIS_MISMATCH/);
+    expect(refused.stderr).toMatch(/finer channels/);
+  });
 });

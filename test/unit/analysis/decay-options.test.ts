@@ -80,3 +80,40 @@ describe('pile-up correction in the pipeline', () => {
     expect(unknown.decayFit?.warnings.some((w) => w.startsWith('pile-up correction requested'))).toBe(true);
   });
 });
+
+describe('a separate IRF file on its own time axis (issue 15.7)', () => {
+  const decayChannels = 512;
+  const decayWidthNs = 0.05;
+  /** A Gaussian IRF (centre 2 ns, FWHM 250 ps) integrated on `count` channels of `width` starting at `startNs`, as an IRF file. */
+  const irfFile = (width: number, count: number, startNs: number): string => writeDecayCsv(createDecay({
+    timeNs: Float64Array.from({ length: count }, (_unused, k) => Number((startNs + k * width).toPrecision(12))),
+    counts: Float64Array.from(gaussianIrf(count, width, 2 - startNs, 0.25), (value) => Math.round(value * 1e5)),
+    channelWidthNs: width, metadata: {},
+  }));
+  // Truth 3.4 ns, simulated with the same IRF on the decay's own 50 ps channels.
+  const simulated = expectedDecayCounts({ channels: decayChannels, channelWidthNs: decayWidthNs, tauNs: [3.4], photons: 2e5, irf: gaussianIrf(decayChannels, decayWidthNs, 2, 0.25), backgroundPerChannel: 2 });
+  const random = createSeededRandom(21);
+  const decayContent = writeDecayCsv(createDecay({
+    timeNs: Float64Array.from({ length: decayChannels }, (_unused, k) => Number((k * decayWidthNs).toPrecision(12))),
+    counts: Float64Array.from(simulated, (mean) => samplePoisson(mean, random)), channelWidthNs: decayWidthNs, metadata: {},
+  }));
+  const withIrf = (irfContent: string): AnalysisJobPayload => {
+    const base = payload(decayContent, {});
+    return { ...base, files: [...base.files, { name: 'irf.csv', sha256: createHash('sha256').update(irfContent).digest('hex'), part: 'irf', role: 'irf', origin: 'paired', pairedFromSetId: 'irf-set', content: irfContent }] };
+  };
+
+  it('resamples a finer IRF with an offset axis onto the decay and recovers τ (within 3 SE of 3.4 ns)', () => {
+    const { result } = analyze(withIrf(irfFile(0.025, 1200, -3)));
+    expect(result.decayFit?.irfSource).toBe('irf-file');
+    expect(result.warnings.some((w) => /the IRF was resampled from 0\.02500 ns .* and placed by its own time axis/.test(w))).toBe(true);
+    const component = result.decayFit?.components[0];
+    expect(Math.abs((component?.tauNs ?? 0) - 3.4)).toBeLessThan(3 * (component?.tauNsStdErr ?? 0));
+  });
+
+  it('refuses a coarser IRF with IRF_AXIS_MISMATCH and its hint, and says the lifetime is from a tail fit', () => {
+    const { result } = analyze(withIrf(irfFile(0.1, 256, 0)));
+    expect(result.decayFit?.irfSource).toBe('none');
+    const missing = result.missing.find((m) => m.what === 'irf');
+    expect(missing?.reason).toMatch(/^IRF_AXIS_MISMATCH: .*coarser.*finer channels/);
+  });
+});
