@@ -39,7 +39,7 @@ export function prepareWorkspace(dir: string): void {
     }
     rmSync(dir, { recursive: true, force: true });
   }
-  mkdirSync(join(dir, 'inbox'), { recursive: true });
+  for (const folder of ['inbox', 'results']) mkdirSync(join(dir, folder), { recursive: true });
   writeFileSync(join(dir, MARKER), 'created by `driftlight demo`; safe to delete\n');
 }
 

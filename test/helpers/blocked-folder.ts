@@ -4,7 +4,7 @@ import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 
 /** Replaces the folder `path` (and its contents) with a regular file. */
 export function blockFolder(path: string): void {
-  rmSync(path, { recursive: true, force: true });
+  rmSync(path, { recursive: true, force: true, maxRetries: 20, retryDelay: 50 });
   writeFileSync(path, 'a file where a folder belongs');
 }
 

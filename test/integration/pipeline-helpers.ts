@@ -12,7 +12,7 @@ const created: string[] = [];
 
 /** Removes every workspace made by makeWorkspace in this test file (call from afterAll). */
 export function removeWorkspaces(): void {
-  for (const dir of created.splice(0)) rmSync(dir, { recursive: true, force: true });
+  for (const dir of created.splice(0)) rmSync(dir, { recursive: true, force: true, maxRetries: 20, retryDelay: 50 });
 }
 
 /** A temp workspace with driftlight.yaml (short windows for tests) plus `extraYaml`. */
