@@ -88,11 +88,11 @@ export function isoFromEpochMs(epochMs: number): string {
   const seconds = Math.floor(rest / 1000);
   const millis = Math.round(rest - seconds * 1000);
   const pad = (value: number, width = 2): string => String(value).padStart(width, '0');
-  return `${utcDateOf(days)}T${pad(hours)}:${pad(minutes)}:${pad(seconds)}.${pad(millis, 3)}Z`;
+  return `${civilFromDays(days)}T${pad(hours)}:${pad(minutes)}:${pad(seconds)}.${pad(millis, 3)}Z`;
 }
 
 /** YYYY-MM-DD of a day count since 1970-01-01 (H. Hinnant's civil_from_days). O(1). */
-function utcDateOf(days: number): string {
+export function civilFromDays(days: number): string {
   const shifted = days + 719468;
   const era = Math.floor(shifted / 146097);
   const dayOfEra = shifted - era * 146097;
@@ -146,7 +146,7 @@ export function wallClockToEpochMs(wallMs: number, zone: string): number {
 
 /** Local calendar date (YYYY-MM-DD) of an instant in `zone` (default UTC): the day results are filed under. */
 export function localDateOf(epochMs: number, zone = 'UTC'): string {
-  return utcDateOf(Math.floor((epochMs + zoneOffsetMs(epochMs, zone)) / DAY_MS));
+  return civilFromDays(Math.floor((epochMs + zoneOffsetMs(epochMs, zone)) / DAY_MS));
 }
 
 interface Fields {

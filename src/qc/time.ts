@@ -1,9 +1,9 @@
 // Clock-free time arithmetic for the pure core: ISO 8601 parsing to epoch ms and local wall-clock
 // parts in an IANA zone (through Intl, which is pure) or a fixed ±HH:MM offset.
 
-import { acquisitionEpochMs, daysFromCivil } from '../model/acquisition-time.js';
+import { acquisitionEpochMs, civilFromDays, daysFromCivil } from '../model/acquisition-time.js';
 
-export { daysFromCivil };
+export { civilFromDays, daysFromCivil };
 
 /** Epoch ms of a date-time read by the one acquisition-time reader (src/model/acquisition-time.ts; no offset means UTC); undefined if unreadable or ambiguous. */
 export function parseIsoToEpochMs(text: string): number | undefined {
@@ -83,20 +83,6 @@ function utcParts(wallClockMs: number): LocalParts {
   // 1970-01-01 was a Thursday (index 3 in WEEKDAYS).
   const weekday = WEEKDAYS[(((days + 3) % 7) + 7) % 7] as Weekday;
   return { date: civilFromDays(days), minuteOfDay, weekday };
-}
-
-/** YYYY-MM-DD of a day count since 1970-01-01 (H. Hinnant's civil_from_days). O(1). */
-export function civilFromDays(days: number): string {
-  const shifted = days + 719468;
-  const era = Math.floor(shifted / 146097);
-  const dayOfEra = shifted - era * 146097;
-  const yearOfEra = Math.floor((dayOfEra - Math.floor(dayOfEra / 1460) + Math.floor(dayOfEra / 36524) - Math.floor(dayOfEra / 146096)) / 365);
-  const dayOfYear = dayOfEra - (365 * yearOfEra + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100));
-  const monthIndex = Math.floor((5 * dayOfYear + 2) / 153);
-  const day = dayOfYear - Math.floor((153 * monthIndex + 2) / 5) + 1;
-  const month = monthIndex < 10 ? monthIndex + 3 : monthIndex - 9;
-  const year = yearOfEra + era * 400 + (month <= 2 ? 1 : 0);
-  return `${String(year).padStart(4, '0')}-${String(month).padStart(2, '0')}-${String(day).padStart(2, '0')}`;
 }
 
 /** "HH:MM" → minutes since midnight, or undefined when malformed. */
