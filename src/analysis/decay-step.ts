@@ -50,6 +50,7 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       components: fit.components.map((c) => ({
         tauNs: c.tauNs,
         ...(c.tauNsStdErr === undefined || !Number.isFinite(c.tauNsStdErr) ? {} : { tauNsStdErr: c.tauNsStdErr }),
+        ...(c.tauNsStdErrFromIrf === undefined || !Number.isFinite(c.tauNsStdErrFromIrf) ? {} : { tauNsStdErrFromIrf: c.tauNsStdErrFromIrf }),
         amplitude: c.amplitude,
         amplitudeFraction: c.amplitudeFraction,
         intensityFraction: c.intensityFraction,
@@ -65,6 +66,7 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       totalCounts: totalCounts(decay.counts),
       irfSource,
       ...(irfCounts === undefined ? {} : { irfFwhmNs: fullWidthHalfMaximumNs(irfCounts, decay.channelWidthNs) }),
+      errorNotes: [...fit.errorNotes],
       warnings: [...fit.warnings],
     },
   };

@@ -77,7 +77,10 @@ export interface AbsorbanceSummary {
 /** One fitted exponential component. */
 export interface DecayComponentSummary {
   readonly tauNs: number;
+  /** Standard error of τ in ns (inverse Fisher information plus the IRF's counting noise when propagated; decayFit.errorNotes says how it was formed). */
   readonly tauNsStdErr?: number;
+  /** The part of tauNsStdErr, in ns, due to the IRF's counting noise (added in quadrature); absent when not propagated (errorNotes says why). */
+  readonly tauNsStdErrFromIrf?: number;
   readonly amplitude: number;
   readonly amplitudeFraction: number;
   readonly intensityFraction: number;
@@ -105,6 +108,8 @@ export interface DecayFitSummary {
   readonly irfSource: 'decay-column' | 'irf-file' | 'none';
   /** Full width at half maximum of the IRF used, in ns (interpolated half-maximum crossings); absent without an IRF. QC metric irfWidthNs. */
   readonly irfFwhmNs?: number;
+  /** How the standard errors were formed: parameters at a bound counted as free, IRF noise propagated or why not (issue 17.3). Always written by analyze(). */
+  readonly errorNotes?: readonly string[];
   readonly warnings: readonly string[];
 }
 
