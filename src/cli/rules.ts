@@ -18,6 +18,7 @@ import {
   parseIsoToEpochMs,
   replayObservations,
   ruleKindOf,
+  ruleNeedsBaseline,
   sortByAcquisition,
   zonedTimeToEpochMs,
   describeScope,
@@ -210,7 +211,7 @@ function formatAlertLine(alert: SimulatedAlert): string {
 function chartMetrics(ruleSet: RuleSet, controlId: string): MetricName[] {
   const metrics = new Set<MetricName>();
   for (const rule of ruleSet.rules) {
-    if (scopeJudgesControl(rule.scope, controlId) && ruleKindOf(rule).needsBaseline) metrics.add(rule.metric);
+    if (scopeJudgesControl(rule.scope, controlId) && ruleNeedsBaseline(rule)) metrics.add(rule.metric);
   }
   return [...metrics];
 }

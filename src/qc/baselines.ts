@@ -27,16 +27,17 @@ export type ResolvedBaseline =
 /**
  * Mean and sample SD of baseline runs, leaving out runs beyond `excludeBeyondSd` SDs of the
  * provisional mean (one pass; common Levey–Jennings practice). Undefined when fewer than 2 remain
- * or the SD is 0. O(n).
+ * or the SD is 0, unless `allowZeroSd` (rules that use only the mean: identical runs still give a
+ * mean). O(n).
  */
-export function establishBaseline(values: readonly number[], excludeBeyondSd: number): { mean: number; sd: number; runs: number } | undefined {
+export function establishBaseline(values: readonly number[], excludeBeyondSd: number, allowZeroSd = false): { mean: number; sd: number; runs: number } | undefined {
   if (values.length < 2) return undefined;
   const provisionalMean = meanOf(values);
   const provisionalSd = sampleStandardDeviation(values);
   const kept = provisionalSd > 0 ? values.filter((value) => Math.abs(value - provisionalMean) <= excludeBeyondSd * provisionalSd) : [...values];
   if (kept.length < 2) return undefined;
   const sd = sampleStandardDeviation(kept);
-  return sd > 0 ? { mean: meanOf(kept), sd, runs: kept.length } : undefined;
+  return sd > 0 || allowZeroSd ? { mean: meanOf(kept), sd, runs: kept.length } : undefined;
 }
 
 /** The most recent record (by fromIso) for a control and metric. O(records). */
@@ -60,14 +61,17 @@ export function latestBaselineRecord(
 
 /**
  * The baseline for one control metric and the points charts judge (`points` ascending, newest
- * last): declared target → stored values → first N runs since the latest start date. O(n).
+ * last): declared target → stored values → first N runs since the latest start date.
+ * `meanSuffices`: the rule uses only the mean, so a baseline with SD 0 is accepted. O(n).
  */
 export function resolveBaseline(
   control: ControlDefinition,
   metric: MetricName,
   points: readonly SeriesPoint[],
   records: readonly BaselineRecord[],
+  options: { readonly meanSuffices?: boolean } = {},
 ): ResolvedBaseline {
+  const meanSuffices = options.meanSuffices === true;
   const record = latestBaselineRecord(records, control.id, metric);
   const fromMs = record === undefined ? -Infinity : (parseIsoToEpochMs(record.fromIso) ?? -Infinity);
   const sincePeriodStart = points.filter((point) => point.epochMs >= fromMs);
@@ -79,7 +83,7 @@ export function resolveBaseline(
       chartSeries: sincePeriodStart,
     };
   }
-  if (record?.mean !== undefined && record.sd !== undefined && record.sd > 0) {
+  if (record?.mean !== undefined && record.sd !== undefined && (record.sd > 0 || (meanSuffices && record.sd === 0))) {
     const throughMs = record.throughIso === undefined ? fromMs : (parseIsoToEpochMs(record.throughIso) ?? fromMs);
     return {
       status: 'established',
@@ -102,6 +106,7 @@ export function resolveBaseline(
   const established = establishBaseline(
     baselineRuns.map((point) => point.value),
     control.baselineExcludeBeyondSd,
+    meanSuffices,
   );
   const lastRun = baselineRuns[runsNeeded - 1];
   const firstRun = baselineRuns[0];

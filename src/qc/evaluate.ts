@@ -6,7 +6,7 @@ import type { ControlObservation, MetricName } from './metrics.js';
 import { flagKey, type QcFlag } from './qc-flag.js';
 import { INSTRUMENT_SCOPE, isInstrumentScope, scopeJudgesControl } from './rule-base.js';
 import type { EstablishedBaseline, RuleFinding, SeriesPoint } from './rule-kind.js';
-import { ruleKindOf, type Rule } from './rule-kinds/registry.js';
+import { ruleKindOf, ruleNeedsBaseline, type Rule } from './rule-kinds/registry.js';
 import type { RuleSet } from './rule-set.js';
 import { epochMsToIso, parseIsoToEpochMs, requireEpochMs } from './time.js';
 
@@ -107,10 +107,10 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
     }
     let baseline: EstablishedBaseline | undefined;
     let chartSeries: readonly SeriesPoint[] = points;
-    if (kind.needsBaseline) {
+    if (ruleNeedsBaseline(rule)) {
       const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
       if (control === undefined) continue;
-      const resolved = resolveBaseline(control, rule.metric, points, baselines);
+      const resolved = resolveBaseline(control, rule.metric, points, baselines, { meanSuffices: kind.baselineMeanSuffices === true });
       if (resolved.status !== 'established') continue;
       baseline = resolved.baseline;
       chartSeries = resolved.chartSeries;

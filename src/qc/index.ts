@@ -4,7 +4,7 @@ export { SEVERITIES, INSTRUMENT_SCOPE, severityRank, describeScope, isInstrument
 export type { QcFlag, RecoveryNotice } from './qc-flag.js';
 export { flagKey } from './qc-flag.js';
 export { parseRuleSet, formatConfigPath, rulesJudgingControl, ruleSetWarnings, withControls, describeRuleScope, type RuleSet } from './rule-set.js';
-export { RULE_KINDS, RULE_KIND_NAMES, ruleKindOf, type Rule, type RuleKindName } from './rule-kinds/registry.js';
+export { RULE_KINDS, RULE_KIND_NAMES, ruleKindOf, ruleNeedsBaseline, type Rule, type RuleKindName } from './rule-kinds/registry.js';
 export { DEFAULT_BASELINE_RUNS, findControl, isControlMatch, controlSchema, type ControlDefinition } from './controls.js';
 export { establishBaseline, resolveBaseline, latestBaselineRecord, type BaselineRecord, type ResolvedBaseline } from './baselines.js';
 export { evaluateRules, evaluateRuleStates, evaluateClockRules, seriesFor, type EvaluationInput, type ClockEvaluationInput, type RuleStates } from './evaluate.js';

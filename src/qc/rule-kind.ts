@@ -58,8 +58,10 @@ export interface RuleFinding {
 export interface RuleKindDefinition<Schema extends z.ZodType<BaseRule>> {
   readonly kind: string;
   readonly schema: Schema;
-  /** True for charts judged against a mean and SD (Westgard, Nelson, EWMA, CUSUM). */
-  readonly needsBaseline: boolean;
+  /** True for charts judged against a mean and SD (Westgard, Nelson, EWMA, CUSUM); a function when it depends on the rule's parameters. */
+  readonly needsBaseline: boolean | ((rule: z.output<Schema>) => boolean);
+  /** True when the kind uses only the baseline mean: a baseline whose SD is 0 (a peak read on a 1 nm grid) still serves. Default false. */
+  readonly baselineMeanSuffices?: boolean;
   /** One line for `driftlight rules check`. */
   describe(rule: z.output<Schema>): string;
   /** Judges the newest point of the series (observation-driven kinds). */

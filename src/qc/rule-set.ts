@@ -5,7 +5,7 @@ import { LineCounter, parseDocument } from 'yaml';
 import { ConfigInvalid } from '../model/errors.js';
 import { controlSchema, type ControlDefinition } from './controls.js';
 import { describeScope, isInstrumentScope, namedControls, scopeJudgesControl } from './rule-base.js';
-import { RULE_KIND_NAMES, RULE_KINDS, type Rule, type RuleKindName } from './rule-kinds/registry.js';
+import { RULE_KIND_NAMES, RULE_KINDS, ruleNeedsBaseline, type Rule, type RuleKindName } from './rule-kinds/registry.js';
 import { isValidTimeZone } from './time.js';
 
 export interface RuleSet {
@@ -68,7 +68,7 @@ function crossCheck(controls: readonly ControlDefinition[], rules: readonly Rule
     if (unknown.length > 0) {
       problems.push({ path: ['rules', index, 'scope'], message: `no control with id "${unknown.join('", "')}" is defined under controls` });
     }
-    if (isInstrumentScope(rule.scope) && RULE_KINDS[rule.kind].needsBaseline) {
+    if (isInstrumentScope(rule.scope) && ruleNeedsBaseline(rule)) {
       problems.push({ path: ['rules', index, 'scope'], message: `${rule.kind} judges against a control's mean and SD; scope it to a control` });
     }
   });

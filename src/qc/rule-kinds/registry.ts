@@ -32,3 +32,9 @@ export type Rule = { [Name in RuleKindName]: z.output<(typeof RULE_KINDS)[Name][
 export function ruleKindOf(rule: Rule): RuleKindDefinition<z.ZodType<BaseRule>> {
   return RULE_KINDS[rule.kind] as RuleKindDefinition<z.ZodType<BaseRule>>;
 }
+
+/** True when the rule judges against a control's baseline (mean and SD, or the mean alone: see baselineMeanSuffices). */
+export function ruleNeedsBaseline(rule: Rule): boolean {
+  const { needsBaseline } = ruleKindOf(rule);
+  return typeof needsBaseline === 'function' ? needsBaseline(rule) : needsBaseline;
+}
