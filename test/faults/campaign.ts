@@ -7,6 +7,7 @@
 // exactly one result (lost 0, duplicated 0), nothing may stay in the inbox or the ledger unfinished
 // (stuck 0), every link must be quarantined and its target left alone.
 import { spawnSync, type ChildProcess } from 'node:child_process';
+import Database from 'better-sqlite3';
 import { appendFileSync, existsSync, mkdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { seededRandom } from '../../src/demo/synthetic.js';
@@ -22,8 +23,8 @@ export interface CampaignOptions {
   readonly outages: number;
   readonly outageMs: number;
   readonly seed: number;
-  /** Sets written per step (a step every 100 ms). */
-  readonly setsPerStep: number;
+  /** Sets written per step (a step every 100 ms); by default spread so the sets arrive over the first 80 % of the fault schedule, each fault striking while sets still arrive. */
+  readonly setsPerStep?: number;
   /** How long the final drain may take, in ms. */
   readonly drainTimeoutMs: number;
 }
@@ -58,8 +59,33 @@ function manifestText(set: GeneratedSet): string {
   return [`sampleId: ${set.sampleId}`, 'role: sample', 'files:', ...set.files.map((f) => `  - { file: ${f.name}, part: ${part(f.name)} }`), ''].join('\n');
 }
 
-/** Runs the campaign in a fresh workspace and returns its row (and the workspace, for inspection). */
-export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; dir: string }> {
+/**
+ * What became of each lost set, for the report: its sets in the ledger (state, error, whether the
+ * result file named there exists), its files (state, error code), and what of it is left in the
+ * inbox or quarantine. One line per lost sample id.
+ */
+export function diagnoseLost(dir: string, sampleIds: readonly string[]): string[] {
+  if (sampleIds.length === 0) return [];
+  const db = new Database(join(dir, 'state', 'ledger.sqlite'), { readonly: true });
+  try {
+    const inbox = listFiles(join(dir, 'inbox'));
+    const quarantine = listFiles(join(dir, 'quarantine'));
+    return sampleIds.map((id) => {
+      const sets = db.prepare('SELECT id, state, error_code, result_path FROM sets WHERE sample_id = ?').all(id) as { id: string; state: string; error_code: string | null; result_path: string | null }[];
+      const files = db.prepare(`SELECT name, state, error_code FROM files WHERE sample_id = ? OR name LIKE ? ORDER BY id`).all(id, `${id}%`) as { name: string; state: string; error_code: string | null }[];
+      const setText = sets.map((s) => `${s.id} ${s.state}${s.error_code === null ? '' : ` ${s.error_code}`}${s.result_path === null ? '' : existsSync(s.result_path) ? ' result present' : ' RESULT FILE MISSING'}`).join('; ') || 'no set';
+      const fileText = files.map((f) => `${f.name} ${f.state}${f.error_code === null ? '' : ` ${f.error_code}`}`).join(', ') || 'no file recorded';
+      const left = inbox.filter((p) => p.includes(id));
+      const held = quarantine.filter((p) => p.includes(id) && !p.endsWith('.error.json'));
+      return `${id}: sets [${setText}]; files [${fileText}]; inbox [${left.join(', ')}]; quarantine [${held.join(', ')}]`;
+    });
+  } finally {
+    db.close();
+  }
+}
+
+/** Runs the campaign in a fresh workspace and returns its row, what became of each lost set, and the workspace (for inspection). */
+export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; lostDetail: string[]; dir: string }> {
   const startedAt = Date.now();
   const dir = makeWorkspace('', { stabilityWindowMs: 400, setTimeoutMs: 600_000 });
   const inbox = join(dir, 'inbox');
@@ -116,12 +142,15 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     const j = Math.floor(random.nextUniform() * (i + 1));
     [faults[i], faults[j]] = [faults[j] as 'kill' | 'outage', faults[i] as 'kill' | 'outage'];
   }
+  const waits = faults.map(() => 500 + Math.floor(random.nextUniform() * 2000));
+  const steps = Math.max(1, Math.floor((0.8 * waits.reduce((a, b) => a + b, 0)) / 100));
+  const setsPerStep = options.setsPerStep ?? Math.max(1, Math.ceil(planned.length / steps));
   let child: ChildProcess = startWatch(dir);
-  for (const fault of faults) {
-    const waitMs = 500 + Math.floor(random.nextUniform() * 2000);
+  for (const [index, fault] of faults.entries()) {
+    const waitMs = waits[index] ?? 0;
     const started = Date.now();
     while (Date.now() - started < waitMs) {
-      if (next < planned.length) writeSome(options.setsPerStep);
+      if (next < planned.length) writeSome(setsPerStep);
       await sleep(100);
     }
     if (fault === 'kill') {
@@ -135,7 +164,7 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     }
   }
   while (next < planned.length) {
-    writeSome(options.setsPerStep);
+    writeSome(setsPerStep);
     await sleep(100);
   }
   await Promise.all(slowWrites);
@@ -160,7 +189,8 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const found = readResults(dir);
   const bySample = new Map<string, number>();
   for (const r of found) bySample.set(r.result.sampleId, (bySample.get(r.result.sampleId) ?? 0) + 1);
-  const lost = [...expectedIds].filter((id) => !bySample.has(id)).length;
+  const lostIds = [...expectedIds].filter((id) => !bySample.has(id));
+  const lost = lostIds.length;
   // Extra results for a set, and results under a sample id no set has (invented ids).
   const duplicated = [...bySample.entries()].reduce((n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count), 0);
   const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], { encoding: 'utf8' });
@@ -181,7 +211,7 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     results: found.length, lost, duplicated, stuck, linksFollowed,
     seconds: Math.round((Date.now() - startedAt) / 1000),
   };
-  return { row, dir };
+  return { row, lostDetail: diagnoseLost(dir, lostIds), dir };
 }
 
 /** The row as a Markdown table (header + one line). */

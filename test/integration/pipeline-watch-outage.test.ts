@@ -56,7 +56,8 @@ describe('driftlight watch through a storage outage', () => {
     unblockFolder(join(dir, 'archive'));
     await waitFor('inputs archived by the repair', () => set.files.every((f) => !existsSync(join(dir, 'inbox', f.name))), 15_000);
     expect(listFiles(join(dir, 'archive')).filter((p) => p.includes('outage-archive'))).toHaveLength(set.files.length);
-    expect(log()).toContain('repair: finished file moves that had failed');
+    // The log line is written asynchronously, a moment after the moves it reports.
+    await waitFor('the repair in the log', () => log().includes('repair: finished file moves that had failed'));
   }, 40_000);
 
   it('still stops cleanly on SIGTERM', async () => {
