@@ -163,6 +163,11 @@ export function assembleRecordedFile(ledger: Ledger, id: number, facts: FileFact
   setFileState(ledger, id, 'assembled', now, setId);
 }
 
+/** Moves an assembled file into set `setId` as `part` (a manifest claiming it); `role` null keeps its role. */
+export function moveFileToSet(ledger: Ledger, id: number, setId: string, part: string, role: string | null): void {
+  ledger.prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?').run(setId, part, role, id);
+}
+
 /** Moves a file to `state`, optionally attaching it to a set. */
 export function setFileState(ledger: Ledger, id: number, state: FileState, now: Date, setId?: string | null): void {
   if (setId === undefined) {

@@ -69,6 +69,11 @@ export function setsInState(ledger: Ledger, state: SetState): SetRecord[] {
   return (ledger.prepare('SELECT * FROM sets WHERE state = ? ORDER BY created_at, id').all(state) as SetRow[]).map(toRecord);
 }
 
+/** Ids of the sets in state `queued`, oldest first (re-enqueued at start-up). */
+export function queuedSetIds(ledger: Ledger): string[] {
+  return (ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[]).map((row) => row.id);
+}
+
 /** Finished sets created at or after `since`, oldest first (for reprocess). */
 export function finishedSetsSince(ledger: Ledger, since: Date): SetRecord[] {
   return (ledger
