@@ -94,4 +94,6 @@ export interface AnalysisOutput {
   readonly result: AnalysisResult;
   readonly artifacts: readonly AnalysisArtifact[];
   readonly rejectedInputs?: readonly RejectedInput[];
+  /** Wall time of analyze() in the worker, ms (set by the job processor, not by the pure core; /metrics histograms it). */
+  readonly analysisDurationMs?: number;
 }

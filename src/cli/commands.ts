@@ -17,5 +17,6 @@ import { fitDecayCommand } from './fit-decay.js';
 import { chartCommand } from './chart.js';
 import { exportCommand } from './export.js';
 import { digestCommand } from './digest.js';
+import { serveCommand } from './serve.js';
 
-export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand, digestCommand];
+export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand, digestCommand, serveCommand];

@@ -5,12 +5,15 @@ import { join } from 'node:path';
 import { LEDGER_FILE_NAME, openLedger } from '../store/ledger.js';
 import { ledgerStatus, type LedgerStatus } from '../store/status.js';
 import { openQcFlagCounts, undeliveredAlerts } from '../store/alert-outbox.js';
+import { openFlagsByControl } from '../store/report-queries.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
 
 /** What `status` adds about QC and alerts: open flags and deliveries not delivered. */
 export interface AttentionStatus {
   readonly openQcFlags: { readonly info: number; readonly warning: number; readonly critical: number };
+  /** Open flags per control (and the instrument scope), each rule + metric once; the status page shows the same. */
+  readonly openFlagsByControl?: ReturnType<typeof openFlagsByControl>;
   readonly alerts: ReturnType<typeof undeliveredAlerts>;
 }
 
@@ -29,6 +32,10 @@ export function formatStatus(status: LedgerStatus, attention?: AttentionStatus):
   if (attention !== undefined) {
     const flags = attention.openQcFlags;
     lines.push(`QC flags open: ${flags.critical} critical, ${flags.warning} warning, ${flags.info} info`);
+    for (const { controlId, flags: open } of attention.openFlagsByControl ?? []) {
+      lines.push(`  ${controlId}: ${open.length} open`);
+      for (const f of open) lines.push(`    ${f.severity.padEnd(8)} ${f.ruleId} ${f.check} (${f.metric}, run ${f.acquiredAt}): ${f.message}`);
+    }
     const { pending, expired, latest } = attention.alerts;
     if (pending + expired === 0) lines.push('alerts not delivered: none');
     else {
@@ -54,7 +61,7 @@ export const statusCommand: CommandModule = {
         const ledger = openLedger(config.folders.state);
         try {
           const status = ledgerStatus(ledger);
-          const attention: AttentionStatus = { openQcFlags: openQcFlagCounts(ledger), alerts: undeliveredAlerts(ledger) };
+          const attention: AttentionStatus = { openQcFlags: openQcFlagCounts(ledger), openFlagsByControl: openFlagsByControl(ledger), alerts: undeliveredAlerts(ledger) };
           process.stdout.write(options.json === true ? `${JSON.stringify({ ...status, ...attention }, null, 2)}\n` : formatStatus(status, attention));
         } finally {
           ledger.close();

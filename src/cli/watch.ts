@@ -12,6 +12,7 @@ import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { softwareVersion } from './version.js';
 import { startWatchDigest } from './digest.js';
+import { startHttp, untilSignal, withHttpOptions, type HttpCliOptions } from './serve.js';
 
 /** How often time-based result-stage checks run while watching, in ms. */
 const CLOCK_CHECK_INTERVAL_MS = 60_000;
@@ -29,13 +30,20 @@ export interface WatchRuntimeOptions {
 }
 
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
-export async function runWatch(options: ConfigCliOptions, stop: Promise<string>, runtime: WatchRuntimeOptions = {}): Promise<void> {
+export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop: Promise<string>, runtime: WatchRuntimeOptions = {}): Promise<void> {
   const config = configFromOptions(options);
   const clock = runtime.clock ?? ((): Date => new Date());
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), command: 'watch', requireFolders: requiredFolders(config), ...(runtime.clock === undefined ? {} : { clock: runtime.clock }) });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
   const digestSchedule = startWatchDigest(pipeline);
+  // --http: the status page over this process's ledger (the same routes as `driftlight serve`).
+  const http = options.http === undefined ? undefined : await startHttp(options, config, pipeline.ledger).catch(async (error: unknown) => {
+    await digestSchedule?.stop();
+    await pipeline.close();
+    throw error;
+  });
+  if (http !== undefined) logger.info({ url: http.url }, `status page at ${http.url}`);
   let chain: Promise<void> = Promise.resolve();
   const serial = (work: () => Promise<void>): void => {
     chain = chain.then(work).catch((error: unknown) => logger.error({ err: error }, 'pipeline step failed'));
@@ -100,6 +108,7 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>,
   clearInterval(retryTimer);
   process.off('SIGHUP', onHangup);
   await digestSchedule?.stop();
+  await http?.close();
   await watcher.close();
   logger.debug('watcher closed');
   await chain;
@@ -116,14 +125,10 @@ export async function runWatch(options: ConfigCliOptions, stop: Promise<string>,
 
 export const watchCommand: CommandModule = {
   register(program: Command) {
-    withRedisOption(withConfigOption(
+    withHttpOptions(withRedisOption(withConfigOption(
       program.command('watch').description('watch the inbox and analyse every new file until SIGINT/SIGTERM'),
-    )).action(async (options: ConfigCliOptions) => {
-      const stop = new Promise<string>((resolve) => {
-        process.once('SIGINT', () => resolve('SIGINT'));
-        process.once('SIGTERM', () => resolve('SIGTERM'));
-      });
-      await runWatch(options, stop);
+    )), 'also serve the status page, /healthz and /metrics on this address').action(async (options: ConfigCliOptions & HttpCliOptions) => {
+      await runWatch(options, untilSignal());
       // Everything is drained and closed; a stray library handle (file-system poll timers) must not
       // keep the process alive. Unref'd: when nothing is left the process exits at once anyway.
       setTimeout(() => process.exit(process.exitCode ?? 0), 500).unref();

@@ -8,7 +8,9 @@ import { INSTRUMENT_SCOPE, METRICS, epochMsToIso, localParts, parseIsoToEpochMs,
 import { civilFromDays, daysFromCivil } from '../qc/time.js';
 import type { Ledger } from '../store/ledger.js';
 import { observationHistory } from '../store/qc-store.js';
-import { deliveriesBetween, filesReceivedBetween, flagsOfControls, rejectionsBetween, undeliveredAlerts, waitingSets } from '../store/report-queries.js';
+import { undeliveredAlerts } from '../store/alert-outbox.js';
+import { excludedSetIds } from '../store/qc-actions-store.js';
+import { deliveriesBetween, filesReceivedBetween, flagsOfControls, rejectionsBetween, waitingSets } from '../store/report-queries.js';
 import { resultsBetween } from '../store/results.js';
 import { controlChartsFromLedger } from './chart-source.js';
 import { dayFolderName } from './dated-path.js';
@@ -19,7 +21,7 @@ import { summaryRowOf, type SummaryRow } from './summary-table.js';
 const INSTRUMENT_METRICS: readonly MetricName[] = ['irfWidthNs', 'ramanSnr', 'ramanPeakErrorNm'];
 const CONTROL_HEALTH_METRICS: readonly MetricName[] = ['intensityPerAbsorbedLight'];
 /** Control metrics charted in the digest (the two the lab signs off on); `driftlight chart` draws every metric. */
-const DIGEST_CHART_METRICS: readonly MetricName[] = ['controlQuantumYield', 'meanLifetimeNs'];
+export const DIGEST_CHART_METRICS: readonly MetricName[] = ['controlQuantumYield', 'meanLifetimeNs'];
 /** The most spectra overlaid in one plot (more are listed in the plot's notes). */
 const MAX_SPECTRA = 8;
 
@@ -126,7 +128,7 @@ export interface GatherOptions {
   readonly ruleSet: RuleSet;
   readonly now: Date;
   readonly softwareVersion: string;
-  /** Set ids excluded from control statistics (qc records). */
+  /** Set ids excluded from control statistics. Default: those excluded by `driftlight rules exclude` (qc_actions). */
   readonly excludedSetIds?: ReadonlySet<string>;
 }
 
@@ -184,8 +186,9 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       openFlags: allFlags.filter((flag) => flag.controlId === control.id && flag.open).length,
     };
   });
+  const excluded = options.excludedSetIds ?? excludedSetIds(ledger);
   const charts = DIGEST_CHART_METRICS.flatMap((metric) =>
-    controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs: historyFromMs, ...(options.excludedSetIds === undefined ? {} : { excludedSetIds: options.excludedSetIds }) }))
+    controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs: historyFromMs, excludedSetIds: excluded }))
     .filter((chart) => chart.points.length > 0)
     .sort((a, b) => a.controlId.localeCompare(b.controlId));
 
@@ -218,16 +221,7 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       ? { file: curvePath, ageDays: (options.now.getTime() - statSync(curvePath).mtimeMs) / 86_400_000 }
       : { file: curvePath, note: 'the configured detector curve file does not exist' };
 
-  const requiredFor = (role: string): readonly string[] =>
-    role === 'reference' ? config.assembly.referenceRequiredParts : role === 'sample' || role === 'control' ? config.assembly.requiredParts : [];
-  const waiting = waitingSets(ledger).map((set) => {
-    const has = new Set<string>();
-    for (const file of set.files) {
-      if (file.part !== null) has.add(file.part);
-      if (file.part === 'decay' && file.hasIrfColumn) has.add('irf');
-    }
-    return { setId: set.setId, sampleId: set.sampleId, role: set.role, state: set.state, since: set.createdAt, has: [...has].sort(), lacks: requiredFor(set.role).filter((part) => !has.has(part)) };
-  });
+  const waiting = waitingWithLacks(ledger, config);
 
   const controlResults = results.filter(({ result }) => result.role === 'control' && result.decayFit !== undefined);
   const lastControl = controlResults[controlResults.length - 1];
@@ -259,13 +253,38 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       delivered: deliveries.filter((d) => d.status === 'delivered').length,
       failed: deliveries.filter((d) => d.status === 'failed').length,
       deliveries: deliveries.map((d) => ({ channelId: d.channelId, key: d.key, type: d.type, severity: d.severity, status: d.status, attempts: d.attempts, error: d.error, at: epochMsToIso(d.atMs) })),
-      undelivered: undeliveredAlerts(ledger).map((d) => ({ channelId: d.channelId, key: d.key, severity: d.severity, error: d.error, at: epochMsToIso(d.atMs) })),
+      undelivered: undeliveredAlerts(ledger, 100).latest.map((d) => ({ channelId: d.channelId, key: d.key, severity: d.severity, status: d.status, attempts: d.attempts, error: d.lastError, at: epochMsToIso(d.createdAtMs) })),
     },
     controls, charts,
     health: { trends, detectorCurve, historyDays: config.digest.historyDays },
     samples, waiting,
     plots: { ...(controlDecay === undefined ? {} : { controlDecay }), emission: emission.slice(0, MAX_SPECTRA), notes },
   };
+}
+
+/** A set not yet finished, with the parts it has and the required parts it still lacks. */
+export interface WaitingWithLacks {
+  readonly setId: string;
+  readonly sampleId: string;
+  readonly role: string;
+  readonly state: string;
+  readonly since: string;
+  readonly has: readonly string[];
+  readonly lacks: readonly string[];
+}
+
+/** Waiting sets (open or queued) with what each has and lacks of the parts its role requires (assembly.requiredParts, assembly.referenceRequiredParts). */
+export function waitingWithLacks(ledger: Ledger, config: DriftlightConfig): WaitingWithLacks[] {
+  const requiredFor = (role: string): readonly string[] =>
+    role === 'reference' ? config.assembly.referenceRequiredParts : role === 'sample' || role === 'control' ? config.assembly.requiredParts : [];
+  return waitingSets(ledger).map((set) => {
+    const has = new Set<string>();
+    for (const file of set.files) {
+      if (file.part !== null) has.add(file.part);
+      if (file.part === 'decay' && file.hasIrfColumn) has.add('irf');
+    }
+    return { setId: set.setId, sampleId: set.sampleId, role: set.role, state: set.state, since: set.createdAt, has: [...has].sort(), lacks: requiredFor(set.role).filter((part) => !has.has(part)) };
+  });
 }
 
 /** The zone a digest day is counted in: digest.timeZone, else the lab's zone of the effective rule set (rules.timeZone). */

@@ -24,6 +24,7 @@ import { moveFile } from '../output/move-file.js';
 import { writeOutbox } from '../output/outbox-writer.js';
 import { writeResult } from '../output/result-writer.js';
 import { archiveFolderOf, rejectFile } from './intake.js';
+import { recordAnalysisDuration } from '../store/metrics-queries.js';
 
 /** One finished set to commit: the worker's output, the result after the result stages, and when the set was created (the day folders are named by the result's acquisition time, else by this). */
 export interface CommitItem {
@@ -99,8 +100,9 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   if (committed.length > 0) {
     ledger.durableTransaction(() => {
       recordMoves(ledger, earlierMoves, now);
-      for (const { item: { result }, path, sha256, rejected } of committed) {
+      for (const { item: { result, output }, path, sha256, rejected } of committed) {
         markSetDone(ledger, result.setId, path, result.partial, now);
+        if (output.analysisDurationMs !== undefined) recordAnalysisDuration(ledger, result.setId, output.analysisDurationMs, now.toISOString());
         upsertResult(ledger, {
           setId: result.setId, path, sampleId: result.sampleId, role: result.role,
           acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,

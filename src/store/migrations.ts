@@ -6,6 +6,7 @@ import type { Database } from 'better-sqlite3';
 import { QC_MIGRATIONS } from './qc-migrations.js';
 import { ACQUISITION_MIGRATIONS } from './acquisition-migrations.js';
 import { ALERT_OUTBOX_MIGRATIONS } from './alert-outbox-migrations.js';
+import { METRICS_MIGRATIONS } from './metrics-migrations.js';
 
 export interface Migration {
   /** Stable, sortable id such as '0001-core'; recorded once applied. */
@@ -112,7 +113,7 @@ const CORE_MIGRATIONS: readonly Migration[] = [
 ];
 
 /** Every migration, in the order applied. Append other modules' lists here. */
-export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS, ...ALERT_OUTBOX_MIGRATIONS];
+export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS, ...ALERT_OUTBOX_MIGRATIONS, ...METRICS_MIGRATIONS];
 
 /** Applies every migration of `migrations` not yet recorded, each in its own transaction; returns the ids applied. */
 export function applyMigrations(database: Database, migrations: readonly Migration[] = MIGRATIONS): string[] {

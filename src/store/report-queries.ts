@@ -1,5 +1,6 @@
 // Read-only queries for the face of the tool (charts, digest, status page): every flag of a control
 // (open or closed), files and rejections of a period, alert deliveries of a period, waiting sets.
+// Alerts not delivered come from the durable outbox (alert-outbox.ts).
 import { METRIC_NAMES, SEVERITIES } from '../qc/index.js';
 import type { MetricName, QcFlag, Severity } from '../qc/index.js';
 import type { Ledger } from './ledger.js';
@@ -74,17 +75,6 @@ export function deliveriesBetween(ledger: Ledger, fromMs: number, toMs: number):
   return rows.map((r) => ({ channelId: r.channel_id, key: r.flag_key, type: r.type, severity: r.severity, status: r.status, attempts: r.attempts, error: r.error, atMs: r.at_ms }));
 }
 
-/** Failed deliveries with no later successful delivery of the same key on the same channel, newest first. */
-export function undeliveredAlerts(ledger: Ledger, limit = 100): DeliveryActivity[] {
-  const rows = ledger.database
-    .prepare(`SELECT d.channel_id, d.flag_key, d.type, d.severity, d.status, d.attempts, d.error, d.at_ms FROM qc_deliveries d
-              WHERE d.status = 'failed' AND NOT EXISTS (SELECT 1 FROM qc_deliveries later WHERE later.channel_id = d.channel_id
-              AND later.flag_key = d.flag_key AND later.status = 'delivered' AND later.id > d.id)
-              ORDER BY d.id DESC LIMIT ?`)
-    .all(limit) as { channel_id: string; flag_key: string; type: string; severity: string; status: 'delivered' | 'failed'; attempts: number; error: string | null; at_ms: number }[];
-  return rows.map((r) => ({ channelId: r.channel_id, key: r.flag_key, type: r.type, severity: r.severity, status: r.status, attempts: r.attempts, error: r.error, atMs: r.at_ms }));
-}
-
 export interface WaitingSet {
   readonly setId: string;
   readonly sampleId: string;
@@ -105,4 +95,29 @@ export function waitingSets(ledger: Ledger, limit = 200): WaitingSet[] {
     setId: s.id, sampleId: s.sample_id, role: s.role, state: s.state, createdAt: s.created_at, deadlineAt: s.deadline_at,
     files: (filesOf.all(s.id) as { name: string; part: string | null; has_irf_column: number }[]).map((f) => ({ name: f.name, part: f.part, hasIrfColumn: f.has_irf_column === 1 })),
   }));
+}
+
+/** An open flag of a control, once per rule + metric (the latest run that raised it). */
+export interface OpenControlFlag {
+  readonly ruleId: string;
+  readonly check: string;
+  readonly severity: Severity;
+  readonly metric: MetricName;
+  readonly message: string;
+  readonly setId: string;
+  readonly acquiredAt: string;
+}
+
+/** Open QC flags grouped by control (instrument scope included), each rule + metric once with its latest run; controls in id order. */
+export function openFlagsByControl(ledger: Ledger): { controlId: string; flags: OpenControlFlag[] }[] {
+  const latest = new Map<string, Map<string, OpenControlFlag>>();
+  for (const flag of flagsOfControls(ledger)) {
+    if (!flag.open) continue;
+    const perControl = latest.get(flag.controlId) ?? new Map<string, OpenControlFlag>();
+    perControl.set(`${flag.ruleId}|${flag.metric}`, {
+      ruleId: flag.ruleId, check: flag.check, severity: flag.severity, metric: flag.metric, message: flag.message, setId: flag.setId, acquiredAt: flag.acquiredAt,
+    });
+    latest.set(flag.controlId, perControl);
+  }
+  return [...latest.entries()].sort(([a], [b]) => a.localeCompare(b)).map(([controlId, flags]) => ({ controlId, flags: [...flags.values()] }));
 }
