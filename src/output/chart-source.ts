@@ -2,6 +2,7 @@
 // of each control, for the controls of a rule set (the caller loads the rule set).
 import { type ControlDefinition, type MetricName, type RuleSet, INSTRUMENT_SCOPE } from '../qc/index.js';
 import { baselineRecords, observationHistory } from '../store/qc-store.js';
+import { excludedSetIds } from '../store/qc-actions-store.js';
 import { flagsOfControls } from '../store/report-queries.js';
 import type { Ledger } from '../store/ledger.js';
 import { buildControlChart, metricsOfControl, type ControlChartData } from './chart-series.js';
@@ -13,7 +14,7 @@ export interface ChartSelection {
   readonly metric?: MetricName;
   /** Runs at or after this instant are drawn (statistics use the whole history). */
   readonly sinceEpochMs?: number;
-  /** Runs excluded from the statistics (set ids). */
+  /** Runs excluded from the statistics (set ids). Default: those excluded by `driftlight rules exclude` (qc_actions). */
   readonly excludedSetIds?: ReadonlySet<string>;
 }
 
@@ -35,13 +36,14 @@ export function controlChartsFromLedger(ledger: Ledger, ruleSet: RuleSet, select
   const observations = observationHistory(ledger, ids);
   const baselines = baselineRecords(ledger);
   const flags = flagsOfControls(ledger, ids);
+  const excluded = selection.excludedSetIds ?? excludedSetIds(ledger);
   const charts: ControlChartData[] = [];
   for (const control of controls) {
     const metrics = selection.metric === undefined ? metricsOfControl(observations, control.id) : [selection.metric];
     for (const metric of metrics) {
       charts.push(buildControlChart({
         control, metric, ruleSet, observations, baselines, flags: flags.filter((flag) => flag.controlId === control.id),
-        ...(selection.excludedSetIds === undefined ? {} : { excludedSetIds: selection.excludedSetIds }),
+        excludedSetIds: excluded,
         ...(selection.sinceEpochMs === undefined ? {} : { sinceEpochMs: selection.sinceEpochMs }),
       }));
     }

@@ -85,8 +85,8 @@ export interface DigestData {
     readonly delivered: number;
     readonly failed: number;
     readonly deliveries: readonly { readonly channelId: string; readonly key: string; readonly type: string; readonly severity: string; readonly status: string; readonly attempts: number; readonly error: string | null; readonly at: string }[];
-    /** Alerts whose last delivery on a channel failed (any day), newest first. */
-    readonly undelivered: readonly { readonly channelId: string; readonly key: string; readonly severity: string; readonly error: string | null; readonly at: string }[];
+    /** Alerts not delivered (any day) from the durable alert outbox: 'pending' still retried, 'expired' given up; newest first. */
+    readonly undelivered: readonly { readonly channelId: string; readonly key: string; readonly severity: string; readonly status: 'pending' | 'expired'; readonly attempts: number; readonly error: string | null; readonly at: string }[];
   };
   readonly controls: readonly ControlVerdict[];
   readonly charts: readonly ControlChartData[];

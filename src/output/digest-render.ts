@@ -129,7 +129,7 @@ export async function renderDigest(data: DigestData): Promise<DigestForms> {
     data.alerts.deliveries.length === 0 ? '<p>No alert deliveries this day.</p>'
       : tableHtml(['at', 'channel', 'alert', 'severity', 'status', 'attempts', 'error'], data.alerts.deliveries.map((d) => [d.at, d.channelId, d.key, d.severity, d.status, String(d.attempts), d.error ?? ''])),
     data.alerts.undelivered.length === 0 ? '<p>Every alert was delivered.</p>'
-      : `<p><strong>Not delivered:</strong></p>${tableHtml(['at', 'channel', 'alert', 'severity', 'last error'], data.alerts.undelivered.map((d) => [d.at, d.channelId, d.key, d.severity, d.error ?? '']))}`,
+      : `<p><strong>Not delivered:</strong></p>${tableHtml(['raised', 'channel', 'alert', 'severity', 'state', 'attempts', 'last error'], data.alerts.undelivered.map((d) => [d.at, d.channelId, d.key, d.severity, d.status === 'pending' ? 'still retried' : 'expired (given up)', String(d.attempts), d.error ?? 'not tried yet']))}`,
     '<h2 id="rejections">Rejected files</h2>',
     data.rejections.length === 0 ? '<p>None.</p>' : tableHtml(['at', 'file', 'state', 'code', 'reason'], data.rejections.map((r) => [r.at, r.name, r.state, r.code, r.message])),
     '<h2 id="waiting">Waiting sets</h2>',
@@ -166,7 +166,7 @@ export async function renderDigest(data: DigestData): Promise<DigestForms> {
     '## Alerts', '',
     ...(data.alerts.deliveries.length === 0 ? ['No alert deliveries this day.'] : data.alerts.deliveries.map((d) => `- ${d.at} ${d.channelId} ${d.key} ${d.severity}: ${d.status} after ${d.attempts} attempt(s)${d.error === null ? '' : ` (${d.error})`}`)),
     '',
-    ...(data.alerts.undelivered.length === 0 ? ['Every alert was delivered.'] : ['Not delivered:', ...data.alerts.undelivered.map((d) => `- ${d.at} ${d.channelId} ${d.key} ${d.severity}${d.error === null ? '' : `: ${d.error}`}`)]),
+    ...(data.alerts.undelivered.length === 0 ? ['Every alert was delivered.'] : ['Not delivered:', ...data.alerts.undelivered.map((d) => `- ${d.at} ${d.channelId} ${d.key} ${d.severity}, ${d.status === 'pending' ? 'still retried' : 'expired'} after ${d.attempts} attempt(s)${d.error === null ? '' : `: ${d.error}`}`)]),
     '', '## Rejected files', '',
     ...(data.rejections.length === 0 ? ['None.'] : data.rejections.map((r) => `- ${r.at} ${r.name} (${r.state}) ${r.code}: ${r.message}`)),
     '', '## Waiting sets', '',
