@@ -9,7 +9,7 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
 import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type AcquiredSource, type FileRecord, type PairingFile } from '../store/files.js';
 import { acquisitionEpochMs, isoFromEpochMs } from '../model/acquisition-time.js';
-import { getSet, pairingsOfSet, recentReferenceSetIds, type PairingRecord } from '../store/sets.js';
+import { getSet, pairingsOfSet, recentReferenceSetIds, referenceSetIdsMeasuredBetween, type PairingRecord } from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
 import { findArchivedCopy } from './recovery.js';
@@ -102,7 +102,11 @@ export function setAcquisition(own: readonly FileRecord[]): { epochMs: number; a
 
 function mostRecentReferenceSet(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
   const found = new Map<number, { setId: string; emission: FileRecord; absorbance?: FileRecord }>();
-  for (const setId of recentReferenceSetIds(ledger, excludeSetId)) {
+  // The newest reference sets (by arrival), and every one measured within the window: in a backlog
+  // the reference of a control's own session may be older than the newest few.
+  const windowMs = windowHours * 3_600_000;
+  const measuredNear = referenceSetIdsMeasuredBetween(ledger, excludeSetId, isoFromEpochMs(referenceTime.getTime() - windowMs), isoFromEpochMs(referenceTime.getTime() + windowMs));
+  for (const setId of new Set([...recentReferenceSetIds(ledger, excludeSetId), ...measuredNear])) {
     const files = filesOfSet(ledger, setId).filter((f) => f.state !== 'rejected' && f.state !== 'failed');
     const emission = files.find((f) => f.part === 'emission');
     if (emission === undefined) continue;

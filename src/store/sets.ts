@@ -119,6 +119,19 @@ export function markSetFailed(ledger: Ledger, id: string, error: { code: string;
 export const RECENT_REFERENCE_SETS_SQL = `SELECT id FROM sets WHERE role = 'reference' AND state IN ('queued','done') AND id != ?
   ORDER BY created_at DESC, id DESC LIMIT ?`;
 
+/** SQL of referenceSetIdsMeasuredBetween (index files_part_acquired; exported for the query-plan test). */
+export const REFERENCE_SETS_MEASURED_SQL = `SELECT DISTINCT f.set_id AS id FROM files f INDEXED BY files_part_acquired JOIN sets s ON s.id = f.set_id
+  WHERE f.part = 'emission' AND f.acquired_at >= ? AND f.acquired_at <= ? AND s.role = 'reference' AND s.state IN ('queued','done') AND s.id != ?`;
+
+/**
+ * Ids of reference-standard sets queued or done, other than `excludeSetId`, whose emission was
+ * measured within [fromIso, toIso] (canonical UTC ISO): a backlog holding more reference sets than
+ * recentReferenceSetIds returns still finds the ones measured near a sample. O(files in the window).
+ */
+export function referenceSetIdsMeasuredBetween(ledger: Ledger, excludeSetId: string, fromIso: string, toIso: string): string[] {
+  return (ledger.prepare(REFERENCE_SETS_MEASURED_SQL).all(fromIso, toIso, excludeSetId) as { id: string }[]).map((row) => row.id);
+}
+
 /** Ids of the newest `limit` reference-standard sets queued or done, other than `excludeSetId`. */
 export function recentReferenceSetIds(ledger: Ledger, excludeSetId: string, limit = 50): string[] {
   return (ledger.prepare(RECENT_REFERENCE_SETS_SQL).all(excludeSetId, limit) as { id: string }[]).map((row) => row.id);

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   applyMigrations, DECAY_IRF_CANDIDATES_SQL, FILES_TO_ARCHIVE_SQL, filesAwaitingMoveSql, filesBySha256, getSet, insertFile, insertSet, ledgerStatus, markSetDone,
-  markSetQueued, MIGRATIONS, openLedger, PAIRING_CANDIDATES_SQL, RECENT_REFERENCE_SETS_SQL, setFileState, setsInState,
+  markSetQueued, MIGRATIONS, openLedger, PAIRING_CANDIDATES_SQL, RECENT_REFERENCE_SETS_SQL, REFERENCE_SETS_MEASURED_SQL, setFileState, setsInState,
 } from '../../../src/store/index.js';
 import { tempDir } from '../../helpers/temp-dir.js';
 
@@ -49,6 +49,7 @@ describe('ledger', () => {
     expect(plan(PAIRING_CANDIDATES_SQL, 'blank', 200)).toMatch(/^SEARCH files USING INDEX files_part_seen \(part=\?\)$/);
     expect(plan(DECAY_IRF_CANDIDATES_SQL, 200)).toMatch(/^SCAN files USING INDEX files_irf_decays$/);
     expect(plan(RECENT_REFERENCE_SETS_SQL, 'x', 50)).toMatch(/^SEARCH sets USING INDEX sets_role_created \(role=\?\)$/);
+    expect(plan(REFERENCE_SETS_MEASURED_SQL, '2026-03-01T00:00:00.000Z', '2026-03-02T00:00:00.000Z', 'x')).toMatch(/^SEARCH f USING INDEX files_part_acquired \(part=\? AND acquired_at>\? AND acquired_at<\?\); SEARCH s USING INDEX sqlite_autoindex_sets_1 \(id=\?\)/);
     expect(plan(filesAwaitingMoveSql(1), 'done')).toMatch(/^SEARCH files USING INDEX files_unplaced \(state=\?\)$/);
     // Not files_state: every done file of months would match state = 'done'.
     expect(plan(FILES_TO_ARCHIVE_SQL, 'x-aaaa')).toMatch(/^SEARCH files USING INDEX files_set \(set_id=\?\)$/);
