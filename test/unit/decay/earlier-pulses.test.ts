@@ -3,6 +3,7 @@
 // evaluated over 60 periods and folded onto one period (Σ over earlier pulses by brute force), plus a
 // constant background, then Poisson-sampled with seeded generators. Bias is judged against the standard
 // error of the mean over the seeds (sd/√n). Seeds: DRIFTLIGHT_LONG_SEEDS (default 50; each case < 2 s).
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { createSeededRandom, expectedDecayCounts, fitDecay, gaussianIrf, samplePoisson, type DecayFitResult, type FitDecayOptions } from '../../../src/decay/index.js';
 import { createDecay } from '../../../src/model/index.js';
@@ -21,6 +22,12 @@ function foldedDecay(tauNs: number, photonsPerPeriod: number, backgroundPerChann
   const expected = new Float64Array(channels).fill(backgroundPerChannel);
   for (let k = 0; k < long.length; k++) expected[k % channels] = (expected[k % channels] as number) + (long[k] as number);
   return { irf, expected, widthNs };
+}
+
+interface PeriodicFit { tauNs: number; backgroundPerChannel: number }
+interface PeriodicReference {
+  tauNs: number; channelWidthNs: number; repetitionRateHz: number; irf: number[];
+  seeds: { counts: number[]; bounded: PeriodicFit; free: PeriodicFit }[];
 }
 
 interface Series { meanNs: number; sdNs: number; fits: DecayFitResult[] }
@@ -74,8 +81,50 @@ describe('light from earlier pulses (80 MHz, window = one 12.5 ns period, 500 ch
   it('20 ns with the rate known and a free background: τ trades off against the background, and every fit warns', () => {
     const free = fitSeries(dye20, { repetitionRateHz: RATE_HZ }, {}, 1);
     expect(free.fits.every((fit) => fit.warnings.some((w) => w.includes('0.4 × the pulse period') && w.includes('--fix background')))).toBe(true);
-    // Measured (not a requirement): the mean sits below the truth; see docs/decay.md for the table.
-    expect(free.meanNs).toBeLessThan(20);
+    // Measured (docs/decay.md table): the bound b ≥ 0 censors the trade-off, so the mean sits below the truth.
+    expect(free.meanNs).toBeLessThan(20 - (2 * free.sdNs) / Math.sqrt(SEEDS));
+  });
+
+  it('20 ns, background allowed below 0 (model kept > 0 by the Poisson deviance): 1/τ unbiased, τ several times more spread', () => {
+    const bounded = fitSeries(dye20, { repetitionRateHz: RATE_HZ }, {}, 1);
+    const free = fitSeries(dye20, { repetitionRateHz: RATE_HZ }, { bounds: { backgroundPerChannel: [-1e9, 1e9] } }, 1);
+    const rates = free.fits.map((fit) => 1 / (fit.components[0]?.tauNs ?? Number.NaN));
+    const meanRate = rates.reduce((a, b) => a + b, 0) / rates.length;
+    const sdRate = Math.sqrt(rates.reduce((a, b) => a + (b - meanRate) ** 2, 0) / (rates.length - 1));
+    expect(Math.abs(meanRate - 1 / 20)).toBeLessThan((2 * sdRate) / Math.sqrt(SEEDS));
+    expect(free.fits.every((fit) => fit.converged && fit.fittedCounts.every((m) => m > 0))).toBe(true);
+    expect(free.sdNs).toBeGreaterThan(4 * bounded.sdNs);
+  });
+
+  it('20 ns, free background: the bias is the estimator\'s, not the engine\'s (an independent scipy ML fit of the same counts agrees)', () => {
+    // test/reference/decay/periodic_background.py: numpy-seeded counts, FFT circular-convolution model, scipy
+    // Poisson ML with b ≥ 0 ('bounded', the engine's default) and with b free as long as the model stays > 0.
+    const reference = JSON.parse(readFileSync(new URL('../../reference/decay/periodic_background.json', import.meta.url), 'utf8')) as PeriodicReference;
+    const source = { irf: Float64Array.from(reference.irf), widthNs: reference.channelWidthNs };
+    const engine = (options: FitDecayOptions): DecayFitResult[] => reference.seeds.map((seed) => fitDecay(createDecay({
+      timeNs: Float64Array.from(seed.counts, (_unused, k) => k * source.widthNs), counts: Float64Array.from(seed.counts),
+      channelWidthNs: source.widthNs, irfCounts: source.irf, metadata: { repetitionRateHz: reference.repetitionRateHz },
+    }), { profileIntervals: false, ...options }));
+    const mean = (values: readonly number[]): number => values.reduce((a, b) => a + b, 0) / values.length;
+    const sd = (values: readonly number[]): number => Math.sqrt(values.reduce((a, b) => a + (b - mean(values)) ** 2, 0) / (values.length - 1));
+    for (const [kind, options] of [['bounded', {}], ['free', { bounds: { backgroundPerChannel: [-1e9, 1e9] } }]] as const) {
+      const scipyTaus = reference.seeds.map((seed) => seed[kind].tauNs);
+      const engineFits = engine(options);
+      const engineTaus = engineFits.map((fit) => fit.components[0]?.tauNs ?? Number.NaN);
+      // Same counts, same estimator: the two means agree within one standard error of the mean.
+      expect(Math.abs(mean(engineTaus) - mean(scipyTaus))).toBeLessThan(sd(scipyTaus) / Math.sqrt(scipyTaus.length));
+      // Censoring at b = 0: about as many fits end on the bound (or below 0 when free). Single seeds differ by
+      // a few ns: along the τ–background ridge the likelihood is so flat that the two IRF treatments move them.
+      const atOrBelowZero = (values: readonly number[]): number => values.filter((b) => b <= 1e-6).length;
+      expect(Math.abs(atOrBelowZero(engineFits.map((fit) => fit.backgroundPerChannel)) - atOrBelowZero(reference.seeds.map((seed) => seed[kind].backgroundPerChannel)))).toBeLessThanOrEqual(5);
+    }
+    // The bounded mean is low by more than 2 SE of the mean (scipy: −7.6 %, −5.3 SE); freeing b removes that bias
+    // (+2.7 %, +0.8 SE) at the cost of a spread several times wider: a degeneracy, not a defect of the fit.
+    const bounded = reference.seeds.map((seed) => seed.bounded.tauNs);
+    const unbounded = reference.seeds.map((seed) => seed.free.tauNs);
+    expect(mean(bounded)).toBeLessThan(reference.tauNs - (2 * sd(bounded)) / Math.sqrt(bounded.length));
+    expect(Math.abs(mean(unbounded) - reference.tauNs)).toBeLessThan((2 * sd(unbounded)) / Math.sqrt(unbounded.length));
+    expect(sd(unbounded)).toBeGreaterThan(2 * sd(bounded));
   });
 
   it('20 ns with the rate unknown: warned and not acceptable', () => {
