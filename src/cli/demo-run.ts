@@ -2,12 +2,13 @@
 // clock: each arrival group's files are written into the inbox at its simulated time, the loop picks
 // them up through the file watcher, and the replay moves on once intake and the analyses are done.
 // Alerts go to a local webhook receiver. Returns what happened, for the CLI summary and the test.
-import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import type { AnalysisResult } from '../analysis/result.js';
 import { generateDemoMonth, MONTH_DAYS, monthDate, type DemoMonth } from '../demo/month.js';
 import { ConfigInvalid } from '../model/errors.js';
 import type { Pipeline } from '../pipeline/runtime.js';
+import { writeDemoOutputs, type DemoOutputs } from './demo-outputs.js';
 import { startWebhookReceiver, type ReceivedAlert } from './demo-webhook.js';
 import { runWatch } from './watch.js';
 
@@ -28,6 +29,8 @@ export interface DemoRunReport {
   readonly rejected: readonly RejectedInput[];
   readonly setsProcessed: number;
   readonly setsPartial: number;
+  /** The last day's digest, the control chart and the month's summary CSV. */
+  readonly outputs: DemoOutputs;
   readonly elapsedMs: number;
 }
 
@@ -43,13 +46,13 @@ export function prepareWorkspace(dir: string): void {
   writeFileSync(join(dir, MARKER), 'created by `driftlight demo`; safe to delete\n');
 }
 
-/** Every result JSON under results/ (day folders). */
+/** Every result JSON under results/ (day folders YYYY-MM-DD; digest/, charts/ and export/ are not results). */
 export function readResultFiles(resultsDir: string): AnalysisResult[] {
   const out: AnalysisResult[] = [];
   if (!existsSync(resultsDir)) return out;
   for (const day of readdirSync(resultsDir).sort()) {
     const dayDir = join(resultsDir, day);
-    if (!existsSync(dayDir) || day.startsWith('.')) continue;
+    if (!/^\d{4}-\d{2}-\d{2}$/.test(day) || !statSync(dayDir).isDirectory()) continue;
     for (const name of readdirSync(dayDir).sort()) {
       if (name.endsWith('.json') && !name.startsWith('.')) out.push(JSON.parse(readFileSync(join(dayDir, name), 'utf8')) as AnalysisResult);
     }
@@ -142,6 +145,8 @@ export async function runDemoMonth(workspace: string, progress: (line: string) =
   }
   // What the webhook received, with the scenario day of arrival (the test and curious users read it).
   writeFileSync(join(dir, 'webhook-received.json'), `${JSON.stringify(receiver.alerts, null, 2)}\n`);
+  progress('writing the digest of the last day, the control chart and the summary CSV');
+  const outputs = await writeDemoOutputs(dir, { firstDate: monthDate(1), lastDate: monthDate(MONTH_DAYS), now: clock() });
   return {
     month,
     workspace: dir,
@@ -150,6 +155,7 @@ export async function runDemoMonth(workspace: string, progress: (line: string) =
     rejected: readQuarantine(join(dir, 'quarantine')),
     setsProcessed: pipeline.coordinator.counts.setsDone,
     setsPartial: pipeline.coordinator.counts.setsPartial,
+    outputs,
     elapsedMs: Date.now() - started,
   };
 }

@@ -1,14 +1,23 @@
 // `driftlight demo [--keep DIR]`: a month of an invented lab's exports (src/demo/month.ts: faults
 // injected on known days) replayed through the real watch loop with an accelerated clock and a
 // local webhook receiver; prints one line per day, then a summary: sets, rejected files and why,
-// alerts with their days, where the results are. Without --keep the workspace is removed at the end.
+// alerts with their days, where the results, the last day's digest, the control chart and the summary
+// CSV are. --serve then serves the status page on loopback until Ctrl-C. Without --keep the workspace
+// is removed at the end.
 import type { Command } from 'commander';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { loadConfig } from '../config/index.js';
+import { MONTH_DAYS, monthDate } from '../demo/month.js';
+import { effectiveRuleSet } from '../pipeline/qc-rule-set.js';
+import { resolveServerOptions, startStatusServer } from '../server/index.js';
+import { openLedger } from '../store/ledger.js';
 import type { CommandModule } from './command-module.js';
 import { runDemoMonth, type DemoRunReport } from './demo-run.js';
 import { EXIT_CODES } from './exit-codes.js';
+import { untilSignal } from './serve.js';
+import { softwareVersion } from './version.js';
 
 /** The summary printed after the replay. */
 export function demoSummary(report: DemoRunReport, kept: boolean): string {
@@ -31,8 +40,28 @@ export function demoSummary(report: DemoRunReport, kept: boolean): string {
   const w = report.workspace;
   lines.push(kept ? `workspace: ${w}` : `workspace removed (${w}); run \`driftlight demo --keep DIR\` to keep it`);
   lines.push(`  results:    ${join(w, 'results')}`, `  quarantine: ${join(w, 'quarantine')}`, `  outbox:     ${join(w, 'outbox')}`, `  truth:      ${join(w, 'truth.json')}`, `  webhook:    ${join(w, 'webhook-received.json')} (every alert POST the local receiver got)`);
-  lines.push('  digest HTML, control chart, summary CSV: not produced yet (the digest and export of issue 21 are not on main)');
+  const o = report.outputs;
+  lines.push(`  digest:     ${o.digestHtml} (the last day, ${o.digestCharts} charts)`, `  chart:      ${o.chartHtml}`, `  summary:    ${o.summaryCsv}`);
+  if (!kept) lines.push('  (these files go with the workspace; add --keep DIR to open them afterwards)');
   return `${lines.join('\n')}\n`;
+}
+
+/** Serves the status page over the demo workspace on loopback until SIGINT/SIGTERM; the page's clock stands at the replay's end. */
+async function serveDemo(report: DemoRunReport): Promise<void> {
+  const config = loadConfig(join(report.workspace, 'driftlight.yaml'));
+  const ledger = openLedger(config.folders.state);
+  try {
+    const replayEnd = new Date(`${monthDate(MONTH_DAYS)}T23:59:00Z`);
+    const server = await startStatusServer(resolveServerOptions({ listen: '127.0.0.1:0', env: {} }), {
+      ledger, config, ruleSet: effectiveRuleSet(config), softwareVersion: softwareVersion(), now: () => replayEnd,
+    });
+    process.stdout.write(`status page: ${server.url} (the page's clock stands at ${replayEnd.toISOString()}; Ctrl-C stops)\n`);
+    const signal = await untilSignal();
+    process.stdout.write(`${signal}: status page stopped\n`);
+    await server.close();
+  } finally {
+    ledger.close();
+  }
 }
 
 export const demoCommand: CommandModule = {
@@ -42,12 +71,14 @@ export const demoCommand: CommandModule = {
       .description('replay a month of an invented lab (faults injected) through the watch loop, with alerts to a local webhook')
       .option('--keep <dir>', 'run in this folder and leave it there (created; replaced if it is an earlier demo workspace)')
       .option('--seed <n>', 'seed of the scenario (same seed, same files)', (text: string) => Number.parseInt(text, 10))
-      .action(async (options: { keep?: string; seed?: number }) => {
+      .option('--serve', 'after the replay, serve the status page on loopback (127.0.0.1, a free port) until Ctrl-C')
+      .action(async (options: { keep?: string; seed?: number; serve?: boolean }) => {
         const dir = options.keep === undefined ? join(mkdtempSync(join(tmpdir(), 'driftlight-demo-')), 'workspace') : resolve(options.keep);
         process.stdout.write(`driftlight demo: replaying 30 days into ${dir}\n`);
         try {
           const report = await runDemoMonth(dir, (line) => process.stdout.write(`${line}\n`), options.seed);
           process.stdout.write(demoSummary(report, options.keep !== undefined));
+          if (options.serve === true) await serveDemo(report);
         } finally {
           if (options.keep === undefined) rmSync(join(dir, '..'), { recursive: true, force: true });
         }

@@ -1,28 +1,45 @@
 // `driftlight demo` (what `npm start` runs) as a real child process: the invented month replayed
 // through the watch loop, checked against the scenario's own truth (src/demo/month.ts): each injected
 // fault alerted within its days, the malformed export quarantined with its code, the IRF-less decay a
-// flagged partial result, the late re-export not clearing the alarm, no critical alert while in control.
+// flagged partial result, the late re-export not clearing the alarm, no critical alert while in control;
+// the last day's digest (opened in headless Chromium), chart and summary CSV; `--serve` up until Ctrl-C.
 import { spawn } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { parse } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AnalysisResult } from '../../src/analysis/result.js';
 import { readQuarantine, readResultFiles } from '../../src/cli/demo-run.js';
 import type { ReceivedAlert } from '../../src/cli/demo-webhook.js';
 import { generateDemoMonth, monthDate } from '../../src/demo/month.js';
+import { chartMarks, openInChromium } from '../helpers/browser.js';
 import { CLI_PATH, REPO_ROOT } from '../helpers/cli.js';
 
 const truth = generateDemoMonth().truth;
 
 interface Run { status: number | null; stdout: string; stderr: string }
 
-function runDemo(dir: string): Promise<Run> {
+/** What the status page served by `demo --serve` answered before the demo was stopped with SIGINT. */
+interface Served { url: string; status: number; html: string }
+
+/** Runs `demo --keep DIR --serve`; once it prints the status page's URL, fetches the page, then stops the demo with SIGINT (Ctrl-C). */
+function runDemo(dir: string, served: Served[]): Promise<Run> {
   return new Promise((resolve) => {
-    const child = spawn(process.execPath, [CLI_PATH, 'demo', '--keep', dir], { cwd: REPO_ROOT });
+    const child = spawn(process.execPath, [CLI_PATH, 'demo', '--keep', dir, '--serve'], { cwd: REPO_ROOT });
     let stdout = '';
     let stderr = '';
-    child.stdout.on('data', (chunk: Buffer) => { stdout += chunk.toString(); });
+    child.stdout.on('data', (chunk: Buffer) => {
+      stdout += chunk.toString();
+      const url = /^status page: (http:\/\/127\.0\.0\.1:\d+\/)/m.exec(stdout)?.[1];
+      if (url !== undefined && served.length === 0) {
+        served.push({ url, status: 0, html: '' });
+        void fetch(url).then(async (response) => {
+          served[0] = { url, status: response.status, html: await response.text() };
+        }).finally(() => child.kill('SIGINT'));
+      }
+    });
     child.stderr.on('data', (chunk: Buffer) => { stderr += chunk.toString(); });
     const timer = setTimeout(() => child.kill('SIGKILL'), 170_000);
     child.on('close', (status) => {
@@ -38,12 +55,13 @@ describe('driftlight demo: a month with faults, caught', () => {
   let run: Run;
   let alerts: ReceivedAlert[];
   let results: AnalysisResult[];
+  const served: Served[] = [];
   const flagsOf = (predicate: (a: ReceivedAlert) => boolean) => alerts.filter((a) => a.payload['type'] === 'flag' && predicate(a));
 
   beforeAll(async () => {
     parent = mkdtempSync(join(tmpdir(), 'dl-demo-month-'));
     workspace = join(parent, 'ws');
-    run = await runDemo(workspace);
+    run = await runDemo(workspace, served);
     alerts = JSON.parse(readFileSync(join(workspace, 'webhook-received.json'), 'utf8')) as ReceivedAlert[];
     results = readResultFiles(join(workspace, 'results'));
   }, 180_000);
@@ -113,5 +131,37 @@ describe('driftlight demo: a month with faults, caught', () => {
     expect(Date.parse(r?.acquiredAt ?? '')).toBe(Date.parse(truth.europeanDate.acquiredAt));
   });
 
-  it.todo('the latest digest holds the control charts (blocked: the digest of issue 21 is not on main)');
+  it('writes the last day\'s digest with its charts, the control chart and the summary CSV, and prints their paths', async () => {
+    const lastDate = monthDate(30);
+    const digestHtml = join(workspace, 'results', 'digest', `${lastDate}.html`);
+    const chartHtml = join(workspace, 'results', 'charts', 'ql-daily.html');
+    const summaryCsv = join(workspace, 'results', 'export', `summary-${monthDate(1)}-to-${lastDate}.csv`);
+    for (const path of [digestHtml, chartHtml, summaryCsv]) expect(run.stdout).toContain(path);
+    const opened = await openInChromium(pathToFileURL(digestHtml).href);
+    try {
+      const marks = await chartMarks(opened.page);
+      // The daily control's yield and lifetime charts, the instrument trends, the day's control decay, the emission overlay.
+      expect(marks.map((m) => m.id)).toEqual(['chart-ql-daily-controlQuantumYield', 'chart-ql-daily-meanLifetimeNs', 'chart-instrument-health', 'chart-control-decay', 'chart-emission']);
+      for (const mark of marks) expect(mark.points + mark.lines, mark.id).toBeGreaterThan(0);
+      // One symbol per control run of the month (the re-exported day-22 control is a run of its own).
+      expect(marks[0]?.points).toBeGreaterThanOrEqual(truth.controls.length);
+      await opened.screenshot('demo-digest.png');
+      expect(opened.consoleErrors).toEqual([]);
+      expect(opened.requests).toEqual([pathToFileURL(digestHtml).href]);
+    } finally {
+      await opened.close();
+    }
+    const rows = parse(readFileSync(summaryCsv, 'utf8'), { columns: true }) as Record<string, string>[];
+    expect(rows).toHaveLength(results.length);
+    expect(readFileSync(chartHtml, 'utf8')).toContain('data-chart="chart-ql-daily-controlQuantumYield"');
+  });
+
+  it('--serve serves the status page on loopback after the run and stops on Ctrl-C (SIGINT)', () => {
+    expect(served).toHaveLength(1);
+    expect(served[0]?.status).toBe(200);
+    const html = served[0]?.html ?? '';
+    expect(html).toContain(`Digest of <strong>${monthDate(30)}</strong>`);
+    expect([...html.matchAll(/<figure class="chart" id="([^"]+)"/g)].map((m) => m[1])).toEqual(['chart-ql-daily-controlQuantumYield', 'chart-ql-daily-meanLifetimeNs']);
+    expect(run.stdout).toContain('SIGINT: status page stopped');
+  });
 });
