@@ -7,20 +7,58 @@ import { ramanTest } from '../spectra/index.js';
 import { buildArtifacts } from './artifacts.js';
 import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
 import { absorbanceSummary, correctEmission, emissionMetrics, type CorrectedEmission } from './emission-step.js';
-import { decayOf, parseInputs, spectrumOf } from './parse-inputs.js';
-import type { AnalysisJobPayload, AnalysisOutput, RejectedInput } from './payload.js';
-import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary } from './result.js';
-import { attempt, createStepContext, markMissing } from './step-context.js';
+import { decayOf, FAN_OUT_PARTS, parseInputs, spectrumOf, type MeasurementOrigin, type ParsedSet } from './parse-inputs.js';
+import type { AnalysisJobPayload, AnalysisOutput, MeasurementOutput, RejectedInput } from './payload.js';
+import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary, type SetPart } from './result.js';
+import { attempt, createStepContext, markMissing, type StepContext } from './step-context.js';
 import { computeQuantumYield, computeRates } from './yield-step.js';
 
 const SAMPLE_ROLES = new Set(['sample', 'control']);
 
-/** Analyses one measurement set; never throws for bad or missing parts (they are reported in `missing`). */
+/**
+ * Analyses one measurement set; never throws for bad or missing parts (they are reported in `missing`).
+ * A file holding several measurements of a decay or spectrum part (several decay columns, spectra on one
+ * axis, x,y pairs) gives one result per measurement: the first under the set's id, each further one
+ * under `setId.column` in `measurements` (issue 18.3).
+ */
 export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
-  const context = createStepContext();
-  for (const m of payload.missingParts) markMissing(context, m.part, m.reason);
+  const base = createStepContext();
+  for (const m of payload.missingParts) markMissing(base, m.part, m.reason);
   const rejectedInputs: RejectedInput[] = [];
-  const parsed = parseInputs(payload, context, rejectedInputs);
+  const { parsed, further } = parseInputs(payload, base, rejectedInputs);
+  const taken = new Set<string>([payload.setId]);
+  const furtherIds = further.map(({ input }) => measurementSetId(payload.setId, input.origin, taken));
+  const fanned = [...new Set(further.map((f) => f.part))].map((part) => parsed.get(part)).filter((input) => input !== undefined);
+  for (const input of fanned) {
+    const others = further.flatMap((f, i) => (f.input.file === input.file ? [`${f.input.origin?.id ?? f.part} → ${furtherIds[i] as string}`] : []));
+    base.warnings.push(`${input.file.name} holds ${others.length + 1} measurements, each with a result of its own: ${input.origin?.id ?? input.file.name} → ${payload.setId}, ${others.join(', ')}`);
+  }
+  const primary = analyzeMeasurements(payload, parsed, copyContext(base), undefined);
+  const measurements = further.map(({ part, input }, i) => {
+    const own = new Map(parsed);
+    own.set(part, input);
+    const context = copyContext(base);
+    context.warnings.push(`QC rules judge the set's first measurement (${parsed.get(part)?.origin?.id ?? part}) only; this result is not judged`);
+    return analyzeMeasurements({ ...payload, setId: furtherIds[i] as string }, own, context, payload.setId);
+  });
+  return { ...primary, rejectedInputs, ...(measurements.length === 0 ? {} : { measurements }) };
+}
+
+/** A result id for a further measurement: the set id, a dot and the column name made id-safe (unique within the set). */
+export function measurementSetId(setId: string, origin: MeasurementOrigin | undefined, taken: Set<string>): string {
+  const slug = (origin?.column ?? '').replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '') || `m${(origin?.index ?? 0) + 1}`;
+  let id = `${setId}.${slug}`;
+  for (let n = 2; taken.has(id); n++) id = `${setId}.${slug}-${n}`;
+  taken.add(id);
+  return id;
+}
+
+function copyContext(context: StepContext): StepContext {
+  return { partial: context.partial, warnings: [...context.warnings], missing: [...context.missing], corrections: [...context.corrections] };
+}
+
+/** The analysis of one choice of measurements (one per part); `ofSetId` is set for a further measurement's result. */
+function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['parsed'], context: StepContext, ofSetId: string | undefined): MeasurementOutput {
   const settings = payload.settings;
 
   const emissionRaw = spectrumOf(parsed, 'emission', context) ?? (payload.role === 'raman' ? spectrumOf(parsed, 'raman', context) : undefined);
@@ -126,6 +164,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
   for (const w of quantumYield?.warnings ?? []) context.warnings.push(`quantum yield: ${w}`);
 
   const acquisition = acquisitionOfSet(payload, primaryMetadata?.acquiredAt, context.warnings);
+  const measurement = fannedMeasurementOf(parsed);
   const result: AnalysisResult = {
     schema: RESULT_SCHEMA,
     setId: payload.setId,
@@ -134,6 +173,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     ...(acquisition === undefined ? {} : { acquiredAt: acquisition.acquiredAt }),
     ...(solvent === undefined ? {} : { solvent }),
     ...(excitationNm === undefined ? {} : { excitationNm }),
+    ...(measurement === undefined ? {} : { measurement: { id: measurement.origin.id, column: measurement.origin.column, part: measurement.part, index: measurement.origin.index, of: measurement.origin.count, ...(ofSetId === undefined ? {} : { setId: ofSetId }) } }),
     partial: context.partial,
     missing: context.missing,
     spectra: {
@@ -161,7 +201,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
       ...(acquisition === undefined ? {} : { acquiredAtSource: acquisition.source }),
     },
   };
-  return { result, artifacts, rejectedInputs };
+  return { result, artifacts };
 }
 
 /** The set's acquisition time: as read at intake (payload), else the first input's metadata read by readAcquisitionTime (ISO 8601 and unambiguous spellings); a refused one is left out with a warning. */
@@ -174,7 +214,16 @@ function acquisitionOfSet(payload: AnalysisJobPayload, metadataText: string | un
   return undefined;
 }
 
-function firstMetadata(parsed: ReturnType<typeof parseInputs>): { acquiredAt?: string; solvent?: string } | undefined {
+/** The measurement of a fan-out part that came from a file holding several, if any (the first such part). */
+function fannedMeasurementOf(parsed: ParsedSet['parsed']): { part: SetPart; origin: MeasurementOrigin } | undefined {
+  for (const part of FAN_OUT_PARTS) {
+    const origin = parsed.get(part)?.origin;
+    if (origin !== undefined) return { part, origin };
+  }
+  return undefined;
+}
+
+function firstMetadata(parsed: ParsedSet['parsed']): { acquiredAt?: string; solvent?: string } | undefined {
   for (const input of parsed.values()) return input.type === 'spectrum' ? input.spectrum.metadata : input.decay.metadata;
   return undefined;
 }

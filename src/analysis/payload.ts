@@ -89,11 +89,17 @@ export interface RejectedInput {
   readonly line?: number;
 }
 
-/** What a worker returns: the result, its outbox files and the own inputs the readers rejected. */
-export interface AnalysisOutput {
+/** One result and its outbox files. */
+export interface MeasurementOutput {
   readonly result: AnalysisResult;
   readonly artifacts: readonly AnalysisArtifact[];
+}
+
+/** What a worker returns: the result, its outbox files and the own inputs the readers rejected. */
+export interface AnalysisOutput extends MeasurementOutput {
   readonly rejectedInputs?: readonly RejectedInput[];
+  /** Results of the further measurements of a file holding several (ids `setId.column`, issue 18.3); absent when none. */
+  readonly measurements?: readonly MeasurementOutput[];
   /** Wall time of analyze() in the worker, ms (set by the job processor, not by the pure core; /metrics histograms it). */
   readonly analysisDurationMs?: number;
 }

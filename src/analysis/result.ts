@@ -204,6 +204,21 @@ export interface ResultProvenance {
   readonly acquiredAtSource?: 'metadata' | 'file-modified';
 }
 
+/** Which of several measurements in one file a result analyses. */
+export interface ResultMeasurement {
+  /** The reader's id of the measurement: the file name with "#column". */
+  readonly id: string;
+  /** The column read as the values (spectrum) or counts (decay). */
+  readonly column: string;
+  /** The set part the file supplied. */
+  readonly part: SetPart;
+  /** 0-based position among the file's measurements, and how many it holds. */
+  readonly index: number;
+  readonly of: number;
+  /** For a further measurement (index ≥ 1): the set it belongs to; its own setId is `setId.column`. */
+  readonly setId?: string;
+}
+
 export interface AnalysisResult {
   readonly schema: typeof RESULT_SCHEMA;
   readonly setId: string;
@@ -213,6 +228,8 @@ export interface AnalysisResult {
   readonly acquiredAt?: string;
   readonly solvent?: string;
   readonly excitationNm?: number;
+  /** Present when the result's decay or spectrum is one of several measurements in its file (issue 18.3). */
+  readonly measurement?: ResultMeasurement;
   /** true when a required part was missing or a step could not run. */
   readonly partial: boolean;
   readonly missing: readonly MissingItem[];

@@ -16,7 +16,7 @@ import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
 import { filesOfSet, filesToArchive, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
-import { upsertResult } from '../store/results.js';
+import { upsertResult, type ResultIndexRecord } from '../store/results.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
 import { uniqueTarget } from '../output/dated-path.js';
 import { acquisitionEpochMs } from '../model/acquisition-time.js';
@@ -76,23 +76,29 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   const written = await Promise.all(items.map(async (item) => {
     const setId = item.result.setId;
     try {
-      const file = await writeResult(config.folders.results, item.result, filedAt(item), { syncFolder: false, timeZone: config.instrument.timeZone });
-      return { item, file };
+      const options = { syncFolder: false, timeZone: config.instrument.timeZone };
+      // A file holding several measurements gives one result each (issue 18.3): all are written before the set counts as done.
+      const [file, ...more] = await Promise.all([item.result, ...(item.output.measurements ?? []).map((m) => m.result)].map((result) => writeResult(config.folders.results, result, filedAt(item), options)));
+      if (file === undefined) throw new Error(`no result file written for ${setId}`);
+      return { item, file, more };
     } catch (error) {
       outcomes.set(setId, { ok: false, setId, error });
       return undefined;
     }
   }));
   const durable = written.filter((w) => w !== undefined);
-  await Promise.all([...new Set(durable.map((w) => dirname(w.file.path)))].map((dir) => fsyncDirectoryAsync(dir)));
-  const committed: { item: CommitItem; path: string; sha256: string; rejected: { file: FileRecord; reason: RejectedInput }[] }[] = [];
-  for (const { item, file } of durable) {
+  await Promise.all([...new Set(durable.flatMap((w) => [w.file, ...w.more].map((f) => dirname(f.path))))].map((dir) => fsyncDirectoryAsync(dir)));
+  const committed: { item: CommitItem; path: string; sha256: string; more: readonly { path: string; sha256: string }[]; rejected: { file: FileRecord; reason: RejectedInput }[] }[] = [];
+  for (const { item, file, more } of durable) {
     const setId = item.result.setId;
     try {
       writeOutbox(config.folders.outbox, setId, filedAt(item), item.output.artifacts, config.instrument.timeZone);
+      for (const measurement of item.output.measurements ?? []) {
+        writeOutbox(config.folders.outbox, measurement.result.setId, filedAt(item), measurement.artifacts, config.instrument.timeZone);
+      }
       const rejectedInputs = item.output.rejectedInputs ?? [];
       const rejected = rejectedInputs.length === 0 ? [] : rejectedOwnFiles(filesOfSet(ledger, setId), rejectedInputs);
-      committed.push({ item, path: file.path, sha256: file.sha256, rejected });
+      committed.push({ item, path: file.path, sha256: file.sha256, more, rejected });
     } catch (error) {
       outcomes.set(setId, { ok: false, setId, error });
     }
@@ -100,15 +106,13 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   if (committed.length > 0) {
     ledger.durableTransaction(() => {
       recordMoves(ledger, earlierMoves, now);
-      for (const { item: { result, output }, path, sha256, rejected } of committed) {
+      for (const { item: { result, output }, path, sha256, more, rejected } of committed) {
         markSetDone(ledger, result.setId, path, result.partial, now);
         if (output.analysisDurationMs !== undefined) recordAnalysisDuration(ledger, result.setId, output.analysisDurationMs, now.toISOString());
-        upsertResult(ledger, {
-          setId: result.setId, path, sampleId: result.sampleId, role: result.role,
-          acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
-          tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
-          krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
-          resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
+        upsertResult(ledger, resultIndexRecord(result, path, sha256));
+        (output.measurements ?? []).forEach((measurement, index) => {
+          const file = more[index];
+          if (file !== undefined) upsertResult(ledger, resultIndexRecord(measurement.result, file.path, file.sha256));
         });
         setFilesOfSetState(ledger, result.setId, 'done', now);
         for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
@@ -132,6 +136,17 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   return {
     outcomes: items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') }),
     unrecordedMoves,
+  };
+}
+
+/** The results-index row of a written result. */
+function resultIndexRecord(result: AnalysisResult, path: string, sha256: string): ResultIndexRecord {
+  return {
+    setId: result.setId, path, sampleId: result.sampleId, role: result.role,
+    acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
+    tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
+    krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
+    resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
   };
 }
 
