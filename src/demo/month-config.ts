@@ -1,8 +1,9 @@
 // The demo month's workspace files (invented lab): driftlight.yaml (folders, the reference and the
-// daily control, a 2 h IRF validity, webhook alerts) and the rule set, as text.
+// daily control, a 2 h IRF validity, the instrument profile of the lab's TCSPC script, webhook
+// alerts) and the rule set, as text.
 
 /** The workspace config: folders, the reference and control, a 2 h IRF validity, webhook alerts. */
-export function monthConfig(lab: string, control: { readonly quantumYield: number; readonly tauNs: number }): string {
+export function monthConfig(lab: string, control: { readonly quantumYield: number; readonly tauNs: number }, channelWidthNs: number): string {
   return [
     `# driftlight config of the demo month (${lab}).`,
     'folders: { inbox: inbox, archive: archive, quarantine: quarantine, results: results, outbox: outbox, state: state }',
@@ -16,6 +17,10 @@ export function monthConfig(lab: string, control: { readonly quantumYield: numbe
     '  setTimeoutMs: 7200000',
     '  pairingWindowHours: { blank: 24, reference: 192 }',
     'instrument: { irfValidityHours: 2 }',
+    '# The lab\'s TCSPC script writes channel, counts and IRF without column names: an instrument profile says so.',
+    'formats:',
+    '  profiles:',
+    `    - { name: tcspc-script, match: "*_tcspc.txt", delimiter: tab, columnNamesLine: 0, axisColumn: 1, axisUnit: channel, valueColumns: [2], irfColumn: 3, channelWidthNs: ${channelWidthNs}, kind: decay }`,
     'watch: { stabilityWindowMs: 40, pollIntervalMs: 20 }',
     'alerts:',
     '  channels:',

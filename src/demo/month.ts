@@ -4,6 +4,7 @@
 // the watch path; test/integration/demo-month.test.ts checks the alerts against `truth`.
 import { writeDataJson, writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import type { LayoutInfo } from '../formats/index.js';
+import { metadataEntries } from '../formats/metadata-lines.js';
 import { createSpectrum, type Spectrum } from '../model/spectrum.js';
 import { createDecay, type Decay } from '../model/decay.js';
 import { samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
@@ -168,6 +169,19 @@ function decayJson(decay: Decay): string {
   return writeDataJson({ type: 'decay', decay, layout });
 }
 
+/**
+ * A decay as an invented lab script writes it: "# key: value" lines, then channel<TAB>counts<TAB>IRF
+ * without column names — a layout only the instrument profile "tcspc-script" of the month's config
+ * (formats.profiles) settles: channel axis, its width, counts and IRF columns.
+ */
+function tcspcScriptText(decay: Decay): string {
+  const irf = decay.irfCounts;
+  if (irf === undefined) throw new RangeError('tcspcScriptText: the decay has no IRF column');
+  const header = ['# TCSPC script export: channel, counts, IRF (no column names)', ...metadataEntries(decay.metadata).map(([key, value]) => `# ${key}: ${value}`)];
+  const rows = Array.from(decay.counts, (count, i) => `${i}\t${count}\t${irf[i] ?? 0}`);
+  return `${[...header, ...rows].join('\n')}\n`;
+}
+
 interface MeasuredSample {
   readonly em: Spectrum;
   readonly abs: Spectrum;
@@ -287,7 +301,8 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       } else if (layout === 1) {
         arrive(day, arriveAt, `${sampleId}_em.txt`, europeanText(m.em, [`Sample: ${sampleId}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${m.em.metadata.acquiredAt ?? ''}`, 'Type: emission']));
         arrive(day, arriveAt, `${sampleId}_abs.tsv`, tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'));
-        arrive(day, arriveAt, `${sampleId}_decay.csv`, writeDecayCsv(m.decay));
+        // The decay from the lab's own TCSPC script: read through the config's instrument profile.
+        arrive(day, arriveAt, `${sampleId}_tcspc.txt`, tcspcScriptText(m.decay));
       } else {
         // Opaque instrument file names, grouped by a set manifest.
         const stem = `run${t}-${n}`;
@@ -369,5 +384,5 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
     samples,
   };
   arrivals.sort((a, b) => (a.arriveAt < b.arriveAt ? -1 : a.arriveAt > b.arriveAt ? 1 : 0));
-  return { config: monthConfig(LAB, CONTROL), rules: monthRules(LAB), arrivals, truth };
+  return { config: monthConfig(LAB, CONTROL, CHANNEL_WIDTH_NS), rules: monthRules(LAB), arrivals, truth };
 }

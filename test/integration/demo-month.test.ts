@@ -83,6 +83,10 @@ describe('driftlight demo: a month with faults, caught', () => {
     const ids = new Set(results.map((r) => r.sampleId));
     for (const c of truth.controls) expect(ids.has(c.sampleId), c.sampleId).toBe(true);
     for (const s of truth.samples) expect(ids.has(s.sampleId), s.sampleId).toBe(true);
+    // The TCSPC script's files (no column names) are read through the config's instrument profile, IRF column included.
+    const scripted = results.filter((r) => r.provenance.inputs.some((i) => i.file.endsWith('_tcspc.txt')));
+    expect(scripted.length).toBeGreaterThan(5);
+    for (const r of scripted) expect(r.decayFit?.irfSource, r.sampleId).toBe('decay-column');
     // The in-control controls' lifetimes agree with the generator (single exponential, 300 000 counts).
     for (const c of truth.controls.filter((x) => x.day < 24)) {
       const r = results.find((x) => x.sampleId === c.sampleId && Date.parse(x.acquiredAt ?? '') === Date.parse(c.acquiredAt));
