@@ -5,6 +5,7 @@
 import { writeDataJson, writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import type { LayoutInfo } from '../formats/index.js';
 import { metadataEntries } from '../formats/metadata-lines.js';
+import { canonicalKey } from '../formats/metadata-vocabulary.js';
 import { createSpectrum, type Spectrum } from '../model/spectrum.js';
 import { createDecay, type Decay } from '../model/decay.js';
 import { samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
@@ -63,6 +64,8 @@ export interface MonthTruth {
   readonly europeanDate: { readonly day: number; readonly file: string; readonly written: string; readonly acquiredAt: string };
   readonly quenching: { readonly day: number; readonly sampleIds: readonly string[]; readonly quencherMolar: readonly number[]; readonly kqPerMPerS: number; readonly tau0Ns: number };
   readonly samples: readonly { readonly sampleId: string; readonly day: number; readonly quantumYield: number; readonly tauNs: number }[];
+  /** Samples whose decay file holds two count columns (two emission wavelengths, one lifetime): each column gives its own result. */
+  readonly twoColumnDecays: readonly { readonly sampleId: string; readonly file: string; readonly columns: readonly string[]; readonly tauNs: number }[];
 }
 
 export interface DemoMonth {
@@ -182,6 +185,22 @@ function tcspcScriptText(decay: Decay): string {
   return `${[...header, ...rows].join('\n')}\n`;
 }
 
+/**
+ * A decay file with two count columns, the same species seen at two emission wavelengths (the
+ * band's peak and its red edge) with one IRF column: a multi-measurement file, one result per column.
+ */
+function twoWavelengthDecayCsv(peak: Decay, redEdge: Decay, peakNm: number, redEdgeNm: number): string {
+  const irf = peak.irfCounts;
+  if (irf === undefined) throw new RangeError('twoWavelengthDecayCsv: the decay has no IRF column');
+  const header = [
+    `# ${canonicalKey('kind')}: decay`, `# ${canonicalKey('channelWidthNs')}: ${peak.channelWidthNs}`,
+    ...metadataEntries(peak.metadata).filter(([key]) => key !== canonicalKey('emissionNm')).map(([key, value]) => `# ${key}: ${value}`),
+    `time (ns),counts at ${peakNm} nm,counts at ${redEdgeNm} nm,irf`,
+  ];
+  const rows = Array.from(peak.timeNs, (t, i) => `${t},${peak.counts[i] ?? 0},${redEdge.counts[i] ?? 0},${irf[i] ?? 0}`);
+  return `${[...header, ...rows].join('\n')}\n`;
+}
+
 interface MeasuredSample {
   readonly em: Spectrum;
   readonly abs: Spectrum;
@@ -217,6 +236,7 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
   const arrivals: MonthArrival[] = [];
   const controls: MonthControlTruth[] = [];
   const samples: { sampleId: string; day: number; quantumYield: number; tauNs: number }[] = [];
+  const twoColumnDecays: { sampleId: string; file: string; columns: string[]; tauNs: number }[] = [];
   const arrive = (day: number, hhmm: string, name: string, content: string): void => {
     arrivals.push({ day, arriveAt: `${monthDate(day)}T${hhmm}:00Z`, file: { name, content } });
   };
@@ -282,7 +302,9 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       const hhmm = n === 1 ? '10:30' : '13:45';
       const layout = (day + n) % 3;
       const isEuropeanDated = day === 14 && n === 2;
-      const m = measure({ sampleId: layout === 2 ? undefined : sampleId, quantumYield, tauNs, absorbance: 0.03 + 0.03 * random.nextUniform(), peakNm: 540 + Math.round(15 * random.nextUniform()), widthNm: 40, photons: 200_000 },
+      const absorbance = 0.03 + 0.03 * random.nextUniform();
+      const peakNm = 540 + Math.round(15 * random.nextUniform());
+      const m = measure({ sampleId: layout === 2 ? undefined : sampleId, quantumYield, tauNs, absorbance, peakNm, widthNm: 40, photons: 200_000 },
         day, hhmm, sensitivity, irfFwhmNs, random);
       samples.push({ sampleId, day, quantumYield, tauNs });
       const arriveAt = hhmmPlus(hhmm, 10);
@@ -294,6 +316,16 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
         arrive(day, arriveAt, `${sampleId}_abs.tsv`, tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'));
         arrive(day, arriveAt, `${sampleId}_decay.json`, decayJson(m.decay));
         europeanDate = { day, file: name, written, acquiredAt: `${monthDate(day)}T${hhmm}:00Z` };
+      } else if (layout === 0 && n === 2) {
+        // The afternoon probe's decay at the band's peak and at its red edge, in one file.
+        // Its own generator, so the rest of the month draws the same numbers as without this file.
+        const redEdge = decayHistogram({ tauNs: [tauNs], photons: 100_000, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs }, { sampleId }, seededRandom(seed + day));
+        const name = `${sampleId}_decay.csv`;
+        const columns = [`counts at ${peakNm} nm`, `counts at ${peakNm + 40} nm`];
+        arrive(day, arriveAt, `${sampleId}_em.csv`, writeSpectrumCsv(m.em));
+        arrive(day, arriveAt, `${sampleId}_abs.jdx`, writeSpectrumJcamp(m.abs));
+        arrive(day, arriveAt, name, twoWavelengthDecayCsv(m.decay, redEdge, peakNm, peakNm + 40));
+        twoColumnDecays.push({ sampleId, file: name, columns, tauNs });
       } else if (layout === 0) {
         arrive(day, arriveAt, `${sampleId}_em.csv`, writeSpectrumCsv(m.em));
         arrive(day, arriveAt, `${sampleId}_abs.jdx`, writeSpectrumJcamp(m.abs));
@@ -382,6 +414,7 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
     europeanDate,
     quenching: { day: 12, sampleIds: quenchIds, quencherMolar, kqPerMPerS, tau0Ns: probeTau0Ns },
     samples,
+    twoColumnDecays,
   };
   arrivals.sort((a, b) => (a.arriveAt < b.arriveAt ? -1 : a.arriveAt > b.arriveAt ? 1 : 0));
   return { config: monthConfig(LAB, CONTROL, CHANNEL_WIDTH_NS), rules: monthRules(LAB), arrivals, truth };

@@ -87,6 +87,13 @@ describe('driftlight demo: a month with faults, caught', () => {
     const scripted = results.filter((r) => r.provenance.inputs.some((i) => i.file.endsWith('_tcspc.txt')));
     expect(scripted.length).toBeGreaterThan(5);
     for (const r of scripted) expect(r.decayFit?.irfSource, r.sampleId).toBe('decay-column');
+    // A decay file with two count columns (two emission wavelengths) gives one result per column, each with the sample's lifetime.
+    expect(truth.twoColumnDecays.length).toBeGreaterThan(3);
+    for (const t of truth.twoColumnDecays) {
+      const perColumn = results.filter((r) => r.provenance.inputs.some((i) => i.file === t.file));
+      expect(perColumn.map((r) => r.measurement?.column).sort(), t.file).toEqual([...t.columns].sort());
+      for (const r of perColumn) expect(Math.abs((r.decayFit?.tauMeanIntensityNs ?? 0) / t.tauNs - 1), `${t.file} ${r.measurement?.column ?? ''}`).toBeLessThan(0.03);
+    }
     // The in-control controls' lifetimes agree with the generator (single exponential, 300 000 counts).
     for (const c of truth.controls.filter((x) => x.day < 24)) {
       const r = results.find((x) => x.sampleId === c.sampleId && Date.parse(x.acquiredAt ?? '') === Date.parse(c.acquiredAt));
