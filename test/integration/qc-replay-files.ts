@@ -29,7 +29,33 @@ export const REPLAY = {
 
 const ETHANOL_N = 1.3618;
 const EXCITATION_NM = 480;
-const REFERENCE_YIELD = 0.95; // rhodamine 6G in ethanol as in src/photophysics/standards.ts
+export const REFERENCE_YIELD = 0.95; // rhodamine 6G in ethanol as in src/photophysics/standards.ts
+
+/** Emission (CSV) and absorbance (JCAMP-DX) of one measurement, and the same data in the other formats (a re-export). */
+export interface MeasuredFiles {
+  readonly em: string;
+  readonly abs: string;
+  readonly emJcamp: string;
+  readonly absCsv: string;
+}
+
+/** One measurement in ethanol at 480 nm excitation: emission integral ∝ sensitivity · Φ · (1 − 10^−A) / n² (src/demo/synthetic.ts). */
+export function measuredFiles(
+  spec: { sampleId: string; acquiredAt: string; quantumYield: number; absorbance: number; peakNm: number; bandPeakNm: number; sensitivity: number },
+  random: ReturnType<typeof seededRandom>,
+): MeasuredFiles {
+  const em = emissionSpectrum(
+    { peakNm: spec.peakNm, widthNm: 38, integral: spec.sensitivity * emissionIntegralFor(spec.quantumYield, spec.absorbance, ETHANOL_N) },
+    { sampleId: spec.sampleId, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: spec.acquiredAt },
+    random,
+  );
+  const abs = absorbanceSpectrum(
+    { bandPeakNm: spec.bandPeakNm, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: spec.absorbance },
+    { sampleId: spec.sampleId, solvent: 'ethanol', acquiredAt: spec.acquiredAt },
+    random,
+  );
+  return { em: writeSpectrumCsv(em), abs: writeSpectrumJcamp(abs), emJcamp: writeSpectrumJcamp(em), absCsv: writeSpectrumCsv(abs) };
+}
 
 /** One file written into the inbox. */
 export interface ReplayFile {
@@ -85,16 +111,8 @@ export function replaySeries(seed = 20261205): ReplaySeries {
     const controlYield = meanYield + sdYield * sampleStandardNormal(random);
     const sensitivity = (1 + (REPLAY.sensitivityDriftPercentPerDay / 100) * driftDays) * (1 + (REPLAY.sensitivityCvPercent / 100) * sampleStandardNormal(random));
     const files: ReplayFile[] = [];
-    const measure = (sampleId: string, hhmm: string, quantumYield: number, absorbance: number, peakNm: number, bandPeakNm: number): { em: string; abs: string; emJcamp: string; absCsv: string } => {
-      const acquiredAt = replayTime(day, hhmm);
-      const em = emissionSpectrum(
-        { peakNm, widthNm: 38, integral: sensitivity * emissionIntegralFor(quantumYield, absorbance, ETHANOL_N) },
-        { sampleId, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt },
-        random,
-      );
-      const abs = absorbanceSpectrum({ bandPeakNm, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: absorbance }, { sampleId, solvent: 'ethanol', acquiredAt }, random);
-      return { em: writeSpectrumCsv(em), abs: writeSpectrumJcamp(abs), emJcamp: writeSpectrumJcamp(em), absCsv: writeSpectrumCsv(abs) };
-    };
+    const measure = (sampleId: string, hhmm: string, quantumYield: number, absorbance: number, peakNm: number, bandPeakNm: number): MeasuredFiles =>
+      measuredFiles({ sampleId, acquiredAt: replayTime(day, hhmm), quantumYield, absorbance, peakNm, bandPeakNm, sensitivity }, random);
     const referenceId = `REF-R6G-${mmdd(day)}`;
     const reference = measure(referenceId, '07:50', REFERENCE_YIELD, 0.05, 552, 528);
     files.push({ name: `${referenceId}_em.csv`, content: reference.em }, { name: `${referenceId}_abs.jdx`, content: reference.abs });
