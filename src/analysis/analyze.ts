@@ -199,6 +199,7 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
       corrections: context.corrections.map((c) => `${c.name}:${c.target}`),
       analyzedAt: payload.analyzedAt,
       ...(acquisition === undefined ? {} : { acquiredAtSource: acquisition.source }),
+      ...(payload.reanalysis === undefined ? {} : { reanalysis: payload.reanalysis }),
     },
   };
   return { result, artifacts };

@@ -3,7 +3,7 @@
 // payload gives the same result on any backend.
 import type { MeasurementRole } from '../model/spectrum.js';
 import type { FormatProfile } from '../formats/index.js';
-import type { AnalysisResult, SetPart } from './result.js';
+import type { AnalysisResult, Reanalysis, SetPart } from './result.js';
 
 /** One input file, with its content as text. */
 export interface PayloadFile {
@@ -68,6 +68,8 @@ export interface AnalysisJobPayload {
   readonly acquisition?: { readonly acquiredAt: string; readonly source: 'metadata' | 'file-modified' };
   /** ISO 8601 time of the analysis (the coordinator's clock). */
   readonly analyzedAt: string;
+  /** Set when this run re-analyses a set that already has a result (issue 16.4: its session's reference arrived later). */
+  readonly reanalysis?: Reanalysis;
   readonly configHash: string;
   readonly softwareVersion: string;
 }

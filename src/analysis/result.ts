@@ -191,6 +191,21 @@ export interface MissingItem {
   readonly reason: string;
 }
 
+/** Why a set was analysed again, and what the newer result supersedes. */
+export interface Reanalysis {
+  /** reference-arrived: a reference standard measured in the set's session (assembly.referenceSessionHours) arrived after the set was analysed without it. */
+  readonly reason: 'reference-arrived';
+  /** The reference set now paired. */
+  readonly referenceSetId: string;
+  /** The result superseded: when it was analysed, the sha256 of its file, the reference it used (none: absent) and its yield. */
+  readonly supersedes: {
+    readonly analyzedAt: string;
+    readonly resultSha256: string;
+    readonly referenceSetId?: string;
+    readonly quantumYield?: number;
+  };
+}
+
 export interface ResultProvenance {
   readonly inputs: readonly ResultInput[];
   /** sha256 (hex) of the canonical JSON of the analysis settings used. */
@@ -202,6 +217,8 @@ export interface ResultProvenance {
   readonly analyzedAt: string;
   /** Where acquiredAt came from: the files' own acquisition time ('metadata') or, when they carried none, the file's modification time ('file-modified'). */
   readonly acquiredAtSource?: 'metadata' | 'file-modified';
+  /** Present when this result supersedes an earlier one of the same set (see Reanalysis). */
+  readonly reanalysis?: Reanalysis;
 }
 
 /** Which of several measurements in one file a result analyses. */

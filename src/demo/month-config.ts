@@ -16,6 +16,8 @@ export function monthConfig(lab: string, control: { readonly quantumYield: numbe
     '  requiredParts: [emission, absorbance, decay, irf]',
     '  setTimeoutMs: 7200000',
     '  pairingWindowHours: { blank: 24, reference: 192 }',
+    '  # The reference is measured weekly, not every session: nothing to wait for.',
+    '  referenceSessionHours: 0',
     'instrument: { irfValidityHours: 2 }',
     '# The lab\'s TCSPC script writes channel, counts and IRF without column names: an instrument profile says so.',
     'formats:',

@@ -4,7 +4,7 @@ import { readFileSync } from 'node:fs';
 import { InputRejected } from '../model/errors.js';
 import type { MeasurementRole } from '../model/spectrum.js';
 import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
-import type { SetPart } from '../analysis/result.js';
+import type { Reanalysis, SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
 import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type AcquiredSource, type FileRecord, type PairingFile } from '../store/files.js';
@@ -62,7 +62,10 @@ export function choosePairings(
     }
   }
   if (SAMPLE_ROLES.has(set.role) && !present.has('reference-emission') && windows.reference > 0) {
-    const reference = mostRecentReferenceSet(ledger, referenceTime, windows.reference, set.id);
+    // The reference of the set's own session first (issue 16.4), else the most recent within the window.
+    const sessionHours = Math.min(config.assembly.referenceSessionHours, windows.reference);
+    const reference = (sessionHours > 0 ? referenceSetNear(ledger, referenceTime, sessionHours, set.id) : undefined)
+      ?? referenceSetNear(ledger, referenceTime, windows.reference, set.id);
     if (reference !== undefined) {
       pairings.push({ setId: set.id, part: 'reference-emission', fileId: reference.emission.id, fromSetId: reference.setId });
       borrowed.add('reference-emission');
@@ -100,7 +103,29 @@ export function setAcquisition(own: readonly FileRecord[]): { epochMs: number; a
   return chosen;
 }
 
-function mostRecentReferenceSet(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
+/**
+ * Whether a set of `role` with these parts borrows a reference standard and so waits for the one of
+ * its session (issue 16.4): a sample or control with an emission and no reference of its own, when
+ * references are configured and assembly.referenceSessionHours and pairingWindowHours.reference are on.
+ */
+export function needsSessionReference(config: DriftlightConfig, role: string, present: ReadonlySet<SetPart>): boolean {
+  return SAMPLE_ROLES.has(role) && present.has('emission') && !present.has('reference-emission') && config.references.length > 0
+    && config.assembly.referenceSessionHours > 0 && config.assembly.pairingWindowHours.reference > 0;
+}
+
+/** The reference set (queued or done) measured within assembly.referenceSessionHours of `measuredAt`, nearest before it, else nearest after; undefined when none. */
+export function sessionReferenceSetId(ledger: Ledger, config: DriftlightConfig, measuredAt: Date, excludeSetId: string): string | undefined {
+  const hours = Math.min(config.assembly.referenceSessionHours, config.assembly.pairingWindowHours.reference);
+  return hours > 0 ? referenceSetNear(ledger, measuredAt, hours, excludeSetId)?.setId : undefined;
+}
+
+/** When a set was measured (its own files), else `fallback`. */
+export function setMeasuredAtOr(own: readonly FileRecord[], fallback: Date): Date {
+  return setMeasuredAt(own) ?? fallback;
+}
+
+/** The reference set measured within `windowHours` of `referenceTime`: the most recent at or before it, else the earliest after it (choosePairing). */
+function referenceSetNear(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
   const found = new Map<number, { setId: string; emission: FileRecord; absorbance?: FileRecord }>();
   // The newest reference sets (by arrival), and every one measured within the window: in a backlog
   // the reference of a control's own session may be older than the newest few.
@@ -180,6 +205,8 @@ export interface PayloadContext {
   readonly contentOf?: (file: FileRecord) => Uint8Array | undefined;
   /** The set's own files when the caller has just read them (the dispatch transaction), else they are read here. */
   readonly ownFiles?: readonly FileRecord[];
+  /** Set for a re-analysis of a set that already has a result (goes into provenance.reanalysis). */
+  readonly reanalysis?: Reanalysis;
 }
 
 /** Builds the job payload of a set from the ledger (own files, stored pairings, manifest facts); throws InputRejected INPUT_MISSING when an input is gone. */
@@ -231,6 +258,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     settings: analysisSettingsFrom(config, reference),
     ...(acquisition === undefined ? {} : { acquisition: { acquiredAt: acquisition.acquiredAt, source: acquisition.source } }),
     analyzedAt: context.now.toISOString(),
+    ...(context.reanalysis === undefined ? {} : { reanalysis: context.reanalysis }),
     configHash: context.configHash,
     softwareVersion: context.softwareVersion,
   };

@@ -9,16 +9,18 @@ import { basename } from 'node:path';
 import type { Logger } from 'pino';
 import { InputRejected } from '../model/errors.js';
 import type { AnalysisJobPayload, AnalysisOutput, PayloadFile } from '../analysis/payload.js';
-import type { SetPart } from '../analysis/result.js';
+import type { Reanalysis, SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
 import { advanceFilesOfSet, filesOfSet, type FileRecord } from '../store/files.js';
-import { deleteOpenSet, insertPairing, markSetQueued } from '../store/sets.js';
+import { getResult } from '../store/results.js';
+import { deleteOpenSet, deletePairingsOfSet, doneSampleSetIdsMeasuredBetween, getSet, insertPairing, markSetQueued, pairingsOfSet } from '../store/sets.js';
+import { isoFromEpochMs } from '../model/acquisition-time.js';
 import { partsPresent, setReadiness, type AssemblyRules } from './assemble.js';
 import { commitFailure } from './commit.js';
 import type { ContentCache } from './content-cache.js';
-import { buildPayload, choosePairings, readText } from './dispatch.js';
+import { buildPayload, choosePairings, needsSessionReference, readText, sessionReferenceSetId, setAcquisition, setMeasuredAtOr } from './dispatch.js';
 import { InFlightSlots } from './in-flight.js';
 import { toView, type OpenSet } from './open-sets.js';
 import { logMovesFailed, type RunReport } from './run-report.js';
@@ -71,6 +73,8 @@ export class JobDispatcher {
   /** Batch mode: sets are only dispatched with `force` (tick(true)), in dependency order. */
   holdDispatch = false;
   private readonly slots: InFlightSlots;
+  /** Complete sets waiting for the reference standard of their session (issue 16.4), until it comes or their deadline passes. */
+  private readonly awaitingReference = new Set<string>();
 
   constructor(private readonly options: JobDispatcherOptions) {
     this.slots = new InFlightSlots(Math.max(MAX_IN_FLIGHT_PER_WORKER, MAX_IN_FLIGHT_PER_WORKER * options.config.queue.concurrency));
@@ -114,6 +118,13 @@ export class JobDispatcher {
       }
       const readiness = setReadiness(toView(set), rules, now);
       if (!readiness.ready && !force) continue;
+      // A complete sample or control waits for its session's reference until its deadline (a timeout or the end of a batch sends it on).
+      if (!force && now.getTime() < set.deadlineAt.getTime() && this.waitsForReference(set, now)) {
+        if (!this.awaitingReference.has(set.id)) logger.info({ setId: set.id, until: set.deadlineAt.toISOString() }, 'set complete; waiting for the reference standard of its session');
+        this.awaitingReference.add(set.id);
+        continue;
+      }
+      this.awaitingReference.delete(set.id);
       if (this.slots.room(chosen.length) === 0) {
         this.slots.wait(set.id);
         continue;
@@ -143,6 +154,67 @@ export class JobDispatcher {
       await this.enqueue(set.id, set.id, own);
       for (const f of set.files) this.options.contents.delete(f.fileId);
     }
+    const references = chosen.filter((entry) => entry.set.role === 'reference').map((entry) => entry.set.id);
+    if (references.length === 0) return;
+    // A reference is in the ledger now: the sets waiting for their session's reference look again,
+    // and sets already analysed without one of their session are analysed again.
+    const waiting = [...this.awaitingReference].flatMap((id) => openSets.get(id) ?? []);
+    if (waiting.length > 0) await this.dispatchReady(waiting, now);
+    for (const referenceSetId of references) await this.reanalyseForReference(referenceSetId);
+  }
+
+  /** Whether a complete set needs a reference (needsSessionReference) and none of its session is queued or done yet. */
+  private waitsForReference(set: OpenSet, now: Date): boolean {
+    const { ledger, config } = this.options;
+    if (!needsSessionReference(config, set.role, partsPresent(toView(set).files))) return false;
+    return sessionReferenceSetId(ledger, config, setMeasuredAtOr(filesOfSet(ledger, set.id), now), set.id) === undefined;
+  }
+
+  /**
+   * Issue 16.4: re-analyses the sample and control sets done without a reference of their session
+   * that `referenceSetId` (just dispatched) belongs to: their reference pairing is chosen again and
+   * the set re-run (job id SETID~ref-REFERENCE); the newer result supersedes the older, and its
+   * provenance.reanalysis says why and what it replaced. Sets with their own reference are left alone.
+   */
+  private async reanalyseForReference(referenceSetId: string): Promise<void> {
+    const { ledger, config, logger, settings: { rules }, clock } = this.options;
+    const sessionMs = config.assembly.referenceSessionHours * 3_600_000;
+    const reference = setAcquisition(filesOfSet(ledger, referenceSetId));
+    if (sessionMs <= 0 || reference === undefined) return;
+    const candidates = doneSampleSetIdsMeasuredBetween(ledger, isoFromEpochMs(reference.epochMs - sessionMs), isoFromEpochMs(reference.epochMs + sessionMs));
+    for (const setId of candidates) {
+      const set = getSet(ledger, setId);
+      const own = filesOfSet(ledger, setId);
+      const measured = setAcquisition(own);
+      const previous = getResult(ledger, setId);
+      if (set === undefined || measured === undefined || previous === undefined) continue;
+      const present = partsPresent(own.flatMap((f) => (f.part === null || f.state === 'rejected' ? [] : [{ name: f.name, part: f.part as SetPart, hasIrfColumn: f.hasIrfColumn }])));
+      if (!needsSessionReference(config, set.role, present)) continue;
+      const pairedFrom = pairingsOfSet(ledger, setId).find((p) => p.part === 'reference-emission')?.fromSetId ?? undefined;
+      const pairedAt = pairedFrom === undefined ? undefined : setAcquisition(filesOfSet(ledger, pairedFrom));
+      if (pairedAt !== undefined && Math.abs(pairedAt.epochMs - measured.epochMs) <= sessionMs) continue; // already has one of its session
+      let chosenFrom: string | undefined;
+      ledger.transaction(() => {
+        deletePairingsOfSet(ledger, setId, ['reference-emission', 'reference-absorbance']);
+        const { pairings } = choosePairings(ledger, config, rules, { id: setId, sampleId: set.sampleId, role: set.role as OpenSet['role'] }, present, clock(), own);
+        for (const pairing of pairings) {
+          if (pairing.part === 'reference-emission' || pairing.part === 'reference-absorbance') insertPairing(ledger, pairing);
+        }
+        chosenFrom = pairings.find((p) => p.part === 'reference-emission')?.fromSetId ?? undefined;
+      });
+      if (chosenFrom === undefined || chosenFrom === pairedFrom) continue;
+      const reanalysis: Reanalysis = {
+        reason: 'reference-arrived',
+        referenceSetId: chosenFrom,
+        supersedes: {
+          analyzedAt: previous.analyzedAt, resultSha256: previous.resultSha256,
+          ...(pairedFrom === undefined ? {} : { referenceSetId: pairedFrom }),
+          ...(previous.quantumYield === null ? {} : { quantumYield: previous.quantumYield }),
+        },
+      };
+      logger.info({ setId, referenceSetId: chosenFrom, supersedes: previous.resultSha256 }, 're-analysing a set: the reference standard of its session arrived after it was analysed');
+      await this.enqueue(setId, `${setId}~ref-${chosenFrom}`, own, reanalysis);
+    }
   }
 
   /** Dispatches ready sets that waited for queue capacity, oldest first. */
@@ -164,7 +236,7 @@ export class JobDispatcher {
    * set as it was. `ownFiles`: the set's own files when the caller has just read them. Returns
    * undefined when enqueued, else why not.
    */
-  async enqueue(setId: string, jobId: string = setId, ownFiles?: readonly FileRecord[]): Promise<string | undefined> {
+  async enqueue(setId: string, jobId: string = setId, ownFiles?: readonly FileRecord[], reanalysis?: Reanalysis): Promise<string | undefined> {
     const { ledger, config, settings, clock, contents } = this.options;
     let payload: AnalysisJobPayload;
     try {
@@ -173,6 +245,7 @@ export class JobDispatcher {
         ...(settings.detectorCurve === undefined ? {} : { detectorCurve: settings.detectorCurve }), now: clock(),
         contentOf: (file) => contents.take(file.id),
         ...(ownFiles === undefined ? {} : { ownFiles }),
+        ...(reanalysis === undefined ? {} : { reanalysis }),
       }, setId);
     } catch (error) {
       if (!(error instanceof InputRejected) || error.code !== 'INPUT_MISSING') throw error;

@@ -151,6 +151,21 @@ export function insertPairing(ledger: Ledger, pairing: PairingRecord): void {
     .run(pairing.setId, pairing.part, pairing.fileId, pairing.fromSetId);
 }
 
+/** Forgets the pairings of `setId` for the given parts (before a re-analysis chooses them again). */
+export function deletePairingsOfSet(ledger: Ledger, setId: string, parts: readonly string[]): void {
+  const remove = ledger.prepare('DELETE FROM set_pairings WHERE set_id = ? AND part = ?');
+  for (const part of parts) remove.run(setId, part);
+}
+
+/** SQL of doneSampleSetIdsMeasuredBetween (index files_part_acquired). */
+export const DONE_SAMPLE_SETS_MEASURED_SQL = `SELECT DISTINCT f.set_id AS id FROM files f INDEXED BY files_part_acquired JOIN sets s ON s.id = f.set_id
+  WHERE f.part = 'emission' AND f.acquired_at >= ? AND f.acquired_at <= ? AND s.role IN ('sample','control') AND s.state = 'done'`;
+
+/** Ids of sample and control sets done whose emission was measured within [fromIso, toIso] (canonical UTC ISO). O(files in the window). */
+export function doneSampleSetIdsMeasuredBetween(ledger: Ledger, fromIso: string, toIso: string): string[] {
+  return (ledger.prepare(DONE_SAMPLE_SETS_MEASURED_SQL).all(fromIso, toIso) as { id: string }[]).map((row) => row.id);
+}
+
 /** The parts a set borrowed. */
 export function pairingsOfSet(ledger: Ledger, setId: string): PairingRecord[] {
   return (ledger.prepare('SELECT set_id, part, file_id, from_set_id FROM set_pairings WHERE set_id = ?').all(setId) as {

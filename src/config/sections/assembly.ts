@@ -24,6 +24,8 @@ export const assemblySection = z
         reference: z.number().min(0).default(72).describe('Most recent reference-standard set no older than this, in hours. Default: 72'),
       })
       .prefault({}),
+    referenceSessionHours: z.number().min(0).max(48).default(4)
+      .describe('A sample or control set with an emission but no reference standard measured within this many hours of it (its session) waits for one until its deadline (assembly.setTimeoutMs), and is paired with the session\'s reference in preference to an older one; a reference that arrives after such a set was analysed re-analyses it (the newer result supersedes, recorded in provenance.reanalysis). 0 = no waiting, no re-analysis. Default: 4'),
     fileNamePatterns: z.array(z.string().min(1)).default([DEFAULT_FILE_NAME_PATTERN])
       .describe('Regular expressions with named groups `sampleId` and `part` (em, abs, decay, irf, blank, raman, ref-em, ref-abs, detector), tried in order when the file itself does not say. Default: one pattern for SAMPLEID_PART.ext'),
     manifestSuffixes: z.array(z.string().min(1)).default(['.set.yaml', '.set.yml', '.set.json'])
