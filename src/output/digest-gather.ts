@@ -192,9 +192,11 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
     .filter((chart) => chart.points.length > 0)
     .sort((a, b) => a.controlId.localeCompare(b.controlId));
 
+  // An instrument metric counts from every observation holding it: the IRF width is measured with each
+  // control's decay (recorded under the control), the water Raman scans under the instrument scope.
   const trend = (scope: string, metric: MetricName): HealthTrend => {
     const points = observations
-      .filter((o) => o.controlId === scope)
+      .filter((o) => o.controlId === scope || scope === INSTRUMENT_SCOPE)
       .flatMap((o) => {
         const value = o.metrics[metric];
         const epochMs = parseIsoToEpochMs(o.acquiredAt);

@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AnalysisResult } from '../../src/analysis/result.js';
 import { readQuarantine, readResultFiles } from '../../src/cli/demo-run.js';
 import type { ReceivedAlert } from '../../src/cli/demo-webhook.js';
+import type { DigestData } from '../../src/output/digest-model.js';
 import { generateDemoMonth, monthDate } from '../../src/demo/month.js';
 import { chartMarks, openInChromium } from '../helpers/browser.js';
 import { CLI_PATH, REPO_ROOT } from '../helpers/cli.js';
@@ -162,6 +163,14 @@ describe('driftlight demo: a month with faults, caught', () => {
     } finally {
       await opened.close();
     }
+    // Instrument health: the IRF width measured with each control's decay, before and after the day-27 alignment change (truth: FWHM per day).
+    const digest = JSON.parse(readFileSync(join(workspace, 'results', 'digest', `${lastDate}.json`), 'utf8')) as DigestData;
+    const irfWidth = digest.health.trends.find((t) => t.metric === 'irfWidthNs');
+    expect(irfWidth?.points.length).toBeGreaterThanOrEqual(truth.controls.length);
+    const first = truth.controls[0];
+    const last = truth.controls[truth.controls.length - 1];
+    expect(Math.abs((irfWidth?.points[0]?.value ?? 0) / (first?.irfFwhmNs ?? 1) - 1)).toBeLessThan(0.1);
+    expect(Math.abs((irfWidth?.latest ?? 0) / (last?.irfFwhmNs ?? 1) - 1)).toBeLessThan(0.1);
     const rows = parse(readFileSync(summaryCsv, 'utf8'), { columns: true }) as Record<string, string>[];
     expect(rows).toHaveLength(results.length);
     expect(readFileSync(chartHtml, 'utf8')).toContain('data-chart="chart-ql-daily-controlQuantumYield"');

@@ -136,6 +136,11 @@ describe('driftlight serve', () => {
       return found;
     };
     const value = (name: string): number => Number(family(name).metrics[0]?.value);
+    const text = runDriftlight(['status', '-c', config]).stdout;
+    // The terminal gets the page's QC summary: open flags per control, alerts not delivered.
+    expect(text).toMatch(/^ {2}teal: \d+ open$/m);
+    expect(text).toMatch(/^ {4}critical +\S+ /m);
+    expect(text).toContain('alerts not delivered: 1 still retried, 1 expired (given up)');
     const status = JSON.parse(runDriftlight(['status', '--json', '-c', config]).stdout) as { files: Record<string, number>; sets: Record<string, number>; results: number };
     expect(family('driftlight_files_processed').type).toBe('GAUGE');
     expect(value('driftlight_files_processed')).toBe(status.files['done']);
