@@ -152,7 +152,7 @@ export function describeJobQueueContract(name: string, factory: QueueFactory): v
     });
 
     it('stops a job that runs over jobTimeoutMs and reports JOB_TIMEOUT', async () => {
-      const queue = make({ attempts: 1, jobTimeoutMs: 300 });
+      const queue = make({ attempts: 1, jobTimeoutMs: 2_000 });
       const recorder = outcomeRecorder();
       queue.onOutcome(recorder.listener);
       await queue.enqueue('slow', { id: 'slow', n: 1, spinMs: 20_000 });

@@ -48,15 +48,15 @@ describe('in-process backend', () => {
 
   it('hands a backlog out in shares: a share over its time limit costs none of its jobs an attempt, and each then runs alone under its own limit', async () => {
     // One thread: 'first' runs alone (nothing else waits yet); the next three go as one share with
-    // 3 × 400 ms, which 'hang' (a 3 s spin) overruns. Each of the three then runs alone: 'hang' fails
+    // 3 × 1.5 s, which 'hang' (a 6 s spin) overruns. Each of the three then runs alone: 'hang' fails
     // with JOB_TIMEOUT after its one attempt, the other two complete on their first counted attempt.
-    const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, attempts: 1, jobTimeoutMs: 400 });
+    const queue = createJobQueue<ComputePayload, ComputeResult>({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, attempts: 1, jobTimeoutMs: 1_500 });
     const recorder = outcomeRecorder();
     queue.onOutcome(recorder.listener);
     const logFile = join(tempDir('dl-share-'), 'starts.log');
     await queue.enqueue('first', { id: 'first', n: 1, sleepMs: 100, logFile });
     await queue.enqueue('before', { id: 'before', n: 2, logFile });
-    await queue.enqueue('hang', { id: 'hang', n: 3, spinMs: 3_000, logFile });
+    await queue.enqueue('hang', { id: 'hang', n: 3, spinMs: 6_000, logFile });
     await queue.enqueue('after', { id: 'after', n: 4, logFile });
     await queue.drain();
     await queue.close();
