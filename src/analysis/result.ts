@@ -219,6 +219,22 @@ export interface ResultProvenance {
   readonly acquiredAtSource?: 'metadata' | 'file-modified';
   /** Present when this result supersedes an earlier one of the same set (see Reanalysis). */
   readonly reanalysis?: Reanalysis;
+  /** Earlier versions of inputs that changed at their path after they were read (a writer that paused, a file rewritten in place), which this result supersedes; absent when there were none. */
+  readonly supersededInputs?: readonly SupersededInput[];
+}
+
+/** One earlier version of an input, replaced by the version this result was computed from. */
+export interface SupersededInput {
+  readonly file: string;
+  /** sha256 (hex) of that version's bytes. */
+  readonly sha256: string;
+  readonly sizeBytes: number;
+  /** When that version was replaced by the next (ISO 8601, UTC). */
+  readonly replacedAt: string;
+  /** sha256 of the result file the set had from that version, when one had been written. */
+  readonly resultSha256?: string;
+  /** Why it was replaced, in one sentence. */
+  readonly reason: string;
 }
 
 /** Which of several measurements in one file a result analyses. */

@@ -4,6 +4,7 @@
 //   SetAssembly (set-assembly.ts)     stable files → records → open sets
 //   JobDispatcher (job-dispatcher.ts) ready sets → payloads → job queue, with back-pressure
 //   GroupCommit (group-commit.ts)     job outcomes → batched commits, held retries
+//   VersionWatch (version-watch.ts)   inputs changed after they were read → taken again
 // and a RunReport (run-report.ts) they all add to.
 import type { Logger } from 'pino';
 import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
@@ -11,7 +12,7 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
 import type { FileRecord } from '../store/files.js';
-import { queuedSetIds } from '../store/sets.js';
+import { queuedSetJobs } from '../store/file-versions.js';
 import { ContentCache } from './content-cache.js';
 import { GroupCommit } from './group-commit.js';
 import { dispatchSettingsFrom, JobDispatcher } from './job-dispatcher.js';
@@ -19,6 +20,7 @@ import { recoverMoves, type MoveRecovery } from './recovery.js';
 import type { ResultStage } from './result-stage.js';
 import { RunReport, type CommittedListener, type CoordinatorCounts } from './run-report.js';
 import { assemblyRulesFrom, INTAKE_CHUNK_FILES, SetAssembly } from './set-assembly.js';
+import { VersionWatch } from './version-watch.js';
 
 export type { CoordinatorCounts } from './run-report.js';
 export { isEnvironmentError } from './commit-retry.js';
@@ -45,6 +47,7 @@ export class Coordinator {
   private readonly assembly: SetAssembly;
   private readonly dispatcher: JobDispatcher;
   private readonly commits: GroupCommit;
+  private readonly versions: VersionWatch;
 
   constructor(options: CoordinatorOptions) {
     const { config, ledger, queue, logger } = options;
@@ -68,7 +71,10 @@ export class Coordinator {
       inFlight: () => this.dispatcher.inFlight,
       release: (jobId) => this.dispatcher.release(jobId),
       afterBatch: () => this.dispatcher.dispatchWaiting(),
+      retake: (paths) => this.versions.retakeWhenStable(paths),
+      archived: (moves) => this.versions.recheckLater(moves),
     });
+    this.versions = new VersionWatch({ config, ledger, logger, clock, assembly: this.assembly, dispatcher: this.dispatcher, intake: (paths) => this.intakeMany(paths) });
     queue.onOutcome((outcome) => this.commits.take(outcome));
   }
 
@@ -111,8 +117,9 @@ export class Coordinator {
     const moves = recoverMoves(this.ledger, this.config, this.clock());
     if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'recovery: finished interrupted moves and recorded moved files whose location was lost');
     if (moves.failed > 0) this.logger.error({ files: moves.failed, err: moves.firstError }, 'recovery: files could not be moved to the archive or quarantine; they stay in the inbox and are tried again (watch: every watch.rescanIntervalMs)');
-    const queued = queuedSetIds(this.ledger);
-    for (const id of queued) await this.dispatcher.enqueue(id);
+    this.versions.recheckRecentlyArchived();
+    const queued = queuedSetJobs(this.ledger);
+    for (const { id, jobId } of queued) await this.dispatcher.enqueue(id, jobId ?? id);
     this.assembly.reload();
     if (queued.length > 0) this.logger.info({ sets: queued.length }, 'recovery: re-enqueued queued sets');
   }
@@ -168,10 +175,12 @@ export class Coordinator {
   async drain(): Promise<void> {
     this.commits.beginLettingGo();
     try {
-      while (this.dispatcher.inFlight > 0 || this.dispatcher.waiting > 0) {
+      while (this.dispatcher.inFlight > 0 || this.dispatcher.waiting > 0 || this.versions.busy) {
         if (this.dispatcher.inFlight === 0) await this.dispatcher.dispatchWaiting();
         await this.queue.drain();
         await this.dispatcher.whenNoneInFlight();
+        // Changed inputs waiting to be taken again (their sets are still queued).
+        if (this.versions.busy) await new Promise((resolve) => setTimeout(resolve, 20));
       }
     } finally {
       this.commits.endLettingGo();

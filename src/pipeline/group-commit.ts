@@ -12,6 +12,7 @@ import { getSet } from '../store/sets.js';
 import { commitFailure, commitResults, commitUnreadableSet, recordArchiveMoves, type ArchivedFile, type CommitItem } from './commit.js';
 import { HeldCommits, timerScheduler, type Scheduler } from './commit-retry.js';
 import { applyStages, type ResultStage } from './result-stage.js';
+import { analysedCurrentInputs, inputsChangedOnDisk, isRerunJob } from './input-versions.js';
 import { logMovesFailed, type RunReport } from './run-report.js';
 
 /** Outcomes committed per batch at most. */
@@ -54,6 +55,10 @@ export interface GroupCommitOptions {
   readonly afterBatch: () => Promise<void>;
   /** Schedules held retries (tests pass their own). */
   readonly schedule?: Scheduler;
+  /** Inputs found changed on disk at commit: taken again once stable (input-versions.ts); none by default. */
+  readonly retake?: (paths: readonly string[]) => void;
+  /** Files just moved to the archive: looked at once more later (a writer holding a file open). */
+  readonly archived?: (moves: readonly ArchivedFile[]) => void;
 }
 
 export class GroupCommit {
@@ -191,10 +196,23 @@ export class GroupCommit {
       const setId = setIdOfJob(outcome.id);
       const log = logger.child({ setId });
       try {
-        const rerun = outcome.id !== setId;
+        const rerun = isRerunJob(outcome.id);
         const set = getSet(ledger, setId);
-        if (set === undefined || (!rerun && (set.state === 'done' || set.state === 'failed'))) {
-          log.debug({ jobId: outcome.id }, 'outcome for a finished set ignored (redelivery)');
+        if (set === undefined || (!rerun && (set.state === 'done' || set.state === 'failed' || (set.jobId !== null && set.jobId !== outcome.id)))) {
+          log.debug({ jobId: outcome.id, state: set?.state }, 'outcome for a finished set, or for a run superseded by a newer one, ignored');
+          entry.resolve();
+          continue;
+        }
+        // Before anything is committed: are the inputs still the bytes that were analysed (issue 20)?
+        const changed = inputsChangedOnDisk(ledger, setId);
+        if (changed.length > 0) {
+          log.warn({ files: changed.map((f) => f.name) }, 'an input changed after it was read; not committed: it is taken again once stable, and the set runs again');
+          this.options.retake?.(changed.map((f) => f.path));
+          entry.resolve();
+          continue;
+        }
+        if (outcome.status === 'completed' && !analysedCurrentInputs(ledger, setId, outcome.value.result)) {
+          log.info({ jobId: outcome.id }, 'outcome computed from an earlier version of an input; not committed (a newer run follows)');
           entry.resolve();
           continue;
         }
@@ -228,6 +246,7 @@ export class GroupCommit {
       const done = await commitResults(ledger, config, toCommit.map((c) => c.item), now, carried);
       outcomes = done.outcomes;
       this.unrecordedMoves.push(...done.unrecordedMoves);
+      this.options.archived?.(done.unrecordedMoves);
     } catch (error) {
       // The transaction rolled back: the carried moves are still unrecorded.
       this.unrecordedMoves.unshift(...carried);

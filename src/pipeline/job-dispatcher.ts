@@ -22,6 +22,8 @@ import { commitFailure } from './commit.js';
 import type { ContentCache } from './content-cache.js';
 import { buildPayload, choosePairings, needsSessionReference, readText, sessionReferenceSetId, setAcquisition, setMeasuredAtOr } from './dispatch.js';
 import { InFlightSlots } from './in-flight.js';
+import { isRerunJob, versionedJobId } from './input-versions.js';
+import { versionCountOfSet } from '../store/file-versions.js';
 import { toView, type OpenSet } from './open-sets.js';
 import { logMovesFailed, type RunReport } from './run-report.js';
 import { configHash } from './settings.js';
@@ -109,7 +111,7 @@ export class JobDispatcher {
     if (this.holdDispatch && !force) return;
     const { ledger, config, openSets, logger, settings: { rules } } = this.options;
     const empty: OpenSet[] = [];
-    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[]; own?: FileRecord[] }[] = [];
+    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[]; own?: FileRecord[]; jobId?: string }[] = [];
     for (const set of sets) {
       if (openSets.get(set.id) !== set) continue;
       if (set.files.length === 0 && set.manifest === undefined) {
@@ -140,7 +142,9 @@ export class JobDispatcher {
         entry.own = filesOfSet(ledger, set.id);
         const { pairings } = choosePairings(ledger, config, rules, set, partsPresent(toView(set).files), now, entry.own);
         for (const pairing of pairings) insertPairing(ledger, pairing);
-        markSetQueued(ledger, set.id, set.id, now);
+        // A set run again after a new version of an input gets a new job id (a queue may keep finished ids).
+        entry.jobId = versionedJobId(set.id, versionCountOfSet(ledger, set.id));
+        markSetQueued(ledger, set.id, entry.jobId, now);
         advanceFilesOfSet(ledger, set.id, 'assembled', 'queued', now);
         entry.paired = pairings.map((p) => p.part);
       }
@@ -150,8 +154,8 @@ export class JobDispatcher {
       openSets.delete(set.id);
       logger.info({ setId: set.id, reason, missing, paired }, 'set dispatched');
     }
-    for (const { set, own } of chosen) {
-      await this.enqueue(set.id, set.id, own);
+    for (const { set, own, jobId } of chosen) {
+      await this.enqueue(set.id, jobId ?? set.id, own);
       for (const f of set.files) this.options.contents.delete(f.fileId);
     }
     const references = chosen.filter((entry) => entry.set.role === 'reference').map((entry) => entry.set.id);
@@ -232,8 +236,8 @@ export class JobDispatcher {
   /**
    * Builds the payload of a set from the ledger and enqueues it (also used by recovery and reprocess).
    * When an input is gone (INPUT_MISSING) a set's first run fails with that reason and its remaining
-   * files are quarantined, instead of stopping the pipeline; a re-run (`jobId` ≠ `setId`) leaves the
-   * set as it was. `ownFiles`: the set's own files when the caller has just read them. Returns
+   * files are quarantined, instead of stopping the pipeline; a re-run on request (`~r` job id)
+   * leaves the set as it was. `ownFiles`: the set's own files when the caller has just read them. Returns
    * undefined when enqueued, else why not.
    */
   async enqueue(setId: string, jobId: string = setId, ownFiles?: readonly FileRecord[], reanalysis?: Reanalysis): Promise<string | undefined> {
@@ -250,7 +254,7 @@ export class JobDispatcher {
     } catch (error) {
       if (!(error instanceof InputRejected) || error.code !== 'INPUT_MISSING') throw error;
       const log = this.options.logger.child({ setId });
-      if (jobId !== setId) {
+      if (isRerunJob(jobId)) {
         log.warn({ code: error.code, message: error.message }, 'set not re-run: an input is missing');
         return error.message;
       }

@@ -104,7 +104,8 @@ export class OpenSets {
   }
 }
 
-function fromRecord(ledger: Ledger, record: SetRecord): OpenSet {
+/** The open-set view of a set record (its files read from the ledger). */
+export function fromRecord(ledger: Ledger, record: SetRecord): OpenSet {
   const files = filesOfSet(ledger, record.id)
     .filter((f) => f.dataType !== 'manifest' && f.part !== null)
     .map((f) => ({ fileId: f.id, name: f.name, path: f.path, part: f.part as SetPart, hasIrfColumn: f.hasIrfColumn }));

@@ -10,13 +10,15 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { ParsedData } from '../formats/index.js';
 import type { Ledger } from '../store/ledger.js';
-import { assembleRecordedFile, getFile, insertAssembledFile, insertFileId, moveFileToSet } from '../store/files.js';
-import { deleteOpenSet, insertSet } from '../store/sets.js';
+import { assembleRecordedFile, getFile, insertAssembledFile, insertFileId, moveFileToSet, type FileFacts, type FileRecord } from '../store/files.js';
+import { deleteOpenSet, getSet, insertSet } from '../store/sets.js';
+import { reopenSet, replaceFileVersion, type NewContent } from '../store/file-versions.js';
+import { findEarlierVersion, replacementReason } from './input-versions.js';
 import { classifyFile, makeSetId, placeFile, type AssemblyRules } from './assemble.js';
 import type { ContentCache } from './content-cache.js';
 import { intakeFile, type Acquisition, type IntakeFile, type IntakeResult } from './intake.js';
 import type { SetManifest } from './manifest.js';
-import { OpenSets, toView, type OpenSet } from './open-sets.js';
+import { fromRecord, OpenSets, toView, type OpenSet } from './open-sets.js';
 import type { RunReport } from './run-report.js';
 
 /** Files read per ledger transaction at intake; the event loop is yielded between chunks. */
@@ -150,6 +152,17 @@ export class SetAssembly {
       ...(metadata.role === undefined ? {} : { metadataRole: metadata.role }),
       ...(metadata.sampleId === undefined ? {} : { metadataSampleId: metadata.sampleId }),
     }, rules);
+    if (file.id === undefined) {
+      // New bytes at the path of a recorded input of the same measurement: its new version (issue 20).
+      const earlier = findEarlierVersion(ledger, { path: file.path, sampleId: classification.sampleId, dataType: parsed.type, acquisition }, now, rules.setTimeoutMs);
+      if (earlier !== undefined) {
+        const facts: FileFacts = {
+          dataType: parsed.type, part: earlier.part, role: earlier.role, sampleId: classification.sampleId, acquiredAt: acquisition.acquiredAt, acquiredSource: acquisition.source,
+          excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
+        };
+        return this.placeNewVersion(earlier, file, facts, now, touched);
+      }
+    }
     const candidates = this.openSets.candidatesFor(classification.sampleId).filter((s) => s.manifest === undefined || s.manifest.dir === dirname(file.path));
     const placement = placeFile({ name: file.name, classification }, candidates.map(toView), rules);
     let set: OpenSet;
@@ -181,6 +194,37 @@ export class SetAssembly {
     touched.add(set);
     this.options.logger.debug({ setId: set.id, file: file.name, part }, 'file assembled');
     return fileId;
+  }
+
+  /**
+   * Takes new content at the path of a recorded input (`earlier`) as that input's new version, inside
+   * the caller's transaction: the earlier version is kept in file_versions, the file's row describes
+   * the new content (at `keptAt` when it lies in the archive already), and its set is opened again
+   * (when it was queued or done) to run once more. Returns the file id.
+   */
+  placeNewVersion(earlier: FileRecord, content: NewContent, facts: FileFacts, now: Date, touched: Set<OpenSet>, keptAt?: { archivePath: string }): number {
+    const { ledger, logger } = this.options;
+    const setId = earlier.setId ?? '';
+    const record = getSet(ledger, setId);
+    if (record === undefined) throw new Error(`ledger: set ${setId} of file ${earlier.name} does not exist`);
+    replaceFileVersion(ledger, earlier, content, replacementReason(record.state), now, keptAt);
+    assembleRecordedFile(ledger, earlier.id, facts, setId, now);
+    touched.add(this.reopen(setId, record.state, now));
+    logger.warn({ setId, file: earlier.name, earlierSha256: earlier.sha256, sha256: content.sha256, setWas: record.state }, 'an input changed at its path after it was read: taken as a new version, the set runs again');
+    return earlier.id;
+  }
+
+  /** Opens set `setId` again (it was `state`), in the ledger and in the view (inside the caller's transaction); returns its open set. */
+  reopen(setId: string, state: string, now: Date): OpenSet {
+    const { ledger, rules } = this.options;
+    if (state !== 'open') reopenSet(ledger, setId, new Date(now.getTime() + rules.setTimeoutMs));
+    const known = this.openSets.get(setId);
+    if (known !== undefined) return known;
+    const reopened = getSet(ledger, setId);
+    if (reopened === undefined) throw new Error(`ledger: set ${setId} vanished`);
+    const set = fromRecord(ledger, reopened);
+    this.openSets.add(set);
+    return set;
   }
 
   /** Records a manifest, opens its set and claims listed files waiting in other open sets (inside the intake transaction); returns its file id. */

@@ -7,6 +7,7 @@ import { QC_MIGRATIONS } from './qc-migrations.js';
 import { ACQUISITION_MIGRATIONS } from './acquisition-migrations.js';
 import { ALERT_OUTBOX_MIGRATIONS } from './alert-outbox-migrations.js';
 import { METRICS_MIGRATIONS } from './metrics-migrations.js';
+import { FILE_VERSION_MIGRATIONS } from './file-version-migrations.js';
 
 export interface Migration {
   /** Stable, sortable id such as '0001-core'; recorded once applied. */
@@ -113,7 +114,7 @@ const CORE_MIGRATIONS: readonly Migration[] = [
 ];
 
 /** Every migration, in the order applied. Append other modules' lists here. */
-export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS, ...ALERT_OUTBOX_MIGRATIONS, ...METRICS_MIGRATIONS];
+export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS, ...ALERT_OUTBOX_MIGRATIONS, ...METRICS_MIGRATIONS, ...FILE_VERSION_MIGRATIONS];
 
 /** Applies every migration of `migrations` not yet recorded, each in its own transaction; returns the ids applied. */
 export function applyMigrations(database: Database, migrations: readonly Migration[] = MIGRATIONS): string[] {

@@ -1,14 +1,17 @@
 // The fault campaign (issue 20): `driftlight watch` as a real process, killed with SIGKILL at seeded
 // random moments and restarted, with storage outages (the results folder replaced by a file for a
 // while), while sets arrive: plain sets, one in five declared by a manifest (written before or
-// after its files), symbolic links to files outside the inbox (to be refused, never followed), and
-// slow writers (files appended in pieces, each pause shorter than the stability window). At the end
-// one clean run drains everything, and the campaign counts what happened: every set must have
-// exactly one result (lost 0, duplicated 0), nothing may stay in the inbox or the ledger unfinished
-// (stuck 0), every link must be quarantined and its target left alone.
+// after its files), symbolic links to files outside the inbox (to be refused, never followed), slow
+// writers (files appended in pieces, each pause shorter than the stability window), writers that
+// hold the decay file open and pause for three stability windows halfway, and decay files rewritten
+// at the same path with new bytes a moment after they were written. At the end one clean run drains
+// everything, and the campaign counts what happened: every set must have exactly one result (lost
+// 0, duplicated 0) computed from the final bytes of every input (stale 0), nothing may stay in the
+// inbox or the ledger unfinished (stuck 0), every link must be quarantined and its target left alone.
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import Database from 'better-sqlite3';
-import { appendFileSync, existsSync, mkdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { appendFileSync, closeSync, existsSync, mkdirSync, openSync, readFileSync, symlinkSync, writeFileSync, writeSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { join } from 'node:path';
 import { seededRandom } from '../../src/demo/synthetic.js';
 import { blockFolder, unblockFolder } from '../helpers/blocked-folder.js';
@@ -37,11 +40,19 @@ export interface CampaignRow {
   readonly sets: number;
   readonly manifestSets: number;
   readonly slowWriterSets: number;
+  /** Sets whose decay writer held the file open and paused for three stability windows halfway. */
+  readonly pausedWriterSets: number;
+  /** Sets whose decay file was rewritten at its path with new bytes after it was written. */
+  readonly rewrittenSets: number;
   readonly symlinks: number;
   readonly results: number;
   readonly lost: number;
   readonly duplicated: number;
   readonly stuck: number;
+  /** Results computed from bytes an input no longer has (a half-written or earlier version). */
+  readonly stale: number;
+  /** Runs of watch that ended on their own with an error (a refused restart, a crash), not by the campaign's kill or stop. */
+  readonly unexpectedExits: number;
   /** Links not quarantined, or whose target was moved or changed. */
   readonly linksFollowed: number;
   readonly seconds: number;
@@ -51,8 +62,14 @@ const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms
 
 interface PlannedSet {
   readonly set: GeneratedSet;
-  readonly kind: 'plain' | 'manifest-first' | 'manifest-last' | 'slow';
+  readonly kind: 'plain' | 'manifest-first' | 'manifest-last' | 'slow' | 'paused' | 'rewritten';
+  /** The final content of each file (a rewritten file's second version), by name. */
+  readonly finalContent: Map<string, string>;
 }
+
+const sha256 = (text: string): string => createHash('sha256').update(text).digest('hex');
+/** The campaign's stability window (ms): paused writers pause for three of them. */
+const STABILITY_WINDOW_MS = 400;
 
 function manifestText(set: GeneratedSet): string {
   const part = (name: string): string => (name.includes('-e.') ? 'emission' : name.includes('-a.') ? 'absorbance' : 'decay');
@@ -87,7 +104,7 @@ export function diagnoseLost(dir: string, sampleIds: readonly string[]): string[
 /** Runs the campaign in a fresh workspace and returns its row, what became of each lost set, and the workspace (for inspection). */
 export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; lostDetail: string[]; dir: string }> {
   const startedAt = Date.now();
-  const dir = makeWorkspace('', { stabilityWindowMs: 400, setTimeoutMs: 600_000 });
+  const dir = makeWorkspace('', { stabilityWindowMs: STABILITY_WINDOW_MS, setTimeoutMs: 600_000 });
   const inbox = join(dir, 'inbox');
   const results = join(dir, 'results');
   const outside = join(dir, 'outside');
@@ -96,10 +113,21 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const planned: PlannedSet[] = Array.from({ length: options.sets }, (_u, i) => {
     const id = `camp-${String(i).padStart(4, '0')}`;
     const roll = i % 5;
-    // One in five by manifest (alternately before and after its files), one in five slow.
-    if (roll === 1) return { set: generateSet(id, 5000 + i, { nameStyle: 'opaque' }), kind: i % 10 === 1 ? 'manifest-first' : 'manifest-last' };
-    if (roll === 3) return { set: generateSet(id, 5000 + i), kind: 'slow' };
-    return { set: generateSet(id, 5000 + i), kind: 'plain' };
+    // One in five by manifest (alternately before and after its files), one in five slow, one in
+    // ten with a paused writer, one in ten rewritten.
+    const planned = (set: GeneratedSet, kind: PlannedSet['kind']): PlannedSet => ({ set, kind, finalContent: new Map(set.files.map((f) => [f.name, f.content])) });
+    if (roll === 1) return planned(generateSet(id, 5000 + i, { nameStyle: 'opaque' }), i % 10 === 1 ? 'manifest-first' : 'manifest-last');
+    if (roll === 3) return planned(generateSet(id, 5000 + i), 'slow');
+    if (roll === 4) {
+      const p = planned(generateSet(id, 5000 + i), i % 10 === 4 ? 'paused' : 'rewritten');
+      if (p.kind === 'rewritten') {
+        // Same sample and acquisition time, new bytes: a re-export, i.e. a new version of the file.
+        const decayName = p.set.files.find((f) => f.name.includes('decay'))?.name ?? '';
+        p.finalContent.set(decayName, generateSet(id, 105_000 + i).files.find((f) => f.name === decayName)?.content ?? '');
+      }
+      return p;
+    }
+    return planned(generateSet(id, 5000 + i), 'plain');
   });
   const links: { link: string; target: string; content: string }[] = [];
   const slowWrites: Promise<void>[] = [];
@@ -115,11 +143,34 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     }
   };
 
+  /** One open handle: the first half, a pause of three stability windows, the rest (the file stays open throughout). */
+  const writePaused = async (path: string, content: string): Promise<void> => {
+    const cut = content.lastIndexOf('\n', Math.floor(content.length / 2)) + 1;
+    const fd = openSync(path, 'w');
+    try {
+      writeSync(fd, content.slice(0, cut));
+      await sleep(3 * STABILITY_WINDOW_MS);
+      writeSync(fd, content.slice(cut));
+    } finally {
+      closeSync(fd);
+    }
+  };
+
+  /** Written whole, then rewritten in place with new bytes 1.5 to 3 s later. */
+  const writeTwice = async (path: string, first: string, second: string, delayMs: number): Promise<void> => {
+    writeFileSync(path, first);
+    await sleep(delayMs);
+    writeFileSync(path, second);
+  };
+
   const writeSome = (count: number): void => {
-    for (const { set, kind } of planned.slice(next, next + count)) {
+    for (const { set, kind, finalContent } of planned.slice(next, next + count)) {
       if (kind === 'manifest-first') writeFileSync(join(inbox, `${set.sampleId}.set.yaml`), manifestText(set));
       for (const f of set.files) {
+        const isDecay = f.name.includes('decay');
         if (kind === 'slow') slowWrites.push(writeSlowly(join(inbox, f.name), f.content));
+        else if (kind === 'paused' && isDecay) slowWrites.push(writePaused(join(inbox, f.name), f.content));
+        else if (kind === 'rewritten' && isDecay) slowWrites.push(writeTwice(join(inbox, f.name), f.content, finalContent.get(f.name) ?? '', 1500 + Math.floor(random.nextUniform() * 1500)));
         else writeFileSync(join(inbox, f.name), f.content);
       }
       if (kind === 'manifest-last') writeFileSync(join(inbox, `${set.sampleId}.set.yaml`), manifestText(set));
@@ -145,18 +196,48 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const waits = faults.map(() => 500 + Math.floor(random.nextUniform() * 2000));
   const steps = Math.max(1, Math.floor((0.8 * waits.reduce((a, b) => a + b, 0)) / 100));
   const setsPerStep = options.setsPerStep ?? Math.max(1, Math.ceil(planned.length / steps));
-  let child: ChildProcess = startWatch(dir);
-  for (const [index, fault] of faults.entries()) {
-    const waitMs = waits[index] ?? 0;
+  // Every run's end: killed by the campaign, or exited on its own (a refused start, a crash).
+  const runs: { killed: boolean; code: number | null; stderr: string }[] = [];
+  const runOf = new Map<ChildProcess, { killed: boolean }>();
+  const startRun = (): ChildProcess => {
+    const run = { killed: false, code: null as number | null, stderr: '' };
+    runs.push(run);
+    const proc = startWatch(dir);
+    proc.stderr?.on('data', (chunk: Buffer) => { run.stderr += chunk.toString(); });
+    proc.stdout?.resume();
+    proc.once('exit', (code) => { run.code = code; });
+    runOf.set(proc, run);
+    return proc;
+  };
+  const logPath = join(dir, 'state', 'driftlight.log');
+  const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
+  /** Writes sets every 100 ms for `ms`. */
+  const arriveFor = async (ms: number): Promise<void> => {
     const started = Date.now();
-    while (Date.now() - started < waitMs) {
+    while (Date.now() - started < ms) {
       if (next < planned.length) writeSome(setsPerStep);
       await sleep(100);
     }
+  };
+  let readyCount = 1;
+  let child: ChildProcess = startRun();
+  for (const [index, fault] of faults.entries()) {
+    // A fault strikes a run that is up (a loaded machine may take seconds to start one): sets
+    // arrive, and the wait counts, from the moment the run reported it is watching (what a killed
+    // run left unfinished is the restart's backlog).
+    const target = readyCount;
+    await waitFor('the restarted watch to report it is watching', () => watchingLines() >= target || child.exitCode !== null, 120_000, 50);
+    await arriveFor(waits[index] ?? 0);
     if (fault === 'kill') {
-      child.kill('SIGKILL');
-      await new Promise((r) => child.once('exit', r));
-      child = startWatch(dir);
+      const run = runOf.get(child);
+      if (child.exitCode === null && child.signalCode === null) {
+        if (run !== undefined) run.killed = true;
+        const exited = new Promise((r) => child.once('exit', r));
+        child.kill('SIGKILL');
+        await exited;
+      }
+      readyCount = watchingLines() + 1;
+      child = startRun();
     } else {
       blockFolder(results);
       await sleep(options.outageMs);
@@ -171,10 +252,8 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   // Stop the last faulted run cleanly (it may have been started a moment ago) and drain in one clean run.
   await sleep(1000);
   await stopWatch(child);
-  const logPath = join(dir, 'state', 'driftlight.log');
-  const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
   const before = watchingLines();
-  const final = startWatch(dir);
+  const final = startRun();
   const expectedIds = new Set(planned.map((p) => p.set.sampleId));
   try {
     await waitFor('the final watch to start', () => watchingLines() > before, 60_000);
@@ -190,6 +269,12 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const bySample = new Map<string, number>();
   for (const r of found) bySample.set(r.result.sampleId, (bySample.get(r.result.sampleId) ?? 0) + 1);
   const lostIds = [...expectedIds].filter((id) => !bySample.has(id));
+  // Every own input of a result must be the final bytes of its file.
+  const finalSha = new Map(planned.flatMap((p) => [...p.finalContent.entries()].map(([name, content]) => [name, sha256(content)] as const)));
+  const stale = found.filter((r) => {
+    const inputs = (r.result['provenance'] as { inputs: { file: string; sha256: string; origin: string }[] }).inputs.filter((i) => i.origin === 'own');
+    return inputs.some((i) => finalSha.has(i.file) && finalSha.get(i.file) !== i.sha256);
+  }).length;
   const lost = lostIds.length;
   // Extra results for a set, and results under a sample id no set has (invented ids).
   const duplicated = [...bySample.entries()].reduce((n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count), 0);
@@ -202,16 +287,22 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     const name = link.split('/').pop() ?? '';
     return !quarantined.has(name) || !existsSync(target) || readFileSync(target, 'utf8') !== content;
   }).length;
+  // Runs that ended on their own, other than the clean stops (exit 0): a refused restart or a crash.
+  const unexpectedExits = runs.filter((r) => !r.killed && r.code !== null && r.code !== 0);
   const row: CampaignRow = {
     faultsInjected: faults.length, kills: options.kills, outages: options.outages,
     sets: planned.length,
     manifestSets: planned.filter((p) => p.kind.startsWith('manifest')).length,
     slowWriterSets: planned.filter((p) => p.kind === 'slow').length,
+    pausedWriterSets: planned.filter((p) => p.kind === 'paused').length,
+    rewrittenSets: planned.filter((p) => p.kind === 'rewritten').length,
     symlinks: links.length,
-    results: found.length, lost, duplicated, stuck, linksFollowed,
+    results: found.length, lost, duplicated, stuck, stale, linksFollowed, unexpectedExits: unexpectedExits.length,
     seconds: Math.round((Date.now() - startedAt) / 1000),
   };
-  return { row, lostDetail: diagnoseLost(dir, lostIds), dir };
+  writeFileSync(join(dir, 'campaign-runs.json'), JSON.stringify(runs, null, 1));
+  const exitDetail = unexpectedExits.map((r) => `watch exited with ${String(r.code)}: ${r.stderr.trim().split('\n').slice(0, 3).join(' | ')}`);
+  return { row, lostDetail: [...diagnoseLost(dir, lostIds), ...exitDetail], dir };
 }
 
 /** The row as a Markdown table (header + one line). */

@@ -61,11 +61,40 @@ describe('coordinator batches', () => {
     expect(record.message).toContain(emission.name);
   });
 
-  it('analyses the bytes hashed at intake even when the file on disk changes before dispatch', async () => {
-    const { pipeline, inbox } = start();
+  it('does not commit a result from bytes that changed on disk after intake: a usable new version runs the set again, one result', async () => {
+    const { pipeline, inbox, dir } = start();
+    const set = generateSet('held-02', 13);
+    const paths = drop(inbox, set.files);
+    await pipeline.coordinator.intakeMany(paths);
+    const decayIndex = set.files.findIndex((f) => f.name.includes('decay'));
+    const decayPath = paths[decayIndex] ?? '';
+    const before = pipeline.ledger.database.prepare(`SELECT sha256 FROM files WHERE path = ?`).get(decayPath) as { sha256: string };
+    // Re-exported after it was taken (same sample, same acquisition time, new bytes).
+    const newer = generateSet('held-02', 14).files[decayIndex]?.content ?? '';
+    writeFileSync(decayPath, newer);
+    const committed: string[] = [];
+    pipeline.coordinator.onCommitted((_id, path) => { if (path !== undefined) committed.push(path); });
+    await pipeline.coordinator.tick(true);
+    await pipeline.coordinator.drain();
+    expect(committed).toHaveLength(1);
+    const result = JSON.parse(readFileSync(committed[0] ?? '', 'utf8')) as { partial: boolean; provenance: { inputs: { file: string; sha256: string }[]; supersededInputs?: { sha256: string }[] } };
+    const recorded = pipeline.ledger.database.prepare(`SELECT sha256 FROM files WHERE path = ?`).all(decayPath) as { sha256: string }[];
+    expect(recorded).toHaveLength(1);
+    expect(recorded[0]?.sha256).not.toBe(before.sha256);
+    expect(result.provenance.inputs.find((i) => i.file === set.files[decayIndex]?.name)?.sha256).toBe(recorded[0]?.sha256);
+    expect(result.provenance.supersededInputs?.map((v) => v.sha256)).toEqual([before.sha256]);
+    expect(result.partial).toBe(false);
+    expect(pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM sets`).get()).toEqual({ n: 1 });
+    expect(filesUnder(inbox)).toEqual([]);
+    expect(filesUnder(join(dir, 'results')).filter((n) => n.endsWith('.json'))).toHaveLength(1);
+  });
+
+  it('does not commit a result from bytes that changed on disk after intake: an unusable new version is quarantined and the set reports the part missing', async () => {
+    const { pipeline, inbox, dir } = start();
     const set = generateSet('held-01', 12);
     const paths = drop(inbox, set.files);
     await pipeline.coordinator.intakeMany(paths);
+    const hashed = pipeline.ledger.database.prepare(`SELECT sha256 FROM files WHERE name = ?`).get(set.files[0]?.name) as { sha256: string };
     // The instrument (or a person) rewrites the emission export after driftlight took it.
     writeFileSync(paths[0] ?? '', 'not a spectrum any more\n');
     let resultPath: string | undefined;
@@ -73,11 +102,14 @@ describe('coordinator batches', () => {
     await pipeline.coordinator.tick(true);
     await pipeline.coordinator.drain();
     expect(resultPath).toBeDefined();
-    const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as { partial: boolean; spectra: { emission?: unknown }; provenance: { inputs: { sha256: string; file: string }[] } };
-    expect(result.partial).toBe(false);
-    expect(result.spectra.emission).toBeDefined();
-    const hashed = pipeline.ledger.database.prepare(`SELECT sha256 FROM files WHERE name = ?`).get(set.files[0]?.name) as { sha256: string };
-    expect(result.provenance.inputs.find((i) => i.file === set.files[0]?.name)?.sha256).toBe(hashed.sha256);
+    const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as { partial: boolean; missing: { what: string }[]; spectra: { emission?: unknown }; provenance: { inputs: { file: string }[]; supersededInputs?: { file: string; sha256: string }[] } };
+    // Never a result from the bytes the file no longer holds, labelled with their hash.
+    expect(result.partial).toBe(true);
+    expect(result.spectra.emission).toBeUndefined();
+    expect(result.provenance.inputs.map((i) => i.file)).not.toContain(set.files[0]?.name);
+    expect(result.provenance.supersededInputs).toEqual([expect.objectContaining({ file: set.files[0]?.name, sha256: hashed.sha256 })]);
+    expect(filesUnder(join(dir, 'quarantine'))).toEqual([`${set.files[0]?.name ?? ''}`, `${set.files[0]?.name ?? ''}.error.json`]);
+    expect(filesUnder(inbox)).toEqual([]);
   });
 
   it('commits many sets finishing together: one result each, every input archived, ledger done', async () => {
