@@ -124,7 +124,7 @@ export const supersededInputsStage: ResultStage = {
   },
 };
 
-/** Whether `jobId` re-runs a finished set on request (`reprocess`: `SETID~r…`), as opposed to a set's own run or a run after a new input version (`~v…`). */
+/** Whether `jobId` re-runs a finished set (`reprocess`: `SETID~r…`; the session's reference arrived: `SETID~ref-…`), as opposed to a set's own run or its run after a new input version (`~v…`). */
 export function isRerunJob(jobId: string): boolean {
   return jobId.includes('~r');
 }
