@@ -1,7 +1,7 @@
 // Turns a parsed driftlight.yaml object into the resolved, frozen config: validates with zod,
 // fills defaults, resolves relative folders against the config directory, checks regexes.
 import { isAbsolute, join, resolve } from 'node:path';
-import type { z } from 'zod';
+import { problemLines, problemsFromIssues } from '../model/config-problems.js';
 import { ConfigInvalid } from '../model/errors.js';
 import { configSchema, type DriftlightConfigParsed } from './schema.js';
 
@@ -27,11 +27,6 @@ export function formatConfigPath(path: readonly PropertyKey[]): string {
   return text === '' ? '(top level)' : text;
 }
 
-function issueMessage(issue: z.core.$ZodIssue): string {
-  if (issue.code === 'unrecognized_keys') return `unknown option(s) ${issue.keys.map((k) => `"${k}"`).join(', ')}; check the spelling`;
-  return issue.message;
-}
-
 function deepFreeze<T>(value: T): T {
   if (value !== null && typeof value === 'object' && !Object.isFrozen(value)) {
     Object.freeze(value);
@@ -53,9 +48,10 @@ export function resolveConfig(raw: unknown, options: { baseDir: string; configFi
   const where = options.configFile ?? '(defaults)';
   const parsed = configSchema.safeParse(raw ?? {});
   if (!parsed.success) {
-    const lines = parsed.error.issues.map((issue) => `${formatConfigPath(issue.path)}: ${issueMessage(issue)}`);
-    const first = parsed.error.issues[0];
-    throw new ConfigInvalid(lines.join('; '), {
+    // One line per problem, each with its full path; an unknown key names the nearest valid one.
+    const problems = problemsFromIssues(parsed.error.issues, configSchema, raw ?? {});
+    const first = problems[0];
+    throw new ConfigInvalid(problemLines(problems).join('\n'), {
       file: where,
       configPath: first === undefined ? undefined : formatConfigPath(first.path),
     });

@@ -36,11 +36,16 @@ export class DriftlightError extends Error {
     this.configPath = details.configPath;
   }
 
-  /** `FILE:LINE: CODE: message` (parts omitted when unknown), the one-line form shown to users. */
+  /**
+   * `FILE:LINE: CODE: message` (parts omitted when unknown), the form shown to users: one line per problem
+   * when the message holds several (one per line), each with the config path once.
+   */
   toUserLine(): string {
     const where = this.file === undefined ? '' : `${this.file}${this.line === undefined ? '' : `:${this.line}`}: `;
-    const path = this.configPath === undefined ? '' : `${this.configPath}: `;
-    return `${where}${this.code}: ${path}${this.message}`;
+    const lines = this.message.split('\n');
+    // A message of several lines names each line's own path; a one-line message gets the path once.
+    const path = this.configPath === undefined || lines.length > 1 || this.message.startsWith(`${this.configPath}:`) ? '' : `${this.configPath}: `;
+    return lines.map((line) => `${where}${this.code}: ${path}${line}`).join('\n');
   }
 
   /** Plain JSON form for quarantine records and logs. */

@@ -3,9 +3,9 @@
 import { parse as parseYaml } from 'yaml';
 import { z } from 'zod';
 import { InputRejected } from '../model/errors.js';
+import { problemLines, problemsFromIssues } from '../model/config-problems.js';
 import { MEASUREMENT_ROLES } from '../model/spectrum.js';
 import { SET_PARTS } from '../analysis/result.js';
-import { formatConfigPath } from '../config/resolve.js';
 
 export const MANIFEST_SCHEMA = 'driftlight.set/1' as const;
 
@@ -41,7 +41,7 @@ export function parseManifest(text: string, fileName: string): SetManifest {
   }
   const parsed = manifestSchema.safeParse(raw);
   if (!parsed.success) {
-    const problems = parsed.error.issues.map((i) => `${formatConfigPath(i.path)}: ${i.message}`).join('; ');
+    const problems = problemLines(problemsFromIssues(parsed.error.issues, manifestSchema, raw)).join('; ');
     throw new InputRejected('MANIFEST_INVALID', `the manifest is invalid: ${problems}`, { file: fileName });
   }
   return parsed.data;

@@ -3,6 +3,7 @@
 import { z } from 'zod';
 import { LineCounter, parseDocument } from 'yaml';
 import { ConfigInvalid } from '../model/errors.js';
+import { nearestName, problemLines, problemsFromIssues, type ConfigProblem } from '../model/config-problems.js';
 import { controlSchema, type ControlDefinition } from './controls.js';
 import { describeScope, isInstrumentScope, namedControls, scopeJudgesControl } from './rule-base.js';
 import { RULE_KIND_NAMES, RULE_KINDS, ruleNeedsBaseline, type Rule, type RuleKindName } from './rule-kinds/registry.js';
@@ -25,10 +26,7 @@ const headerSchema = z.strictObject({
   rules: z.array(z.unknown(), { error: 'expected a list of rules' }).default([]),
 });
 
-interface Problem {
-  readonly path: readonly PropertyKey[];
-  readonly message: string;
-}
+type Problem = ConfigProblem;
 
 /** `rules[2].lambda` from ['rules', 2, 'lambda']. */
 export function formatConfigPath(path: readonly PropertyKey[]): string {
@@ -39,12 +37,14 @@ export function formatConfigPath(path: readonly PropertyKey[]): string {
 function parseRule(raw: unknown, index: number, problems: Problem[]): Rule | undefined {
   const kind = typeof raw === 'object' && raw !== null ? (raw as Record<string, unknown>)['kind'] : undefined;
   if (typeof kind !== 'string' || !(kind in RULE_KINDS)) {
-    problems.push({ path: ['rules', index, 'kind'], message: `expected one of ${RULE_KIND_NAMES.join(', ')}` });
+    const near = typeof kind === 'string' ? nearestName(kind, RULE_KIND_NAMES) : undefined;
+    problems.push({ path: ['rules', index, 'kind'], message: `${kind === undefined ? 'missing' : `unknown kind ${JSON.stringify(kind)}`}; ${near === undefined ? `expected one of ${RULE_KIND_NAMES.join(', ')}` : `did you mean "${near}"?`}` });
     return undefined;
   }
-  const result = RULE_KINDS[kind as RuleKindName].schema.safeParse(raw);
+  const schema = RULE_KINDS[kind as RuleKindName].schema;
+  const result = schema.safeParse(raw);
   if (!result.success) {
-    for (const issue of result.error.issues) problems.push({ path: ['rules', index, ...issue.path], message: issue.message });
+    problems.push(...problemsFromIssues(result.error.issues, schema, raw, ['rules', index]));
     return undefined;
   }
   return result.data;
@@ -88,10 +88,11 @@ export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
     });
   }
   const problems: Problem[] = [];
-  const header = headerSchema.safeParse(document.toJS() ?? {});
+  const raw: unknown = document.toJS() ?? {};
+  const header = headerSchema.safeParse(raw);
   let ruleSet: RuleSet | undefined;
   if (!header.success) {
-    for (const issue of header.error.issues) problems.push({ path: issue.path, message: issue.message });
+    problems.push(...problemsFromIssues(header.error.issues, headerSchema, raw));
   } else {
     const rules: Rule[] = [];
     header.data.rules.forEach((raw, index) => {
@@ -106,9 +107,9 @@ export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
     const path = first === undefined ? '' : formatConfigPath(first.path);
     const node = first === undefined ? undefined : document.getIn(first.path.filter((p) => typeof p !== 'symbol'), true);
     const offset = typeof node === 'object' && node !== null && 'range' in node && Array.isArray(node.range) ? (node.range[0] as number) : undefined;
-    const more = problems.slice(1, 6).map((problem) => `${formatConfigPath(problem.path)}: ${problem.message}`);
-    const suffix = more.length === 0 ? '' : ` (also: ${more.join('; ')}${problems.length > 6 ? '; …' : ''})`;
-    throw new ConfigInvalid(`${first?.message ?? 'invalid rule set'}${suffix}`, {
+    // One line per problem, each with its own path (the first also locates the file line).
+    const lines = problemLines(problems);
+    throw new ConfigInvalid(lines.length === 0 ? 'invalid rule set' : lines.join('\n'), {
       file: sourceName,
       hint: 'Fix the named entry of the rule file (docs/qc.md lists every kind and parameter); `driftlight rules check FILE` validates it.',
       configPath: path,

@@ -70,9 +70,9 @@ export const alertsSection = z
       .describe('Alert channels. Default: one log channel with id "log"'),
     routing: z
       .strictObject({
-        info: channelList.default(['log']).describe('Channels for info flags. Default: [log]'),
-        warning: channelList.default(['log']).describe('Channels for warning flags. Default: [log]'),
-        critical: channelList.default(['log']).describe('Channels for critical flags. Default: [log]'),
+        info: channelList.optional().describe('Channels for info flags. Default: every channel of alerts.channels'),
+        warning: channelList.optional().describe('Channels for warning flags. Default: every channel of alerts.channels'),
+        critical: channelList.optional().describe('Channels for critical flags. Default: every channel of alerts.channels'),
       })
       .prefault({})
       .describe('Channel ids per severity.'),
@@ -95,10 +95,18 @@ export const alertsSection = z
       ids.add(channel.id);
     });
     for (const severity of ['info', 'warning', 'critical'] as const) {
-      alerts.routing[severity].forEach((id, index) => {
+      // Only routes the user wrote are checked: a default route names only channels that exist.
+      (alerts.routing[severity] ?? []).forEach((id, index) => {
         if (!ids.has(id)) context.addIssue({ code: 'custom', path: ['routing', severity, index], message: `no channel with id "${id}" under alerts.channels` });
       });
     }
+  })
+  .transform((alerts) => {
+    const every = alerts.channels.map((channel) => channel.id);
+    return {
+      ...alerts,
+      routing: { info: alerts.routing.info ?? every, warning: alerts.routing.warning ?? every, critical: alerts.routing.critical ?? every },
+    };
   })
   .prefault({})
   .describe('Alert channels (webhook, email, log), routing by severity, cooldown and recovery notices.');

@@ -9,7 +9,7 @@ const fraction = z
   .min(0, { error: 'expected a number between 0 and 1' })
   .max(1, { error: 'expected a number between 0 and 1' });
 
-export const controlEntry = z.looseObject({
+export const controlEntry = z.strictObject({
   id: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'expected letters, digits, ".", "_" or "-"' })
     .describe('Name of the control (letters, digits, ".", "_", "-"); alerts and `rules` commands use it.'),
   label: z.string().min(1).optional().describe('Wording used in messages. Default: the id'),

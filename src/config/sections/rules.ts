@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { isValidTimeZone } from '../../qc/time.js';
 
 export const rulesSection = z
-  .looseObject({
+  .strictObject({
     file: z.string().min(1).optional().describe('YAML rule set; relative to the config file. Default: the built-in rule set'),
     timeZone: z
       .string()

@@ -47,7 +47,7 @@ describe('config', () => {
   });
 
   it('rejects unknown options, bad regular expressions and broken YAML with a location', () => {
-    expect(() => resolveConfig({ watch: { stabiltyWindowMs: 5 } }, { baseDir: '/' })).toThrow(/watch: unknown option\(s\) "stabiltyWindowMs"/);
+    expect(() => resolveConfig({ watch: { stabiltyWindowMs: 5 } }, { baseDir: '/' })).toThrow(/watch.stabiltyWindowMs: unknown option "stabiltyWindowMs"; did you mean "stabilityWindowMs"\?/);
     expect(() => resolveConfig({ references: [{ id: 'r', sampleIdPattern: '(', standardId: 'x' }] }, { baseDir: '/' })).toThrow(/invalid regular expression/);
     const file = tempConfig('folders:\n  inbox: [unclosed\n');
     expect(() => loadConfig(file)).toThrow(ConfigInvalid);
