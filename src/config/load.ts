@@ -14,7 +14,11 @@ export function loadConfig(file?: string, cwd: string = process.cwd()): Driftlig
     if (file === undefined) return resolveConfig({}, { baseDir: cwd });
     throw new ConfigInvalid(`config file not found: ${path}`, { file: path, hint: 'Pass an existing file with --config, or omit it to use ./driftlight.yaml.' });
   }
-  const text = readFileSync(path, 'utf8');
+  return configFromText(readFileSync(path, 'utf8'), path);
+}
+
+/** Parses config text (YAML or JSON) as read from `path` and resolves it against the file's folder; throws ConfigInvalid. */
+export function configFromText(text: string, path: string): DriftlightConfig {
   const document = parseDocument(text, { prettyErrors: true });
   const firstError = document.errors[0];
   if (firstError !== undefined) {
