@@ -20,9 +20,25 @@ export function buildProgram(): Command {
   return program;
 }
 
+const quietStreams = new WeakSet<NodeJS.WriteStream>();
+
+/**
+ * Ends the process quietly (exit 0) when the reader of standard output goes away (`driftlight … |
+ * head`): what it did not read was not wanted, and an EPIPE stack trace would only be noise.
+ */
+export function endQuietlyOnClosedOutput(stream: NodeJS.WriteStream = process.stdout): void {
+  if (quietStreams.has(stream)) return;
+  quietStreams.add(stream);
+  stream.on('error', (error: NodeJS.ErrnoException) => {
+    if (error.code !== 'EPIPE') throw error;
+    process.exit(EXIT_CODES.ok.code);
+  });
+}
+
 /** Runs the CLI on `argv` and returns the exit code (never throws). */
 export async function runCli(argv: readonly string[]): Promise<number> {
   process.exitCode = undefined;
+  endQuietlyOnClosedOutput();
   try {
     await buildProgram().parseAsync([...argv], { from: 'node' });
     return typeof process.exitCode === 'number' ? process.exitCode : EXIT_CODES.ok.code;

@@ -11,7 +11,8 @@ import { createJobQueue } from '../queue/index.js';
 import type { JobQueue } from '../queue/job-queue.js';
 import { openLedger, type Ledger } from '../store/ledger.js';
 import { Coordinator } from './coordinator.js';
-import { acquireInstanceLock } from './instance-lock.js';
+import { acquireInstanceLock, processAlive } from './instance-lock.js';
+import { removeStaleTempFiles } from '../output/stale-temp.js';
 import type { ResultStage } from './result-stage.js';
 import { defaultResultStages } from './stage-table.js';
 
@@ -76,6 +77,10 @@ export function openPipeline(
   const lock = acquireInstanceLock(config.folders.state, options.command ?? 'pipeline');
   for (const dir of Object.values(config.folders)) mkdirSync(dir, { recursive: true });
   const logger = options.logger ?? createLogger(config.logging, config.logFile);
+  // Temporary files of writes a killed run left half done (never renamed into place).
+  const f = config.folders;
+  const stale = removeStaleTempFiles([f.results, f.outbox, f.quarantine, f.state], processAlive);
+  if (stale.length > 0) logger.info({ files: stale.length, first: stale[0] }, 'removed temporary files of interrupted writes');
   let ledger: Ledger;
   try {
     ledger = openLedger(config.folders.state);
