@@ -175,6 +175,16 @@ export interface RamanSummary {
 }
 
 /** A QC flag added by a result stage. */
+/** An earlier QC verdict of a run, kept when a result inserted before it in acquisition order re-judged it. */
+export interface QcVerdictHistoryEntry {
+  /** The flags the run had until then. */
+  readonly flags: readonly QcFlag[];
+  /** When they were replaced (ISO 8601 UTC, the coordinator's clock). */
+  readonly replacedAt: string;
+  /** Which result re-judged the run. */
+  readonly reason: string;
+}
+
 export interface QcFlag {
   /** Stable rule id, e.g. 'westgard-1-3s'. */
   readonly rule: string;
@@ -278,6 +288,7 @@ export interface AnalysisResult {
   readonly rates?: RateConstantsSummary;
   readonly raman?: RamanSummary;
   readonly warnings: readonly string[];
-  readonly qc: { readonly flags: readonly QcFlag[] };
+  /** The QC verdict on this run as it stands now; `history` keeps the earlier verdicts a later-judged result replaced (issue 16). */
+  readonly qc: { readonly flags: readonly QcFlag[]; readonly history?: readonly QcVerdictHistoryEntry[] };
   readonly provenance: ResultProvenance;
 }

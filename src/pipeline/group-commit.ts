@@ -13,6 +13,7 @@ import { commitFailure, commitResults, commitUnreadableSet, recordArchiveMoves, 
 import { HeldCommits, timerScheduler, type Scheduler } from './commit-retry.js';
 import { applyStages, type ResultStage } from './result-stage.js';
 import { analysedCurrentInputs, inputsChangedOnDisk, isRerunJob } from './input-versions.js';
+import { reviseResultFiles } from './result-revision.js';
 import { logMovesFailed, type RunReport } from './run-report.js';
 
 /** Outcomes committed per batch at most. */
@@ -277,5 +278,18 @@ export class GroupCommit {
       report.setDone(committed.setId, committed.path, result.partial);
       entry.resolve();
     });
+    await this.reviseWrittenResults(now);
+  }
+
+  /** Rewrites results already written whose verdict this batch's stages revised (a failure is logged; the ledger keeps the verdict, the next revision of that set rewrites it). */
+  private async reviseWrittenResults(now: Date): Promise<void> {
+    const revisions = this.options.stages.flatMap((stage) => stage.takeRevisions?.() ?? []);
+    if (revisions.length === 0) return;
+    try {
+      const rewritten = await reviseResultFiles(this.options.ledger, revisions, now);
+      if (rewritten.length > 0) this.options.logger.info({ sets: rewritten }, 'QC verdict of earlier-written results revised (a result acquired before them arrived later); their files show it, qc.history keeps the earlier flags');
+    } catch (error) {
+      this.options.logger.error({ err: error, sets: revisions.map((revision) => revision.setId) }, 'could not rewrite results whose QC verdict was revised; the ledger holds the current verdict');
+    }
   }
 }

@@ -70,6 +70,8 @@ export interface QcStage extends ResultStage {
 export function createQcStage(options: QcStageOptions): QcStage {
   const { ruleSet } = options;
   const pending = new Map<string, { flags: QcFlag[]; recoveries: RecoveryNotice[] }>();
+  /** Results already written whose flags a later-judged (earlier-acquired) result changed, by set id (issue 16). */
+  const revisions = new Map<string, { qcFlags: ResultQcFlag[]; reason: string }>();
   const dispatchers = new Map<Ledger, AlertDispatcher>();
   const dispatcher = (ledger: Ledger): AlertDispatcher | undefined => {
     if (options.dispatcherFor === undefined) return undefined;
@@ -124,10 +126,28 @@ export function createQcStage(options: QcStageOptions): QcStage {
         });
         const ownFlags = judged.find((run) => run.observation.setId === observation.setId)?.flags ?? [];
         outcome = { flags: fresh, recoveries, ownFlags: [...ownFlags] };
+        // Later runs whose verdict this result changed: their result files are rewritten (history kept).
+        revisions.delete(observation.setId);
+        for (const run of judged) {
+          const setId = run.observation.setId;
+          if (setId === observation.setId) continue;
+          const before = [...known].filter((signature) => signature.startsWith(`${setId}|`)).sort();
+          const after = run.flags.map((flag) => `${flag.setId}|${flagKey(flag)}|${flag.check}`).sort();
+          if (before.length === after.length && before.every((signature, index) => signature === after[index])) continue;
+          revisions.set(setId, {
+            qcFlags: run.flags.map(toResultFlag),
+            reason: `re-judged when the result of set ${observation.setId}, acquired ${observation.acquiredAt}, was placed before it in acquisition order`,
+          });
+        }
       });
       pending.set(result.setId, { flags: outcome.flags, recoveries: outcome.recoveries });
       if (outcome.ownFlags.length === 0) return result;
       return { ...result, qc: { ...result.qc, flags: [...result.qc.flags, ...outcome.ownFlags.map(toResultFlag)] } };
+    },
+    takeRevisions() {
+      const taken = [...revisions].map(([setId, revision]) => ({ setId, ...revision }));
+      revisions.clear();
+      return taken;
     },
     afterCommit(result: AnalysisResult, context: ResultStageContext): void {
       const outcome = pending.get(result.setId);

@@ -2,7 +2,7 @@
 // The coordinator runs the configured stages in order on every completed analysis: `apply` may
 // return the result with additions (e.g. `qc.flags`); `afterCommit` runs once the result, the
 // ledger row and the archive moves are durable (e.g. alerts) and is never awaited by the pipeline.
-import type { AnalysisResult } from '../analysis/result.js';
+import type { AnalysisResult, QcFlag } from '../analysis/result.js';
 import type { Ledger } from '../store/ledger.js';
 
 export interface ResultStageContext {
@@ -12,11 +12,20 @@ export interface ResultStageContext {
   readonly now: Date;
 }
 
+/** A change a stage made to a result already written (QC: a late result re-judged a later run): its flags as they stand now, and why. */
+export interface ResultRevision {
+  readonly setId: string;
+  readonly qcFlags: readonly QcFlag[];
+  readonly reason: string;
+}
+
 export interface ResultStage {
   /** Stable name, used in logs. */
   readonly name: string;
   /** Returns the result to write (the same object, or a copy with additions such as qc.flags). */
   apply(result: AnalysisResult, context: ResultStageContext): Promise<AnalysisResult> | AnalysisResult;
+  /** Revisions of results already written that the stage's apply() calls made since the last call (the coordinator rewrites those files). */
+  takeRevisions?(): ResultRevision[];
   /** Called after the result is durable; failures are logged, never retried, never block the pipeline. */
   afterCommit?(result: AnalysisResult, context: ResultStageContext): void | Promise<void>;
   /** Called by `watch` about once a minute for time-based checks (e.g. a control not measured by its deadline). */

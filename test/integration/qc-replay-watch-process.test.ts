@@ -11,7 +11,9 @@ import { Writable } from 'node:stream';
 import { join } from 'node:path';
 import { SMTPServer } from 'smtp-server';
 import { afterAll, describe, expect, it } from 'vitest';
+import { readResultFiles } from '../../src/cli/demo-run.js';
 import { runBatch } from '../../src/cli/process.js';
+import { readSummaryRows } from '../../src/output/summary-table.js';
 import { runWatch } from '../../src/cli/watch.js';
 import type { Pipeline } from '../../src/pipeline/runtime.js';
 import { openLedger } from '../../src/store/ledger.js';
@@ -228,6 +230,28 @@ describe('two months of a control through watch and process (issue 16, must-show
       }
     };
     expect(yieldsOf(processDir)).toEqual(yieldsOf(watchDir));
+
+    // What a lab reads is the current verdict: each control's result file (and the export built from
+    // the files) carries the flags the ledger holds now, though late results re-judged many of them
+    // after they were written; the flags they had before are kept in qc.history.
+    let revisedFiles = 0;
+    for (const { dir, flags } of [{ dir: watchDir, flags: watched.flags }, { dir: processDir, flags: processed.flags }]) {
+      const results = readResultFiles(join(dir, 'results')).filter((result) => result.role === 'control');
+      expect(results.length).toBe(REPLAY.days + 1);
+      for (const result of results) {
+        const inFile = result.qc.flags.map((flag) => `${flag.rule}|${flag.severity}`).sort();
+        const inLedger = flags.filter((flag) => flag.setId === result.setId).map((flag) => `${flag.ruleId}:${flag.check}|${flag.severity}`).sort();
+        expect(inFile, result.setId).toEqual(inLedger);
+        if (dir === watchDir && (result.qc.history ?? []).length > 0) revisedFiles += 1;
+      }
+      const exported = readSummaryRows(join(dir, 'results'), 0, Infinity).rows.filter((row) => row.role === 'control');
+      for (const row of exported) {
+        const inLedger = flags.filter((flag) => flag.setId === row.setId).map((flag) => `${flag.ruleId}:${flag.check} (${flag.severity})`).sort();
+        expect(row.flags.filter((text) => /\((info|warning|critical)\)$/.test(text)).sort(), row.setId).toEqual(inLedger);
+      }
+    }
+    expect(revisedFiles).toBeGreaterThan(0);
+    console.log(`replay: ${revisedFiles} control result files re-judged after they were written (watch), each with qc.history`);
 
     // Identical flags (run flags; control-missing comes from the clock, which only `watch` has).
     const watchFlags = watched.flags.filter((flag) => flag.setId !== '').map(signature).sort();
