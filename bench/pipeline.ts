@@ -14,7 +14,8 @@ import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyze } from '../src/analysis/analyze.js';
 import { resolveConfig } from '../src/config/resolve.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from '../src/demo/synthetic.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, withoutIrf } from '../src/demo/synthetic.js';
+import { createSeededRandom } from '../src/decay/index.js';
 import { writeDecayCsv, writeSpectrumCsv } from '../src/formats/index.js';
 import { fsyncDirectoryAsync, writeFileAtomic, writeFileAtomicAsync } from '../src/output/atomic-write.js';
 import { uniqueTarget } from '../src/output/dated-path.js';
@@ -84,7 +85,7 @@ const TCSPC_SETS = 300;
 
 /** Four files of one set (emission, absorbance, decay without IRF, separate IRF). */
 function setFiles(sampleId: string, seed: number, shape: DecayShape = 'small'): { name: string; content: string }[] {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const a = 0.03 + (seed % 10) * 0.001;
   const meta = { sampleId, acquiredAt: '2026-03-14T10:00:00Z' };
   const em = emissionSpectrum({ peakNm: 540, widthNm: 40, integral: emissionIntegralFor(0.5, a, 1.3618), stepNm: 2 }, { ...meta, excitationNm: 480, solvent: 'ethanol' }, random);

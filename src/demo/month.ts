@@ -9,7 +9,8 @@ import { canonicalKey } from '../formats/metadata-vocabulary.js';
 import { createSpectrum, type Spectrum } from '../model/spectrum.js';
 import { createDecay, type Decay } from '../model/decay.js';
 import { samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, irfAsDecay, seededRandom, withoutIrf } from './synthetic.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, irfAsDecay, withoutIrf } from './synthetic.js';
+import { createSeededRandom } from '../decay/index.js';
 import type { DemoFile } from './scenario.js';
 import { monthConfig, monthRules } from './month-config.js';
 
@@ -232,7 +233,7 @@ function hhmmPlus(hhmm: string, minutes: number): string {
 
 /** Generates the month (config, rule set, files in arrival order, truth) from `seed`. */
 export function generateDemoMonth(seed = 20260202): DemoMonth {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const arrivals: MonthArrival[] = [];
   const controls: MonthControlTruth[] = [];
   const samples: { sampleId: string; day: number; quantumYield: number; tauNs: number }[] = [];

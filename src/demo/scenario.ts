@@ -3,7 +3,8 @@
 // by a manifest, and one malformed export. Seeded, so the files and their truth are reproducible.
 import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from './synthetic.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, emissionSpectrum, irfAsDecay, withoutIrf } from './synthetic.js';
+import { createSeededRandom } from '../decay/index.js';
 
 export interface DemoFile {
   readonly name: string;
@@ -43,7 +44,7 @@ function tabText(spectrum: Spectrum, header: readonly string[], valueName: strin
 
 /** Generates the demo day (files, truth, config) from `seed`; decays have `channels` channels. */
 export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs = 0.05): DemoDay {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const files: DemoFile[] = [];
   const truth: DemoTruth[] = [];
   const at = (hhmm: string): string => `${DAY}T${hhmm}:00Z`;

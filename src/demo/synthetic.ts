@@ -3,12 +3,7 @@
 import { createSpectrum, type Spectrum, type SpectrumMetadata } from '../model/spectrum.js';
 import type { Decay, DecayMetadata } from '../model/decay.js';
 import { createDecay } from '../model/decay.js';
-import { createSeededRandom, gaussianIrf, sampleStandardNormal, simulateDecay, type UniformSource } from '../decay/index.js';
-
-/** A seeded uniform source (mulberry32 from the decay module). */
-export function seededRandom(seed: number): UniformSource {
-  return createSeededRandom(seed);
-}
+import { gaussianIrf, sampleStandardNormal, simulateDecay, type UniformSource } from '../decay/index.js';
 
 function axis(fromNm: number, toNm: number, stepNm: number): Float64Array {
   const n = Math.round((toNm - fromNm) / stepNm) + 1;

@@ -120,3 +120,8 @@ export function decodeDataText(content: Uint8Array): string {
   const { bytes } = normaliseBytes(content);
   return decodeText(bytes).text;
 }
+
+/** Text a job payload carries for a data file: UTF-16 transcoded as the readers see it (decodeDataText), else UTF-8 when valid, else Latin-1, otherwise unchanged. */
+export function decodeInputText(content: Uint8Array): string {
+  return utf16Order(content) !== null ? decodeDataText(content) : decodeText(content).text;
+}

@@ -1,7 +1,7 @@
 // Public entry of the formats module: readData() for every supported input, the writers, and the
 // types other modules code against. See docs/formats.md.
 export { readData, readMeasurements, sniffFormat } from './read-data.js';
-export { decodeDataText, utf16Order } from './bytes.js';
+export { decodeDataText, decodeInputText, decodeText, utf16Order } from './bytes.js';
 export { formatProfileSchema, matchProfile, type FormatProfile, type ResolvedFormatProfile } from './profile.js';
 export { resolveReadOptions, DEFAULT_MAX_BYTES, type ReadOptions, type ResolvedReadOptions } from './read-options.js';
 export type { ParsedData, MeasurementContent, LayoutInfo, LayoutConversion, DataFormat, DelimiterName } from './types.js';

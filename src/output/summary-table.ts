@@ -5,6 +5,7 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import type { AnalysisResult } from '../analysis/result.js';
 import { RESULT_SCHEMA } from '../analysis/result.js';
+import { acquisitionEpochMs } from '../model/acquisition-time.js';
 
 export interface SummaryComponent {
   readonly tauNs: number;
@@ -79,8 +80,8 @@ function isResult(value: unknown): value is AnalysisResult {
 
 /** The instant a row is dated by: acquisition time, else analysis time (epoch ms; NaN when unreadable). */
 export function rowTimeMs(row: Pick<SummaryRow, 'acquiredAt' | 'analyzedAt'>): number {
-  const acquired = row.acquiredAt === null ? Number.NaN : Date.parse(row.acquiredAt);
-  return Number.isFinite(acquired) ? acquired : Date.parse(row.analyzedAt);
+  const acquired = row.acquiredAt === null ? undefined : acquisitionEpochMs(row.acquiredAt);
+  return acquired ?? Date.parse(row.analyzedAt);
 }
 
 /**

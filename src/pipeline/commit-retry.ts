@@ -3,6 +3,7 @@
 // is briefly away does not leave a set queued until the next start, which for `watch` may be months
 // away. The held outcome keeps its in-flight slot, so during a long outage dispatch pauses once
 // every slot is held instead of running analyses whose results cannot be written.
+import { exponentialBackoffMs } from '../queue/backoff.js';
 
 /** First wait before a failed commit is tried again (ms); doubled after each failure up to COMMIT_RETRY_MAX_MS. */
 export const COMMIT_RETRY_FIRST_MS = 1000;
@@ -22,7 +23,7 @@ export function isEnvironmentError(error: unknown): boolean {
 
 /** The wait before the next try after `failures` failed commits (ms): COMMIT_RETRY_FIRST_MS doubled per failure, at most COMMIT_RETRY_MAX_MS. */
 export function commitRetryDelayMs(failures: number): number {
-  return Math.min(COMMIT_RETRY_MAX_MS, COMMIT_RETRY_FIRST_MS * 2 ** (failures - 1));
+  return exponentialBackoffMs(COMMIT_RETRY_FIRST_MS, failures, COMMIT_RETRY_MAX_MS);
 }
 
 /** Runs `run` after `delayMs`; returns a function that cancels it. */

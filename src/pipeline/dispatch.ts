@@ -14,7 +14,7 @@ import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandid
 import type { StoredManifest } from './open-sets.js';
 import { findArchivedCopy } from './recovery.js';
 import { analysisSettingsFrom } from './settings.js';
-import { decodeDataText, utf16Order } from '../formats/index.js';
+import { decodeInputText } from '../formats/index.js';
 
 const SAMPLE_ROLES = new Set<string>(['sample', 'control']);
 
@@ -142,22 +142,9 @@ function referenceSetNear(ledger: Ledger, referenceTime: Date, windowHours: numb
   return chosen === undefined ? undefined : found.get(chosen.fileId);
 }
 
-const utf8 = new TextDecoder('utf-8', { fatal: true });
-const latin1 = new TextDecoder('latin1');
-
-/** A file's text: UTF-8 when valid, else Latin-1 (the readers see the same characters). */
+/** A file's text as a payload carries it (decodeInputText: UTF-16 as the readers see it, UTF-8 when valid, else Latin-1). */
 export function readText(path: string): string {
-  return decodeText(readFileSync(path));
-}
-
-/** Bytes as text: UTF-16 (LE/BE, with or without BOM) when the readers see it so, else UTF-8 when valid, else Latin-1. */
-export function decodeText(bytes: Uint8Array): string {
-  if (utf16Order(bytes) !== null) return decodeDataText(bytes);
-  try {
-    return utf8.decode(bytes);
-  } catch {
-    return latin1.decode(bytes);
-  }
+  return decodeInputText(readFileSync(path));
 }
 
 /**
@@ -220,7 +207,7 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
   for (const file of own) {
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
     const held = context.contentOf?.(file);
-    const content = held === undefined ? readInput(config, file) : decodeText(held);
+    const content = held === undefined ? readInput(config, file) : decodeInputText(held);
     files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content });
   }
   let referenceSetId: string | undefined;

@@ -6,7 +6,7 @@ import { closeSync, existsSync, lstatSync, openSync, readFileSync, readlinkSync,
 import { basename, relative, resolve, isAbsolute } from 'node:path';
 import { DriftlightError, InputRejected } from '../model/errors.js';
 import { ERROR_CODES } from '../model/error-codes.js';
-import type { ParsedData } from '../formats/index.js';
+import { decodeText, type ParsedData } from '../formats/index.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
 import { filesBySha256, insertFile, setFileError, setFileLocation, type AcquiredSource, type FileRecord, type NewFile } from '../store/files.js';
@@ -153,7 +153,7 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
 function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date, modifiedMs: number): IntakeResult {
   try {
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
-      return { kind: 'manifest', file, manifest: parseManifest(new TextDecoder().decode(bytes), file.name), bytes };
+      return { kind: 'manifest', file, manifest: parseManifest(decodeText(bytes).text, file.name), bytes };
     }
     const parsed = readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes, profiles: config.formats.profiles });
     return { kind: 'data', file, parsed, bytes, acquisition: acquisitionOf(parsed, modifiedMs, config, file.name) };

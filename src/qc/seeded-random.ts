@@ -1,5 +1,7 @@
-// Seeded pseudo-random numbers for simulations (run-length studies, drift replays): the core never
+// Seeded pseudo-random numbers for QC simulations (run-length studies, drift replays): the one
+// seeded generator (mulberry32, src/decay/random.ts) with paired Box–Muller normals. The core never
 // uses Math.random, so every simulation is reproducible from its seed.
+import { createSeededRandom as createUniformSource } from '../decay/random.js';
 
 /** A uniform generator on [0, 1) and a standard normal generator drawn from it. */
 export interface SeededRandom {
@@ -7,17 +9,11 @@ export interface SeededRandom {
   standardNormal(): number;
 }
 
-/** mulberry32 uniform generator (T. Ettinger, public domain; 32-bit state) with Box–Muller normals. O(1) per draw. */
+/** The seeded uniform generator of src/decay/random.ts (mulberry32) with Box–Muller normals drawn in pairs. O(1) per draw. */
 export function createSeededRandom(seed: number): SeededRandom {
-  let state = seed >>> 0;
+  const source = createUniformSource(seed);
   let spareNormal: number | undefined;
-  const uniform = (): number => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let mixed = state;
-    mixed = Math.imul(mixed ^ (mixed >>> 15), mixed | 1);
-    mixed ^= mixed + Math.imul(mixed ^ (mixed >>> 7), mixed | 61);
-    return ((mixed ^ (mixed >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = (): number => source.nextUniform();
   const standardNormal = (): number => {
     if (spareNormal !== undefined) {
       const value = spareNormal;

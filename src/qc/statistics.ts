@@ -1,4 +1,5 @@
-// Small descriptive statistics used by baselines and rule kinds (mean, sample SD, median).
+// Small descriptive statistics used by baselines and rule kinds (mean, sample SD, median, quantile).
+export { medianOf } from '../model/median.js';
 
 /** Arithmetic mean; NaN-free input assumed, throws RangeError on an empty list. O(n). */
 export function meanOf(values: readonly number[]): number {
@@ -15,15 +16,6 @@ export function sampleStandardDeviation(values: readonly number[]): number {
   let sumOfSquares = 0;
   for (const value of values) sumOfSquares += (value - mean) ** 2;
   return Math.sqrt(sumOfSquares / (values.length - 1));
-}
-
-/** Median (mean of the two middle values for an even count); throws RangeError when empty. O(n log n). */
-export function medianOf(values: readonly number[]): number {
-  if (values.length === 0) throw new RangeError('medianOf needs at least one value');
-  const sorted = [...values].sort((a, b) => a - b);
-  const middle = Math.floor(sorted.length / 2);
-  const upper = sorted[middle] as number;
-  return sorted.length % 2 === 1 ? upper : ((sorted[middle - 1] as number) + upper) / 2;
 }
 
 /** The q-quantile (0 ≤ q ≤ 1) by linear interpolation between order statistics (R type 7). O(n log n). */

@@ -10,15 +10,14 @@ import { OutcomeHub, type OutcomeListener } from './outcome-hub.js';
 import { queueFailure } from './job-failure.js';
 import { createTaskPool, type TaskPool } from './task-pool.js';
 import type { TaskResult } from './task-result.js';
+import { exponentialBackoffMs } from './backoff.js';
 
 /**
  * Most jobs handed to one thread in one task. While jobs wait, each free thread takes its share of
  * them (ready jobs / threads, rounded up) up to this many, so a backlog costs one message each way
  * per share instead of per job; with few jobs waiting (steady arrivals) every job goes alone and no
  * outcome waits for another job. Each job keeps its own attempt, outcome and time limit (a share's
- * limit is the sum of its jobs'). Measured on the 2-core machine, 1,000 sets of bench/pipeline's
- * shape in a burst, workspace on tmpfs, two runs each: 4 per task took the main thread's CPU from
- * 3.7–3.9 to 3.2–3.4 ms/set and the burst from 160–171 to 182–184 sets/s.
+ * limit is the sum of its jobs'). 4 was chosen with bench/pipeline's burst (docs/benchmarks.md).
  */
 export const MAX_JOBS_PER_TASK = 4;
 
@@ -165,7 +164,7 @@ class InProcessJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
       return;
     }
     if (this.closed) return; // handed back: the coordinator re-enqueues it after restart
-    const delayMs = this.options.backoffMs * 2 ** (job.attemptsMade - 1);
+    const delayMs = exponentialBackoffMs(this.options.backoffMs, job.attemptsMade);
     this.retryTimers.set(
       job.id,
       setTimeout(() => {

@@ -1,11 +1,5 @@
 // Noise estimate of a spectrum from local second differences, robust to a few spikes (median absolute deviation).
-
-/** Sorted-copy median of a list (O(n log n)); NaN only for an empty list, which callers exclude. */
-export function median(values: readonly number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const middle = sorted.length >> 1;
-  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
-}
+import { medianOf } from '../model/median.js';
 
 /**
  * Standard deviation of white noise on the values (value units), from second differences on a non-uniform axis:
@@ -30,6 +24,6 @@ export function noiseFromSecondDifferences(
     scaled.push(((values[i] as number) - predicted) / Math.sqrt(1 + w * w + (1 - w) * (1 - w)));
   }
   if (scaled.length < 3) return undefined;
-  const center = median(scaled);
-  return 1.482602218505602 * median(scaled.map((r) => Math.abs(r - center)));
+  const center = medianOf(scaled);
+  return 1.482602218505602 * medianOf(scaled.map((r) => Math.abs(r - center)));
 }

@@ -13,7 +13,7 @@ import Database from 'better-sqlite3';
 import { appendFileSync, closeSync, existsSync, mkdirSync, openSync, readFileSync, symlinkSync, writeFileSync, writeSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { join } from 'node:path';
-import { seededRandom } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { blockFolder, unblockFolder } from '../helpers/blocked-folder.js';
 import { CLI_PATH } from '../helpers/cli.js';
 import { generateSet, listFiles, makeWorkspace, readResults, startWatch, stopWatch, waitFor, type GeneratedSet } from '../integration/pipeline-helpers.js';
@@ -109,7 +109,7 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const results = join(dir, 'results');
   const outside = join(dir, 'outside');
   mkdirSync(outside);
-  const random = seededRandom(options.seed);
+  const random = createSeededRandom(options.seed);
   const planned: PlannedSet[] = Array.from({ length: options.sets }, (_u, i) => {
     const id = `camp-${String(i).padStart(4, '0')}`;
     const roll = i % 5;

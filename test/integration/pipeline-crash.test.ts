@@ -5,7 +5,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { seededRandom } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { CLI_PATH } from '../helpers/cli.js';
 import { generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
 
@@ -18,7 +18,7 @@ describe('crash recovery under kill -9', () => {
     const dir = makeWorkspace('', { stabilityWindowMs: 100, requiredParts: 'emission, decay, irf' });
     const inbox = join(dir, 'inbox');
     const sets = Array.from({ length: SETS }, (_u, i) => generateSet(`burst-${String(i).padStart(3, '0')}`, 1000 + i, { parts: ['emission', 'decay'] }));
-    const random = seededRandom(4242);
+    const random = createSeededRandom(4242);
     let written = 0;
     const writeSome = (count: number): void => {
       for (const set of sets.slice(written, written + count)) for (const f of set.files) writeFileSync(join(inbox, f.name), f.content);

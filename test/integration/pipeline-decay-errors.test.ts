@@ -8,7 +8,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { createDecay } from '../../src/model/decay.js';
 import { fitDecay } from '../../src/decay/index.js';
 import { readData, writeDecayCsv } from '../../src/formats/index.js';
-import { decayHistogram, seededRandom } from '../../src/demo/synthetic.js';
+import { decayHistogram } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { runDriftlight } from '../helpers/cli.js';
 import { makeWorkspace, readResults, removeWorkspaces } from './pipeline-helpers.js';
 
@@ -37,7 +38,7 @@ describe('decay error notes in the result file (issue 17.3)', () => {
   afterAll(() => removeWorkspaces());
 
   it('writes errorNotes and the IRF-noise part of τ\'s error for an IRF of whole counts', () => {
-    const decay = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-01', acquiredAt: '2026-03-14T10:05:00Z' }, seededRandom(1701));
+    const decay = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-01', acquiredAt: '2026-03-14T10:05:00Z' }, createSeededRandom(1701));
     const content = writeDecayCsv(decay);
     const { decayFit, result } = processDecay('errnotes-01_decay.csv', content);
     expect(validate(result), ajv.errorsText(validate.errors)).toBe(true);
@@ -56,7 +57,7 @@ describe('decay error notes in the result file (issue 17.3)', () => {
   });
 
   it('says why the IRF noise is not propagated for a normalised IRF, and leaves tauNsStdErrFromIrf out', () => {
-    const counted = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-02', acquiredAt: '2026-03-14T10:05:00Z' }, seededRandom(1702));
+    const counted = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-02', acquiredAt: '2026-03-14T10:05:00Z' }, createSeededRandom(1702));
     const peak = Math.max(...(counted.irfCounts ?? [1]));
     const normalised = createDecay({
       timeNs: counted.timeNs, counts: counted.counts, channelWidthNs: counted.channelWidthNs,

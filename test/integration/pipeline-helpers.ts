@@ -5,7 +5,8 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { writeDecayCsv, writeSpectrumCsv } from '../../src/formats/index.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, seededRandom, withoutIrf } from '../../src/demo/synthetic.js';
+import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, withoutIrf } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { CLI_PATH } from '../helpers/cli.js';
 
 const created: string[] = [];
@@ -38,7 +39,7 @@ export interface GeneratedSet {
 
 /** A set of files for `sampleId` (emission, absorbance, decay with or without IRF column), 256-channel mono-exponential decay. */
 export function generateSet(sampleId: string, seed: number, options: { irfColumn?: boolean; parts?: readonly ('emission' | 'absorbance' | 'decay')[]; nameStyle?: 'pattern' | 'opaque' } = {}): GeneratedSet {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const parts = options.parts ?? ['emission', 'absorbance', 'decay'];
   const meta = options.nameStyle === 'opaque' ? {} : { sampleId };
   const files: { name: string; content: string }[] = [];
@@ -61,7 +62,7 @@ export function generateSet(sampleId: string, seed: number, options: { irfColumn
 
 /** A stand-alone IRF file (role irf) recorded at `acquiredAt`. */
 export function generateIrf(name: string, seed: number, acquiredAt: string): { name: string; content: string } {
-  const decay = decayHistogram({ tauNs: [1], photons: 1000, channels: 256, channelWidthNs: 0.1 }, { acquiredAt }, seededRandom(seed));
+  const decay = decayHistogram({ tauNs: [1], photons: 1000, channels: 256, channelWidthNs: 0.1 }, { acquiredAt }, createSeededRandom(seed));
   return { name, content: writeDecayCsv(irfAsDecay(decay, { sampleId: `scatter-${seed}`, acquiredAt })) };
 }
 

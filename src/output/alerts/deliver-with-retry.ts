@@ -3,6 +3,7 @@
 import type { AlertChannel } from './alert-channel.js';
 import type { AlertMessage } from './alert-message.js';
 import { describeDeliveryError } from './delivery-error.js';
+import { exponentialBackoffMs } from '../../queue/backoff.js';
 
 export interface RetryPolicy {
   /** Attempts including the first (≥ 1). */
@@ -49,7 +50,7 @@ export async function deliverWithRetry(
     } finally {
       clearTimeout(timer);
     }
-    if (attempt < policy.attempts) await sleep(policy.backoffMs * 2 ** (attempt - 1));
+    if (attempt < policy.attempts) await sleep(exponentialBackoffMs(policy.backoffMs, attempt));
   }
   return { status: 'failed', attempts: policy.attempts, error: lastError };
 }

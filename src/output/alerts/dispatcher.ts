@@ -13,6 +13,7 @@ import type { AlertStateStore, DeliveryRecorder } from './alert-state.js';
 import { createMemoryOutbox, type AlertOutbox } from './alert-outbox.js';
 import { deliverWithRetry, sleepMs } from './deliver-with-retry.js';
 import type { AlertLogger } from './log-channel.js';
+import { exponentialBackoffMs } from '../../queue/backoff.js';
 
 export interface DispatcherDependencies {
   readonly alerts: AlertsConfig;
@@ -80,7 +81,7 @@ export function createAlertDispatcher(dependencies: DispatcherDependencies): Ale
       return;
     }
     const error = outcome.error ?? 'unknown error';
-    const waitMs = Math.min(maxIntervalMs, Math.max(policy.backoffMs, 1000) * 2 ** Math.min(attempts - 1, 30));
+    const waitMs = exponentialBackoffMs(Math.max(policy.backoffMs, 1000), attempts, maxIntervalMs);
     if (now + waitMs > entry.expiresAtMs) {
       outbox.markExpired(entry.id, attempts, error, now);
       logger.error({ channel: channel.id, key: entry.message.key, attempts, error }, `alert delivery on channel ${channel.id} expired after ${attempts} attempts; it was not delivered`);
