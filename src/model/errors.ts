@@ -90,8 +90,3 @@ export class Transient extends DriftlightError {
 
 /** The analysis ran but cannot give a trustworthy result (non-convergence, invalid regime). */
 export class AnalysisFailed extends DriftlightError {}
-
-/** True when the error must not be retried (bad input, bad config, failed analysis). */
-export function isPermanentError(error: unknown): boolean {
-  return error instanceof InputRejected || error instanceof ConfigInvalid || error instanceof AnalysisFailed;
-}

@@ -6,7 +6,6 @@
 // moved copy by its sha256 (dispatch.ts readInput), and so does recovery after a crash.
 // A failed set's files go to quarantine with the reason, and so do own files the worker's readers
 // rejected (the set's result then reports that part missing).
-import { createHash } from 'node:crypto';
 import { dirname } from 'node:path';
 import { fsyncDirectoryAsync } from '../output/atomic-write.js';
 import type { AnalysisOutput, RejectedInput } from '../analysis/payload.js';
@@ -260,9 +259,4 @@ function errorOf(work: () => void): unknown {
   } catch (error) {
     return error;
   }
-}
-
-/** sha256 of a string (hex). */
-export function sha256Text(text: string): string {
-  return createHash('sha256').update(text).digest('hex');
 }

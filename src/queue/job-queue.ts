@@ -8,7 +8,7 @@
 // `(payload: unknown) => unknown | Promise<unknown>`; it must be stateless so that a job gives the
 // same result on any backend. A processor signals "do not retry" by throwing an error whose
 // `permanent` property is true or whose `code` is an InputRejected/AnalysisFailed/Config code
-// (see isPermanentError in src/model/errors.ts); anything else is retried with backoff.
+// (see toJobFailure in src/queue/job-failure.ts); anything else is retried with backoff.
 // Payloads and results must be plain JSON data (objects, arrays, strings, finite numbers, booleans,
 // null): the BullMQ backend stores them as JSON, so a typed array or Map would arrive changed.
 // Backends and their extra options: src/queue/options.ts; deployment: docs/deployment.md.

@@ -105,11 +105,6 @@ export function filesBySha256(ledger: Ledger, sha256: string): FileRecord[] {
   return (ledger.prepare('SELECT * FROM files WHERE sha256 = ? ORDER BY id').all(sha256) as FileRow[]).map(toRecord);
 }
 
-/** Files seen at `path`, oldest first. */
-export function filesByPath(ledger: Ledger, path: string): FileRecord[] {
-  return (ledger.prepare('SELECT * FROM files WHERE path = ? ORDER BY id').all(path) as FileRow[]).map(toRecord);
-}
-
 /** SQL of filesAwaitingMove for `count` states (partial index files_unplaced; exported for the query-plan test). */
 export function filesAwaitingMoveSql(count: number): string {
   return `SELECT * FROM files WHERE state IN (${Array.from({ length: count }, () => '?').join(',')}) AND archive_path IS NULL AND quarantine_path IS NULL ORDER BY id`;
@@ -137,7 +132,7 @@ export function filesToArchive(ledger: Ledger, setId: string): FileToArchive[] {
 }
 
 /** Stores the classification of a file read successfully. */
-export function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
+function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
   ledger
     .prepare(`UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, acquired_source = ?, excitation_nm = ?,
               solvent = ?, has_irf_column = ?, updated_at = ? WHERE id = ?`)

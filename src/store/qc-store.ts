@@ -90,12 +90,6 @@ export function openFlags(ledger: Ledger, controlIds: readonly string[]): QcFlag
   return flags;
 }
 
-/** Closes the open flags of the given keys (rule|control|metric) at a recovery. */
-export function closeFlags(ledger: Ledger, keys: readonly string[], recoveredAtIso: string): void {
-  const close = ledger.database.prepare('UPDATE qc_flags SET open = 0, recovered_at = ? WHERE flag_key = ? AND open = 1');
-  for (const key of keys) close.run(recoveredAtIso, key);
-}
-
 /** Every stored baseline record (start markers and computed values). */
 export function baselineRecords(ledger: Ledger): BaselineRecord[] {
   const rows = ledger.database.prepare('SELECT * FROM qc_baselines ORDER BY id').all() as BaselineRow[];

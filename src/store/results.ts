@@ -44,36 +44,9 @@ export function upsertResult(ledger: Ledger, record: ResultIndexRecord): void {
     .run({ ...record, partial: record.partial ? 1 : 0 });
 }
 
-/** The result index row of a set, if any. */
-export function getResult(ledger: Ledger, setId: string): ResultIndexRecord | undefined {
-  const row = ledger.prepare('SELECT * FROM results WHERE set_id = ?').get(setId) as ResultRow | undefined;
-  return row === undefined ? undefined : toRecord(row);
-}
-
-/** Results whose sample id matches `sampleIdPattern` (a JS RegExp source), newest first: the control history. */
-export function controlHistory(ledger: Ledger, sampleIdPattern: string, limit = 100): ResultIndexRecord[] {
-  const pattern = new RegExp(sampleIdPattern);
-  const rows = ledger
-    .prepare(`SELECT * FROM results WHERE role = 'control' ORDER BY analyzed_at DESC`)
-    .iterate() as IterableIterator<ResultRow>;
-  const out: ResultIndexRecord[] = [];
-  for (const row of rows) {
-    if (pattern.test(row.sample_id)) out.push(toRecord(row));
-    if (out.length >= limit) break;
-  }
-  return out;
-}
-
 /** Results analysed within [from, to), oldest first (for digests). */
 export function resultsBetween(ledger: Ledger, from: Date, to: Date): ResultIndexRecord[] {
   return (ledger
     .prepare('SELECT * FROM results WHERE analyzed_at >= ? AND analyzed_at < ? ORDER BY analyzed_at')
     .all(from.toISOString(), to.toISOString()) as ResultRow[]).map(toRecord);
-}
-
-/** The most recent results of reference-standard sets, newest first. */
-export function recentReferenceResults(ledger: Ledger, notBefore: Date, limit = 10): ResultIndexRecord[] {
-  return (ledger
-    .prepare(`SELECT * FROM results WHERE role = 'reference' AND analyzed_at >= ? ORDER BY analyzed_at DESC LIMIT ?`)
-    .all(notBefore.toISOString(), limit) as ResultRow[]).map(toRecord);
 }

@@ -81,16 +81,6 @@ export function finishedSetsSince(ledger: Ledger, since: Date): SetRecord[] {
     .all(since.toISOString()) as SetRow[]).map(toRecord);
 }
 
-/** Updates an open set's role, sample id, source, deadline or manifest (manifest claiming a set). */
-export function updateOpenSet(ledger: Ledger, id: string, change: { role?: string; sampleId?: string; source?: SetSource; deadlineAt?: Date; manifestJson?: string }): void {
-  const current = getSet(ledger, id);
-  if (current === undefined) return;
-  ledger
-    .prepare('UPDATE sets SET role = ?, sample_id = ?, source = ?, deadline_at = ?, manifest_json = ? WHERE id = ?')
-    .run(change.role ?? current.role, change.sampleId ?? current.sampleId, change.source ?? current.source,
-      change.deadlineAt?.toISOString() ?? current.deadlineAt, change.manifestJson ?? current.manifestJson, id);
-}
-
 /** Deletes an open set left without files (its files were claimed by a manifest). */
 export function deleteOpenSet(ledger: Ledger, id: string): void {
   ledger.prepare(`DELETE FROM sets WHERE id = ? AND state = 'open'`).run(id);

@@ -6,7 +6,8 @@
 // exported again (other formats, same measurement). Arrival: day by day, with days held back and
 // delivered late in reverse order, the re-export last of its day. Invented data (src/demo/synthetic.ts).
 import { writeSpectrumCsv, writeSpectrumJcamp } from '../../src/formats/index.js';
-import { absorbanceSpectrum, emissionIntegralFor, emissionSpectrum, seededRandom } from '../../src/demo/synthetic.js';
+import { absorbanceSpectrum, emissionIntegralFor, emissionSpectrum } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { sampleStandardNormal } from '../../src/decay/index.js';
 
 /** The series' parameters (the same as test/integration/qc-order-fixtures.ts, where the QC stage alone replays them). */
@@ -98,7 +99,7 @@ const LATE: ReadonlyMap<number, readonly number[]> = new Map([
 
 /** The seeded series: files per day and their deliveries (in arrival order). */
 export function replaySeries(seed = 20261205): ReplaySeries {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const sdYield = (REPLAY.controlYield * REPLAY.yieldCvPercent) / 100;
   const perDay: ReplayFile[][] = [];
   const controlSampleIds: string[] = [];
