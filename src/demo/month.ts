@@ -2,17 +2,14 @@
 // lab" — one fluorometer and a TCSPC module — with faults injected on known days. Pure and seeded:
 // the same seed gives the same files, arrival times and truth. `driftlight demo` replays it through
 // the watch path; test/integration/demo-month.test.ts checks the alerts against `truth`.
-import { writeDataJson, writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
-import type { LayoutInfo } from '../formats/index.js';
-import { metadataEntries } from '../formats/metadata-lines.js';
-import { canonicalKey } from '../formats/metadata-vocabulary.js';
+import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import { createSpectrum, type Spectrum } from '../model/spectrum.js';
 import { createDecay, type Decay } from '../model/decay.js';
-import { samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
+import { createSeededRandom, samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
 import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, irfAsDecay, withoutIrf } from './synthetic.js';
-import { createSeededRandom } from '../decay/index.js';
 import type { DemoFile } from './scenario.js';
 import { monthConfig, monthRules } from './month-config.js';
+import { decayJson, europeanText, tabText, tcspcScriptText, twoWavelengthDecayCsv } from './month-layouts.js';
 
 /** Number of days in the scenario. */
 export const MONTH_DAYS = 30;
@@ -147,59 +144,9 @@ function waterRaman(sensitivity: number, metadata: Record<string, unknown>, rand
   return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata: { extra: {}, role: 'raman', excitationNm: 350, solvent: 'water', ...metadata } });
 }
 
-/** Semicolon-separated text with decimal commas and a free-form header (one of the layouts read). */
-function europeanText(spectrum: Spectrum, header: readonly string[]): string {
-  const rows = Array.from(spectrum.wavelengthNm, (nm, i) => `${String(nm).replace('.', ',')};${String(spectrum.values[i]).replace('.', ',')}`);
-  return `${[...header, 'Wavelength [nm];Intensity [counts]', ...rows].join('\r\n')}\r\n`;
-}
-
-/** Tab-separated text with a short '#' header (one of the layouts read). */
-function tabText(spectrum: Spectrum, header: readonly string[], valueName: string): string {
-  const rows = Array.from(spectrum.wavelengthNm, (nm, i) => `${nm}\t${spectrum.values[i]}`);
-  return `${[...header.map((h) => `# ${h}`), `wavelength (nm)\t${valueName}`, ...rows].join('\n')}\n`;
-}
-
 /** A decay with its IRF replaced (a different IRF recorded alongside). */
 function withIrf(decay: Decay, irfCounts: Float64Array): Decay {
   return createDecay({ timeNs: decay.timeNs, counts: decay.counts, channelWidthNs: decay.channelWidthNs, irfCounts, metadata: decay.metadata });
-}
-
-/** A decay (with its IRF column) in driftlight's own JSON data format. */
-function decayJson(decay: Decay): string {
-  const layout: LayoutInfo = {
-    format: 'driftlight-json', delimiter: null, decimalMark: '.', headerLineCount: 0, columnNames: ['time (ns)', 'counts', 'irf'], axisColumn: 'time (ns)', valueColumn: 'counts',
-    irfColumn: decay.irfCounts === undefined ? null : 'irf', axisUnitFound: 'ns', ignoredColumns: [], hasBom: false, lineEnding: 'none', encoding: 'utf-8', conversions: [],
-  };
-  return writeDataJson({ type: 'decay', decay, layout });
-}
-
-/**
- * A decay as an invented lab script writes it: "# key: value" lines, then channel<TAB>counts<TAB>IRF
- * without column names — a layout only the instrument profile "tcspc-script" of the month's config
- * (formats.profiles) settles: channel axis, its width, counts and IRF columns.
- */
-function tcspcScriptText(decay: Decay): string {
-  const irf = decay.irfCounts;
-  if (irf === undefined) throw new RangeError('tcspcScriptText: the decay has no IRF column');
-  const header = ['# TCSPC script export: channel, counts, IRF (no column names)', ...metadataEntries(decay.metadata).map(([key, value]) => `# ${key}: ${value}`)];
-  const rows = Array.from(decay.counts, (count, i) => `${i}\t${count}\t${irf[i] ?? 0}`);
-  return `${[...header, ...rows].join('\n')}\n`;
-}
-
-/**
- * A decay file with two count columns, the same species seen at two emission wavelengths (the
- * band's peak and its red edge) with one IRF column: a multi-measurement file, one result per column.
- */
-function twoWavelengthDecayCsv(peak: Decay, redEdge: Decay, peakNm: number, redEdgeNm: number): string {
-  const irf = peak.irfCounts;
-  if (irf === undefined) throw new RangeError('twoWavelengthDecayCsv: the decay has no IRF column');
-  const header = [
-    `# ${canonicalKey('kind')}: decay`, `# ${canonicalKey('channelWidthNs')}: ${peak.channelWidthNs}`,
-    ...metadataEntries(peak.metadata).filter(([key]) => key !== canonicalKey('emissionNm')).map(([key, value]) => `# ${key}: ${value}`),
-    `time (ns),counts at ${peakNm} nm,counts at ${redEdgeNm} nm,irf`,
-  ];
-  const rows = Array.from(peak.timeNs, (t, i) => `${t},${peak.counts[i] ?? 0},${redEdge.counts[i] ?? 0},${irf[i] ?? 0}`);
-  return `${[...header, ...rows].join('\n')}\n`;
 }
 
 interface MeasuredSample {
@@ -320,7 +267,7 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       } else if (layout === 0 && n === 2) {
         // The afternoon probe's decay at the band's peak and at its red edge, in one file.
         // Its own generator, so the rest of the month draws the same numbers as without this file.
-        const redEdge = decayHistogram({ tauNs: [tauNs], photons: 100_000, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs }, { sampleId }, seededRandom(seed + day));
+        const redEdge = decayHistogram({ tauNs: [tauNs], photons: 100_000, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs }, { sampleId }, createSeededRandom(seed + day));
         const name = `${sampleId}_decay.csv`;
         const columns = [`counts at ${peakNm} nm`, `counts at ${peakNm + 40} nm`];
         arrive(day, arriveAt, `${sampleId}_em.csv`, writeSpectrumCsv(m.em));

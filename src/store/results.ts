@@ -44,6 +44,12 @@ export function upsertResult(ledger: Ledger, record: ResultIndexRecord): void {
     .run({ ...record, partial: record.partial ? 1 : 0 });
 }
 
+/** The result index row of a set, if any. */
+export function getResult(ledger: Ledger, setId: string): ResultIndexRecord | undefined {
+  const row = ledger.prepare('SELECT * FROM results WHERE set_id = ?').get(setId) as ResultRow | undefined;
+  return row === undefined ? undefined : toRecord(row);
+}
+
 /** Results analysed within [from, to), oldest first (for digests). */
 export function resultsBetween(ledger: Ledger, from: Date, to: Date): ResultIndexRecord[] {
   return (ledger

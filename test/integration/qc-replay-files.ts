@@ -7,8 +7,7 @@
 // delivered late in reverse order, the re-export last of its day. Invented data (src/demo/synthetic.ts).
 import { writeSpectrumCsv, writeSpectrumJcamp } from '../../src/formats/index.js';
 import { absorbanceSpectrum, emissionIntegralFor, emissionSpectrum } from '../../src/demo/synthetic.js';
-import { createSeededRandom } from '../../src/decay/index.js';
-import { sampleStandardNormal } from '../../src/decay/index.js';
+import { createSeededRandom, sampleStandardNormal } from '../../src/decay/index.js';
 
 /** The series' parameters (the same as test/integration/qc-order-fixtures.ts, where the QC stage alone replays them). */
 export const REPLAY = {
@@ -43,7 +42,7 @@ export interface MeasuredFiles {
 /** One measurement in ethanol at 480 nm excitation: emission integral ∝ sensitivity · Φ · (1 − 10^−A) / n² (src/demo/synthetic.ts). */
 export function measuredFiles(
   spec: { sampleId: string; acquiredAt: string; quantumYield: number; absorbance: number; peakNm: number; bandPeakNm: number; sensitivity: number },
-  random: ReturnType<typeof seededRandom>,
+  random: ReturnType<typeof createSeededRandom>,
 ): MeasuredFiles {
   const em = emissionSpectrum(
     { peakNm: spec.peakNm, widthNm: 38, integral: spec.sensitivity * emissionIntegralFor(spec.quantumYield, spec.absorbance, ETHANOL_N) },

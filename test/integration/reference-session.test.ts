@@ -12,7 +12,7 @@ import { readResultFiles } from '../../src/cli/demo-run.js';
 import { runBatch } from '../../src/cli/process.js';
 import { runWatch } from '../../src/cli/watch.js';
 import type { Pipeline } from '../../src/pipeline/runtime.js';
-import { seededRandom } from '../../src/demo/synthetic.js';
+import { createSeededRandom } from '../../src/decay/index.js';
 import { openLedger } from '../../src/store/ledger.js';
 import { observationHistory } from '../../src/store/qc-store.js';
 import { tempDir } from '../helpers/temp-dir.js';
@@ -22,7 +22,7 @@ const CONTROL_YIELD = 0.8;
 
 /** The reference (07:50) and control (08:10) of day `day`, the lamp at `sensitivity` that day. */
 function session(day: number, sensitivity: number, seed: number): { reference: ReplayFile[]; control: ReplayFile[] } {
-  const random = seededRandom(seed);
+  const random = createSeededRandom(seed);
   const stamp = replayTime(day, '00:00').slice(5, 10).replace('-', '');
   const ref = measuredFiles({ sampleId: `REF-R6G-${stamp}`, acquiredAt: replayTime(day, '07:50'), quantumYield: REFERENCE_YIELD, absorbance: 0.05, peakNm: 552, bandPeakNm: 528, sensitivity }, random);
   const ctl = measuredFiles({ sampleId: `CTRL-teal-${stamp}`, acquiredAt: replayTime(day, '08:10'), quantumYield: CONTROL_YIELD, absorbance: 0.05, peakNm: 540, bandPeakNm: 516, sensitivity }, random);
