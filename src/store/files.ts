@@ -105,6 +105,11 @@ export function filesBySha256(ledger: Ledger, sha256: string): FileRecord[] {
   return (ledger.prepare('SELECT * FROM files WHERE sha256 = ? ORDER BY id').all(sha256) as FileRow[]).map(toRecord);
 }
 
+/** Files seen at `path`, oldest first. */
+export function filesByPath(ledger: Ledger, path: string): FileRecord[] {
+  return (ledger.prepare('SELECT * FROM files WHERE path = ? ORDER BY id').all(path) as FileRow[]).map(toRecord);
+}
+
 /** SQL of filesAwaitingMove for `count` states (partial index files_unplaced; exported for the query-plan test). */
 export function filesAwaitingMoveSql(count: number): string {
   return `SELECT * FROM files WHERE state IN (${Array.from({ length: count }, () => '?').join(',')}) AND archive_path IS NULL AND quarantine_path IS NULL ORDER BY id`;
