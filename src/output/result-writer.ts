@@ -2,6 +2,7 @@
 // by the set's files, so a re-run after a crash finds and replaces the same file rather than adding
 // a second one), written atomically.
 import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { AnalysisResult } from '../analysis/result.js';
 import { writeFileAtomicAsync } from './atomic-write.js';
@@ -23,4 +24,15 @@ export async function writeResult(resultsDir: string, result: AnalysisResult, fi
   const text = serializeResult(result);
   await writeFileAtomicAsync(path, text, options);
   return { path, sha256: createHash('sha256').update(text).digest('hex') };
+}
+
+/** Reads an existing result file for a set, if one is there (crash recovery: detect, never duplicate). */
+export function readExistingResult(path: string): AnalysisResult | undefined {
+  if (!existsSync(path)) return undefined;
+  try {
+    const parsed = JSON.parse(readFileSync(path, 'utf8')) as { schema?: unknown };
+    return parsed.schema === 'driftlight.result/1' ? (parsed as AnalysisResult) : undefined;
+  } catch {
+    return undefined;
+  }
 }
