@@ -14,6 +14,7 @@ import { HeldCommits, timerScheduler, type Scheduler } from './commit-retry.js';
 import { applyStages, type ResultStage } from './result-stage.js';
 import { analysedCurrentInputs, inputsChangedOnDisk, isRerunJob } from './input-versions.js';
 import { reviseResultFiles } from './result-revision.js';
+import { OutageLog, outageKey } from './outage-log.js';
 import { logMovesFailed, type RunReport } from './run-report.js';
 
 /** Outcomes committed per batch at most. */
@@ -71,9 +72,12 @@ export class GroupCommit {
   private readonly held: HeldCommits<Outcome>;
   /** Set while the coordinator drains: a failed commit is then let go instead of held. */
   private lettingGo = false;
+  /** Held-commit failures: one line per folder per watch.rescanIntervalMs. */
+  private readonly outageLog: OutageLog;
 
   constructor(private readonly options: GroupCommitOptions) {
     this.held = new HeldCommits((outcome) => this.takeDetached(outcome), options.schedule ?? timerScheduler);
+    this.outageLog = new OutageLog(options.config.watch.rescanIntervalMs);
   }
 
   /** Outcomes whose commit failed and that wait for a retry. */
@@ -154,8 +158,12 @@ export class GroupCommit {
       log.error({ err: error, failures: decision.failures }, 'commit failed; the set stays queued and is re-run at the next start');
       return;
     }
-    // The first failure at error level, the repeats of a lasting outage at warn.
-    log[decision.failures === 1 ? 'error' : 'warn']({ err: error, failures: decision.failures, retryInMs: decision.retryInMs }, 'commit failed (are the results, outbox and archive folders writable, is the disk full?); the outcome is kept and committed again later');
+    // One line per folder per interval (watch.rescanIntervalMs) while an outage lasts, not one per
+    // set: the first failure at error level, the repeats of a lasting outage at warn.
+    const folder = outageKey(error);
+    const admitted = this.outageLog.admit(folder, this.options.clock().getTime());
+    if (admitted === undefined) return;
+    log[decision.failures === 1 ? 'error' : 'warn']({ err: error, folder, failures: decision.failures, retryInMs: decision.retryInMs, notLoggedSinceLastLine: admitted.suppressed }, 'commit failed (are the results, outbox and archive folders writable, is the disk full?); the outcome is kept and committed again later');
   }
 
   /** Commits buffered outcomes in batches until none is left; outcomes arriving meanwhile join the next batch. */
