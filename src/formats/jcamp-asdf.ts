@@ -39,8 +39,15 @@ function dupDigit(char: string): string | undefined {
   return undefined;
 }
 
-/** Decodes one data line (1-based `line` for errors); the first value is the abscissa and is never a DIF base. */
-export function decodeAsdfLine(text: string, line: number, file: string): AsdfLine {
+/**
+ * Most ordinates a JCAMP-DX table may decode to (2^18 = 262,144; this project's bound, far above any
+ * spectrum or histogram it reads): a DUP count is a repeat count, so a few bytes could otherwise ask for
+ * billions of values (found by the fuzz suite, issue 20.10).
+ */
+export const MAX_JCAMP_ORDINATES = 262_144;
+
+/** Decodes one data line (1-based `line` for errors); the first value is the abscissa and is never a DIF base; at most `maxValues` values. */
+export function decodeAsdfLine(text: string, line: number, file: string, maxValues = MAX_JCAMP_ORDINATES + 1): AsdfLine {
   const values: number[] = [];
   const forms = new Set<string>();
   const compressed = COMPRESSED.test(text);
@@ -63,6 +70,7 @@ export function decodeAsdfLine(text: string, line: number, file: string): AsdfLi
       lastDifference = number;
     } else {
       if (values.length < 2 || !Number.isInteger(number) || number < 1) fail(`invalid DUP count "${buffer}"`);
+      if (values.length + number - 1 > maxValues) fail(`the DUP count ${number} would make more than ${MAX_JCAMP_ORDINATES} ordinates`);
       for (let k = 1; k < number; k++) {
         const previous = values[values.length - 1] as number;
         values.push(last.kind === 'dif' ? previous + lastDifference : previous);

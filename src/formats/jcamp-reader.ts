@@ -5,7 +5,7 @@ import type { HeaderEntry } from './metadata-vocabulary.js';
 import { lookupKey } from './metadata-vocabulary.js';
 import type { RawTable } from './raw-table.js';
 import { bomLength, decodeText, detectLineEnding, splitLines } from './bytes.js';
-import { decodeAsdfLine } from './jcamp-asdf.js';
+import { decodeAsdfLine, MAX_JCAMP_ORDINATES } from './jcamp-asdf.js';
 import { reject } from './reject.js';
 
 interface Ldr {
@@ -70,7 +70,11 @@ function decodeXyData(ldr: Ldr, file: string, forms: Set<string>): number[] {
   const ordinates: number[] = [];
   let previousEndedInDif = false;
   for (const { text, line } of ldr.dataLines) {
-    const decoded = decodeAsdfLine(text, line, file);
+    // The abscissa, plus the ordinates the table may still hold (one more than the bound, so that passing it is seen).
+    const decoded = decodeAsdfLine(text, line, file, MAX_JCAMP_ORDINATES - ordinates.length + 2);
+    if (ordinates.length + decoded.values.length - 1 > MAX_JCAMP_ORDINATES) {
+      reject('JCAMP_INVALID', `the table holds more than ${MAX_JCAMP_ORDINATES} ordinates`, file, line);
+    }
     for (const form of decoded.forms) forms.add(form);
     if (decoded.values.length === 0) continue;
     let ys = decoded.values.slice(1);
