@@ -8,6 +8,7 @@ import { InvalidArgumentError, type Command } from 'commander';
 import { pino } from 'pino';
 import { QUEUE_DEFAULTS, resolveQueueOptions, startQueueWorker } from '../queue/index.js';
 import { redactRedisUrl } from '../queue/redis-connection.js';
+import { REDIS_URL_ENV, redisUrlFrom } from './config-option.js';
 import type { CommandModule } from './command-module.js';
 import { EXIT_CODES } from './exit-codes.js';
 
@@ -16,7 +17,7 @@ const DEFAULT_PROCESSOR = fileURLToPath(new URL('../../workers/analyze-job.js', 
 const DEFAULT_HEARTBEAT_MS = 30_000;
 
 interface WorkerCliOptions {
-  readonly redis: string;
+  readonly redis?: string;
   readonly concurrency?: number;
   readonly prefix: string;
   readonly queue: string;
@@ -41,7 +42,8 @@ async function runWorker(cli: WorkerCliOptions): Promise<void> {
   const options = resolveQueueOptions({
     backend: 'bullmq',
     processorFile: cli.processor,
-    redisUrl: cli.redis,
+    // --redis (a URL, @FILE or env), else $DRIFTLIGHT_REDIS_URL, else the default: no password in `ps`.
+    redisUrl: redisUrlFrom(cli.redis ?? ((process.env[REDIS_URL_ENV] ?? '') === '' ? QUEUE_DEFAULTS.redisUrl : 'env')),
     prefix: cli.prefix,
     queueName: cli.queue,
     jobTimeoutMs: cli.jobTimeoutMs,
@@ -90,7 +92,7 @@ export const workerCommand: CommandModule = {
     program
       .command('worker')
       .description('Run analysis jobs from a Redis (BullMQ) queue; start any number, on any machine with Node.')
-      .option('--redis <url>', 'Redis URL of the queue', QUEUE_DEFAULTS.redisUrl)
+      .option('--redis <url>', `Redis URL of the queue; @FILE reads it from FILE, env from $${REDIS_URL_ENV} (default: $${REDIS_URL_ENV} when set, else ${QUEUE_DEFAULTS.redisUrl})`)
       .option('--concurrency <n>', `jobs run at once (default: CPU cores, here ${availableParallelism()})`, integer(1))
       .option('--prefix <prefix>', 'Redis key prefix of the queue', QUEUE_DEFAULTS.prefix)
       .option('--queue <name>', 'queue name (one per coordinator)', QUEUE_DEFAULTS.queueName)
