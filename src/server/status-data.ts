@@ -13,7 +13,8 @@ import { digestFolder } from '../output/digest-write.js';
 import { undeliveredAlerts } from '../store/alert-outbox.js';
 import type { Ledger } from '../store/ledger.js';
 import { excludedSetIds } from '../store/qc-actions-store.js';
-import { openFlagsByControl, rejectionsBetween, type FileActivity, type OpenControlFlag } from '../store/report-queries.js';
+import { latestObservationEpochMs } from '../store/qc-store.js';
+import { openFlagsByControl, type OpenControlFlag } from '../store/report-queries.js';
 import { ledgerStatus, type LedgerStatus } from '../store/status.js';
 
 /** How many recent rejections the page lists. */
@@ -41,8 +42,10 @@ export interface StatusData {
   readonly otherOpenFlags: readonly { readonly controlId: string; readonly flags: readonly OpenControlFlag[] }[];
   readonly charts: readonly ControlChartData[];
   readonly chartDays: number;
+  /** End of the charts' window (ISO): the latest control run, or now if earlier. */
+  readonly chartEnd: string;
   readonly waiting: readonly WaitingWithLacks[];
-  readonly rejections: readonly FileActivity[];
+  readonly rejections: LedgerStatus['lastErrors'];
   readonly alerts: ReturnType<typeof undeliveredAlerts>;
 }
 
@@ -73,7 +76,11 @@ function readLatestDigest(config: DriftlightConfig): LatestDigest | undefined {
 /** Reads everything the status page shows at `now`. */
 export function gatherStatus(ledger: Ledger, config: DriftlightConfig, ruleSet: RuleSet, options: { now: Date; softwareVersion: string }): StatusData {
   const chartDays = config.digest.historyDays;
-  const sinceEpochMs = options.now.getTime() - chartDays * 86_400_000;
+  // The window ends at the latest control run (or now, if earlier): a workspace looked at after
+  // weeks without runs still shows its last historyDays days rather than empty charts.
+  const latestRunMs = latestObservationEpochMs(ledger);
+  const chartEndMs = Math.min(options.now.getTime(), latestRunMs ?? options.now.getTime());
+  const sinceEpochMs = chartEndMs - chartDays * 86_400_000;
   const excluded = excludedSetIds(ledger);
   const charts = DIGEST_CHART_METRICS.flatMap((metric) => controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs, excludedSetIds: excluded }))
     .filter((chart) => chart.points.length > 0)
@@ -88,9 +95,9 @@ export function gatherStatus(ledger: Ledger, config: DriftlightConfig, ruleSet: 
     ...(latestDigest === undefined ? {} : { latestDigest }),
     controls: ruleSet.controls.map((c) => ({ controlId: c.id, label: c.label ?? c.id, openFlags: open.find((o) => o.controlId === c.id)?.flags ?? [] })),
     otherOpenFlags: open.filter((o) => !known.has(o.controlId)),
-    charts, chartDays,
+    charts, chartDays, chartEnd: new Date(chartEndMs).toISOString(),
     waiting: waitingWithLacks(ledger, config),
-    rejections: rejectionsBetween(ledger, '0000', '9999', REJECTIONS_SHOWN),
+    rejections: ledgerStatus(ledger, REJECTIONS_SHOWN).lastErrors,
     alerts: undeliveredAlerts(ledger, 50),
   };
 }

@@ -37,7 +37,7 @@ export async function renderStatusPage(data: StatusData): Promise<{ html: string
       ...figures.filter((_f, i) => data.charts[i]?.controlId === c.controlId).map(figureHtml),
     ]),
     ...data.otherOpenFlags.flatMap((o) => [`<h3>Open flags: ${e(o.controlId)}</h3>`, tableHtml(FLAG_HEADER, flagRows(o.flags))]),
-    `<p class="muted">Charts show the last ${data.chartDays} days (digest.historyDays); statistics use the whole history.</p>`,
+    `<p class="muted">Charts show the ${data.chartDays} days (digest.historyDays) up to ${e(data.chartEnd)} (the latest control run, or now); statistics use the whole history.</p>`,
     '<h2 id="counts">Queue and ledger</h2>',
     tableHtml(['', ...Object.keys(counts.files)], [['files', ...Object.values(counts.files).map(String)]]),
     tableHtml(['', ...Object.keys(counts.sets)], [['sets', ...Object.values(counts.sets).map(String)]]),
@@ -49,7 +49,7 @@ export async function renderStatusPage(data: StatusData): Promise<{ html: string
       ])),
     '<h2 id="rejections">Recent rejections</h2>',
     data.rejections.length === 0 ? '<p>No file was rejected.</p>'
-      : tableHtml(['at', 'file', 'state', 'code', 'reason'], data.rejections.map((r) => [r.updatedAt, r.name, r.state, r.code ?? '', r.message ?? ''])),
+      : tableHtml(['at', 'file', 'state', 'code', 'reason'], data.rejections.map((r) => [r.at, r.name, r.state, r.code, r.message])),
     '<h2 id="alerts">Alerts not delivered</h2>',
     data.alerts.pending + data.alerts.expired === 0 ? '<p>Every alert was delivered.</p>'
       : `<p>${data.alerts.pending} still retried, ${data.alerts.expired} expired (given up).</p>` +

@@ -58,6 +58,12 @@ export function observationHistory(ledger: Ledger, controlIds?: readonly string[
     });
 }
 
+/** Acquisition time (epoch ms) of the latest observation of any control or scope, or undefined when none is recorded. */
+export function latestObservationEpochMs(ledger: Ledger): number | undefined {
+  const row = ledger.prepare('SELECT MAX(acquired_at_ms) AS at FROM qc_observations').get() as { at: number | null };
+  return row.at ?? undefined;
+}
+
 /** Stores flags raised on a set (open until a recovery closes them). */
 export function recordFlags(ledger: Ledger, flags: readonly QcFlag[]): void {
   const insert = ledger.database.prepare(`INSERT INTO qc_flags (set_id, flag_key, rule_id, kind, check_name, severity, control_id, metric,
