@@ -5,19 +5,16 @@
 // fsyncs to the libuv pool: one hand-off per file instead of one per call.
 import { closeSync, fdatasync, fsync, fsyncSync, mkdirSync, openSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
+import { errnoCode, FOLDER_FSYNC_UNSUPPORTED_CODES } from './fs-errors.js';
 
 let counter = 0;
-
-function isMissing(error: unknown): boolean {
-  return (error as NodeJS.ErrnoException | undefined)?.code === 'ENOENT';
-}
 
 /** Runs `operation`; when it fails with ENOENT, creates `dir` (recursively) and runs it once more. */
 export function inFolder<T>(dir: string, operation: () => T): T {
   try {
     return operation();
   } catch (error) {
-    if (!isMissing(error)) throw error;
+    if (errnoCode(error) !== 'ENOENT') throw error;
     mkdirSync(dir, { recursive: true });
     return operation();
   }
@@ -55,14 +52,16 @@ export function writeFileAtomic(path: string, content: string | Uint8Array, opti
   if (durable) fsyncDirectory(dir);
 }
 
-/** fsyncs a directory so a rename in it is durable (best effort where the platform refuses). */
+/** fsyncs a directory so a rename in it is durable (skipped where the platform refuses: FOLDER_FSYNC_UNSUPPORTED_CODES; other errors are thrown). */
 export function fsyncDirectory(dir: string): void {
   let fd: number | undefined;
   try {
     fd = openSync(dir, 'r');
     fsyncSync(fd);
-  } catch {
-    // Some platforms (Windows) cannot fsync a directory; the rename is still atomic there.
+  } catch (error) {
+    // Some platforms (Windows) and file systems refuse to fsync a folder: the rename is still atomic
+    // there. Any other failure (EIO, ENOSPC, the folder gone) means the rename is not known durable.
+    if (!FOLDER_FSYNC_UNSUPPORTED_CODES.has(errnoCode(error) ?? '')) throw error;
   } finally {
     if (fd !== undefined) closeSync(fd);
   }
@@ -94,15 +93,17 @@ export async function writeFileAtomicAsync(path: string, content: string | Uint8
   if (options.syncFolder ?? true) await fsyncDirectoryAsync(dir);
 }
 
-/** fsyncs a directory on the libuv pool (best effort where the platform refuses). */
+/** fsyncs a directory on the libuv pool (skipped where the platform refuses: FOLDER_FSYNC_UNSUPPORTED_CODES; other errors are thrown). */
 export async function fsyncDirectoryAsync(dir: string): Promise<void> {
   let fd: number | undefined;
   try {
     fd = openSync(dir, 'r');
     const opened = fd;
     await new Promise<void>((resolve, reject) => fsync(opened, (error) => (error === null ? resolve() : reject(error))));
-  } catch {
-    // Some platforms (Windows) cannot fsync a directory; the rename is still atomic there.
+  } catch (error) {
+    // Some platforms (Windows) and file systems refuse to fsync a folder: the rename is still atomic
+    // there. Any other failure (EIO, ENOSPC, the folder gone) means the rename is not known durable.
+    if (!FOLDER_FSYNC_UNSUPPORTED_CODES.has(errnoCode(error) ?? '')) throw error;
   } finally {
     if (fd !== undefined) closeSync(fd);
   }

@@ -13,6 +13,7 @@ import { filesBySha256, insertFile, setFileError, setFileLocation, type Acquired
 import { isoFromEpochMs, readAcquisitionTime } from '../model/acquisition-time.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
+import { errnoCode, isGoneError } from '../output/fs-errors.js';
 import { quarantineFile } from '../output/quarantine.js';
 import { isManifestName, parseManifest, type SetManifest } from './manifest.js';
 import { readForAssembly } from './sniff.js';
@@ -112,8 +113,11 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
     if (!stat.isFile()) return { kind: 'gone' };
     sizeBytes = stat.size;
     modifiedMs = stat.mtimeMs;
-  } catch {
-    return { kind: 'gone' };
+  } catch (error) {
+    // Moved or deleted since it was seen; any other error (EACCES, EIO, ELOOP) reaches the caller,
+    // which logs it with the path and leaves the file in the inbox to be taken again.
+    if (isGoneError(error)) return { kind: 'gone' };
+    throw error;
   }
   const name = basename(path);
   const { sha256, bytes } = sha256OfFile(path, sizeBytes);
@@ -180,13 +184,17 @@ function takeLink(config: DriftlightConfig, path: string): string | undefined {
   let target = '?';
   try {
     target = readlinkSync(path);
-  } catch {
-    // Unreadable link: refused below with the target unknown.
+  } catch (error) {
+    // Gone meanwhile: refused below with the target unknown.
+    if (!isGoneError(error)) throw error;
   }
   let real: string;
   try {
     real = realpathSync(path);
-  } catch {
+  } catch (error) {
+    const code = errnoCode(error);
+    if (code === 'ELOOP') return `${basename(path)} is a symbolic link to ${target} that leads back to itself (a link loop)`;
+    if (!isGoneError(error)) throw error;
     return `${basename(path)} is a symbolic link to ${target}, which does not exist (a dangling link)`;
   }
   if (config.watch.symlinks !== 'inside-inbox') {
@@ -195,7 +203,8 @@ function takeLink(config: DriftlightConfig, path: string): string | undefined {
   let inbox: string;
   try {
     inbox = realpathSync(config.folders.inbox);
-  } catch {
+  } catch (error) {
+    if (!isGoneError(error)) throw error;
     inbox = resolve(config.folders.inbox);
   }
   if (!isInside(real, inbox)) return `${basename(path)} is a symbolic link to ${real}, outside the inbox ${inbox}; only links resolving inside the inbox are taken (watch.symlinks: inside-inbox)`;
@@ -213,8 +222,9 @@ function rejectLink(ledger: Ledger, config: DriftlightConfig, path: string, reas
   let target = '';
   try {
     target = readlinkSync(path);
-  } catch {
+  } catch (error) {
     // Gone meanwhile: recorded with an empty target.
+    if (!isGoneError(error)) throw error;
   }
   const sha256 = createHash('sha256').update(`symlink\0${path}\0${target}`).digest('hex');
   const file = ledger.transaction(() => insertFile(ledger, { sha256, path, name: basename(path), sizeBytes: 0 }, now));

@@ -2,6 +2,7 @@
 // not changed for the stability window (so a file still being written is never read). Each file
 // costs one stat when it is touched and one when its quiet period ends, whatever the folder size.
 import { lstatSync } from 'node:fs';
+import { isGoneError } from '../output/fs-errors.js';
 
 /** A file's size and modification time, as one stat read them. */
 export interface FileStat {
@@ -26,10 +27,12 @@ export class StableFiles {
     private readonly pollIntervalMs: number,
     private readonly onStable: (path: string, stat: FileStat) => void,
     private readonly now: () => number = Date.now,
+    /** Told about a stat that failed for a reason other than the file being gone (EACCES, EIO, ENAMETOOLONG, …); the file is no longer tracked. Without it such an error is thrown. */
+    private readonly onError?: (error: Error, path: string) => void,
   ) {}
 
   /** Notes that `path` was created or written (`stat`: its size and mtime when the caller just read them); it is reported after a quiet stability window. */
-  touch(path: string, stat: FileStat | undefined = statOrUndefined(path)): void {
+  touch(path: string, stat: FileStat | undefined = this.statOf(path)): void {
     if (stat === undefined) {
       this.pending.delete(path);
       return;
@@ -66,7 +69,7 @@ export class StableFiles {
     const stable: { path: string; stat: FileStat }[] = [];
     for (const [path, entry] of this.pending) {
       if (entry.quietUntilMs > nowMs) continue;
-      const stat = statOrUndefined(path);
+      const stat = this.statOf(path);
       if (stat === undefined) {
         this.pending.delete(path);
       } else if (stat.sizeBytes === entry.sizeBytes && stat.mtimeMs === entry.mtimeMs) {
@@ -84,14 +87,27 @@ export class StableFiles {
     }
     for (const { path, stat } of stable) this.onStable(path, stat);
   }
+
+  /** The size and mtime of `path`; undefined when it is gone or not a file (or the stat failed, reported to onError). */
+  private statOf(path: string): FileStat | undefined {
+    try {
+      return statOrUndefined(path);
+    } catch (error) {
+      if (this.onError === undefined) throw error;
+      this.onError(error instanceof Error ? error : new Error(String(error)), path);
+      return undefined;
+    }
+  }
 }
 
+/** lstat's size and mtime of a file or symbolic link; undefined when gone (ENOENT, ENOTDIR) or not a file; other errors are thrown. */
 function statOrUndefined(path: string): FileStat | undefined {
   try {
     // lstat: a symbolic link is judged as the link (intake refuses or resolves it), never followed here.
     const stat = lstatSync(path);
     return stat.isFile() || stat.isSymbolicLink() ? { sizeBytes: stat.size, mtimeMs: stat.mtimeMs } : undefined;
-  } catch {
-    return undefined;
+  } catch (error) {
+    if (isGoneError(error)) return undefined;
+    throw error;
   }
 }

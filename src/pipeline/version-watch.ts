@@ -45,8 +45,9 @@ export class VersionWatch {
       this.retake(path)
         .catch((error: unknown) => options.logger.error({ file: path, err: error }, 'intake of a changed input failed; it is taken at the next start'))
         .finally(() => { this.retaking -= 1; });
-    });
-    this.archivedChanges = new StableFiles(watch.stabilityWindowMs, watch.pollIntervalMs, (path) => this.takeArchivedVersion(path));
+    }, Date.now, (error, path) => options.logger.error({ file: path, err: error }, 'a changed input could not be looked at; it is taken at the next start'));
+    this.archivedChanges = new StableFiles(watch.stabilityWindowMs, watch.pollIntervalMs, (path) => this.takeArchivedVersion(path),
+      Date.now, (error, path) => options.logger.error({ file: path, err: error }, 'a changed archived copy could not be looked at'));
   }
 
   /** Whether changed inputs wait to be taken again (drain waits for them: their sets are still queued). */

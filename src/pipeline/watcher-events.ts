@@ -12,6 +12,7 @@ import { lstatSync, readdirSync, statSync, watch, type FSWatcher } from 'node:fs
 import { basename, join } from 'node:path';
 import type { WatchConfig } from '../config/sections/watch.js';
 import { compileGlobs, isIgnoredFile } from './ignore.js';
+import { isGoneError } from '../output/fs-errors.js';
 import { StableFiles, type FileStat } from './stable-files.js';
 import type { InboxWatcher, InboxWatcherEvents } from './watcher-types.js';
 
@@ -28,7 +29,7 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
   const stable = new StableFiles(options.stabilityWindowMs, options.pollIntervalMs, (path, stat) => {
     reported.set(path, stat);
     events.onFile(path);
-  });
+  }, Date.now, (error) => report(error));
   /**
    * Watched folders, with the identity (inode and birth time) each had when its watch began: a folder
    * deleted and made again is a new folder the old watch does not see, even when ext4 gives it the
@@ -64,7 +65,10 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
       if (target === undefined) return { kind: 'gone' };
       if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
       return target.isDirectory() ? { kind: 'folder', identity: `${target.ino}:${target.birthtimeMs}` } : { kind: 'other' };
-    } catch {
+    } catch (error) {
+      // A folder on the path replaced by a file (ENOTDIR) is a path gone; anything else (EACCES,
+      // EIO, ENAMETOOLONG, ELOOP) reaches the log with the path in its message, and the path is let go.
+      if (!isGoneError(error)) report(error);
       return { kind: 'gone' };
     }
   };

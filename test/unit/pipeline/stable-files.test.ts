@@ -47,4 +47,24 @@ describe('StableFiles', () => {
     expect(reported).toEqual([]);
     stable.close();
   });
+
+  it('lets a gone file go quietly, and reports any other stat failure with its path instead of swallowing it', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'dl-stable-err-'));
+    dirs.push(dir);
+    const errors: { code: unknown; path: string; message: string }[] = [];
+    const stable = new StableFiles(50, 10, () => undefined, Date.now, (error, path) => errors.push({ code: (error as NodeJS.ErrnoException).code, path, message: error.message }));
+    stable.touch(join(dir, 'never-written.csv')); // ENOENT: the file is gone, nothing to say
+    expect(errors).toEqual([]);
+    // A name longer than NAME_MAX (255 bytes on Linux file systems) makes lstat fail with ENAMETOOLONG.
+    const tooLong = join(dir, `${'n'.repeat(300)}.csv`);
+    stable.touch(tooLong);
+    expect(errors).toHaveLength(1);
+    expect(errors[0]).toMatchObject({ code: 'ENAMETOOLONG', path: tooLong });
+    expect(errors[0]?.message).toContain(tooLong);
+    expect(stable.has(tooLong)).toBe(false);
+    // Without an error listener the failure is thrown, not dropped.
+    const bare = new StableFiles(50, 10, () => undefined);
+    expect(() => bare.touch(tooLong)).toThrow(/ENAMETOOLONG/);
+    stable.close();
+  });
 });

@@ -78,4 +78,26 @@ describe('watchInboxWithEvents', () => {
     expect(reported.size).toBe(9000);
     await watcher.close();
   }, 40_000);
+
+  it('reports a path it cannot look at (not a gone file) through onError, with the path', async () => {
+    const inbox = tempDir('dl-watch-err-');
+    let emit: ((event: string, name: string | null) => void) | undefined;
+    const capturing: FolderWatchFn = (_dir, listener) => {
+      emit = listener;
+      return { close: () => undefined, on: function on() { return this; } } as unknown as ReturnType<FolderWatchFn>;
+    };
+    const errors: Error[] = [];
+    const reported: string[] = [];
+    const watcher = watchInboxWithEvents(inbox, watchOptions(60_000), { onFile: (p) => reported.push(p), onError: (e) => errors.push(e) }, capturing);
+    emit?.('rename', 'removed-meanwhile.csv'); // ENOENT: a file gone is no error
+    // A name longer than NAME_MAX (255 bytes): lstat fails with ENAMETOOLONG.
+    const tooLong = `${'w'.repeat(300)}.csv`;
+    emit?.('rename', tooLong);
+    await watcher.close();
+    expect(errors).toHaveLength(1);
+    expect((errors[0] as NodeJS.ErrnoException).code).toBe('ENAMETOOLONG');
+    expect(errors[0]?.message).toContain(join(inbox, tooLong));
+    expect(reported).toEqual([]);
+  });
 });
+
