@@ -102,7 +102,7 @@ export function diagnoseLost(dir: string, sampleIds: readonly string[]): string[
 }
 
 /** Runs the campaign in a fresh workspace and returns its row, what became of each lost set, and the workspace (for inspection). */
-export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; lostDetail: string[]; dir: string }> {
+export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; lostDetail: string[]; staleDetail: string[]; dir: string }> {
   const startedAt = Date.now();
   const dir = makeWorkspace('', { stabilityWindowMs: STABILITY_WINDOW_MS, setTimeoutMs: 600_000 });
   const inbox = join(dir, 'inbox');
@@ -252,14 +252,24 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   // Stop the last faulted run cleanly (it may have been started a moment ago) and drain in one clean run.
   await sleep(1000);
   await stopWatch(child);
+  // Every own input of a result must be the final bytes of its file.
+  const finalSha = new Map(planned.flatMap((p) => [...p.finalContent.entries()].map(([name, content]) => [name, sha256(content)] as const)));
+  const staleCount = (results: ReturnType<typeof readResults>): number => results.filter((r) => {
+    const inputs = (r.result['provenance'] as { inputs: { file: string; sha256: string; origin: string }[] }).inputs.filter((i) => i.origin === 'own');
+    return inputs.some((i) => finalSha.has(i.file) && finalSha.get(i.file) !== i.sha256);
+  }).length;
   const before = watchingLines();
   const final = startRun();
   const expectedIds = new Set(planned.map((p) => p.set.sampleId));
   try {
     await waitFor('the final watch to start', () => watchingLines() > before, 60_000);
-    await waitFor('every set to have a result and the inbox to be empty', () => {
-      const have = new Set(readResults(dir).map((r) => r.result.sampleId));
-      return [...expectedIds].every((id) => have.has(id)) && listFiles(inbox).length === 0;
+    // A running watch looks at archived copies again after archiveRecheckMs (>= 5 s): a writer that
+    // kept writing into a moved file is taken as a new version only then, so wait for that too and
+    // count as stale only what is still stale when the wait ends.
+    await waitFor('every set to have a result from its final bytes and the inbox to be empty', () => {
+      const results = readResults(dir);
+      const have = new Set(results.map((r) => r.result.sampleId));
+      return [...expectedIds].every((id) => have.has(id)) && listFiles(inbox).length === 0 && staleCount(results) === 0;
     }, options.drainTimeoutMs, 250).catch(() => undefined);
     await sleep(500);
   } finally {
@@ -269,12 +279,9 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const bySample = new Map<string, number>();
   for (const r of found) bySample.set(r.result.sampleId, (bySample.get(r.result.sampleId) ?? 0) + 1);
   const lostIds = [...expectedIds].filter((id) => !bySample.has(id));
-  // Every own input of a result must be the final bytes of its file.
-  const finalSha = new Map(planned.flatMap((p) => [...p.finalContent.entries()].map(([name, content]) => [name, sha256(content)] as const)));
-  const stale = found.filter((r) => {
-    const inputs = (r.result['provenance'] as { inputs: { file: string; sha256: string; origin: string }[] }).inputs.filter((i) => i.origin === 'own');
-    return inputs.some((i) => finalSha.has(i.file) && finalSha.get(i.file) !== i.sha256);
-  }).length;
+  const stale = staleCount(found);
+  const kindOf = new Map(planned.map((p) => [p.set.sampleId, p.kind] as const));
+  const staleDetail = found.filter((r) => staleCount([r]) > 0).map((r) => `${r.result.sampleId} (${kindOf.get(r.result.sampleId) ?? 'unknown'})`);
   const lost = lostIds.length;
   // Extra results for a set, and results under a sample id no set has (invented ids).
   const duplicated = [...bySample.entries()].reduce((n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count), 0);
@@ -302,7 +309,7 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   };
   writeFileSync(join(dir, 'campaign-runs.json'), JSON.stringify(runs, null, 1));
   const exitDetail = unexpectedExits.map((r) => `watch exited with ${String(r.code)}: ${r.stderr.trim().split('\n').slice(0, 3).join(' | ')}`);
-  return { row, lostDetail: [...diagnoseLost(dir, lostIds), ...exitDetail], dir };
+  return { row, lostDetail: [...diagnoseLost(dir, lostIds), ...exitDetail], staleDetail, dir };
 }
 
 /** The row as a Markdown table (header + one line). */
