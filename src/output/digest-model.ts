@@ -1,21 +1,15 @@
 // The day's summary a digest is built from (plain data, also written as the digest's JSON form):
 // what arrived, what was processed or rejected, alerts, each control's verdict and chart, instrument
 // health with trends, the samples table, what is waiting, and the data of the day's plots.
-import type { MetricName, Severity } from '../qc/index.js';
+import type { MetricName } from '../qc/index.js';
+import type { OpenControlFlag } from '../store/report-queries.js';
 import type { ControlChartData } from './chart-series.js';
 import type { SummaryRow } from './summary-table.js';
 
 export const DIGEST_SCHEMA = 'driftlight.digest/1' as const;
 
-export interface DigestFlag {
-  readonly ruleId: string;
-  readonly check: string;
-  readonly severity: Severity;
-  readonly metric: MetricName;
-  readonly message: string;
-  readonly setId: string;
-  readonly acquiredAt: string;
-}
+/** An open QC flag as the digest shows it: the store's open-flag row, one per rule and metric. */
+export type DigestFlag = OpenControlFlag;
 
 export interface ControlVerdict {
   readonly controlId: string;
