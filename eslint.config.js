@@ -35,12 +35,26 @@ export default tseslint.config(
         {
           patterns: [
             {
-              group: ['node:*', '!node:crypto', 'fs', 'fs/*', 'path', 'os', 'child_process', 'worker_threads', 'net', 'http', 'https'],
-              message: 'The computing core is pure: no file system, network, process or clock. Move I/O to an edge module.',
+              group: [
+                'node:*',
+                '!node:crypto',
+                'fs',
+                'fs/*',
+                'path',
+                'os',
+                'child_process',
+                'worker_threads',
+                'net',
+                'http',
+                'https',
+              ],
+              message:
+                'The computing core is pure: no file system, network, process or clock. Move I/O to an edge module.',
             },
             {
               group: edges.flatMap((dir) => [`../${dir}/*`, `../../${dir}/*`]),
-              message: 'The computing core may not import edge modules (store, pipeline, queue, output, server, config, cli, demo).',
+              message:
+                'The computing core may not import edge modules (store, pipeline, queue, output, server, config, cli, demo).',
             },
           ],
         },
@@ -51,7 +65,10 @@ export default tseslint.config(
         { name: 'process', message: 'The core reads no environment.' },
         { name: 'fetch', message: 'The core does no network I/O.' },
       ],
-      'no-restricted-properties': ['error', { object: 'Math', property: 'random', message: 'Use a seeded generator passed in as a parameter.' }],
+      'no-restricted-properties': [
+        'error',
+        { object: 'Math', property: 'random', message: 'Use a seeded generator passed in as a parameter.' },
+      ],
     },
   },
   {

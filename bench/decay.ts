@@ -25,19 +25,34 @@ const POOL_WORKERS = 2;
 const FIT_OPTIONS: FitDecayOptions = { components: 2, profileIntervals: false };
 
 function makeDecay(seed: number): Decay {
-  return simulateDecay({
-    channels: CHANNELS, channelWidthNs: WIDTH_NS, tauNs: [0.8, 4], intensityFractions: [0.3, 0.7], photons: PHOTONS,
-    irf: gaussianIrf(CHANNELS, WIDTH_NS, 2, 0.2), backgroundPerChannel: 1, shiftNs: 0.02,
-  }, createSeededRandom(seed));
+  return simulateDecay(
+    {
+      channels: CHANNELS,
+      channelWidthNs: WIDTH_NS,
+      tauNs: [0.8, 4],
+      intensityFractions: [0.3, 0.7],
+      photons: PHOTONS,
+      irf: gaussianIrf(CHANNELS, WIDTH_NS, 2, 0.2),
+      backgroundPerChannel: 1,
+      shiftNs: 0.02,
+    },
+    createSeededRandom(seed),
+  );
 }
 
 function median(values: number[]): number {
   const sorted = [...values].sort((a, b) => a - b);
   const middle = Math.floor(sorted.length / 2);
-  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
+  return sorted.length % 2 === 1
+    ? (sorted[middle] as number)
+    : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
 }
 
-function timeFits(decay: Decay, options: FitDecayOptions, repeats: number): { medianMs: number; tauNs: number[]; iterations: number } {
+function timeFits(
+  decay: Decay,
+  options: FitDecayOptions,
+  repeats: number,
+): { medianMs: number; tauNs: number[]; iterations: number } {
   for (let i = 0; i < 20; i++) fitDecay(decay, options);
   const times: number[] = [];
   let last = fitDecay(decay, options);
@@ -61,12 +76,25 @@ function scipyTiming(decay: Decay): { medianMs: number; tauNs: number[] } | { er
     if (first === undefined) return { error: 'no start values' };
     const [tau1 = 1, tau2 = 1, photons1 = 0, photons2 = 0, shiftNs = 0, background = 0] = Array.from(first);
     const start = [tau1, tau2, (photons1 * WIDTH_NS) / tau1, (photons2 * WIDTH_NS) / tau2, shiftNs, background];
-    writeFileSync(file, JSON.stringify({
-      counts: Array.from(decay.counts), irfCounts: Array.from(decay.irfCounts ?? []), channelWidthNs: WIDTH_NS,
-      firstChannel: fit.rangeChannels[0], endChannel: fit.rangeChannels[1], components: 2, start, shiftLimitNs: 0.4,
-    }));
+    writeFileSync(
+      file,
+      JSON.stringify({
+        counts: Array.from(decay.counts),
+        irfCounts: Array.from(decay.irfCounts ?? []),
+        channelWidthNs: WIDTH_NS,
+        firstChannel: fit.rangeChannels[0],
+        endChannel: fit.rangeChannels[1],
+        components: 2,
+        start,
+        shiftLimitNs: 0.4,
+      }),
+    );
     const script = fileURLToPath(new URL('../../test/reference/decay/time_scipy_fit.py', import.meta.url));
-    const run = spawnSync('python3', [script, file, '5'], { encoding: 'utf8', env: { ...process.env, PYTHONDONTWRITEBYTECODE: '1' }, cwd: fileURLToPath(new URL('../../test/reference/decay/', import.meta.url)) });
+    const run = spawnSync('python3', [script, file, '5'], {
+      encoding: 'utf8',
+      env: { ...process.env, PYTHONDONTWRITEBYTECODE: '1' },
+      cwd: fileURLToPath(new URL('../../test/reference/decay/', import.meta.url)),
+    });
     if (run.status !== 0) return { error: `python3 exited ${run.status ?? run.signal}: ${run.stderr.slice(0, 300)}` };
     return JSON.parse(run.stdout) as { medianMs: number; tauNs: number[] };
   } finally {
@@ -83,7 +111,13 @@ function timeCoreFit(decay: Decay, repeats: number): { medianMs: number; iterati
   if (start === undefined) return { medianMs: Number.NaN, iterations: 0 };
   let iterations = 0;
   const run = (): void => {
-    iterations = minimiseLevenbergMarquardt(problem, start, layout.lower, layout.upper, options.maxIterations).iterations;
+    iterations = minimiseLevenbergMarquardt(
+      problem,
+      start,
+      layout.lower,
+      layout.upper,
+      options.maxIterations,
+    ).iterations;
   };
   for (let i = 0; i < 20; i++) run();
   const times: number[] = [];
@@ -97,15 +131,23 @@ function timeCoreFit(decay: Decay, repeats: number): { medianMs: number; iterati
 
 async function poolThroughput(): Promise<{ fitsPerSecond: number; wallMs: number; converged: number }> {
   const share = POOL_FITS / POOL_WORKERS;
-  const workers = Array.from({ length: POOL_WORKERS }, (_unused, index) =>
-    new Worker(new URL(import.meta.url), { workerData: { firstSeed: 1000 + index * share, count: share } }));
+  const workers = Array.from(
+    { length: POOL_WORKERS },
+    (_unused, index) =>
+      new Worker(new URL(import.meta.url), { workerData: { firstSeed: 1000 + index * share, count: share } }),
+  );
   await Promise.all(workers.map((worker) => new Promise<void>((resolve) => worker.once('message', () => resolve()))));
   const start = performance.now();
-  const results = await Promise.all(workers.map((worker) => new Promise<number>((resolve, reject) => {
-    worker.once('message', (converged: number) => resolve(converged));
-    worker.once('error', reject);
-    worker.postMessage('go');
-  })));
+  const results = await Promise.all(
+    workers.map(
+      (worker) =>
+        new Promise<number>((resolve, reject) => {
+          worker.once('message', (converged: number) => resolve(converged));
+          worker.once('error', reject);
+          worker.postMessage('go');
+        }),
+    ),
+  );
   const wallMs = performance.now() - start;
   await Promise.all(workers.map((worker) => worker.terminate()));
   return { fitsPerSecond: (POOL_FITS / wallMs) * 1000, wallMs, converged: results.reduce((a, b) => a + b, 0) };
@@ -125,22 +167,41 @@ function runWorker(): void {
 
 async function main(): Promise<void> {
   const decay = makeDecay(7);
-  const base = { bench: 'decay', channels: CHANNELS, photons: PHOTONS, components: 2, freeShift: true, freeBackground: true };
+  const base = {
+    bench: 'decay',
+    channels: CHANNELS,
+    photons: PHOTONS,
+    components: 2,
+    freeShift: true,
+    freeBackground: true,
+  };
   const multi = timeFits(decay, FIT_OPTIONS, 101);
-  process.stdout.write(`${JSON.stringify({ ...base, scenario: 'single-fit, 4 starts (default), no profile', ...multi })}\n`);
+  process.stdout.write(
+    `${JSON.stringify({ ...base, scenario: 'single-fit, 4 starts (default), no profile', ...multi })}\n`,
+  );
   const single = timeFits(decay, { ...FIT_OPTIONS, multiStart: 1 }, 101);
   process.stdout.write(`${JSON.stringify({ ...base, scenario: 'single-fit, 1 start, no profile', ...single })}\n`);
   const profiled = timeFits(decay, { components: 2 }, 21);
-  process.stdout.write(`${JSON.stringify({ ...base, scenario: 'single-fit, defaults incl. profile intervals', ...profiled })}\n`);
+  process.stdout.write(
+    `${JSON.stringify({ ...base, scenario: 'single-fit, defaults incl. profile intervals', ...profiled })}\n`,
+  );
   const core = timeCoreFit(decay, 101);
   process.stdout.write(`${JSON.stringify({ ...base, scenario: 'LM loop only, from the automatic start', ...core })}\n`);
   const scipy = scipyTiming(decay);
-  process.stdout.write(`${JSON.stringify({
-    ...base, scenario: 'scipy least_squares (trf, 3-point Jacobian) from the same start on the same decay', ...scipy,
-    ...('medianMs' in scipy ? { speedupFullFitDecay: scipy.medianMs / multi.medianMs, speedupLmLoop: scipy.medianMs / core.medianMs } : {}),
-  })}\n`);
+  process.stdout.write(
+    `${JSON.stringify({
+      ...base,
+      scenario: 'scipy least_squares (trf, 3-point Jacobian) from the same start on the same decay',
+      ...scipy,
+      ...('medianMs' in scipy
+        ? { speedupFullFitDecay: scipy.medianMs / multi.medianMs, speedupLmLoop: scipy.medianMs / core.medianMs }
+        : {}),
+    })}\n`,
+  );
   const pool = await poolThroughput();
-  process.stdout.write(`${JSON.stringify({ ...base, scenario: `pool of ${POOL_WORKERS} worker threads, ${POOL_FITS} decays`, ...pool })}\n`);
+  process.stdout.write(
+    `${JSON.stringify({ ...base, scenario: `pool of ${POOL_WORKERS} worker threads, ${POOL_FITS} decays`, ...pool })}\n`,
+  );
 }
 
 if (isMainThread) await main();

@@ -31,7 +31,13 @@ async function main(): Promise<void> {
     const config = loadConfig(configPath);
     const ledger = openLedger(config.folders.state);
     try {
-      seedQcHistory(ledger, tealRuleSet(), { days: HISTORY_DAYS, endDay: date, shiftFromDay: 50, shiftSd: 2, rebaselineDay: 30 });
+      seedQcHistory(ledger, tealRuleSet(), {
+        days: HISTORY_DAYS,
+        endDay: date,
+        shiftFromDay: 50,
+        shiftSd: 2,
+        rebaselineDay: 30,
+      });
       const ruleSet = effectiveRuleSet(config);
       const roundsMs: number[] = [];
       let figures = 0;
@@ -43,11 +49,20 @@ async function main(): Promise<void> {
       }
       const size = (ext: string): number => statSync(join(config.folders.results, 'digest', `${date}.${ext}`)).size;
       const sorted = [...roundsMs].sort((a, b) => a - b);
-      process.stdout.write(`${JSON.stringify({
-        bench: 'digest', historyDays: HISTORY_DAYS, controlRuns: HISTORY_DAYS + 1, instrumentChecks: HISTORY_DAYS, charts: figures,
-        buildMs: roundsMs, medianBuildMs: sorted[Math.floor(sorted.length / 2)],
-        htmlBytes: size('html'), jsonBytes: size('json'), markdownBytes: size('md'),
-      })}\n`);
+      process.stdout.write(
+        `${JSON.stringify({
+          bench: 'digest',
+          historyDays: HISTORY_DAYS,
+          controlRuns: HISTORY_DAYS + 1,
+          instrumentChecks: HISTORY_DAYS,
+          charts: figures,
+          buildMs: roundsMs,
+          medianBuildMs: sorted[Math.floor(sorted.length / 2)],
+          htmlBytes: size('html'),
+          jsonBytes: size('json'),
+          markdownBytes: size('md'),
+        })}\n`,
+      );
     } finally {
       ledger.close();
     }

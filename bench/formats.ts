@@ -11,7 +11,8 @@ import { join } from 'node:path';
 import { readData } from '../src/formats/index.js';
 
 const ROWS = 1_000_000;
-const HEADER = '# sample id: bench-1\n# excitation wavelength (nm): 350\n# solvent: ethanol\nwavelength (nm),intensity (cps),reference (cps)\n';
+const HEADER =
+  '# sample id: bench-1\n# excitation wavelength (nm): 350\n# solvent: ethanol\nwavelength (nm),intensity (cps),reference (cps)\n';
 
 /** Writes the CSV to `path` in chunks (deterministic LCG noise, glibc constants). */
 function generate(path: string): void {
@@ -38,7 +39,9 @@ function measure(): void {
   const dir = mkdtempSync(join(tmpdir(), 'driftlight-bench-'));
   try {
     const path = join(dir, 'spectrum.csv');
-    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--generate', path], { stdio: 'inherit' });
+    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--generate', path], {
+      stdio: 'inherit',
+    });
     if (child.status !== 0) throw new Error(`the generator exited with ${String(child.status ?? child.signal)}`);
     const baselineRssMb = process.memoryUsage().rss / 1e6;
     const readStarted = process.hrtime.bigint();
@@ -54,21 +57,23 @@ function measure(): void {
     const points = data.type === 'spectrum' ? data.spectrum.values.length : data.decay.counts.length;
     const fileMb = content.length / 1e6;
     const peakRssMb = process.resourceUsage().maxRSS / 1024;
-    process.stdout.write(`${JSON.stringify({
-      bench: 'formats',
-      scenario: 'delimited-csv-1e6-rows-3-columns',
-      rows: points,
-      fileMb: Number(fileMb.toFixed(2)),
-      readFileSeconds: Number((Number(parseStarted - readStarted) / 1e9).toFixed(3)),
-      parseSeconds: Number(parseSeconds.toFixed(3)),
-      mbPerS: Number((fileMb / parseSeconds).toFixed(1)),
-      parseCpuSeconds: Number(parseCpuSeconds.toFixed(3)),
-      mbPerCpuS: Number((fileMb / parseCpuSeconds).toFixed(1)),
-      peakRssMb: Number(peakRssMb.toFixed(1)),
-      baselineRssMb: Number(baselineRssMb.toFixed(1)),
-      peakRssOverFile: Number((peakRssMb / fileMb).toFixed(2)),
-      addedRssOverFile: Number(((peakRssMb - baselineRssMb) / fileMb).toFixed(2)),
-    })}\n`);
+    process.stdout.write(
+      `${JSON.stringify({
+        bench: 'formats',
+        scenario: 'delimited-csv-1e6-rows-3-columns',
+        rows: points,
+        fileMb: Number(fileMb.toFixed(2)),
+        readFileSeconds: Number((Number(parseStarted - readStarted) / 1e9).toFixed(3)),
+        parseSeconds: Number(parseSeconds.toFixed(3)),
+        mbPerS: Number((fileMb / parseSeconds).toFixed(1)),
+        parseCpuSeconds: Number(parseCpuSeconds.toFixed(3)),
+        mbPerCpuS: Number((fileMb / parseCpuSeconds).toFixed(1)),
+        peakRssMb: Number(peakRssMb.toFixed(1)),
+        baselineRssMb: Number(baselineRssMb.toFixed(1)),
+        peakRssOverFile: Number((peakRssMb / fileMb).toFixed(2)),
+        addedRssOverFile: Number(((peakRssMb - baselineRssMb) / fileMb).toFixed(2)),
+      })}\n`,
+    );
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

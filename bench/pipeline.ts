@@ -14,7 +14,14 @@ import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyze } from '../src/analysis/analyze.js';
 import { resolveConfig } from '../src/config/resolve.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralFor, emissionSpectrum, irfAsDecay, withoutIrf } from '../src/demo/synthetic.js';
+import {
+  absorbanceSpectrum,
+  decayHistogram,
+  emissionIntegralFor,
+  emissionSpectrum,
+  irfAsDecay,
+  withoutIrf,
+} from '../src/demo/synthetic.js';
 import { createSeededRandom } from '../src/decay/index.js';
 import { writeDecayCsv, writeSpectrumCsv } from '../src/formats/index.js';
 import { fsyncDirectoryAsync, writeFileAtomic, writeFileAtomicAsync } from '../src/output/atomic-write.js';
@@ -66,7 +73,10 @@ function cpuSince(start: ReturnType<typeof cpuNow>): { processMs: number; mainTh
   const end = cpuNow();
   return {
     processMs: end.processMs - start.processMs,
-    mainThreadMs: end.mainThreadMs === undefined || start.mainThreadMs === undefined ? undefined : end.mainThreadMs - start.mainThreadMs,
+    mainThreadMs:
+      end.mainThreadMs === undefined || start.mainThreadMs === undefined
+        ? undefined
+        : end.mainThreadMs - start.mainThreadMs,
   };
 }
 
@@ -88,14 +98,27 @@ function setFiles(sampleId: string, seed: number, shape: DecayShape = 'small'): 
   const random = createSeededRandom(seed);
   const a = 0.03 + (seed % 10) * 0.001;
   const meta = { sampleId, acquiredAt: '2026-03-14T10:00:00Z' };
-  const em = emissionSpectrum({ peakNm: 540, widthNm: 40, integral: emissionIntegralFor(0.5, a, 1.3618), stepNm: 2 }, { ...meta, excitationNm: 480, solvent: 'ethanol' }, random);
-  const abs = absorbanceSpectrum({ bandPeakNm: 515, bandWidthNm: 55, excitationNm: 480, absorbanceAtExcitation: a, fromNm: 400, toNm: 740 }, meta, random);
+  const em = emissionSpectrum(
+    { peakNm: 540, widthNm: 40, integral: emissionIntegralFor(0.5, a, 1.3618), stepNm: 2 },
+    { ...meta, excitationNm: 480, solvent: 'ethanol' },
+    random,
+  );
+  const abs = absorbanceSpectrum(
+    { bandPeakNm: 515, bandWidthNm: 55, excitationNm: 480, absorbanceAtExcitation: a, fromNm: 400, toNm: 740 },
+    meta,
+    random,
+  );
   const decay = decayHistogram({ tauNs: [2 + (seed % 7) * 0.3], ...DECAY_SHAPES[shape] }, meta, random);
   return [
     { name: `${sampleId}_em.csv`, content: writeSpectrumCsv(em) },
     { name: `${sampleId}_abs.csv`, content: writeSpectrumCsv(abs) },
     { name: `${sampleId}_decay.csv`, content: writeDecayCsv(withoutIrf(decay)) },
-    { name: `${sampleId}_irf.csv`, content: writeDecayCsv(irfAsDecay(decay, { acquiredAt: new Date(Date.parse(meta.acquiredAt) - (seed % 3600) * 1000).toISOString() })) },
+    {
+      name: `${sampleId}_irf.csv`,
+      content: writeDecayCsv(
+        irfAsDecay(decay, { acquiredAt: new Date(Date.parse(meta.acquiredAt) - (seed % 3600) * 1000).toISOString() }),
+      ),
+    },
   ];
 }
 
@@ -131,11 +154,14 @@ function fileCreationProbeUs(files = 2000): number {
 function workspace(existing?: string): { dir: string; config: ReturnType<typeof resolveConfig> } {
   const dir = existing ?? mkdtempSync(join(tmpdir(), 'dl-bench-'));
   mkdirSync(join(dir, 'inbox'), { recursive: true });
-  const config = resolveConfig({
-    watch: { stabilityWindowMs: STABILITY_MS, pollIntervalMs: 50 },
-    assembly: { setTimeoutMs: 600_000 },
-    logging: { level: 'warn', stdout: 'off' },
-  }, { baseDir: dir });
+  const config = resolveConfig(
+    {
+      watch: { stabilityWindowMs: STABILITY_MS, pollIntervalMs: 50 },
+      assembly: { setTimeoutMs: 600_000 },
+      logging: { level: 'warn', stdout: 'off' },
+    },
+    { baseDir: dir },
+  );
   return { dir, config };
 }
 
@@ -156,7 +182,9 @@ async function startWatching(pipeline: Pipeline): Promise<() => Promise<void>> {
 function waitForDone(pipeline: Pipeline, sets: number): Promise<void> {
   return new Promise((resolve) => {
     const check = (): void => {
-      const row = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM sets WHERE state = 'done'`).get() as { n: number };
+      const row = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM sets WHERE state = 'done'`).get() as {
+        n: number;
+      };
       if (row.n >= sets) resolve();
       else setTimeout(check, 50);
     };
@@ -167,7 +195,9 @@ function waitForDone(pipeline: Pipeline, sets: number): Promise<void> {
 /** Latency (last file stable → result written) of every done set whose sample id starts with `prefix`, sorted. */
 function latencies(pipeline: Pipeline, prefix: string): number[] {
   const rows = pipeline.ledger.database
-    .prepare(`SELECT s.done_at AS doneAt, MAX(f.first_seen_at) AS lastSeen FROM sets s JOIN files f ON f.set_id = s.id WHERE s.state = 'done' AND s.sample_id LIKE ? GROUP BY s.id`)
+    .prepare(
+      `SELECT s.done_at AS doneAt, MAX(f.first_seen_at) AS lastSeen FROM sets s JOIN files f ON f.set_id = s.id WHERE s.state = 'done' AND s.sample_id LIKE ? GROUP BY s.id`,
+    )
     .all(`${prefix}%`) as { doneAt: string; lastSeen: string }[];
   return rows.map((r) => Date.parse(r.doneAt) - Date.parse(r.lastSeen)).sort((a, b) => a - b);
 }
@@ -177,32 +207,61 @@ function latencies(pipeline: Pipeline, prefix: string): number[] {
  * were done already); returns sets per second from the first of them seen to the last result, and
  * the CPU used after the writes (this process writes the files; that is not the pipeline's cost).
  */
-async function timedBurst(pipeline: Pipeline, files: readonly { name: string; content: string }[][], prefix: string, doneBefore: number): Promise<{ setsPerS: number; wallMs: number; firstStableToLastResultMs: number; cpu: ReturnType<typeof cpuSince> }> {
+async function timedBurst(
+  pipeline: Pipeline,
+  files: readonly { name: string; content: string }[][],
+  prefix: string,
+  doneBefore: number,
+): Promise<{ setsPerS: number; wallMs: number; firstStableToLastResultMs: number; cpu: ReturnType<typeof cpuSince> }> {
   const t0 = Date.now();
   for (const set of files) for (const f of set) writeFileSync(join(pipeline.config.folders.inbox, f.name), f.content);
   // The writes block the event loop, so the watcher has not reported anything yet.
   const cpu0 = cpuNow();
   await waitForDone(pipeline, doneBefore + files.length);
   const cpu = cpuSince(cpu0);
-  const firstSeen = Date.parse((pipeline.ledger.database.prepare('SELECT MIN(first_seen_at) AS t FROM files WHERE name LIKE ?').get(`${prefix}%`) as { t: string }).t);
-  const lastDone = Date.parse((pipeline.ledger.database.prepare('SELECT MAX(done_at) AS t FROM sets WHERE sample_id LIKE ?').get(`${prefix}%`) as { t: string }).t);
-  return { setsPerS: files.length / ((lastDone - firstSeen) / 1000), wallMs: Date.now() - t0, firstStableToLastResultMs: lastDone - firstSeen, cpu };
+  const firstSeen = Date.parse(
+    (
+      pipeline.ledger.database
+        .prepare('SELECT MIN(first_seen_at) AS t FROM files WHERE name LIKE ?')
+        .get(`${prefix}%`) as { t: string }
+    ).t,
+  );
+  const lastDone = Date.parse(
+    (
+      pipeline.ledger.database
+        .prepare('SELECT MAX(done_at) AS t FROM sets WHERE sample_id LIKE ?')
+        .get(`${prefix}%`) as { t: string }
+    ).t,
+  );
+  return {
+    setsPerS: files.length / ((lastDone - firstSeen) / 1000),
+    wallMs: Date.now() - t0,
+    firstStableToLastResultMs: lastDone - firstSeen,
+    cpu,
+  };
 }
 
-const quantile = (sorted: readonly number[], q: number): number => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? Number.NaN;
+const quantile = (sorted: readonly number[], q: number): number =>
+  sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? Number.NaN;
 
 /**
  * One burst of `sets` sets with decays of `shape` (throughput), then its baselines: bare analyze()
  * on one thread and the same payloads through the worker pool alone; with `floor`, the file-work
  * floor too. Returns the pipeline's sets per second and the files it used.
  */
-async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolean): Promise<{ setsPerS: number; files: { name: string; content: string }[][] }> {
+async function burstWithBaselines(
+  shape: DecayShape,
+  sets: number,
+  floor: boolean,
+): Promise<{ setsPerS: number; files: { name: string; content: string }[][] }> {
   const burst = workspace();
   const logger = createLogger(burst.config.logging, burst.config.logFile);
   const files = Array.from({ length: sets }, (_u, i) => setFiles(`bench-${String(i).padStart(5, '0')}`, i + 1, shape));
   // Warm-up sets: seeds after the measured ones, so no IRF repeats one of theirs (acquisition offsets are seed mod 3600 s).
   const warmupSets = Math.min(sets, WARMUP_BURST_SETS);
-  const warmupFiles = Array.from({ length: warmupSets }, (_u, i) => setFiles(`warm-${String(i).padStart(5, '0')}`, sets + i + 1, shape));
+  const warmupFiles = Array.from({ length: warmupSets }, (_u, i) =>
+    setFiles(`warm-${String(i).padStart(5, '0')}`, sets + i + 1, shape),
+  );
   const fsCreateUsPerFile = fileCreationProbeUs();
   const pipeline = openPipeline(burst.config, { softwareVersion: softwareVersion(), logger });
   const stop = await startWatching(pipeline);
@@ -212,34 +271,78 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
   // first, then BARE_ROUNDS rounds before the measured burst and BARE_ROUNDS after it. The ratio
   // uses the mean of all of them: this shared machine's speed drifts by ±25 % within minutes, and
   // rounds on one side of the burst only would carry that drift into the ratio.
-  const setIds = (pipeline.ledger.database.prepare(`SELECT id FROM sets WHERE sample_id LIKE 'warm-%' ORDER BY id LIMIT 250`).all() as { id: string }[]).map((r) => r.id);
-  const rules = { fileNamePatterns: [], referencePatterns: [], controlPatterns: [], requiredParts: burst.config.assembly.requiredParts, referenceRequiredParts: burst.config.assembly.referenceRequiredParts, setTimeoutMs: 0 };
-  const payloads = setIds.map((id) => buildPayload({ ledger: pipeline.ledger, config: burst.config, configHash: '0'.repeat(64), softwareVersion: softwareVersion(), rules, now: new Date() }, id));
+  const setIds = (
+    pipeline.ledger.database
+      .prepare(`SELECT id FROM sets WHERE sample_id LIKE 'warm-%' ORDER BY id LIMIT 250`)
+      .all() as { id: string }[]
+  ).map((r) => r.id);
+  const rules = {
+    fileNamePatterns: [],
+    referencePatterns: [],
+    controlPatterns: [],
+    requiredParts: burst.config.assembly.requiredParts,
+    referenceRequiredParts: burst.config.assembly.referenceRequiredParts,
+    setTimeoutMs: 0,
+  };
+  const payloads = setIds.map((id) =>
+    buildPayload(
+      {
+        ledger: pipeline.ledger,
+        config: burst.config,
+        configHash: '0'.repeat(64),
+        softwareVersion: softwareVersion(),
+        rules,
+        now: new Date(),
+      },
+      id,
+    ),
+  );
   for (const payload of payloads.slice(0, 50)) analyze(payload);
   const measured = payloads.slice(50);
-  const bareRounds = (): number[] => Array.from({ length: BARE_ROUNDS }, () => {
-    const b0 = performance.now();
-    for (const payload of measured) analyze(payload);
-    return measured.length / ((performance.now() - b0) / 1000);
-  });
+  const bareRounds = (): number[] =>
+    Array.from({ length: BARE_ROUNDS }, () => {
+      const b0 = performance.now();
+      for (const payload of measured) analyze(payload);
+      return measured.length / ((performance.now() - b0) / 1000);
+    });
   const roundsBefore = bareRounds();
   const warm = await timedBurst(pipeline, files, 'bench-', warmupSets);
   const roundsAfter = bareRounds();
   const pipelineSetsPerS = warm.setsPerS;
   const decay = { decayChannels: DECAY_SHAPES[shape].channels };
   emit({
-    scenario: 'burst', ...decay, sets, files: sets * 4, concurrency: burst.config.queue.concurrency, wallMs: warm.wallMs, firstStableToLastResultMs: warm.firstStableToLastResultMs, setsPerS: Number(pipelineSetsPerS.toFixed(2)),
-    processCpuMsPerSet: Number((warm.cpu.processMs / sets).toFixed(2)), mainThreadCpuMsPerSet: warm.cpu.mainThreadMs === undefined ? null : Number((warm.cpu.mainThreadMs / sets).toFixed(2)),
-    warmupSets, coldSetsPerS: Number(cold.setsPerS.toFixed(2)), coldProcessCpuMsPerSet: Number((cold.cpu.processMs / warmupSets).toFixed(2)), fsCreateUsPerFile: Number(fsCreateUsPerFile.toFixed(1)),
+    scenario: 'burst',
+    ...decay,
+    sets,
+    files: sets * 4,
+    concurrency: burst.config.queue.concurrency,
+    wallMs: warm.wallMs,
+    firstStableToLastResultMs: warm.firstStableToLastResultMs,
+    setsPerS: Number(pipelineSetsPerS.toFixed(2)),
+    processCpuMsPerSet: Number((warm.cpu.processMs / sets).toFixed(2)),
+    mainThreadCpuMsPerSet:
+      warm.cpu.mainThreadMs === undefined ? null : Number((warm.cpu.mainThreadMs / sets).toFixed(2)),
+    warmupSets,
+    coldSetsPerS: Number(cold.setsPerS.toFixed(2)),
+    coldProcessCpuMsPerSet: Number((cold.cpu.processMs / warmupSets).toFixed(2)),
+    fsCreateUsPerFile: Number(fsCreateUsPerFile.toFixed(1)),
   });
   const rounds = [...roundsBefore, ...roundsAfter];
   const bareSetsPerS = rounds.reduce((a, b) => a + b, 0) / rounds.length;
   // The fits alone through the same worker-thread pool (no ledger, files or watcher): what the
   // analysis can do with these threads on this machine. Payloads go MAX_JOBS_PER_TASK to a task, as
   // the in-process queue hands them out under a backlog.
-  const pool = createTaskPool({ processorHref: ANALYZE_PROCESSOR_URL.href, concurrency: burst.config.queue.concurrency, jobTimeoutMs: 60_000 });
+  const pool = createTaskPool({
+    processorHref: ANALYZE_PROCESSOR_URL.href,
+    concurrency: burst.config.queue.concurrency,
+    jobTimeoutMs: 60_000,
+  });
   const runAll = (all: readonly unknown[]): Promise<unknown> =>
-    Promise.all(Array.from({ length: Math.ceil(all.length / MAX_JOBS_PER_TASK) }, (_u, k) => pool.runBatch(all.slice(k * MAX_JOBS_PER_TASK, (k + 1) * MAX_JOBS_PER_TASK))));
+    Promise.all(
+      Array.from({ length: Math.ceil(all.length / MAX_JOBS_PER_TASK) }, (_u, k) =>
+        pool.runBatch(all.slice(k * MAX_JOBS_PER_TASK, (k + 1) * MAX_JOBS_PER_TASK)),
+      ),
+    );
   // Warmed like the pipeline's threads (each thread JIT-compiles the analysis on its own).
   for (let round = 0; round < 3; round++) await runAll(payloads);
   const p0 = performance.now();
@@ -249,19 +352,35 @@ async function burstWithBaselines(shape: DecayShape, sets: number, floor: boolea
   const poolCpuMsPerSet = cpuSince(poolCpu0).processMs / (2 * measured.length);
   await pool.close();
   emit({
-    scenario: 'bare-analyze', ...decay, sets: measured.length, roundsBeforeBurst: roundsBefore.map((r) => Number(r.toFixed(1))), roundsAfterBurst: roundsAfter.map((r) => Number(r.toFixed(1))),
-    setsPerSOneThread: Number(bareSetsPerS.toFixed(2)), ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
-    poolThreads: burst.config.queue.concurrency, setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)), ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
+    scenario: 'bare-analyze',
+    ...decay,
+    sets: measured.length,
+    roundsBeforeBurst: roundsBefore.map((r) => Number(r.toFixed(1))),
+    roundsAfterBurst: roundsAfter.map((r) => Number(r.toFixed(1))),
+    setsPerSOneThread: Number(bareSetsPerS.toFixed(2)),
+    ratioPipelineToOneThread: Number((pipelineSetsPerS / bareSetsPerS).toFixed(3)),
+    poolThreads: burst.config.queue.concurrency,
+    setsPerSPoolOnly: Number(poolSetsPerS.toFixed(2)),
+    ratioPipelineToPoolOnly: Number((pipelineSetsPerS / poolSetsPerS).toFixed(3)),
     poolCpuMsPerSet: Number(poolCpuMsPerSet.toFixed(2)),
   });
   if (floor) {
     // The file work the pipeline must do per set, alone: what no coordinator design can avoid.
-    const work = await ioFloor(files.slice(0, 500), payloads[0] === undefined ? [] : analyze(payloads[0]).artifacts.map((a) => a.content));
+    const work = await ioFloor(
+      files.slice(0, 500),
+      payloads[0] === undefined ? [] : analyze(payloads[0]).artifacts.map((a) => a.content),
+    );
     const cores = availableParallelism();
     const ceilingSetsPerS = (cores * 1000) / (poolCpuMsPerSet + work.cpuMsPerSet);
     emit({
-      scenario: 'io-floor', ...decay, sets: work.sets, cpuMsPerSet: Number(work.cpuMsPerSet.toFixed(2)), wallMsPerSet: Number(work.wallMsPerSet.toFixed(2)), cores,
-      ceilingSetsPerS: Number(ceilingSetsPerS.toFixed(1)), ceilingRatioToOneThread: Number((ceilingSetsPerS / bareSetsPerS).toFixed(3)),
+      scenario: 'io-floor',
+      ...decay,
+      sets: work.sets,
+      cpuMsPerSet: Number(work.cpuMsPerSet.toFixed(2)),
+      wallMsPerSet: Number(work.wallMsPerSet.toFixed(2)),
+      cores,
+      ceilingSetsPerS: Number(ceilingSetsPerS.toFixed(1)),
+      ceilingRatioToOneThread: Number((ceilingSetsPerS / bareSetsPerS).toFixed(3)),
     });
   }
   await stop();
@@ -282,12 +401,17 @@ async function throughputAndLatency(): Promise<void> {
   // and are waited for (worker threads loading the analysis modules); they are reported apart as the
   // cold start and do not count in the steady latency.
   const steady = workspace();
-  const steadyPipeline = openPipeline(steady.config, { softwareVersion: softwareVersion(), logger: createLogger(steady.config.logging, steady.config.logFile) });
+  const steadyPipeline = openPipeline(steady.config, {
+    softwareVersion: softwareVersion(),
+    logger: createLogger(steady.config.logging, steady.config.logFile),
+  });
   const stopSteady = await startWatching(steadyPipeline);
   const steadySets = Math.min(SETS, 300);
   const intervalMs = 1000 / (0.6 * pipelineSetsPerS);
   // Seeds 92,000+ give IRF acquisition offsets (seed mod 3600 s) that no measured set uses: no duplicate IRFs.
-  const warmup = Array.from({ length: WARMUP_SETS }, (_u, i) => setFiles(`warmup-${String(i).padStart(3, '0')}`, 92_000 + i));
+  const warmup = Array.from({ length: WARMUP_SETS }, (_u, i) =>
+    setFiles(`warmup-${String(i).padStart(3, '0')}`, 92_000 + i),
+  );
   for (const set of warmup) for (const f of set) writeFileSync(join(steady.config.folders.inbox, f.name), f.content);
   await waitForDone(steadyPipeline, WARMUP_SETS);
   for (const set of files.slice(0, steadySets)) {
@@ -298,9 +422,16 @@ async function throughputAndLatency(): Promise<void> {
   const lat = latencies(steadyPipeline, 'bench-');
   const cold = latencies(steadyPipeline, 'warmup-');
   emit({
-    scenario: 'latency', sets: steadySets, arrivalIntervalMs: Number(intervalMs.toFixed(1)), stabilityWindowMs: STABILITY_MS,
-    latencyBeyondStabilityP50Ms: quantile(lat, 0.5), latencyBeyondStabilityP95Ms: quantile(lat, 0.95), latencyMaxMs: lat[lat.length - 1],
-    coldStartSets: WARMUP_SETS, coldStartLatencyP50Ms: quantile(cold, 0.5), coldStartLatencyMaxMs: cold[cold.length - 1],
+    scenario: 'latency',
+    sets: steadySets,
+    arrivalIntervalMs: Number(intervalMs.toFixed(1)),
+    stabilityWindowMs: STABILITY_MS,
+    latencyBeyondStabilityP50Ms: quantile(lat, 0.5),
+    latencyBeyondStabilityP95Ms: quantile(lat, 0.95),
+    latencyMaxMs: lat[lat.length - 1],
+    coldStartSets: WARMUP_SETS,
+    coldStartLatencyP50Ms: quantile(cold, 0.5),
+    coldStartLatencyMaxMs: cold[cold.length - 1],
   });
   await stopSteady();
   await steadyPipeline.coordinator.drain();
@@ -314,7 +445,10 @@ async function throughputAndLatency(): Promise<void> {
  * does), write the outbox files atomically and move the 4 inputs to the archive. Returns CPU and wall
  * time per set: a floor under any coordinator's cost on this machine.
  */
-async function ioFloor(sets: readonly { name: string; content: string }[][], artifacts: readonly string[]): Promise<{ sets: number; cpuMsPerSet: number; wallMsPerSet: number }> {
+async function ioFloor(
+  sets: readonly { name: string; content: string }[][],
+  artifacts: readonly string[],
+): Promise<{ sets: number; cpuMsPerSet: number; wallMsPerSet: number }> {
   const dir = mkdtempSync(join(tmpdir(), 'dl-bench-floor-'));
   const inbox = join(dir, 'inbox');
   mkdirSync(inbox, { recursive: true });
@@ -325,16 +459,26 @@ async function ioFloor(sets: readonly { name: string; content: string }[][], art
   const group = 8;
   for (let start = 0; start < sets.length; start += group) {
     const batch = sets.slice(start, start + group);
-    await Promise.all(batch.map(async (set, k) => {
-      for (const f of set) {
-        statSync(join(inbox, f.name));
-        createHash('sha256').update(readFileSync(join(inbox, f.name))).digest('hex');
-      }
-      await writeFileAtomicAsync(join(dir, 'results', `r${start + k}.json`), result, { syncFolder: false });
-    }));
+    await Promise.all(
+      batch.map(async (set, k) => {
+        for (const f of set) {
+          statSync(join(inbox, f.name));
+          createHash('sha256')
+            .update(readFileSync(join(inbox, f.name)))
+            .digest('hex');
+        }
+        await writeFileAtomicAsync(join(dir, 'results', `r${start + k}.json`), result, { syncFolder: false });
+      }),
+    );
     await fsyncDirectoryAsync(join(dir, 'results'));
-    batch.forEach((_set, k) => artifacts.forEach((content, a) => writeFileAtomic(join(dir, 'outbox', `s${start + k}`, `a${a}.txt`), content, { durable: false })));
-    for (const set of batch) for (const f of set) moveFile(join(inbox, f.name), uniqueTarget(join(dir, 'archive'), f.name), { syncFolder: false });
+    batch.forEach((_set, k) =>
+      artifacts.forEach((content, a) =>
+        writeFileAtomic(join(dir, 'outbox', `s${start + k}`, `a${a}.txt`), content, { durable: false }),
+      ),
+    );
+    for (const set of batch)
+      for (const f of set)
+        moveFile(join(inbox, f.name), uniqueTarget(join(dir, 'archive'), f.name), { syncFolder: false });
     await fsyncDirectoryAsync(join(dir, 'archive'));
   }
   const wallMs = performance.now() - t0;
@@ -347,7 +491,9 @@ async function ioFloor(sets: readonly { name: string; content: string }[][], art
 function writeBacklog(): { dir: string; sets: number } {
   const { dir, config } = workspace();
   const sets = Math.ceil(BACKLOG_FILES / 4);
-  for (let i = 0; i < sets; i++) for (const f of setFiles(`backlog-${String(i).padStart(5, '0')}`, 50_000 + i)) writeFileSync(join(config.folders.inbox, f.name), f.content);
+  for (let i = 0; i < sets; i++)
+    for (const f of setFiles(`backlog-${String(i).padStart(5, '0')}`, 50_000 + i))
+      writeFileSync(join(config.folders.inbox, f.name), f.content);
   return { dir, sets };
 }
 
@@ -358,10 +504,15 @@ async function backlog(dirArg: string | undefined): Promise<void> {
   const sets = written.sets;
   (globalThis as { gc?: () => void }).gc?.();
   const rssBefore = process.memoryUsage().rss;
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger: createLogger(config.logging, config.logFile) });
+  const pipeline = openPipeline(config, {
+    softwareVersion: softwareVersion(),
+    logger: createLogger(config.logging, config.logFile),
+  });
   await pipeline.coordinator.recover();
   let peakRss = 0;
-  const sampler = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage().rss); }, 100);
+  const sampler = setInterval(() => {
+    peakRss = Math.max(peakRss, process.memoryUsage().rss);
+  }, 100);
   const t0 = Date.now();
   const stop = await startWatching(pipeline);
   await waitForDone(pipeline, sets);
@@ -371,7 +522,17 @@ async function backlog(dirArg: string | undefined): Promise<void> {
   await pipeline.coordinator.drain();
   await pipeline.close();
   const maxRssBytes = process.resourceUsage().maxRSS * 1024;
-  emit({ scenario: 'backlog', files: sets * 4, sets, wallMs, setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)), peakRssMbSampled: Math.round(peakRss / 1e6), maxRssMbProcess: Math.round(maxRssBytes / 1e6), rssBeforeMb: Math.round(rssBefore / 1e6), ledgerBytes: statSync(join(config.folders.state, 'ledger.sqlite')).size });
+  emit({
+    scenario: 'backlog',
+    files: sets * 4,
+    sets,
+    wallMs,
+    setsPerS: Number((sets / (wallMs / 1000)).toFixed(2)),
+    peakRssMbSampled: Math.round(peakRss / 1e6),
+    maxRssMbProcess: Math.round(maxRssBytes / 1e6),
+    rssBeforeMb: Math.round(rssBefore / 1e6),
+    ledgerBytes: statSync(join(config.folders.state, 'ledger.sqlite')).size,
+  });
   removeWorkspace(written.dir);
 }
 
@@ -384,7 +545,19 @@ if (args.includes('--backlog-only')) {
   await throughputAndLatency();
   if (!args.includes('--skip-backlog')) {
     const { dir } = writeBacklog();
-    const child = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--backlog-only', '--backlog-files', String(BACKLOG_FILES), '--backlog-dir', dir, ...args.filter((a) => a === '--keep-workspaces')], { stdio: 'inherit' });
+    const child = spawnSync(
+      process.execPath,
+      [
+        fileURLToPath(import.meta.url),
+        '--backlog-only',
+        '--backlog-files',
+        String(BACKLOG_FILES),
+        '--backlog-dir',
+        dir,
+        ...args.filter((a) => a === '--keep-workspaces'),
+      ],
+      { stdio: 'inherit' },
+    );
     if (child.status !== 0) process.exitCode = 1;
     removeWorkspace(dir);
   }

@@ -52,10 +52,25 @@ async function overhead(): Promise<void> {
   const count = 400;
   for (const backend of ['in-process', 'bullmq'] as const) {
     const prefix = `dlbench-${randomBytes(4).toString('hex')}`;
-    const options: QueueBackendOptions = { backend, processorFile: NOOP, concurrency: 1, redisUrl: REDIS_URL, prefix, queueName: 'overhead', runWorker: true };
+    const options: QueueBackendOptions = {
+      backend,
+      processorFile: NOOP,
+      concurrency: 1,
+      redisUrl: REDIS_URL,
+      prefix,
+      queueName: 'overhead',
+      runWorker: true,
+    };
     const elapsedMs = await timeJobs(options, count, (n) => ({ n }));
     if (backend === 'bullmq') await cleanup(prefix, 'overhead');
-    emit({ scenario: 'overhead', backend, jobs: count, concurrency: 1, perJobMs: +(elapsedMs / count).toFixed(3), totalMs: Math.round(elapsedMs) });
+    emit({
+      scenario: 'overhead',
+      backend,
+      jobs: count,
+      concurrency: 1,
+      perJobMs: +(elapsedMs / count).toFixed(3),
+      totalMs: Math.round(elapsedMs),
+    });
   }
 }
 
@@ -73,7 +88,22 @@ async function calibrateIterations(): Promise<number> {
 function startWorker(prefix: string, queueName: string, processor: URL): Promise<ChildProcess> {
   const child = spawn(
     process.execPath,
-    [CLI, 'worker', '--redis', REDIS_URL, '--prefix', prefix, '--queue', queueName, '--concurrency', '1', '--processor', fileURLToPath(processor), '--heartbeat-ms', '0'],
+    [
+      CLI,
+      'worker',
+      '--redis',
+      REDIS_URL,
+      '--prefix',
+      prefix,
+      '--queue',
+      queueName,
+      '--concurrency',
+      '1',
+      '--processor',
+      fileURLToPath(processor),
+      '--heartbeat-ms',
+      '0',
+    ],
     { stdio: ['ignore', 'pipe', 'inherit'] },
   );
   return new Promise((resolve, reject) => {
@@ -110,16 +140,29 @@ interface ScalingRun {
 }
 
 /** One timed run of `count` jobs through `workers` worker processes (concurrency 1 each). */
-async function scalingRun(workers: number, processor: URL, count: number, payload: (n: number) => unknown): Promise<ScalingRun> {
+async function scalingRun(
+  workers: number,
+  processor: URL,
+  count: number,
+  payload: (n: number) => unknown,
+): Promise<ScalingRun> {
   const prefix = `dlbench-${randomBytes(4).toString('hex')}`;
   const children = await Promise.all(Array.from({ length: workers }, () => startWorker(prefix, 'scaling', processor)));
-  const options: QueueBackendOptions = { backend: 'bullmq', processorFile: processor, redisUrl: REDIS_URL, prefix, queueName: 'scaling' };
+  const options: QueueBackendOptions = {
+    backend: 'bullmq',
+    processorFile: processor,
+    redisUrl: REDIS_URL,
+    prefix,
+    queueName: 'scaling',
+  };
   const cpuBefore = children.reduce((sum, child) => sum + cpuSeconds(child.pid), 0);
   const wallStartMs = performance.now();
   const elapsedMs = await timeJobs(options, count, payload);
   const wallSeconds = (performance.now() - wallStartMs) / 1000;
   const cpuUsed = children.reduce((sum, child) => sum + cpuSeconds(child.pid), 0) - cpuBefore;
-  await Promise.all(children.map((child) => new Promise((resolve) => (child.once('exit', resolve), child.kill('SIGTERM')))));
+  await Promise.all(
+    children.map((child) => new Promise((resolve) => (child.once('exit', resolve), child.kill('SIGTERM')))),
+  );
   await cleanup(prefix, 'scaling');
   return { jobsPerSecond: (count * 1000) / elapsedMs, workerCpuCores: cpuUsed / wallSeconds };
 }
@@ -128,15 +171,29 @@ async function scalingRun(workers: number, processor: URL, count: number, payloa
  * Throughput with 1 vs 2 worker processes, alternating 1, 2, 1, 2, ... for ROUNDS rounds so that a
  * change in the machine's load hits both alike; the ratio is of the medians.
  */
-async function scaling(scenario: string, processor: URL, count: number, payload: (n: number) => unknown, extra: Record<string, unknown>): Promise<void> {
+async function scaling(
+  scenario: string,
+  processor: URL,
+  count: number,
+  payload: (n: number) => unknown,
+  extra: Record<string, unknown>,
+): Promise<void> {
   const ROUNDS = 3;
-  const runs = new Map<number, number[]>([[1, []], [2, []]]);
+  const runs = new Map<number, number[]>([
+    [1, []],
+    [2, []],
+  ]);
   for (let round = 0; round < ROUNDS; round += 1) {
     for (const workers of [1, 2]) {
       const run = await scalingRun(workers, processor, count, payload);
       runs.get(workers)?.push(run.jobsPerSecond);
       emit({
-        scenario, round, workerProcesses: workers, concurrencyEach: 1, jobs: count, ...extra,
+        scenario,
+        round,
+        workerProcesses: workers,
+        concurrencyEach: 1,
+        jobs: count,
+        ...extra,
         jobsPerSecond: +run.jobsPerSecond.toFixed(2),
         workerCpuCores: +run.workerCpuCores.toFixed(2),
       });
@@ -155,8 +212,18 @@ async function scaling(scenario: string, processor: URL, count: number, payload:
   });
 }
 
-emit({ scenario: 'environment', cores: cpus().length, loadAverage1m: +(loadavg()[0] ?? 0).toFixed(2), redisUrl: REDIS_URL });
+emit({
+  scenario: 'environment',
+  cores: cpus().length,
+  loadAverage1m: +(loadavg()[0] ?? 0).toFixed(2),
+  redisUrl: REDIS_URL,
+});
 await overhead();
 const iterations = await calibrateIterations();
-await scaling('scaling-numeric', COMPUTE, 100, (n) => ({ id: `job-${n}`, n, iterations }), { targetJobMs: TARGET_JOB_MS, iterations });
-await scaling('scaling-decay-fit', DECAY_FIT, 100, (n) => ({ seed: n + 1 }), { fit: '2-exponential reconvolution, 1024 channels, 2e5 photons' });
+await scaling('scaling-numeric', COMPUTE, 100, (n) => ({ id: `job-${n}`, n, iterations }), {
+  targetJobMs: TARGET_JOB_MS,
+  iterations,
+});
+await scaling('scaling-decay-fit', DECAY_FIT, 100, (n) => ({ seed: n + 1 }), {
+  fit: '2-exponential reconvolution, 1024 channels, 2e5 photons',
+});

@@ -1,7 +1,15 @@
 // An invented QC history for charts, digests and their tests and benchmark: daily runs of one control
 // (yield and lifetime, seeded normal noise, an optional upward shift), instrument checks (water Raman
 // SNR and peak error, IRF width), the flags the real rules raise on them, and an optional rebaseline.
-import { controlSchema, createSeededRandom, epochMsToIso, evaluateRuleStates, parseRuleSet, withControls, type RuleSet } from '../../src/qc/index.js';
+import {
+  controlSchema,
+  createSeededRandom,
+  epochMsToIso,
+  evaluateRuleStates,
+  parseRuleSet,
+  withControls,
+  type RuleSet,
+} from '../../src/qc/index.js';
 import { INSTRUMENT_SCOPE } from '../../src/qc/index.js';
 import type { Ledger } from '../../src/store/ledger.js';
 import { baselineRecords, recordFlags, recordObservation, saveBaseline } from '../../src/store/qc-store.js';
@@ -32,11 +40,19 @@ export interface HistoryOptions {
 }
 
 /** The control "teal" as the demo config defines it (examples/day/driftlight.yaml). */
-const TEAL_CONTROL = { id: 'teal', match: { sampleIdPattern: '^CTRL-teal' }, targets: { controlQuantumYield: { mean: 0.8, sd: 0.03 }, meanLifetimeNs: { mean: 4.1, sd: 0.1 } } };
+const TEAL_CONTROL = {
+  id: 'teal',
+  match: { sampleIdPattern: '^CTRL-teal' },
+  targets: { controlQuantumYield: { mean: 0.8, sd: 0.03 }, meanLifetimeNs: { mean: 4.1, sd: 0.1 } },
+};
 
 /** The rule set of TEAL_RULES_YAML with the demo config's control, as the pipeline merges them. */
 export function tealRuleSet(): RuleSet {
-  return withControls(parseRuleSet(TEAL_RULES_YAML, 'teal-rules.yaml'), [controlSchema.parse(TEAL_CONTROL)], 'controls');
+  return withControls(
+    parseRuleSet(TEAL_RULES_YAML, 'teal-rules.yaml'),
+    [controlSchema.parse(TEAL_CONTROL)],
+    'controls',
+  );
 }
 
 /** Writes the history into the ledger, evaluating the real rules run by run; returns the observations. */
@@ -48,15 +64,33 @@ export function seedQcHistory(ledger: Ledger, ruleSet: RuleSet, options: History
     const dayMs = endMs - (options.days - day) * 86_400_000;
     const shift = options.shiftFromDay !== undefined && day >= options.shiftFromDay ? (options.shiftSd ?? 2) : 0;
     const control: ControlObservation = {
-      controlId: 'teal', setId: `CTRL-teal-d${String(day).padStart(3, '0')}`, acquiredAt: epochMsToIso(dayMs + 8 * 3_600_000),
-      metrics: { controlQuantumYield: 0.8 + 0.03 * (shift + random.standardNormal()), meanLifetimeNs: 4.1 + 0.1 * random.standardNormal() + (options.rebaselineDay !== undefined && day >= options.rebaselineDay ? 0.3 : 0) },
+      controlId: 'teal',
+      setId: `CTRL-teal-d${String(day).padStart(3, '0')}`,
+      acquiredAt: epochMsToIso(dayMs + 8 * 3_600_000),
+      metrics: {
+        controlQuantumYield: 0.8 + 0.03 * (shift + random.standardNormal()),
+        meanLifetimeNs:
+          4.1 +
+          0.1 * random.standardNormal() +
+          (options.rebaselineDay !== undefined && day >= options.rebaselineDay ? 0.3 : 0),
+      },
     };
     const instrument: ControlObservation = {
-      controlId: INSTRUMENT_SCOPE, setId: `raman-d${String(day).padStart(3, '0')}`, acquiredAt: epochMsToIso(dayMs + 7 * 3_600_000),
-      metrics: { ramanSnr: 900 - 4 * day + 30 * random.standardNormal(), ramanPeakErrorNm: 0.1 * random.standardNormal(), irfWidthNs: 0.18 + 0.01 * random.standardNormal() },
+      controlId: INSTRUMENT_SCOPE,
+      setId: `raman-d${String(day).padStart(3, '0')}`,
+      acquiredAt: epochMsToIso(dayMs + 7 * 3_600_000),
+      metrics: {
+        ramanSnr: 900 - 4 * day + 30 * random.standardNormal(),
+        ramanPeakErrorNm: 0.1 * random.standardNormal(),
+        irfWidthNs: 0.18 + 0.01 * random.standardNormal(),
+      },
     };
     if (options.rebaselineDay === day) {
-      saveBaseline(ledger, { controlId: 'teal', metric: 'meanLifetimeNs', fromIso: control.acquiredAt }, control.acquiredAt);
+      saveBaseline(
+        ledger,
+        { controlId: 'teal', metric: 'meanLifetimeNs', fromIso: control.acquiredAt },
+        control.acquiredAt,
+      );
     }
     for (const observation of [instrument, control]) {
       recordObservation(ledger, observation);

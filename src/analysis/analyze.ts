@@ -7,9 +7,23 @@ import { ramanTest } from '../spectra/index.js';
 import { buildArtifacts } from './artifacts.js';
 import { fitSetDecay, type DecayStepOutcome } from './decay-step.js';
 import { absorbanceSummary, correctEmission, emissionMetrics, type CorrectedEmission } from './emission-step.js';
-import { decayOf, FAN_OUT_PARTS, parseInputs, spectrumOf, type MeasurementOrigin, type ParsedSet } from './parse-inputs.js';
+import {
+  decayOf,
+  FAN_OUT_PARTS,
+  parseInputs,
+  spectrumOf,
+  type MeasurementOrigin,
+  type ParsedSet,
+} from './parse-inputs.js';
 import type { AnalysisJobPayload, AnalysisOutput, MeasurementOutput, RejectedInput } from './payload.js';
-import { RESULT_SCHEMA, type AbsorbanceSummary, type AnalysisResult, type QuantumYieldSummary, type RamanSummary, type SetPart } from './result.js';
+import {
+  RESULT_SCHEMA,
+  type AbsorbanceSummary,
+  type AnalysisResult,
+  type QuantumYieldSummary,
+  type RamanSummary,
+  type SetPart,
+} from './result.js';
 import { attempt, createStepContext, markMissing, type StepContext } from './step-context.js';
 import { computeQuantumYield, computeRates } from './yield-step.js';
 
@@ -28,17 +42,25 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
   const { parsed, further } = parseInputs(payload, base, rejectedInputs);
   const taken = new Set<string>([payload.setId]);
   const furtherIds = further.map(({ input }) => measurementSetId(payload.setId, input.origin, taken));
-  const fanned = [...new Set(further.map((f) => f.part))].map((part) => parsed.get(part)).filter((input) => input !== undefined);
+  const fanned = [...new Set(further.map((f) => f.part))]
+    .map((part) => parsed.get(part))
+    .filter((input) => input !== undefined);
   for (const input of fanned) {
-    const others = further.flatMap((f, i) => (f.input.file === input.file ? [`${f.input.origin?.id ?? f.part} → ${furtherIds[i] as string}`] : []));
-    base.warnings.push(`${input.file.name} holds ${others.length + 1} measurements, each with a result of its own: ${input.origin?.id ?? input.file.name} → ${payload.setId}, ${others.join(', ')}`);
+    const others = further.flatMap((f, i) =>
+      f.input.file === input.file ? [`${f.input.origin?.id ?? f.part} → ${furtherIds[i] as string}`] : [],
+    );
+    base.warnings.push(
+      `${input.file.name} holds ${others.length + 1} measurements, each with a result of its own: ${input.origin?.id ?? input.file.name} → ${payload.setId}, ${others.join(', ')}`,
+    );
   }
   const primary = analyzeMeasurements(payload, parsed, copyContext(base), undefined);
   const measurements = further.map(({ part, input }, i) => {
     const own = new Map(parsed);
     own.set(part, input);
     const context = copyContext(base);
-    context.warnings.push(`QC rules judge the set's first measurement (${parsed.get(part)?.origin?.id ?? part}) only; this result is not judged`);
+    context.warnings.push(
+      `QC rules judge the set's first measurement (${parsed.get(part)?.origin?.id ?? part}) only; this result is not judged`,
+    );
     return analyzeMeasurements({ ...payload, setId: furtherIds[i] as string }, own, context, payload.setId);
   });
   return { ...primary, rejectedInputs, ...(measurements.length === 0 ? {} : { measurements }) };
@@ -46,7 +68,8 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
 
 /** A result id for a further measurement: the set id, a dot and the column name made id-safe (unique within the set). */
 export function measurementSetId(setId: string, origin: MeasurementOrigin | undefined, taken: Set<string>): string {
-  const slug = (origin?.column ?? '').replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '') || `m${(origin?.index ?? 0) + 1}`;
+  const slug =
+    (origin?.column ?? '').replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '') || `m${(origin?.index ?? 0) + 1}`;
   let id = `${setId}.${slug}`;
   for (let n = 2; taken.has(id); n++) id = `${setId}.${slug}-${n}`;
   taken.add(id);
@@ -54,17 +77,30 @@ export function measurementSetId(setId: string, origin: MeasurementOrigin | unde
 }
 
 function copyContext(context: StepContext): StepContext {
-  return { partial: context.partial, warnings: [...context.warnings], missing: [...context.missing], corrections: [...context.corrections] };
+  return {
+    partial: context.partial,
+    warnings: [...context.warnings],
+    missing: [...context.missing],
+    corrections: [...context.corrections],
+  };
 }
 
 /** The analysis of one choice of measurements (one per part); `ofSetId` is set for a further measurement's result. */
-function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['parsed'], context: StepContext, ofSetId: string | undefined): MeasurementOutput {
+function analyzeMeasurements(
+  payload: AnalysisJobPayload,
+  parsed: ParsedSet['parsed'],
+  context: StepContext,
+  ofSetId: string | undefined,
+): MeasurementOutput {
   const settings = payload.settings;
 
-  const emissionRaw = spectrumOf(parsed, 'emission', context) ?? (payload.role === 'raman' ? spectrumOf(parsed, 'raman', context) : undefined);
+  const emissionRaw =
+    spectrumOf(parsed, 'emission', context) ??
+    (payload.role === 'raman' ? spectrumOf(parsed, 'raman', context) : undefined);
   const decay = decayOf(parsed, 'decay', context);
   const primaryMetadata = emissionRaw?.metadata ?? decay?.metadata ?? firstMetadata(parsed);
-  const excitationNm = payload.sampleInfo.excitationNm ?? emissionRaw?.metadata.excitationNm ?? decay?.metadata.excitationNm;
+  const excitationNm =
+    payload.sampleInfo.excitationNm ?? emissionRaw?.metadata.excitationNm ?? decay?.metadata.excitationNm;
   const solvent = payload.sampleInfo.solvent ?? primaryMetadata?.solvent;
   const blank = spectrumOf(parsed, 'blank', context);
   const detectorCurve = spectrumOf(parsed, 'detector-curve', context);
@@ -74,17 +110,37 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
   let correctedEmission: Spectrum | undefined;
   let sampleCorrection: CorrectedEmission | undefined;
   if (emissionRaw !== undefined && payload.role !== 'raman') {
-    const done = correctEmission(emissionRaw, { ...(blank ? { blank } : {}), ...(detectorCurve ? { detectorCurve } : {}), ...(absorbance ? { absorbance } : {}), ...(excitationNm === undefined ? {} : { excitationNm }) }, settings, 'emission', context);
+    const done = correctEmission(
+      emissionRaw,
+      {
+        ...(blank ? { blank } : {}),
+        ...(detectorCurve ? { detectorCurve } : {}),
+        ...(absorbance ? { absorbance } : {}),
+        ...(excitationNm === undefined ? {} : { excitationNm }),
+      },
+      settings,
+      'emission',
+      context,
+    );
     correctedEmission = done.corrected;
     sampleCorrection = done;
   }
-  const emission = correctedEmission === undefined ? undefined : attempt(context, 'emission metrics', () => emissionMetrics(correctedEmission));
+  const emission =
+    correctedEmission === undefined
+      ? undefined
+      : attempt(context, 'emission metrics', () => emissionMetrics(correctedEmission));
   let absorbanceInfo: AbsorbanceSummary | undefined;
   if (absorbance !== undefined) {
-    if (excitationNm === undefined) markMissing(context, 'absorbance at excitation', 'the excitation wavelength is not given by the files or the manifest');
+    if (excitationNm === undefined)
+      markMissing(
+        context,
+        'absorbance at excitation',
+        'the excitation wavelength is not given by the files or the manifest',
+      );
     else {
       absorbanceInfo = absorbanceSummary(absorbance, excitationNm, settings.cuvette.pathLengthCm);
-      if (absorbanceInfo === undefined) markMissing(context, 'absorbance at excitation', `the absorbance spectrum does not cover ${excitationNm} nm`);
+      if (absorbanceInfo === undefined)
+        markMissing(context, 'absorbance at excitation', `the absorbance spectrum does not cover ${excitationNm} nm`);
     }
   }
 
@@ -107,7 +163,17 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
     let referenceCorrection: CorrectedEmission | undefined;
     if (refEmissionRaw !== undefined) {
       const refExcitationNm = refEmissionRaw.metadata.excitationNm ?? excitationNm;
-      const done = correctEmission(refEmissionRaw, { ...(detectorCurve ? { detectorCurve } : {}), ...(refAbsorbance ? { absorbance: refAbsorbance } : {}), ...(refExcitationNm === undefined ? {} : { excitationNm: refExcitationNm }) }, settings, 'reference-emission', context);
+      const done = correctEmission(
+        refEmissionRaw,
+        {
+          ...(detectorCurve ? { detectorCurve } : {}),
+          ...(refAbsorbance ? { absorbance: refAbsorbance } : {}),
+          ...(refExcitationNm === undefined ? {} : { excitationNm: refExcitationNm }),
+        },
+        settings,
+        'reference-emission',
+        context,
+      );
       referenceCorrection = done;
       referenceEmissionMetrics = attempt(context, 'reference emission metrics', () => emissionMetrics(done.corrected));
       if (refAbsorbance !== undefined && refExcitationNm !== undefined) {
@@ -115,37 +181,76 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
       }
     }
     const refusedCorrection = [
-      ...(sampleCorrection?.refused ?? []).map((r) => `the ${r.name} correction of the sample emission was refused (${r.reason})`),
-      ...(referenceCorrection?.refused ?? []).map((r) => `the ${r.name} correction of the reference emission was refused (${r.reason})`),
+      ...(sampleCorrection?.refused ?? []).map(
+        (r) => `the ${r.name} correction of the sample emission was refused (${r.reason})`,
+      ),
+      ...(referenceCorrection?.refused ?? []).map(
+        (r) => `the ${r.name} correction of the reference emission was refused (${r.reason})`,
+      ),
     ][0];
     const why =
-      sampleCorrection === undefined ? 'no sample emission spectrum'
-        : absorbanceInfo === undefined ? 'no sample absorbance at the excitation wavelength'
-          : referenceCorrection === undefined ? 'no reference-standard emission in the set or paired within the window'
-            : referenceAbsorbanceInfo === undefined ? 'no reference-standard absorbance at its excitation wavelength'
-              : standardId === undefined ? 'the reference standard is not named (references[].standardId or the manifest standardId)'
+      sampleCorrection === undefined
+        ? 'no sample emission spectrum'
+        : absorbanceInfo === undefined
+          ? 'no sample absorbance at the excitation wavelength'
+          : referenceCorrection === undefined
+            ? 'no reference-standard emission in the set or paired within the window'
+            : referenceAbsorbanceInfo === undefined
+              ? 'no reference-standard absorbance at its excitation wavelength'
+              : standardId === undefined
+                ? 'the reference standard is not named (references[].standardId or the manifest standardId)'
                 : undefined;
     if (why !== undefined) markMissing(context, 'quantumYield', why, false);
-    else if (refusedCorrection !== undefined) markMissing(context, 'quantumYield', `not computed: ${refusedCorrection}; a yield from uncorrected data would be wrong`);
-    else if (sampleCorrection !== undefined && absorbanceInfo !== undefined && referenceCorrection !== undefined && referenceAbsorbanceInfo !== undefined && standardId !== undefined) {
+    else if (refusedCorrection !== undefined)
+      markMissing(
+        context,
+        'quantumYield',
+        `not computed: ${refusedCorrection}; a yield from uncorrected data would be wrong`,
+      );
+    else if (
+      sampleCorrection !== undefined &&
+      absorbanceInfo !== undefined &&
+      referenceCorrection !== undefined &&
+      referenceAbsorbanceInfo !== undefined &&
+      standardId !== undefined
+    ) {
       const inputs = {
-        sampleEmission: sampleCorrection.corrected, sampleCorrections: sampleCorrection.applied, sampleAbsorbance: absorbanceInfo, sampleSolvent: solvent,
-        referenceEmission: referenceCorrection.corrected, referenceCorrections: referenceCorrection.applied, referenceAbsorbance: referenceAbsorbanceInfo,
-        standardId, referenceSetId: refFile?.pairedFromSetId, excitationNm,
+        sampleEmission: sampleCorrection.corrected,
+        sampleCorrections: sampleCorrection.applied,
+        sampleAbsorbance: absorbanceInfo,
+        sampleSolvent: solvent,
+        referenceEmission: referenceCorrection.corrected,
+        referenceCorrections: referenceCorrection.applied,
+        referenceAbsorbance: referenceAbsorbanceInfo,
+        standardId,
+        referenceSetId: refFile?.pairedFromSetId,
+        excitationNm,
       };
       quantumYield = attempt(context, 'quantumYield', () => computeQuantumYield(inputs, settings, context));
     }
   }
   let rates: AnalysisResult['rates'];
   if (quantumYield !== undefined && decayOutcome !== undefined && !decayOutcome.fit.acceptable) {
-    markMissing(context, 'rates', `the lifetime fit is not acceptable: ${decayOutcome.fit.unacceptableReasons.join('; ')}`, false);
+    markMissing(
+      context,
+      'rates',
+      `the lifetime fit is not acceptable: ${decayOutcome.fit.unacceptableReasons.join('; ')}`,
+      false,
+    );
   } else if (quantumYield !== undefined && decayOutcome !== undefined) {
     const q = quantumYield;
     const tauNs = decayOutcome.summary.tauMeanIntensityNs;
     rates = attempt(context, 'rates', () => computeRates(q, tauNs));
   } else if (SAMPLE_ROLES.has(payload.role)) {
     const yieldReason = context.missing.find((m) => m.what === 'quantumYield')?.reason;
-    markMissing(context, 'rates', quantumYield === undefined ? `no quantum yield${yieldReason === undefined ? '' : ` (${yieldReason})`}` : 'no lifetime', false);
+    markMissing(
+      context,
+      'rates',
+      quantumYield === undefined
+        ? `no quantum yield${yieldReason === undefined ? '' : ` (${yieldReason})`}`
+        : 'no lifetime',
+      false,
+    );
   }
 
   // Raman sensitivity (raman sets).
@@ -159,8 +264,17 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
     });
   }
 
-  const fitColumns = decayOutcome === undefined || decay === undefined ? undefined : fitColumnsOf(decayOutcome, decay.counts.length);
-  const artifacts = buildArtifacts(payload.setId, { ...(correctedEmission ? { correctedEmission } : {}), ...(decay ? { decay } : {}), ...(fitColumns ? { fitColumns } : {}) }, context);
+  const fitColumns =
+    decayOutcome === undefined || decay === undefined ? undefined : fitColumnsOf(decayOutcome, decay.counts.length);
+  const artifacts = buildArtifacts(
+    payload.setId,
+    {
+      ...(correctedEmission ? { correctedEmission } : {}),
+      ...(decay ? { decay } : {}),
+      ...(fitColumns ? { fitColumns } : {}),
+    },
+    context,
+  );
   for (const w of quantumYield?.warnings ?? []) context.warnings.push(`quantum yield: ${w}`);
 
   const acquisition = acquisitionOfSet(payload, primaryMetadata?.acquiredAt, context.warnings);
@@ -173,7 +287,18 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
     ...(acquisition === undefined ? {} : { acquiredAt: acquisition.acquiredAt }),
     ...(solvent === undefined ? {} : { solvent }),
     ...(excitationNm === undefined ? {} : { excitationNm }),
-    ...(measurement === undefined ? {} : { measurement: { id: measurement.origin.id, column: measurement.origin.column, part: measurement.part, index: measurement.origin.index, of: measurement.origin.count, ...(ofSetId === undefined ? {} : { setId: ofSetId }) } }),
+    ...(measurement === undefined
+      ? {}
+      : {
+          measurement: {
+            id: measurement.origin.id,
+            column: measurement.origin.column,
+            part: measurement.part,
+            index: measurement.origin.index,
+            of: measurement.origin.count,
+            ...(ofSetId === undefined ? {} : { setId: ofSetId }),
+          },
+        }),
     partial: context.partial,
     missing: context.missing,
     spectra: {
@@ -191,7 +316,11 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
     qc: { flags: [] },
     provenance: {
       inputs: payload.files.map((f) => ({
-        file: f.name, sha256: f.sha256, part: f.part, role: f.role, origin: f.origin,
+        file: f.name,
+        sha256: f.sha256,
+        part: f.part,
+        role: f.role,
+        origin: f.origin,
         ...(f.pairedFromSetId === undefined ? {} : { pairedFromSetId: f.pairedFromSetId }),
       })),
       configHash: payload.configHash,
@@ -206,7 +335,11 @@ function analyzeMeasurements(payload: AnalysisJobPayload, parsed: ParsedSet['par
 }
 
 /** The set's acquisition time: as read at intake (payload), else the first input's metadata read by readAcquisitionTime (ISO 8601 and unambiguous spellings); a refused one is left out with a warning. */
-function acquisitionOfSet(payload: AnalysisJobPayload, metadataText: string | undefined, warnings: string[]): AnalysisJobPayload['acquisition'] {
+function acquisitionOfSet(
+  payload: AnalysisJobPayload,
+  metadataText: string | undefined,
+  warnings: string[],
+): AnalysisJobPayload['acquisition'] {
   if (payload.acquisition !== undefined) return payload.acquisition;
   if (metadataText === undefined) return undefined;
   const reading = readAcquisitionTime(metadataText);
@@ -225,12 +358,16 @@ function fannedMeasurementOf(parsed: ParsedSet['parsed']): { part: SetPart; orig
 }
 
 function firstMetadata(parsed: ParsedSet['parsed']): { acquiredAt?: string; solvent?: string } | undefined {
-  for (const input of parsed.values()) return input.type === 'spectrum' ? input.spectrum.metadata : input.decay.metadata;
+  for (const input of parsed.values())
+    return input.type === 'spectrum' ? input.spectrum.metadata : input.decay.metadata;
   return undefined;
 }
 
 /** The fitted model and residuals as full-length columns (0 outside the fit range). */
-function fitColumnsOf(outcome: DecayStepOutcome, channels: number): Readonly<Record<string, ArrayLike<number>>> | undefined {
+function fitColumnsOf(
+  outcome: DecayStepOutcome,
+  channels: number,
+): Readonly<Record<string, ArrayLike<number>>> | undefined {
   const [first, end] = outcome.fit.rangeChannels;
   if (end - first !== outcome.fit.fittedCounts.length || end > channels) return undefined;
   const fit = new Float64Array(channels);

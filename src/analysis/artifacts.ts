@@ -24,7 +24,10 @@ export function buildArtifacts(
   context: StepContext,
 ): AnalysisArtifact[] {
   const artifacts: AnalysisArtifact[] = [];
-  const emission = parts.correctedEmission === undefined ? undefined : withValues(parts.correctedEmission, readableValues(parts.correctedEmission.values));
+  const emission =
+    parts.correctedEmission === undefined
+      ? undefined
+      : withValues(parts.correctedEmission, readableValues(parts.correctedEmission.values));
   if (emission !== undefined) {
     const csv = attempt(context, 'outbox: corrected emission CSV', () => writeSpectrumCsv(emission));
     if (csv !== undefined) artifacts.push({ name: `${setId}.emission.corrected.csv`, content: csv });
@@ -33,7 +36,10 @@ export function buildArtifacts(
   }
   const decay = parts.decay;
   if (decay !== undefined) {
-    const fitColumns = parts.fitColumns === undefined ? undefined : Object.fromEntries(Object.entries(parts.fitColumns).map(([name, column]) => [name, readableValues(column)]));
+    const fitColumns =
+      parts.fitColumns === undefined
+        ? undefined
+        : Object.fromEntries(Object.entries(parts.fitColumns).map(([name, column]) => [name, readableValues(column)]));
     const csv = attempt(context, 'outbox: fitted decay CSV', () => writeDecayCsv(decay, fitColumns));
     if (csv !== undefined) artifacts.push({ name: `${setId}.decay.fit.csv`, content: csv });
   }

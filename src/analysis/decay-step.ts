@@ -14,7 +14,12 @@ export interface DecayStepOutcome {
 }
 
 /** Chooses the IRF, fits, and summarises; throws what fitDecay throws. */
-export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: AnalysisSettings, context: StepContext): DecayStepOutcome {
+export function fitSetDecay(
+  decay: Decay,
+  irf: Decay | undefined,
+  settings: AnalysisSettings,
+  context: StepContext,
+): DecayStepOutcome {
   let irfCounts: ArrayLike<number> | undefined;
   let irfSource: DecayFitSummary['irfSource'] = 'none';
   if (decay.irfCounts !== undefined) {
@@ -23,7 +28,10 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
   } else if (irf !== undefined) {
     // The IRF file's own time axis places it on the decay's channels (resampled, offset applied) or refuses it.
     try {
-      const aligned = alignIrfToDecay({ timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs }, decay);
+      const aligned = alignIrfToDecay(
+        { timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs },
+        decay,
+      );
       irfCounts = aligned.counts;
       irfSource = 'irf-file';
       if (aligned.note !== undefined) context.warnings.push(aligned.note);
@@ -50,7 +58,9 @@ export function fitSetDecay(decay: Decay, irf: Decay | undefined, settings: Anal
       components: fit.components.map((c) => ({
         tauNs: c.tauNs,
         ...(c.tauNsStdErr === undefined || !Number.isFinite(c.tauNsStdErr) ? {} : { tauNsStdErr: c.tauNsStdErr }),
-        ...(c.tauNsStdErrFromIrf === undefined || !Number.isFinite(c.tauNsStdErrFromIrf) ? {} : { tauNsStdErrFromIrf: c.tauNsStdErrFromIrf }),
+        ...(c.tauNsStdErrFromIrf === undefined || !Number.isFinite(c.tauNsStdErrFromIrf)
+          ? {}
+          : { tauNsStdErrFromIrf: c.tauNsStdErrFromIrf }),
         amplitude: c.amplitude,
         amplitudeFraction: c.amplitudeFraction,
         intensityFraction: c.intensityFraction,

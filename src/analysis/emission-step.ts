@@ -23,7 +23,13 @@ export interface CorrectedEmission {
 }
 
 function record(context: StepContext, target: AppliedCorrection['target'], result: CorrectionResult): Spectrum {
-  context.corrections.push({ name: result.record.name, target, inputs: result.record.inputs, parameters: result.record.parameters, warnings: result.record.warnings });
+  context.corrections.push({
+    name: result.record.name,
+    target,
+    inputs: result.record.inputs,
+    parameters: result.record.parameters,
+    warnings: result.record.warnings,
+  });
   for (const warning of result.record.warnings) context.warnings.push(`${result.record.name} (${target}): ${warning}`);
   return result.spectrum;
 }
@@ -65,7 +71,16 @@ export function correctEmission(
     }
   }
   if (detectorCurve !== undefined) {
-    const done = tryCorrection(context, target, 'applyDetectorCorrection', () => applyDetectorCorrection(spectrum, detectorCurve, { curveMeaning: settings.detectorCurveMeaning ?? 'from-header' }), refused);
+    const done = tryCorrection(
+      context,
+      target,
+      'applyDetectorCorrection',
+      () =>
+        applyDetectorCorrection(spectrum, detectorCurve, {
+          curveMeaning: settings.detectorCurveMeaning ?? 'from-header',
+        }),
+      refused,
+    );
     if (done !== undefined) {
       spectrum = record(context, target, done);
       applied.push(done.record.name);
@@ -73,13 +88,17 @@ export function correctEmission(
   }
   if (absorbance !== undefined && settings.innerFilter !== 'none') {
     const method = settings.innerFilter;
-    const done = tryCorrection(context, target, 'correctInnerFilter', () =>
-      correctInnerFilter(spectrum, absorbance, {
-        method,
-        ...(inputs.excitationNm === undefined ? {} : { excitationNm: inputs.excitationNm }),
-        cellPathCm: settings.cuvette.pathLengthCm,
-        excitationZoneCm: [settings.cuvette.excitationWindowStartCm, settings.cuvette.excitationWindowEndCm],
-      }),
+    const done = tryCorrection(
+      context,
+      target,
+      'correctInnerFilter',
+      () =>
+        correctInnerFilter(spectrum, absorbance, {
+          method,
+          ...(inputs.excitationNm === undefined ? {} : { excitationNm: inputs.excitationNm }),
+          cellPathCm: settings.cuvette.pathLengthCm,
+          excitationZoneCm: [settings.cuvette.excitationWindowStartCm, settings.cuvette.excitationWindowEndCm],
+        }),
       refused,
     );
     if (done !== undefined) {
@@ -105,11 +124,19 @@ export function emissionMetrics(spectrum: Spectrum): EmissionMetrics {
 }
 
 /** Absorbance per cm at the excitation wavelength and the absorbance maximum; undefined when the axis misses the excitation. */
-export function absorbanceSummary(absorbance: Spectrum, excitationNm: number, fallbackPathLengthCm: number): AbsorbanceSummary | undefined {
+export function absorbanceSummary(
+  absorbance: Spectrum,
+  excitationNm: number,
+  fallbackPathLengthCm: number,
+): AbsorbanceSummary | undefined {
   const pathCm = absorbance.metadata.pathLengthCm ?? fallbackPathLengthCm;
-  const values = absorbance.kind === 'transmittance'
-    ? absorbance.values.map((t) => -Math.log10(absorbance.valueUnit.includes('percent') || absorbance.valueUnit.includes('%') ? t / 100 : t))
-    : absorbance.values;
+  const values =
+    absorbance.kind === 'transmittance'
+      ? absorbance.values.map(
+          (t) =>
+            -Math.log10(absorbance.valueUnit.includes('percent') || absorbance.valueUnit.includes('%') ? t / 100 : t),
+        )
+      : absorbance.values;
   const atExcitation = interpolateAt(absorbance.wavelengthNm, values, excitationNm);
   if (atExcitation === undefined) return undefined;
   let peakIndex = 0;

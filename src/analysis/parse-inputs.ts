@@ -35,9 +35,16 @@ export interface ParsedSet {
 }
 
 const KIND_HINT: Readonly<Record<SetPart, SpectrumKind | 'decay'>> = {
-  emission: 'emission', excitation: 'excitation', absorbance: 'absorbance', decay: 'decay', irf: 'decay',
-  blank: 'blank', 'reference-emission': 'emission', 'reference-absorbance': 'absorbance',
-  'detector-curve': 'detector-correction', raman: 'emission',
+  emission: 'emission',
+  excitation: 'excitation',
+  absorbance: 'absorbance',
+  decay: 'decay',
+  irf: 'decay',
+  blank: 'blank',
+  'reference-emission': 'emission',
+  'reference-absorbance': 'absorbance',
+  'detector-curve': 'detector-correction',
+  raman: 'emission',
 };
 
 const encoder = new TextEncoder();
@@ -45,7 +52,9 @@ const encoder = new TextEncoder();
 /** Reads every measurement of one payload file, or throws InputRejected (file, line, hint). */
 function readInput(file: PayloadFile, settings: AnalysisJobPayload['settings']): ParsedData[] {
   return readMeasurements(encoder.encode(file.content), {
-    fileName: file.name, maxBytes: settings.maxFileBytes, kindHint: KIND_HINT[file.part],
+    fileName: file.name,
+    maxBytes: settings.maxFileBytes,
+    kindHint: KIND_HINT[file.part],
     ...(settings.formatProfiles === undefined ? {} : { profiles: settings.formatProfiles }),
   });
 }
@@ -56,7 +65,11 @@ function readInput(file: PayloadFile, settings: AnalysisJobPayload['settings']):
  * of a FAN_OUT_PARTS part holding several measurements gives its first in `parsed` and the others in
  * `further` (each becomes its own result); for other parts the first is used and the others are named.
  */
-export function parseInputs(payload: AnalysisJobPayload, context: StepContext, rejected: RejectedInput[] = []): ParsedSet {
+export function parseInputs(
+  payload: AnalysisJobPayload,
+  context: StepContext,
+  rejected: RejectedInput[] = [],
+): ParsedSet {
   const parsed = new Map<SetPart, ParsedInput>();
   const further: { part: SetPart; input: ParsedInput }[] = [];
   for (const file of payload.files) {
@@ -70,13 +83,23 @@ export function parseInputs(payload: AnalysisJobPayload, context: StepContext, r
     } catch (error) {
       markMissing(context, file.part, reasonOf(error));
       if (error instanceof InputRejected && file.origin === 'own') {
-        rejected.push({ name: file.name, sha256: file.sha256, code: error.code, message: error.message, hint: error.hint, ...(error.line === undefined ? {} : { line: error.line }) });
+        rejected.push({
+          name: file.name,
+          sha256: file.sha256,
+          code: error.code,
+          message: error.message,
+          hint: error.hint,
+          ...(error.line === undefined ? {} : { line: error.line }),
+        });
       }
       continue;
     }
     const inputs = all.map((data, index): ParsedInput => {
-      const origin = all.length > 1 ? { origin: { id: data.id, column: data.layout.valueColumn, index, count: all.length } } : {};
-      return data.type === 'spectrum' ? { file, type: 'spectrum', spectrum: data.spectrum, ...origin } : { file, type: 'decay', decay: data.decay, ...origin };
+      const origin =
+        all.length > 1 ? { origin: { id: data.id, column: data.layout.valueColumn, index, count: all.length } } : {};
+      return data.type === 'spectrum'
+        ? { file, type: 'spectrum', spectrum: data.spectrum, ...origin }
+        : { file, type: 'decay', decay: data.decay, ...origin };
     });
     parsed.set(file.part, inputs[0] as ParsedInput);
     if (all.length > 1 && FAN_OUT_PARTS.includes(file.part)) {
@@ -85,14 +108,23 @@ export function parseInputs(payload: AnalysisJobPayload, context: StepContext, r
       // A supporting part (absorbance, blank, IRF, reference, detector curve) has one role in the set:
       // the first measurement serves it; the others are named here so none is passed over unseen.
       const first = all[0] as ParsedData;
-      context.warnings.push(`${file.name} holds ${all.length} measurements (${all.map((measurement) => measurement.layout.valueColumn).join(', ')}); as the set's ${file.part} it serves with "${first.layout.valueColumn}" (${first.id}); not used: ${all.slice(1).map((measurement) => measurement.id).join(', ')}`);
+      context.warnings.push(
+        `${file.name} holds ${all.length} measurements (${all.map((measurement) => measurement.layout.valueColumn).join(', ')}); as the set's ${file.part} it serves with "${first.layout.valueColumn}" (${first.id}); not used: ${all
+          .slice(1)
+          .map((measurement) => measurement.id)
+          .join(', ')}`,
+      );
     }
   }
   return { parsed, further };
 }
 
 /** The spectrum of `part`, or undefined (recording a missing item when the part is a decay). */
-export function spectrumOf(parsed: Map<SetPart, ParsedInput>, part: SetPart, context: StepContext): Spectrum | undefined {
+export function spectrumOf(
+  parsed: Map<SetPart, ParsedInput>,
+  part: SetPart,
+  context: StepContext,
+): Spectrum | undefined {
   const input = parsed.get(part);
   if (input === undefined) return undefined;
   if (input.type !== 'spectrum') {

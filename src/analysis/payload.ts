@@ -26,7 +26,11 @@ export interface AnalysisSettings {
   /** Refractive index by solvent name (overrides the built-in table). */
   readonly refractiveIndex: Readonly<Record<string, number>>;
   readonly defaultRefractiveIndex: number;
-  readonly cuvette: { readonly pathLengthCm: number; readonly excitationWindowStartCm: number; readonly excitationWindowEndCm: number };
+  readonly cuvette: {
+    readonly pathLengthCm: number;
+    readonly excitationWindowStartCm: number;
+    readonly excitationWindowEndCm: number;
+  };
   readonly maxFileBytes: number;
   /** Fit a scatter term (a fraction of the IRF) in lifetime fits (config analysis.scatter); default false. */
   readonly scatter?: boolean;

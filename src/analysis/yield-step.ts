@@ -4,7 +4,14 @@
 // the `yield` command (photophysics/yield-from-spectra.ts).
 import { AnalysisFailed } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { findSolvent, findStandard, quantumYieldFromSpectra, rateConstantsFromYield, standardUncertaintyBasis, standardWarnings } from '../photophysics/index.js';
+import {
+  findSolvent,
+  findStandard,
+  quantumYieldFromSpectra,
+  rateConstantsFromYield,
+  standardUncertaintyBasis,
+  standardWarnings,
+} from '../photophysics/index.js';
 import { defaultIntegrationWindow } from '../spectra/index.js';
 import type { AnalysisSettings } from './payload.js';
 import type { AbsorbanceSummary, QuantumYieldSummary, RateConstantsSummary } from './result.js';
@@ -28,14 +35,20 @@ export interface YieldInputs {
 }
 
 /** The refractive index of a solvent: the config map, the built-in table, else the default (with a warning). */
-export function refractiveIndexFor(solvent: string | undefined, settings: AnalysisSettings, context: StepContext): number {
+export function refractiveIndexFor(
+  solvent: string | undefined,
+  settings: AnalysisSettings,
+  context: StepContext,
+): number {
   if (solvent !== undefined) {
     const configured = settings.refractiveIndex[solvent];
     if (configured !== undefined) return configured;
     const row = findSolvent(solvent);
     if (row !== undefined) return row.refractiveIndex;
   }
-  context.warnings.push(`no refractive index for solvent "${solvent ?? 'unknown'}": used ${settings.defaultRefractiveIndex}`);
+  context.warnings.push(
+    `no refractive index for solvent "${solvent ?? 'unknown'}": used ${settings.defaultRefractiveIndex}`,
+  );
   return settings.defaultRefractiveIndex;
 }
 
@@ -48,7 +61,11 @@ const isInnerFilter = (name: string): boolean => name.startsWith('correctInnerFi
  * Throws AnalysisFailed when sample and reference were not corrected alike, and what quantumYieldFromSpectra throws
  * (band not back to baseline with bandEdgeAction 'refuse', Φ above 1 by more than 3 u).
  */
-export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSettings, context: StepContext): QuantumYieldSummary {
+export function computeQuantumYield(
+  inputs: YieldInputs,
+  settings: AnalysisSettings,
+  context: StepContext,
+): QuantumYieldSummary {
   const sampleInner = inputs.sampleCorrections.some(isInnerFilter);
   const referenceInner = inputs.referenceCorrections.some(isInnerFilter);
   if (sampleInner !== referenceInner) {
@@ -60,13 +77,23 @@ export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSetti
   const configured = settings.reference;
   const standard = findStandard(inputs.standardId);
   const referenceYield = configured?.quantumYield ?? standard.quantumYield;
-  const referenceYieldU = configured?.quantumYieldStdUncertainty === undefined
-    ? { value: standard.standardUncertainty, basis: standardUncertaintyBasis(standard) }
-    : { value: configured.quantumYieldStdUncertainty, basis: 'stated in the config (references[].quantumYieldStdUncertainty)' };
+  const referenceYieldU =
+    configured?.quantumYieldStdUncertainty === undefined
+      ? { value: standard.standardUncertainty, basis: standardUncertaintyBasis(standard) }
+      : {
+          value: configured.quantumYieldStdUncertainty,
+          basis: 'stated in the config (references[].quantumYieldStdUncertainty)',
+        };
   const referenceN = configured?.refractiveIndex ?? standard.refractiveIndex;
   const sampleN = refractiveIndexFor(inputs.sampleSolvent, settings, context);
   const windowSettings = { ...WINDOW_DEFAULTS, ...settings.yieldWindow };
-  const windowNm = windowSettings.windowNm ?? defaultIntegrationWindow([inputs.sampleEmission, inputs.referenceEmission], inputs.excitationNm, windowSettings.scatterExclusionNm);
+  const windowNm =
+    windowSettings.windowNm ??
+    defaultIntegrationWindow(
+      [inputs.sampleEmission, inputs.referenceEmission],
+      inputs.excitationNm,
+      windowSettings.scatterExclusionNm,
+    );
   const warnings = standardWarnings(standard, inputs.referenceAbsorbance.excitationNm);
   const lightAbsorbed = sampleInner ? 'absorbance' : 'absorptance';
   const qy = quantumYieldFromSpectra({
@@ -115,6 +142,15 @@ export function computeQuantumYield(inputs: YieldInputs, settings: AnalysisSetti
 /** k_r, k_nr, τ0 from Φ and the intensity-weighted mean τ (Birks 1976); a Φ above 1 within its uncertainty enters as 1. */
 export function computeRates(quantumYield: QuantumYieldSummary, tauNs: number): RateConstantsSummary {
   const phi = Math.min(quantumYield.value, 1);
-  const rates = rateConstantsFromYield({ quantumYield: phi, tauNs, quantumYieldUncertainty: quantumYield.standardUncertainty });
-  return { krPerS: rates.krPerS, knrPerS: rates.knrPerS, tau0Ns: rates.tau0Ns, totalDecayRatePerS: rates.totalDecayRatePerS };
+  const rates = rateConstantsFromYield({
+    quantumYield: phi,
+    tauNs,
+    quantumYieldUncertainty: quantumYield.standardUncertainty,
+  });
+  return {
+    krPerS: rates.krPerS,
+    knrPerS: rates.knrPerS,
+    tau0Ns: rates.tau0Ns,
+    totalDecayRatePerS: rates.totalDecayRatePerS,
+  };
 }

@@ -23,7 +23,8 @@ interface ChartOptions {
 }
 
 function parseMetric(text: string): MetricName {
-  if (!(METRIC_NAMES as readonly string[]).includes(text)) throw new InvalidArgumentError(`expected one of ${METRIC_NAMES.join(', ')}`);
+  if (!(METRIC_NAMES as readonly string[]).includes(text))
+    throw new InvalidArgumentError(`expected one of ${METRIC_NAMES.join(', ')}`);
   return text as MetricName;
 }
 
@@ -40,9 +41,13 @@ export async function runChart(controlId: string, options: ChartOptions, now: Da
   try {
     selectControls(ruleSet, controlId);
   } catch (error) {
-    throw new ConfigInvalid(error instanceof Error ? error.message : String(error), { configPath: 'controls', hint: 'Name a control defined under controls: in the config or in the rule set.' });
+    throw new ConfigInvalid(error instanceof Error ? error.message : String(error), {
+      configPath: 'controls',
+      hint: 'Name a control defined under controls: in the config or in the rule set.',
+    });
   }
-  if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME))) return `no ledger yet in ${config.folders.state} (nothing processed)\n`;
+  if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME)))
+    return `no ledger yet in ${config.folders.state} (nothing processed)\n`;
   const ledger = openLedger(config.folders.state);
   try {
     const sinceEpochMs = options.days === undefined ? undefined : now.getTime() - options.days * 86_400_000;
@@ -55,13 +60,20 @@ export async function runChart(controlId: string, options: ChartOptions, now: Da
     if (options.out === undefined) return charts.map(controlChartText).join('\n');
     const figures = await Promise.all(charts.map(controlChartFigure));
     if (options.out.toLowerCase().endsWith('.svg')) {
-      if (figures.length > 1) throw new ConfigInvalid(`control ${controlId} has ${figures.length} metrics; an SVG file holds one chart`, { hint: 'Add --metric NAME, or write --out FILE.html for all of them.' });
+      if (figures.length > 1)
+        throw new ConfigInvalid(`control ${controlId} has ${figures.length} metrics; an SVG file holds one chart`, {
+          hint: 'Add --metric NAME, or write --out FILE.html for all of them.',
+        });
       writeFileAtomic(options.out, `${figures[0]?.svg ?? ''}\n`, { durable: false });
     } else if (options.out.toLowerCase().endsWith('.html')) {
       const title = `Control charts: ${controlId}`;
-      writeFileAtomic(options.out, standalonePage(title, `<h1>${title}</h1>\n${figures.map(figureHtml).join('\n')}`), { durable: false });
+      writeFileAtomic(options.out, standalonePage(title, `<h1>${title}</h1>\n${figures.map(figureHtml).join('\n')}`), {
+        durable: false,
+      });
     } else {
-      throw new ConfigInvalid(`--out ${options.out}: expected a file name ending in .svg or .html`, { hint: 'Write --out chart.svg or --out chart.html.' });
+      throw new ConfigInvalid(`--out ${options.out}: expected a file name ending in .svg or .html`, {
+        hint: 'Write --out chart.svg or --out chart.html.',
+      });
     }
     return `wrote ${options.out} (${figures.length} chart${figures.length === 1 ? '' : 's'})\n`;
   } finally {
@@ -71,9 +83,19 @@ export async function runChart(controlId: string, options: ChartOptions, now: Da
 
 export const chartCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(program.command('chart').argument('<control>', 'control id (from controls: in the config or the rule set)')
-      .description('control chart of a control: values with baseline mean ±1/2/3 SD, EWMA and CUSUM, flags, exclusions, rebaselines'))
-      .option('--metric <name>', `one metric (${METRIC_NAMES.join(', ')}); default every metric the control has`, parseMetric)
+    withConfigOption(
+      program
+        .command('chart')
+        .argument('<control>', 'control id (from controls: in the config or the rule set)')
+        .description(
+          'control chart of a control: values with baseline mean ±1/2/3 SD, EWMA and CUSUM, flags, exclusions, rebaselines',
+        ),
+    )
+      .option(
+        '--metric <name>',
+        `one metric (${METRIC_NAMES.join(', ')}); default every metric the control has`,
+        parseMetric,
+      )
       .option('--days <n>', 'only the last N days (statistics still use the whole history)', parseDays)
       .option('--out <file>', 'write an SVG (one metric) or a self-contained HTML page instead of text')
       .action(async (control: string, options: ChartOptions) => {

@@ -19,4 +19,23 @@ import { exportCommand } from './export.js';
 import { digestCommand } from './digest.js';
 import { serveCommand } from './serve.js';
 
-export const COMMANDS: readonly CommandModule[] = [watchCommand, processCommand, statusCommand, configCommand, demoCommand, reprocessCommand, workerCommand, correctCommand, yieldCommand, ratesCommand, quenchCommand, inspectCommand, rulesCommand, fitDecayCommand, chartCommand, exportCommand, digestCommand, serveCommand];
+export const COMMANDS: readonly CommandModule[] = [
+  watchCommand,
+  processCommand,
+  statusCommand,
+  configCommand,
+  demoCommand,
+  reprocessCommand,
+  workerCommand,
+  correctCommand,
+  yieldCommand,
+  ratesCommand,
+  quenchCommand,
+  inspectCommand,
+  rulesCommand,
+  fitDecayCommand,
+  chartCommand,
+  exportCommand,
+  digestCommand,
+  serveCommand,
+];

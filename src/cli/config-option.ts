@@ -11,7 +11,10 @@ export interface ConfigCliOptions {
 
 /** Adds `-c, --config <file>` to a command. */
 export function withConfigOption(command: Command): Command {
-  return command.option('-c, --config <file>', 'config file (default: ./driftlight.yaml, or built-in defaults when absent)');
+  return command.option(
+    '-c, --config <file>',
+    'config file (default: ./driftlight.yaml, or built-in defaults when absent)',
+  );
 }
 
 /** The environment variable a Redis URL (with its password) may be given in instead of the command line, where `ps` shows it. */
@@ -25,10 +28,14 @@ const REDIS_URL = /^rediss?:\/\/\S+$/;
  * `--redis env` from $DRIFTLIGHT_REDIS_URL, so that no password shows in `ps`.
  */
 export function withRedisOption(command: Command): Command {
-  return command.option('--redis <url>', `queue jobs in Redis (BullMQ) at this URL (or @FILE: read it from FILE; env: from $${REDIS_URL_ENV}); overrides queue.backend and queue.redisUrl`, (text: string) => {
-    if (text === 'env' || text.startsWith('@') || REDIS_URL.test(text)) return text;
-    throw new InvalidArgumentError(`expected a redis:// or rediss:// URL, @FILE or env`);
-  });
+  return command.option(
+    '--redis <url>',
+    `queue jobs in Redis (BullMQ) at this URL (or @FILE: read it from FILE; env: from $${REDIS_URL_ENV}); overrides queue.backend and queue.redisUrl`,
+    (text: string) => {
+      if (text === 'env' || text.startsWith('@') || REDIS_URL.test(text)) return text;
+      throw new InvalidArgumentError(`expected a redis:// or rediss:// URL, @FILE or env`);
+    },
+  );
 }
 
 /** The Redis URL that `--redis` names: itself, the first line of @FILE, or $DRIFTLIGHT_REDIS_URL for `env`. */
@@ -43,13 +50,16 @@ export function redisUrlFrom(option: string, env: NodeJS.ProcessEnv = process.en
     try {
       url = (readFileSync(file, 'utf8').split(/\r?\n/)[0] ?? '').trim();
     } catch (error) {
-      throw new InvalidArgumentError(`--redis ${option}: cannot read ${file} (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+      throw new InvalidArgumentError(
+        `--redis ${option}: cannot read ${file} (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+      );
     }
     where = file;
   } else {
     return option;
   }
-  if (!REDIS_URL.test(url)) throw new InvalidArgumentError(`--redis ${option}: ${where} does not hold a redis:// or rediss:// URL`);
+  if (!REDIS_URL.test(url))
+    throw new InvalidArgumentError(`--redis ${option}: ${where} does not hold a redis:// or rediss:// URL`);
   return url;
 }
 
@@ -63,9 +73,14 @@ export function configFromOptions(options: ConfigCliOptions, env: NodeJS.Process
   if (options.redis === undefined) {
     const fromEnv = env[REDIS_URL_ENV]?.trim();
     if (fromEnv === undefined || fromEnv === '') return config;
-    if (!REDIS_URL.test(fromEnv)) throw new InvalidArgumentError(`$${REDIS_URL_ENV} does not hold a redis:// or rediss:// URL`);
+    if (!REDIS_URL.test(fromEnv))
+      throw new InvalidArgumentError(`$${REDIS_URL_ENV} does not hold a redis:// or rediss:// URL`);
     return Object.freeze({ ...config, queue: Object.freeze({ ...config.queue, redisUrl: fromEnv }) });
   }
-  const queue = Object.freeze({ ...config.queue, backend: 'bullmq' as const, redisUrl: redisUrlFrom(options.redis, env) });
+  const queue = Object.freeze({
+    ...config.queue,
+    backend: 'bullmq' as const,
+    redisUrl: redisUrlFrom(options.redis, env),
+  });
   return Object.freeze({ ...config, queue });
 }

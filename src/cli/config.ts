@@ -13,29 +13,40 @@ import { configFromOptions, withConfigOption } from './config-option.js';
 export const configCommand: CommandModule = {
   register(program: Command) {
     const config = program.command('config').description('check a config file or print the option reference');
-    withConfigOption(config.command('check').description('validate the config (exit 2 with the bad path if invalid)')).action(
-      (options: { config?: string }) => {
-        const resolved = configFromOptions(options);
-        const missing = missingFolders(resolved);
-        if (missing.length > 0) {
-          throw new DriftlightError('FOLDER_MISSING', `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist: \`watch\` would refuse to start`, {
+    withConfigOption(
+      config.command('check').description('validate the config (exit 2 with the bad path if invalid)'),
+    ).action((options: { config?: string }) => {
+      const resolved = configFromOptions(options);
+      const missing = missingFolders(resolved);
+      if (missing.length > 0) {
+        throw new DriftlightError(
+          'FOLDER_MISSING',
+          `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist: \`watch\` would refuse to start`,
+          {
             file: resolved.configFile ?? '(defaults)',
             hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config.',
-          });
-        }
-        const ruleSet = effectiveRuleSet(resolved);
-        const warnings = ruleSetWarnings(ruleSet);
-        process.stdout.write(
-          `config OK: ${resolved.configFile ?? '(built-in defaults)'}\n` +
-            Object.entries(resolved.folders).map(([k, v]) => `  ${k.padEnd(10)} ${v}`).join('\n') + '\n' +
-            `QC controls (rules from ${resolved.rules.file ?? 'the built-in rules/default.yaml'}, time zone ${ruleSet.timeZone}):\n` +
-            formatControls(ruleSet).join('\n') + '\n' +
-            warnings.map((warning) => `warning: ${warning}\n`).join(''),
+          },
         );
-      },
-    );
-    config.command('docs').description('print every option with its unit and default (Markdown)').action(() => {
-      process.stdout.write(configOptionsMarkdown());
+      }
+      const ruleSet = effectiveRuleSet(resolved);
+      const warnings = ruleSetWarnings(ruleSet);
+      process.stdout.write(
+        `config OK: ${resolved.configFile ?? '(built-in defaults)'}\n` +
+          Object.entries(resolved.folders)
+            .map(([k, v]) => `  ${k.padEnd(10)} ${v}`)
+            .join('\n') +
+          '\n' +
+          `QC controls (rules from ${resolved.rules.file ?? 'the built-in rules/default.yaml'}, time zone ${ruleSet.timeZone}):\n` +
+          formatControls(ruleSet).join('\n') +
+          '\n' +
+          warnings.map((warning) => `warning: ${warning}\n`).join(''),
+      );
     });
+    config
+      .command('docs')
+      .description('print every option with its unit and default (Markdown)')
+      .action(() => {
+        process.stdout.write(configOptionsMarkdown());
+      });
   },
 };

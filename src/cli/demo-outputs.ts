@@ -20,14 +20,21 @@ export interface DemoOutputs {
 }
 
 /** Writes the digest of `lastDate`, the control chart and the month's summary CSV into the workspace's results/ (clock `now`: the replay's end). */
-export async function writeDemoOutputs(workspace: string, options: { firstDate: string; lastDate: string; now: Date }): Promise<DemoOutputs> {
+export async function writeDemoOutputs(
+  workspace: string,
+  options: { firstDate: string; lastDate: string; now: Date },
+): Promise<DemoOutputs> {
   const configPath = join(workspace, 'driftlight.yaml');
   const config = loadConfig(configPath);
   const ruleSet = effectiveRuleSet(config);
   const ledger = openLedger(config.folders.state);
   let digest;
   try {
-    digest = await buildDigest(ledger, config, ruleSet, { date: options.lastDate, now: options.now, softwareVersion: softwareVersion() });
+    digest = await buildDigest(ledger, config, ruleSet, {
+      date: options.lastDate,
+      now: options.now,
+      softwareVersion: softwareVersion(),
+    });
   } finally {
     ledger.close();
   }
@@ -36,7 +43,12 @@ export async function writeDemoOutputs(workspace: string, options: { firstDate: 
   const chartHtml = join(config.folders.results, 'charts', `${control}.html`);
   await runChart(control, { config: configPath, out: chartHtml }, options.now);
   const summaryCsv = join(config.folders.results, 'export', `summary-${options.firstDate}-to-${options.lastDate}.csv`);
-  runExport({ config: configPath, since: Date.parse(`${options.firstDate}T00:00:00Z`), format: 'csv', out: summaryCsv });
+  runExport({
+    config: configPath,
+    since: Date.parse(`${options.firstDate}T00:00:00Z`),
+    format: 'csv',
+    out: summaryCsv,
+  });
   const digestHtml = digest.paths.find((path) => path.endsWith('.html'));
   if (digestHtml === undefined) throw new Error('demo: the digest wrote no HTML');
   return { digestHtml, digestFiles: digest.paths, digestCharts: digest.figures, chartHtml, summaryCsv };

@@ -38,7 +38,9 @@ export interface DemoRunReport {
 export function prepareWorkspace(dir: string): void {
   if (existsSync(dir) && readdirSync(dir).length > 0) {
     if (!existsSync(join(dir, MARKER))) {
-      throw new ConfigInvalid(`the workspace ${dir} exists and is not a driftlight demo workspace`, { hint: 'Pass an empty or new folder.' });
+      throw new ConfigInvalid(`the workspace ${dir} exists and is not a driftlight demo workspace`, {
+        hint: 'Pass an empty or new folder.',
+      });
     }
     rmSync(dir, { recursive: true, force: true });
   }
@@ -54,7 +56,8 @@ export function readResultFiles(resultsDir: string): AnalysisResult[] {
     const dayDir = join(resultsDir, day);
     if (!/^\d{4}-\d{2}-\d{2}$/.test(day) || !statSync(dayDir).isDirectory()) continue;
     for (const name of readdirSync(dayDir).sort()) {
-      if (name.endsWith('.json') && !name.startsWith('.')) out.push(JSON.parse(readFileSync(join(dayDir, name), 'utf8')) as AnalysisResult);
+      if (name.endsWith('.json') && !name.startsWith('.'))
+        out.push(JSON.parse(readFileSync(join(dayDir, name), 'utf8')) as AnalysisResult);
     }
   }
   return out;
@@ -70,7 +73,11 @@ export function readQuarantine(quarantineDir: string): RejectedInput[] {
       if (entry.isDirectory()) walk(path);
       else if (entry.name.endsWith('.error.json')) {
         const record = JSON.parse(readFileSync(path, 'utf8')) as { code?: string; message?: string };
-        out.push({ file: entry.name.slice(0, -'.error.json'.length), code: record.code ?? '?', message: record.message ?? '' });
+        out.push({
+          file: entry.name.slice(0, -'.error.json'.length),
+          code: record.code ?? '?',
+          message: record.message ?? '',
+        });
       }
     }
   };
@@ -87,7 +94,11 @@ async function waitUntil(what: string, condition: () => boolean, timeoutMs = 30_
 }
 
 /** Runs the month in `workspace` (prepared fresh); `progress` receives one line per day. */
-export async function runDemoMonth(workspace: string, progress: (line: string) => void = () => undefined, seed?: number): Promise<DemoRunReport> {
+export async function runDemoMonth(
+  workspace: string,
+  progress: (line: string) => void = () => undefined,
+  seed?: number,
+): Promise<DemoRunReport> {
   const started = Date.now();
   const dir = resolve(workspace);
   prepareWorkspace(dir);
@@ -100,13 +111,27 @@ export async function runDemoMonth(workspace: string, progress: (line: string) =
   let nowMs = Date.parse(`${monthDate(1)}T06:00:00Z`);
   const clock = (): Date => new Date(nowMs);
   let stopWatch: (signal: string) => void = () => undefined;
-  const stop = new Promise<string>((r) => { stopWatch = r; });
+  const stop = new Promise<string>((r) => {
+    stopWatch = r;
+  });
   let onReady: (pipeline: Pipeline) => void = () => undefined;
-  const ready = new Promise<Pipeline>((r) => { onReady = r; });
-  const watchDone = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, { clock, clockCheckIntervalMs: 50, tickIntervalMs: 20, onReady });
+  const ready = new Promise<Pipeline>((r) => {
+    onReady = r;
+  });
+  const watchDone = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, {
+    clock,
+    clockCheckIntervalMs: 50,
+    tickIntervalMs: 20,
+    onReady,
+  });
   let pipeline: Pipeline;
   try {
-    pipeline = await Promise.race([ready, watchDone.then((): never => { throw new Error('demo: the watch loop ended before it was ready'); })]);
+    pipeline = await Promise.race([
+      ready,
+      watchDone.then((): never => {
+        throw new Error('demo: the watch loop ended before it was ready');
+      }),
+    ]);
     const { coordinator, stages } = pipeline;
     const idle = async (): Promise<void> => {
       await Promise.all(stages.map((stage) => stage.idle?.()));
@@ -126,17 +151,27 @@ export async function runDemoMonth(workspace: string, progress: (line: string) =
           writeFileSync(join(inbox, arrival.file.name), arrival.file.content);
           written += 1;
         }
-        await waitUntil(`intake of the files of ${at}`, () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written);
+        await waitUntil(
+          `intake of the files of ${at}`,
+          () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written,
+        );
         await waitUntil(`the analyses of ${at}`, () => coordinator.pendingJobs === 0);
       }
       // End of the day: sets still waiting for a part pass their deadline and go out as partial.
       nowMs = Date.parse(`${monthDate(day)}T23:30:00Z`);
       await waitUntil(`the end of day ${day}`, () => coordinator.openSetCount === 0 && coordinator.pendingJobs === 0);
       await idle();
-      const dayAlerts = receiver.alerts.slice(alertsBefore).map((a) => `${String(a.payload['ruleId'])}${a.payload['type'] === 'recovery' ? ' recovered' : ` (${String(a.payload['severity'])})`}`);
-      progress(`day ${String(day).padStart(2)} ${monthDate(day)}: ${String(todays.length).padStart(2)} files, ${coordinator.counts.setsDone - doneBefore} sets` +
-        `${coordinator.counts.filesRejected > rejectedBefore ? `, ${coordinator.counts.filesRejected - rejectedBefore} rejected` : ''}` +
-        `${dayAlerts.length > 0 ? `, alerts: ${dayAlerts.join(', ')}` : ''}`);
+      const dayAlerts = receiver.alerts
+        .slice(alertsBefore)
+        .map(
+          (a) =>
+            `${String(a.payload['ruleId'])}${a.payload['type'] === 'recovery' ? ' recovered' : ` (${String(a.payload['severity'])})`}`,
+        );
+      progress(
+        `day ${String(day).padStart(2)} ${monthDate(day)}: ${String(todays.length).padStart(2)} files, ${coordinator.counts.setsDone - doneBefore} sets` +
+          `${coordinator.counts.filesRejected > rejectedBefore ? `, ${coordinator.counts.filesRejected - rejectedBefore} rejected` : ''}` +
+          `${dayAlerts.length > 0 ? `, alerts: ${dayAlerts.join(', ')}` : ''}`,
+      );
     }
   } finally {
     stopWatch('demo finished');
@@ -146,7 +181,11 @@ export async function runDemoMonth(workspace: string, progress: (line: string) =
   // What the webhook received, with the scenario day of arrival (the test and curious users read it).
   writeFileSync(join(dir, 'webhook-received.json'), `${JSON.stringify(receiver.alerts, null, 2)}\n`);
   progress('writing the digest of the last day, the control chart and the summary CSV');
-  const outputs = await writeDemoOutputs(dir, { firstDate: monthDate(1), lastDate: monthDate(MONTH_DAYS), now: clock() });
+  const outputs = await writeDemoOutputs(dir, {
+    firstDate: monthDate(1),
+    lastDate: monthDate(MONTH_DAYS),
+    now: clock(),
+  });
   return {
     month,
     workspace: dir,

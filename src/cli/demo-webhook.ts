@@ -26,7 +26,10 @@ export async function startWebhookReceiver(): Promise<WebhookReceiver> {
     request.on('data', (chunk: Buffer) => chunks.push(chunk));
     request.on('end', () => {
       try {
-        alerts.push({ day: receiver.currentDay, payload: JSON.parse(Buffer.concat(chunks).toString('utf8')) as Record<string, unknown> });
+        alerts.push({
+          day: receiver.currentDay,
+          payload: JSON.parse(Buffer.concat(chunks).toString('utf8')) as Record<string, unknown>,
+        });
         response.writeHead(204).end();
       } catch (error) {
         response.writeHead(400, { 'content-type': 'text/plain' }).end(`not JSON: ${String(error)}`);
@@ -41,6 +44,9 @@ export async function startWebhookReceiver(): Promise<WebhookReceiver> {
   return Object.assign(receiver, {
     url: `http://127.0.0.1:${port}/driftlight-alerts`,
     alerts,
-    close: () => new Promise<void>((resolve, reject) => server.close((error) => (error === undefined ? resolve() : reject(error)))),
+    close: () =>
+      new Promise<void>((resolve, reject) =>
+        server.close((error) => (error === undefined ? resolve() : reject(error))),
+      ),
   });
 }

@@ -14,7 +14,8 @@ import { configFromOptions, withConfigOption } from './config-option.js';
 import { softwareVersion } from './version.js';
 
 function parseDate(text: string): string {
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(text) || Number.isNaN(Date.parse(`${text}T00:00:00Z`))) throw new InvalidArgumentError('expected a date YYYY-MM-DD');
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(text) || Number.isNaN(Date.parse(`${text}T00:00:00Z`)))
+    throw new InvalidArgumentError('expected a date YYYY-MM-DD');
   return text;
 }
 
@@ -23,11 +24,17 @@ export async function runDigest(options: { config?: string; date?: string }, now
   const config = configFromOptions(options);
   const ruleSet = effectiveRuleSet(config);
   const date = options.date ?? previousDay(localDate(now, digestTimeZone(config, ruleSet)));
-  if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME))) return `no ledger yet in ${config.folders.state} (nothing processed)\n`;
+  if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME)))
+    return `no ledger yet in ${config.folders.state} (nothing processed)\n`;
   const ledger = openLedger(config.folders.state);
   try {
     const outcome = await buildDigest(ledger, config, ruleSet, { date, now, softwareVersion: softwareVersion() });
-    return [`digest ${outcome.date}: ${outcome.figures} charts`, ...outcome.paths.map((p) => `  ${p}`), `  e-mail: ${outcome.email}`, ''].join('\n');
+    return [
+      `digest ${outcome.date}: ${outcome.figures} charts`,
+      ...outcome.paths.map((p) => `  ${p}`),
+      `  e-mail: ${outcome.email}`,
+      '',
+    ].join('\n');
   } finally {
     ledger.close();
   }
@@ -35,8 +42,13 @@ export async function runDigest(options: { config?: string; date?: string }, now
 
 export const digestCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(program.command('digest')
-      .description('build the daily digest (HTML with charts, Markdown, JSON, CSV) of a day under results/digest/; e-mail it when digest.emailChannel is set'))
+    withConfigOption(
+      program
+        .command('digest')
+        .description(
+          'build the daily digest (HTML with charts, Markdown, JSON, CSV) of a day under results/digest/; e-mail it when digest.emailChannel is set',
+        ),
+    )
       .option('--date <YYYY-MM-DD>', 'the day (in digest.timeZone); default yesterday', parseDate)
       .action(async (options: { config?: string; date?: string }) => {
         process.stdout.write(await runDigest(options));
@@ -51,9 +63,15 @@ export function startWatchDigest(pipeline: Pipeline): DigestSchedule | undefined
   const ruleSet = effectiveRuleSet(config);
   const timeZone = digestTimeZone(config, ruleSet);
   const schedule = startDigestSchedule({
-    config, ruleSet, timeZone,
+    config,
+    ruleSet,
+    timeZone,
     build: async (date) => {
-      const outcome = await buildDigest(ledger, config, ruleSet, { date, now: new Date(), softwareVersion: softwareVersion() });
+      const outcome = await buildDigest(ledger, config, ruleSet, {
+        date,
+        now: new Date(),
+        softwareVersion: softwareVersion(),
+      });
       logger.info({ event: 'digest.built', date, files: outcome.paths, email: outcome.email }, 'digest built');
     },
     onError: (error, date) => logger.error({ err: error, date }, 'digest failed'),

@@ -3,8 +3,16 @@ export const EXIT_CODES = {
   ok: { code: 0, meaning: 'all inputs read and processed' },
   internal: { code: 1, meaning: 'internal error (a bug; report it with the input)' },
   usage: { code: 2, meaning: 'usage error (unknown option, missing argument, invalid config)' },
-  rejected: { code: 3, meaning: 'one or more inputs rejected or not analysable (each on stderr as FILE:LINE: CODE: message), or left for the next run (process: not taken, not committed)' },
-  attention: { code: 4, meaning: 'process: every input processed, but QC flags are open (warning or critical) or alerts were not delivered (see `driftlight status`)' },
+  rejected: {
+    code: 3,
+    meaning:
+      'one or more inputs rejected or not analysable (each on stderr as FILE:LINE: CODE: message), or left for the next run (process: not taken, not committed)',
+  },
+  attention: {
+    code: 4,
+    meaning:
+      'process: every input processed, but QC flags are open (warning or critical) or alerts were not delivered (see `driftlight status`)',
+  },
 } as const;
 
 /** The exit-code table as help text, one line per code. */

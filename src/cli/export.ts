@@ -18,7 +18,8 @@ interface ExportOptions {
 export function parseDateOption(text: string): number {
   const iso = /^\d{4}-\d{2}-\d{2}$/.test(text) ? `${text}T00:00:00Z` : text;
   const epochMs = /^\d{4}-\d{2}-\d{2}(T.*(Z|[+-]\d{2}:\d{2}))?$/.test(iso) ? Date.parse(iso) : Number.NaN;
-  if (!Number.isFinite(epochMs)) throw new InvalidArgumentError('expected YYYY-MM-DD (UTC midnight) or an ISO date-time with Z or an offset');
+  if (!Number.isFinite(epochMs))
+    throw new InvalidArgumentError('expected YYYY-MM-DD (UTC midnight) or an ISO date-time with Z or an offset');
   return epochMs;
 }
 
@@ -40,9 +41,18 @@ export function runExport(options: ExportOptions): { stdout: string; stderr: str
 
 export const exportCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(program.command('export')
-      .description('summary table, one row per set (sample, role, acquisition time, Φ ± u, τ ± u per component, mean τ, k_r, k_nr, τ0, flags, result path)'))
-      .requiredOption('--since <date>', 'sets acquired at or after this date (YYYY-MM-DD = midnight UTC, or ISO date-time); analysis time when a set has no acquisition time', parseDateOption)
+    withConfigOption(
+      program
+        .command('export')
+        .description(
+          'summary table, one row per set (sample, role, acquisition time, Φ ± u, τ ± u per component, mean τ, k_r, k_nr, τ0, flags, result path)',
+        ),
+    )
+      .requiredOption(
+        '--since <date>',
+        'sets acquired at or after this date (YYYY-MM-DD = midnight UTC, or ISO date-time); analysis time when a set has no acquisition time',
+        parseDateOption,
+      )
       .option('--until <date>', 'sets acquired before this date (same forms)', parseDateOption)
       .option('--format <format>', 'csv or json', parseFormat, 'csv')
       .option('--out <file>', 'write to this file instead of stdout')

@@ -3,7 +3,13 @@
 import { readFile } from 'node:fs/promises';
 import { InvalidArgumentError, type Command } from 'commander';
 import { alignIrfToDecay } from '../decay/irf-axis.js';
-import { fitDecay, PARAMETER_NAMES, type DecayFitResult, type FitDecayOptions, type ParameterName } from '../decay/index.js';
+import {
+  fitDecay,
+  PARAMETER_NAMES,
+  type DecayFitResult,
+  type FitDecayOptions,
+  type ParameterName,
+} from '../decay/index.js';
 import { readData } from '../formats/index.js';
 import type { Decay } from '../model/decay.js';
 import { InputRejected } from '../model/errors.js';
@@ -36,28 +42,47 @@ function parseEstimator(text: string): FitDecayOptions['estimator'] {
 
 function parsePositive(text: string): number {
   const value = Number(text);
-  if (text.trim() === '' || !Number.isFinite(value) || value <= 0) throw new InvalidArgumentError('expected a positive number, e.g. 80');
+  if (text.trim() === '' || !Number.isFinite(value) || value <= 0)
+    throw new InvalidArgumentError('expected a positive number, e.g. 80');
   return value;
 }
 
 function parseRange(text: string): readonly [number, number] {
   const parts = text.split(':').map(Number);
   const [start, end] = parts;
-  if (parts.length !== 2 || start === undefined || end === undefined || !Number.isFinite(start) || !Number.isFinite(end) || end <= start) {
+  if (
+    parts.length !== 2 ||
+    start === undefined ||
+    end === undefined ||
+    !Number.isFinite(start) ||
+    !Number.isFinite(end) ||
+    end <= start
+  ) {
     throw new InvalidArgumentError('expected START_NS:END_NS with END_NS > START_NS, e.g. 1.5:40');
   }
   return [start, end];
 }
 
 /** Accepts `tau1=3.9` (ns) as well as the full parameter names (`tau1Ns=3.9`, `shiftNs=0`, `backgroundPerChannel=2`). */
-function parseFix(text: string, previous: Readonly<Partial<Record<ParameterName, number>>>): Partial<Record<ParameterName, number>> {
+function parseFix(
+  text: string,
+  previous: Readonly<Partial<Record<ParameterName, number>>>,
+): Partial<Record<ParameterName, number>> {
   const match = /^([A-Za-z0-9]+)=(.+)$/.exec(text);
   const value = match === null ? Number.NaN : Number(match[2]);
   const raw = match?.[1] ?? '';
-  const name = /^tau[1-4]$/.test(raw) ? `${raw}Ns` : raw === 'shift' ? 'shiftNs' : raw === 'background' ? 'backgroundPerChannel' : raw;
+  const name = /^tau[1-4]$/.test(raw)
+    ? `${raw}Ns`
+    : raw === 'shift'
+      ? 'shiftNs'
+      : raw === 'background'
+        ? 'backgroundPerChannel'
+        : raw;
   const known = PARAMETER_NAMES.find((candidate) => candidate === name);
   if (known === undefined || !Number.isFinite(value)) {
-    throw new InvalidArgumentError(`expected NAME=VALUE with NAME one of tau1…tau4 (ns), photons1…4, shift (ns), background, e.g. tau1=3.9`);
+    throw new InvalidArgumentError(
+      `expected NAME=VALUE with NAME one of tau1…tau4 (ns), photons1…4, shift (ns), background, e.g. tau1=3.9`,
+    );
   }
   return { ...previous, [known]: value };
 }
@@ -66,7 +91,9 @@ async function readDecay(path: string, role: string): Promise<Decay> {
   const content = new Uint8Array(await readFile(path));
   const parsed = readData(content, { fileName: path, kindHint: 'decay' });
   if (parsed.type !== 'decay') {
-    throw new InputRejected('INPUT_INVALID', `the ${role} file holds a spectrum, not a decay histogram`, { file: path });
+    throw new InputRejected('INPUT_INVALID', `the ${role} file holds a spectrum, not a decay histogram`, {
+      file: path,
+    });
   }
   return parsed.decay;
 }
@@ -88,7 +115,9 @@ export function residualPlot(residuals: readonly number[], width = 72, height = 
     const row = Math.round(((limit - clamped) / (2 * limit)) * (height - 1));
     (grid[row] as string[])[column] = Math.abs(mean) > limit ? '!' : '*';
   }
-  const labels = Array.from({ length: height }, (_unused, row) => (limit - (2 * limit * row) / (height - 1)).toFixed(0).padStart(3));
+  const labels = Array.from({ length: height }, (_unused, row) =>
+    (limit - (2 * limit * row) / (height - 1)).toFixed(0).padStart(3),
+  );
   return grid.map((row, index) => `${labels[index] ?? ''} |${row.join('')}`).join('\n');
 }
 
@@ -106,14 +135,19 @@ export function formatFitReport(file: string, fit: DecayFitResult): string {
     '  component   tau (ns)     std err    68% profile interval     amplitude    a-fraction  i-fraction',
     ...fit.components.map((component, index) => {
       const interval = component.tauNsInterval;
-      const profile = interval === undefined ? 'n/a' : `${formatNumber(interval.lowNs)} … ${formatNumber(interval.highNs)}`;
+      const profile =
+        interval === undefined ? 'n/a' : `${formatNumber(interval.lowNs)} … ${formatNumber(interval.highNs)}`;
       return `  ${String(index + 1).padEnd(11)} ${formatNumber(component.tauNs, 5).padEnd(12)} ${formatNumber(component.tauNsStdErr, 3).padEnd(10)} ${profile.padEnd(24)} ${component.amplitude.toPrecision(5).padEnd(12)} ${component.amplitudeFraction.toFixed(4).padEnd(11)} ${component.intensityFraction.toFixed(4)}${component.tauFixed ? '  (fixed)' : ''}`;
     }),
     ...fit.components.flatMap((component, index) => {
       const interval = component.tauNsInterval;
       return [
-        ...(interval?.lowReason === undefined ? [] : [`  interval    tau${index + 1} low end missing: ${interval.lowReason}`]),
-        ...(interval?.highReason === undefined ? [] : [`  interval    tau${index + 1} high end missing: ${interval.highReason}`]),
+        ...(interval?.lowReason === undefined
+          ? []
+          : [`  interval    tau${index + 1} low end missing: ${interval.lowReason}`]),
+        ...(interval?.highReason === undefined
+          ? []
+          : [`  interval    tau${index + 1} high end missing: ${interval.highReason}`]),
       ];
     }),
     ...fit.errorNotes.map((note) => `  errors      ${note}`),
@@ -135,7 +169,10 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
   if (flags.irf !== undefined) {
     const irf = await readDecay(flags.irf, 'IRF');
     try {
-      const aligned = alignIrfToDecay({ timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs }, decay);
+      const aligned = alignIrfToDecay(
+        { timeNs: irf.timeNs, counts: irf.irfCounts ?? irf.counts, channelWidthNs: irf.channelWidthNs },
+        decay,
+      );
       irfCounts = aligned.counts;
       irfNote = aligned.note;
     } catch (error) {
@@ -153,23 +190,40 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
     ...(irfCounts === undefined ? {} : { irfCounts }),
   });
   const reported = irfNote === undefined ? fit : { ...fit, warnings: [irfNote, ...fit.warnings] };
-  process.stdout.write(flags.json === true ? `${JSON.stringify({ file: path, ...reported }, null, 2)}\n` : formatFitReport(path, reported));
+  process.stdout.write(
+    flags.json === true ? `${JSON.stringify({ file: path, ...reported }, null, 2)}\n` : formatFitReport(path, reported),
+  );
 }
 
 export const fitDecayCommand: CommandModule = {
   register(program: Command): void {
     program
       .command('fit-decay')
-      .argument('<decay>', 'decay histogram file (CSV/TSV/text, JCAMP-DX or driftlight JSON); an "irf" column is used as the IRF')
-      .description('Fit fluorescence lifetimes: reconvolution with the IRF (or a tail fit without one), Poisson ML or weighted LS.')
-      .option('--irf <file>', 'IRF file (its irf or counts column), placed on the decay\'s channels by its own time axis (resampled when finer, refused when coarser)')
+      .argument(
+        '<decay>',
+        'decay histogram file (CSV/TSV/text, JCAMP-DX or driftlight JSON); an "irf" column is used as the IRF',
+      )
+      .description(
+        'Fit fluorescence lifetimes: reconvolution with the IRF (or a tail fit without one), Poisson ML or weighted LS.',
+      )
+      .option(
+        '--irf <file>',
+        "IRF file (its irf or counts column), placed on the decay's channels by its own time axis (resampled when finer, refused when coarser)",
+      )
       .option('--components <n>', 'number of exponentials 1-4, or auto (BIC)', parseComponents, 1)
       .option('--estimator <name>', 'ml, lsq-neyman or lsq-pearson', parseEstimator, 'ml')
       .option('--range <start:end>', 'fit range in ns, e.g. 1.5:40 (default: from the IRF rise to the end)', parseRange)
       .option('--fix <name=value>', 'hold a parameter, e.g. tau1=3.9 (ns); repeatable', parseFix, {})
       .option('--scatter', 'fit a scatter term (a fraction of the IRF added to the model; needs an IRF)')
-      .option('--repetition-rate-mhz <MHz>', 'excitation repetition rate in MHz (overrides the file); earlier pulses are modelled when the period spans the histogram', parsePositive)
-      .option('--pile-up-correction', 'apply the Coates pile-up correction (needs the collection time and the repetition rate)')
+      .option(
+        '--repetition-rate-mhz <MHz>',
+        'excitation repetition rate in MHz (overrides the file); earlier pulses are modelled when the period spans the histogram',
+        parsePositive,
+      )
+      .option(
+        '--pile-up-correction',
+        'apply the Coates pile-up correction (needs the collection time and the repetition rate)',
+      )
       .option('--json', 'print the full result as JSON')
       .addHelpText('after', `\n${exitCodesHelp()}`)
       .action(async (path: string, flags: FitDecayFlags) => {
@@ -177,7 +231,9 @@ export const fitDecayCommand: CommandModule = {
           await runFitDecay(path, flags);
         } catch (error) {
           if (error instanceof Error && 'syscall' in error) {
-            process.stderr.write(`${path}: cannot open: ${error.message}\n  hint: check the path and the file permissions.\n`);
+            process.stderr.write(
+              `${path}: cannot open: ${error.message}\n  hint: check the path and the file permissions.\n`,
+            );
             process.exitCode = EXIT_CODES.usage.code;
             return;
           }

@@ -73,7 +73,8 @@ function stageCopies(paths: readonly string[], files: readonly string[], staging
 /** Removes empty folders under (and including) `dir`, deepest first. */
 function removeEmptyFolders(dir: string): void {
   if (!existsSync(dir)) return;
-  for (const entry of readdirSync(dir, { withFileTypes: true })) if (entry.isDirectory()) removeEmptyFolders(join(dir, entry.name));
+  for (const entry of readdirSync(dir, { withFileTypes: true }))
+    if (entry.isDirectory()) removeEmptyFolders(join(dir, entry.name));
   try {
     rmdirSync(dir);
   } catch {
@@ -82,16 +83,31 @@ function removeEmptyFolders(dir: string): void {
 }
 
 /** Runs one batch over `paths` with the config file `configFile`; returns the summary (also printed). `move`: move the originals even outside the inbox. */
-export async function runBatch(paths: readonly string[], options: ConfigCliOptions & { verbose?: boolean; move?: boolean }, stdout: NodeJS.WritableStream = process.stdout): Promise<BatchSummary> {
+export async function runBatch(
+  paths: readonly string[],
+  options: ConfigCliOptions & { verbose?: boolean; move?: boolean },
+  stdout: NodeJS.WritableStream = process.stdout,
+): Promise<BatchSummary> {
   const config = configFromOptions(options);
-  for (const p of paths) if (!existsSync(p)) throw new ConfigInvalid(`no such file or folder: ${p}`, { hint: 'Pass existing files or folders to `driftlight process`.' });
-  const logger = createLogger({ ...config.logging, stdout: options.verbose === true ? config.logging.stdout : 'off' }, config.logFile);
+  for (const p of paths)
+    if (!existsSync(p))
+      throw new ConfigInvalid(`no such file or folder: ${p}`, {
+        hint: 'Pass existing files or folders to `driftlight process`.',
+      });
+  const logger = createLogger(
+    { ...config.logging, stdout: options.verbose === true ? config.logging.stdout : 'off' },
+    config.logFile,
+  );
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger, command: 'process' });
   const startedMs = Date.now();
   const { coordinator } = pipeline;
   const inInbox = paths.every((p) => isWithin(p, config.folders.inbox));
   const copy = options.move !== true && !inInbox;
-  const stagingDir = join(config.folders.state, 'process-staging', `${new Date().toISOString().replace(/[:.]/g, '-')}-${process.pid}`);
+  const stagingDir = join(
+    config.folders.state,
+    'process-staging',
+    `${new Date().toISOString().replace(/[:.]/g, '-')}-${process.pid}`,
+  );
   try {
     await coordinator.recover();
     for (const stage of pipeline.stages) stage.resume?.({ ledger: pipeline.ledger, now: new Date() });
@@ -117,9 +133,17 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
     const c = coordinator.counts;
     if (copy) removeEmptyFolders(stagingDir);
     const summary: BatchSummary = {
-      files: files.length, accepted: c.filesAccepted, rejected: c.filesRejected,
-      sets: c.setsDispatched, done: c.setsDone, partial: c.setsPartial, failed: c.setsFailed, notTaken: notTaken.length, notCommitted: c.setsNotCommitted,
-      alertsUndelivered, openQcFlags,
+      files: files.length,
+      accepted: c.filesAccepted,
+      rejected: c.filesRejected,
+      sets: c.setsDispatched,
+      done: c.setsDone,
+      partial: c.setsPartial,
+      failed: c.setsFailed,
+      notTaken: notTaken.length,
+      notCommitted: c.setsNotCommitted,
+      alertsUndelivered,
+      openQcFlags,
     };
     stdout.write(
       `driftlight process: ${summary.files} files, ${summary.accepted} accepted, ${c.filesRejected} rejected; ` +
@@ -129,10 +153,18 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
           : `  originals:  ${inInbox ? 'moved out of the inbox' : 'moved (--move)'} to the archive or quarantine\n`) +
         `  results:    ${config.folders.results}\n  outbox:     ${config.folders.outbox}\n` +
         `  archive:    ${config.folders.archive}\n  quarantine: ${config.folders.quarantine}\n` +
-        (notTaken.length === 0 ? '' : `  not taken:  ${notTaken.length} file(s) could not be read or recorded (left where they are; the reason is in ${config.logFile}); run again: ${notTaken.slice(0, 3).join(', ')}${notTaken.length > 3 ? ', …' : ''}\n`) +
-        (c.setsNotCommitted === 0 ? '' : `  not committed: ${c.setsNotCommitted} set(s) analysed but their results could not be written (the reason is in ${config.logFile}); their files stay in the inbox, run again\n`) +
-        (openQcFlags === 0 ? '' : `  QC flags open: ${openQcFlags} (${flags.critical} critical, ${flags.warning} warning); see \`driftlight status\`\n`) +
-        (alertsUndelivered === 0 ? '' : `  alerts NOT delivered: ${alertsUndelivered} (${outbox.latest[0]?.lastError ?? 'see the log'}); kept in the outbox and retried by the next watch or process run until delivered or expired; see \`driftlight status\`\n`),
+        (notTaken.length === 0
+          ? ''
+          : `  not taken:  ${notTaken.length} file(s) could not be read or recorded (left where they are; the reason is in ${config.logFile}); run again: ${notTaken.slice(0, 3).join(', ')}${notTaken.length > 3 ? ', …' : ''}\n`) +
+        (c.setsNotCommitted === 0
+          ? ''
+          : `  not committed: ${c.setsNotCommitted} set(s) analysed but their results could not be written (the reason is in ${config.logFile}); their files stay in the inbox, run again\n`) +
+        (openQcFlags === 0
+          ? ''
+          : `  QC flags open: ${openQcFlags} (${flags.critical} critical, ${flags.warning} warning); see \`driftlight status\`\n`) +
+        (alertsUndelivered === 0
+          ? ''
+          : `  alerts NOT delivered: ${alertsUndelivered} (${outbox.latest[0]?.lastError ?? 'see the log'}); kept in the outbox and retried by the next watch or process run until delivered or expired; see \`driftlight status\`\n`),
     );
     return summary;
   } finally {
@@ -142,21 +174,29 @@ export async function runBatch(paths: readonly string[], options: ConfigCliOptio
 
 /** The exit code of a batch: 3 when inputs were rejected or left, else 4 when QC flags are open or alerts undelivered, else 0. */
 export function exitCodeOf(summary: BatchSummary): number {
-  if (summary.rejected > 0 || summary.failed > 0 || summary.notTaken > 0 || summary.notCommitted > 0) return EXIT_CODES.rejected.code;
+  if (summary.rejected > 0 || summary.failed > 0 || summary.notTaken > 0 || summary.notCommitted > 0)
+    return EXIT_CODES.rejected.code;
   if (summary.alertsUndelivered > 0 || summary.openQcFlags > 0) return EXIT_CODES.attention.code;
   return EXIT_CODES.ok.code;
 }
 
 export const processCommand: CommandModule = {
   register(program: Command) {
-    withRedisOption(withConfigOption(
-      program
-        .command('process')
-        .description('analyse the given files or folders once, then exit (exit 3 if any input was rejected or any set failed, else 4 if QC flags are open or alerts undelivered)')
-        .argument('<paths...>', 'files or folders (searched recursively)')
-        .option('-v, --verbose', 'also log to stdout')
-        .option('--move', 'move the given files into the archive or quarantine even when they are outside the inbox (default: files outside the inbox are copied and the originals left in place)'),
-    )).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean; move?: boolean }) => {
+    withRedisOption(
+      withConfigOption(
+        program
+          .command('process')
+          .description(
+            'analyse the given files or folders once, then exit (exit 3 if any input was rejected or any set failed, else 4 if QC flags are open or alerts undelivered)',
+          )
+          .argument('<paths...>', 'files or folders (searched recursively)')
+          .option('-v, --verbose', 'also log to stdout')
+          .option(
+            '--move',
+            'move the given files into the archive or quarantine even when they are outside the inbox (default: files outside the inbox are copied and the originals left in place)',
+          ),
+      ),
+    ).action(async (paths: string[], options: ConfigCliOptions & { verbose?: boolean; move?: boolean }) => {
       const summary = await runBatch(paths, options);
       process.exitCode = exitCodeOf(summary);
     });

@@ -18,7 +18,11 @@ const COLUMNS = {
 } as const;
 
 function normalize(name: string): string {
-  return name.trim().toLowerCase().replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '');
+  return name
+    .trim()
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '_')
+    .replace(/^_+|_+$/g, '');
 }
 
 interface ParsedSeries {
@@ -48,7 +52,8 @@ export function parseQuenchSeries(text: string, file: string): ParsedSeries {
       header = cells.map(normalize);
     } else rows.push({ line: index + 1, cells });
   });
-  if (header === undefined || rows.length === 0) throw new InputRejected('NO_DATA', 'no header row and data rows found', { file });
+  if (header === undefined || rows.length === 0)
+    throw new InputRejected('NO_DATA', 'no header row and data rows found', { file });
   const names = header;
   const columns: Partial<Record<keyof typeof COLUMNS, number[]>> = {};
   for (const [role, aliases] of Object.entries(COLUMNS) as [keyof typeof COLUMNS, readonly string[]][]) {
@@ -61,16 +66,25 @@ export function parseQuenchSeries(text: string, file: string): ParsedSeries {
     columns[role] = rows.map(({ line, cells }) => {
       const value = Number(cells[index]);
       if (cells[index] === undefined || !Number.isFinite(value)) {
-        throw new InputRejected('NON_NUMERIC', `column "${names[index]}" holds "${cells[index] ?? ''}"`, { file, line });
+        throw new InputRejected('NON_NUMERIC', `column "${names[index]}" holds "${cells[index] ?? ''}"`, {
+          file,
+          line,
+        });
       }
       return value * toMolar;
     });
   }
   if (columns.concentration === undefined) {
-    throw new InputRejected('MISSING_COLUMN', `no quencher concentration column (one of ${COLUMNS.concentration.join(', ')}, or a name with a unit M, mM, µM, nM such as "[KI] (mM)"); found ${rawHeader.join(', ')}`, { file, line: 1 });
+    throw new InputRejected(
+      'MISSING_COLUMN',
+      `no quencher concentration column (one of ${COLUMNS.concentration.join(', ')}, or a name with a unit M, mM, µM, nM such as "[KI] (mM)"); found ${rawHeader.join(', ')}`,
+      { file, line: 1 },
+    );
   }
   if (columns.ratio === undefined && columns.intensity === undefined) {
-    throw new InputRejected('MISSING_COLUMN', `no F0/F (f0_over_f) or intensity column; found ${names.join(', ')}`, { file });
+    throw new InputRejected('MISSING_COLUMN', `no F0/F (f0_over_f) or intensity column; found ${names.join(', ')}`, {
+      file,
+    });
   }
   return { columns, metadata };
 }
@@ -87,7 +101,8 @@ function metadataNumber(metadata: Readonly<Record<string, string>>, key: string,
   const text = metadata[key];
   if (text === undefined) return undefined;
   const value = Number(text);
-  if (!Number.isFinite(value)) throw new InputRejected('METADATA_INVALID', `"# ${key}: ${text}" is not a number`, { file });
+  if (!Number.isFinite(value))
+    throw new InputRejected('METADATA_INVALID', `"# ${key}: ${text}" is not a number`, { file });
   return value;
 }
 
@@ -127,11 +142,15 @@ function runQuench(path: string, options: QuenchCliOptions): void {
   const fmt = (v: number | undefined, digits = 4): string => (v === undefined ? 'n/a' : v.toPrecision(digits));
   const lines = [
     `K_SV = ${fmt(result.ksvPerM)} ± ${fmt(result.ksvStandardErrorPerM, 2)} M^-1 (intensities)`,
-    ...(result.kdPerM === undefined ? [] : [`K_D  = ${fmt(result.kdPerM)} ± ${fmt(result.kdStandardErrorPerM, 2)} M^-1 (lifetimes)`]),
+    ...(result.kdPerM === undefined
+      ? []
+      : [`K_D  = ${fmt(result.kdPerM)} ± ${fmt(result.kdStandardErrorPerM, 2)} M^-1 (lifetimes)`]),
     ...(result.ksPerM === undefined ? [] : [`K_S  = ${fmt(result.ksPerM)} M^-1 (static)`]),
     `k_q  = ${result.kqPerMPerS === undefined ? 'n/a' : `${result.kqPerMPerS.toExponential(3)} ± ${fmt(result.kqStandardUncertaintyPerMPerS, 2)} M^-1 s^-1`}`,
     `mechanism: ${result.mechanism}`,
-    ...(result.diffusionLimitPerMPerS === undefined ? [] : [`diffusion limit 8RT/3η = ${result.diffusionLimitPerMPerS.toExponential(3)} M^-1 s^-1`]),
+    ...(result.diffusionLimitPerMPerS === undefined
+      ? []
+      : [`diffusion limit 8RT/3η = ${result.diffusionLimitPerMPerS.toExponential(3)} M^-1 s^-1`]),
     ...result.warnings.map((w) => `warning: ${w}`),
   ];
   process.stdout.write(`${lines.join('\n')}\n`);
@@ -141,9 +160,18 @@ export const quenchCommand: CommandModule = {
   register(program: Command): void {
     program
       .command('quench')
-      .description('Stern–Volmer analysis of a quenching series: K_SV, k_q = K/τ0, static vs dynamic, diffusion-limit check.')
-      .argument('<series>', 'quench-series CSV: quencher_M, f0_over_f or intensity, optional f0_over_f_uncertainty and tau_ns')
-      .option('--tau0-ns <ns>', 'unquenched lifetime τ0 in ns (default: tau_ns at 0 M, or "# tau0_ns:" in the file)', finiteNumber)
+      .description(
+        'Stern–Volmer analysis of a quenching series: K_SV, k_q = K/τ0, static vs dynamic, diffusion-limit check.',
+      )
+      .argument(
+        '<series>',
+        'quench-series CSV: quencher_M, f0_over_f or intensity, optional f0_over_f_uncertainty and tau_ns',
+      )
+      .option(
+        '--tau0-ns <ns>',
+        'unquenched lifetime τ0 in ns (default: tau_ns at 0 M, or "# tau0_ns:" in the file)',
+        finiteNumber,
+      )
       .option('--solvent <name>', 'solvent for the viscosity table (default: "# solvent:" in the file)')
       .option('--viscosity-mpas <mPa·s>', 'solvent viscosity in mPa·s (overrides the table)', finiteNumber)
       .option('--temperature-k <K>', 'temperature in K for the diffusion limit (default 298.15)', finiteNumber)

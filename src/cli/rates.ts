@@ -38,7 +38,9 @@ export const ratesCommand: CommandModule = {
   register(program: Command): void {
     program
       .command('rates')
-      .description('Rate constants from a fluorescence quantum yield and lifetime: k_r = Φ/τ, k_nr = (1 − Φ)/τ, τ0 = τ/Φ (Birks 1976).')
+      .description(
+        'Rate constants from a fluorescence quantum yield and lifetime: k_r = Φ/τ, k_nr = (1 − Φ)/τ, τ0 = τ/Φ (Birks 1976).',
+      )
       .requiredOption('--yield <phi>', 'fluorescence quantum yield (0 < Φ ≤ 1)', finiteNumber)
       .requiredOption('--tau-ns <ns>', 'fluorescence lifetime in ns', finiteNumber)
       .option('--yield-uncertainty <u>', 'standard uncertainty of Φ', finiteNumber)

@@ -11,7 +11,9 @@ export function reportError(error: unknown, stderr: NodeJS.WritableStream = proc
     return ERROR_CODES[error.code].kind === 'config' ? EXIT_CODES.usage.code : EXIT_CODES.internal.code;
   }
   const message = error instanceof Error ? error.message : String(error);
-  stderr.write(`INTERNAL: ${message}\n  hint: this is a driftlight bug; rerun with DRIFTLIGHT_DEBUG=1 for the stack trace and report it.\n`);
+  stderr.write(
+    `INTERNAL: ${message}\n  hint: this is a driftlight bug; rerun with DRIFTLIGHT_DEBUG=1 for the stack trace and report it.\n`,
+  );
   if (process.env['DRIFTLIGHT_DEBUG'] === '1' && error instanceof Error && error.stack !== undefined) {
     stderr.write(`${error.stack}\n`);
   }

@@ -21,9 +21,15 @@ function readResult(path: string): AnalysisResult | undefined {
 }
 
 /** Re-runs the sets finished since `since`; returns how many changed. */
-export async function runReprocess(options: { config?: string; since: string }, stdout: NodeJS.WritableStream = process.stdout): Promise<number> {
+export async function runReprocess(
+  options: { config?: string; since: string },
+  stdout: NodeJS.WritableStream = process.stdout,
+): Promise<number> {
   const since = new Date(options.since);
-  if (Number.isNaN(since.getTime())) throw new ConfigInvalid(`--since "${options.since}" is not a date`, { hint: 'Give an ISO date such as 2026-03-14 or 2026-03-14T08:00:00Z.' });
+  if (Number.isNaN(since.getTime()))
+    throw new ConfigInvalid(`--since "${options.since}" is not a date`, {
+      hint: 'Give an ISO date such as 2026-03-14 or 2026-03-14T08:00:00Z.',
+    });
   const config = configFromOptions(options);
   const logger = createLogger({ ...config.logging, stdout: 'off' }, config.logFile);
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger, command: 'reprocess' });
@@ -36,18 +42,25 @@ export async function runReprocess(options: { config?: string; since: string }, 
       const old = before.get(setId);
       const now = path === undefined ? undefined : readResult(path);
       if (old === undefined || now === undefined) {
-        stdout.write(`${setId}: ${now === undefined ? 'failed on re-run' : 'new result (no earlier one to compare)'}\n`);
+        stdout.write(
+          `${setId}: ${now === undefined ? 'failed on re-run' : 'new result (no earlier one to compare)'}\n`,
+        );
         changed += 1;
         return;
       }
       const changes = diffResults(old, now);
       if (changes.length > 0) changed += 1;
-      stdout.write(changes.length === 0 ? `${setId}: unchanged\n` : `${setId}: ${changes.map((c) => `${c.field} ${c.before} → ${c.after}`).join('; ')}\n`);
+      stdout.write(
+        changes.length === 0
+          ? `${setId}: unchanged\n`
+          : `${setId}: ${changes.map((c) => `${c.field} ${c.before} → ${c.after}`).join('; ')}\n`,
+      );
     });
     const stamp = Date.now().toString(36);
     for (const set of sets) {
       const notRun = await coordinator.enqueue(set.id, `${set.id}~r${stamp}`);
-      if (notRun !== undefined) stdout.write(`${set.id}: not re-run (INPUT_MISSING: ${notRun}); its earlier result stands\n`);
+      if (notRun !== undefined)
+        stdout.write(`${set.id}: not re-run (INPUT_MISSING: ${notRun}); its earlier result stands\n`);
     }
     await coordinator.drain();
     stdout.write(`driftlight reprocess: ${sets.length} sets since ${since.toISOString()}, ${changed} changed\n`);

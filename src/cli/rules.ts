@@ -42,11 +42,17 @@ export function formatControls(ruleSet: RuleSet): string[] {
   const lines: string[] = [];
   if (ruleSet.controls.length === 0) lines.push('  (none defined: add a `controls` entry to driftlight.yaml)');
   for (const control of ruleSet.controls) {
-    const match = Object.entries(control.match).map(([key, value]) => `${key} ${String(value)}`).join(', ');
-    const targets = Object.entries(control.targets).map(([metric, target]) => `${metric} ${target.mean} ± ${target.sd}`);
+    const match = Object.entries(control.match)
+      .map(([key, value]) => `${key} ${String(value)}`)
+      .join(', ');
+    const targets = Object.entries(control.targets).map(
+      ([metric, target]) => `${metric} ${target.mean} ± ${target.sd}`,
+    );
     const judging = rulesJudgingControl(ruleSet, control.id).map((rule) => rule.id);
     lines.push(`  ${control.id}  match: ${match}`);
-    lines.push(`    ${targets.length === 0 ? '' : `targets: ${targets.join('; ')}; `}other metrics: baseline from the first ${control.baselineRuns} runs`);
+    lines.push(
+      `    ${targets.length === 0 ? '' : `targets: ${targets.join('; ')}; `}other metrics: baseline from the first ${control.baselineRuns} runs`,
+    );
     lines.push(`    judged by: ${judging.length === 0 ? '(no rule)' : judging.join(', ')}`);
   }
   return lines;
@@ -54,11 +60,17 @@ export function formatControls(ruleSet: RuleSet): string[] {
 
 /** The rule set as text: header, controls (with the rules judging each), rules, warnings. */
 export function formatRuleSet(ruleSet: RuleSet, source: string): string {
-  const lines = [`${source}: valid rule set${ruleSet.name === undefined ? '' : ` "${ruleSet.name}"`} (time zone ${ruleSet.timeZone})`, '', 'controls:'];
+  const lines = [
+    `${source}: valid rule set${ruleSet.name === undefined ? '' : ` "${ruleSet.name}"`} (time zone ${ruleSet.timeZone})`,
+    '',
+    'controls:',
+  ];
   lines.push(...formatControls(ruleSet));
   lines.push('', 'rules:');
   for (const rule of ruleSet.rules) {
-    lines.push(`  ${rule.id.padEnd(20)} ${rule.severity.padEnd(8)} ${rule.metric} @ ${describeScope(rule.scope)}: ${ruleKindOf(rule).describe(rule)}`);
+    lines.push(
+      `  ${rule.id.padEnd(20)} ${rule.severity.padEnd(8)} ${rule.metric} @ ${describeScope(rule.scope)}: ${ruleKindOf(rule).describe(rule)}`,
+    );
   }
   const warnings = ruleSetWarnings(ruleSet);
   if (warnings.length > 0) lines.push('', ...warnings.map((warning) => `warning: ${warning}`));
@@ -79,7 +91,9 @@ function jsonFilesUnder(dir: string): string[] {
 /** Observations of the stored results under `resultsDir` (unreadable or foreign JSON skipped with a note on stderr). */
 export function observationsFromResultsDir(resultsDir: string, ruleSet: RuleSet): ControlObservation[] {
   if (!statSync(resultsDir, { throwIfNoEntry: false })?.isDirectory()) {
-    throw new ConfigInvalid(`results folder not found: ${resultsDir}`, { hint: 'Pass the folder the pipeline writes results/YYYY-MM-DD/*.json into.' });
+    throw new ConfigInvalid(`results folder not found: ${resultsDir}`, {
+      hint: 'Pass the folder the pipeline writes results/YYYY-MM-DD/*.json into.',
+    });
   }
   const observations: ControlObservation[] = [];
   for (const file of jsonFilesUnder(resultsDir)) {
@@ -90,7 +104,8 @@ export function observationsFromResultsDir(resultsDir: string, ruleSet: RuleSet)
       process.stderr.write(`${file}: skipped (not valid JSON)\n`);
       continue;
     }
-    if (typeof parsed !== 'object' || parsed === null || (parsed as { schema?: unknown }).schema !== RESULT_SCHEMA) continue;
+    if (typeof parsed !== 'object' || parsed === null || (parsed as { schema?: unknown }).schema !== RESULT_SCHEMA)
+      continue;
     const observation = observationFromResult(parsed as AnalysisResult, ruleSet.controls);
     if (observation === undefined) continue;
     if (parseIsoToEpochMs(observation.acquiredAt) === undefined) {
@@ -135,19 +150,42 @@ interface SimulatedAlert {
 }
 
 /** Replays observations and lists flags and recoveries in time order. */
-export function simulateAlerts(observations: readonly ControlObservation[], ruleSet: RuleSet, baselines: readonly BaselineRecord[] = []): SimulatedAlert[] {
-  const outcome = replayObservations(observations, ruleSet, { baselines, clockTicksEpochMs: clockTicks(observations, ruleSet) });
+export function simulateAlerts(
+  observations: readonly ControlObservation[],
+  ruleSet: RuleSet,
+  baselines: readonly BaselineRecord[] = [],
+): SimulatedAlert[] {
+  const outcome = replayObservations(observations, ruleSet, {
+    baselines,
+    clockTicksEpochMs: clockTicks(observations, ruleSet),
+  });
   const fromFlag = (flag: QcFlag): SimulatedAlert => ({
-    at: flag.acquiredAt, type: 'flag', severity: flag.severity, ruleId: flag.ruleId, check: flag.check,
-    controlId: flag.controlId, metric: flag.metric, setId: flag.setId, message: flag.message,
+    at: flag.acquiredAt,
+    type: 'flag',
+    severity: flag.severity,
+    ruleId: flag.ruleId,
+    check: flag.check,
+    controlId: flag.controlId,
+    metric: flag.metric,
+    setId: flag.setId,
+    message: flag.message,
   });
   const alerts: SimulatedAlert[] = [];
   for (const step of outcome.steps) {
     alerts.push(...step.flags.map(fromFlag));
-    alerts.push(...step.recoveries.map((notice) => ({
-      at: notice.acquiredAt, type: 'recovery' as const, severity: 'info', ruleId: notice.ruleId, check: '',
-      controlId: notice.controlId, metric: notice.metric, setId: step.observation.setId, message: notice.message,
-    })));
+    alerts.push(
+      ...step.recoveries.map((notice) => ({
+        at: notice.acquiredAt,
+        type: 'recovery' as const,
+        severity: 'info',
+        ruleId: notice.ruleId,
+        check: '',
+        controlId: notice.controlId,
+        metric: notice.metric,
+        setId: step.observation.setId,
+        message: notice.message,
+      })),
+    );
   }
   const seenClock = new Set<string>();
   for (const flag of outcome.clockFlags) {
@@ -187,7 +225,12 @@ export function formatAlertLines(alerts: readonly SimulatedAlert[]): string[] {
 
 /** One line per recorded action: when, what, who, why. */
 export function formatActionLine(action: QcAction): string {
-  const target = [action.setId === undefined ? undefined : `run ${action.setId}`, action.flagKey === undefined ? undefined : `flag ${action.flagKey}`].filter((part) => part !== undefined).join(', ');
+  const target = [
+    action.setId === undefined ? undefined : `run ${action.setId}`,
+    action.flagKey === undefined ? undefined : `flag ${action.flagKey}`,
+  ]
+    .filter((part) => part !== undefined)
+    .join(', ');
   return `${action.atIso}  ${action.action.toUpperCase().padEnd(11)} ${action.controlId}${target === '' ? '' : `  ${target}`}  by ${action.by}: ${action.comment}`;
 }
 
@@ -223,22 +266,28 @@ export const rulesCommand: CommandModule = {
     withConfigOption(
       rules
         .command('check')
-        .description('validate a rule set file and print its controls and rules; with --config, the merged view (config controls + rules) (exit 2 naming the config path when invalid)')
-        .argument('[file]', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .description(
+          'validate a rule set file and print its controls and rules; with --config, the merged view (config controls + rules) (exit 2 naming the config path when invalid)',
+        )
+        .argument('[file]', "rule set YAML (default: the config's rules.file, else the built-in rule set)")
         .option('--json', 'print the validated rule set as JSON'),
     ).action((file: string | undefined, options: { json?: boolean; config?: string }) => {
       const config = options.config === undefined ? undefined : configFromOptions(options);
       const ruleSet = config === undefined ? loadRuleSetFile(file) : effectiveRuleSet(config, file);
       const source = `${file ?? config?.rules.file ?? 'built-in rules/default.yaml'}${config === undefined ? '' : ` + controls of ${config.configFile ?? 'the config'}`}`;
-      process.stdout.write(options.json === true ? `${JSON.stringify(ruleSet, null, 2)}\n` : formatRuleSet(ruleSet, source));
+      process.stdout.write(
+        options.json === true ? `${JSON.stringify(ruleSet, null, 2)}\n` : formatRuleSet(ruleSet, source),
+      );
     });
 
     withConfigOption(
       rules
         .command('simulate')
-        .description('replay stored results (RESULTS_DIR/YYYY-MM-DD/*.json) in acquisition order and list the alerts that would have fired, and when')
+        .description(
+          'replay stored results (RESULTS_DIR/YYYY-MM-DD/*.json) in acquisition order and list the alerts that would have fired, and when',
+        )
         .requiredOption('--history <dir>', 'results folder to replay')
-        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .option('--rules <file>', "rule set YAML (default: the config's rules.file, else the built-in rule set)")
         .option('--json', 'print JSON lines'),
     ).action((options: { history: string; rules?: string; json?: boolean; config?: string }) => {
       const config = options.config === undefined ? undefined : configFromOptions(options);
@@ -257,102 +306,162 @@ export const rulesCommand: CommandModule = {
           ledger.close();
         }
       }
-      const observations = observationsFromResultsDir(options.history, ruleSet).filter((observation) => !excluded.has(observation.setId));
+      const observations = observationsFromResultsDir(options.history, ruleSet).filter(
+        (observation) => !excluded.has(observation.setId),
+      );
       const alerts = simulateAlerts(observations, ruleSet);
       if (options.json === true) {
         for (const alert of alerts) process.stdout.write(`${JSON.stringify(alert)}\n`);
         for (const action of actions) process.stdout.write(`${JSON.stringify({ type: 'action', ...action })}\n`);
         return;
       }
-      process.stdout.write(`replayed ${observations.length} QC observation(s)${excluded.size === 0 ? '' : ` (${excluded.size} excluded)`}; ${alerts.filter((a) => a.type === 'flag').length} flag(s), ${alerts.filter((a) => a.type === 'recovery').length} recovery notice(s)\n`);
+      process.stdout.write(
+        `replayed ${observations.length} QC observation(s)${excluded.size === 0 ? '' : ` (${excluded.size} excluded)`}; ${alerts.filter((a) => a.type === 'flag').length} flag(s), ${alerts.filter((a) => a.type === 'recovery').length} recovery notice(s)\n`,
+      );
       for (const line of formatAlertLines(alerts)) process.stdout.write(`${line}\n`);
-      if (actions.length > 0) process.stdout.write(`actions:\n${actions.map((action) => `  ${formatActionLine(action)}`).join('\n')}\n`);
+      if (actions.length > 0)
+        process.stdout.write(`actions:\n${actions.map((action) => `  ${formatActionLine(action)}`).join('\n')}\n`);
     });
 
     withConfigOption(
       rules
         .command('rebaseline')
-        .description('start a new baseline for CONTROL from DATE: computed now from the ledger when enough runs exist, else from the next runs')
+        .description(
+          'start a new baseline for CONTROL from DATE: computed now from the ledger when enough runs exist, else from the next runs',
+        )
         .argument('<control>', 'control id')
-        .requiredOption('--from <date>', 'first day of the new baseline (YYYY-MM-DD, UTC midnight, or an ISO date-time)')
-        .option('--rules <file>', 'rule set YAML (default: the config\'s rules.file, else the built-in rule set)')
+        .requiredOption(
+          '--from <date>',
+          'first day of the new baseline (YYYY-MM-DD, UTC midnight, or an ISO date-time)',
+        )
+        .option('--rules <file>', "rule set YAML (default: the config's rules.file, else the built-in rule set)")
         .requiredOption('--comment <text>', 'why (recorded with who and when)')
         .option('--by <name>', 'who (default: the OS user)'),
-    ).action((controlId: string, options: { from: string; rules?: string; config?: string; comment: string; by?: string }) => {
-      const config = configFromOptions(options);
-      const ruleSet = effectiveRuleSet(config, options.rules);
-      const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
-      if (control === undefined) {
-        throw new ConfigInvalid(`no control "${controlId}" in the rule set (known: ${ruleSet.controls.map((c) => c.id).join(', ') || 'none'})`, { hint: 'Name a control id from `driftlight rules check`.' });
-      }
-      const fromMs = parseIsoToEpochMs(options.from);
-      if (fromMs === undefined) throw new ConfigInvalid(`--from "${options.from}" is not a date (YYYY-MM-DD) or ISO date-time`);
-      const fromIso = new Date(fromMs).toISOString();
-      const ledger = openLedger(config.folders.state);
-      try {
-        const excluded = excludedSetIds(ledger);
-        const runs = observationHistory(ledger, [controlId]).filter((o) => (parseIsoToEpochMs(o.acquiredAt) ?? -Infinity) >= fromMs && !excluded.has(o.setId));
-        const createdAt = new Date().toISOString();
-        const by = actor(options.by);
-        const outcome: Record<string, unknown> = {};
-        for (const metric of chartMetrics(ruleSet, controlId)) {
-          const declared = control.targets[metric];
-          if (declared !== undefined) {
-            // The truth: a declared target wins over any baseline (docs/qc.md), so none is stored for it.
-            outcome[metric] = { declared };
-            process.stdout.write(
-              `${controlId} ${metricLabel(metric)}: not rebaselined — the config declares target ${declared.mean} ± ${declared.sd}, which the charts keep judging against (remove the target to judge against a baseline)\n`,
-            );
-            continue;
-          }
-          const points = runs.filter((o) => o.metrics[metric] !== undefined).slice(0, control.baselineRuns);
-          const values = points.map((o) => o.metrics[metric] ?? 0);
-          const established = points.length >= control.baselineRuns ? establishBaseline(values, control.baselineExcludeBeyondSd) : undefined;
-          const through = points[points.length - 1]?.acquiredAt;
-          const record: BaselineRecord = established === undefined || through === undefined
-            ? { controlId, metric, fromIso }
-            : { controlId, metric, fromIso, mean: established.mean, sd: established.sd, runs: established.runs, throughIso: through };
-          ledger.transaction(() => saveBaseline(ledger, record, createdAt));
-          outcome[metric] = established === undefined ? { fromIso, runsSoFar: points.length } : { mean: established.mean, sd: established.sd, runs: established.runs };
-          process.stdout.write(
-            established === undefined
-              ? `${controlId} ${metricLabel(metric)}: new baseline starts ${fromIso}; ${points.length} of ${control.baselineRuns} runs so far, charts resume after ${control.baselineRuns}\n`
-              : `${controlId} ${metricLabel(metric)}: baseline mean ${Number(established.mean.toPrecision(6))}, SD ${Number(established.sd.toPrecision(4))} from ${established.runs} runs (${fromIso} to ${through})\n`,
+    ).action(
+      (controlId: string, options: { from: string; rules?: string; config?: string; comment: string; by?: string }) => {
+        const config = configFromOptions(options);
+        const ruleSet = effectiveRuleSet(config, options.rules);
+        const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
+        if (control === undefined) {
+          throw new ConfigInvalid(
+            `no control "${controlId}" in the rule set (known: ${ruleSet.controls.map((c) => c.id).join(', ') || 'none'})`,
+            { hint: 'Name a control id from `driftlight rules check`.' },
           );
         }
-        ledger.transaction(() => {
-          recordAction(ledger, { action: 'rebaseline', controlId, comment: options.comment, by, atIso: createdAt, detail: { fromIso, excludedRuns: [...excluded], metrics: outcome } });
-        });
-        process.stdout.write(`${baselineRecords(ledger).filter((r) => r.controlId === controlId).length} baseline record(s) stored for ${controlId}; recorded: rebaseline by ${by}: ${options.comment}\n`);
-      } finally {
-        ledger.close();
-      }
-    });
+        const fromMs = parseIsoToEpochMs(options.from);
+        if (fromMs === undefined)
+          throw new ConfigInvalid(`--from "${options.from}" is not a date (YYYY-MM-DD) or ISO date-time`);
+        const fromIso = new Date(fromMs).toISOString();
+        const ledger = openLedger(config.folders.state);
+        try {
+          const excluded = excludedSetIds(ledger);
+          const runs = observationHistory(ledger, [controlId]).filter(
+            (o) => (parseIsoToEpochMs(o.acquiredAt) ?? -Infinity) >= fromMs && !excluded.has(o.setId),
+          );
+          const createdAt = new Date().toISOString();
+          const by = actor(options.by);
+          const outcome: Record<string, unknown> = {};
+          for (const metric of chartMetrics(ruleSet, controlId)) {
+            const declared = control.targets[metric];
+            if (declared !== undefined) {
+              // The truth: a declared target wins over any baseline (docs/qc.md), so none is stored for it.
+              outcome[metric] = { declared };
+              process.stdout.write(
+                `${controlId} ${metricLabel(metric)}: not rebaselined — the config declares target ${declared.mean} ± ${declared.sd}, which the charts keep judging against (remove the target to judge against a baseline)\n`,
+              );
+              continue;
+            }
+            const points = runs.filter((o) => o.metrics[metric] !== undefined).slice(0, control.baselineRuns);
+            const values = points.map((o) => o.metrics[metric] ?? 0);
+            const established =
+              points.length >= control.baselineRuns
+                ? establishBaseline(values, control.baselineExcludeBeyondSd)
+                : undefined;
+            const through = points[points.length - 1]?.acquiredAt;
+            const record: BaselineRecord =
+              established === undefined || through === undefined
+                ? { controlId, metric, fromIso }
+                : {
+                    controlId,
+                    metric,
+                    fromIso,
+                    mean: established.mean,
+                    sd: established.sd,
+                    runs: established.runs,
+                    throughIso: through,
+                  };
+            ledger.transaction(() => saveBaseline(ledger, record, createdAt));
+            outcome[metric] =
+              established === undefined
+                ? { fromIso, runsSoFar: points.length }
+                : { mean: established.mean, sd: established.sd, runs: established.runs };
+            process.stdout.write(
+              established === undefined
+                ? `${controlId} ${metricLabel(metric)}: new baseline starts ${fromIso}; ${points.length} of ${control.baselineRuns} runs so far, charts resume after ${control.baselineRuns}\n`
+                : `${controlId} ${metricLabel(metric)}: baseline mean ${Number(established.mean.toPrecision(6))}, SD ${Number(established.sd.toPrecision(4))} from ${established.runs} runs (${fromIso} to ${through})\n`,
+            );
+          }
+          ledger.transaction(() => {
+            recordAction(ledger, {
+              action: 'rebaseline',
+              controlId,
+              comment: options.comment,
+              by,
+              atIso: createdAt,
+              detail: { fromIso, excludedRuns: [...excluded], metrics: outcome },
+            });
+          });
+          process.stdout.write(
+            `${baselineRecords(ledger).filter((r) => r.controlId === controlId).length} baseline record(s) stored for ${controlId}; recorded: rebaseline by ${by}: ${options.comment}\n`,
+          );
+        } finally {
+          ledger.close();
+        }
+      },
+    );
 
     withConfigOption(
       rules
         .command('ack')
-        .description('acknowledge the flags of a run (or one rule of it) with a comment: they close and stay in the history with who, when and why')
+        .description(
+          'acknowledge the flags of a run (or one rule of it) with a comment: they close and stay in the history with who, when and why',
+        )
         .argument('<set>', 'set id of the flagged run')
         .requiredOption('--comment <text>', 'why (recorded with who and when)')
-        .option('--rule <id>', 'only this rule\'s flags')
+        .option('--rule <id>', "only this rule's flags")
         .option('--by <name>', 'who (default: the OS user)'),
     ).action((setId: string, options: { comment: string; rule?: string; by?: string; config?: string }) => {
       const config = configFromOptions(options);
       const ledger = openLedger(config.folders.state);
       try {
         const run = observationHistory(ledger).find((observation) => observation.setId === setId);
-        if (run === undefined) throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, { hint: 'Use a set id from `driftlight rules simulate` or the result file name.' });
+        if (run === undefined)
+          throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, {
+            hint: 'Use a set id from `driftlight rules simulate` or the result file name.',
+          });
         const key = options.rule === undefined ? undefined : `${options.rule}|${run.controlId}|`;
         const atIso = new Date().toISOString();
         const by = actor(options.by);
         let marked = 0;
         ledger.transaction(() => {
-          const id = recordAction(ledger, { action: 'acknowledge', controlId: run.controlId, setId, flagKey: options.rule, comment: options.comment, by, atIso, detail: {} });
+          const id = recordAction(ledger, {
+            action: 'acknowledge',
+            controlId: run.controlId,
+            setId,
+            flagKey: options.rule,
+            comment: options.comment,
+            by,
+            atIso,
+            detail: {},
+          });
           if (key === undefined) marked = acknowledgeFlags(ledger, setId, undefined, id, atIso);
-          else for (const metric of Object.keys(run.metrics)) marked += acknowledgeFlags(ledger, setId, `${key}${metric}`, id, atIso);
+          else
+            for (const metric of Object.keys(run.metrics))
+              marked += acknowledgeFlags(ledger, setId, `${key}${metric}`, id, atIso);
         });
-        process.stdout.write(`acknowledged ${marked} flag(s) of run ${setId} (${run.controlId}) by ${by}: ${options.comment}\n`);
+        process.stdout.write(
+          `acknowledged ${marked} flag(s) of run ${setId} (${run.controlId}) by ${by}: ${options.comment}\n`,
+        );
       } finally {
         ledger.close();
       }
@@ -361,7 +470,9 @@ export const rulesCommand: CommandModule = {
     withConfigOption(
       rules
         .command('exclude')
-        .description('leave a run out of the baseline and the charts (e.g. a known bad cuvette), recorded with who, when and why; `--include` takes it back')
+        .description(
+          'leave a run out of the baseline and the charts (e.g. a known bad cuvette), recorded with who, when and why; `--include` takes it back',
+        )
         .argument('<set>', 'set id of the run')
         .requiredOption('--comment <text>', 'why (recorded with who and when)')
         .option('--include', 'take a previously excluded run back')
@@ -371,11 +482,22 @@ export const rulesCommand: CommandModule = {
       const ledger = openLedger(config.folders.state);
       try {
         const run = observationHistory(ledger).find((observation) => observation.setId === setId);
-        if (run === undefined) throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, { hint: 'Use a set id from `driftlight rules simulate` or the result file name.' });
+        if (run === undefined)
+          throw new ConfigInvalid(`no QC run with set id "${setId}" in the ledger`, {
+            hint: 'Use a set id from `driftlight rules simulate` or the result file name.',
+          });
         const by = actor(options.by);
         const action = options.include === true ? 'include' : 'exclude';
         ledger.transaction(() => {
-          recordAction(ledger, { action, controlId: run.controlId, setId, comment: options.comment, by, atIso: new Date().toISOString(), detail: { acquiredAt: run.acquiredAt } });
+          recordAction(ledger, {
+            action,
+            controlId: run.controlId,
+            setId,
+            comment: options.comment,
+            by,
+            atIso: new Date().toISOString(),
+            detail: { acquiredAt: run.acquiredAt },
+          });
         });
         process.stdout.write(
           `${action === 'exclude' ? 'excluded' : 'included'} run ${setId} (${run.controlId}, acquired ${run.acquiredAt}) by ${by}: ${options.comment}\n` +

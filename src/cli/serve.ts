@@ -6,7 +6,13 @@ import { join } from 'node:path';
 import type { Command } from 'commander';
 import type { DriftlightConfig } from '../config/index.js';
 import { effectiveRuleSet } from '../pipeline/qc-rule-set.js';
-import { DEFAULT_LISTEN, resolveServerOptions, startStatusServer, TOKEN_ENV, type RunningStatusServer } from '../server/index.js';
+import {
+  DEFAULT_LISTEN,
+  resolveServerOptions,
+  startStatusServer,
+  TOKEN_ENV,
+  type RunningStatusServer,
+} from '../server/index.js';
 import { LEDGER_FILE_NAME, openLedger, type Ledger } from '../store/ledger.js';
 import type { CommandModule } from './command-module.js';
 import { configFromOptions, withConfigOption } from './config-option.js';
@@ -22,16 +28,28 @@ export interface HttpCliOptions {
 export function withHttpOptions(command: Command, httpHelp: string): Command {
   return command
     .option('--http [host:port]', `${httpHelp} (default ${DEFAULT_LISTEN}; any address outside loopback needs a token)`)
-    .option('--token-file <file>', `file whose first line is the bearer token clients must send (default: environment variable ${TOKEN_ENV}); required outside loopback`);
+    .option(
+      '--token-file <file>',
+      `file whose first line is the bearer token clients must send (default: environment variable ${TOKEN_ENV}); required outside loopback`,
+    );
 }
 
 /** Starts the status server over an open ledger for `--http`/`serve` options; the address defaults to loopback. */
-export async function startHttp(options: HttpCliOptions, config: DriftlightConfig, ledger: Ledger): Promise<RunningStatusServer> {
+export async function startHttp(
+  options: HttpCliOptions,
+  config: DriftlightConfig,
+  ledger: Ledger,
+): Promise<RunningStatusServer> {
   const server = resolveServerOptions({
     ...(typeof options.http === 'string' ? { listen: options.http } : {}),
     ...(options.tokenFile === undefined ? {} : { tokenFile: options.tokenFile }),
   });
-  return startStatusServer(server, { ledger, config, ruleSet: effectiveRuleSet(config), softwareVersion: softwareVersion() });
+  return startStatusServer(server, {
+    ledger,
+    config,
+    ruleSet: effectiveRuleSet(config),
+    softwareVersion: softwareVersion(),
+  });
 }
 
 /** Resolves on the first SIGINT or SIGTERM with the signal's name. */
@@ -44,25 +62,32 @@ export function untilSignal(): Promise<string> {
 
 export const serveCommand: CommandModule = {
   register(program: Command) {
-    withHttpOptions(withConfigOption(program.command('serve')
-      .description('serve the status page (controls, charts, open flags, queue, waiting sets, rejections, undelivered alerts), /healthz and /metrics (Prometheus) until Ctrl-C')),
-    'listen on this address')
-      .action(async (options: HttpCliOptions & { config?: string }) => {
-        const config = configFromOptions(options);
-        if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME))) process.stdout.write(`no ledger yet in ${config.folders.state}; serving an empty one\n`);
-        const ledger = openLedger(config.folders.state);
-        let server: RunningStatusServer;
-        try {
-          server = await startHttp(options, config, ledger);
-        } catch (error) {
-          ledger.close();
-          throw error;
-        }
-        process.stdout.write(`status page: ${server.url} (Ctrl-C stops)\n`);
-        const signal = await untilSignal();
-        process.stdout.write(`${signal}: stopping\n`);
-        await server.close();
+    withHttpOptions(
+      withConfigOption(
+        program
+          .command('serve')
+          .description(
+            'serve the status page (controls, charts, open flags, queue, waiting sets, rejections, undelivered alerts), /healthz and /metrics (Prometheus) until Ctrl-C',
+          ),
+      ),
+      'listen on this address',
+    ).action(async (options: HttpCliOptions & { config?: string }) => {
+      const config = configFromOptions(options);
+      if (!existsSync(join(config.folders.state, LEDGER_FILE_NAME)))
+        process.stdout.write(`no ledger yet in ${config.folders.state}; serving an empty one\n`);
+      const ledger = openLedger(config.folders.state);
+      let server: RunningStatusServer;
+      try {
+        server = await startHttp(options, config, ledger);
+      } catch (error) {
         ledger.close();
-      });
+        throw error;
+      }
+      process.stdout.write(`status page: ${server.url} (Ctrl-C stops)\n`);
+      const signal = await untilSignal();
+      process.stdout.write(`${signal}: stopping\n`);
+      await server.close();
+      ledger.close();
+    });
   },
 };

@@ -19,11 +19,18 @@ export interface AttentionStatus {
 
 /** The status as plain text lines. */
 export function formatStatus(status: LedgerStatus, attention?: AttentionStatus): string {
-  const files = Object.entries(status.files).map(([k, v]) => `${k} ${v}`).join(', ');
-  const sets = Object.entries(status.sets).map(([k, v]) => `${k} ${v}`).join(', ');
+  const files = Object.entries(status.files)
+    .map(([k, v]) => `${k} ${v}`)
+    .join(', ');
+  const sets = Object.entries(status.sets)
+    .map(([k, v]) => `${k} ${v}`)
+    .join(', ');
   const lines = [`files: ${files}`, `sets:  ${sets}`, `results: ${status.results}`];
-  lines.push(status.oldestWaiting === undefined ? 'oldest waiting set: none'
-    : `oldest waiting set: ${status.oldestWaiting.setId} (${status.oldestWaiting.sampleId}, ${status.oldestWaiting.state} since ${status.oldestWaiting.createdAt})`);
+  lines.push(
+    status.oldestWaiting === undefined
+      ? 'oldest waiting set: none'
+      : `oldest waiting set: ${status.oldestWaiting.setId} (${status.oldestWaiting.sampleId}, ${status.oldestWaiting.state} since ${status.oldestWaiting.createdAt})`,
+  );
   if (status.lastErrors.length === 0) lines.push('last errors: none');
   else {
     lines.push('last errors:');
@@ -34,14 +41,19 @@ export function formatStatus(status: LedgerStatus, attention?: AttentionStatus):
     lines.push(`QC flags open: ${flags.critical} critical, ${flags.warning} warning, ${flags.info} info`);
     for (const { controlId, flags: open } of attention.openFlagsByControl ?? []) {
       lines.push(`  ${controlId}: ${open.length} open`);
-      for (const f of open) lines.push(`    ${f.severity.padEnd(8)} ${f.ruleId} ${f.check} (${f.metric}, run ${f.acquiredAt}): ${f.message}`);
+      for (const f of open)
+        lines.push(
+          `    ${f.severity.padEnd(8)} ${f.ruleId} ${f.check} (${f.metric}, run ${f.acquiredAt}): ${f.message}`,
+        );
     }
     const { pending, expired, latest } = attention.alerts;
     if (pending + expired === 0) lines.push('alerts not delivered: none');
     else {
       lines.push(`alerts not delivered: ${pending} still retried, ${expired} expired (given up)`);
       for (const a of latest) {
-        lines.push(`  ${new Date(a.createdAtMs).toISOString()}  ${a.channelId}  ${a.key} (${a.severity}): ${a.status}, ${a.attempts} attempt(s): ${a.lastError ?? 'not tried yet'}`);
+        lines.push(
+          `  ${new Date(a.createdAtMs).toISOString()}  ${a.channelId}  ${a.key} (${a.severity}): ${a.status}, ${a.attempts} attempt(s): ${a.lastError ?? 'not tried yet'}`,
+        );
       }
     }
   }
@@ -50,7 +62,13 @@ export function formatStatus(status: LedgerStatus, attention?: AttentionStatus):
 
 export const statusCommand: CommandModule = {
   register(program: Command) {
-    withConfigOption(program.command('status').description('show counts by state, the oldest waiting set, the last errors, open QC flags and alerts not delivered'))
+    withConfigOption(
+      program
+        .command('status')
+        .description(
+          'show counts by state, the oldest waiting set, the last errors, open QC flags and alerts not delivered',
+        ),
+    )
       .option('--json', 'print JSON')
       .action((options: { config?: string; json?: boolean }) => {
         const config = configFromOptions(options);
@@ -61,8 +79,16 @@ export const statusCommand: CommandModule = {
         const ledger = openLedger(config.folders.state);
         try {
           const status = ledgerStatus(ledger);
-          const attention: AttentionStatus = { openQcFlags: openQcFlagCounts(ledger), openFlagsByControl: openFlagsByControl(ledger), alerts: undeliveredAlerts(ledger) };
-          process.stdout.write(options.json === true ? `${JSON.stringify({ ...status, ...attention }, null, 2)}\n` : formatStatus(status, attention));
+          const attention: AttentionStatus = {
+            openQcFlags: openQcFlagCounts(ledger),
+            openFlagsByControl: openFlagsByControl(ledger),
+            alerts: undeliveredAlerts(ledger),
+          };
+          process.stdout.write(
+            options.json === true
+              ? `${JSON.stringify({ ...status, ...attention }, null, 2)}\n`
+              : formatStatus(status, attention),
+          );
         } finally {
           ledger.close();
         }

@@ -30,19 +30,31 @@ export interface WatchRuntimeOptions {
 }
 
 /** Runs the watch loop until `stop` resolves (the CLI resolves it on SIGINT/SIGTERM). */
-export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop: Promise<string>, runtime: WatchRuntimeOptions = {}): Promise<void> {
+export async function runWatch(
+  options: ConfigCliOptions & HttpCliOptions,
+  stop: Promise<string>,
+  runtime: WatchRuntimeOptions = {},
+): Promise<void> {
   const config = configFromOptions(options);
   const clock = runtime.clock ?? ((): Date => new Date());
-  const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), command: 'watch', requireFolders: requiredFolders(config), ...(runtime.clock === undefined ? {} : { clock: runtime.clock }) });
+  const pipeline = openPipeline(config, {
+    softwareVersion: softwareVersion(),
+    command: 'watch',
+    requireFolders: requiredFolders(config),
+    ...(runtime.clock === undefined ? {} : { clock: runtime.clock }),
+  });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
   const digestSchedule = startWatchDigest(pipeline);
   // --http: the status page over this process's ledger (the same routes as `driftlight serve`).
-  const http = options.http === undefined ? undefined : await startHttp(options, config, pipeline.ledger).catch(async (error: unknown) => {
-    await digestSchedule?.stop();
-    await pipeline.close();
-    throw error;
-  });
+  const http =
+    options.http === undefined
+      ? undefined
+      : await startHttp(options, config, pipeline.ledger).catch(async (error: unknown) => {
+          await digestSchedule?.stop();
+          await pipeline.close();
+          throw error;
+        });
   if (http !== undefined) logger.info({ url: http.url }, `status page at ${http.url}`);
   let chain: Promise<void> = Promise.resolve();
   const serial = (work: () => Promise<void>): void => {
@@ -62,7 +74,10 @@ export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop:
   const checkFolders = (): boolean => {
     const missing = missingFolders(config);
     if (missing.length > 0) {
-      logger.error({ alert: 'folder-missing', folders: missing, retryInMs: config.watch.rescanIntervalMs }, `${missing.join(' and ')} missing (unmounted share?); dispatch paused, checked again every watch.rescanIntervalMs`);
+      logger.error(
+        { alert: 'folder-missing', folders: missing, retryInMs: config.watch.rescanIntervalMs },
+        `${missing.join(' and ')} missing (unmounted share?); dispatch paused, checked again every watch.rescanIntervalMs`,
+      );
       coordinator.holdDispatch = true;
     } else if (foldersMissing.length > 0) {
       logger.warn({ folders: foldersMissing }, 'missing folders are back; resuming');
@@ -87,7 +102,11 @@ export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop:
       runtime.onReady?.(pipeline);
     },
     onError: (error) => logger.error({ err: error }, 'watcher error'),
-    onMissed: (paths) => logger.warn({ files: paths.length, first: paths[0] }, 'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats'),
+    onMissed: (paths) =>
+      logger.warn(
+        { files: paths.length, first: paths[0] },
+        'the periodic rescan found files whose OS events were lost (taken now); on Linux raise fs.inotify.max_queued_events if this repeats',
+      ),
   });
   // SIGHUP (sent by logrotate after it renamed the log file) reopens the log file; without a
   // handler the signal would end the process.
@@ -99,10 +118,18 @@ export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop:
   const tickMs = runtime.tickIntervalMs ?? Math.max(50, Math.min(1000, Math.floor(config.assembly.setTimeoutMs / 4)));
   const timer = setInterval(() => serial(() => coordinator.tick()), tickMs);
   // Time-based QC (a control not measured by its deadline) is checked once a minute.
-  const clockTimer = setInterval(() => serial(async () => pipeline.clockTick(clock())), runtime.clockCheckIntervalMs ?? CLOCK_CHECK_INTERVAL_MS);
+  const clockTimer = setInterval(
+    () => serial(async () => pipeline.clockTick(clock())),
+    runtime.clockCheckIntervalMs ?? CLOCK_CHECK_INTERVAL_MS,
+  );
   const signal = await stop;
   const persistentQueue = config.queue.backend === 'bullmq';
-  logger.info({ signal }, persistentQueue ? 'stopping: jobs left in Redis are picked up at the next start' : 'stopping: draining running jobs');
+  logger.info(
+    { signal },
+    persistentQueue
+      ? 'stopping: jobs left in Redis are picked up at the next start'
+      : 'stopping: draining running jobs',
+  );
   clearInterval(timer);
   clearInterval(clockTimer);
   clearInterval(retryTimer);
@@ -125,9 +152,14 @@ export async function runWatch(options: ConfigCliOptions & HttpCliOptions, stop:
 
 export const watchCommand: CommandModule = {
   register(program: Command) {
-    withHttpOptions(withRedisOption(withConfigOption(
-      program.command('watch').description('watch the inbox and analyse every new file until SIGINT/SIGTERM'),
-    )), 'also serve the status page, /healthz and /metrics on this address').action(async (options: ConfigCliOptions & HttpCliOptions) => {
+    withHttpOptions(
+      withRedisOption(
+        withConfigOption(
+          program.command('watch').description('watch the inbox and analyse every new file until SIGINT/SIGTERM'),
+        ),
+      ),
+      'also serve the status page, /healthz and /metrics on this address',
+    ).action(async (options: ConfigCliOptions & HttpCliOptions) => {
       await runWatch(options, untilSignal());
       // Everything is drained and closed; a stray library handle (file-system poll timers) must not
       // keep the process alive. Unref'd: when nothing is left the process exits at once anyway.

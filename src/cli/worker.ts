@@ -32,7 +32,8 @@ interface WorkerCliOptions {
 function integer(minimum: number): (text: string) => number {
   return (text) => {
     const value = Number(text);
-    if (!Number.isInteger(value) || value < minimum) throw new InvalidArgumentError(`expected an integer >= ${minimum}`);
+    if (!Number.isInteger(value) || value < minimum)
+      throw new InvalidArgumentError(`expected an integer >= ${minimum}`);
     return value;
   };
 }
@@ -55,7 +56,10 @@ async function runWorker(cli: WorkerCliOptions): Promise<void> {
   const logger = pino({ name: 'driftlight-worker', base: { pid: process.pid, host: hostname() } });
   const worker = startQueueWorker({ ...options, logger, heartbeatMs: cli.heartbeatMs });
   const where = { redisUrl: redactRedisUrl(options.redisUrl), prefix: options.prefix, queue: options.queueName };
-  logger.info({ event: 'worker.starting', ...where, concurrency: options.concurrency, processor: options.processorHref }, 'worker starting');
+  logger.info(
+    { event: 'worker.starting', ...where, concurrency: options.concurrency, processor: options.processorHref },
+    'worker starting',
+  );
 
   await new Promise<void>((resolve) => {
     let stopping = false;
@@ -92,16 +96,39 @@ export const workerCommand: CommandModule = {
     program
       .command('worker')
       .description('Run analysis jobs from a Redis (BullMQ) queue; start any number, on any machine with Node.')
-      .option('--redis <url>', `Redis URL of the queue; @FILE reads it from FILE, env from $${REDIS_URL_ENV} (default: $${REDIS_URL_ENV} when set, else ${QUEUE_DEFAULTS.redisUrl})`)
+      .option(
+        '--redis <url>',
+        `Redis URL of the queue; @FILE reads it from FILE, env from $${REDIS_URL_ENV} (default: $${REDIS_URL_ENV} when set, else ${QUEUE_DEFAULTS.redisUrl})`,
+      )
       .option('--concurrency <n>', `jobs run at once (default: CPU cores, here ${availableParallelism()})`, integer(1))
       .option('--prefix <prefix>', 'Redis key prefix of the queue', QUEUE_DEFAULTS.prefix)
       .option('--queue <name>', 'queue name (one per coordinator)', QUEUE_DEFAULTS.queueName)
       .option('--processor <file>', 'compiled processor module (default export: payload → result)', DEFAULT_PROCESSOR)
       .option('--job-timeout-ms <ms>', 'time limit of one job attempt in ms', integer(1), QUEUE_DEFAULTS.jobTimeoutMs)
-      .option('--lock-duration-ms <ms>', 'job lock in ms; a silent worker loses its job after this', integer(1), QUEUE_DEFAULTS.lockDurationMs)
-      .option('--stalled-interval-ms <ms>', 'how often stalled jobs are looked for, in ms', integer(1), QUEUE_DEFAULTS.stalledIntervalMs)
-      .option('--max-stalled-count <n>', 'stalls allowed before a job fails as WORKER_LOST', integer(0), QUEUE_DEFAULTS.maxStalledCount)
-      .option('--heartbeat-ms <ms>', 'period of the heartbeat log line in ms (0: off)', integer(0), DEFAULT_HEARTBEAT_MS)
+      .option(
+        '--lock-duration-ms <ms>',
+        'job lock in ms; a silent worker loses its job after this',
+        integer(1),
+        QUEUE_DEFAULTS.lockDurationMs,
+      )
+      .option(
+        '--stalled-interval-ms <ms>',
+        'how often stalled jobs are looked for, in ms',
+        integer(1),
+        QUEUE_DEFAULTS.stalledIntervalMs,
+      )
+      .option(
+        '--max-stalled-count <n>',
+        'stalls allowed before a job fails as WORKER_LOST',
+        integer(0),
+        QUEUE_DEFAULTS.maxStalledCount,
+      )
+      .option(
+        '--heartbeat-ms <ms>',
+        'period of the heartbeat log line in ms (0: off)',
+        integer(0),
+        DEFAULT_HEARTBEAT_MS,
+      )
       .action(async (options: WorkerCliOptions) => {
         await runWorker(options);
       });

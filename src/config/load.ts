@@ -12,7 +12,10 @@ export function loadConfig(file?: string, cwd: string = process.cwd()): Driftlig
   const path = resolve(cwd, file ?? DEFAULT_CONFIG_FILE);
   if (!existsSync(path)) {
     if (file === undefined) return resolveConfig({}, { baseDir: cwd });
-    throw new ConfigInvalid(`config file not found: ${path}`, { file: path, hint: 'Pass an existing file with --config, or omit it to use ./driftlight.yaml.' });
+    throw new ConfigInvalid(`config file not found: ${path}`, {
+      file: path,
+      hint: 'Pass an existing file with --config, or omit it to use ./driftlight.yaml.',
+    });
   }
   return configFromText(readFileSync(path, 'utf8'), path);
 }

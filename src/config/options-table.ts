@@ -29,7 +29,11 @@ function typeName(node: JsonSchemaNode): string {
   if (node.type === 'object' && node.properties !== undefined) return 'object';
   if (node.type === 'array') return `${node.items === undefined ? 'any' : typeName(node.items)}[]`;
   if (Array.isArray(node.type)) return node.type.join(' \\| ');
-  if (node.type === 'object' && node.additionalProperties !== undefined && typeof node.additionalProperties === 'object') {
+  if (
+    node.type === 'object' &&
+    node.additionalProperties !== undefined &&
+    typeof node.additionalProperties === 'object'
+  ) {
     return `map of ${typeName(node.additionalProperties)}`;
   }
   return node.type ?? 'any';

@@ -39,7 +39,10 @@ function checkRegex(pattern: string, configPath: string, where: string): void {
   try {
     new RegExp(pattern);
   } catch (error) {
-    throw new ConfigInvalid(`invalid regular expression /${pattern}/: ${(error as Error).message}`, { configPath, file: where });
+    throw new ConfigInvalid(`invalid regular expression /${pattern}/: ${(error as Error).message}`, {
+      configPath,
+      file: where,
+    });
   }
 }
 
@@ -72,11 +75,22 @@ export function resolveConfig(raw: unknown, options: { baseDir: string; configFi
   };
   const instrument = {
     ...config.instrument,
-    ...(config.instrument.detectorCorrectionFile === undefined ? {} : { detectorCorrectionFile: abs(config.instrument.detectorCorrectionFile) }),
+    ...(config.instrument.detectorCorrectionFile === undefined
+      ? {}
+      : { detectorCorrectionFile: abs(config.instrument.detectorCorrectionFile) }),
   };
   const rules = { ...config.rules, ...(config.rules.file === undefined ? {} : { file: abs(config.rules.file) }) };
   const logFile = isAbsolute(config.logging.file) ? config.logging.file : join(folders.state, config.logging.file);
   const rawFolders = (raw as { folders?: unknown } | null | undefined)?.folders;
   const configuredFolders = typeof rawFolders === 'object' && rawFolders !== null ? Object.keys(rawFolders) : [];
-  return deepFreeze({ ...config, folders, instrument, rules, configFile: options.configFile, baseDir, logFile, configuredFolders });
+  return deepFreeze({
+    ...config,
+    folders,
+    instrument,
+    rules,
+    configFile: options.configFile,
+    baseDir,
+    logFile,
+    configuredFolders,
+  });
 }

@@ -35,10 +35,14 @@ export function fitAcceptability(input: AcceptabilityInput): string[] {
     if (component.tauFixed) return;
     const name = `τ${index + 1} = ${component.tauNs.toPrecision(3)} ns`;
     if (component.tauNs < shortestNs) {
-      reasons.push(`${name} is below ${MIN_TAU_CHANNEL_FRACTION} × the channel width (${input.channelWidthNs.toPrecision(3)} ns): it cannot be told from scattered light`);
+      reasons.push(
+        `${name} is below ${MIN_TAU_CHANNEL_FRACTION} × the channel width (${input.channelWidthNs.toPrecision(3)} ns): it cannot be told from scattered light`,
+      );
     }
     if (component.tauNs > longestNs) {
-      reasons.push(`${name} is above ${MAX_TAU_WINDOW_MULTIPLE} × the window (${input.windowNs.toPrecision(3)} ns): it cannot be told from the background`);
+      reasons.push(
+        `${name} is above ${MAX_TAU_WINDOW_MULTIPLE} × the window (${input.windowNs.toPrecision(3)} ns): it cannot be told from the background`,
+      );
     }
   });
   let sum = 0;
@@ -49,7 +53,9 @@ export function fitAcceptability(input: AcceptabilityInput): string[] {
   }
   const mixedSigns = input.components.some((c) => c.amplitude < 0) && input.components.some((c) => c.amplitude > 0);
   if (mixedSigns && Math.abs(sum) < CANCELLING_AMPLITUDE_FRACTION * magnitude) {
-    reasons.push(`the amplitudes cancel: |Σa| = ${Math.abs(sum).toPrecision(3)} is below ${CANCELLING_AMPLITUDE_FRACTION} × Σ|a| = ${magnitude.toPrecision(3)}`);
+    reasons.push(
+      `the amplitudes cancel: |Σa| = ${Math.abs(sum).toPrecision(3)} is below ${CANCELLING_AMPLITUDE_FRACTION} × Σ|a| = ${magnitude.toPrecision(3)}`,
+    );
   }
   return reasons;
 }

@@ -10,7 +10,13 @@ import { localParameterCount, localSlotOf, parameterNameOf, type ParameterName }
 import type { PreparedDecay } from './prepare-decay.js';
 import { createReconvolutionModel } from './reconvolution-model.js';
 import {
-  estimateBackground, estimateMomentLifetimeNs, estimateTailLifetimeNs, LIFETIME_SPREADS, linearSolveScratch, solveLinearParameters, type LinearSolveScratch,
+  estimateBackground,
+  estimateMomentLifetimeNs,
+  estimateTailLifetimeNs,
+  LIFETIME_SPREADS,
+  linearSolveScratch,
+  solveLinearParameters,
+  type LinearSolveScratch,
 } from './start-values.js';
 import { createTailModel } from './tail-model.js';
 import { estimatePeeledLifetimesNs } from './peeling.js';
@@ -37,13 +43,22 @@ export function datasetModelFor(prepared: PreparedDecay, components: number): Da
   const { firstChannel, endChannel } = prepared.range;
   if (prepared.irfUnit !== undefined) {
     return createReconvolutionModel({
-      irfUnit: prepared.irfUnit, channelWidthNs: prepared.channelWidthNs, periodNs: prepared.periodNs,
-      firstChannel, endChannel, components, irfWithinChannel: prepared.irfWithinChannel,
+      irfUnit: prepared.irfUnit,
+      channelWidthNs: prepared.channelWidthNs,
+      periodNs: prepared.periodNs,
+      firstChannel,
+      endChannel,
+      components,
+      irfWithinChannel: prepared.irfWithinChannel,
     });
   }
   return createTailModel({
-    timeNs: prepared.timeNs, channelWidthNs: prepared.channelWidthNs, periodNs: prepared.periodNs,
-    firstChannel, endChannel, components,
+    timeNs: prepared.timeNs,
+    channelWidthNs: prepared.channelWidthNs,
+    periodNs: prepared.periodNs,
+    firstChannel,
+    endChannel,
+    components,
   });
 }
 
@@ -60,8 +75,12 @@ function defaultBounds(slot: number, components: number, prepared: PreparedDecay
 
 /** Builds the free-parameter layout for `components` exponentials over `decays` (shared names = links). */
 export function buildLayout(
-  decays: readonly PreparedDecay[], models: readonly DatasetModel[], components: number,
-  options: ResolvedFitDecayOptions, shared: readonly ParameterName[], strictNames: boolean,
+  decays: readonly PreparedDecay[],
+  models: readonly DatasetModel[],
+  components: number,
+  options: ResolvedFitDecayOptions,
+  shared: readonly ParameterName[],
+  strictNames: boolean,
 ): ParameterLayout {
   const slots = localParameterCount(components);
   const labels: string[] = [];
@@ -72,7 +91,10 @@ export function buildLayout(
   for (const [name, value] of Object.entries(options.fixed) as [ParameterName, number][]) {
     const slot = localSlotOf(name, components);
     if (slot < 0) {
-      if (strictNames) throw new ConfigInvalid(`fixed.${name} names a component the ${components}-component model does not have`, { configPath: `fixed.${name}` });
+      if (strictNames)
+        throw new ConfigInvalid(`fixed.${name} names a component the ${components}-component model does not have`, {
+          configPath: `fixed.${name}`,
+        });
       continue;
     }
     fixedSlots.set(slot, value);
@@ -83,7 +105,8 @@ export function buildLayout(
     for (let slot = 0; slot < slots; slot++) {
       const name = parameterNameOf(slot, components);
       const fixedValue = fixedSlots.get(slot);
-      const structurallyFixed = (prepared.irfUnit === undefined && (name === 'shiftNs' || name === 'scatterCounts')) ||
+      const structurallyFixed =
+        (prepared.irfUnit === undefined && (name === 'shiftNs' || name === 'scatterCounts')) ||
         (name === 'scatterCounts' && !options.scatter);
       if (fixedValue !== undefined || structurallyFixed) {
         fixedValues[slot] = fixedValue ?? 0;
@@ -102,26 +125,46 @@ export function buildLayout(
       lower.push(low);
       upper.push(high);
     }
-    return { model: models[d] as DatasetModel, counts: prepared.counts.subarray(prepared.range.firstChannel, prepared.range.endChannel), freeIndex, fixedValues };
+    return {
+      model: models[d] as DatasetModel,
+      counts: prepared.counts.subarray(prepared.range.firstChannel, prepared.range.endChannel),
+      freeIndex,
+      fixedValues,
+    };
   });
   return { labels, lower: Float64Array.from(lower), upper: Float64Array.from(upper), terms };
 }
 
 /** Start vector for one lifetime spread: tail lifetime × spread, shift 0, component photons and background by linear LS. */
 function startVector(
-  decays: readonly PreparedDecay[], layout: ParameterLayout, components: number, lifetimesNs: readonly number[],
+  decays: readonly PreparedDecay[],
+  layout: ParameterLayout,
+  components: number,
+  lifetimesNs: readonly number[],
   scratch: readonly LinearSolveScratch[],
 ): Float64Array {
   const start = new Float64Array(layout.labels.length);
   for (let d = 0; d < decays.length; d++) {
     const term = layout.terms[d] as DatasetTerm;
     const local = Float64Array.from(term.fixedValues);
-    for (let i = 0; i < components; i++) if ((term.freeIndex[i] as number) >= 0) local[i] = lifetimesNs[i] ?? (lifetimesNs[0] ?? 1);
+    for (let i = 0; i < components; i++)
+      if ((term.freeIndex[i] as number) >= 0) local[i] = lifetimesNs[i] ?? lifetimesNs[0] ?? 1;
     const linearSlots: number[] = [];
-    for (let i = 0; i < components; i++) if ((term.freeIndex[components + i] as number) >= 0) linearSlots.push(components + i);
+    for (let i = 0; i < components; i++)
+      if ((term.freeIndex[components + i] as number) >= 0) linearSlots.push(components + i);
     const backgroundSlot = 2 * components + 1;
     if ((term.freeIndex[backgroundSlot] as number) >= 0) linearSlots.push(backgroundSlot);
-    if (linearSlots.length > 0 && !solveLinearParameters(term.model, term.counts, local, linearSlots, scratch[d] as LinearSolveScratch, backgroundSlot)) {
+    if (
+      linearSlots.length > 0 &&
+      !solveLinearParameters(
+        term.model,
+        term.counts,
+        local,
+        linearSlots,
+        scratch[d] as LinearSolveScratch,
+        backgroundSlot,
+      )
+    ) {
       for (const slot of linearSlots) local[slot] = slot === backgroundSlot ? 0 : 1;
     }
     for (let slot = 0; slot < local.length; slot++) {
@@ -144,9 +187,23 @@ export function baseLifetimeNs(decays: readonly PreparedDecay[]): number {
   for (const prepared of decays) {
     const { firstChannel, endChannel } = prepared.range;
     const background = estimateBackground(prepared.counts, prepared.irfRiseChannel);
-    let tauNs = estimateTailLifetimeNs(prepared.timeNs, prepared.counts, background, firstChannel, endChannel, prepared.channelWidthNs);
+    let tauNs = estimateTailLifetimeNs(
+      prepared.timeNs,
+      prepared.counts,
+      background,
+      firstChannel,
+      endChannel,
+      prepared.channelWidthNs,
+    );
     if (prepared.irfUnit !== undefined) {
-      const momentNs = estimateMomentLifetimeNs(prepared.timeNs, prepared.counts, prepared.irfUnit, background, firstChannel, endChannel);
+      const momentNs = estimateMomentLifetimeNs(
+        prepared.timeNs,
+        prepared.counts,
+        prepared.irfUnit,
+        background,
+        firstChannel,
+        endChannel,
+      );
       if (momentNs !== undefined && momentNs < tauNs) tauNs = Math.max(momentNs, prepared.channelWidthNs / 20);
     }
     logSum += Math.log(tauNs);
@@ -160,7 +217,13 @@ function peeledLifetimesNs(decays: readonly PreparedDecay[]): number[] | undefin
   let logLong = 0;
   for (const prepared of decays) {
     const background = estimateBackground(prepared.counts, prepared.irfRiseChannel);
-    const pair = estimatePeeledLifetimesNs(prepared.timeNs, prepared.counts, background, prepared.range.firstChannel, prepared.range.endChannel);
+    const pair = estimatePeeledLifetimesNs(
+      prepared.timeNs,
+      prepared.counts,
+      background,
+      prepared.range.firstChannel,
+      prepared.range.endChannel,
+    );
     if (pair === undefined) return undefined;
     logShort += Math.log(pair[0]);
     logLong += Math.log(pair[1]);
@@ -174,8 +237,11 @@ function peeledLifetimesNs(decays: readonly PreparedDecay[]): number[] | undefin
  * (computed only when asked for). At most options.multiStart starts (one for a single exponential).
  */
 export function startSource(
-  decays: readonly PreparedDecay[], components: number, options: ResolvedFitDecayOptions,
-  shared: readonly ParameterName[], strictNames: boolean,
+  decays: readonly PreparedDecay[],
+  components: number,
+  options: ResolvedFitDecayOptions,
+  shared: readonly ParameterName[],
+  strictNames: boolean,
 ): { problem: FitProblem; layout: ParameterLayout; nextStart: () => Float64Array | undefined } {
   const models = decays.map((prepared) => datasetModelFor(prepared, components));
   const layout = buildLayout(decays, models, components, options, shared, strictNames);
@@ -213,8 +279,11 @@ export function startSource(
  * is not clean (see isClean); the lowest objective wins.
  */
 export function fitComponents(
-  decays: readonly PreparedDecay[], components: number, options: ResolvedFitDecayOptions,
-  shared: readonly ParameterName[], strictNames: boolean,
+  decays: readonly PreparedDecay[],
+  components: number,
+  options: ResolvedFitDecayOptions,
+  shared: readonly ParameterName[],
+  strictNames: boolean,
 ): ComponentFit {
   const { problem, layout, nextStart } = startSource(decays, components, options, shared, strictNames);
   const smallestWidthNs = Math.min(...decays.map((prepared) => prepared.channelWidthNs));
@@ -222,8 +291,11 @@ export function fitComponents(
   let tried = 0;
   for (let candidate = nextStart(); candidate !== undefined; candidate = nextStart()) {
     const outcome = settleShiftKink(
-      problem, layout, minimiseLevenbergMarquardt(problem, candidate, layout.lower, layout.upper, options.maxIterations),
-      options.maxIterations, smallestWidthNs,
+      problem,
+      layout,
+      minimiseLevenbergMarquardt(problem, candidate, layout.lower, layout.upper, options.maxIterations),
+      options.maxIterations,
+      smallestWidthNs,
     );
     tried++;
     if (best === undefined || isBetter(outcome, best)) best = outcome;
@@ -241,10 +313,16 @@ export function fitComponents(
  * shift by ±1e-3 channel raises the objective (a kink minimum). Otherwise the original status stands.
  */
 function settleShiftKink(
-  problem: FitProblem, layout: ParameterLayout, outcome: MinimiserOutcome, maxIterations: number, channelWidthNs: number,
+  problem: FitProblem,
+  layout: ParameterLayout,
+  outcome: MinimiserOutcome,
+  maxIterations: number,
+  channelWidthNs: number,
 ): MinimiserOutcome {
   if (outcome.converged || !Number.isFinite(outcome.objective)) return outcome;
-  const shiftIndices = layout.labels.flatMap((label, index) => (label.endsWith('shiftNs') && layout.lower[index] !== layout.upper[index] ? [index] : []));
+  const shiftIndices = layout.labels.flatMap((label, index) =>
+    label.endsWith('shiftNs') && layout.lower[index] !== layout.upper[index] ? [index] : [],
+  );
   if (shiftIndices.length === 0) return outcome;
   const lower = Float64Array.from(layout.lower);
   const upper = Float64Array.from(layout.upper);
@@ -287,7 +365,8 @@ function isClean(outcome: MinimiserOutcome, layout: ParameterLayout): boolean {
     if (/tau\dNs$/.test(label)) lifetimes.push(value);
   }
   lifetimes.sort((a, b) => a - b);
-  for (let i = 1; i < lifetimes.length; i++) if ((lifetimes[i] as number) < 1.02 * (lifetimes[i - 1] as number)) return false;
+  for (let i = 1; i < lifetimes.length; i++)
+    if ((lifetimes[i] as number) < 1.02 * (lifetimes[i - 1] as number)) return false;
   return true;
 }
 

@@ -44,7 +44,9 @@ export function earlierPulseSuspicion(input: EarlierPulseInput): string | undefi
   const causes: string[] = [];
   const atEnd = model.length > 0 ? (model[model.length - 1] as number) - backgroundPerChannel : 0;
   if (peak > 0 && atEnd > TAIL_END_FRACTION * peak) {
-    causes.push(`the fitted decay is still ${((100 * atEnd) / peak).toPrecision(2)} % of its peak at the end of the window`);
+    causes.push(
+      `the fitted decay is still ${((100 * atEnd) / peak).toPrecision(2)} % of its peak at the end of the window`,
+    );
   }
   if (firstChannel >= 5) {
     let sum = 0;
@@ -52,7 +54,9 @@ export function earlierPulseSuspicion(input: EarlierPulseInput): string | undefi
     const mean = sum / firstChannel;
     const error = Math.sqrt(Math.max(backgroundPerChannel, 1) / firstChannel);
     if (mean - backgroundPerChannel > PRE_RISE_EXCESS_Z * error) {
-      causes.push(`the counts before the rise (${mean.toPrecision(3)} per channel) are above the fitted background (${backgroundPerChannel.toPrecision(3)})`);
+      causes.push(
+        `the counts before the rise (${mean.toPrecision(3)} per channel) are above the fitted background (${backgroundPerChannel.toPrecision(3)})`,
+      );
     }
   }
   if (causes.length === 0) return undefined;
@@ -60,7 +64,11 @@ export function earlierPulseSuspicion(input: EarlierPulseInput): string | undefi
 }
 
 /** A warning when the periodic tail is nearly flat (τ > 0.4 × period): τ and the background trade off; undefined otherwise. */
-export function periodicBackgroundWarning(tauNs: number, periodNs: number, backgroundFree: boolean): string | undefined {
+export function periodicBackgroundWarning(
+  tauNs: number,
+  periodNs: number,
+  backgroundFree: boolean,
+): string | undefined {
   if (!backgroundFree || tauNs <= PERIODIC_BACKGROUND_DEGENERACY_RATIO * periodNs) return undefined;
   return `τ = ${tauNs.toPrecision(3)} ns is longer than ${PERIODIC_BACKGROUND_DEGENERACY_RATIO} × the pulse period (${periodNs.toPrecision(3)} ns): the tail of earlier pulses is nearly a constant and τ trades off against the free background, a degeneracy of the data, not of the fit (at 2.5 × the period and 10⁵ photons τ came out 8 % low with the background held ≥ 0; letting it go below 0 removes that bias but spreads τ about eight times wider; docs/decay.md); fix the background from a dark measurement (fit-decay --fix background=N) or lower the repetition rate`;
 }

@@ -69,7 +69,12 @@ export function estimatorResiduals(
  * may compare values from either path. `countsLog` from countsLogCounts. O(channels).
  */
 export function estimatorWeights(
-  estimator: Estimator, counts: Float64Array, countsLog: Float64Array, model: Float64Array, curvature: Float64Array, slope: Float64Array,
+  estimator: Estimator,
+  counts: Float64Array,
+  countsLog: Float64Array,
+  model: Float64Array,
+  curvature: Float64Array,
+  slope: Float64Array,
 ): number {
   const length = counts.length;
   let sum = 0;
@@ -122,13 +127,19 @@ export function countsLogCounts(counts: Float64Array): Float64Array {
   for (let k = 0; k < counts.length; k++) {
     const n = counts[k] as number;
     // Most channels hold small whole counts: a table lookup instead of a logarithm.
-    countsLog[k] = n >= 0 && n < SMALL_COUNTS && Number.isInteger(n) ? (table[n] as number) : n > 0 ? n * Math.log(n) : 0;
+    countsLog[k] =
+      n >= 0 && n < SMALL_COUNTS && Number.isInteger(n) ? (table[n] as number) : n > 0 ? n * Math.log(n) : 0;
   }
   return countsLog;
 }
 
 /** Σ r² only (no residual arrays), the cheap path for trial steps; `countsLog` from countsLogCounts. O(channels). */
-export function estimatorObjective(estimator: Estimator, counts: Float64Array, countsLog: Float64Array, model: Float64Array): number {
+export function estimatorObjective(
+  estimator: Estimator,
+  counts: Float64Array,
+  countsLog: Float64Array,
+  model: Float64Array,
+): number {
   const length = counts.length;
   let sum = 0;
   if (estimator === 'ml') {

@@ -126,7 +126,7 @@ export function convolveExponentialWithIrf(
   if (periodNs === undefined) return;
   const y = Math.exp(-periodNs / tauNs);
   const folded = 1 / (1 - y);
-  const dFolded = (y * periodNs) / (tauNs * tauNs) * folded * folded;
+  const dFolded = ((y * periodNs) / (tauNs * tauNs)) * folded * folded;
   const offsetChannels = periodNs / channelWidthNs - channels;
   let power = Math.exp(-(offsetChannels + firstChannel) * u);
   for (let k = firstChannel; k < endChannel; k++) {

@@ -34,17 +34,26 @@ export function fitDecay(decay: Decay, options?: FitDecayOptions): DecayFitResul
     }
     const { chosen, selection } = selectComponents(summaries);
     const chosenFit = candidates[summaries.indexOf(chosen)];
-    const detailed = resolved.profileIntervals && chosenFit !== undefined ? summariseFit(chosenFit, prepared, resolved) : chosen;
+    const detailed =
+      resolved.profileIntervals && chosenFit !== undefined ? summariseFit(chosenFit, prepared, resolved) : chosen;
     return { ...detailed, selection };
   }
   const prepared = prepareDecay(decay, resolved, localParameterCount(resolved.components) + 1);
   return summariseFit(fitPrepared(prepared, resolved.components, resolved, true), prepared, resolved);
 }
 
-function fitPrepared(prepared: PreparedDecay, components: number, options: ResolvedFitDecayOptions, strictNames: boolean): ComponentFit {
+function fitPrepared(
+  prepared: PreparedDecay,
+  components: number,
+  options: ResolvedFitDecayOptions,
+  strictNames: boolean,
+): ComponentFit {
   const fit = fitComponents([prepared], components, options, [], strictNames);
   if (!Number.isFinite(fit.outcome.objective)) {
-    throw new AnalysisFailed('FIT_FAILED', `the ${components}-component model is not finite on the fit range: ${fit.outcome.reason}`);
+    throw new AnalysisFailed(
+      'FIT_FAILED',
+      `the ${components}-component model is not finite on the fit range: ${fit.outcome.reason}`,
+    );
   }
   return fit;
 }

@@ -4,7 +4,13 @@
 // model and Jacobian of the last evaluation with derivatives are kept, so the fitted counts and the Fisher
 // information at the optimum (where the minimiser evaluated last) cost no further model evaluation.
 import type { DatasetModel } from './dataset-model.js';
-import { countsLogCounts, estimatorObjective, estimatorWeights, MODEL_FLOOR_COUNTS, type Estimator } from './estimators.js';
+import {
+  countsLogCounts,
+  estimatorObjective,
+  estimatorWeights,
+  MODEL_FLOOR_COUNTS,
+  type Estimator,
+} from './estimators.js';
 import type { SumOfSquaresObjective } from './levenberg-marquardt.js';
 import { weightedCrossProducts } from './weighted-cross-products.js';
 
@@ -100,9 +106,22 @@ export class FitProblem implements SumOfSquaresObjective {
         continue;
       }
       // JᵀJ = Σ curvature·∂m∂mᵀ and Jᵀr = Σ slope·∂m without forming r; Σ r² as on the objective-only path.
-      total += estimatorWeights(this.estimator, term.counts, scratch.countsLog, scratch.model, scratch.weights, scratch.slope);
+      total += estimatorWeights(
+        this.estimator,
+        term.counts,
+        scratch.countsLog,
+        scratch.model,
+        scratch.weights,
+        scratch.slope,
+      );
       weightedCrossProducts(
-        scratch.jacobian, term.model.channelCount, scratch.freeSlots, scratch.weights, scratch.products, scratch.slope, scratch.slotGradient,
+        scratch.jacobian,
+        term.model.channelCount,
+        scratch.freeSlots,
+        scratch.weights,
+        scratch.products,
+        scratch.slope,
+        scratch.slotGradient,
       );
       this.addBlock(term, scratch, normal, gradient);
     }
@@ -126,7 +145,10 @@ export class FitProblem implements SumOfSquaresObjective {
       const weights = scratch.weights;
       for (let k = 0; k < channels; k++) {
         const n = term.counts[k] as number;
-        weights[k] = this.estimator === 'lsq-neyman' ? 1 / Math.max(n, 1) : 1 / Math.max(scratch.model[k] as number, MODEL_FLOOR_COUNTS);
+        weights[k] =
+          this.estimator === 'lsq-neyman'
+            ? 1 / Math.max(n, 1)
+            : 1 / Math.max(scratch.model[k] as number, MODEL_FLOOR_COUNTS);
       }
       weightedCrossProducts(scratch.jacobian, channels, scratch.freeSlots, weights, scratch.products);
       this.addBlock(term, scratch, information, undefined);
@@ -135,7 +157,12 @@ export class FitProblem implements SumOfSquaresObjective {
   }
 
   /** Adds one dataset's cross products (upper triangle over its free slots) into the p×p matrix and its gradient into `gradient`. */
-  private addBlock(term: DatasetTerm, scratch: DatasetScratch, matrix: Float64Array, gradient: Float64Array | undefined): void {
+  private addBlock(
+    term: DatasetTerm,
+    scratch: DatasetScratch,
+    matrix: Float64Array,
+    gradient: Float64Array | undefined,
+  ): void {
     const size = this.parameterCount;
     const { freeSlots, products, slotGradient } = scratch;
     const count = freeSlots.length;

@@ -20,7 +20,12 @@ export const IRF_RISE_FRACTION = 0.01;
 export const TAIL_START_OFFSET_CHANNELS = 2;
 
 /** Channels whose start time lies in [startNs, endNs]; throws OUT_OF_RANGE when fewer than `minimumChannels`. */
-export function channelsInRange(timeNs: Float64Array, channelWidthNs: number, rangeNs: readonly [number, number], minimumChannels: number): ChannelRange {
+export function channelsInRange(
+  timeNs: Float64Array,
+  channelWidthNs: number,
+  rangeNs: readonly [number, number],
+  minimumChannels: number,
+): ChannelRange {
   const slack = 1e-6 * channelWidthNs;
   let first = 0;
   while (first < timeNs.length && (timeNs[first] as number) < rangeNs[0] - slack) first++;

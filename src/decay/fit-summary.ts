@@ -50,9 +50,11 @@ export function parameterCovariance(fit: ComponentFit, widenForBounds = false): 
   }
   const invert = (set: readonly number[]): Float64Array | undefined => {
     const reduced = new Float64Array(set.length * set.length);
-    set.forEach((row, a) => set.forEach((column, b) => {
-      reduced[a * set.length + b] = information[row * size + column] as number;
-    }));
+    set.forEach((row, a) =>
+      set.forEach((column, b) => {
+        reduced[a * set.length + b] = information[row * size + column] as number;
+      }),
+    );
     return invertPositiveDefinite(reduced, set.length);
   };
   let counted = interior;
@@ -86,14 +88,19 @@ export function parameterCovariance(fit: ComponentFit, widenForBounds = false): 
  * from the photons p and lifetime τ: var(a) = a²[var(p)/p² + var(τ)/τ² − 2cov(p, τ)/(pτ)].
  */
 export function amplitudeOf(
-  photons: number, tauNs: number, channelWidthNs: number, photonsIndex: number, tauIndex: number, covariance: ParameterCovariance,
+  photons: number,
+  tauNs: number,
+  channelWidthNs: number,
+  photonsIndex: number,
+  tauIndex: number,
+  covariance: ParameterCovariance,
 ): { amplitude: number; amplitudeStdErr?: number } {
   const amplitude = (photons * channelWidthNs) / tauNs;
   if (photonsIndex < 0) return { amplitude };
   const varPhotons = covariance.covariance(photonsIndex, photonsIndex);
   if (varPhotons === undefined || photons === 0) return { amplitude };
-  const varTau = tauIndex >= 0 ? covariance.covariance(tauIndex, tauIndex) ?? 0 : 0;
-  const cov = tauIndex >= 0 ? covariance.covariance(photonsIndex, tauIndex) ?? 0 : 0;
+  const varTau = tauIndex >= 0 ? (covariance.covariance(tauIndex, tauIndex) ?? 0) : 0;
+  const cov = tauIndex >= 0 ? (covariance.covariance(photonsIndex, tauIndex) ?? 0) : 0;
   const relative = varPhotons / (photons * photons) + varTau / (tauNs * tauNs) - (2 * cov) / (photons * tauNs);
   return relative > 0 ? { amplitude, amplitudeStdErr: Math.abs(amplitude) * Math.sqrt(relative) } : { amplitude };
 }
@@ -112,22 +119,28 @@ export function runsTestResiduals(residuals: Float64Array, model: Float64Array):
   if (count < 20) return residuals;
   const kept = new Float64Array(count);
   let next = 0;
-  for (let k = 0; k < residuals.length; k++) if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) kept[next++] = residuals[k] as number;
+  for (let k = 0; k < residuals.length; k++)
+    if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) kept[next++] = residuals[k] as number;
   return kept;
 }
-
 
 /**
  * Extra variance of each free parameter from the IRF's counting noise (irf-noise.ts), or undefined with
  * the reason in `errorNotes` (no IRF, a tail fit, or an IRF that is not whole counts).
  */
 function irfNoiseFor(
-  fit: ComponentFit, prepared: PreparedDecay, local: Float64Array, covariance: ParameterCovariance, errorNotes: string[],
+  fit: ComponentFit,
+  prepared: PreparedDecay,
+  local: Float64Array,
+  covariance: ParameterCovariance,
+  errorNotes: string[],
 ): Float64Array | undefined {
   const { irfUnit, irfTotalCounts } = prepared;
   if (irfUnit === undefined || irfTotalCounts === undefined) return undefined;
   if (!prepared.irfIsCounts) {
-    errorNotes.push('the IRF is not whole counts (a model or a normalised IRF): its noise is not propagated and the errors assume it exact');
+    errorNotes.push(
+      'the IRF is not whole counts (a model or a normalised IRF): its noise is not propagated and the errors assume it exact',
+    );
     return undefined;
   }
   const term = fit.layout.terms[0];
@@ -139,9 +152,19 @@ function irfNoiseFor(
   const jacobian = new Float64Array(local.length * channels);
   model.evaluate(local, true, expected, jacobian);
   const variances = irfNoiseVariances({
-    irfUnit, irfTotalCounts, channelWidthNs: prepared.channelWidthNs, irfWithinChannel: prepared.irfWithinChannel,
-    firstChannel, endChannel, components: fit.components, local, model: expected, jacobian,
-    freeIndex: term.freeIndex, freeCount: fit.layout.labels.length, covariance: covariance.covariance,
+    irfUnit,
+    irfTotalCounts,
+    channelWidthNs: prepared.channelWidthNs,
+    irfWithinChannel: prepared.irfWithinChannel,
+    firstChannel,
+    endChannel,
+    components: fit.components,
+    local,
+    model: expected,
+    jacobian,
+    freeIndex: term.freeIndex,
+    freeCount: fit.layout.labels.length,
+    covariance: covariance.covariance,
   });
   errorNotes.push(
     `the IRF's counting noise (${irfTotalCounts.toPrecision(4)} counts, multinomial) is propagated to first order and included in the standard errors` +
@@ -151,7 +174,11 @@ function irfNoiseFor(
 }
 
 /** Builds the DecayFitResult of a single-decay fit (see header). */
-export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options: ResolvedFitDecayOptions): DecayFitResult {
+export function summariseFit(
+  fit: ComponentFit,
+  prepared: PreparedDecay,
+  options: ResolvedFitDecayOptions,
+): DecayFitResult {
   const { problem, layout, outcome, components } = fit;
   const term = layout.terms[0];
   if (term === undefined) throw new RangeError('a single-decay summary needs one dataset');
@@ -169,7 +196,9 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
   const errorNotes: string[] = [];
   for (const index of covariance.boundCountedAsFree) {
     const label = layout.labels[index] ?? `parameter ${index + 1}`;
-    errorNotes.push(`${label} is at its bound (${(parameters[index] as number).toPrecision(4)}): the other parameters' errors are computed as if it were free (widened, not conditional on the bound)`);
+    errorNotes.push(
+      `${label} is at its bound (${(parameters[index] as number).toPrecision(4)}): the other parameters' errors are computed as if it were free (widened, not conditional on the bound)`,
+    );
   }
   const irfVariances = irfNoiseFor(fit, prepared, local, covariance, errorNotes);
   const errors = covariance.errors.map((error, index) => {
@@ -192,32 +221,54 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
     const tauNs = local[i] as number;
     const free = term.freeIndex[i] as number;
     const { amplitude, amplitudeStdErr } = amplitudeOf(
-      local[components + i] as number, tauNs, prepared.channelWidthNs, term.freeIndex[components + i] as number, free, covariance,
+      local[components + i] as number,
+      tauNs,
+      prepared.channelWidthNs,
+      term.freeIndex[components + i] as number,
+      free,
+      covariance,
     );
     const tauNsStdErr = errorOf(i);
     const tauNsStdErrFromIrf = irfErrorOf(i);
     let tauNsInterval: LifetimeInterval | undefined;
     if (free >= 0 && options.profileIntervals && !outcome.converged) {
-      tauNsInterval = { lowReason: 'the fit did not converge', highReason: 'the fit did not converge', level: options.confidenceLevel, deltaObjective };
+      tauNsInterval = {
+        lowReason: 'the fit did not converge',
+        highReason: 'the fit did not converge',
+        level: options.confidenceLevel,
+        deltaObjective,
+      };
     } else if (free >= 0 && options.profileIntervals && tauNsStdErr === undefined) {
       const why = 'the lifetime has no standard error (at a bound or not identifiable)';
       tauNsInterval = { lowReason: why, highReason: why, level: options.confidenceLevel, deltaObjective };
     } else if (free >= 0 && options.profileIntervals && tauNsStdErr !== undefined) {
       const profile = profileInterval(
-        problem, parameters, outcome.objective, free, layout.lower, layout.upper, tauNsStdErr, deltaObjective, options.maxIterations,
+        problem,
+        parameters,
+        outcome.objective,
+        free,
+        layout.lower,
+        layout.upper,
+        tauNsStdErr,
+        deltaObjective,
+        options.maxIterations,
       );
       // The profile holds the IRF fixed; its counting noise is added in quadrature to each half-width.
-      const irfVariance = tauNsStdErrFromIrf === undefined ? 0 : deltaObjective * tauNsStdErrFromIrf * tauNsStdErrFromIrf;
-      const widen = (end: number): number => tauNs + Math.sign(end - tauNs) * Math.sqrt((end - tauNs) ** 2 + irfVariance);
+      const irfVariance =
+        tauNsStdErrFromIrf === undefined ? 0 : deltaObjective * tauNsStdErrFromIrf * tauNsStdErrFromIrf;
+      const widen = (end: number): number =>
+        tauNs + Math.sign(end - tauNs) * Math.sqrt((end - tauNs) ** 2 + irfVariance);
       tauNsInterval = {
         ...(profile.low === undefined ? {} : { lowNs: widen(profile.low) }),
         ...(profile.high === undefined ? {} : { highNs: widen(profile.high) }),
         ...(profile.lowReason === undefined ? {} : { lowReason: profile.lowReason }),
         ...(profile.highReason === undefined ? {} : { highReason: profile.highReason }),
-        level: options.confidenceLevel, deltaObjective,
+        level: options.confidenceLevel,
+        deltaObjective,
       };
     }
-    if (free >= 0 && tauNsStdErr === undefined) warnings.push(`tau${i + 1}Ns has no standard error (at a bound or not identifiable)`);
+    if (free >= 0 && tauNsStdErr === undefined)
+      warnings.push(`tau${i + 1}Ns has no standard error (at a bound or not identifiable)`);
     componentResults.push({
       tauNs,
       ...(tauNsStdErr === undefined ? {} : { tauNsStdErr }),
@@ -257,35 +308,54 @@ export function summariseFit(fit: ComponentFit, prepared: PreparedDecay, options
       }
     }
   }
-  const earlierPulses = prepared.repetitionRateHz === undefined
-    ? earlierPulseSuspicion({ counts: prepared.counts, model, firstChannel: prepared.range.firstChannel, backgroundPerChannel: local[2 * components + 1] as number })
-    : undefined;
+  const earlierPulses =
+    prepared.repetitionRateHz === undefined
+      ? earlierPulseSuspicion({
+          counts: prepared.counts,
+          model,
+          firstChannel: prepared.range.firstChannel,
+          backgroundPerChannel: local[2 * components + 1] as number,
+        })
+      : undefined;
   if (earlierPulses !== undefined) warnings.push(earlierPulses);
   if (prepared.periodNs !== undefined) {
     const longest = withFractions.reduce((most, component) => Math.max(most, component.tauNs), 0);
-    const periodic = periodicBackgroundWarning(longest, prepared.periodNs, (term.freeIndex[2 * components + 1] as number) >= 0);
+    const periodic = periodicBackgroundWarning(
+      longest,
+      prepared.periodNs,
+      (term.freeIndex[2 * components + 1] as number) >= 0,
+    );
     if (periodic !== undefined) warnings.push(periodic);
   }
   const unacceptableReasons = [
     ...fitAcceptability({
-      converged: outcome.converged, channelWidthNs: prepared.channelWidthNs, windowNs: prepared.counts.length * prepared.channelWidthNs,
-      components: withFractions, atBound,
+      converged: outcome.converged,
+      channelWidthNs: prepared.channelWidthNs,
+      windowNs: prepared.counts.length * prepared.channelWidthNs,
+      components: withFractions,
+      atBound,
     }),
-    ...(earlierPulses === undefined ? [] : ['the repetition rate is unknown and light from earlier pulses is not excluded']),
+    ...(earlierPulses === undefined
+      ? []
+      : ['the repetition rate is unknown and light from earlier pulses is not excluded']),
   ];
   if (unacceptableReasons.length > 0) warnings.push(`the fit is not acceptable: ${unacceptableReasons.join('; ')}`);
   const irfFwhmNs = prepared.irfFwhmNs;
   if (irfFwhmNs !== undefined) {
     for (const component of withFractions) {
       if (component.tauNs < irfFwhmNs / 10) {
-        warnings.push(`τ = ${component.tauNs.toPrecision(3)} ns is below a tenth of the IRF FWHM (${irfFwhmNs.toPrecision(3)} ns); it depends strongly on the IRF shape`);
+        warnings.push(
+          `τ = ${component.tauNs.toPrecision(3)} ns is below a tenth of the IRF FWHM (${irfFwhmNs.toPrecision(3)} ns); it depends strongly on the IRF shape`,
+        );
       }
     }
   }
   const dw = durbinWatson(residuals);
   const runs = runsTest(runsTestResiduals(residuals, model));
   if (dw < DURBIN_WATSON_WARNING || Math.abs(runs.z) > RUNS_Z_WARNING) {
-    warnings.push(`residual structure: Durbin–Watson ${dw.toFixed(2)}, runs z ${runs.z.toFixed(1)}; consider another number of components, the range or the IRF`);
+    warnings.push(
+      `residual structure: Durbin–Watson ${dw.toFixed(2)}, runs z ${runs.z.toFixed(1)}; consider another number of components, the range or the IRF`,
+    );
   }
   const scatterSlot = 2 * components + 2;
   let scatterFraction = 0;

@@ -22,7 +22,10 @@ import { plainArray, type ComponentResult, type GlobalDecayResult, type GlobalFi
 export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): GlobalFitResult {
   const resolved = resolveFitDecayOptions(options, 'globalFit');
   const components = resolved.components;
-  if (components === 'auto') throw new ConfigInvalid('globalFit needs a fixed number of components (1–4)', { configPath: 'globalFit.components' });
+  if (components === 'auto')
+    throw new ConfigInvalid('globalFit needs a fixed number of components (1–4)', {
+      configPath: 'globalFit.components',
+    });
   if (decays.length === 0) throw new ConfigInvalid('globalFit needs at least one decay', { configPath: 'globalFit' });
   const lifetimes = Array.from({ length: components }, (_unused, i) => `tau${i + 1}Ns` as ParameterName);
   const links = resolved.links ?? lifetimes;
@@ -33,7 +36,9 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
     throw new AnalysisFailed('FIT_FAILED', `the global ${components}-component model is not finite: ${outcome.reason}`);
   }
   const covariance = parameterCovariance(fit);
-  const warnings: string[] = prepared.flatMap((item, d) => item.warnings.map((warning) => `decay ${d + 1}: ${warning}`));
+  const warnings: string[] = prepared.flatMap((item, d) =>
+    item.warnings.map((warning) => `decay ${d + 1}: ${warning}`),
+  );
   if (!outcome.converged) warnings.push(`the global fit did not converge: ${outcome.reason}`);
   let pearsonTotal = 0;
   let channelsTotal = 0;
@@ -47,7 +52,9 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
     const pearson = pearsonChiSquare(term.counts, model);
     pearsonTotal += pearson;
     channelsTotal += model.length;
-    const ownFree = term.freeIndex.filter((index, slot) => index >= 0 && !links.includes(layoutName(slot, components))).length;
+    const ownFree = term.freeIndex.filter(
+      (index, slot) => index >= 0 && !links.includes(layoutName(slot, components)),
+    ).length;
     const componentResults = componentsOf(local, components, term.freeIndex, covariance, item.channelWidthNs);
     let photons = 0;
     for (let k = 0; k < term.counts.length; k++) photons += term.counts[k] as number;
@@ -94,13 +101,24 @@ function layoutName(slot: number, components: number): ParameterName {
 
 /** Component results of one decay in slot order (shared lifetimes keep the same order in every decay). */
 function componentsOf(
-  local: Float64Array, components: number, freeIndex: Int32Array, covariance: ParameterCovariance, channelWidthNs: number,
+  local: Float64Array,
+  components: number,
+  freeIndex: Int32Array,
+  covariance: ParameterCovariance,
+  channelWidthNs: number,
 ): ComponentResult[] {
   const partial = Array.from({ length: components }, (_unused, i) => {
     const tauNs = local[i] as number;
     const tauFree = freeIndex[i] as number;
     const photons = local[components + i] as number;
-    const { amplitude, amplitudeStdErr } = amplitudeOf(photons, tauNs, channelWidthNs, freeIndex[components + i] as number, tauFree, covariance);
+    const { amplitude, amplitudeStdErr } = amplitudeOf(
+      photons,
+      tauNs,
+      channelWidthNs,
+      freeIndex[components + i] as number,
+      tauFree,
+      covariance,
+    );
     const tauNsStdErr = tauFree >= 0 ? covariance.errors[tauFree] : undefined;
     return { tauNs, tauNsStdErr, amplitude, amplitudeStdErr, photons, tauFixed: tauFree < 0 };
   });

@@ -31,7 +31,10 @@ export interface AlignedIrf {
  * Throws InputRejected IRF_AXIS_MISMATCH when the IRF is coarser than the decay or > 1 % of its counts
  * fall outside the decay's window.
  */
-export function alignIrfToDecay(irf: HistogramAxis & { readonly counts: ArrayLike<number> }, decay: HistogramAxis): AlignedIrf {
+export function alignIrfToDecay(
+  irf: HistogramAxis & { readonly counts: ArrayLike<number> },
+  decay: HistogramAxis,
+): AlignedIrf {
   const decayWidth = decay.channelWidthNs;
   const irfWidth = irf.channelWidthNs;
   const channels = decay.timeNs.length;
@@ -45,7 +48,8 @@ export function alignIrfToDecay(irf: HistogramAxis & { readonly counts: ArrayLik
       `the IRF has channels of ${irfWidth.toPrecision(4)} ns, coarser than the decay's ${decayWidth.toPrecision(4)} ns; it cannot be refined without inventing its shape`,
     );
   }
-  const sameAxis = sameWidth && Math.abs(offsetNs) <= CHANNEL_WIDTH_TOLERANCE * decayWidth && irf.counts.length === channels;
+  const sameAxis =
+    sameWidth && Math.abs(offsetNs) <= CHANNEL_WIDTH_TOLERANCE * decayWidth && irf.counts.length === channels;
   if (sameAxis) return { counts: Float64Array.from(irf.counts), note: undefined };
   const counts = new Float64Array(channels);
   let total = 0;
@@ -82,8 +86,10 @@ export function alignIrfToDecay(irf: HistogramAxis & { readonly counts: ArrayLik
     );
   }
   const parts: string[] = [];
-  if (!sameWidth) parts.push(`resampled from ${irfWidth.toPrecision(4)} ns to the decay's ${decayWidth.toPrecision(4)} ns channels`);
-  if (Math.abs(offsetNs) > CHANNEL_WIDTH_TOLERANCE * decayWidth) parts.push(`placed by its own time axis (starting ${offsetNs.toPrecision(4)} ns from the decay's)`);
+  if (!sameWidth)
+    parts.push(`resampled from ${irfWidth.toPrecision(4)} ns to the decay's ${decayWidth.toPrecision(4)} ns channels`);
+  if (Math.abs(offsetNs) > CHANNEL_WIDTH_TOLERANCE * decayWidth)
+    parts.push(`placed by its own time axis (starting ${offsetNs.toPrecision(4)} ns from the decay's)`);
   if (parts.length === 0) parts.push(`placed on the decay's ${channels} channels from its own ${irf.counts.length}`);
   return { counts, note: `the IRF was ${parts.join(' and ')}` };
 }

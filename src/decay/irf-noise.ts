@@ -38,7 +38,18 @@ export interface IrfNoiseInput {
 
 /** Extra variance of each free parameter from the IRF's multinomial counting noise (see header); O(n_irf·n_range·p). */
 export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
-  const { irfUnit, channelWidthNs, firstChannel, endChannel, components, local, model, jacobian, freeIndex, freeCount } = input;
+  const {
+    irfUnit,
+    channelWidthNs,
+    firstChannel,
+    endChannel,
+    components,
+    local,
+    model,
+    jacobian,
+    freeIndex,
+    freeCount,
+  } = input;
   const channels = irfUnit.length;
   const rangeChannels = endChannel - firstChannel;
   const shiftNs = local[2 * components] as number;
@@ -58,7 +69,9 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
     const tauNs = local[i] as number;
     const amplitude = ((local[components + i] as number) * channelWidthNs) / tauNs;
     convolveExponentialWithIrf(shiftedImpulse, undefined, tauNs, channelWidthNs, undefined, 0, length, false, {
-      response, responsePerTauNs: none, responsePerShiftNs: none,
+      response,
+      responsePerTauNs: none,
+      responsePerShiftNs: none,
     });
     for (let q = 0; q < length; q++) kernel[q] = (kernel[q] as number) + amplitude * (response[q] as number);
   }
@@ -74,12 +87,14 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
   }
   const weighted = slots.map((slot) => {
     const column = new Float64Array(rangeChannels);
-    for (let k = 0; k < rangeChannels; k++) column[k] = ((jacobian[slot * rangeChannels + k] as number) / Math.max(model[k] as number, 1e-10));
+    for (let k = 0; k < rangeChannels; k++)
+      column[k] = (jacobian[slot * rangeChannels + k] as number) / Math.max(model[k] as number, 1e-10);
     return column;
   });
   // Covariance rows of the free parameters (undefined entries count as 0: not estimable, not propagated).
   const cov = new Float64Array(freeCount * freeCount);
-  for (let a = 0; a < freeCount; a++) for (let b = 0; b < freeCount; b++) cov[a * freeCount + b] = input.covariance(a, b) ?? 0;
+  for (let a = 0; a < freeCount; a++)
+    for (let b = 0; b < freeCount; b++) cov[a * freeCount + b] = input.covariance(a, b) ?? 0;
   const sumSquares = new Float64Array(freeCount);
   const sumFirst = new Float64Array(freeCount);
   const z = new Float64Array(freeCount);
@@ -108,5 +123,8 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
       sumFirst[a] = (sumFirst[a] as number) + g * value;
     }
   }
-  return Float64Array.from(sumSquares, (squares, a) => Math.max(0, squares - (sumFirst[a] as number) ** 2) / input.irfTotalCounts);
+  return Float64Array.from(
+    sumSquares,
+    (squares, a) => Math.max(0, squares - (sumFirst[a] as number) ** 2) / input.irfTotalCounts,
+  );
 }

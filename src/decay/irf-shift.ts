@@ -47,12 +47,19 @@ export function shiftIrf(
       before = at;
     }
   }
-  for (let k = interiorEnd; k < endChannel; k++) shiftChannel(irf, whole, fraction, inverseWidth, k, shifted, slopePerNs);
+  for (let k = interiorEnd; k < endChannel; k++)
+    shiftChannel(irf, whole, fraction, inverseWidth, k, shifted, slopePerNs);
 }
 
 /** One channel of shiftIrf with the source channels checked against the histogram (outside counts as zero). */
 function shiftChannel(
-  irf: Float64Array, whole: number, fraction: number, inverseWidth: number, k: number, shifted: Float64Array, slopePerNs: Float64Array | undefined,
+  irf: Float64Array,
+  whole: number,
+  fraction: number,
+  inverseWidth: number,
+  k: number,
+  shifted: Float64Array,
+  slopePerNs: Float64Array | undefined,
 ): void {
   const i0 = k - whole;
   const i1 = i0 - 1;

@@ -54,7 +54,11 @@ export function minimiseLevenbergMarquardt(
   const scaledGradient = new Float64Array(size);
   let value = objective.evaluate(parameters, true, normal, gradient);
   const finish = (converged: boolean, iterations: number, reason: string): MinimiserOutcome => ({
-    converged, iterations, reason, parameters, objective: value,
+    converged,
+    iterations,
+    reason,
+    parameters,
+    objective: value,
   });
   if (!Number.isFinite(value) || !allFinite(gradient) || !allFinite(normal)) {
     return finish(false, 0, 'the model is not finite at the start values');
@@ -65,7 +69,11 @@ export function minimiseLevenbergMarquardt(
     markActive(parameters, gradient, lower, upper, active);
     const decrement = newtonDecrement(normal, gradient, active, size, damped, step, scaledGradient);
     if (decrement !== undefined && decrement < DECREMENT_TOLERANCE) {
-      return finish(true, iteration, `converged: Newton decrement ${decrement.toExponential(1)} < ${DECREMENT_TOLERANCE}`);
+      return finish(
+        true,
+        iteration,
+        `converged: Newton decrement ${decrement.toExponential(1)} < ${DECREMENT_TOLERANCE}`,
+      );
     }
     if (iteration === maxIterations) break;
     // The first trial of an iteration also computes JᵀJ and Jᵀr (usually it is accepted, and they are the
@@ -94,16 +102,28 @@ export function minimiseLevenbergMarquardt(
         }
         trialWithDerivatives = false;
         if (Number.isFinite(trialValue) && trialValue === value && decrement !== undefined && decrement < 1e-4) {
-          return finish(true, iteration + 1, `converged: no further decrease (Newton decrement ${decrement.toExponential(1)})`);
+          return finish(
+            true,
+            iteration + 1,
+            `converged: no further decrease (Newton decrement ${decrement.toExponential(1)})`,
+          );
         }
       }
       lambda *= growth;
       growth *= 2;
       if (lambda > 1e16) {
         if (decrement !== undefined && decrement < 1e-4) {
-          return finish(true, iteration + 1, `converged: no further decrease (Newton decrement ${decrement.toExponential(1)})`);
+          return finish(
+            true,
+            iteration + 1,
+            `converged: no further decrease (Newton decrement ${decrement.toExponential(1)})`,
+          );
         }
-        return finish(false, iteration + 1, 'stalled: no step lowers the objective (check start values, range and bounds)');
+        return finish(
+          false,
+          iteration + 1,
+          'stalled: no step lowers the objective (check start values, range and bounds)',
+        );
       }
     }
     if (acceptedWithDerivatives) {
@@ -129,18 +149,26 @@ function allFinite(values: Float64Array): boolean {
 }
 
 /** A parameter is held this iteration when fixed (lower = upper) or on a bound with the gradient pushing outward. */
-function markActive(parameters: Float64Array, gradient: Float64Array, lower: Float64Array, upper: Float64Array, active: Uint8Array): void {
+function markActive(
+  parameters: Float64Array,
+  gradient: Float64Array,
+  lower: Float64Array,
+  upper: Float64Array,
+  active: Uint8Array,
+): void {
   for (let i = 0; i < parameters.length; i++) {
     const value = parameters[i] as number;
     const slope = gradient[i] as number;
     const fixed = (lower[i] as number) === (upper[i] as number);
-    active[i] = fixed || (value <= (lower[i] as number) && slope > 0) || (value >= (upper[i] as number) && slope < 0) ? 1 : 0;
+    active[i] =
+      fixed || (value <= (lower[i] as number) && slope > 0) || (value >= (upper[i] as number) && slope < 0) ? 1 : 0;
   }
 }
 
 function buildDamped(normal: Float64Array, active: Uint8Array, lambda: number, size: number, out: Float64Array): void {
   let largestDiagonal = 0;
-  for (let i = 0; i < size; i++) if (active[i] === 0) largestDiagonal = Math.max(largestDiagonal, normal[i * size + i] as number);
+  for (let i = 0; i < size; i++)
+    if (active[i] === 0) largestDiagonal = Math.max(largestDiagonal, normal[i * size + i] as number);
   // Marquardt scaling by each parameter's own curvature; a floor only where that curvature is zero.
   const floor = 1e-12 * (largestDiagonal > 0 ? largestDiagonal : 1);
   for (let i = 0; i < size; i++) {
@@ -155,14 +183,20 @@ function buildDamped(normal: Float64Array, active: Uint8Array, lambda: number, s
 
 /** gᵀA⁻¹g over the free set (computed on the Jacobi-scaled matrix for conditioning), or undefined when A is singular there. */
 function newtonDecrement(
-  normal: Float64Array, gradient: Float64Array, active: Uint8Array, size: number, work: Float64Array, vector: Float64Array,
+  normal: Float64Array,
+  gradient: Float64Array,
+  active: Uint8Array,
+  size: number,
+  work: Float64Array,
+  vector: Float64Array,
   scaled: Float64Array,
 ): number | undefined {
   for (let i = 0; i < size; i++) {
     const scaleI = active[i] === 1 ? 1 : 1 / Math.sqrt(Math.max(normal[i * size + i] as number, Number.MIN_VALUE));
     for (let j = 0; j < size; j++) {
       const scaleJ = active[j] === 1 ? 1 : 1 / Math.sqrt(Math.max(normal[j * size + j] as number, Number.MIN_VALUE));
-      work[i * size + j] = active[i] === 1 || active[j] === 1 ? (i === j ? 1 : 0) : (normal[i * size + j] as number) * scaleI * scaleJ;
+      work[i * size + j] =
+        active[i] === 1 || active[j] === 1 ? (i === j ? 1 : 0) : (normal[i * size + j] as number) * scaleI * scaleJ;
     }
     vector[i] = active[i] === 1 ? 0 : (gradient[i] as number) * scaleI;
   }

@@ -9,7 +9,11 @@ export interface LogLine {
 }
 
 /** Weighted least-squares line through (t in ns, ln y) with weights y; undefined with fewer than `minPoints` points or a degenerate axis. O(n). */
-export function logLinearFit(timesNs: readonly number[], values: readonly number[], minPoints: number): LogLine | undefined {
+export function logLinearFit(
+  timesNs: readonly number[],
+  values: readonly number[],
+  minPoints: number,
+): LogLine | undefined {
   let sw = 0;
   let swt = 0;
   let swy = 0;

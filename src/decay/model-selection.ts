@@ -8,7 +8,10 @@ import type { DecayFitResult, ModelSelection, SelectionCandidate } from './resul
 export const BIC_MARGIN = 10;
 
 /** Picks the number of components from fitted candidates (ascending components) and says why. */
-export function selectComponents(fits: readonly DecayFitResult[]): { chosen: DecayFitResult; selection: ModelSelection } {
+export function selectComponents(fits: readonly DecayFitResult[]): {
+  chosen: DecayFitResult;
+  selection: ModelSelection;
+} {
   const candidates: SelectionCandidate[] = fits.map((fit) => ({
     components: fit.components.length,
     bic: fit.bic,

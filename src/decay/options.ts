@@ -59,7 +59,9 @@ const schema = z
     bounds: z
       .partialRecord(
         parameterName,
-        z.tuple([z.number(), z.number()]).refine(([low, high]) => high >= low, { message: 'bounds must be [min, max] with max ≥ min' }),
+        z
+          .tuple([z.number(), z.number()])
+          .refine(([low, high]) => high >= low, { message: 'bounds must be [min, max] with max ≥ min' }),
       )
       .default({}),
     links: z.array(parameterName).optional(),
@@ -81,7 +83,10 @@ const schema = z
 export type ResolvedFitDecayOptions = Readonly<z.output<typeof schema>>;
 
 /** Validates fit options, fills defaults and freezes them; throws ConfigInvalid naming the option path. */
-export function resolveFitDecayOptions(options: FitDecayOptions | undefined, configPath = 'fitDecay'): ResolvedFitDecayOptions {
+export function resolveFitDecayOptions(
+  options: FitDecayOptions | undefined,
+  configPath = 'fitDecay',
+): ResolvedFitDecayOptions {
   const parsed = schema.safeParse(options ?? {});
   if (!parsed.success) {
     const issue = parsed.error.issues[0];

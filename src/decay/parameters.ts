@@ -9,9 +9,17 @@ export type PhotonsName = `photons${ComponentIndex}`;
 export type ParameterName = LifetimeName | PhotonsName | 'shiftNs' | 'backgroundPerChannel' | 'scatterCounts';
 
 export const PARAMETER_NAMES: readonly ParameterName[] = [
-  'tau1Ns', 'tau2Ns', 'tau3Ns', 'tau4Ns',
-  'photons1', 'photons2', 'photons3', 'photons4',
-  'shiftNs', 'backgroundPerChannel', 'scatterCounts',
+  'tau1Ns',
+  'tau2Ns',
+  'tau3Ns',
+  'tau4Ns',
+  'photons1',
+  'photons2',
+  'photons3',
+  'photons4',
+  'shiftNs',
+  'backgroundPerChannel',
+  'scatterCounts',
 ];
 
 /** Number of local parameters for `components` exponentials: c lifetimes, c photon counts, shift, background, scatter. */

@@ -7,7 +7,11 @@ import { logLinearFit } from './log-linear-fit.js';
 
 /** [short, long] lifetimes in ns by peeling the background-subtracted decay on [first, end), or undefined when the data do not show two slopes. O(n). */
 export function estimatePeeledLifetimesNs(
-  timeNs: Float64Array, counts: Float64Array, background: number, firstChannel: number, endChannel: number,
+  timeNs: Float64Array,
+  counts: Float64Array,
+  background: number,
+  firstChannel: number,
+  endChannel: number,
 ): [number, number] | undefined {
   const peak = firstChannel + peakChannel(counts.subarray(firstChannel, endChannel));
   const peakExcess = (counts[peak] as number) - background;

@@ -41,10 +41,13 @@ const phasorSchema = z
   .object({
     harmonic: z.number().int().min(1).default(1),
     frequencyHz: z.number().positive().optional(),
-    irfCounts: z.custom<ArrayLike<number>>(
-      (value) => value instanceof Float64Array || (Array.isArray(value) && value.every((item) => typeof item === 'number')),
-      { message: 'expected an array of numbers' },
-    ).optional(),
+    irfCounts: z
+      .custom<ArrayLike<number>>(
+        (value) =>
+          value instanceof Float64Array || (Array.isArray(value) && value.every((item) => typeof item === 'number')),
+        { message: 'expected an array of numbers' },
+      )
+      .optional(),
     backgroundPerChannel: z.number().min(0).default(0),
   })
   .strict();
@@ -56,13 +59,21 @@ export function resolvePhasorOptions(options: PhasorOptions | undefined): Resolv
   const parsed = phasorSchema.safeParse(options ?? {});
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    throw new ConfigInvalid(issue?.message ?? 'invalid phasor options', { configPath: `phasor.${issue?.path.join('.') ?? ''}` });
+    throw new ConfigInvalid(issue?.message ?? 'invalid phasor options', {
+      configPath: `phasor.${issue?.path.join('.') ?? ''}`,
+    });
   }
   return Object.freeze(parsed.data);
 }
 
 /** Raw (uncalibrated) phasor of counts at angular frequency ω (rad/ns) on channel centres; O(n). */
-function rawPhasor(counts: ArrayLike<number>, timeNs: Float64Array, channelWidthNs: number, omegaPerNs: number, background: number): [number, number] {
+function rawPhasor(
+  counts: ArrayLike<number>,
+  timeNs: Float64Array,
+  channelWidthNs: number,
+  omegaPerNs: number,
+  background: number,
+): [number, number] {
   let total = 0;
   let cosine = 0;
   let sine = 0;
@@ -73,7 +84,8 @@ function rawPhasor(counts: ArrayLike<number>, timeNs: Float64Array, channelWidth
     cosine += value * Math.cos(angle);
     sine += value * Math.sin(angle);
   }
-  if (!(total > 0)) throw new InputRejected('INPUT_INVALID', 'the phasor needs positive total counts after background subtraction');
+  if (!(total > 0))
+    throw new InputRejected('INPUT_INVALID', 'the phasor needs positive total counts after background subtraction');
   return [cosine / total, sine / total];
 }
 
@@ -97,9 +109,14 @@ export function phasorOf(decay: Decay, userOptions?: PhasorOptions): PhasorResul
   const modulation = Math.hypot(g, s);
   const phaseRad = Math.atan2(s, g);
   return {
-    g, s, phaseRad, modulation,
+    g,
+    s,
+    phaseRad,
+    modulation,
     tauPhaseNs: Math.tan(phaseRad) / omegaPerNs,
     tauModulationNs: modulation < 1 ? Math.sqrt(1 / (modulation * modulation) - 1) / omegaPerNs : 0,
-    frequencyHz, harmonic, calibrated: irf !== undefined,
+    frequencyHz,
+    harmonic,
+    calibrated: irf !== undefined,
   };
 }

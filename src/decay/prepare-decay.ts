@@ -47,7 +47,11 @@ export const LOW_PEAK_COUNTS = 100;
 export const MIN_IRF_FWHM_CHANNELS = { flat: 10, 'second-order': 2.5 } as const;
 
 /** The coarse-channel warning for an IRF of `irfFwhmNs` on channels of `channelWidthNs`, or undefined. */
-export function coarseChannelWarning(irfFwhmNs: number | undefined, channelWidthNs: number, mode: IrfWithinChannel): string | undefined {
+export function coarseChannelWarning(
+  irfFwhmNs: number | undefined,
+  channelWidthNs: number,
+  mode: IrfWithinChannel,
+): string | undefined {
   if (irfFwhmNs === undefined) return undefined;
   const fwhmChannels = irfFwhmNs / channelWidthNs;
   if (fwhmChannels >= MIN_IRF_FWHM_CHANNELS[mode]) return undefined;
@@ -83,7 +87,10 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
   let irfIsCounts = false;
   if (irfSource !== undefined) {
     if (irfSource.length !== channels) {
-      throw new InputRejected('LENGTH_MISMATCH', `the IRF has ${irfSource.length} channels but the decay has ${channels}`);
+      throw new InputRejected(
+        'LENGTH_MISMATCH',
+        `the IRF has ${irfSource.length} channels but the decay has ${channels}`,
+      );
     }
     const irf = Float64Array.from(irfSource);
     let sum = 0;
@@ -107,30 +114,52 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
   let counts = decay.counts;
   let pileUpCorrected = false;
   const collectionTimeS = decay.metadata.collectionTimeS;
-  const countRatePerS = decay.metadata.countRatePerS ?? (collectionTimeS !== undefined && collectionTimeS > 0 ? photons / collectionTimeS : undefined);
-  if (countRatePerS !== undefined && repetitionRateHz !== undefined && countRatePerS > PILE_UP_RATE_FRACTION * repetitionRateHz) {
+  const countRatePerS =
+    decay.metadata.countRatePerS ??
+    (collectionTimeS !== undefined && collectionTimeS > 0 ? photons / collectionTimeS : undefined);
+  if (
+    countRatePerS !== undefined &&
+    repetitionRateHz !== undefined &&
+    countRatePerS > PILE_UP_RATE_FRACTION * repetitionRateHz
+  ) {
     warnings.push(
       `count rate ${countRatePerS.toPrecision(3)} /s exceeds ${PILE_UP_RATE_FRACTION * 100} % of the repetition rate ${repetitionRateHz.toPrecision(3)} Hz: pile-up distorts the decay${options.pileUpCorrection ? '' : '; apply the pile-up correction (fit-decay --pile-up-correction, config analysis.pileUpCorrection, option pileUpCorrection)'}`,
     );
   }
   if (options.pileUpCorrection) {
     if (collectionTimeS === undefined || repetitionRateHz === undefined) {
-      warnings.push('pile-up correction requested but the collection time or repetition rate is unknown; not applied (give the repetition rate with fit-decay --repetition-rate-mhz or config instrument.repetitionRateMHz, and a "collection time" line in the file)');
+      warnings.push(
+        'pile-up correction requested but the collection time or repetition rate is unknown; not applied (give the repetition rate with fit-decay --repetition-rate-mhz or config instrument.repetitionRateMHz, and a "collection time" line in the file)',
+      );
     } else {
       counts = coatesCorrection(decay.counts, collectionTimeS * repetitionRateHz);
       pileUpCorrected = true;
     }
   }
-  const range = options.rangeNs === undefined
-    ? automaticRange(counts, irfUnit, channelWidthNs, options.estimator, minimumChannels)
-    : channelsInRange(decay.timeNs, channelWidthNs, options.rangeNs, minimumChannels);
+  const range =
+    options.rangeNs === undefined
+      ? automaticRange(counts, irfUnit, channelWidthNs, options.estimator, minimumChannels)
+      : channelsInRange(decay.timeNs, channelWidthNs, options.rangeNs, minimumChannels);
   let peakCounts = 0;
   for (let k = range.firstChannel; k < range.endChannel; k++) peakCounts = Math.max(peakCounts, counts[k] as number);
   if (peakCounts < LOW_PEAK_COUNTS) {
     warnings.push(`peak counts are low (${peakCounts} < ${LOW_PEAK_COUNTS}); lifetimes are imprecise`);
   }
   return {
-    timeNs: decay.timeNs, channelWidthNs, counts, irfUnit, irfFwhmNs, irfRiseChannel, periodNs, repetitionRateHz, range, photons,
-    pileUpCorrected, irfTotalCounts, irfIsCounts, irfWithinChannel: options.irfWithinChannel, warnings,
+    timeNs: decay.timeNs,
+    channelWidthNs,
+    counts,
+    irfUnit,
+    irfFwhmNs,
+    irfRiseChannel,
+    periodNs,
+    repetitionRateHz,
+    range,
+    photons,
+    pileUpCorrected,
+    irfTotalCounts,
+    irfIsCounts,
+    irfWithinChannel: options.irfWithinChannel,
+    warnings,
   };
 }

@@ -18,16 +18,27 @@ export interface ProfileSide {
  * iterations; a missing end carries its reason.
  */
 export function profileInterval(
-  objective: SumOfSquaresObjective, best: Float64Array, bestObjective: number, index: number,
-  lower: Float64Array, upper: Float64Array, standardError: number, deltaObjective: number, maxIterations: number,
+  objective: SumOfSquaresObjective,
+  best: Float64Array,
+  bestObjective: number,
+  index: number,
+  lower: Float64Array,
+  upper: Float64Array,
+  standardError: number,
+  deltaObjective: number,
+  maxIterations: number,
 ): { low: number | undefined; high: number | undefined; lowReason?: string; highReason?: string } {
   const side = (direction: 1 | -1): ProfileSide => {
     let failedAt: number | undefined;
     const value = sideValue(direction, (at) => (failedAt = at));
     if (value !== undefined) return { value };
     const limit = direction > 0 ? (upper[index] as number) : (lower[index] as number);
-    if (failedAt !== undefined) return { value, reason: `the refit with the lifetime held at ${failedAt.toPrecision(4)} did not converge` };
-    return { value, reason: `the objective rises by less than ${deltaObjective.toPrecision(3)} between the fit and the bound ${limit.toPrecision(4)} (or 12 widening steps): the interval is open on this side` };
+    if (failedAt !== undefined)
+      return { value, reason: `the refit with the lifetime held at ${failedAt.toPrecision(4)} did not converge` };
+    return {
+      value,
+      reason: `the objective rises by less than ${deltaObjective.toPrecision(3)} between the fit and the bound ${limit.toPrecision(4)} (or 12 widening steps): the interval is open on this side`,
+    };
   };
   const sideValue = (direction: 1 | -1, onFailure: (at: number) => void): number | undefined => {
     const centre = best[index] as number;
@@ -100,7 +111,8 @@ export function profileInterval(
   const low = side(-1);
   const high = side(1);
   return {
-    low: low.value, high: high.value,
+    low: low.value,
+    high: high.value,
     ...(low.reason === undefined ? {} : { lowReason: low.reason }),
     ...(high.reason === undefined ? {} : { highReason: high.reason }),
   };

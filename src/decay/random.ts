@@ -38,7 +38,9 @@ export function logFactorial(k: number): number {
   const inverse = 1 / x;
   const inverse2 = inverse * inverse;
   return (
-    (x - 0.5) * Math.log(x) - x + 0.5 * Math.log(2 * Math.PI) +
+    (x - 0.5) * Math.log(x) -
+    x +
+    0.5 * Math.log(2 * Math.PI) +
     inverse * (1 / 12 - inverse2 * (1 / 360 - inverse2 / 1260))
   );
 }

@@ -25,8 +25,14 @@ export interface ComponentColumns {
  * derivative over at least the range end. O(firstChannel + channelCount).
  */
 export function addComponentWithDerivatives(
-  irf: Float64Array, irfSlopePerNs: Float64Array, tauNs: number, channelWidthNs: number, amplitude: number,
-  firstChannel: number, channelCount: number, out: ComponentColumns,
+  irf: Float64Array,
+  irfSlopePerNs: Float64Array,
+  tauNs: number,
+  channelWidthNs: number,
+  amplitude: number,
+  firstChannel: number,
+  channelCount: number,
+  out: ComponentColumns,
 ): void {
   const { x, k0, c, dx, dk0, dc } = recursionCoefficients(tauNs, channelWidthNs);
   const { model, perTauNs, perPhoton, perShiftNs } = out;

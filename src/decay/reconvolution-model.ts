@@ -77,9 +77,26 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
       prepareShiftedIrf(shiftNs, withDerivatives);
       const shiftColumn = jacobian.subarray(2 * components * channelCount, (2 * components + 1) * channelCount);
       if (withDerivatives) {
-        const backgroundColumn = jacobian.subarray((2 * components + 1) * channelCount, (2 * components + 2) * channelCount);
-        const scatterColumn = jacobian.subarray((2 * components + 2) * channelCount, (2 * components + 3) * channelCount);
-        startWithDerivatives(model, channelCount, shifted, slope, firstChannel, background, scatter, shiftColumn, backgroundColumn, scatterColumn);
+        const backgroundColumn = jacobian.subarray(
+          (2 * components + 1) * channelCount,
+          (2 * components + 2) * channelCount,
+        );
+        const scatterColumn = jacobian.subarray(
+          (2 * components + 2) * channelCount,
+          (2 * components + 3) * channelCount,
+        );
+        startWithDerivatives(
+          model,
+          channelCount,
+          shifted,
+          slope,
+          firstChannel,
+          background,
+          scatter,
+          shiftColumn,
+          backgroundColumn,
+          scatterColumn,
+        );
       } else {
         startModel(model, channelCount, shifted, firstChannel, background, scatter);
       }
@@ -92,16 +109,27 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
         if (withDerivatives && periodNs === undefined) {
           // The common case in one pass (reconvolution-component.ts); the same values as the two passes below.
           addComponentWithDerivatives(shifted, slope, tauNs, channelWidthNs, amplitude, firstChannel, channelCount, {
-            model, perTauNs: buffer.responsePerTauNs, perPhoton: buffer.response, perShiftNs: shiftColumn,
+            model,
+            perTauNs: buffer.responsePerTauNs,
+            perPhoton: buffer.response,
+            perShiftNs: shiftColumn,
           });
           continue;
         }
         const target = withDerivatives ? buffer : (valueBuffers[i] as ConvolutionBuffers);
         convolveExponentialWithIrf(
-          shifted, withDerivatives ? slope : undefined, tauNs, channelWidthNs, periodNs,
-          firstChannel, endChannel, withDerivatives, target,
+          shifted,
+          withDerivatives ? slope : undefined,
+          tauNs,
+          channelWidthNs,
+          periodNs,
+          firstChannel,
+          endChannel,
+          withDerivatives,
+          target,
         );
-        if (withDerivatives) addConvolvedComponent(model, channelCount, buffer, shiftColumn, amplitude, tauNs, channelWidthNs);
+        if (withDerivatives)
+          addConvolvedComponent(model, channelCount, buffer, shiftColumn, amplitude, tauNs, channelWidthNs);
         else addComponent(model, channelCount, buffer.response, amplitude);
       }
     },
@@ -111,14 +139,29 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
 // The passes below take every array as an argument (no captured variables), so the compiled loops keep them in registers.
 
 /** model[k] = b + s·g_shift[firstChannel + k] on the channelCount range channels: background and scatter. */
-function startModel(model: Float64Array, channelCount: number, shifted: Float64Array, firstChannel: number, background: number, scatter: number): void {
+function startModel(
+  model: Float64Array,
+  channelCount: number,
+  shifted: Float64Array,
+  firstChannel: number,
+  background: number,
+  scatter: number,
+): void {
   for (let k = 0; k < channelCount; k++) model[k] = background + scatter * (shifted[firstChannel + k] as number);
 }
 
 /** startModel plus the shift (scatter part), background and scatter columns of the Jacobian. */
 function startWithDerivatives(
-  model: Float64Array, channelCount: number, shifted: Float64Array, slope: Float64Array, firstChannel: number, background: number, scatter: number,
-  shiftColumn: Float64Array, backgroundColumn: Float64Array, scatterColumn: Float64Array,
+  model: Float64Array,
+  channelCount: number,
+  shifted: Float64Array,
+  slope: Float64Array,
+  firstChannel: number,
+  background: number,
+  scatter: number,
+  shiftColumn: Float64Array,
+  backgroundColumn: Float64Array,
+  scatterColumn: Float64Array,
 ): void {
   for (let k = 0; k < channelCount; k++) {
     const irf = shifted[firstChannel + k] as number;
@@ -139,7 +182,13 @@ function addComponent(model: Float64Array, channelCount: number, response: Float
  * of ∂R/∂τ); ∂m/∂p = R·Δ/τ (in place of R); ∂m/∂shift += a·∂R/∂shift.
  */
 function addConvolvedComponent(
-  model: Float64Array, channelCount: number, buffer: ConvolutionBuffers, shiftColumn: Float64Array, amplitude: number, tauNs: number, channelWidthNs: number,
+  model: Float64Array,
+  channelCount: number,
+  buffer: ConvolutionBuffers,
+  shiftColumn: Float64Array,
+  amplitude: number,
+  tauNs: number,
+  channelWidthNs: number,
 ): void {
   const { response, responsePerTauNs: perTau, responsePerShiftNs: perShift } = buffer;
   const inverseTau = 1 / tauNs;

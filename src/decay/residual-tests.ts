@@ -92,7 +92,8 @@ function laggedProducts(residuals: ArrayLike<number>, first: number, last: numbe
   sums[7] = sum7;
   for (let j = 0; first + j < last; j++) {
     let tail = sums[j] as number;
-    for (let k = shared; k + first + j < n; k++) tail += (residuals[k] as number) * (residuals[k + first + j] as number);
+    for (let k = shared; k + first + j < n; k++)
+      tail += (residuals[k] as number) * (residuals[k + first + j] as number);
     sums[j] = tail;
   }
 }

@@ -41,7 +41,12 @@ export function expectedDecayCounts(spec: DecaySimulation): Float64Array {
   for (let k = 0; k < spec.channels; k++) irfSum += spec.irf[k] as number;
   const irfUnit = Float64Array.from(spec.irf, (value) => value / irfSum);
   const model = createReconvolutionModel({
-    irfUnit, channelWidthNs: spec.channelWidthNs, periodNs: spec.periodNs, firstChannel: 0, endChannel: spec.channels, components,
+    irfUnit,
+    channelWidthNs: spec.channelWidthNs,
+    periodNs: spec.periodNs,
+    firstChannel: 0,
+    endChannel: spec.channels,
+    components,
   });
   const jacobian = new Float64Array((2 * components + 3) * spec.channels);
   const expected = new Float64Array(spec.channels);

@@ -12,9 +12,24 @@ import { weightedCrossProducts } from './weighted-cross-products.js';
 /** Lifetime multipliers of the tail estimate per number of components; each row is one start (multi-start). */
 export const LIFETIME_SPREADS: Readonly<Record<number, readonly (readonly number[])[]>> = {
   1: [[1]],
-  2: [[0.35, 1.4], [0.15, 1.15], [0.6, 2.0], [0.06, 1.05]],
-  3: [[0.15, 0.6, 1.6], [0.05, 0.4, 1.3], [0.3, 1.0, 3.0], [0.1, 0.35, 1.1]],
-  4: [[0.05, 0.2, 0.7, 1.8], [0.1, 0.4, 1.2, 3.0], [0.03, 0.15, 0.5, 1.4], [0.2, 0.6, 1.5, 4.0]],
+  2: [
+    [0.35, 1.4],
+    [0.15, 1.15],
+    [0.6, 2.0],
+    [0.06, 1.05],
+  ],
+  3: [
+    [0.15, 0.6, 1.6],
+    [0.05, 0.4, 1.3],
+    [0.3, 1.0, 3.0],
+    [0.1, 0.35, 1.1],
+  ],
+  4: [
+    [0.05, 0.2, 0.7, 1.8],
+    [0.1, 0.4, 1.2, 3.0],
+    [0.03, 0.15, 0.5, 1.4],
+    [0.2, 0.6, 1.5, 4.0],
+  ],
 };
 
 /** Background start (counts per channel): mean before `riseChannel` if ≥ 10 channels there, else the lowest 16-channel mean of the late quarter; O(n). */
@@ -42,7 +57,12 @@ export function estimateBackground(counts: Float64Array, riseChannel: number | u
  * Biophys. J. 9, 1337 (1969), from memory). Undefined when not positive. O(n).
  */
 export function estimateMomentLifetimeNs(
-  timeNs: Float64Array, counts: Float64Array, irfUnit: Float64Array, background: number, firstChannel: number, endChannel: number,
+  timeNs: Float64Array,
+  counts: Float64Array,
+  irfUnit: Float64Array,
+  background: number,
+  firstChannel: number,
+  endChannel: number,
 ): number | undefined {
   let weight = 0;
   let moment = 0;
@@ -60,7 +80,12 @@ export function estimateMomentLifetimeNs(
 
 /** Lifetime start in ns from the weighted log-slope of the tail between the decay peak and where n − b falls below 5 % of its peak; O(n). */
 export function estimateTailLifetimeNs(
-  timeNs: Float64Array, counts: Float64Array, background: number, firstChannel: number, endChannel: number, channelWidthNs: number,
+  timeNs: Float64Array,
+  counts: Float64Array,
+  background: number,
+  firstChannel: number,
+  endChannel: number,
+  channelWidthNs: number,
 ): number {
   const windowCounts = counts.subarray(firstChannel, endChannel);
   const peak = firstChannel + peakChannel(windowCounts);
@@ -98,7 +123,12 @@ export interface LinearSolveScratch {
 export function linearSolveScratch(model: DatasetModel, slots: number): LinearSolveScratch {
   const channels = model.channelCount;
   const jacobian = new Float64Array((slots + 1) * channels);
-  return { jacobian, baseColumn: slots, base: jacobian.subarray(slots * channels), weights: new Float64Array(channels) };
+  return {
+    jacobian,
+    baseColumn: slots,
+    base: jacobian.subarray(slots * channels),
+    weights: new Float64Array(channels),
+  };
 }
 
 /**
@@ -107,7 +137,11 @@ export function linearSolveScratch(model: DatasetModel, slots: number): LinearSo
  * the largest and a negative background to 0. O(channels·slots²). Returns false when the normal matrix is singular.
  */
 export function solveLinearParameters(
-  model: DatasetModel, counts: Float64Array, local: Float64Array, linearSlots: readonly number[], scratch: LinearSolveScratch,
+  model: DatasetModel,
+  counts: Float64Array,
+  local: Float64Array,
+  linearSlots: readonly number[],
+  scratch: LinearSolveScratch,
   backgroundSlot = -1,
 ): boolean {
   const channels = model.channelCount;

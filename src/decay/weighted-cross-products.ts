@@ -10,8 +10,13 @@
  * (column-major). Entries below the diagonal are left untouched. O(channels·count²).
  */
 export function weightedCrossProducts(
-  jacobian: Float64Array, channels: number, slots: Int32Array, weights: Float64Array,
-  products: Float64Array, slope?: Float64Array, gradient?: Float64Array,
+  jacobian: Float64Array,
+  channels: number,
+  slots: Int32Array,
+  weights: Float64Array,
+  products: Float64Array,
+  slope?: Float64Array,
+  gradient?: Float64Array,
 ): void {
   const count = slots.length;
   for (let a = 0; a < count; a += 3) {
@@ -97,7 +102,15 @@ export function weightedCrossProducts(
 
 /** Stores the sums of row `row` against columns b, b1, b2 (b1, b2 repeat b at the end), upper triangle only. */
 function storeRow(
-  products: Float64Array, count: number, row: number, b: number, b1: number, b2: number, sum0: number, sum1: number, sum2: number,
+  products: Float64Array,
+  count: number,
+  row: number,
+  b: number,
+  b1: number,
+  b2: number,
+  sum0: number,
+  sum1: number,
+  sum2: number,
 ): void {
   if (b >= row) products[row * count + b] = sum0;
   if (b1 > b && b1 >= row) products[row * count + b1] = sum1;

@@ -3,7 +3,11 @@
 // alerts) and the rule set, as text.
 
 /** The workspace config: folders, the reference and control, a 2 h IRF validity, webhook alerts. */
-export function monthConfig(lab: string, control: { readonly quantumYield: number; readonly tauNs: number }, channelWidthNs: number): string {
+export function monthConfig(
+  lab: string,
+  control: { readonly quantumYield: number; readonly tauNs: number },
+  channelWidthNs: number,
+): string {
   return [
     `# driftlight config of the demo month (${lab}).`,
     'folders: { inbox: inbox, archive: archive, quarantine: quarantine, results: results, outbox: outbox, state: state }',
@@ -19,7 +23,7 @@ export function monthConfig(lab: string, control: { readonly quantumYield: numbe
     '  # The reference is measured weekly, not every session: nothing to wait for.',
     '  referenceSessionHours: 0',
     'instrument: { irfValidityHours: 2 }',
-    '# The lab\'s TCSPC script writes channel, counts and IRF without column names: an instrument profile says so.',
+    "# The lab's TCSPC script writes channel, counts and IRF without column names: an instrument profile says so.",
     'formats:',
     '  profiles:',
     `    - { name: tcspc-script, match: "*_tcspc.txt", delimiter: tab, columnNamesLine: 0, axisColumn: 1, axisUnit: channel, valueColumns: [2], irfColumn: 3, channelWidthNs: ${channelWidthNs}, kind: decay }`,

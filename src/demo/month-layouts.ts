@@ -9,7 +9,10 @@ import type { Decay } from '../model/decay.js';
 
 /** Semicolon-separated text with decimal commas and a free-form header (one of the layouts read). */
 export function europeanText(spectrum: Spectrum, header: readonly string[]): string {
-  const rows = Array.from(spectrum.wavelengthNm, (nm, i) => `${String(nm).replace('.', ',')};${String(spectrum.values[i]).replace('.', ',')}`);
+  const rows = Array.from(
+    spectrum.wavelengthNm,
+    (nm, i) => `${String(nm).replace('.', ',')};${String(spectrum.values[i]).replace('.', ',')}`,
+  );
   return `${[...header, 'Wavelength [nm];Intensity [counts]', ...rows].join('\r\n')}\r\n`;
 }
 
@@ -22,8 +25,20 @@ export function tabText(spectrum: Spectrum, header: readonly string[], valueName
 /** A decay (with its IRF column) in driftlight's own JSON data format. */
 export function decayJson(decay: Decay): string {
   const layout: LayoutInfo = {
-    format: 'driftlight-json', delimiter: null, decimalMark: '.', headerLineCount: 0, columnNames: ['time (ns)', 'counts', 'irf'], axisColumn: 'time (ns)', valueColumn: 'counts',
-    irfColumn: decay.irfCounts === undefined ? null : 'irf', axisUnitFound: 'ns', ignoredColumns: [], hasBom: false, lineEnding: 'none', encoding: 'utf-8', conversions: [],
+    format: 'driftlight-json',
+    delimiter: null,
+    decimalMark: '.',
+    headerLineCount: 0,
+    columnNames: ['time (ns)', 'counts', 'irf'],
+    axisColumn: 'time (ns)',
+    valueColumn: 'counts',
+    irfColumn: decay.irfCounts === undefined ? null : 'irf',
+    axisUnitFound: 'ns',
+    ignoredColumns: [],
+    hasBom: false,
+    lineEnding: 'none',
+    encoding: 'utf-8',
+    conversions: [],
   };
   return writeDataJson({ type: 'decay', decay, layout });
 }
@@ -36,7 +51,10 @@ export function decayJson(decay: Decay): string {
 export function tcspcScriptText(decay: Decay): string {
   const irf = decay.irfCounts;
   if (irf === undefined) throw new RangeError('tcspcScriptText: the decay has no IRF column');
-  const header = ['# TCSPC script export: channel, counts, IRF (no column names)', ...metadataEntries(decay.metadata).map(([key, value]) => `# ${key}: ${value}`)];
+  const header = [
+    '# TCSPC script export: channel, counts, IRF (no column names)',
+    ...metadataEntries(decay.metadata).map(([key, value]) => `# ${key}: ${value}`),
+  ];
   const rows = Array.from(decay.counts, (count, i) => `${i}\t${count}\t${irf[i] ?? 0}`);
   return `${[...header, ...rows].join('\n')}\n`;
 }
@@ -49,10 +67,16 @@ export function twoWavelengthDecayCsv(peak: Decay, redEdge: Decay, peakNm: numbe
   const irf = peak.irfCounts;
   if (irf === undefined) throw new RangeError('twoWavelengthDecayCsv: the decay has no IRF column');
   const header = [
-    `# ${canonicalKey('kind')}: decay`, `# ${canonicalKey('channelWidthNs')}: ${peak.channelWidthNs}`,
-    ...metadataEntries(peak.metadata).filter(([key]) => key !== canonicalKey('emissionNm')).map(([key, value]) => `# ${key}: ${value}`),
+    `# ${canonicalKey('kind')}: decay`,
+    `# ${canonicalKey('channelWidthNs')}: ${peak.channelWidthNs}`,
+    ...metadataEntries(peak.metadata)
+      .filter(([key]) => key !== canonicalKey('emissionNm'))
+      .map(([key, value]) => `# ${key}: ${value}`),
     `time (ns),counts at ${peakNm} nm,counts at ${redEdgeNm} nm,irf`,
   ];
-  const rows = Array.from(peak.timeNs, (t, i) => `${t},${peak.counts[i] ?? 0},${redEdge.counts[i] ?? 0},${irf[i] ?? 0}`);
+  const rows = Array.from(
+    peak.timeNs,
+    (t, i) => `${t},${peak.counts[i] ?? 0},${redEdge.counts[i] ?? 0},${irf[i] ?? 0}`,
+  );
   return `${[...header, ...rows].join('\n')}\n`;
 }

@@ -6,7 +6,13 @@ import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/
 import { createSpectrum, type Spectrum } from '../model/spectrum.js';
 import { createDecay, type Decay } from '../model/decay.js';
 import { createSeededRandom, samplePoisson, sampleStandardNormal, type UniformSource } from '../decay/index.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, irfAsDecay, withoutIrf } from './synthetic.js';
+import {
+  absorbanceSpectrum,
+  decayHistogram,
+  emissionIntegralUnattenuated,
+  irfAsDecay,
+  withoutIrf,
+} from './synthetic.js';
 import type { DemoFile } from './scenario.js';
 import { monthConfig, monthRules } from './month-config.js';
 import { decayJson, europeanText, tabText, tcspcScriptText, twoWavelengthDecayCsv } from './month-layouts.js';
@@ -58,12 +64,38 @@ export interface MonthTruth {
   readonly inControlDays: readonly number[];
   readonly malformed: { readonly day: number; readonly file: string; readonly code: string };
   readonly missingIrf: { readonly day: number; readonly sampleId: string; readonly file: string };
-  readonly lateReExport: { readonly sampleId: string; readonly acquiredDay: number; readonly arrivesDay: number; readonly files: readonly string[] };
-  readonly europeanDate: { readonly day: number; readonly file: string; readonly written: string; readonly acquiredAt: string };
-  readonly quenching: { readonly day: number; readonly sampleIds: readonly string[]; readonly quencherMolar: readonly number[]; readonly kqPerMPerS: number; readonly tau0Ns: number };
-  readonly samples: readonly { readonly sampleId: string; readonly day: number; readonly quantumYield: number; readonly tauNs: number }[];
+  readonly lateReExport: {
+    readonly sampleId: string;
+    readonly acquiredDay: number;
+    readonly arrivesDay: number;
+    readonly files: readonly string[];
+  };
+  readonly europeanDate: {
+    readonly day: number;
+    readonly file: string;
+    readonly written: string;
+    readonly acquiredAt: string;
+  };
+  readonly quenching: {
+    readonly day: number;
+    readonly sampleIds: readonly string[];
+    readonly quencherMolar: readonly number[];
+    readonly kqPerMPerS: number;
+    readonly tau0Ns: number;
+  };
+  readonly samples: readonly {
+    readonly sampleId: string;
+    readonly day: number;
+    readonly quantumYield: number;
+    readonly tauNs: number;
+  }[];
   /** Samples whose decay file holds two count columns (two emission wavelengths, one lifetime): each column gives its own result. */
-  readonly twoColumnDecays: readonly { readonly sampleId: string; readonly file: string; readonly columns: readonly string[]; readonly tauNs: number }[];
+  readonly twoColumnDecays: readonly {
+    readonly sampleId: string;
+    readonly file: string;
+    readonly columns: readonly string[];
+    readonly tauNs: number;
+  }[];
 }
 
 export interface DemoMonth {
@@ -107,7 +139,16 @@ function sensitivityOn(day: number): number {
 
 /** Poisson-sampled Gaussian emission band on a dark level; `integral` is the unattenuated band's (counts·nm). */
 function emissionCounts(
-  spec: { peakNm: number; widthNm: number; integral: number; absorbanceAtExcitation: number; bandPeakNm: number; bandWidthNm: number; fromNm?: number; toNm?: number },
+  spec: {
+    peakNm: number;
+    widthNm: number;
+    integral: number;
+    absorbanceAtExcitation: number;
+    bandPeakNm: number;
+    bandWidthNm: number;
+    fromNm?: number;
+    toNm?: number;
+  },
   metadata: Spectrum['metadata'] | Record<string, unknown>,
   random: UniformSource,
 ): Spectrum {
@@ -125,28 +166,59 @@ function emissionCounts(
     const mean = peak * attenuation * Math.exp(-((nm - spec.peakNm) ** 2) / (2 * sigma * sigma)) + DARK_COUNTS;
     return samplePoisson(mean, random);
   });
-  return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata: { ...metadata, extra: {} } });
+  return createSpectrum({
+    kind: 'emission',
+    wavelengthNm,
+    values,
+    valueUnit: 'counts',
+    valueColumn: 'intensity',
+    metadata: { ...metadata, extra: {} },
+  });
 }
 
 /** Solvent blank: dark counts plus the weak ethanol C–H Raman band (≈ 2930 cm⁻¹ → 556 nm at 480 nm excitation). */
 function blankCounts(sensitivity: number, metadata: Record<string, unknown>, random: UniformSource): Spectrum {
   const wavelengthNm = Float64Array.from({ length: 231 }, (_u, i) => 490 + i);
   const ramanNm = 1 / (1 / EXCITATION_NM - 2930e-7);
-  const values = Float64Array.from(wavelengthNm, (nm) => samplePoisson(DARK_COUNTS + sensitivity * 60 * Math.exp(-((nm - ramanNm) ** 2) / (2 * 4 * 4)), random));
-  return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata: { extra: {}, role: 'blank', ...metadata } });
+  const values = Float64Array.from(wavelengthNm, (nm) =>
+    samplePoisson(DARK_COUNTS + sensitivity * 60 * Math.exp(-((nm - ramanNm) ** 2) / (2 * 4 * 4)), random),
+  );
+  return createSpectrum({
+    kind: 'emission',
+    wavelengthNm,
+    values,
+    valueUnit: 'counts',
+    valueColumn: 'intensity',
+    metadata: { extra: {}, role: 'blank', ...metadata },
+  });
 }
 
 /** Water Raman scan at 350 nm excitation (O–H band at 3400 cm⁻¹ → 397 nm; Bartlett et al. 1998). */
 function waterRaman(sensitivity: number, metadata: Record<string, unknown>, random: UniformSource): Spectrum {
   const wavelengthNm = Float64Array.from({ length: 221 }, (_u, i) => 365 + i * 0.5);
   const peakNm = 1 / (1 / 350 - 3400e-7);
-  const values = Float64Array.from(wavelengthNm, (nm) => samplePoisson(40 + sensitivity * 30_000 * Math.exp(-((nm - peakNm) ** 2) / (2 * 3.5 * 3.5)), random));
-  return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata: { extra: {}, role: 'raman', excitationNm: 350, solvent: 'water', ...metadata } });
+  const values = Float64Array.from(wavelengthNm, (nm) =>
+    samplePoisson(40 + sensitivity * 30_000 * Math.exp(-((nm - peakNm) ** 2) / (2 * 3.5 * 3.5)), random),
+  );
+  return createSpectrum({
+    kind: 'emission',
+    wavelengthNm,
+    values,
+    valueUnit: 'counts',
+    valueColumn: 'intensity',
+    metadata: { extra: {}, role: 'raman', excitationNm: 350, solvent: 'water', ...metadata },
+  });
 }
 
 /** A decay with its IRF replaced (a different IRF recorded alongside). */
 function withIrf(decay: Decay, irfCounts: Float64Array): Decay {
-  return createDecay({ timeNs: decay.timeNs, counts: decay.counts, channelWidthNs: decay.channelWidthNs, irfCounts, metadata: decay.metadata });
+  return createDecay({
+    timeNs: decay.timeNs,
+    counts: decay.counts,
+    channelWidthNs: decay.channelWidthNs,
+    irfCounts,
+    metadata: decay.metadata,
+  });
 }
 
 interface MeasuredSample {
@@ -157,18 +229,49 @@ interface MeasuredSample {
 
 /** Emission, absorbance and decay (with IRF column) of one sample in ethanol at 480 nm excitation. */
 function measure(
-  s: { sampleId: string | undefined; quantumYield: number; tauNs: number; absorbance: number; peakNm: number; widthNm: number; photons: number; role?: 'control' | 'sample' },
-  day: number, hhmm: string, sensitivity: number, irfFwhmNs: number, random: UniformSource,
+  s: {
+    sampleId: string | undefined;
+    quantumYield: number;
+    tauNs: number;
+    absorbance: number;
+    peakNm: number;
+    widthNm: number;
+    photons: number;
+    role?: 'control' | 'sample';
+  },
+  day: number,
+  hhmm: string,
+  sensitivity: number,
+  irfFwhmNs: number,
+  random: UniformSource,
 ): MeasuredSample {
   const at = `${monthDate(day)}T${hhmm}:00Z`;
   const id = s.sampleId === undefined ? {} : { sampleId: s.sampleId };
-  const band = { bandPeakNm: s.peakNm - 24, bandWidthNm: 70, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.absorbance };
+  const band = {
+    bandPeakNm: s.peakNm - 24,
+    bandWidthNm: 70,
+    excitationNm: EXCITATION_NM,
+    absorbanceAtExcitation: s.absorbance,
+  };
   const integral = sensitivity * emissionIntegralUnattenuated(s.quantumYield, s.absorbance, ETHANOL_N);
-  const em = emissionCounts({ peakNm: s.peakNm, widthNm: s.widthNm, integral, absorbanceAtExcitation: s.absorbance, bandPeakNm: band.bandPeakNm, bandWidthNm: band.bandWidthNm },
-    { ...id, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at }, random);
+  const em = emissionCounts(
+    {
+      peakNm: s.peakNm,
+      widthNm: s.widthNm,
+      integral,
+      absorbanceAtExcitation: s.absorbance,
+      bandPeakNm: band.bandPeakNm,
+      bandWidthNm: band.bandWidthNm,
+    },
+    { ...id, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at },
+    random,
+  );
   const abs = absorbanceSpectrum(band, { ...id, solvent: 'ethanol', acquiredAt: at }, random);
-  const decay = decayHistogram({ tauNs: [s.tauNs], photons: s.photons, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs },
-    { ...id, excitationNm: 470, emissionNm: s.peakNm, repetitionRateHz: 20e6, countRatePerS: 2e5, acquiredAt: at }, random);
+  const decay = decayHistogram(
+    { tauNs: [s.tauNs], photons: s.photons, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs },
+    { ...id, excitationNm: 470, emissionNm: s.peakNm, repetitionRateHz: 20e6, countRatePerS: 2e5, acquiredAt: at },
+    random,
+  );
   return { em, abs, decay };
 }
 
@@ -210,15 +313,49 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       const week = (day - 1) / 7 + 1;
       const id = `REF-R6G-wk${week}`;
       const at = `${monthDate(day)}T07:50:00Z`;
-      const em = emissionCounts({ peakNm: REFERENCE.peakNm, widthNm: REFERENCE.widthNm, integral: sensitivity * emissionIntegralUnattenuated(REFERENCE.quantumYield, REFERENCE.absorbance, ETHANOL_N),
-        absorbanceAtExcitation: REFERENCE.absorbance, bandPeakNm: REFERENCE.bandPeakNm, bandWidthNm: 60 }, { sampleId: id, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at }, random);
-      const abs = absorbanceSpectrum({ bandPeakNm: REFERENCE.bandPeakNm, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: REFERENCE.absorbance }, { sampleId: id, solvent: 'ethanol', acquiredAt: at }, random);
-      arrive(day, '07:55', `${id}_em.txt`, europeanText(em, [`Sample: ${id}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${at}`, 'Type: emission']));
+      const em = emissionCounts(
+        {
+          peakNm: REFERENCE.peakNm,
+          widthNm: REFERENCE.widthNm,
+          integral: sensitivity * emissionIntegralUnattenuated(REFERENCE.quantumYield, REFERENCE.absorbance, ETHANOL_N),
+          absorbanceAtExcitation: REFERENCE.absorbance,
+          bandPeakNm: REFERENCE.bandPeakNm,
+          bandWidthNm: 60,
+        },
+        { sampleId: id, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at },
+        random,
+      );
+      const abs = absorbanceSpectrum(
+        {
+          bandPeakNm: REFERENCE.bandPeakNm,
+          bandWidthNm: 60,
+          excitationNm: EXCITATION_NM,
+          absorbanceAtExcitation: REFERENCE.absorbance,
+        },
+        { sampleId: id, solvent: 'ethanol', acquiredAt: at },
+        random,
+      );
+      arrive(
+        day,
+        '07:55',
+        `${id}_em.txt`,
+        europeanText(em, [
+          `Sample: ${id}`,
+          `Excitation [nm]: ${EXCITATION_NM}`,
+          'Solvent: ethanol',
+          `Date: ${at}`,
+          'Type: emission',
+        ]),
+      );
       arrive(day, '07:56', `${id}_abs.jdx`, writeSpectrumJcamp(abs));
     }
 
     // Daily solvent blank (ethanol).
-    const blank = blankCounts(sensitivity, { excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: `${monthDate(day)}T07:58:00Z` }, random);
+    const blank = blankCounts(
+      sensitivity,
+      { excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: `${monthDate(day)}T07:58:00Z` },
+      random,
+    );
     arrive(day, '08:00', `blank_${t}_etoh.csv`, writeSpectrumCsv(blank));
 
     // Daily control dye: emission (CSV), absorbance (JCAMP-DX), decay and its own IRF file.
@@ -226,11 +363,34 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
     const controlYield = CONTROL.quantumYield * (contaminated ? CONTAMINATION_FACTOR : 1);
     const controlTau = CONTROL.tauNs * (contaminated ? CONTAMINATION_FACTOR : 1) + 0.01 * sampleStandardNormal(random);
     const controlId = `CTRL-QL-${t}`;
-    const c = measure({ sampleId: controlId, quantumYield: controlYield, tauNs: controlTau, absorbance: CONTROL.absorbance * (1 + 0.03 * sampleStandardNormal(random)), peakNm: CONTROL.peakNm, widthNm: CONTROL.widthNm, photons: 300_000 },
-      day, '08:10', sensitivity, irfFwhmNs, random);
+    const c = measure(
+      {
+        sampleId: controlId,
+        quantumYield: controlYield,
+        tauNs: controlTau,
+        absorbance: CONTROL.absorbance * (1 + 0.03 * sampleStandardNormal(random)),
+        peakNm: CONTROL.peakNm,
+        widthNm: CONTROL.widthNm,
+        photons: 300_000,
+      },
+      day,
+      '08:10',
+      sensitivity,
+      irfFwhmNs,
+      random,
+    );
     const irf = irfAsDecay(c.decay, { sampleId: controlId, acquiredAt: `${monthDate(day)}T08:12:00Z` });
     controlFiles.set(day, { ...c, irf });
-    controls.push({ day, sampleId: controlId, acquiredAt: `${monthDate(day)}T08:10:00Z`, quantumYield: controlYield, tauNs: controlTau, sensitivity, irfFwhmNs, contaminated });
+    controls.push({
+      day,
+      sampleId: controlId,
+      acquiredAt: `${monthDate(day)}T08:10:00Z`,
+      quantumYield: controlYield,
+      tauNs: controlTau,
+      sensitivity,
+      irfFwhmNs,
+      contaminated,
+    });
     arrive(day, '08:15', `${controlId}_em.csv`, writeSpectrumCsv(c.em));
     arrive(day, '08:15', `${controlId}_abs.jdx`, writeSpectrumJcamp(c.abs));
     arrive(day, '08:16', `${controlId}_decay.csv`, writeDecayCsv(withoutIrf(c.decay)));
@@ -238,7 +398,11 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
 
     // Weekly water Raman scan (Wednesdays).
     if ((day - 3) % 7 === 0) {
-      const scan = waterRaman(sensitivity, { sampleId: `water-raman-${t}`, acquiredAt: `${monthDate(day)}T08:30:00Z` }, random);
+      const scan = waterRaman(
+        sensitivity,
+        { sampleId: `water-raman-${t}`, acquiredAt: `${monthDate(day)}T08:30:00Z` },
+        random,
+      );
       arrive(day, '08:35', `water-${t}_raman.csv`, writeSpectrumCsv(scan));
     }
 
@@ -252,22 +416,56 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       const isEuropeanDated = day === 14 && n === 2;
       const absorbance = 0.03 + 0.03 * random.nextUniform();
       const peakNm = 540 + Math.round(15 * random.nextUniform());
-      const m = measure({ sampleId: layout === 2 ? undefined : sampleId, quantumYield, tauNs, absorbance, peakNm, widthNm: 40, photons: 200_000 },
-        day, hhmm, sensitivity, irfFwhmNs, random);
+      const m = measure(
+        {
+          sampleId: layout === 2 ? undefined : sampleId,
+          quantumYield,
+          tauNs,
+          absorbance,
+          peakNm,
+          widthNm: 40,
+          photons: 200_000,
+        },
+        day,
+        hhmm,
+        sensitivity,
+        irfFwhmNs,
+        random,
+      );
       samples.push({ sampleId, day, quantumYield, tauNs });
       const arriveAt = hhmmPlus(hhmm, 10);
       if (isEuropeanDated) {
         // One export written with a European day-first date (15.02.2026 13:45 = 15 February).
         const written = `${monthDate(day).slice(8, 10)}.${monthDate(day).slice(5, 7)}.${monthDate(day).slice(0, 4)} ${hhmm}`;
         const name = `${sampleId}_em.txt`;
-        arrive(day, arriveAt, name, europeanText(m.em, [`Sample: ${sampleId}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${written}`, 'Type: emission']));
-        arrive(day, arriveAt, `${sampleId}_abs.tsv`, tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'));
+        arrive(
+          day,
+          arriveAt,
+          name,
+          europeanText(m.em, [
+            `Sample: ${sampleId}`,
+            `Excitation [nm]: ${EXCITATION_NM}`,
+            'Solvent: ethanol',
+            `Date: ${written}`,
+            'Type: emission',
+          ]),
+        );
+        arrive(
+          day,
+          arriveAt,
+          `${sampleId}_abs.tsv`,
+          tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'),
+        );
         arrive(day, arriveAt, `${sampleId}_decay.json`, decayJson(m.decay));
         europeanDate = { day, file: name, written, acquiredAt: `${monthDate(day)}T${hhmm}:00Z` };
       } else if (layout === 0 && n === 2) {
         // The afternoon probe's decay at the band's peak and at its red edge, in one file.
         // Its own generator, so the rest of the month draws the same numbers as without this file.
-        const redEdge = decayHistogram({ tauNs: [tauNs], photons: 100_000, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs }, { sampleId }, createSeededRandom(seed + day));
+        const redEdge = decayHistogram(
+          { tauNs: [tauNs], photons: 100_000, channels: CHANNELS, channelWidthNs: CHANNEL_WIDTH_NS, irfFwhmNs },
+          { sampleId },
+          createSeededRandom(seed + day),
+        );
         const name = `${sampleId}_decay.csv`;
         const columns = [`counts at ${peakNm} nm`, `counts at ${peakNm + 40} nm`];
         arrive(day, arriveAt, `${sampleId}_em.csv`, writeSpectrumCsv(m.em));
@@ -279,8 +477,24 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
         arrive(day, arriveAt, `${sampleId}_abs.jdx`, writeSpectrumJcamp(m.abs));
         arrive(day, arriveAt, `${sampleId}_decay.csv`, writeDecayCsv(m.decay));
       } else if (layout === 1) {
-        arrive(day, arriveAt, `${sampleId}_em.txt`, europeanText(m.em, [`Sample: ${sampleId}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${m.em.metadata.acquiredAt ?? ''}`, 'Type: emission']));
-        arrive(day, arriveAt, `${sampleId}_abs.tsv`, tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'));
+        arrive(
+          day,
+          arriveAt,
+          `${sampleId}_em.txt`,
+          europeanText(m.em, [
+            `Sample: ${sampleId}`,
+            `Excitation [nm]: ${EXCITATION_NM}`,
+            'Solvent: ethanol',
+            `Date: ${m.em.metadata.acquiredAt ?? ''}`,
+            'Type: emission',
+          ]),
+        );
+        arrive(
+          day,
+          arriveAt,
+          `${sampleId}_abs.tsv`,
+          tabText(m.abs, [`sample id: ${sampleId}`, 'kind: absorbance', 'path length (cm): 1'], 'absorbance'),
+        );
         // The decay from the lab's own TCSPC script: read through the config's instrument profile.
         arrive(day, arriveAt, `${sampleId}_tcspc.txt`, tcspcScriptText(m.decay));
       } else {
@@ -289,10 +503,23 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
         arrive(day, arriveAt, `${stem}a.csv`, writeSpectrumCsv(m.em));
         arrive(day, arriveAt, `${stem}b.csv`, writeSpectrumCsv(m.abs));
         arrive(day, arriveAt, `${stem}c.csv`, writeDecayCsv(m.decay));
-        arrive(day, hhmmPlus(arriveAt, 1), `${sampleId}.set.yaml`, [
-          'schema: driftlight.set/1', `sampleId: ${sampleId}`, 'role: sample', 'solvent: ethanol', `excitationNm: ${EXCITATION_NM}`,
-          'files:', `  - { file: ${stem}a.csv, part: emission }`, `  - { file: ${stem}b.csv, part: absorbance }`, `  - { file: ${stem}c.csv, part: decay }`, '',
-        ].join('\n'));
+        arrive(
+          day,
+          hhmmPlus(arriveAt, 1),
+          `${sampleId}.set.yaml`,
+          [
+            'schema: driftlight.set/1',
+            `sampleId: ${sampleId}`,
+            'role: sample',
+            'solvent: ethanol',
+            `excitationNm: ${EXCITATION_NM}`,
+            'files:',
+            `  - { file: ${stem}a.csv, part: emission }`,
+            `  - { file: ${stem}b.csv, part: absorbance }`,
+            `  - { file: ${stem}c.csv, part: decay }`,
+            '',
+          ].join('\n'),
+        );
       }
     }
 
@@ -303,7 +530,22 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
         const sampleId = `quench-P7-${String(Math.round(molar * 1000)).padStart(2, '0')}mM`;
         quenchIds.push(sampleId);
         const hhmm = hhmmPlus('15:00', 12 * i);
-        const m = measure({ sampleId, quantumYield: probeYield0 / factor, tauNs: probeTau0Ns / factor, absorbance: 0.04, peakNm: 548, widthNm: 40, photons: 200_000 }, day, hhmm, sensitivity, irfFwhmNs, random);
+        const m = measure(
+          {
+            sampleId,
+            quantumYield: probeYield0 / factor,
+            tauNs: probeTau0Ns / factor,
+            absorbance: 0.04,
+            peakNm: 548,
+            widthNm: 40,
+            photons: 200_000,
+          },
+          day,
+          hhmm,
+          sensitivity,
+          irfFwhmNs,
+          random,
+        );
         samples.push({ sampleId, day, quantumYield: probeYield0 / factor, tauNs: probeTau0Ns / factor });
         arrive(day, hhmmPlus(hhmm, 8), `${sampleId}_em.csv`, writeSpectrumCsv(m.em));
         arrive(day, hhmmPlus(hhmm, 8), `${sampleId}_abs.jdx`, writeSpectrumJcamp(m.abs));
@@ -313,9 +555,27 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
 
     // Day 6: an export that broke off mid-write on the instrument PC (a number with two decimal points).
     if (day === 6) {
-      const m = measure({ sampleId: `probe-X-${t}-3`, quantumYield: 0.4, tauNs: 2.5, absorbance: 0.04, peakNm: 545, widthNm: 40, photons: 100_000 }, day, '16:00', sensitivity, irfFwhmNs, random);
+      const m = measure(
+        {
+          sampleId: `probe-X-${t}-3`,
+          quantumYield: 0.4,
+          tauNs: 2.5,
+          absorbance: 0.04,
+          peakNm: 545,
+          widthNm: 40,
+          photons: 100_000,
+        },
+        day,
+        '16:00',
+        sensitivity,
+        irfFwhmNs,
+        random,
+      );
       const name = `probe-X-${t}-3_em.csv`;
-      const broken = writeSpectrumCsv(m.em).split('\n').map((line, i) => (i === 40 ? line.replace(/,.*/, ',12.5.3') : line)).join('\n');
+      const broken = writeSpectrumCsv(m.em)
+        .split('\n')
+        .map((line, i) => (i === 40 ? line.replace(/,.*/, ',12.5.3') : line))
+        .join('\n');
       arrive(day, '16:05', name, broken);
       malformed = { day, file: name, code: 'NON_NUMERIC' };
     }
@@ -323,7 +583,14 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
     // Day 13: an evening decay measured without an IRF, and none recorded within the IRF validity window.
     if (day === 13) {
       const sampleId = `probe-late-${t}`;
-      const m = measure({ sampleId, quantumYield: 0.48, tauNs: 2.8, absorbance: 0.04, peakNm: 550, widthNm: 40, photons: 200_000 }, day, '19:40', sensitivity, irfFwhmNs, random);
+      const m = measure(
+        { sampleId, quantumYield: 0.48, tauNs: 2.8, absorbance: 0.04, peakNm: 550, widthNm: 40, photons: 200_000 },
+        day,
+        '19:40',
+        sensitivity,
+        irfFwhmNs,
+        random,
+      );
       samples.push({ sampleId, day, quantumYield: 0.48, tauNs: 2.8 });
       arrive(day, '19:45', `${sampleId}_em.csv`, writeSpectrumCsv(m.em));
       arrive(day, '19:45', `${sampleId}_abs.jdx`, writeSpectrumJcamp(m.abs));
@@ -337,22 +604,65 @@ export function generateDemoMonth(seed = 20260202): DemoMonth {
       if (old === undefined) throw new Error('the day-22 control was not generated');
       const id = `CTRL-QL-${tag(22)}`;
       const files = [
-        { name: `${id}_em.txt`, content: europeanText(old.em, [`Sample: ${id}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${old.em.metadata.acquiredAt ?? ''}`, 'Type: emission']) },
-        { name: `${id}_abs.tsv`, content: tabText(old.abs, [`sample id: ${id}`, 'kind: absorbance', 'path length (cm): 1', `acquired at: ${old.abs.metadata.acquiredAt ?? ''}`], 'absorbance') },
-        { name: `${id}_decay.json`, content: decayJson(withIrf(withoutIrf(old.decay), Float64Array.from(old.irf.counts))) },
+        {
+          name: `${id}_em.txt`,
+          content: europeanText(old.em, [
+            `Sample: ${id}`,
+            `Excitation [nm]: ${EXCITATION_NM}`,
+            'Solvent: ethanol',
+            `Date: ${old.em.metadata.acquiredAt ?? ''}`,
+            'Type: emission',
+          ]),
+        },
+        {
+          name: `${id}_abs.tsv`,
+          content: tabText(
+            old.abs,
+            [
+              `sample id: ${id}`,
+              'kind: absorbance',
+              'path length (cm): 1',
+              `acquired at: ${old.abs.metadata.acquiredAt ?? ''}`,
+            ],
+            'absorbance',
+          ),
+        },
+        {
+          name: `${id}_decay.json`,
+          content: decayJson(withIrf(withoutIrf(old.decay), Float64Array.from(old.irf.counts))),
+        },
       ];
       for (const f of files) arrive(day, '16:30', f.name, f.content);
       reExportFiles.push(...files.map((f) => f.name));
     }
   }
-  if (malformed === undefined || missingIrf === undefined || europeanDate === undefined) throw new Error('scenario incomplete');
+  if (malformed === undefined || missingIrf === undefined || europeanDate === undefined)
+    throw new Error('scenario incomplete');
 
   const truth: MonthTruth = {
     lab: LAB,
     faults: [
-      { id: 'sensitivity-loss', description: 'lamp/detector sensitivity falls 3 % a day from day 17', fromDay: 17, expectedRules: ['yield-ewma', 'yield-cusum', 'yield-westgard', 'intensity-change'], withinDays: 5 },
-      { id: 'contaminated-control', description: `control stock contaminated from day 24: yield and lifetime × ${CONTAMINATION_FACTOR}`, fromDay: 24, expectedRules: ['yield-westgard', 'lifetime-westgard'], withinDays: 0 },
-      { id: 'irf-broadening', description: `IRF FWHM ${IRF_FWHM_NS} → ${IRF_FWHM_AFTER_ALIGNMENT_NS} ns after an alignment change on day 27`, fromDay: 27, expectedRules: ['irf-width'], withinDays: 0 },
+      {
+        id: 'sensitivity-loss',
+        description: 'lamp/detector sensitivity falls 3 % a day from day 17',
+        fromDay: 17,
+        expectedRules: ['yield-ewma', 'yield-cusum', 'yield-westgard', 'intensity-change'],
+        withinDays: 5,
+      },
+      {
+        id: 'contaminated-control',
+        description: `control stock contaminated from day 24: yield and lifetime × ${CONTAMINATION_FACTOR}`,
+        fromDay: 24,
+        expectedRules: ['yield-westgard', 'lifetime-westgard'],
+        withinDays: 0,
+      },
+      {
+        id: 'irf-broadening',
+        description: `IRF FWHM ${IRF_FWHM_NS} → ${IRF_FWHM_AFTER_ALIGNMENT_NS} ns after an alignment change on day 27`,
+        fromDay: 27,
+        expectedRules: ['irf-width'],
+        withinDays: 0,
+      },
     ],
     controls,
     inControlDays: Array.from({ length: 16 }, (_u, i) => i + 1),

@@ -3,7 +3,14 @@
 // by a manifest, and one malformed export. Seeded, so the files and their truth are reproducible.
 import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../formats/index.js';
 import type { Spectrum } from '../model/spectrum.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, emissionSpectrum, irfAsDecay, withoutIrf } from './synthetic.js';
+import {
+  absorbanceSpectrum,
+  decayHistogram,
+  emissionIntegralUnattenuated,
+  emissionSpectrum,
+  irfAsDecay,
+  withoutIrf,
+} from './synthetic.js';
 import { createSeededRandom } from '../decay/index.js';
 
 export interface DemoFile {
@@ -32,7 +39,10 @@ const DAY = '2026-03-14';
 
 /** Semicolon-separated text with decimal commas and a free-form header (a second layout). */
 function europeanText(spectrum: Spectrum, header: readonly string[]): string {
-  const rows = Array.from(spectrum.wavelengthNm, (nm, i) => `${String(nm).replace('.', ',')};${String(spectrum.values[i]).replace('.', ',')}`);
+  const rows = Array.from(
+    spectrum.wavelengthNm,
+    (nm, i) => `${String(nm).replace('.', ',')};${String(spectrum.values[i]).replace('.', ',')}`,
+  );
   return `${[...header, 'Wavelength [nm];Intensity [counts]', ...rows].join('\r\n')}\r\n`;
 }
 
@@ -53,17 +63,32 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
   // Reference standard: rhodamine 6G in ethanol (Φ = 0.95 in the standards table).
   const refA = 0.045;
   const refBand = { bandPeakNm: 528, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: refA };
-  const refEm = emissionSpectrum({ peakNm: 552, widthNm: 38, integral: emissionIntegralUnattenuated(0.95, refA, ETHANOL_N), innerFilter: refBand },
-    { sampleId: 'REF-R6G-0314', role: 'reference', excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at('08:40') }, random);
-  const refAbs = absorbanceSpectrum({ bandPeakNm: 528, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: refA },
-    { sampleId: 'REF-R6G-0314', role: 'reference', solvent: 'ethanol', acquiredAt: at('08:35') }, random);
+  const refEm = emissionSpectrum(
+    { peakNm: 552, widthNm: 38, integral: emissionIntegralUnattenuated(0.95, refA, ETHANOL_N), innerFilter: refBand },
+    {
+      sampleId: 'REF-R6G-0314',
+      role: 'reference',
+      excitationNm: EXCITATION_NM,
+      solvent: 'ethanol',
+      acquiredAt: at('08:40'),
+    },
+    random,
+  );
+  const refAbs = absorbanceSpectrum(
+    { bandPeakNm: 528, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: refA },
+    { sampleId: 'REF-R6G-0314', role: 'reference', solvent: 'ethanol', acquiredAt: at('08:35') },
+    random,
+  );
   files.push({ name: 'REF-R6G-0314_em.csv', content: writeSpectrumCsv(refEm) });
   files.push({ name: 'REF-R6G-0314_abs.jdx', content: writeSpectrumJcamp(refAbs) });
   truth.push({ sampleId: 'REF-R6G-0314', role: 'reference', quantumYield: 0.95 });
 
   // A stand-alone IRF (scatterer), paired with decays that arrive without one.
   const irfSource = decayHistogram(decaySpec(1), { acquiredAt: at('09:05') }, random);
-  files.push({ name: 'irf_0905.csv', content: writeDecayCsv(irfAsDecay(irfSource, { sampleId: 'scatter-0905', acquiredAt: at('09:05') })) });
+  files.push({
+    name: 'irf_0905.csv',
+    content: writeDecayCsv(irfAsDecay(irfSource, { sampleId: 'scatter-0905', acquiredAt: at('09:05') })),
+  });
 
   const samples = [
     { id: 'orchid-01', role: 'sample' as const, qy: 0.62, tau: 3.4, a: 0.038, peak: 538, layout: 'canonical' },
@@ -72,19 +97,58 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
   ];
   for (const s of samples) {
     const band = { bandPeakNm: s.peak - 25, bandWidthNm: 55, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.a };
-    const em = emissionSpectrum({ peakNm: s.peak, widthNm: 42, integral: emissionIntegralUnattenuated(s.qy, s.a, ETHANOL_N), innerFilter: band },
-      { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: at('10:00') }, random);
-    const abs = absorbanceSpectrum({ bandPeakNm: s.peak - 25, bandWidthNm: 55, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.a },
-      { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), solvent: 'ethanol', acquiredAt: at('09:55') }, random);
-    const decay = decayHistogram(decaySpec(s.tau), { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), excitationNm: 470, emissionNm: s.peak, acquiredAt: at('10:10') }, random);
-    truth.push({ sampleId: s.id, role: s.role, quantumYield: s.qy, tauNs: s.tau, krPerS: s.qy / (s.tau * 1e-9), knrPerS: (1 - s.qy) / (s.tau * 1e-9) });
+    const em = emissionSpectrum(
+      { peakNm: s.peak, widthNm: 42, integral: emissionIntegralUnattenuated(s.qy, s.a, ETHANOL_N), innerFilter: band },
+      {
+        ...(s.layout === 'manifest' ? {} : { sampleId: s.id }),
+        excitationNm: EXCITATION_NM,
+        solvent: 'ethanol',
+        acquiredAt: at('10:00'),
+      },
+      random,
+    );
+    const abs = absorbanceSpectrum(
+      { bandPeakNm: s.peak - 25, bandWidthNm: 55, excitationNm: EXCITATION_NM, absorbanceAtExcitation: s.a },
+      { ...(s.layout === 'manifest' ? {} : { sampleId: s.id }), solvent: 'ethanol', acquiredAt: at('09:55') },
+      random,
+    );
+    const decay = decayHistogram(
+      decaySpec(s.tau),
+      {
+        ...(s.layout === 'manifest' ? {} : { sampleId: s.id }),
+        excitationNm: 470,
+        emissionNm: s.peak,
+        acquiredAt: at('10:10'),
+      },
+      random,
+    );
+    truth.push({
+      sampleId: s.id,
+      role: s.role,
+      quantumYield: s.qy,
+      tauNs: s.tau,
+      krPerS: s.qy / (s.tau * 1e-9),
+      knrPerS: (1 - s.qy) / (s.tau * 1e-9),
+    });
     if (s.layout === 'canonical') {
       files.push({ name: `${s.id}_em.csv`, content: writeSpectrumCsv(em) });
       files.push({ name: `${s.id}_abs.jdx`, content: writeSpectrumJcamp(abs) });
       files.push({ name: `${s.id}_decay.csv`, content: writeDecayCsv(decay) });
     } else if (s.layout === 'european') {
-      files.push({ name: `${s.id}_em.txt`, content: europeanText(em, [`Sample: ${s.id}`, `Excitation [nm]: ${EXCITATION_NM}`, 'Solvent: ethanol', `Date: ${at('10:00')}`, 'Type: emission']) });
-      files.push({ name: `${s.id}_abs.tsv`, content: tabText(abs, [`# sample id: ${s.id}`, '# kind: absorbance', '# path length (cm): 1'], 'absorbance') });
+      files.push({
+        name: `${s.id}_em.txt`,
+        content: europeanText(em, [
+          `Sample: ${s.id}`,
+          `Excitation [nm]: ${EXCITATION_NM}`,
+          'Solvent: ethanol',
+          `Date: ${at('10:00')}`,
+          'Type: emission',
+        ]),
+      });
+      files.push({
+        name: `${s.id}_abs.tsv`,
+        content: tabText(abs, [`# sample id: ${s.id}`, '# kind: absorbance', '# path length (cm): 1'], 'absorbance'),
+      });
       files.push({ name: `${s.id}_decay.csv`, content: writeDecayCsv(withoutIrf(decay)) });
     } else {
       files.push({ name: 'run0314-a.csv', content: writeSpectrumCsv(em) });
@@ -93,16 +157,31 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
       files.push({
         name: `${s.id}.set.yaml`,
         content: [
-          'schema: driftlight.set/1', `sampleId: ${s.id}`, 'role: control', 'solvent: ethanol', `excitationNm: ${EXCITATION_NM}`,
-          'files:', '  - { file: run0314-a.csv, part: emission }', '  - { file: run0314-b.csv, part: absorbance }',
-          '  - { file: run0314-c.csv, part: decay }', '',
+          'schema: driftlight.set/1',
+          `sampleId: ${s.id}`,
+          'role: control',
+          'solvent: ethanol',
+          `excitationNm: ${EXCITATION_NM}`,
+          'files:',
+          '  - { file: run0314-a.csv, part: emission }',
+          '  - { file: run0314-b.csv, part: absorbance }',
+          '  - { file: run0314-c.csv, part: decay }',
+          '',
         ].join('\n'),
       });
     }
   }
   // One malformed export: a row with a broken number.
-  const broken = writeSpectrumCsv(emissionSpectrum({ peakNm: 540, widthNm: 40, integral: 1e6 }, { sampleId: 'orchid-03', excitationNm: EXCITATION_NM }, random))
-    .split('\n').map((line, i) => (i === 40 ? line.replace(/,.*/, ',12.5.3') : line)).join('\n');
+  const broken = writeSpectrumCsv(
+    emissionSpectrum(
+      { peakNm: 540, widthNm: 40, integral: 1e6 },
+      { sampleId: 'orchid-03', excitationNm: EXCITATION_NM },
+      random,
+    ),
+  )
+    .split('\n')
+    .map((line, i) => (i === 40 ? line.replace(/,.*/, ',12.5.3') : line))
+    .join('\n');
   files.push({ name: 'orchid-03_em.csv', content: broken });
 
   const config = [

@@ -11,17 +11,32 @@ function axis(fromNm: number, toNm: number, stepNm: number): Float64Array {
 }
 
 /** Integrated emission that a yield `quantumYield` gives in this scenario: K·Φ·(1 − 10^(−A))/n² (Brouwer 2011 proportionality). */
-export function emissionIntegralFor(quantumYield: number, absorbanceAtExcitation: number, refractiveIndex: number, scale = 1e7): number {
+export function emissionIntegralFor(
+  quantumYield: number,
+  absorbanceAtExcitation: number,
+  refractiveIndex: number,
+  scale = 1e7,
+): number {
   return (scale * quantumYield * (1 - 10 ** -absorbanceAtExcitation)) / refractiveIndex ** 2;
 }
 
 /** Integral of the unattenuated band in the centred right-angle model: K·Φ·ln10·A/n² (dilute limit; observed = this × 10^(−(A_ex+A_em)/2), Lakowicz ch. 2). */
-export function emissionIntegralUnattenuated(quantumYield: number, absorbanceAtExcitation: number, refractiveIndex: number, scale = 1e7): number {
+export function emissionIntegralUnattenuated(
+  quantumYield: number,
+  absorbanceAtExcitation: number,
+  refractiveIndex: number,
+  scale = 1e7,
+): number {
   return (scale * quantumYield * Math.LN10 * absorbanceAtExcitation) / refractiveIndex ** 2;
 }
 
 /** The absorption band of absorbanceSpectrum as a noiseless function of nm (for attenuating an emission band). */
-export function absorbanceBandAt(band: { bandPeakNm: number; bandWidthNm: number; excitationNm: number; absorbanceAtExcitation: number }): (nm: number) => number {
+export function absorbanceBandAt(band: {
+  bandPeakNm: number;
+  bandWidthNm: number;
+  excitationNm: number;
+  absorbanceAtExcitation: number;
+}): (nm: number) => number {
   const sigma = band.bandWidthNm / (2 * Math.sqrt(2 * Math.log(2)));
   const shape = (nm: number): number => Math.exp(-((nm - band.bandPeakNm) ** 2) / (2 * sigma * sigma));
   const peak = band.absorbanceAtExcitation / shape(band.excitationNm);
@@ -35,7 +50,13 @@ export function absorbanceBandAt(band: { bandPeakNm: number; bandWidthNm: number
  */
 export function emissionSpectrum(
   spec: {
-    peakNm: number; widthNm: number; integral: number; fromNm?: number; toNm?: number; stepNm?: number; noiseRelative?: number;
+    peakNm: number;
+    widthNm: number;
+    integral: number;
+    fromNm?: number;
+    toNm?: number;
+    stepNm?: number;
+    noiseRelative?: number;
     innerFilter?: { bandPeakNm: number; bandWidthNm: number; excitationNm: number; absorbanceAtExcitation: number };
   },
   metadata: Partial<SpectrumMetadata>,
@@ -49,15 +70,31 @@ export function emissionSpectrum(
   const excitationAbsorbance = spec.innerFilter?.absorbanceAtExcitation ?? 0;
   const values = Float64Array.from(wavelengthNm, (nm) => {
     const attenuation = band === undefined ? 1 : 10 ** (-(excitationAbsorbance + band(nm)) / 2);
-    const v = peak * attenuation * Math.exp(-((nm - spec.peakNm) ** 2) / (2 * sigma * sigma)) + noise * sampleStandardNormal(random);
+    const v =
+      peak * attenuation * Math.exp(-((nm - spec.peakNm) ** 2) / (2 * sigma * sigma)) +
+      noise * sampleStandardNormal(random);
     return Math.round(v * 1000) / 1000;
   });
-  return createSpectrum({ kind: 'emission', wavelengthNm, values, valueUnit: 'counts', valueColumn: 'intensity', metadata });
+  return createSpectrum({
+    kind: 'emission',
+    wavelengthNm,
+    values,
+    valueUnit: 'counts',
+    valueColumn: 'intensity',
+    metadata,
+  });
 }
 
 /** A Gaussian absorption band (nm) with absorbance `absorbanceAtExcitation` at `excitationNm`. */
 export function absorbanceSpectrum(
-  spec: { bandPeakNm: number; bandWidthNm: number; excitationNm: number; absorbanceAtExcitation: number; fromNm?: number; toNm?: number },
+  spec: {
+    bandPeakNm: number;
+    bandWidthNm: number;
+    excitationNm: number;
+    absorbanceAtExcitation: number;
+    fromNm?: number;
+    toNm?: number;
+  },
   metadata: Partial<SpectrumMetadata>,
   random: UniformSource,
 ): Spectrum {
@@ -65,8 +102,18 @@ export function absorbanceSpectrum(
   const sigma = spec.bandWidthNm / (2 * Math.sqrt(2 * Math.log(2)));
   const shape = (nm: number): number => Math.exp(-((nm - spec.bandPeakNm) ** 2) / (2 * sigma * sigma));
   const peak = spec.absorbanceAtExcitation / shape(spec.excitationNm);
-  const values = Float64Array.from(wavelengthNm, (nm) => Math.round((peak * shape(nm) + 0.00002 * sampleStandardNormal(random)) * 1e6) / 1e6);
-  return createSpectrum({ kind: 'absorbance', wavelengthNm, values, valueUnit: 'absorbance', valueColumn: 'absorbance', metadata: { pathLengthCm: 1, ...metadata } });
+  const values = Float64Array.from(
+    wavelengthNm,
+    (nm) => Math.round((peak * shape(nm) + 0.00002 * sampleStandardNormal(random)) * 1e6) / 1e6,
+  );
+  return createSpectrum({
+    kind: 'absorbance',
+    wavelengthNm,
+    values,
+    valueUnit: 'absorbance',
+    valueColumn: 'absorbance',
+    metadata: { pathLengthCm: 1, ...metadata },
+  });
 }
 
 export interface DecaySpec {
@@ -84,11 +131,18 @@ export interface DecaySpec {
 export function decayHistogram(spec: DecaySpec, metadata: Partial<DecayMetadata>, random: UniformSource): Decay {
   const irf = gaussianIrf(spec.channels, spec.channelWidthNs, spec.irfCentreNs ?? 1.5, spec.irfFwhmNs ?? 0.25);
   const irfCounts = Float64Array.from(irf, (v) => Math.round(v * 20000));
-  const simulated = simulateDecay({
-    channels: spec.channels, channelWidthNs: spec.channelWidthNs, tauNs: spec.tauNs, photons: spec.photons, irf: irfCounts,
-    backgroundPerChannel: spec.backgroundPerChannel ?? 2,
-    ...(spec.intensityFractions === undefined ? {} : { intensityFractions: spec.intensityFractions }),
-  }, random);
+  const simulated = simulateDecay(
+    {
+      channels: spec.channels,
+      channelWidthNs: spec.channelWidthNs,
+      tauNs: spec.tauNs,
+      photons: spec.photons,
+      irf: irfCounts,
+      backgroundPerChannel: spec.backgroundPerChannel ?? 2,
+      ...(spec.intensityFractions === undefined ? {} : { intensityFractions: spec.intensityFractions }),
+    },
+    random,
+  );
   // Channel times rounded to 12 significant digits so the exported files read 0.15, not 0.15000000000000002.
   const timeNs = Float64Array.from(simulated.timeNs, (t) => Number(t.toPrecision(12)));
   return createDecay({ timeNs, counts: simulated.counts, channelWidthNs: spec.channelWidthNs, irfCounts, metadata });
@@ -96,11 +150,21 @@ export function decayHistogram(spec: DecaySpec, metadata: Partial<DecayMetadata>
 
 /** The same decay without its IRF column. */
 export function withoutIrf(decay: Decay): Decay {
-  return createDecay({ timeNs: decay.timeNs, counts: decay.counts, channelWidthNs: decay.channelWidthNs, metadata: decay.metadata });
+  return createDecay({
+    timeNs: decay.timeNs,
+    counts: decay.counts,
+    channelWidthNs: decay.channelWidthNs,
+    metadata: decay.metadata,
+  });
 }
 
 /** The IRF of a decay as a decay file of its own (role irf). */
 export function irfAsDecay(decay: Decay, metadata: Partial<DecayMetadata>): Decay {
   if (decay.irfCounts === undefined) throw new Error('the decay has no IRF column');
-  return createDecay({ timeNs: decay.timeNs, counts: decay.irfCounts, channelWidthNs: decay.channelWidthNs, metadata: { role: 'irf', ...metadata } });
+  return createDecay({
+    timeNs: decay.timeNs,
+    counts: decay.irfCounts,
+    channelWidthNs: decay.channelWidthNs,
+    metadata: { role: 'irf', ...metadata },
+  });
 }

@@ -3,7 +3,12 @@
 import { reject } from './reject.js';
 
 /** +1 for an ascending axis, −1 for descending; throws AXIS_DUPLICATE or AXIS_NOT_ASCENDING (with the line) otherwise. */
-export function checkMonotonic(axis: Float64Array, lineOfRow: (row: number) => number | undefined, file: string, what: string): 1 | -1 {
+export function checkMonotonic(
+  axis: Float64Array,
+  lineOfRow: (row: number) => number | undefined,
+  file: string,
+  what: string,
+): 1 | -1 {
   if (axis.length < 2) return 1;
   const direction = (axis[1] as number) > (axis[0] as number) ? 1 : -1;
   for (let i = 1; i < axis.length; i++) {
@@ -30,16 +35,31 @@ export function checkUniform(axis: Float64Array, lineOfRow: (row: number) => num
   for (let i = 1; i < n; i++) {
     const width = (axis[i] as number) - (axis[i - 1] as number);
     if (Math.abs(width - mean) > UNIFORM_TOLERANCE * Math.abs(mean)) {
-      reject('AXIS_NOT_UNIFORM', `the channel ending here is ${width} wide but the mean width is ${mean}`, file, lineOfRow(i));
+      reject(
+        'AXIS_NOT_UNIFORM',
+        `the channel ending here is ${width} wide but the mean width is ${mean}`,
+        file,
+        lineOfRow(i),
+      );
     }
   }
 }
 
 /** Throws NEGATIVE_COUNTS (with the line) at the first negative value. */
-export function checkNonNegative(values: Float64Array, lineOfRow: (row: number) => number | undefined, file: string, what: string): void {
+export function checkNonNegative(
+  values: Float64Array,
+  lineOfRow: (row: number) => number | undefined,
+  file: string,
+  what: string,
+): void {
   for (let i = 0; i < values.length; i++) {
     if ((values[i] as number) < 0) {
-      reject('NEGATIVE_COUNTS', `the ${what} column holds the negative count ${values[i] as number}`, file, lineOfRow(i));
+      reject(
+        'NEGATIVE_COUNTS',
+        `the ${what} column holds the negative count ${values[i] as number}`,
+        file,
+        lineOfRow(i),
+      );
     }
   }
 }

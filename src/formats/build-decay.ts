@@ -56,46 +56,70 @@ function roundingQuantum(values: Float64Array): number {
  * t0 + i·w (w from the header, else the mean step), the channels are rebuilt exactly. Returns
  * undefined when the axis is already even, or when it is uneven beyond its rounding.
  */
-function restoreRoundedAxis(values: Float64Array, statedWidth: number | undefined): { values: Float64Array; width: number; quantum: number; source: string } | undefined {
+function restoreRoundedAxis(
+  values: Float64Array,
+  statedWidth: number | undefined,
+): { values: Float64Array; width: number; quantum: number; source: string } | undefined {
   const n = values.length;
   if (n < 3) return undefined;
   const first = values[0] as number;
   const meanStep = ((values[n - 1] as number) - first) / (n - 1);
   let even = true;
-  for (let i = 1; i < n && even; i++) even = Math.abs((values[i] as number) - (values[i - 1] as number) - meanStep) <= SPACING_TOLERANCE * Math.abs(meanStep);
+  for (let i = 1; i < n && even; i++)
+    even =
+      Math.abs((values[i] as number) - (values[i - 1] as number) - meanStep) <= SPACING_TOLERANCE * Math.abs(meanStep);
   if (even) return undefined;
   const quantum = roundingQuantum(values);
   if (!(quantum > 0) || quantum < SPACING_TOLERANCE * Math.abs(meanStep)) return undefined;
   const direction = Math.sign(meanStep);
-  const usable = statedWidth !== undefined && Math.abs(statedWidth - Math.abs(meanStep)) <= (2 * quantum) / (n - 1) + SPACING_TOLERANCE * statedWidth;
+  const usable =
+    statedWidth !== undefined &&
+    Math.abs(statedWidth - Math.abs(meanStep)) <= (2 * quantum) / (n - 1) + SPACING_TOLERANCE * statedWidth;
   const width = usable ? statedWidth : Math.abs(meanStep);
   const rebuilt = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     rebuilt[i] = first + direction * i * width;
     if (Math.abs((rebuilt[i] as number) - (values[i] as number)) > quantum * (1 + 1e-9)) return undefined;
   }
-  return { values: rebuilt, width, quantum, source: usable ? 'channel width from the header' : 'mean step of the axis' };
+  return {
+    values: rebuilt,
+    width,
+    quantum,
+    source: usable ? 'channel width from the header' : 'mean step of the axis',
+  };
 }
 
 /** Builds the Decay; columns not used as counts or IRF are listed in `ignoredColumns`. */
-export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColumns: string[]; countsColumn: string; irfColumn: string | null } {
+export function buildDecay(input: DecayBuildInput): {
+  decay: Decay;
+  ignoredColumns: string[];
+  countsColumn: string;
+  irfColumn: string | null;
+} {
   const { table, axis, unit, file, mapped } = input;
   const columns = table.columns;
   const roles = input.valueIndices.map((index) => ({ index, role: columnRole((columns[index] as RawColumn).name) }));
-  const countsIndex = input.requestedIndex
-    ?? roles.find((entry) => entry.role === 'counts')?.index
-    ?? roles.find((entry) => entry.role !== 'irf')?.index;
+  const countsIndex =
+    input.requestedIndex ??
+    roles.find((entry) => entry.role === 'counts')?.index ??
+    roles.find((entry) => entry.role !== 'irf')?.index;
   if (countsIndex === undefined) {
     return reject('MISSING_COLUMN', 'the decay has no counts column (only an IRF column)', file, table.unitLine);
   }
   const irfIndex = input.irfIndex ?? roles.find((entry) => entry.role === 'irf' && entry.index !== countsIndex)?.index;
   const direction = checkMonotonic(axis.values, table.lineOfRow, file, 'time axis');
-  const statedWidthInAxisUnit = mapped.numbers.channelWidthNs === undefined || unit.quantity === 'channel' ? undefined : mapped.numbers.channelWidthNs / unit.toModelFactor;
+  const statedWidthInAxisUnit =
+    mapped.numbers.channelWidthNs === undefined || unit.quantity === 'channel'
+      ? undefined
+      : mapped.numbers.channelWidthNs / unit.toModelFactor;
   const restored = restoreRoundedAxis(axis.values, statedWidthInAxisUnit);
   if (restored === undefined) checkUniform(axis.values, table.lineOfRow, file);
   const axisValues = restored?.values ?? axis.values;
   if (restored !== undefined) {
-    input.conversions.push({ code: 'axis-rounding-restored', detail: `the time axis is written to ${restored.quantum} ${unit.symbol}; channels rebuilt as t0 + i × ${restored.width} ${unit.symbol} (${restored.source})` });
+    input.conversions.push({
+      code: 'axis-rounding-restored',
+      detail: `the time axis is written to ${restored.quantum} ${unit.symbol}; channels rebuilt as t0 + i × ${restored.width} ${unit.symbol} (${restored.source})`,
+    });
   }
   const countsColumn = columns[countsIndex] as RawColumn;
   checkNonNegative(countsColumn.values, table.lineOfRow, file, `"${countsColumn.name}"`);
@@ -105,8 +129,13 @@ export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColum
   let channelWidthNs = mapped.numbers.channelWidthNs;
   if (unit.quantity === 'channel') {
     if (channelWidthNs === undefined || !(channelWidthNs > 0)) {
-      return reject('UNKNOWN_UNIT', 'the axis holds channel numbers but no channel width is given', file, table.unitLine,
-        'Add a header line such as "channel width (ps): 25", or give the axis in time units.');
+      return reject(
+        'UNKNOWN_UNIT',
+        'the axis holds channel numbers but no channel width is given',
+        file,
+        table.unitLine,
+        'Add a header line such as "channel width (ps): 25", or give the axis in time units.',
+      );
     }
     const width = channelWidthNs;
     timeNs = axisValues.map((channel) => channel * width);
@@ -115,10 +144,13 @@ export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColum
     timeNs = scaleToNs(axisValues, unit.toModelFactor);
     if (channelWidthNs === undefined && axisValues.length > 1) {
       // The width from the axis in its own unit, scaled once: 50 ps → 0.05 ns rather than a mean of scaled values.
-      const rawWidth = restored?.width ?? Math.abs(((axisValues[axisValues.length - 1] as number) - (axisValues[0] as number)) / (axisValues.length - 1));
-      channelWidthNs = (scaleToNs(Float64Array.of(rawWidth), unit.toModelFactor)[0] as number);
+      const rawWidth =
+        restored?.width ??
+        Math.abs(((axisValues[axisValues.length - 1] as number) - (axisValues[0] as number)) / (axisValues.length - 1));
+      channelWidthNs = scaleToNs(Float64Array.of(rawWidth), unit.toModelFactor)[0] as number;
     }
-    if (unit.toModelFactor !== 1) input.conversions.push({ code: 'time-unit-to-ns', detail: `${unit.symbol} → ns (× ${unit.toModelFactor})` });
+    if (unit.toModelFactor !== 1)
+      input.conversions.push({ code: 'time-unit-to-ns', detail: `${unit.symbol} → ns (× ${unit.toModelFactor})` });
   }
   let counts = countsColumn.values;
   let irfCounts = irfColumn?.values;
@@ -129,13 +161,20 @@ export function buildDecay(input: DecayBuildInput): { decay: Decay; ignoredColum
     input.conversions.push({ code: 'axis-reversed', detail: 'channels reordered to ascending time' });
     if (unit.quantity === 'channel' && channelWidthNs !== undefined) channelWidthNs = Math.abs(channelWidthNs);
   }
-  const ignoredColumns = input.valueIndices.filter((index) => index !== countsIndex && index !== irfIndex).map((index) => (columns[index] as RawColumn).name);
-  const decay = withFile(file, () => createDecay({
-    timeNs,
-    counts,
-    ...(channelWidthNs === undefined ? {} : { channelWidthNs }),
-    ...(irfCounts === undefined ? {} : { irfCounts }),
-    metadata: input.metadata as Partial<DecayMetadata>,
-  }), mapped.lines.channelWidthNs);
+  const ignoredColumns = input.valueIndices
+    .filter((index) => index !== countsIndex && index !== irfIndex)
+    .map((index) => (columns[index] as RawColumn).name);
+  const decay = withFile(
+    file,
+    () =>
+      createDecay({
+        timeNs,
+        counts,
+        ...(channelWidthNs === undefined ? {} : { channelWidthNs }),
+        ...(irfCounts === undefined ? {} : { irfCounts }),
+        metadata: input.metadata as Partial<DecayMetadata>,
+      }),
+    mapped.lines.channelWidthNs,
+  );
   return { decay, ignoredColumns, countsColumn: countsColumn.name, irfColumn: irfColumn?.name ?? null };
 }

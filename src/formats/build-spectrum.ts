@@ -31,7 +31,15 @@ export interface SpectrumBuildInput {
 const DENSITY_KINDS: readonly SpectrumKind[] = ['emission', 'blank'];
 
 /** Value units that say the numbers are not transmittance (a header naming one of them turns the %T conversion off). */
-const NON_TRANSMITTANCE_UNITS: readonly string[] = ['absorbance', 'a.u.', 'au', 'counts', 'cps', 'factor', 'arbitrary units'];
+const NON_TRANSMITTANCE_UNITS: readonly string[] = [
+  'absorbance',
+  'a.u.',
+  'au',
+  'counts',
+  'cps',
+  'factor',
+  'arbitrary units',
+];
 
 /** Picks the value column: the requested one, else the first whose role suits the expected kind, else the first value column. */
 function chooseValueColumn(input: SpectrumBuildInput): number {
@@ -39,7 +47,9 @@ function chooseValueColumn(input: SpectrumBuildInput): number {
   const expected = input.metaKind ?? input.kindHint;
   const columns = input.table.columns;
   if (expected !== undefined) {
-    const suited = input.valueIndices.find((index) => roleSuitsKind(columnRole((columns[index] as RawColumn).name), expected));
+    const suited = input.valueIndices.find((index) =>
+      roleSuitsKind(columnRole((columns[index] as RawColumn).name), expected),
+    );
     if (suited !== undefined) return suited;
   }
   return input.valueIndices[0] as number;
@@ -52,19 +62,30 @@ function axisToNm(input: SpectrumBuildInput): Float64Array {
   if (unit.quantity === 'raman-shift') return ramanShiftToNm(input);
   if (unit.quantity === 'wavelength') {
     if (unit.toModelFactor === 1) return raw;
-    input.conversions.push({ code: 'micrometre-to-nanometre', detail: `${unit.symbol} → nm (× ${unit.toModelFactor})` });
+    input.conversions.push({
+      code: 'micrometre-to-nanometre',
+      detail: `${unit.symbol} → nm (× ${unit.toModelFactor})`,
+    });
     return raw.map((value) => value * unit.toModelFactor);
   }
   const numerator = unit.quantity === 'wavenumber' ? NM_PER_INVERSE_CM : HC_EV_NM;
   const nm = new Float64Array(raw.length);
   for (let i = 0; i < raw.length; i++) {
     const value = raw[i] as number;
-    if (!(value > 0)) reject('NON_FINITE', `the ${unit.symbol} axis holds ${value}; it must be positive to convert to nm`, file, table.lineOfRow(i));
+    if (!(value > 0))
+      reject(
+        'NON_FINITE',
+        `the ${unit.symbol} axis holds ${value}; it must be positive to convert to nm`,
+        file,
+        table.lineOfRow(i),
+      );
     nm[i] = numerator / value;
   }
-  input.conversions.push(unit.quantity === 'wavenumber'
-    ? { code: 'wavenumber-to-wavelength', detail: 'λ[nm] = 10⁷ / ν̃[cm⁻¹]' }
-    : { code: 'energy-to-wavelength', detail: `λ[nm] = ${HC_EV_NM} / E[eV]` });
+  input.conversions.push(
+    unit.quantity === 'wavenumber'
+      ? { code: 'wavenumber-to-wavelength', detail: 'λ[nm] = 10⁷ / ν̃[cm⁻¹]' }
+      : { code: 'energy-to-wavelength', detail: `λ[nm] = ${HC_EV_NM} / E[eV]` },
+  );
   return nm;
 }
 
@@ -72,16 +93,30 @@ function axisToNm(input: SpectrumBuildInput): Float64Array {
 function ramanShiftToNm(input: SpectrumBuildInput): Float64Array {
   const { axis, table, file, excitationNm } = input;
   if (excitationNm === undefined || !(excitationNm > 0)) {
-    return reject('EXCITATION_REQUIRED', `the axis "${axis.name}" is a Raman shift (relative to the excitation line), and no excitation wavelength is given`, file, table.unitLine);
+    return reject(
+      'EXCITATION_REQUIRED',
+      `the axis "${axis.name}" is a Raman shift (relative to the excitation line), and no excitation wavelength is given`,
+      file,
+      table.unitLine,
+    );
   }
   const inverseExcitation = NM_PER_INVERSE_CM / excitationNm;
   const nm = new Float64Array(axis.values.length);
   for (let i = 0; i < nm.length; i++) {
     const absolute = inverseExcitation - (axis.values[i] as number);
-    if (!(absolute > 0)) reject('NON_FINITE', `the Raman shift ${axis.values[i] as number} cm⁻¹ exceeds the excitation wavenumber ${inverseExcitation} cm⁻¹`, file, table.lineOfRow(i));
+    if (!(absolute > 0))
+      reject(
+        'NON_FINITE',
+        `the Raman shift ${axis.values[i] as number} cm⁻¹ exceeds the excitation wavenumber ${inverseExcitation} cm⁻¹`,
+        file,
+        table.lineOfRow(i),
+      );
     nm[i] = NM_PER_INVERSE_CM / absolute;
   }
-  input.conversions.push({ code: 'raman-shift-to-wavelength', detail: `λ[nm] = 10⁷ / (10⁷/${excitationNm} − Δν̃[cm⁻¹]) (excitation ${excitationNm} nm)` });
+  input.conversions.push({
+    code: 'raman-shift-to-wavelength',
+    detail: `λ[nm] = 10⁷ / (10⁷/${excitationNm} − Δν̃[cm⁻¹]) (excitation ${excitationNm} nm)`,
+  });
   return nm;
 }
 
@@ -91,13 +126,21 @@ function transmittanceToAbsorbance(input: SpectrumBuildInput, values: Float64Arr
   for (let i = 0; i < values.length; i++) {
     const t = values[i] as number;
     if (!(t > 0)) {
-      reject('NON_FINITE', `transmittance ${t} has no finite absorbance`, input.file, input.table.lineOfRow(i), 'Transmittance must be above 0; clip or remove points at or below zero.');
+      reject(
+        'NON_FINITE',
+        `transmittance ${t} has no finite absorbance`,
+        input.file,
+        input.table.lineOfRow(i),
+        'Transmittance must be above 0; clip or remove points at or below zero.',
+      );
     }
     out[i] = percent ? 2 - Math.log10(t) : -Math.log10(t);
   }
-  input.conversions.push(percent
-    ? { code: 'percent-transmittance-to-absorbance', detail: 'A = 2 − log10(%T)' }
-    : { code: 'transmittance-to-absorbance', detail: 'A = −log10(T)' });
+  input.conversions.push(
+    percent
+      ? { code: 'percent-transmittance-to-absorbance', detail: 'A = 2 − log10(%T)' }
+      : { code: 'transmittance-to-absorbance', detail: 'A = −log10(T)' },
+  );
   return out;
 }
 
@@ -110,32 +153,55 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
   let role: ColumnRole = columnRole(valueColumn.name);
   let values = valueColumn.values;
   const declaredUnit = input.valueUnit?.toLowerCase();
-  const declaredTransmittance = declaredUnit === 'percent-transmittance' || declaredUnit === 'transmittance' || declaredUnit === '%t' || declaredUnit === '%';
-  const transmittanceRole = role === 'transmittance' || role === 'percent-transmittance' || input.metaKind === 'transmittance';
+  const declaredTransmittance =
+    declaredUnit === 'percent-transmittance' ||
+    declaredUnit === 'transmittance' ||
+    declaredUnit === '%t' ||
+    declaredUnit === '%';
+  const transmittanceRole =
+    role === 'transmittance' || role === 'percent-transmittance' || input.metaKind === 'transmittance';
   const declaredOther = declaredUnit !== undefined && NON_TRANSMITTANCE_UNITS.includes(declaredUnit);
   if (declaredTransmittance || (transmittanceRole && !declaredOther)) {
     let max = 0;
     for (const value of values) if (value > max) max = value;
-    const percent = role === 'percent-transmittance' || declaredUnit === 'percent-transmittance' || declaredUnit === '%t' || declaredUnit === '%' || (declaredUnit !== 'transmittance' && max > 1.5);
+    const percent =
+      role === 'percent-transmittance' ||
+      declaredUnit === 'percent-transmittance' ||
+      declaredUnit === '%t' ||
+      declaredUnit === '%' ||
+      (declaredUnit !== 'transmittance' && max > 1.5);
     values = transmittanceToAbsorbance(input, values, percent);
     role = 'absorbance';
   }
-  const kind: SpectrumKind = role === 'absorbance' ? 'absorbance' : (input.metaKind ?? kindOfRole(role) ?? input.kindHint ?? 'emission');
-  const valueUnit = role === 'absorbance' && values !== valueColumn.values ? 'absorbance' : (input.valueUnit ?? valueUnitOf(valueColumn.name, role));
+  const kind: SpectrumKind =
+    role === 'absorbance' ? 'absorbance' : (input.metaKind ?? kindOfRole(role) ?? input.kindHint ?? 'emission');
+  const valueUnit =
+    role === 'absorbance' && values !== valueColumn.values
+      ? 'absorbance'
+      : (input.valueUnit ?? valueUnitOf(valueColumn.name, role));
   let wavelengthNm = axisToNm(input);
   const others: Array<[string, Float64Array]> = input.valueIndices
     .filter((index) => index !== valueIndex)
     .map((index) => [(table.columns[index] as RawColumn).name, (table.columns[index] as RawColumn).values]);
-  if (input.unit.quantity === 'wavenumber' || input.unit.quantity === 'raman-shift' || input.unit.quantity === 'energy') {
+  if (
+    input.unit.quantity === 'wavenumber' ||
+    input.unit.quantity === 'raman-shift' ||
+    input.unit.quantity === 'energy'
+  ) {
     if (DENSITY_KINDS.includes(kind)) {
       const numerator = input.unit.quantity === 'energy' ? HC_EV_NM : NM_PER_INVERSE_CM;
-      const jacobian = (column: Float64Array): Float64Array => column.map((value, i) => (value * numerator) / ((wavelengthNm[i] as number) ** 2));
+      const jacobian = (column: Float64Array): Float64Array =>
+        column.map((value, i) => (value * numerator) / (wavelengthNm[i] as number) ** 2);
       values = jacobian(values);
       for (const entry of others) entry[1] = jacobian(entry[1]);
-      input.conversions.push({ code: 'jacobian-intensity', detail: `I(λ) = I(${input.unit.symbol})·${numerator}/λ² on every value column` });
+      input.conversions.push({
+        code: 'jacobian-intensity',
+        detail: `I(λ) = I(${input.unit.symbol})·${numerator}/λ² on every value column`,
+      });
     }
   }
-  const ascendingInNm = (input.unit.quantity === 'wavelength' || input.unit.quantity === 'raman-shift') === (direction === 1);
+  const ascendingInNm =
+    (input.unit.quantity === 'wavelength' || input.unit.quantity === 'raman-shift') === (direction === 1);
   if (!ascendingInNm) {
     wavelengthNm = reversed(wavelengthNm);
     values = reversed(values);
@@ -144,13 +210,15 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
   }
   const otherColumns: Record<string, Float64Array> = {};
   for (const [name, column] of others) setOwn(otherColumns, name, column);
-  return withFile(file, () => createSpectrum({
-    kind,
-    wavelengthNm,
-    values,
-    valueUnit,
-    valueColumn: valueColumn.name,
-    otherColumns,
-    metadata: input.metadata as Partial<SpectrumMetadata>,
-  }));
+  return withFile(file, () =>
+    createSpectrum({
+      kind,
+      wavelengthNm,
+      values,
+      valueUnit,
+      valueColumn: valueColumn.name,
+      otherColumns,
+      metadata: input.metadata as Partial<SpectrumMetadata>,
+    }),
+  );
 }

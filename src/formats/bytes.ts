@@ -31,7 +31,7 @@ export function checkContent(content: Uint8Array, maxBytes: number, file: string
       reject('BINARY_CONTENT', `the file holds a NUL byte at offset ${i}`, file, line);
     }
     if (byte === 10) line++;
-    if ((byte < 9 || (byte > 13 && byte < 32) || byte === 127)) control++;
+    if (byte < 9 || (byte > 13 && byte < 32) || byte === 127) control++;
     else if (byte > 32) printable++;
   }
   if (printable === 0 && control === 0) {
@@ -97,7 +97,12 @@ const CTRL_Z = 0x1a;
  * Brings file bytes to what the readers scan: UTF-16 (LE/BE, with or without BOM) transcoded to
  * UTF-8, and a final Ctrl-Z (0x1A, the old DOS end-of-file mark) with any blanks after it dropped.
  */
-export function normaliseBytes(content: Uint8Array): { bytes: Uint8Array; utf16: 'utf-16le' | 'utf-16be' | null; utf16Bom: boolean; ctrlZ: boolean } {
+export function normaliseBytes(content: Uint8Array): {
+  bytes: Uint8Array;
+  utf16: 'utf-16le' | 'utf-16be' | null;
+  utf16Bom: boolean;
+  ctrlZ: boolean;
+} {
   let bytes = content;
   let utf16: 'utf-16le' | 'utf-16be' | null = null;
   let utf16Bom = false;
@@ -109,7 +114,8 @@ export function normaliseBytes(content: Uint8Array): { bytes: Uint8Array; utf16:
     utf16Bom = order.bom;
   }
   let end = bytes.length;
-  while (end > 0 && (bytes[end - 1] === 10 || bytes[end - 1] === 13 || bytes[end - 1] === 32 || bytes[end - 1] === 9)) end--;
+  while (end > 0 && (bytes[end - 1] === 10 || bytes[end - 1] === 13 || bytes[end - 1] === 32 || bytes[end - 1] === 9))
+    end--;
   const ctrlZ = end > 0 && bytes[end - 1] === CTRL_Z;
   if (ctrlZ) bytes = bytes.subarray(0, end - 1);
   return { bytes, utf16, utf16Bom, ctrlZ };

@@ -5,8 +5,16 @@ import { normaliseUnitText, splitNameAndUnit } from './units.js';
 
 /** The role of a value column. */
 export type ColumnRole =
-  | 'irf' | 'counts' | 'absorbance' | 'percent-transmittance' | 'transmittance' | 'emission' | 'excitation'
-  | 'blank' | 'correction' | 'intensity';
+  | 'irf'
+  | 'counts'
+  | 'absorbance'
+  | 'percent-transmittance'
+  | 'transmittance'
+  | 'emission'
+  | 'excitation'
+  | 'blank'
+  | 'correction'
+  | 'intensity';
 
 const ROLE_PATTERNS: ReadonlyArray<readonly [RegExp, ColumnRole]> = [
   [/\birf\b|instrument response|instrument function|\bprompt\b/, 'irf'],

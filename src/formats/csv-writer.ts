@@ -14,7 +14,11 @@ function csvName(name: string): string {
 }
 
 /** Joins rows of columns into CSV text: header lines, the name line, then one row per point. */
-function table(headerLines: readonly string[], names: readonly string[], columns: readonly ArrayLike<number>[]): string {
+function table(
+  headerLines: readonly string[],
+  names: readonly string[],
+  columns: readonly ArrayLike<number>[],
+): string {
   const parts: string[] = [...headerLines, names.map(csvName).join(',')];
   const rows = columns[0]?.length ?? 0;
   for (let i = 0; i < rows; i++) {
@@ -34,22 +38,39 @@ export function writeSpectrumCsv(spectrum: Spectrum): string {
     ...metadataEntries(spectrum.metadata).map(([key, value]) => `# ${key}: ${value}`),
   ];
   const others = Object.entries(spectrum.otherColumns);
-  return table(header, ['wavelength (nm)', spectrum.valueColumn, ...others.map(([name]) => name)], [spectrum.wavelengthNm, spectrum.values, ...others.map(([, column]) => column)]);
+  return table(
+    header,
+    ['wavelength (nm)', spectrum.valueColumn, ...others.map(([name]) => name)],
+    [spectrum.wavelengthNm, spectrum.values, ...others.map(([, column]) => column)],
+  );
 }
 
 /** Writes a decay as CSV: header (kind, channel width in ns, metadata), "time (ns)", counts, optional irf and `extraColumns` (e.g. fit, residuals; each as long as the decay and finite); throws InputRejected otherwise. */
 export function writeDecayCsv(decay: Decay, extraColumns: Readonly<Record<string, ArrayLike<number>>> = {}): string {
   const names = ['time (ns)', 'counts', ...(decay.irfCounts === undefined ? [] : ['irf'])];
-  const columns: ArrayLike<number>[] = [decay.timeNs, decay.counts, ...(decay.irfCounts === undefined ? [] : [decay.irfCounts])];
+  const columns: ArrayLike<number>[] = [
+    decay.timeNs,
+    decay.counts,
+    ...(decay.irfCounts === undefined ? [] : [decay.irfCounts]),
+  ];
   for (const [name, column] of Object.entries(extraColumns)) {
-    if (names.some((taken) => taken.toLowerCase() === name.toLowerCase().trim()) || /\birf\b|counts?\b|instrument response|prompt/i.test(name)) {
-      throw new InputRejected('INPUT_INVALID', `extra column name "${name}" would be read back as counts or IRF`, { hint: 'Name extra columns e.g. "fit" or "residual".' });
+    if (
+      names.some((taken) => taken.toLowerCase() === name.toLowerCase().trim()) ||
+      /\birf\b|counts?\b|instrument response|prompt/i.test(name)
+    ) {
+      throw new InputRejected('INPUT_INVALID', `extra column name "${name}" would be read back as counts or IRF`, {
+        hint: 'Name extra columns e.g. "fit" or "residual".',
+      });
     }
     if (column.length !== decay.timeNs.length) {
-      throw new InputRejected('LENGTH_MISMATCH', `extra column "${name}" has ${column.length} values for ${decay.timeNs.length} channels`);
+      throw new InputRejected(
+        'LENGTH_MISMATCH',
+        `extra column "${name}" has ${column.length} values for ${decay.timeNs.length} channels`,
+      );
     }
     for (let i = 0; i < column.length; i++) {
-      if (!Number.isFinite(column[i])) throw new InputRejected('NON_FINITE', `extra column "${name}" holds ${column[i]} at channel ${i + 1}`);
+      if (!Number.isFinite(column[i]))
+        throw new InputRejected('NON_FINITE', `extra column "${name}" holds ${column[i]} at channel ${i + 1}`);
     }
     names.push(name);
     columns.push(column);

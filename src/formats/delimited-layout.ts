@@ -55,8 +55,11 @@ export interface DelimitedLayout {
 function splitFields(line: string, delimiter: DelimiterName): string[] {
   const trimmed = line.trim();
   if (trimmed === '') return [];
-  const fields = (delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : trimmed.split(delimiter).map((field) => field.trim()))
-    .map((field) => (field.length >= 2 && field.startsWith('"') && field.endsWith('"') ? field.slice(1, -1).trim() : field));
+  const fields = (
+    delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : trimmed.split(delimiter).map((field) => field.trim())
+  ).map((field) =>
+    field.length >= 2 && field.startsWith('"') && field.endsWith('"') ? field.slice(1, -1).trim() : field,
+  );
   // Spreadsheets pad rows with empty cells: every trailing empty field is dropped.
   while (fields.length > 1 && fields[fields.length - 1] === '') fields.pop();
   return fields;
@@ -78,7 +81,11 @@ function numericFieldCount(line: string, candidate: Candidate): number {
 }
 
 /** First line index starting a run of numeric rows under `candidate` (blank lines skipped), with the column count. */
-function findDataStart(lines: readonly string[], candidate: Candidate, lastLine: number): { index: number; columns: number } | null {
+function findDataStart(
+  lines: readonly string[],
+  candidate: Candidate,
+  lastLine: number,
+): { index: number; columns: number } | null {
   for (let i = 0; i <= lastLine; i++) {
     const columns = numericFieldCount(lines[i] ?? '', candidate);
     if (columns === 0) continue;
@@ -168,17 +175,28 @@ function findSingleColumn(lines: readonly string[], lastLine: number): { index: 
 function monotonicWithin(values: readonly number[], low: number, high: number): boolean {
   if (values.length < 2 || values.some((value) => !(value >= low && value <= high))) return false;
   const direction = Math.sign((values[1] as number) - (values[0] as number));
-  return direction !== 0 && values.every((value, i) => i === 0 || Math.sign(value - (values[i - 1] as number)) === direction);
+  return (
+    direction !== 0 && values.every((value, i) => i === 0 || Math.sign(value - (values[i - 1] as number)) === direction)
+  );
 }
 
 /** Wavelength range (nm) in which the axes of an excitation–emission matrix are looked for. */
 const MATRIX_NM = [150, 2000] as const;
 
 /** Throws MATRIX_LAYOUT when the block is an excitation–emission matrix: a row of wavelengths over a column of wavelengths. */
-function rejectMatrix(lines: readonly string[], index: number, lastLine: number, candidate: Candidate, columns: number, file: string): void {
+function rejectMatrix(
+  lines: readonly string[],
+  index: number,
+  lastLine: number,
+  candidate: Candidate,
+  columns: number,
+  file: string,
+): void {
   if (columns < 4) return;
-  const numbers = (fields: readonly string[]): number[] => fields.map((field) => Number(candidate.decimalMark === ',' ? field.replace(',', '.') : field));
-  const hint = 'An excitation–emission matrix is not analysed yet: export one emission spectrum per excitation wavelength (axis column and one value column), or several spectra sharing one axis with the excitation in each column name.';
+  const numbers = (fields: readonly string[]): number[] =>
+    fields.map((field) => Number(candidate.decimalMark === ',' ? field.replace(',', '.') : field));
+  const hint =
+    'An excitation–emission matrix is not analysed yet: export one emission spectrum per excitation wavelength (axis column and one value column), or several spectra sharing one axis with the excitation in each column name.';
   let above = index - 1;
   while (above >= 0 && (lines[above] ?? '').trim() === '') above--;
   const firstColumn: number[] = [];
@@ -189,20 +207,45 @@ function rejectMatrix(lines: readonly string[], index: number, lastLine: number,
   if (above >= 0) {
     const fields = splitFields(stripCommentMarker(lines[above] ?? '').text, candidate.delimiter);
     const pattern = NUMERIC[candidate.decimalMark];
-    if (fields.length === columns && !pattern.test(fields[0] ?? '') && fields.slice(1).every((field) => pattern.test(field))
-      && monotonicWithin(numbers(fields.slice(1)), MATRIX_NM[0], MATRIX_NM[1])) {
-      reject('MATRIX_LAYOUT', `the line above the data holds ${columns - 1} wavelengths (${fields[1] ?? ''} … ${fields[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`, file, above + 1, hint);
+    if (
+      fields.length === columns &&
+      !pattern.test(fields[0] ?? '') &&
+      fields.slice(1).every((field) => pattern.test(field)) &&
+      monotonicWithin(numbers(fields.slice(1)), MATRIX_NM[0], MATRIX_NM[1])
+    ) {
+      reject(
+        'MATRIX_LAYOUT',
+        `the line above the data holds ${columns - 1} wavelengths (${fields[1] ?? ''} … ${fields[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`,
+        file,
+        above + 1,
+        hint,
+      );
     }
   }
   const top = splitFields(lines[index] ?? '', candidate.delimiter);
   const corner = Number(top[0]);
-  if (corner === 0 && monotonicWithin(numbers(top.slice(1)), MATRIX_NM[0], MATRIX_NM[1]) && monotonicWithin(firstColumn.slice(1), MATRIX_NM[0], MATRIX_NM[1])) {
-    reject('MATRIX_LAYOUT', `the first row holds a 0 corner and ${columns - 1} wavelengths (${top[1] ?? ''} … ${top[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`, file, index + 1, hint);
+  if (
+    corner === 0 &&
+    monotonicWithin(numbers(top.slice(1)), MATRIX_NM[0], MATRIX_NM[1]) &&
+    monotonicWithin(firstColumn.slice(1), MATRIX_NM[0], MATRIX_NM[1])
+  ) {
+    reject(
+      'MATRIX_LAYOUT',
+      `the first row holds a 0 corner and ${columns - 1} wavelengths (${top[1] ?? ''} … ${top[columns - 1] ?? ''}) over a column of wavelengths: an excitation–emission matrix`,
+      file,
+      index + 1,
+      hint,
+    );
   }
 }
 
 /** Detects the layout of delimited text starting at byte `start` (after any BOM); throws NO_DATA, NON_NUMERIC, MATRIX_LAYOUT or UNKNOWN_LAYOUT. */
-export function detectDelimitedLayout(content: Uint8Array, start: number, file: string, overrides: LayoutOverrides = {}): DelimitedLayout {
+export function detectDelimitedLayout(
+  content: Uint8Array,
+  start: number,
+  file: string,
+  overrides: LayoutOverrides = {},
+): DelimitedLayout {
   const sampleEnd = Math.min(content.length, start + SAMPLE_BYTES);
   let cut = sampleEnd;
   if (sampleEnd < content.length) {
@@ -213,9 +256,13 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   let lastLine = lines.length - 1;
   while (lastLine > 0 && (lines[lastLine] ?? '').trim() === '') lastLine--;
   let best: { candidate: Candidate; index: number; columns: number } | null = null;
-  const candidates = CANDIDATES.filter((candidate) => (overrides.delimiter === undefined || candidate.delimiter === overrides.delimiter)
-    && (overrides.decimalMark === undefined || candidate.decimalMark === overrides.decimalMark));
-  if (candidates.length === 0 && overrides.delimiter !== undefined) candidates.push({ delimiter: overrides.delimiter, decimalMark: overrides.decimalMark ?? '.' });
+  const candidates = CANDIDATES.filter(
+    (candidate) =>
+      (overrides.delimiter === undefined || candidate.delimiter === overrides.delimiter) &&
+      (overrides.decimalMark === undefined || candidate.decimalMark === overrides.decimalMark),
+  );
+  if (candidates.length === 0 && overrides.delimiter !== undefined)
+    candidates.push({ delimiter: overrides.delimiter, decimalMark: overrides.decimalMark ?? '.' });
   for (const candidate of candidates) {
     if (overrides.headerLines !== undefined) {
       let index = overrides.headerLines;
@@ -239,12 +286,22 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
     }
   }
   if (best === null && overrides.headerLines !== undefined) {
-    return reject('NO_DATA', `line ${overrides.headerLines + 1} (after the ${overrides.headerLines} header lines of the profile) is not a row of numbers`, file, overrides.headerLines + 1,
-      'Check headerLines, delimiter and decimalMark of the formats profile matching this file.');
+    return reject(
+      'NO_DATA',
+      `line ${overrides.headerLines + 1} (after the ${overrides.headerLines} header lines of the profile) is not a row of numbers`,
+      file,
+      overrides.headerLines + 1,
+      'Check headerLines, delimiter and decimalMark of the formats profile matching this file.',
+    );
   }
   if (best === null) {
-    return reject('NO_DATA', 'no block of rows with two or more numeric columns was found', file, undefined,
-      'Put one row per point: an axis column and one or more value columns, separated by comma, tab, semicolon or spaces.');
+    return reject(
+      'NO_DATA',
+      'no block of rows with two or more numeric columns was found',
+      file,
+      undefined,
+      'Put one row per point: an axis column and one or more value columns, separated by comma, tab, semicolon or spaces.',
+    );
   }
   const { candidate, index, columns } = best;
   const delimiterChar = candidate.delimiter === 'whitespace' ? null : candidate.delimiter;
@@ -269,22 +326,41 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   if (overrides.columnNamesLine !== undefined) {
     const named = overrides.columnNamesLine - 1;
     if (named >= 0) {
-      const names = dropTrailingEmpty(nameSplits(lines[named] ?? '', candidate.delimiter).find((split) => dropTrailingEmpty(split).length === columns) ?? []);
+      const names = dropTrailingEmpty(
+        nameSplits(lines[named] ?? '', candidate.delimiter).find(
+          (split) => dropTrailingEmpty(split).length === columns,
+        ) ?? [],
+      );
       if (names.length !== columns) {
-        reject('MISSING_COLUMN', `line ${named + 1} (the profile's columnNamesLine) does not hold ${columns} column names`, file, named + 1, 'Check columnNamesLine and delimiter of the formats profile matching this file.');
+        reject(
+          'MISSING_COLUMN',
+          `line ${named + 1} (the profile's columnNamesLine) does not hold ${columns} column names`,
+          file,
+          named + 1,
+          'Check columnNamesLine and delimiter of the formats profile matching this file.',
+        );
       }
       columnNames = names;
       nameLineIndex = named;
     }
   } else if (lastHeader >= 0 && columns > 1) {
-    const candidateNames = nameSplits(lines[lastHeader] ?? '', candidate.delimiter).find((split) => dropTrailingEmpty(split).length === columns);
+    const candidateNames = nameSplits(lines[lastHeader] ?? '', candidate.delimiter).find(
+      (split) => dropTrailingEmpty(split).length === columns,
+    );
     if (candidateNames !== undefined) {
       const names = dropTrailingEmpty(candidateNames);
       let above = lastHeader - 1;
       while (above >= 0 && (lines[above] ?? '').trim() === '') above--;
-      const aboveNames = above >= 0 ? nameSplits(lines[above] ?? '', candidate.delimiter).map(dropTrailingEmpty).find((split) => split.length === columns) : undefined;
+      const aboveNames =
+        above >= 0
+          ? nameSplits(lines[above] ?? '', candidate.delimiter)
+              .map(dropTrailingEmpty)
+              .find((split) => split.length === columns)
+          : undefined;
       if (isUnitsRow(names) && aboveNames !== undefined && looksLikeNames(aboveNames, candidate)) {
-        columnNames = aboveNames.map((name, k) => ((names[k] ?? '') === '' ? name : `${name} (${(names[k] ?? '').replace(/^[([{]\s*|\s*[)\]}]$/g, '')})`));
+        columnNames = aboveNames.map((name, k) =>
+          (names[k] ?? '') === '' ? name : `${name} (${(names[k] ?? '').replace(/^[([{]\s*|\s*[)\]}]$/g, '')})`,
+        );
         nameLineIndex = above;
       } else if (looksLikeNames(names, candidate)) {
         columnNames = names;
@@ -300,7 +376,12 @@ export function detectDelimitedLayout(content: Uint8Array, start: number, file: 
   }
   if (singleColumn && columnNames === null && lastHeader >= 0 && lastHeader === index - 1) {
     const name = stripCommentMarker((lines[lastHeader] ?? '').trim()).text.trim();
-    if (/^[A-Za-z][\w ()[\]/.-]*$/.test(name) && lookupKey(name) === undefined && !name.includes(':') && !name.includes('=')) {
+    if (
+      /^[A-Za-z][\w ()[\]/.-]*$/.test(name) &&
+      lookupKey(name) === undefined &&
+      !name.includes(':') &&
+      !name.includes('=')
+    ) {
       columnNames = [name];
       nameLineIndex = lastHeader;
     }
@@ -329,6 +410,7 @@ function dropTrailingEmpty(fields: readonly string[]): string[] {
 function looksLikeNames(fields: readonly string[], candidate: Candidate): boolean {
   const pattern = NUMERIC[candidate.decimalMark];
   if (fields.some((field) => pattern.test(field))) return false;
-  if (fields.length === 2 && lookupKey(fields[0] ?? '') !== undefined && !readAxisName(fields[0] ?? '').looksLikeAxis) return false;
+  if (fields.length === 2 && lookupKey(fields[0] ?? '') !== undefined && !readAxisName(fields[0] ?? '').looksLikeAxis)
+    return false;
   return true;
 }

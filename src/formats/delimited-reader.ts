@@ -27,7 +27,11 @@ export function readDelimited(content: Uint8Array, file: string, overrides: Layo
     const lines = scan.trailer.text.split(/\r\n|\n|\r/);
     while (lines.length > 0 && (lines[lines.length - 1] ?? '').trim() === '') lines.pop();
     lines.forEach((text, index) => {
-      const entry = parseHeaderLine(text, scan.trailer === undefined ? 0 : scan.trailer.line + index, layout.delimiter === 'whitespace' ? null : layout.delimiter);
+      const entry = parseHeaderLine(
+        text,
+        scan.trailer === undefined ? 0 : scan.trailer.line + index,
+        layout.delimiter === 'whitespace' ? null : layout.delimiter,
+      );
       if (entry !== null) headerEntries.push(entry);
     });
     trailer = { line: scan.trailer.line, lineCount: lines.length };
@@ -50,4 +54,3 @@ export function readDelimited(content: Uint8Array, file: string, overrides: Layo
     namedColumns: layout.columnNames !== null,
   };
 }
-

@@ -40,8 +40,12 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
   const length = content.length;
   const sampleBytes = Math.min(4096, length - request.dataStartByte);
   let sampleRows = 1;
-  for (let i = request.dataStartByte; i < request.dataStartByte + sampleBytes; i++) if (content[i] === NEWLINE) sampleRows++;
-  let capacity = Math.max(16, Math.ceil(((length - request.dataStartByte) / Math.max(1, sampleBytes)) * sampleRows * 1.05) + 16);
+  for (let i = request.dataStartByte; i < request.dataStartByte + sampleBytes; i++)
+    if (content[i] === NEWLINE) sampleRows++;
+  let capacity = Math.max(
+    16,
+    Math.ceil(((length - request.dataStartByte) / Math.max(1, sampleBytes)) * sampleRows * 1.05) + 16,
+  );
   let columns: Float64Array[] = Array.from({ length: columnCount }, () => new Float64Array(capacity));
   const skippedBeforeRow: number[] = [];
   let row = 0;
@@ -81,7 +85,8 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
       const quick = fastField(content, cursor, decimalMark, delimiter);
       if (!Number.isNaN(quick)) {
         cursor = fastEnd;
-        while (cursor < length && (content[cursor] === SPACE || (content[cursor] === TAB && delimiter !== TAB))) cursor++;
+        while (cursor < length && (content[cursor] === SPACE || (content[cursor] === TAB && delimiter !== TAB)))
+          cursor++;
         const next = content[cursor];
         const atEnd = cursor >= length || next === NEWLINE || next === CARRIAGE_RETURN;
         if (atEnd || whitespace || next === delimiter) {
@@ -96,7 +101,13 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
       if (byte === QUOTE) {
         // A quoted number ("1.5"): parse inside the quotes, then expect a separator or the line end.
         let close = cursor + 1;
-        while (close < length && content[close] !== QUOTE && content[close] !== NEWLINE && content[close] !== CARRIAGE_RETURN) close++;
+        while (
+          close < length &&
+          content[close] !== QUOTE &&
+          content[close] !== NEWLINE &&
+          content[close] !== CARRIAGE_RETURN
+        )
+          close++;
         if (content[close] !== QUOTE) badField('text', content, fieldStart, close, line, column, file);
         let innerStart = fieldStart + 1;
         let innerEnd = close;
@@ -105,16 +116,24 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
         const value = parseNumberBytes(content, innerStart, innerEnd, decimalMark);
         if (typeof value !== 'number') badField(value, content, innerStart, innerEnd, line, column, file);
         cursor = close + 1;
-        while (cursor < length && (content[cursor] === SPACE || (content[cursor] === TAB && delimiter !== TAB))) cursor++;
+        while (cursor < length && (content[cursor] === SPACE || (content[cursor] === TAB && delimiter !== TAB)))
+          cursor++;
         const next = content[cursor];
         const atEnd = cursor >= length || next === NEWLINE || next === CARRIAGE_RETURN;
-        if (!atEnd && !whitespace && next !== delimiter) badField('text', content, fieldStart, cursor + 1, line, column, file);
+        if (!atEnd && !whitespace && next !== delimiter)
+          badField('text', content, fieldStart, cursor + 1, line, column, file);
         if (atEnd && column < columnCount - 1) shortRow(content, cursor, line, column + 1, columnCount, file);
         (columns[column] as Float64Array)[row] = value;
         if (!atEnd && !whitespace) cursor++;
         continue;
       }
-      while (cursor < length && byte !== NEWLINE && byte !== CARRIAGE_RETURN && byte !== delimiter && !(whitespace && byte === TAB)) {
+      while (
+        cursor < length &&
+        byte !== NEWLINE &&
+        byte !== CARRIAGE_RETURN &&
+        byte !== delimiter &&
+        !(whitespace && byte === TAB)
+      ) {
         byte = content[++cursor];
       }
       let fieldEnd = cursor;
@@ -142,14 +161,23 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
     if (cursor < length && content[cursor] !== NEWLINE && content[cursor] !== CARRIAGE_RETURN) {
       reject('LENGTH_MISMATCH', `the row has more than the ${columnCount} columns of the rows above`, file, line);
     }
-    pos = cursor < length && content[cursor] === CARRIAGE_RETURN && content[cursor + 1] === NEWLINE ? cursor + 2 : cursor + 1;
+    pos =
+      cursor < length && content[cursor] === CARRIAGE_RETURN && content[cursor + 1] === NEWLINE
+        ? cursor + 2
+        : cursor + 1;
     row++;
     line++;
   }
   return finish(columns, row, skippedBeforeRow, firstDataLine, undefined);
 }
 
-function finish(columns: Float64Array[], rowCount: number, skippedBeforeRow: readonly number[], firstDataLine: number, trailer: ScanResult['trailer']): ScanResult {
+function finish(
+  columns: Float64Array[],
+  rowCount: number,
+  skippedBeforeRow: readonly number[],
+  firstDataLine: number,
+  trailer: ScanResult['trailer'],
+): ScanResult {
   const views = columns.map((column) => column.subarray(0, rowCount));
   return {
     columns: views,
@@ -165,7 +193,15 @@ function startsText(content: Uint8Array, at: number, delimiter: number): boolean
   const letter = (byte >= 65 && byte <= 90) || (byte >= 97 && byte <= 122) || byte === 91 || byte >= 128;
   if (!letter) return false;
   let end = at;
-  while (end < content.length && content[end] !== delimiter && content[end] !== NEWLINE && content[end] !== CARRIAGE_RETURN && content[end] !== TAB && content[end] !== SPACE) end++;
+  while (
+    end < content.length &&
+    content[end] !== delimiter &&
+    content[end] !== NEWLINE &&
+    content[end] !== CARRIAGE_RETURN &&
+    content[end] !== TAB &&
+    content[end] !== SPACE
+  )
+    end++;
   return !/^(?:nan|inf|infinity)$/i.test(bytesToString(content, at, end));
 }
 
@@ -178,8 +214,13 @@ function readTrailer(content: Uint8Array, start: number, line: number, file: str
     const numeric = /^\s*[-+]?(?:\d|\.\d)/.test(lines[i] ?? '');
     numericRun = numeric ? numericRun + 1 : (lines[i] ?? '').trim() === '' ? numericRun : 0;
     if (numericRun >= 2) {
-      reject('UNKNOWN_LAYOUT', `the data ends at line ${line} with "${(lines[0] ?? '').trim().slice(0, 40)}", but numeric rows follow again at line ${line + i}: the file holds a second block of data`, file, line + i,
-        'Export one measurement per file, or declare the layout in a formats profile (docs/formats.md).');
+      reject(
+        'UNKNOWN_LAYOUT',
+        `the data ends at line ${line} with "${(lines[0] ?? '').trim().slice(0, 40)}", but numeric rows follow again at line ${line + i}: the file holds a second block of data`,
+        file,
+        line + i,
+        'Export one measurement per file, or declare the layout in a formats profile (docs/formats.md).',
+      );
     }
   }
   return { line, text };
@@ -228,7 +269,15 @@ function fastField(content: Uint8Array, start: number, decimalMark: number, deli
     }
   }
   if (!anyDigit || significant > 15 || fraction > 22) return Number.NaN;
-  if (byte !== undefined && byte !== delimiter && byte !== NEWLINE && byte !== CARRIAGE_RETURN && byte !== SPACE && byte !== TAB) return Number.NaN;
+  if (
+    byte !== undefined &&
+    byte !== delimiter &&
+    byte !== NEWLINE &&
+    byte !== CARRIAGE_RETURN &&
+    byte !== SPACE &&
+    byte !== TAB
+  )
+    return Number.NaN;
   fastEnd = p;
   const value = fraction === 0 ? mantissa : mantissa / (POW10[fraction] as number);
   return negative ? -value : value;
@@ -247,7 +296,14 @@ function countAtMost(sorted: readonly number[], value: number): number {
 }
 
 /** A row that ends before its last column: TRUNCATED when it is the file's final line without a line end, else LENGTH_MISMATCH. */
-function shortRow(content: Uint8Array, cursor: number, line: number, found: number, expected: number, file: string): never {
+function shortRow(
+  content: Uint8Array,
+  cursor: number,
+  line: number,
+  found: number,
+  expected: number,
+  file: string,
+): never {
   let end = cursor;
   while (end < content.length && content[end] !== NEWLINE && content[end] !== CARRIAGE_RETURN) end++;
   const finalLine = end >= content.length;
@@ -257,7 +313,15 @@ function shortRow(content: Uint8Array, cursor: number, line: number, found: numb
   return reject('LENGTH_MISMATCH', `the row has ${found} of the ${expected} columns of the rows above`, file, line);
 }
 
-function badField(failure: 'empty' | 'text' | 'non-finite', content: Uint8Array, start: number, end: number, line: number, column: number, file: string): never {
+function badField(
+  failure: 'empty' | 'text' | 'non-finite',
+  content: Uint8Array,
+  start: number,
+  end: number,
+  line: number,
+  column: number,
+  file: string,
+): never {
   const text = bytesToString(content, start, Math.min(end, start + 40));
   if (failure === 'non-finite') {
     return reject('NON_FINITE', `column ${column + 1} holds "${text}", not a finite number`, file, line);

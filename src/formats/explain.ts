@@ -28,7 +28,16 @@ export interface Explanation {
   readonly columns: readonly ExplainedItem[];
   readonly keys: readonly ExplainedItem[];
   /** The measurements read, or the refusal. */
-  readonly outcome: { readonly read: readonly string[] } | { readonly refused: { readonly code: string; readonly message: string; readonly line?: number; readonly hint: string } };
+  readonly outcome:
+    | { readonly read: readonly string[] }
+    | {
+        readonly refused: {
+          readonly code: string;
+          readonly message: string;
+          readonly line?: number;
+          readonly hint: string;
+        };
+      };
   /** Why a profile is offered: the file was refused, or read on an assumption. */
   readonly ambiguity: string | null;
   /** A YAML snippet of a formats profile for this file, and whether reading with it was tried and worked. */
@@ -37,7 +46,11 @@ export interface Explanation {
 
 const DELIMITER_WORDS = { ',': 'comma', '\t': 'tab', ';': 'semicolon', whitespace: 'whitespace' } as const;
 
-function explainLines(lines: readonly string[], layout: DelimitedLayout, trailerLine: number | undefined): ExplainedItem[] {
+function explainLines(
+  lines: readonly string[],
+  layout: DelimitedLayout,
+  trailerLine: number | undefined,
+): ExplainedItem[] {
   const items: ExplainedItem[] = [];
   const delimiter = layout.delimiter === 'whitespace' ? null : layout.delimiter;
   for (let i = 0; i < layout.headerLineCount; i++) {
@@ -45,21 +58,32 @@ function explainLines(lines: readonly string[], layout: DelimitedLayout, trailer
     const where = `line ${i + 1}`;
     if (text.trim() === '') items.push({ where, text, readAs: 'blank' });
     else if (layout.nameLine === i + 1) items.push({ where, text, readAs: 'column names' });
-    else if (layout.nameLine !== undefined && i + 1 > layout.nameLine) items.push({ where, text, readAs: 'units row (merged into the column names)' });
-    else if (isStructureLine(text)) items.push({ where, text, readAs: 'structure (section line or empty cells), not metadata' });
+    else if (layout.nameLine !== undefined && i + 1 > layout.nameLine)
+      items.push({ where, text, readAs: 'units row (merged into the column names)' });
+    else if (isStructureLine(text))
+      items.push({ where, text, readAs: 'structure (section line or empty cells), not metadata' });
     else {
       const entry = parseHeaderLine(text, i + 1, delimiter);
-      items.push({ where, text, readAs: entry === null ? 'ignored' : `metadata: key "${entry.key}", value "${entry.value}"` });
+      items.push({
+        where,
+        text,
+        readAs: entry === null ? 'ignored' : `metadata: key "${entry.key}", value "${entry.value}"`,
+      });
     }
   }
   const lastData = trailerLine === undefined ? lines.length : trailerLine - 1;
   let end = lastData;
   while (end > layout.firstDataLine && (lines[end - 1] ?? '').trim() === '') end--;
-  items.push({ where: `lines ${layout.firstDataLine}–${end}`, text: `${(lines[layout.firstDataLine - 1] ?? '').slice(0, 60)} …`, readAs: `data rows: ${layout.columnCount} column(s), delimiter ${DELIMITER_WORDS[layout.delimiter]}, decimal mark "${layout.decimalMark}"` });
+  items.push({
+    where: `lines ${layout.firstDataLine}–${end}`,
+    text: `${(lines[layout.firstDataLine - 1] ?? '').slice(0, 60)} …`,
+    readAs: `data rows: ${layout.columnCount} column(s), delimiter ${DELIMITER_WORDS[layout.delimiter]}, decimal mark "${layout.decimalMark}"`,
+  });
   if (trailerLine !== undefined) {
     for (let i = trailerLine - 1; i < lines.length; i++) {
       const text = lines[i] ?? '';
-      if (text.trim() !== '') items.push({ where: `line ${i + 1}`, text, readAs: 'after the data: a summary line, read as metadata' });
+      if (text.trim() !== '')
+        items.push({ where: `line ${i + 1}`, text, readAs: 'after the data: a summary line, read as metadata' });
     }
   }
   return items;
@@ -71,8 +95,14 @@ function explainKeys(layout: DelimitedLayout): ExplainedItem[] {
     const row = lookupKey(entry.key);
     const where = `line ${entry.line}`;
     const text = `${entry.key} = ${entry.value}`;
-    if (entry.value.trim() === '') return { where, text, readAs: `empty value: kept in metadata.extra as "${entry.key}"` };
-    if (row === undefined) return { where, text, readAs: `words "${key}"${unitLabel === null ? '' : `, unit ${unitLabel}`}: not in the vocabulary, kept in metadata.extra` };
+    if (entry.value.trim() === '')
+      return { where, text, readAs: `empty value: kept in metadata.extra as "${entry.key}"` };
+    if (row === undefined)
+      return {
+        where,
+        text,
+        readAs: `words "${key}"${unitLabel === null ? '' : `, unit ${unitLabel}`}: not in the vocabulary, kept in metadata.extra`,
+      };
     return { where, text, readAs: `words "${key}"${unitLabel === null ? '' : `, unit ${unitLabel}`} → ${row.field}` };
   });
 }
@@ -84,38 +114,74 @@ function explainColumns(names: readonly string[], data: readonly ParsedData[] | 
     if (first !== undefined) {
       const layout = first.layout;
       const measurement = data?.find((item) => item.layout.valueColumn === name);
-      if (layout.axisColumn === name) return { where, text: name, readAs: `axis${layout.axisUnitFound === null ? ' (unit assumed)' : `, unit ${layout.axisUnitFound}`}` };
-      if (measurement !== undefined) return { where, text: name, readAs: `${measurement.type === 'decay' ? 'counts' : `${measurement.spectrum.kind} values`} of measurement ${measurement.id}` };
+      if (layout.axisColumn === name)
+        return {
+          where,
+          text: name,
+          readAs: `axis${layout.axisUnitFound === null ? ' (unit assumed)' : `, unit ${layout.axisUnitFound}`}`,
+        };
+      if (measurement !== undefined)
+        return {
+          where,
+          text: name,
+          readAs: `${measurement.type === 'decay' ? 'counts' : `${measurement.spectrum.kind} values`} of measurement ${measurement.id}`,
+        };
       if (layout.irfColumn === name) return { where, text: name, readAs: 'IRF' };
-      if (layout.ignoredColumns.includes(name)) return { where, text: name, readAs: 'not a measurement (fit, residual, …): not used' };
-      const constant = layout.conversions.find((c) => c.code === 'constant-column-as-metadata' && c.detail.includes(`"${name}"`));
+      if (layout.ignoredColumns.includes(name))
+        return { where, text: name, readAs: 'not a measurement (fit, residual, …): not used' };
+      const constant = layout.conversions.find(
+        (c) => c.code === 'constant-column-as-metadata' && c.detail.includes(`"${name}"`),
+      );
       if (constant !== undefined) return { where, text: name, readAs: constant.detail };
       return { where, text: name, readAs: 'kept beside the spectrum (otherColumns)' };
     }
     const reading = readAxisName(name);
-    return { where, text: name, readAs: reading.unit !== undefined ? `reads as an axis in ${reading.unit.symbol}` : reading.looksLikeAxis ? 'named like an axis, no unit' : 'a value column by its name' };
+    return {
+      where,
+      text: name,
+      readAs:
+        reading.unit !== undefined
+          ? `reads as an axis in ${reading.unit.symbol}`
+          : reading.looksLikeAxis
+            ? 'named like an axis, no unit'
+            : 'a value column by its name',
+    };
   });
 }
 
 /** A profile guessed from the detected layout; `fill` lists what the file cannot tell. */
-function guessProfile(file: string, layout: DelimitedLayout | null, lines: readonly string[]): { profile: FormatProfile; fill: string[] } {
+function guessProfile(
+  file: string,
+  layout: DelimitedLayout | null,
+  lines: readonly string[],
+): { profile: FormatProfile; fill: string[] } {
   const base = file.replace(/\\/g, '/').split('/').pop() ?? file;
   const match = base.replace(/\d+/g, '*').replace(/\*+/g, '*');
-  const profile: Record<string, unknown> = { name: `${match.replace(/[^A-Za-z]+/g, '-').replace(/^-|-$/g, '') || 'instrument'}`, match };
+  const profile: Record<string, unknown> = {
+    name: `${match.replace(/[^A-Za-z]+/g, '-').replace(/^-|-$/g, '') || 'instrument'}`,
+    match,
+  };
   const fill: string[] = [];
-  if (layout === null) return { profile: profile as FormatProfile, fill: ['delimiter', 'headerLines', 'axisColumn', 'axisUnit'] };
+  if (layout === null)
+    return { profile: profile as FormatProfile, fill: ['delimiter', 'headerLines', 'axisColumn', 'axisUnit'] };
   profile['delimiter'] = DELIMITER_WORDS[layout.delimiter];
   profile['decimalMark'] = layout.decimalMark;
   profile['headerLines'] = layout.headerLineCount;
   profile['columnNamesLine'] = layout.nameLine ?? 0;
   profile['axisColumn'] = 1;
   const nameKind = kindFromFileName(file);
-  const firstRow = (lines[layout.firstDataLine - 1] ?? '').trim().split(layout.delimiter === 'whitespace' ? /\s+/ : layout.delimiter);
+  const firstRow = (lines[layout.firstDataLine - 1] ?? '')
+    .trim()
+    .split(layout.delimiter === 'whitespace' ? /\s+/ : layout.delimiter);
   const axisName = layout.columnNames?.[0];
   const reading = axisName === undefined ? undefined : readAxisName(axisName);
   const axisStart = Number((firstRow[0] ?? '').replace(',', '.'));
-  if (reading?.unit !== undefined && !reading.assumed) profile['axisUnit'] = reading.unit.symbol === 'µs' ? 'us' : reading.unit.symbol;
-  else if (nameKind === 'decay' || layout.headerEntries.some((entry) => lookupKey(entry.key)?.field === 'channelWidthNs')) {
+  if (reading?.unit !== undefined && !reading.assumed)
+    profile['axisUnit'] = reading.unit.symbol === 'µs' ? 'us' : reading.unit.symbol;
+  else if (
+    nameKind === 'decay' ||
+    layout.headerEntries.some((entry) => lookupKey(entry.key)?.field === 'channelWidthNs')
+  ) {
     if (Number.isInteger(axisStart) && layout.columnCount >= 2) {
       profile['axisUnit'] = 'channel';
       profile['channelWidthNs'] = 'FILL IN';
@@ -137,7 +203,11 @@ function guessProfile(file: string, layout: DelimitedLayout | null, lines: reado
 function toYaml(profile: FormatProfile): string {
   const lines = ['formats:', '  profiles:'];
   Object.entries(profile).forEach(([key, value], index) => {
-    const text = Array.isArray(value) ? `[${value.map((item) => JSON.stringify(item)).join(', ')}]` : typeof value === 'string' ? JSON.stringify(value) : String(value);
+    const text = Array.isArray(value)
+      ? `[${value.map((item) => JSON.stringify(item)).join(', ')}]`
+      : typeof value === 'string'
+        ? JSON.stringify(value)
+        : String(value);
     lines.push(`${index === 0 ? '    - ' : '      '}${key}: ${text}`);
   });
   return `${lines.join('\n')}\n`;
@@ -166,10 +236,20 @@ export function explainData(content: Uint8Array, options: ReadOptions): Explanat
       if (!(error instanceof InputRejected)) throw error;
     }
   }
-  const trailerLine = data?.[0]?.layout.conversions.find((c) => c.code === 'summary-after-data')?.detail.match(/line (\d+)/)?.[1];
-  const names = data?.[0]?.layout.columnNames ?? layout?.columnNames ?? (layout === null ? [] : Array.from({ length: layout.columnCount }, (_, k) => `column ${k + 1}`));
+  const trailerLine = data?.[0]?.layout.conversions
+    .find((c) => c.code === 'summary-after-data')
+    ?.detail.match(/line (\d+)/)?.[1];
+  const names =
+    data?.[0]?.layout.columnNames ??
+    layout?.columnNames ??
+    (layout === null ? [] : Array.from({ length: layout.columnCount }, (_, k) => `column ${k + 1}`));
   const assumed = data?.[0]?.layout.conversions.find((c) => c.code === 'axis-unit-assumed');
-  const ambiguity = refusal !== null ? `refused: ${refusal.code}` : assumed !== undefined ? `read on an assumption: ${assumed.detail}` : null;
+  const ambiguity =
+    refusal !== null
+      ? `refused: ${refusal.code}`
+      : assumed !== undefined
+        ? `read on an assumption: ${assumed.detail}`
+        : null;
   let profile: Explanation['profile'] = null;
   if (ambiguity !== null && refusal?.code !== 'MATRIX_LAYOUT' && layout !== null) {
     const guess = guessProfile(file, layout, lines);
@@ -179,19 +259,38 @@ export function explainData(content: Uint8Array, options: ReadOptions): Explanat
     } else {
       try {
         const read = readMeasurements(content, { ...options, profiles: [guess.profile] });
-        profile = { yaml, checked: true, note: `checked: with this profile the file reads as ${read.length} measurement(s) (${read.map((item) => (item.type === 'decay' ? 'decay' : `${item.spectrum.kind} spectrum`)).join(', ')})${guess.fill.length > 0 ? `; ${guess.fill.join('; ')}` : ''}` };
+        profile = {
+          yaml,
+          checked: true,
+          note: `checked: with this profile the file reads as ${read.length} measurement(s) (${read.map((item) => (item.type === 'decay' ? 'decay' : `${item.spectrum.kind} spectrum`)).join(', ')})${guess.fill.length > 0 ? `; ${guess.fill.join('; ')}` : ''}`,
+        };
       } catch (error) {
         if (!(error instanceof InputRejected)) throw error;
-        profile = { yaml, checked: false, note: `this guess is still refused (${error.code}: ${error.message}); adjust it` };
+        profile = {
+          yaml,
+          checked: false,
+          note: `this guess is still refused (${error.code}: ${error.message}); adjust it`,
+        };
       }
     }
   }
   return {
     file,
-    lines: layout === null ? [] : explainLines(lines, layout, trailerLine === undefined ? undefined : Number(trailerLine)),
+    lines:
+      layout === null ? [] : explainLines(lines, layout, trailerLine === undefined ? undefined : Number(trailerLine)),
     columns: explainColumns(names, data),
     keys: layout === null ? [] : explainKeys(layout),
-    outcome: data !== null ? { read: data.map((item) => item.id) } : { refused: { code: refusal?.code ?? 'INTERNAL', message: refusal?.message ?? '', ...(refusal?.line === undefined ? {} : { line: refusal.line }), hint: refusal?.hint ?? '' } },
+    outcome:
+      data !== null
+        ? { read: data.map((item) => item.id) }
+        : {
+            refused: {
+              code: refusal?.code ?? 'INTERNAL',
+              message: refusal?.message ?? '',
+              ...(refusal?.line === undefined ? {} : { line: refusal.line }),
+              hint: refusal?.hint ?? '',
+            },
+          },
     ambiguity,
     profile,
   };

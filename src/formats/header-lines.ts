@@ -30,7 +30,12 @@ export function parseHeaderLine(raw: string, line: number, delimiter: string | n
   for (const separator of [delimiter, '\t', ';', ','].filter((s): s is string => s !== null && s !== ' ')) {
     const at = text.indexOf(separator);
     if (at > 0) {
-      const value = text.slice(at + 1).split(separator).map((part) => part.trim()).filter((part) => part !== '').join(separator === '\t' ? ' ' : separator);
+      const value = text
+        .slice(at + 1)
+        .split(separator)
+        .map((part) => part.trim())
+        .filter((part) => part !== '')
+        .join(separator === '\t' ? ' ' : separator);
       return { key: text.slice(0, at).trim(), value, line };
     }
   }

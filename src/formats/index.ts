@@ -4,7 +4,14 @@ export { readData, readMeasurements, sniffFormat } from './read-data.js';
 export { decodeDataText, decodeInputText, decodeText, utf16Order } from './bytes.js';
 export { formatProfileSchema, matchProfile, type FormatProfile, type ResolvedFormatProfile } from './profile.js';
 export { resolveReadOptions, DEFAULT_MAX_BYTES, type ReadOptions, type ResolvedReadOptions } from './read-options.js';
-export type { ParsedData, MeasurementContent, LayoutInfo, LayoutConversion, DataFormat, DelimiterName } from './types.js';
+export type {
+  ParsedData,
+  MeasurementContent,
+  LayoutInfo,
+  LayoutConversion,
+  DataFormat,
+  DelimiterName,
+} from './types.js';
 export { writeSpectrumCsv, writeDecayCsv } from './csv-writer.js';
 export { writeSpectrumJcamp } from './jcamp-writer.js';
 export { writeDataJson } from './json-writer.js';

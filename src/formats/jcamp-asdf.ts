@@ -47,7 +47,12 @@ function dupDigit(char: string): string | undefined {
 export const MAX_JCAMP_ORDINATES = 262_144;
 
 /** Decodes one data line (1-based `line` for errors); the first value is the abscissa and is never a DIF base; at most `maxValues` values. */
-export function decodeAsdfLine(text: string, line: number, file: string, maxValues = MAX_JCAMP_ORDINATES + 1): AsdfLine {
+export function decodeAsdfLine(
+  text: string,
+  line: number,
+  file: string,
+  maxValues = MAX_JCAMP_ORDINATES + 1,
+): AsdfLine {
   const values: number[] = [];
   const forms = new Set<string>();
   const compressed = COMPRESSED.test(text);
@@ -59,7 +64,8 @@ export function decodeAsdfLine(text: string, line: number, file: string, maxValu
   const flush = (): void => {
     if (bufferKind === null) return;
     const number = Number(buffer);
-    if (buffer === '' || buffer === '-' || buffer === '+' || !Number.isFinite(number)) fail(`"${buffer}" is not a valid JCAMP-DX number`);
+    if (buffer === '' || buffer === '-' || buffer === '+' || !Number.isFinite(number))
+      fail(`"${buffer}" is not a valid JCAMP-DX number`);
     if (bufferKind === 'abs') {
       values.push(number);
       last.kind = 'abs';
@@ -70,7 +76,8 @@ export function decodeAsdfLine(text: string, line: number, file: string, maxValu
       lastDifference = number;
     } else {
       if (values.length < 2 || !Number.isInteger(number) || number < 1) fail(`invalid DUP count "${buffer}"`);
-      if (values.length + number - 1 > maxValues) fail(`the DUP count ${number} would make more than ${MAX_JCAMP_ORDINATES} ordinates`);
+      if (values.length + number - 1 > maxValues)
+        fail(`the DUP count ${number} would make more than ${MAX_JCAMP_ORDINATES} ordinates`);
       for (let k = 1; k < number; k++) {
         const previous = values[values.length - 1] as number;
         values.push(last.kind === 'dif' ? previous + lastDifference : previous);
@@ -108,7 +115,13 @@ export function decodeAsdfLine(text: string, line: number, file: string, maxValu
       continue;
     }
     if (char === '?') {
-      reject('NON_FINITE', 'the data hold "?" (a missing or invalid value)', file, line, 'Replace missing values or re-export without them.');
+      reject(
+        'NON_FINITE',
+        'the data hold "?" (a missing or invalid value)',
+        file,
+        line,
+        'Replace missing values or re-export without them.',
+      );
     }
     const sqz = sqzDigit(char);
     const dif = sqz === undefined ? difDigit(char) : undefined;

@@ -17,7 +17,27 @@ interface Ldr {
 }
 
 /** Labels that describe the data table itself and are not carried as metadata. */
-const STRUCTURAL = new Set(['JCAMPDX', 'XUNITS', 'YUNITS', 'XFACTOR', 'YFACTOR', 'FIRSTX', 'LASTX', 'NPOINTS', 'FIRSTY', 'DELTAX', 'MAXX', 'MINX', 'MAXY', 'MINY', 'XYDATA', 'XYPOINTS', 'PEAKTABLE', 'END', 'RESOLUTION']);
+const STRUCTURAL = new Set([
+  'JCAMPDX',
+  'XUNITS',
+  'YUNITS',
+  'XFACTOR',
+  'YFACTOR',
+  'FIRSTX',
+  'LASTX',
+  'NPOINTS',
+  'FIRSTY',
+  'DELTAX',
+  'MAXX',
+  'MINX',
+  'MAXY',
+  'MINY',
+  'XYDATA',
+  'XYPOINTS',
+  'PEAKTABLE',
+  'END',
+  'RESOLUTION',
+]);
 /** Y check tolerance (relative), for AFFN ordinates written with decimals. */
 const Y_CHECK_TOLERANCE = 1e-9;
 
@@ -46,7 +66,13 @@ function parseLdrs(lines: readonly string[], file: string): { ldrs: Ldr[]; ended
       const label = normaliseLabel(rawLabel);
       if (label === 'END') return { ldrs, ended: true };
       if (label === 'BLOCKS' || label === 'NTUPLES') {
-        reject('UNKNOWN_LAYOUT', `compound JCAMP-DX files (##${rawLabel}) are not read`, file, i + 1, 'Export one spectrum per JCAMP-DX file (##XYDATA, ##XYPOINTS or ##PEAK TABLE).');
+        reject(
+          'UNKNOWN_LAYOUT',
+          `compound JCAMP-DX files (##${rawLabel}) are not read`,
+          file,
+          i + 1,
+          'Export one spectrum per JCAMP-DX file (##XYDATA, ##XYPOINTS or ##PEAK TABLE).',
+        );
       }
       current = { label, rawLabel, value: text.slice(equals + 1).trim(), line: i + 1, dataLines: [] };
       ldrs.push(current);
@@ -61,7 +87,8 @@ function numberLdr(ldrs: readonly Ldr[], label: string, file: string): number | 
   const ldr = ldrs.find((entry) => entry.label === label);
   if (ldr === undefined) return undefined;
   const value = Number(ldr.value.replace(/,/g, '.'));
-  if (ldr.value === '' || !Number.isFinite(value)) reject('JCAMP_INVALID', `##${ldr.rawLabel} is not a number: "${ldr.value}"`, file, ldr.line);
+  if (ldr.value === '' || !Number.isFinite(value))
+    reject('JCAMP_INVALID', `##${ldr.rawLabel} is not a number: "${ldr.value}"`, file, ldr.line);
   return value;
 }
 
@@ -82,7 +109,12 @@ function decodeXyData(ldr: Ldr, file: string, forms: Set<string>): number[] {
       const expected = ordinates[ordinates.length - 1] as number;
       const check = ys[0] as number;
       if (Math.abs(check - expected) > Y_CHECK_TOLERANCE * Math.max(1, Math.abs(expected))) {
-        reject('JCAMP_INVALID', `DIF Y-check failed: the line starts with ${check} but the previous line ended at ${expected}`, file, line);
+        reject(
+          'JCAMP_INVALID',
+          `DIF Y-check failed: the line starts with ${check} but the previous line ended at ${expected}`,
+          file,
+          line,
+        );
       }
       ys = ys.slice(1);
     }
@@ -99,11 +131,18 @@ function decodeXyPairs(ldr: Ldr, file: string): { x: number[]; y: number[] } {
   const y: number[] = [];
   for (const { text, line } of ldr.dataLines) {
     const fields = text.split(/[\s,;]+/).filter((field) => field !== '');
-    if (fields.length % width !== 0) reject('TRUNCATED', `the line holds ${fields.length} numbers, not whole (${width === 3 ? 'X,Y,W' : 'X,Y'}) groups`, file, line);
+    if (fields.length % width !== 0)
+      reject(
+        'TRUNCATED',
+        `the line holds ${fields.length} numbers, not whole (${width === 3 ? 'X,Y,W' : 'X,Y'}) groups`,
+        file,
+        line,
+      );
     for (let k = 0; k < fields.length; k += width) {
       for (const field of [fields[k] ?? '', fields[k + 1] ?? '']) {
         if (field === '?') reject('NON_FINITE', 'the data hold "?" (a missing value)', file, line);
-        if (!/^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(field)) reject('NON_NUMERIC', `"${field}" is not a number`, file, line);
+        if (!/^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(field))
+          reject('NON_NUMERIC', `"${field}" is not a number`, file, line);
       }
       x.push(Number(fields[k]));
       y.push(Number(fields[k + 1]));
@@ -112,8 +151,17 @@ function decodeXyPairs(ldr: Ldr, file: string): { x: number[]; y: number[] } {
   return { x, y };
 }
 
-const Y_NAMES: Readonly<Record<string, string>> = { ABSORBANCE: 'absorbance', TRANSMITTANCE: 'transmittance', COUNTS: 'counts', ARBITRARYUNITS: 'intensity' };
-const Y_UNITS: Readonly<Record<string, string>> = { ABSORBANCE: 'absorbance', COUNTS: 'counts', ARBITRARYUNITS: 'a.u.' };
+const Y_NAMES: Readonly<Record<string, string>> = {
+  ABSORBANCE: 'absorbance',
+  TRANSMITTANCE: 'transmittance',
+  COUNTS: 'counts',
+  ARBITRARYUNITS: 'intensity',
+};
+const Y_UNITS: Readonly<Record<string, string>> = {
+  ABSORBANCE: 'absorbance',
+  COUNTS: 'counts',
+  ARBITRARYUNITS: 'a.u.',
+};
 
 /** Reads a JCAMP-DX file into a RawTable (axis column "x", one value column); throws InputRejected with file and line. */
 export function readJcamp(content: Uint8Array, file: string): RawTable {
@@ -123,11 +171,19 @@ export function readJcamp(content: Uint8Array, file: string): RawTable {
   const { ldrs, ended } = parseLdrs(lines, file);
   let lastLine = lines.length;
   while (lastLine > 1 && (lines[lastLine - 1] ?? '').trim() === '') lastLine--;
-  if (!ended) reject('TRUNCATED', 'the JCAMP-DX file has no ##END= record', file, lastLine, 'The export was cut short; re-export it or wait until it is complete.');
+  if (!ended)
+    reject(
+      'TRUNCATED',
+      'the JCAMP-DX file has no ##END= record',
+      file,
+      lastLine,
+      'The export was cut short; re-export it or wait until it is complete.',
+    );
   const version = ldrs.find((ldr) => ldr.label === 'JCAMPDX');
   if (version === undefined) reject('JCAMP_INVALID', 'the file has no ##JCAMP-DX= version record', file, 1);
   const table = ldrs.find((ldr) => ldr.label === 'XYDATA' || ldr.label === 'XYPOINTS' || ldr.label === 'PEAKTABLE');
-  if (table === undefined) return reject('NO_DATA', 'the file has no ##XYDATA, ##XYPOINTS or ##PEAK TABLE record', file);
+  if (table === undefined)
+    return reject('NO_DATA', 'the file has no ##XYDATA, ##XYPOINTS or ##PEAK TABLE record', file);
   const xFactor = numberLdr(ldrs, 'XFACTOR', file) ?? 1;
   const yFactor = numberLdr(ldrs, 'YFACTOR', file) ?? 1;
   const nPoints = numberLdr(ldrs, 'NPOINTS', file);
@@ -172,7 +228,7 @@ export function readJcamp(content: Uint8Array, file: string): RawTable {
     headerEntries.push({ key, value, line: ldr.line });
   }
   const percentT = /PERCENT|%/.test(yUnits?.value ?? '');
-  const yName = valueColumnName ?? (percentT ? '%T' : Y_NAMES[yKey] ?? (yUnits?.value.toLowerCase() || 'y'));
+  const yName = valueColumnName ?? (percentT ? '%T' : (Y_NAMES[yKey] ?? (yUnits?.value.toLowerCase() || 'y')));
   const declaredValueUnit = Y_UNITS[yKey];
   const dataType = ldrs.find((ldr) => ldr.label === 'DATATYPE');
   return {

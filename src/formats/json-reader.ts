@@ -26,10 +26,21 @@ function lineAt(text: string, offset: number): number {
 }
 
 interface SpectrumJson {
-  kind: SpectrumKind; wavelengthNm: number[]; values: number[]; valueUnit: string; valueColumn: string;
-  otherColumns: Record<string, number[]>; metadata: SpectrumMetadata;
+  kind: SpectrumKind;
+  wavelengthNm: number[];
+  values: number[];
+  valueUnit: string;
+  valueColumn: string;
+  otherColumns: Record<string, number[]>;
+  metadata: SpectrumMetadata;
 }
-interface DecayJson { timeNs: number[]; counts: number[]; channelWidthNs: number; irfCounts?: number[]; metadata: DecayMetadata }
+interface DecayJson {
+  timeNs: number[];
+  counts: number[];
+  channelWidthNs: number;
+  irfCounts?: number[];
+  metadata: DecayMetadata;
+}
 type DataJson = { type: 'spectrum'; spectrum: SpectrumJson } | { type: 'decay'; decay: DecayJson };
 
 /** Reads a driftlight JSON data file; throws TRUNCATED, JSON_INVALID or a model error, naming the file. */
@@ -45,25 +56,54 @@ export function readDataJson(content: Uint8Array, file: string): ParsedData {
     if (found === null || found.truncated) {
       return reject('TRUNCATED', 'the JSON ends before it is complete', file, lineAt(text, text.trimEnd().length));
     }
-    return reject('JSON_INVALID', `the JSON does not parse: ${message.slice(0, 120)}`, file, lineAt(text, found.offset));
+    return reject(
+      'JSON_INVALID',
+      `the JSON does not parse: ${message.slice(0, 120)}`,
+      file,
+      lineAt(text, found.offset),
+    );
   }
   const validate = validator();
   if (!validate(parsed)) {
     const first = validate.errors?.[0];
-    const where = first === undefined ? '' : `${first.instancePath === '' ? '(top level)' : first.instancePath} ${first.message ?? ''}`;
+    const where =
+      first === undefined
+        ? ''
+        : `${first.instancePath === '' ? '(top level)' : first.instancePath} ${first.message ?? ''}`;
     return reject('JSON_INVALID', `the JSON breaks the driftlight.data/1 schema: ${where}`.trim(), file);
   }
   const data = parsed as DataJson;
   const base = {
-    format: 'driftlight-json' as const, delimiter: null, decimalMark: '.' as const, headerLineCount: 0, ignoredColumns: [],
-    hasBom: start > 0, lineEnding: detectLineEnding(content, start), encoding, conversions: [],
+    format: 'driftlight-json' as const,
+    delimiter: null,
+    decimalMark: '.' as const,
+    headerLineCount: 0,
+    ignoredColumns: [],
+    hasBom: start > 0,
+    lineEnding: detectLineEnding(content, start),
+    encoding,
+    conversions: [],
   };
   if (data.type === 'spectrum') {
     const spectrum = withFile(file, () => createSpectrum(data.spectrum));
-    const layout: LayoutInfo = { ...base, columnNames: ['wavelengthNm', spectrum.valueColumn, ...Object.keys(spectrum.otherColumns)], axisColumn: 'wavelengthNm', valueColumn: spectrum.valueColumn, irfColumn: null, axisUnitFound: 'nm' };
+    const layout: LayoutInfo = {
+      ...base,
+      columnNames: ['wavelengthNm', spectrum.valueColumn, ...Object.keys(spectrum.otherColumns)],
+      axisColumn: 'wavelengthNm',
+      valueColumn: spectrum.valueColumn,
+      irfColumn: null,
+      axisUnitFound: 'nm',
+    };
     return { type: 'spectrum', id: file, spectrum, layout: Object.freeze(layout) };
   }
   const decay = withFile(file, () => createDecay(data.decay));
-  const layout: LayoutInfo = { ...base, columnNames: ['timeNs', 'counts', ...(decay.irfCounts === undefined ? [] : ['irfCounts'])], axisColumn: 'timeNs', valueColumn: 'counts', irfColumn: decay.irfCounts === undefined ? null : 'irfCounts', axisUnitFound: 'ns' };
+  const layout: LayoutInfo = {
+    ...base,
+    columnNames: ['timeNs', 'counts', ...(decay.irfCounts === undefined ? [] : ['irfCounts'])],
+    axisColumn: 'timeNs',
+    valueColumn: 'counts',
+    irfColumn: decay.irfCounts === undefined ? null : 'irfCounts',
+    axisUnitFound: 'ns',
+  };
   return { type: 'decay', id: file, decay, layout: Object.freeze(layout) };
 }

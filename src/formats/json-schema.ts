@@ -57,7 +57,10 @@ export const DATA_SCHEMA = {
             },
           },
         },
-        sourceLayout: { type: 'object', description: 'What the reader detected in the file this data came from (informative).' },
+        sourceLayout: {
+          type: 'object',
+          description: 'What the reader detected in the file this data came from (informative).',
+        },
       },
       additionalProperties: false,
     },
@@ -71,7 +74,11 @@ export const DATA_SCHEMA = {
           required: ['timeNs', 'counts', 'channelWidthNs', 'metadata'],
           additionalProperties: false,
           properties: {
-            timeNs: { ...numberArray, minItems: 4, description: 'Channel start times in ns, ascending and equally spaced.' },
+            timeNs: {
+              ...numberArray,
+              minItems: 4,
+              description: 'Channel start times in ns, ascending and equally spaced.',
+            },
             counts: { ...numberArray, minItems: 4 },
             channelWidthNs: { type: 'number', exclusiveMinimum: 0 },
             irfCounts: numberArray,
@@ -88,7 +95,10 @@ export const DATA_SCHEMA = {
             },
           },
         },
-        sourceLayout: { type: 'object', description: 'What the reader detected in the file this data came from (informative).' },
+        sourceLayout: {
+          type: 'object',
+          description: 'What the reader detected in the file this data came from (informative).',
+        },
       },
       additionalProperties: false,
     },

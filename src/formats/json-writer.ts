@@ -9,7 +9,12 @@ export function writeDataJson(data: MeasurementContent): string {
     const { spectrum } = data;
     const otherColumns: Record<string, number[]> = {};
     for (const [name, column] of Object.entries(spectrum.otherColumns)) {
-      Object.defineProperty(otherColumns, name, { value: Array.from(column), enumerable: true, writable: true, configurable: true });
+      Object.defineProperty(otherColumns, name, {
+        value: Array.from(column),
+        enumerable: true,
+        writable: true,
+        configurable: true,
+      });
     }
     return `${JSON.stringify({
       format: DATA_FORMAT_TAG,

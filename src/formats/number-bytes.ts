@@ -20,7 +20,12 @@ export function bytesToString(bytes: Uint8Array, start: number, end: number): st
 }
 
 /** Parses bytes[start, end) (already trimmed) as a decimal number with `decimalMark` (46 '.' or 44 ','); returns the number or a NumberFailure. */
-export function parseNumberBytes(bytes: Uint8Array, start: number, end: number, decimalMark: number): number | NumberFailure {
+export function parseNumberBytes(
+  bytes: Uint8Array,
+  start: number,
+  end: number,
+  decimalMark: number,
+): number | NumberFailure {
   if (start >= end) return 'empty';
   let i = start;
   let negative = false;

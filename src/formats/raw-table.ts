@@ -18,7 +18,10 @@ export interface RawTable {
   /** 1-based line of the column-name line (or the line declaring the axis unit), for unit errors. */
   readonly unitLine: number | undefined;
   /** Layout fields known to the container reader. */
-  readonly layout: Pick<LayoutInfo, 'format' | 'delimiter' | 'decimalMark' | 'headerLineCount' | 'hasBom' | 'lineEnding' | 'encoding' | 'jcamp'>;
+  readonly layout: Pick<
+    LayoutInfo,
+    'format' | 'delimiter' | 'decimalMark' | 'headerLineCount' | 'hasBom' | 'lineEnding' | 'encoding' | 'jcamp'
+  >;
   /** Whether the column names came from the file (false: generated "column N"). */
   readonly namedColumns: boolean;
   /** Index of the axis column when the container fixes it (JCAMP-DX: 0); otherwise found by name. */

@@ -44,14 +44,25 @@ export function readMeasurements(content: Uint8Array, options: ReadOptions): Par
       const layout: LayoutInfo = Object.freeze({
         ...data.layout,
         ...(utf16 === null ? {} : { encoding: utf16, hasBom: utf16Bom }),
-        conversions: ctrlZ ? [...data.layout.conversions, { code: 'end-of-file-mark-dropped' as const, detail: 'a final Ctrl-Z (0x1A) end-of-file mark was ignored' }] : data.layout.conversions,
+        conversions: ctrlZ
+          ? [
+              ...data.layout.conversions,
+              {
+                code: 'end-of-file-mark-dropped' as const,
+                detail: 'a final Ctrl-Z (0x1A) end-of-file mark was ignored',
+              },
+            ]
+          : data.layout.conversions,
       });
       return data.type === 'decay' ? { ...data, layout } : { ...data, layout };
     });
   } catch (error) {
     if (error instanceof InputRejected) throw error.withLocation(file);
     if (error instanceof RangeError) {
-      throw new InputRejected('FILE_TOO_LARGE', `the file could not be held in memory (${error.message})`, { file, cause: error });
+      throw new InputRejected('FILE_TOO_LARGE', `the file could not be held in memory (${error.message})`, {
+        file,
+        cause: error,
+      });
     }
     throw error;
   }

@@ -20,10 +20,13 @@ export interface ReadOptions {
   profiles?: readonly FormatProfile[];
 }
 
-export type ResolvedReadOptions = Readonly<Required<Pick<ReadOptions, 'fileName' | 'maxBytes'>> & Pick<ReadOptions, 'kindHint' | 'valueColumn'> & {
-  /** The profile matching the file, when one does. */
-  profile?: ResolvedFormatProfile;
-}>;
+export type ResolvedReadOptions = Readonly<
+  Required<Pick<ReadOptions, 'fileName' | 'maxBytes'>> &
+    Pick<ReadOptions, 'kindHint' | 'valueColumn'> & {
+      /** The profile matching the file, when one does. */
+      profile?: ResolvedFormatProfile;
+    }
+>;
 
 const readOptionsSchema = z.object({
   fileName: z.string().min(1),

@@ -43,6 +43,7 @@ export const FORMAT_READERS: readonly FormatReader[] = [
     // The fallback: anything else is tried as delimited text (which rejects what it cannot read).
     format: 'delimited',
     matches: () => true,
-    read: (content, options) => interpretTableAll(readDelimited(content, options.fileName, layoutOverrides(options.profile)), options),
+    read: (content, options) =>
+      interpretTableAll(readDelimited(content, options.fileName, layoutOverrides(options.profile)), options),
   },
 ];

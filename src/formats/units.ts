@@ -13,19 +13,36 @@ export interface AxisUnit {
 }
 
 const UNIT_TABLE: ReadonlyArray<readonly [readonly string[], AxisUnit]> = [
-  [['nm', 'nanometer', 'nanometers', 'nanometre', 'nanometres'], { quantity: 'wavelength', symbol: 'nm', toModelFactor: 1 }],
-  [['um', 'micrometer', 'micrometers', 'micrometre', 'micrometres', 'micron', 'microns'], { quantity: 'wavelength', symbol: 'µm', toModelFactor: 1000 }],
-  [['cm-1', '1/cm', 'cm^-1', 'cm**-1', '/cm', 'cm-¹', 'kayser'], { quantity: 'wavenumber', symbol: 'cm-1', toModelFactor: 1 }],
-  [['ev', 'electronvolt', 'electronvolts', 'electron volt', 'electron volts'], { quantity: 'energy', symbol: 'eV', toModelFactor: 1 }],
+  [
+    ['nm', 'nanometer', 'nanometers', 'nanometre', 'nanometres'],
+    { quantity: 'wavelength', symbol: 'nm', toModelFactor: 1 },
+  ],
+  [
+    ['um', 'micrometer', 'micrometers', 'micrometre', 'micrometres', 'micron', 'microns'],
+    { quantity: 'wavelength', symbol: 'µm', toModelFactor: 1000 },
+  ],
+  [
+    ['cm-1', '1/cm', 'cm^-1', 'cm**-1', '/cm', 'cm-¹', 'kayser'],
+    { quantity: 'wavenumber', symbol: 'cm-1', toModelFactor: 1 },
+  ],
+  [
+    ['ev', 'electronvolt', 'electronvolts', 'electron volt', 'electron volts'],
+    { quantity: 'energy', symbol: 'eV', toModelFactor: 1 },
+  ],
   [['ps', 'picosecond', 'picoseconds'], { quantity: 'time', symbol: 'ps', toModelFactor: 1e-3 }],
   [['ns', 'nanosecond', 'nanoseconds'], { quantity: 'time', symbol: 'ns', toModelFactor: 1 }],
   [['us', 'microsecond', 'microseconds', 'usec'], { quantity: 'time', symbol: 'µs', toModelFactor: 1e3 }],
   [['ms', 'millisecond', 'milliseconds', 'msec'], { quantity: 'time', symbol: 'ms', toModelFactor: 1e6 }],
   [['s', 'sec', 'second', 'seconds'], { quantity: 'time', symbol: 's', toModelFactor: 1e9 }],
-  [['channel', 'channels', 'ch', 'chan', 'channel number', 'channel no', 'channel index', 'bin', 'bins', 'index'], { quantity: 'channel', symbol: 'channel', toModelFactor: 1 }],
+  [
+    ['channel', 'channels', 'ch', 'chan', 'channel number', 'channel no', 'channel index', 'bin', 'bins', 'index'],
+    { quantity: 'channel', symbol: 'channel', toModelFactor: 1 },
+  ],
 ];
 
-const UNIT_BY_NAME = new Map<string, AxisUnit>(UNIT_TABLE.flatMap(([names, unit]) => names.map((name) => [name, unit] as const)));
+const UNIT_BY_NAME = new Map<string, AxisUnit>(
+  UNIT_TABLE.flatMap(([names, unit]) => names.map((name) => [name, unit] as const)),
+);
 
 /** Axis names that imply a unit when no unit is written (the trade's default). */
 const NAME_DEFAULTS: ReadonlyArray<readonly [RegExp, AxisUnit]> = [
@@ -35,13 +52,18 @@ const NAME_DEFAULTS: ReadonlyArray<readonly [RegExp, AxisUnit]> = [
 ];
 
 /** Words that name an axis quantity without a unit. */
-const AXIS_WORDS = /^(wavelength|wave length|lambda|λ|wl|wavenumber|wavenumbers|wave number|energy|photon energy|time|delay|t|x|channel|channels|ch|chan|bin|index|raman shift|shift|raman|wavenumber shift|stokes shift)$/;
+const AXIS_WORDS =
+  /^(wavelength|wave length|lambda|λ|wl|wavenumber|wavenumbers|wave number|energy|photon energy|time|delay|t|x|channel|channels|ch|chan|bin|index|raman shift|shift|raman|wavenumber shift|stokes shift)$/;
 
 /** Axis names of a relative wavenumber: a shift from the excitation line (Raman), not an absolute wavenumber. */
 const SHIFT_WORDS = /\b(raman|shift|stokes)\b|^(δ|delta|Δ)/;
 
 /** The relative-wavenumber axis unit (cm⁻¹ from the excitation line). */
-export const RAMAN_SHIFT_UNIT: AxisUnit = Object.freeze({ quantity: 'raman-shift', symbol: 'cm-1 shift', toModelFactor: 1 });
+export const RAMAN_SHIFT_UNIT: AxisUnit = Object.freeze({
+  quantity: 'raman-shift',
+  symbol: 'cm-1 shift',
+  toModelFactor: 1,
+});
 
 /** An axis base name as lower-case words: camel case and _ . separators split ("Raman_Shift" → "raman shift"). */
 export function axisBaseWords(base: string): string {
@@ -82,23 +104,30 @@ export function splitCamelCase(text: string): string {
  * "Wavelength (nm)", "time [ps]", "t/ns", "time in ns", "time_ns", "TIME_PS", "timeNs", "time-ps",
  * "wavenumber_cm-1" or a bare "nm". `isUnit` decides what counts as a unit label (default: the axis units).
  */
-export function splitNameAndUnit(name: string, isUnit: (label: string) => boolean = isTrailingUnit): { base: string; unitLabel: string | null } {
+export function splitNameAndUnit(
+  name: string,
+  isUnit: (label: string) => boolean = isTrailingUnit,
+): { base: string; unitLabel: string | null } {
   const trimmed = name.trim();
   const bracket = /^(.*?)[\s_]*[([{]\s*([^()[\]{}]+?)\s*[)\]}]\s*$/.exec(trimmed);
-  if (bracket !== null && (bracket[1] ?? '').trim() !== '') return { base: (bracket[1] ?? '').trim(), unitLabel: bracket[2] ?? null };
-  if (bracket !== null && lookupAxisUnit(bracket[2] ?? '') !== undefined) return { base: '', unitLabel: bracket[2] ?? null };
+  if (bracket !== null && (bracket[1] ?? '').trim() !== '')
+    return { base: (bracket[1] ?? '').trim(), unitLabel: bracket[2] ?? null };
+  if (bracket !== null && lookupAxisUnit(bracket[2] ?? '') !== undefined)
+    return { base: '', unitLabel: bracket[2] ?? null };
   const slash = /^(.*?[^\s/])\s*\/\s*([^/]+)$/.exec(trimmed);
   if (slash !== null && (slash[1] ?? '') !== '1' && isUnit(slash[2] ?? '')) {
     return { base: (slash[1] ?? '').trim(), unitLabel: (slash[2] ?? '').trim() };
   }
   const inWord = /^(.*\S)\s+in\s+(\S+)$/i.exec(trimmed);
-  if (inWord !== null && isUnit(inWord[2] ?? '')) return { base: (inWord[1] ?? '').trim(), unitLabel: (inWord[2] ?? '').trim() };
+  if (inWord !== null && isUnit(inWord[2] ?? ''))
+    return { base: (inWord[1] ?? '').trim(), unitLabel: (inWord[2] ?? '').trim() };
   const words = /^(.*?[^\s_])[\s_]+([^\s_]+)$/.exec(trimmed);
   if (words !== null && isUnit(words[2] ?? '')) {
     return { base: (words[1] ?? '').trim(), unitLabel: (words[2] ?? '').trim() };
   }
   const dashed = /^(.*?[A-Za-z])-([A-Za-zµμ]+)$/.exec(trimmed);
-  if (dashed !== null && isUnit(dashed[2] ?? '')) return { base: (dashed[1] ?? '').trim(), unitLabel: dashed[2] ?? null };
+  if (dashed !== null && isUnit(dashed[2] ?? ''))
+    return { base: (dashed[1] ?? '').trim(), unitLabel: dashed[2] ?? null };
   if (!/[\s_]/.test(trimmed)) {
     const glued = gluedUnit(trimmed, isUnit);
     if (glued !== undefined) return glued;
@@ -107,7 +136,10 @@ export function splitNameAndUnit(name: string, isUnit: (label: string) => boolea
 }
 
 /** A unit glued on in camel case ("timeNs", "repRateMHz", "lambdaNM"): tried at each lower-to-upper case step from the right. */
-export function gluedUnit(text: string, isUnit: (label: string) => boolean): { base: string; unitLabel: string } | undefined {
+export function gluedUnit(
+  text: string,
+  isUnit: (label: string) => boolean,
+): { base: string; unitLabel: string } | undefined {
   for (let at = text.length - 1; at > 0; at--) {
     if (!/[A-Z]/.test(text[at] as string) || !/[a-z]/.test(text[at - 1] as string)) continue;
     const unit = text.slice(at);
@@ -135,7 +167,8 @@ export function readAxisName(name: string): AxisNameReading {
     const unit = shift && written?.quantity === 'wavenumber' ? RAMAN_SHIFT_UNIT : written;
     return { unit, unitLabel, looksLikeAxis: unit !== undefined || AXIS_WORDS.test(baseKey), assumed: false };
   }
-  if (shift && AXIS_WORDS.test(baseKey)) return { unit: RAMAN_SHIFT_UNIT, unitLabel: null, looksLikeAxis: true, assumed: true };
+  if (shift && AXIS_WORDS.test(baseKey))
+    return { unit: RAMAN_SHIFT_UNIT, unitLabel: null, looksLikeAxis: true, assumed: true };
   const whole = lookupAxisUnit(base);
   if (whole !== undefined) return { unit: whole, unitLabel: base, looksLikeAxis: true, assumed: false };
   for (const [pattern, unit] of NAME_DEFAULTS) {

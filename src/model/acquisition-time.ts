@@ -56,8 +56,14 @@ const ISO_EXTENDED = new RegExp(String.raw`^(\d{4})-(\d{2})-(\d{2})(?:[T\s]+${TI
 const ISO_BASIC = /^(\d{4})(\d{2})(\d{2})(?:T(\d{2})(\d{2})(\d{2})?(?:[.,](\d{1,9}))?(Z|[+-]\d{2}(?:\d{2})?)?)?$/i;
 const YEAR_FIRST = new RegExp(String.raw`^(\d{4})([/.])(\d{1,2})\2(\d{1,2})(?:[T\s,]+${TIME}${ZONE})?$`, 'i');
 const DAY_MONTH = new RegExp(String.raw`^(\d{1,2})([./-])(\d{1,2})\2(\d{2,4})(?:[T\s,]+${TIME}${ZONE})?$`, 'i');
-const DAY_NAME_YEAR = new RegExp(String.raw`^(\d{1,2})[\s-]+([A-Za-z]{3,9})\.?[\s-]+(\d{4})(?:[T\s,]+${TIME}${ZONE})?$`, 'i');
-const NAME_DAY_YEAR = new RegExp(String.raw`^([A-Za-z]{3,9})\.?\s+(\d{1,2}),?\s+(\d{4})(?:[T\s,]+${TIME}${ZONE})?$`, 'i');
+const DAY_NAME_YEAR = new RegExp(
+  String.raw`^(\d{1,2})[\s-]+([A-Za-z]{3,9})\.?[\s-]+(\d{4})(?:[T\s,]+${TIME}${ZONE})?$`,
+  'i',
+);
+const NAME_DAY_YEAR = new RegExp(
+  String.raw`^([A-Za-z]{3,9})\.?\s+(\d{1,2}),?\s+(\d{4})(?:[T\s,]+${TIME}${ZONE})?$`,
+  'i',
+);
 const EXCEL_SERIAL = /^(\d{5,7})(?:[.,](\d+))?$/;
 const WEEKDAY_PREFIX = /^(?:mon|tue|wed|thu|fri|sat|sun)[a-z]*\.?,?\s+/i;
 
@@ -96,7 +102,9 @@ export function civilFromDays(days: number): string {
   const shifted = days + 719468;
   const era = Math.floor(shifted / 146097);
   const dayOfEra = shifted - era * 146097;
-  const yearOfEra = Math.floor((dayOfEra - Math.floor(dayOfEra / 1460) + Math.floor(dayOfEra / 36524) - Math.floor(dayOfEra / 146096)) / 365);
+  const yearOfEra = Math.floor(
+    (dayOfEra - Math.floor(dayOfEra / 1460) + Math.floor(dayOfEra / 36524) - Math.floor(dayOfEra / 146096)) / 365,
+  );
   const dayOfYear = dayOfEra - (365 * yearOfEra + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100));
   const monthIndex = Math.floor((5 * dayOfYear + 2) / 153);
   const day = dayOfYear - Math.floor((153 * monthIndex + 2) / 5) + 1;
@@ -127,14 +135,24 @@ function zoneOffsetMs(epochMs: number, zone: string): number {
   let formatter = offsetFormatters.get(zone);
   if (formatter === undefined) {
     formatter = new Intl.DateTimeFormat('en-US', {
-      timeZone: zone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23',
+      timeZone: zone,
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
+      hourCycle: 'h23',
     });
     offsetFormatters.set(zone, formatter);
   }
   const parts: Record<string, number> = {};
   for (const part of formatter.formatToParts(epochMs)) parts[part.type] = Number(part.value);
-  const localMs = daysFromCivil(parts['year'] ?? 1970, parts['month'] ?? 1, parts['day'] ?? 1) * DAY_MS
-    + (parts['hour'] ?? 0) * 3_600_000 + (parts['minute'] ?? 0) * 60_000 + (parts['second'] ?? 0) * 1000;
+  const localMs =
+    daysFromCivil(parts['year'] ?? 1970, parts['month'] ?? 1, parts['day'] ?? 1) * DAY_MS +
+    (parts['hour'] ?? 0) * 3_600_000 +
+    (parts['minute'] ?? 0) * 60_000 +
+    (parts['second'] ?? 0) * 1000;
   return localMs - Math.floor(epochMs / 1000) * 1000;
 }
 
@@ -164,16 +182,26 @@ interface Fields {
 type Refusal = Extract<AcquisitionTimeReading, { ok: false }>;
 
 function invalid(text: string, why: string, hint: string): Refusal {
-  return { ok: false, code: 'DATE_INVALID', message: `acquisition time "${text}" is not a real date and time: ${why}`, hint };
+  return {
+    ok: false,
+    code: 'DATE_INVALID',
+    message: `acquisition time "${text}" is not a real date and time: ${why}`,
+    hint,
+  };
 }
 
 const WRITE_ISO = 'Write acquisition times as ISO 8601, e.g. 2026-12-05T09:30:00+01:00.';
 
 /** Epoch ms of validated calendar and clock fields, or a refusal naming the impossible field. */
-function toEpochMs(text: string, fields: Fields, options: AcquisitionTimeOptions): { epochMs: number; zone: 'text' | 'configured' } | Refusal {
+function toEpochMs(
+  text: string,
+  fields: Fields,
+  options: AcquisitionTimeOptions,
+): { epochMs: number; zone: 'text' | 'configured' } | Refusal {
   const { year, month, day } = fields;
   if (month < 1 || month > 12) return invalid(text, `month ${month} does not exist`, WRITE_ISO);
-  if (day < 1 || day > daysInMonth(year, month)) return invalid(text, `day ${day} does not exist in ${year}-${String(month).padStart(2, '0')}`, WRITE_ISO);
+  if (day < 1 || day > daysInMonth(year, month))
+    return invalid(text, `day ${day} does not exist in ${year}-${String(month).padStart(2, '0')}`, WRITE_ISO);
   let hour = Number(fields.hour ?? 0);
   const minute = Number(fields.minute ?? 0);
   const second = Number(fields.second ?? 0);
@@ -185,7 +213,8 @@ function toEpochMs(text: string, fields: Fields, options: AcquisitionTimeOptions
   if (minute > 59) return invalid(text, `minute ${minute} does not exist (00–59)`, WRITE_ISO);
   if (second > 59) return invalid(text, `second ${second} does not exist (00–59)`, WRITE_ISO);
   const fractionMs = fields.fraction === undefined ? 0 : Math.round(Number(`0.${fields.fraction}`) * 1000);
-  const wallMs = daysFromCivil(year, month, day) * DAY_MS + hour * 3_600_000 + minute * 60_000 + second * 1000 + fractionMs;
+  const wallMs =
+    daysFromCivil(year, month, day) * DAY_MS + hour * 3_600_000 + minute * 60_000 + second * 1000 + fractionMs;
   const zone = fields.zone?.toUpperCase();
   if (zone === undefined) {
     const configured = options.timeZone ?? 'UTC';
@@ -195,16 +224,24 @@ function toEpochMs(text: string, fields: Fields, options: AcquisitionTimeOptions
   const digits = zone.replace(':', '');
   const offsetHours = Number(digits.slice(1, 3));
   const offsetMinutes = digits.length > 3 ? Number(digits.slice(3, 5)) : 0;
-  if (offsetHours > 14 || offsetMinutes > 59) return invalid(text, `offset ${fields.zone ?? ''} does not exist (at most ±14:00)`, WRITE_ISO);
+  if (offsetHours > 14 || offsetMinutes > 59)
+    return invalid(text, `offset ${fields.zone ?? ''} does not exist (at most ±14:00)`, WRITE_ISO);
   const sign = digits.startsWith('-') ? -1 : 1;
   return { epochMs: wallMs - sign * (offsetHours * 60 + offsetMinutes) * 60_000, zone: 'text' };
 }
 
 /** Year, month, day of a numeric date written day/month/year or month/day/year; refuses what the order cannot settle. */
-function orderDayMonth(text: string, first: number, second: number, yearText: string, options: AcquisitionTimeOptions): { month: number; day: number; year: number } | Refusal {
+function orderDayMonth(
+  text: string,
+  first: number,
+  second: number,
+  yearText: string,
+  options: AcquisitionTimeOptions,
+): { month: number; day: number; year: number } | Refusal {
   if (yearText.length !== 4) {
     return {
-      ok: false, code: 'DATE_AMBIGUOUS',
+      ok: false,
+      code: 'DATE_AMBIGUOUS',
       message: `acquisition time "${text}" has a ${yearText.length}-digit year, which does not say its century`,
       hint: `Export dates with a four-digit year, or as ISO 8601 (2026-12-05T09:30:00).`,
     };
@@ -215,7 +252,8 @@ function orderDayMonth(text: string, first: number, second: number, yearText: st
   if (order === 'MDY') return { month: first, day: second, year };
   if (order === 'YMD') {
     return {
-      ok: false, code: 'DATE_AMBIGUOUS',
+      ok: false,
+      code: 'DATE_AMBIGUOUS',
       message: `acquisition time "${text}" puts the year last, but instrument.dateOrder is YMD`,
       hint: 'Set instrument.dateOrder to DMY or MDY for this instrument, or export ISO 8601 dates.',
     };
@@ -225,9 +263,10 @@ function orderDayMonth(text: string, first: number, second: number, yearText: st
   if (second > 12 && first <= 12) return { month: first, day: second, year };
   if (first > 12 && second > 12) return invalid(text, 'neither field can be the month', WRITE_ISO);
   return {
-    ok: false, code: 'DATE_AMBIGUOUS',
+    ok: false,
+    code: 'DATE_AMBIGUOUS',
     message: `acquisition time "${text}" can be read as ${yearText}-${pad2(second)}-${pad2(first)} (day first) or ${yearText}-${pad2(first)}-${pad2(second)} (month first)`,
-    hint: 'State the instrument\'s date order in the config (instrument.dateOrder: DMY, MDY or YMD, with instrument.timeZone), or export ISO 8601 dates.',
+    hint: "State the instrument's date order in the config (instrument.dateOrder: DMY, MDY or YMD, with instrument.timeZone), or export ISO 8601 dates.",
   };
 }
 
@@ -238,7 +277,21 @@ function pad2(value: number): string {
 function monthOfName(name: string): number | undefined {
   const index = MONTH_NAMES.indexOf(name.slice(0, 3).toLowerCase() as (typeof MONTH_NAMES)[number]);
   if (index < 0) return undefined;
-  const full = ['january', 'february', 'march', 'april', 'may', 'june', 'july', 'august', 'september', 'october', 'november', 'december'][index] ?? '';
+  const full =
+    [
+      'january',
+      'february',
+      'march',
+      'april',
+      'may',
+      'june',
+      'july',
+      'august',
+      'september',
+      'october',
+      'november',
+      'december',
+    ][index] ?? '';
   const lower = name.toLowerCase();
   return lower.length === 3 || full.startsWith(lower) || (index === 8 && lower === 'sept') ? index + 1 : undefined;
 }
@@ -249,7 +302,10 @@ function monthOfName(name: string): number | undefined {
  * Refuses ambiguous day/month text (DATE_AMBIGUOUS) unless options.dateOrder settles it, and
  * impossible dates or times (DATE_INVALID). Zone-less times are local to options.timeZone (default UTC). O(length).
  */
-export function readAcquisitionTime(raw: string | number, options: AcquisitionTimeOptions = {}): AcquisitionTimeReading {
+export function readAcquisitionTime(
+  raw: string | number,
+  options: AcquisitionTimeOptions = {},
+): AcquisitionTimeReading {
   const text = typeof raw === 'number' ? String(raw) : raw.trim();
   const done = (fields: Fields | Refusal, form: AcquisitionTimeForm): AcquisitionTimeReading => {
     if ('ok' in fields) return fields;
@@ -260,23 +316,55 @@ export function readAcquisitionTime(raw: string | number, options: AcquisitionTi
   let match = ISO_EXTENDED.exec(text);
   if (match !== null) {
     const [, y, mo, d, h, mi, s, f, mer, z] = match;
-    return done({ year: Number(y), month: Number(mo), day: Number(d), hour: h, minute: mi, second: s, fraction: f, meridiem: mer, zone: z }, 'iso');
+    return done(
+      {
+        year: Number(y),
+        month: Number(mo),
+        day: Number(d),
+        hour: h,
+        minute: mi,
+        second: s,
+        fraction: f,
+        meridiem: mer,
+        zone: z,
+      },
+      'iso',
+    );
   }
   match = ISO_BASIC.exec(text);
   if (match !== null) {
     const [, y, mo, d, h, mi, s, f, z] = match;
-    return done({ year: Number(y), month: Number(mo), day: Number(d), hour: h, minute: mi, second: s, fraction: f, zone: z }, 'iso');
+    return done(
+      { year: Number(y), month: Number(mo), day: Number(d), hour: h, minute: mi, second: s, fraction: f, zone: z },
+      'iso',
+    );
   }
   match = YEAR_FIRST.exec(text);
   if (match !== null) {
     const [, y, , mo, d, h, mi, s, f, mer, z] = match;
-    return done({ year: Number(y), month: Number(mo), day: Number(d), hour: h, minute: mi, second: s, fraction: f, meridiem: mer, zone: z }, 'year-first');
+    return done(
+      {
+        year: Number(y),
+        month: Number(mo),
+        day: Number(d),
+        hour: h,
+        minute: mi,
+        second: s,
+        fraction: f,
+        meridiem: mer,
+        zone: z,
+      },
+      'year-first',
+    );
   }
   match = DAY_MONTH.exec(text);
   if (match !== null) {
     const [, a, , b, y, h, mi, s, f, mer, z] = match;
     const date = orderDayMonth(text, Number(a), Number(b), y ?? '', options);
-    return done('ok' in date ? date : { ...date, hour: h, minute: mi, second: s, fraction: f, meridiem: mer, zone: z }, 'day-month');
+    return done(
+      'ok' in date ? date : { ...date, hour: h, minute: mi, second: s, fraction: f, meridiem: mer, zone: z },
+      'day-month',
+    );
   }
   const named = text.replace(WEEKDAY_PREFIX, '');
   match = DAY_NAME_YEAR.exec(named) ?? null;
@@ -286,19 +374,40 @@ export function readAcquisitionTime(raw: string | number, options: AcquisitionTi
     const [, p, q, y, h, mi, s, f, mer, z] = match;
     const month = monthOfName((dayFirst ? q : p) ?? '');
     if (month === undefined) return invalid(text, `"${dayFirst ? q : p}" is not a month name`, WRITE_ISO);
-    return done({ year: Number(y), month, day: Number(dayFirst ? p : q), hour: h, minute: mi, second: s, fraction: f, meridiem: mer, zone: z }, 'month-name');
+    return done(
+      {
+        year: Number(y),
+        month,
+        day: Number(dayFirst ? p : q),
+        hour: h,
+        minute: mi,
+        second: s,
+        fraction: f,
+        meridiem: mer,
+        zone: z,
+      },
+      'month-name',
+    );
   }
   match = EXCEL_SERIAL.exec(text);
   if (match !== null) {
     const serial = Number(`${match[1]}.${match[2] ?? '0'}`);
     if (serial < EXCEL_FIRST_SAFE_SERIAL || serial > EXCEL_LAST_SERIAL) {
-      return invalid(text, 'as an Excel serial date it falls outside 1900-03-01 … 9999-12-31', 'Format the spreadsheet cell as a date (ISO 8601) before exporting.');
+      return invalid(
+        text,
+        'as an Excel serial date it falls outside 1900-03-01 … 9999-12-31',
+        'Format the spreadsheet cell as a date (ISO 8601) before exporting.',
+      );
     }
     const wallMs = Math.round((serial - EXCEL_EPOCH_SERIAL) * DAY_MS);
     const epochMs = wallClockToEpochMs(wallMs, options.timeZone ?? 'UTC');
     return { ok: true, epochMs, iso: isoFromEpochMs(epochMs), form: 'excel-serial', zone: 'configured' };
   }
-  return invalid(text, 'it is not a date spelling driftlight reads', `${WRITE_ISO} docs/formats.md lists the spellings read.`);
+  return invalid(
+    text,
+    'it is not a date spelling driftlight reads',
+    `${WRITE_ISO} docs/formats.md lists the spellings read.`,
+  );
 }
 
 /** Epoch ms of an acquisition time read with default options (no date order, UTC), or undefined when refused. */

@@ -34,8 +34,13 @@ export function editDistance(a: string, b: string): number {
   for (let i = 1; i < rows; i++) {
     for (let j = 1; j < cols; j++) {
       const cost = s[i - 1] === t[j - 1] ? 0 : 1;
-      let best = Math.min((d[(i - 1) * cols + j] as number) + 1, (d[i * cols + j - 1] as number) + 1, (d[(i - 1) * cols + j - 1] as number) + cost);
-      if (i > 1 && j > 1 && s[i - 1] === t[j - 2] && s[i - 2] === t[j - 1]) best = Math.min(best, (d[(i - 2) * cols + j - 2] as number) + 1);
+      let best = Math.min(
+        (d[(i - 1) * cols + j] as number) + 1,
+        (d[i * cols + j - 1] as number) + 1,
+        (d[(i - 1) * cols + j - 1] as number) + cost,
+      );
+      if (i > 1 && j > 1 && s[i - 1] === t[j - 2] && s[i - 2] === t[j - 1])
+        best = Math.min(best, (d[(i - 2) * cols + j - 2] as number) + 1);
       d[i * cols + j] = best;
     }
   }
@@ -68,7 +73,12 @@ type AnySchema = z.core.$ZodType;
 function unwrap(schema: AnySchema): AnySchema {
   let current = schema;
   for (let depth = 0; depth < 20; depth++) {
-    const def = current._zod.def as unknown as { type: string; innerType?: AnySchema; in?: AnySchema; getter?: () => AnySchema };
+    const def = current._zod.def as unknown as {
+      type: string;
+      innerType?: AnySchema;
+      in?: AnySchema;
+      getter?: () => AnySchema;
+    };
     if (def.innerType !== undefined) current = def.innerType;
     else if (def.type === 'pipe' && def.in !== undefined) current = def.in;
     else if (def.type === 'lazy' && def.getter !== undefined) current = def.getter();
@@ -78,14 +88,20 @@ function unwrap(schema: AnySchema): AnySchema {
 }
 
 /** The option of a union that the value's discriminator selects (or the only object option), if any. */
-function unionOption(def: { options?: readonly AnySchema[]; discriminator?: string }, value: unknown): AnySchema | undefined {
+function unionOption(
+  def: { options?: readonly AnySchema[]; discriminator?: string },
+  value: unknown,
+): AnySchema | undefined {
   const options = (def.options ?? []).map(unwrap);
   const objects = options.filter((option) => option._zod.def.type === 'object');
   if (def.discriminator !== undefined && typeof value === 'object' && value !== null) {
     const tag = (value as Record<string, unknown>)[def.discriminator];
     return objects.find((option) => {
-      const field = (option._zod.def as unknown as { shape: Record<string, AnySchema> }).shape[def.discriminator as string];
-      const values = field === undefined ? undefined : (unwrap(field)._zod as unknown as { values?: Set<unknown> }).values;
+      const field = (option._zod.def as unknown as { shape: Record<string, AnySchema> }).shape[
+        def.discriminator as string
+      ];
+      const values =
+        field === undefined ? undefined : (unwrap(field)._zod as unknown as { values?: Set<unknown> }).values;
       return values?.has(tag) === true;
     });
   }
@@ -97,13 +113,19 @@ export function keysAt(schema: AnySchema, path: readonly PropertyKey[], raw: unk
   let current: AnySchema | undefined = unwrap(schema);
   let value = raw;
   const step = (): void => {
-    const def = current?._zod.def as unknown as { type: string; options?: readonly AnySchema[]; discriminator?: string } | undefined;
+    const def = current?._zod.def as unknown as
+      { type: string; options?: readonly AnySchema[]; discriminator?: string } | undefined;
     if (def?.type === 'union') current = unionOption(def, value);
   };
   step();
   for (const key of path) {
     if (current === undefined) return undefined;
-    const def = current._zod.def as unknown as { type: string; shape?: Record<string, AnySchema>; element?: AnySchema; valueType?: AnySchema };
+    const def = current._zod.def as unknown as {
+      type: string;
+      shape?: Record<string, AnySchema>;
+      element?: AnySchema;
+      valueType?: AnySchema;
+    };
     if (def.type === 'object' && typeof key === 'string') current = def.shape?.[key];
     else if (def.type === 'array') current = def.element;
     else if (def.type === 'record') current = def.valueType;
@@ -118,13 +140,18 @@ export function keysAt(schema: AnySchema, path: readonly PropertyKey[], raw: unk
 }
 
 /** The line for one unknown key: its full path, and the nearest valid key or the valid keys. */
-export function unknownKeyLine(path: readonly PropertyKey[], key: string, validKeys: readonly string[] | undefined): ConfigProblem {
+export function unknownKeyLine(
+  path: readonly PropertyKey[],
+  key: string,
+  validKeys: readonly string[] | undefined,
+): ConfigProblem {
   const near = validKeys === undefined ? undefined : nearestName(key, validKeys);
-  const message = near !== undefined
-    ? `unknown option "${key}"; did you mean "${near}"?`
-    : validKeys === undefined || validKeys.length === 0
-      ? `unknown option "${key}"`
-      : `unknown option "${key}" (valid here: ${validKeys.join(', ')})`;
+  const message =
+    near !== undefined
+      ? `unknown option "${key}"; did you mean "${near}"?`
+      : validKeys === undefined || validKeys.length === 0
+        ? `unknown option "${key}"`
+        : `unknown option "${key}" (valid here: ${validKeys.join(', ')})`;
   return { path: [...path, key], message };
 }
 
@@ -132,17 +159,33 @@ export function unknownKeyLine(path: readonly PropertyKey[], key: string, validK
  * zod issues as problems, one per unknown key (with the nearest valid key, from `schema` and the raw input)
  * and one per other issue; union issues are replaced by the issues of the option the value selects.
  */
-export function problemsFromIssues(issues: readonly z.core.$ZodIssue[], schema: AnySchema, raw: unknown, prefix: readonly PropertyKey[] = []): ConfigProblem[] {
+export function problemsFromIssues(
+  issues: readonly z.core.$ZodIssue[],
+  schema: AnySchema,
+  raw: unknown,
+  prefix: readonly PropertyKey[] = [],
+): ConfigProblem[] {
   const out: ConfigProblem[] = [];
   for (const issue of issues) {
     const path = [...prefix, ...issue.path];
     if (issue.code === 'unrecognized_keys') {
       const valid = keysAt(schema, issue.path, raw);
       for (const key of issue.keys) out.push(unknownKeyLine(path, key, valid));
-    } else if (issue.code === 'invalid_union' && issue.errors.length > 0 && issue.errors.every((list) => list.length > 0)) {
+    } else if (
+      issue.code === 'invalid_union' &&
+      issue.errors.length > 0 &&
+      issue.errors.every((list) => list.length > 0)
+    ) {
       // No option fitted: report the option with the fewest problems, not every option's (the user wrote one of them).
       const fewest = [...issue.errors].sort((a, b) => a.length - b.length)[0] ?? [];
-      out.push(...problemsFromIssues(fewest.map((sub) => ({ ...sub, path: [...issue.path, ...sub.path] })), schema, raw, prefix));
+      out.push(
+        ...problemsFromIssues(
+          fewest.map((sub) => ({ ...sub, path: [...issue.path, ...sub.path] })),
+          schema,
+          raw,
+          prefix,
+        ),
+      );
     } else if (issue.code === 'invalid_type' && / received undefined$/.test(issue.message)) {
       out.push({ path, message: `required, and missing (expected ${issue.expected})` });
     } else {

@@ -30,7 +30,10 @@ export class DriftlightError extends Error {
     this.code = code;
     // A code read back from the ledger may be one this version does not list (another version's, or a
     // system error code carried by a job failure): no hint then, rather than a TypeError.
-    this.hint = details.hint ?? (ERROR_CODES as Readonly<Record<string, { readonly hint: string } | undefined>>)[code]?.hint ?? 'See the message and the log.';
+    this.hint =
+      details.hint ??
+      (ERROR_CODES as Readonly<Record<string, { readonly hint: string } | undefined>>)[code]?.hint ??
+      'See the message and the log.';
     this.file = details.file;
     this.line = details.line;
     this.configPath = details.configPath;
@@ -44,7 +47,10 @@ export class DriftlightError extends Error {
     const where = this.file === undefined ? '' : `${this.file}${this.line === undefined ? '' : `:${this.line}`}: `;
     const lines = this.message.split('\n');
     // A message of several lines names each line's own path; a one-line message gets the path once.
-    const path = this.configPath === undefined || lines.length > 1 || this.message.startsWith(`${this.configPath}:`) ? '' : `${this.configPath}: `;
+    const path =
+      this.configPath === undefined || lines.length > 1 || this.message.startsWith(`${this.configPath}:`)
+        ? ''
+        : `${this.configPath}: `;
     return lines.map((line) => `${where}${this.code}: ${path}${line}`).join('\n');
   }
 

@@ -76,7 +76,11 @@ function fdatasyncAsync(fd: number): Promise<void> {
  * With `syncFolder: false` the caller fsyncs the folder itself (fsyncDirectoryAsync), once for many
  * files written together; until then the rename is atomic but not yet durable.
  */
-export async function writeFileAtomicAsync(path: string, content: string | Uint8Array, options: { syncFolder?: boolean } = {}): Promise<void> {
+export async function writeFileAtomicAsync(
+  path: string,
+  content: string | Uint8Array,
+  options: { syncFolder?: boolean } = {},
+): Promise<void> {
   const dir = dirname(path);
   const temp = tempPathFor(path);
   const fd = inFolder(dir, () => openSync(temp, 'w'));
@@ -99,7 +103,9 @@ export async function fsyncDirectoryAsync(dir: string): Promise<void> {
   try {
     fd = openSync(dir, 'r');
     const opened = fd;
-    await new Promise<void>((resolve, reject) => fsync(opened, (error) => (error === null ? resolve() : reject(error))));
+    await new Promise<void>((resolve, reject) =>
+      fsync(opened, (error) => (error === null ? resolve() : reject(error))),
+    );
   } catch (error) {
     // Some platforms (Windows) and file systems refuse to fsync a folder: the rename is still atomic
     // there. Any other failure (EIO, ENOSPC, the folder gone) means the rename is not known durable.

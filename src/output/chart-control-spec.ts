@@ -29,7 +29,12 @@ function xDomain(chart: ControlChartData): [number, number] {
 }
 
 function xEncoding(domain: [number, number], title: string | null): Record<string, unknown> {
-  return { field: 'tMs', type: 'temporal', scale: { type: 'utc', domain }, axis: { title, format: '%Y-%m-%d', labelAngle: 0, labelFlush: true, tickCount: 6 } };
+  return {
+    field: 'tMs',
+    type: 'temporal',
+    scale: { type: 'utc', domain },
+    axis: { title, format: '%Y-%m-%d', labelAngle: 0, labelFlush: true, tickCount: 6 },
+  };
 }
 
 /** Text alternative of a control chart: runs, baselines, flags, exclusions and breaks in words. */
@@ -41,17 +46,26 @@ export function describeControlChart(chart: ControlChartData): string {
   const parts = [`${points.length} runs of control ${chart.controlId} from ${first} to ${last}.`];
   for (const period of chart.periods) {
     const start = period.fromIso === undefined ? 'first period' : `period from ${period.fromIso}`;
-    parts.push(period.baseline === undefined
-      ? `${start}: baseline not yet established (${period.collecting?.runsSoFar ?? 0} of ${period.collecting?.runsNeeded ?? 0} runs).`
-      : `${start}: baseline mean ${formatMetricValue(chart.metric, period.baseline.mean)}, SD ${formatMetricValue(chart.metric, period.baseline.sd)} (${period.baseline.source}).`);
+    parts.push(
+      period.baseline === undefined
+        ? `${start}: baseline not yet established (${period.collecting?.runsSoFar ?? 0} of ${period.collecting?.runsNeeded ?? 0} runs).`
+        : `${start}: baseline mean ${formatMetricValue(chart.metric, period.baseline.mean)}, SD ${formatMetricValue(chart.metric, period.baseline.sd)} (${period.baseline.source}).`,
+    );
   }
   const flagged = points.filter((p) => p.flags.length > 0);
-  parts.push(flagged.length === 0 ? 'No flagged runs.' : `Flagged runs: ${flagged.map((p) => `${p.acquiredAt} ${formatMetricValue(chart.metric, p.value)} (${p.flags.join(', ')})`).join('; ')}.`);
+  parts.push(
+    flagged.length === 0
+      ? 'No flagged runs.'
+      : `Flagged runs: ${flagged.map((p) => `${p.acquiredAt} ${formatMetricValue(chart.metric, p.value)} (${p.flags.join(', ')})`).join('; ')}.`,
+  );
   const excluded = points.filter((p) => p.status === 'excluded');
   if (excluded.length > 0) parts.push(`Excluded runs: ${excluded.map((p) => p.acquiredAt).join(', ')}.`);
   if (chart.breaks.length > 0) parts.push(`Rebaselines at ${chart.breaks.map((b) => b.iso).join(', ')}.`);
   const latest = points[points.length - 1];
-  if (latest !== undefined) parts.push(`Latest value ${formatMetricValue(chart.metric, latest.value)}${latest.deviationSd === undefined ? '' : ` (${latest.deviationSd >= 0 ? '+' : ''}${latest.deviationSd.toFixed(2)} SD)`}.`);
+  if (latest !== undefined)
+    parts.push(
+      `Latest value ${formatMetricValue(chart.metric, latest.value)}${latest.deviationSd === undefined ? '' : ` (${latest.deviationSd >= 0 ? '+' : ''}${latest.deviationSd.toFixed(2)} SD)`}.`,
+    );
   return parts.join(' ');
 }
 
@@ -59,12 +73,22 @@ export function describeControlChart(chart: ControlChartData): string {
 export function controlChartSpec(chart: ControlChartData, title: string): TopLevelSpec {
   const domain = xDomain(chart);
   const rows = chart.points.map((p) => ({
-    tMs: p.epochMs, acquiredAt: p.acquiredAt, setId: p.setId, value: p.value, status: STATUS_LABEL[p.status], period: p.period,
-    flags: p.flags.join(', '), flagged: p.flags.length > 0,
+    tMs: p.epochMs,
+    acquiredAt: p.acquiredAt,
+    setId: p.setId,
+    value: p.value,
+    status: STATUS_LABEL[p.status],
+    period: p.period,
+    flags: p.flags.join(', '),
+    flagged: p.flags.length > 0,
     // The short label drawn beside a flagged run: the checks that fired ("1-3s 2-2s EWMA"); the tooltip, text alternative and table name the rules.
     checks: [...new Set(p.flags.map((flag) => flag.slice(flag.indexOf(' ') + 1)))].join(' '),
-    deviationSd: p.deviationSd ?? null, ewma: p.ewma ?? null, ewmaLower: p.ewmaLower ?? null, ewmaUpper: p.ewmaUpper ?? null,
-    cusumUpperSd: p.cusumUpperSd ?? null, cusumLowerNegSd: p.cusumLowerSd === undefined ? null : -p.cusumLowerSd,
+    deviationSd: p.deviationSd ?? null,
+    ewma: p.ewma ?? null,
+    ewmaLower: p.ewmaLower ?? null,
+    ewmaUpper: p.ewmaUpper ?? null,
+    cusumUpperSd: p.cusumUpperSd ?? null,
+    cusumLowerNegSd: p.cusumLowerSd === undefined ? null : -p.cusumLowerSd,
   }));
   const limitRows = chart.periods.flatMap((period) => {
     if (period.baseline === undefined) return [];
@@ -83,56 +107,183 @@ export function controlChartSpec(chart: ControlChartData, title: string): TopLev
   const judged = rows.filter((r) => r.ewma !== null);
   const x = xEncoding(domain, null);
   const xBottom = xEncoding(domain, 'acquisition time (UTC)');
-  const dashScale = { domain: ['mean', '±1 SD', '±2 SD', '±3 SD'], range: [[1, 0], [2, 3], [6, 3], [10, 3]] };
+  const dashScale = {
+    domain: ['mean', '±1 SD', '±2 SD', '±3 SD'],
+    range: [
+      [1, 0],
+      [2, 3],
+      [6, 3],
+      [10, 3],
+    ],
+  };
   const yTitle = axisTitle(chart);
   const valuesPanel = {
     title: { text: `${chart.metricLabel}: values with baseline mean and ±1/2/3 SD`, fontSize: 12, anchor: 'start' },
-    width: WIDTH, height: 220,
+    width: WIDTH,
+    height: 220,
     layer: [
-      { data: { values: limitRows }, mark: { type: 'rule', strokeWidth: 1 },
-        encoding: { x, x2: { field: 'tEndMs' }, y: { field: 'y', type: 'quantitative', title: yTitle, scale: { zero: false } },
-          strokeDash: { field: 'level', type: 'nominal', scale: dashScale, legend: { title: 'baseline lines' } }, color: { value: LIMIT_GREY } } },
-      ...(breakRows.length === 0 ? [] : [
-        { data: { values: breakRows }, mark: { type: 'rule', strokeWidth: 2, color: OKABE_ITO.reddishPurple }, encoding: { x } },
-        { data: { values: breakRows }, mark: { type: 'text', align: 'left', dx: 3, baseline: 'top', y: 2, color: OKABE_ITO.reddishPurple }, encoding: { x, text: { field: 'label' } } },
-      ]),
-      { data: { values: rows.filter((r) => r.status !== STATUS_LABEL.excluded) }, mark: { type: 'line', color: OKABE_ITO.blue, strokeWidth: 1 },
-        encoding: { x, y: { field: 'value', type: 'quantitative' }, detail: { field: 'period' } } },
-      { data: { values: rows }, mark: { type: 'point', filled: true, size: 36, strokeWidth: 1.5 },
+      {
+        data: { values: limitRows },
+        mark: { type: 'rule', strokeWidth: 1 },
         encoding: {
-          x, y: { field: 'value', type: 'quantitative' },
-          color: { field: 'status', type: 'nominal', scale: { domain: Object.values(STATUS_LABEL), range: [OKABE_ITO.blue, OKABE_ITO.skyBlue, LIMIT_GREY, OKABE_ITO.black] }, legend: { title: 'run' } },
-          shape: { field: 'status', type: 'nominal', scale: { domain: Object.values(STATUS_LABEL), range: ['circle', 'square', 'triangle-up', 'cross'] }, legend: null },
-          tooltip: [{ field: 'acquiredAt', title: 'acquired' }, { field: 'setId', title: 'set' }, { field: 'value', title: yTitle, format: '.4~g' }, { field: 'flags', title: 'flags' }],
-        } },
-      { data: { values: rows.filter((r) => r.flagged) }, mark: { type: 'point', shape: 'diamond', size: 140, strokeWidth: 2, color: OKABE_ITO.vermillion, filled: false },
-        encoding: { x, y: { field: 'value', type: 'quantitative' } } },
-      { data: { values: rows.filter((r) => r.flagged) }, mark: { type: 'text', dy: -12, fontSize: 9, color: OKABE_ITO.vermillion },
-        encoding: { x, y: { field: 'value', type: 'quantitative' }, text: { field: 'checks' } } },
+          x,
+          x2: { field: 'tEndMs' },
+          y: { field: 'y', type: 'quantitative', title: yTitle, scale: { zero: false } },
+          strokeDash: { field: 'level', type: 'nominal', scale: dashScale, legend: { title: 'baseline lines' } },
+          color: { value: LIMIT_GREY },
+        },
+      },
+      ...(breakRows.length === 0
+        ? []
+        : [
+            {
+              data: { values: breakRows },
+              mark: { type: 'rule', strokeWidth: 2, color: OKABE_ITO.reddishPurple },
+              encoding: { x },
+            },
+            {
+              data: { values: breakRows },
+              mark: { type: 'text', align: 'left', dx: 3, baseline: 'top', y: 2, color: OKABE_ITO.reddishPurple },
+              encoding: { x, text: { field: 'label' } },
+            },
+          ]),
+      {
+        data: { values: rows.filter((r) => r.status !== STATUS_LABEL.excluded) },
+        mark: { type: 'line', color: OKABE_ITO.blue, strokeWidth: 1 },
+        encoding: { x, y: { field: 'value', type: 'quantitative' }, detail: { field: 'period' } },
+      },
+      {
+        data: { values: rows },
+        mark: { type: 'point', filled: true, size: 36, strokeWidth: 1.5 },
+        encoding: {
+          x,
+          y: { field: 'value', type: 'quantitative' },
+          color: {
+            field: 'status',
+            type: 'nominal',
+            scale: {
+              domain: Object.values(STATUS_LABEL),
+              range: [OKABE_ITO.blue, OKABE_ITO.skyBlue, LIMIT_GREY, OKABE_ITO.black],
+            },
+            legend: { title: 'run' },
+          },
+          shape: {
+            field: 'status',
+            type: 'nominal',
+            scale: { domain: Object.values(STATUS_LABEL), range: ['circle', 'square', 'triangle-up', 'cross'] },
+            legend: null,
+          },
+          tooltip: [
+            { field: 'acquiredAt', title: 'acquired' },
+            { field: 'setId', title: 'set' },
+            { field: 'value', title: yTitle, format: '.4~g' },
+            { field: 'flags', title: 'flags' },
+          ],
+        },
+      },
+      {
+        data: { values: rows.filter((r) => r.flagged) },
+        mark: {
+          type: 'point',
+          shape: 'diamond',
+          size: 140,
+          strokeWidth: 2,
+          color: OKABE_ITO.vermillion,
+          filled: false,
+        },
+        encoding: { x, y: { field: 'value', type: 'quantitative' } },
+      },
+      {
+        data: { values: rows.filter((r) => r.flagged) },
+        mark: { type: 'text', dy: -12, fontSize: 9, color: OKABE_ITO.vermillion },
+        encoding: { x, y: { field: 'value', type: 'quantitative' }, text: { field: 'checks' } },
+      },
     ],
   };
   const ewmaPanel = {
-    title: { text: `EWMA (λ = ${chart.ewma.lambda}, L = ${chart.ewma.limitWidth}${chart.ewma.ruleId === undefined ? ', kind defaults: no ewma rule for this metric' : `, rule ${chart.ewma.ruleId}`})`, fontSize: 12, anchor: 'start' },
-    width: WIDTH, height: 110,
+    title: {
+      text: `EWMA (λ = ${chart.ewma.lambda}, L = ${chart.ewma.limitWidth}${chart.ewma.ruleId === undefined ? ', kind defaults: no ewma rule for this metric' : `, rule ${chart.ewma.ruleId}`})`,
+      fontSize: 12,
+      anchor: 'start',
+    },
+    width: WIDTH,
+    height: 110,
     data: { values: judged },
     layer: [
-      { mark: { type: 'line', interpolate: 'step-after', color: LIMIT_GREY, strokeDash: [6, 3] }, encoding: { x, y: { field: 'ewmaUpper', type: 'quantitative', title: `EWMA (${chart.unit === '' ? 'dimensionless' : chart.unit})`, scale: { zero: false } }, detail: { field: 'period' } } },
-      { mark: { type: 'line', interpolate: 'step-after', color: LIMIT_GREY, strokeDash: [6, 3] }, encoding: { x, y: { field: 'ewmaLower', type: 'quantitative' }, detail: { field: 'period' } } },
-      { mark: { type: 'line', color: OKABE_ITO.orange, point: { filled: true, size: 20, color: OKABE_ITO.orange } }, encoding: { x, y: { field: 'ewma', type: 'quantitative' }, detail: { field: 'period' } } },
+      {
+        mark: { type: 'line', interpolate: 'step-after', color: LIMIT_GREY, strokeDash: [6, 3] },
+        encoding: {
+          x,
+          y: {
+            field: 'ewmaUpper',
+            type: 'quantitative',
+            title: `EWMA (${chart.unit === '' ? 'dimensionless' : chart.unit})`,
+            scale: { zero: false },
+          },
+          detail: { field: 'period' },
+        },
+      },
+      {
+        mark: { type: 'line', interpolate: 'step-after', color: LIMIT_GREY, strokeDash: [6, 3] },
+        encoding: { x, y: { field: 'ewmaLower', type: 'quantitative' }, detail: { field: 'period' } },
+      },
+      {
+        mark: { type: 'line', color: OKABE_ITO.orange, point: { filled: true, size: 20, color: OKABE_ITO.orange } },
+        encoding: { x, y: { field: 'ewma', type: 'quantitative' }, detail: { field: 'period' } },
+      },
     ],
   };
   const cusumPanel = {
-    title: { text: `tabular CUSUM (k = ${chart.cusum.referenceSd} SD, h = ${chart.cusum.decisionSd} SD${chart.cusum.ruleId === undefined ? ', kind defaults: no cusum rule for this metric' : `, rule ${chart.cusum.ruleId}`}); lower sum drawn below zero`, fontSize: 12, anchor: 'start' },
-    width: WIDTH, height: 110,
+    title: {
+      text: `tabular CUSUM (k = ${chart.cusum.referenceSd} SD, h = ${chart.cusum.decisionSd} SD${chart.cusum.ruleId === undefined ? ', kind defaults: no cusum rule for this metric' : `, rule ${chart.cusum.ruleId}`}); lower sum drawn below zero`,
+      fontSize: 12,
+      anchor: 'start',
+    },
+    width: WIDTH,
+    height: 110,
     layer: [
-      { data: { values: [{ y: chart.cusum.decisionSd }, { y: -chart.cusum.decisionSd }] }, mark: { type: 'rule', color: LIMIT_GREY, strokeDash: [6, 3] }, encoding: { y: { field: 'y', type: 'quantitative' } } },
-      { data: { values: judged }, mark: { type: 'line', color: OKABE_ITO.blue, point: { filled: true, size: 20, shape: 'triangle-up', color: OKABE_ITO.blue } },
-        encoding: { x: xBottom, y: { field: 'cusumUpperSd', type: 'quantitative', title: 'CUSUM (SD)' }, detail: { field: 'period' } } },
-      { data: { values: judged }, mark: { type: 'line', color: OKABE_ITO.vermillion, strokeDash: [4, 2], point: { filled: true, size: 20, shape: 'triangle-down', color: OKABE_ITO.vermillion } },
-        encoding: { x: xBottom, y: { field: 'cusumLowerNegSd', type: 'quantitative' }, detail: { field: 'period' } } },
+      {
+        data: { values: [{ y: chart.cusum.decisionSd }, { y: -chart.cusum.decisionSd }] },
+        mark: { type: 'rule', color: LIMIT_GREY, strokeDash: [6, 3] },
+        encoding: { y: { field: 'y', type: 'quantitative' } },
+      },
+      {
+        data: { values: judged },
+        mark: {
+          type: 'line',
+          color: OKABE_ITO.blue,
+          point: { filled: true, size: 20, shape: 'triangle-up', color: OKABE_ITO.blue },
+        },
+        encoding: {
+          x: xBottom,
+          y: { field: 'cusumUpperSd', type: 'quantitative', title: 'CUSUM (SD)' },
+          detail: { field: 'period' },
+        },
+      },
+      {
+        data: { values: judged },
+        mark: {
+          type: 'line',
+          color: OKABE_ITO.vermillion,
+          strokeDash: [4, 2],
+          point: { filled: true, size: 20, shape: 'triangle-down', color: OKABE_ITO.vermillion },
+        },
+        encoding: { x: xBottom, y: { field: 'cusumLowerNegSd', type: 'quantitative' }, detail: { field: 'period' } },
+      },
     ],
   };
-  const panels = judged.length === 0 ? [{ ...valuesPanel, layer: valuesPanel.layer.map((layer) => ({ ...layer, encoding: { ...layer.encoding, ...('x' in layer.encoding ? { x: xBottom } : {}) } })) }] : [valuesPanel, ewmaPanel, cusumPanel];
+  const panels =
+    judged.length === 0
+      ? [
+          {
+            ...valuesPanel,
+            layer: valuesPanel.layer.map((layer) => ({
+              ...layer,
+              encoding: { ...layer.encoding, ...('x' in layer.encoding ? { x: xBottom } : {}) },
+            })),
+          },
+        ]
+      : [valuesPanel, ewmaPanel, cusumPanel];
   const spec = {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title: { text: title, anchor: 'start', color: INK },

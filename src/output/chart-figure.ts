@@ -16,8 +16,12 @@ export async function controlChartFigure(chart: ControlChartData): Promise<Figur
   const textAlternative = describeControlChart(chart);
   const { svg, warnings } = await renderSvg(controlChartSpec(chart, title), { title, description: textAlternative });
   const rows = chart.points.map((p) => [
-    p.acquiredAt, p.setId, formatMetricValue(chart.metric, p.value), p.status,
-    p.deviationSd === undefined ? '' : p.deviationSd.toFixed(2), p.flags.join(', '),
+    p.acquiredAt,
+    p.setId,
+    formatMetricValue(chart.metric, p.value),
+    p.status,
+    p.deviationSd === undefined ? '' : p.deviationSd.toFixed(2),
+    p.flags.join(', '),
   ]);
   return {
     id: `chart-${chart.controlId}-${chart.metric}`,

@@ -25,23 +25,32 @@ figure{margin:1rem 0;border:1px solid #ddd;padding:.5rem;overflow-x:auto}figcapt
 
 /** A figure element with caption, text alternative and, when given, its data in a collapsed table. */
 export function figureHtml(figure: Figure): string {
-  return `<figure class="chart" id="${escapeXml(figure.id)}" data-chart="${escapeXml(figure.id)}">\n${figure.svg}\n` +
+  return (
+    `<figure class="chart" id="${escapeXml(figure.id)}" data-chart="${escapeXml(figure.id)}">\n${figure.svg}\n` +
     `<figcaption><strong>${escapeXml(figure.title)}.</strong> <span class="text-alternative">${escapeXml(figure.textAlternative)}</span></figcaption>\n` +
     (figure.dataTableHtml === undefined ? '' : `<details><summary>data</summary>${figure.dataTableHtml}</details>\n`) +
-    '</figure>';
+    '</figure>'
+  );
 }
 
 /** A complete HTML document (UTF-8, inline CSS, a CSP forbidding any request outside the page). */
 export function standalonePage(title: string, bodyHtml: string): string {
-  return '<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n' +
+  return (
+    '<!DOCTYPE html>\n<html lang="en">\n<head>\n<meta charset="utf-8">\n' +
     `<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">\n` +
     '<meta name="viewport" content="width=device-width, initial-scale=1">\n' +
-    `<title>${escapeXml(title)}</title>\n<style>${PAGE_CSS}</style>\n</head>\n<body>\n${bodyHtml}\n</body>\n</html>\n`;
+    `<title>${escapeXml(title)}</title>\n<style>${PAGE_CSS}</style>\n</head>\n<body>\n${bodyHtml}\n</body>\n</html>\n`
+  );
 }
 
 /** An HTML table from a header row and body rows (cells escaped; numeric-looking cells right-aligned). */
 export function tableHtml(header: readonly string[], rows: readonly (readonly string[])[]): string {
-  const cell = (text: string): string => (/^[−+-]?\d[\d.,]*(e[+-]?\d+)?( [^\s\d]{1,4})?( \/ \d+)?$/i.test(text) ? `<td class="num">${escapeXml(text)}</td>` : `<td>${escapeXml(text)}</td>`);
-  return `<table><thead><tr>${header.map((h) => `<th scope="col">${escapeXml(h)}</th>`).join('')}</tr></thead>` +
-    `<tbody>${rows.map((row) => `<tr>${row.map(cell).join('')}</tr>`).join('')}</tbody></table>`;
+  const cell = (text: string): string =>
+    /^[−+-]?\d[\d.,]*(e[+-]?\d+)?( [^\s\d]{1,4})?( \/ \d+)?$/i.test(text)
+      ? `<td class="num">${escapeXml(text)}</td>`
+      : `<td>${escapeXml(text)}</td>`;
+  return (
+    `<table><thead><tr>${header.map((h) => `<th scope="col">${escapeXml(h)}</th>`).join('')}</tr></thead>` +
+    `<tbody>${rows.map((row) => `<tr>${row.map(cell).join('')}</tr>`).join('')}</tbody></table>`
+  );
 }

@@ -15,7 +15,13 @@ export const OKABE_ITO = {
 
 /** Series colours in order (yellow left out: too light on white for lines). */
 export const SERIES_COLOURS: readonly string[] = [
-  OKABE_ITO.blue, OKABE_ITO.orange, OKABE_ITO.bluishGreen, OKABE_ITO.vermillion, OKABE_ITO.reddishPurple, OKABE_ITO.skyBlue, OKABE_ITO.black,
+  OKABE_ITO.blue,
+  OKABE_ITO.orange,
+  OKABE_ITO.bluishGreen,
+  OKABE_ITO.vermillion,
+  OKABE_ITO.reddishPurple,
+  OKABE_ITO.skyBlue,
+  OKABE_ITO.black,
 ];
 
 /** Text and axis colour, and the grey of limit lines. */

@@ -5,11 +5,15 @@ import { compile, type TopLevelSpec } from 'vega-lite';
 
 /** A loader that refuses every URL: specs carry their data inline, and nothing is fetched. */
 const noNetworkLoader = vega.loader();
-noNetworkLoader.load = (uri: string): Promise<string> => Promise.reject(new Error(`charts load no external data (asked for ${uri})`));
+noNetworkLoader.load = (uri: string): Promise<string> =>
+  Promise.reject(new Error(`charts load no external data (asked for ${uri})`));
 
 /** Escapes text for an XML/HTML text node or attribute. */
 export function escapeXml(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
+  return text.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c,
+  );
 }
 
 /**
@@ -29,14 +33,23 @@ function compileLogger(warnings: string[]): ReturnType<typeof vega.logger> {
  * SVG text of a Vega-Lite spec (Satyanarayan et al., IEEE TVCG 23, 341, 2017), with a <title> and
  * <desc> for screen readers, and Vega-Lite's compile warnings. Async because Vega's dataflow is.
  */
-export async function renderSvg(spec: TopLevelSpec, accessible: { title: string; description: string }): Promise<{ svg: string; warnings: string[] }> {
+export async function renderSvg(
+  spec: TopLevelSpec,
+  accessible: { title: string; description: string },
+): Promise<{ svg: string; warnings: string[] }> {
   const warnings: string[] = [];
   const compiled = compile(spec, { logger: compileLogger(warnings) }).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none', loader: noNetworkLoader, logLevel: vega.Error });
   try {
     const svg = await view.toSVG();
     const label = ` role="img" aria-label="${escapeXml(accessible.title)}"`;
-    return { svg: svg.replace(/^<svg([^>]*)>/, `<svg$1${label}><title>${escapeXml(accessible.title)}</title><desc>${escapeXml(accessible.description)}</desc>`), warnings };
+    return {
+      svg: svg.replace(
+        /^<svg([^>]*)>/,
+        `<svg$1${label}><title>${escapeXml(accessible.title)}</title><desc>${escapeXml(accessible.description)}</desc>`,
+      ),
+      warnings,
+    };
   } finally {
     view.finalize();
   }

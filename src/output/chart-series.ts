@@ -1,7 +1,16 @@
 // The numbers a control chart draws, from the QC history: each run's value in acquisition order, the
 // baseline (mean and SD) of each period between rebaselines, the EWMA and tabular CUSUM folded as the
 // rules fold them, the flags raised on each run and the runs excluded from the statistics. Pure: no I/O.
-import { resolveBaseline, type BaselineRecord, type ControlDefinition, type ControlObservation, type MetricName, type QcFlag, type Rule, type RuleSet } from '../qc/index.js';
+import {
+  resolveBaseline,
+  type BaselineRecord,
+  type ControlDefinition,
+  type ControlObservation,
+  type MetricName,
+  type QcFlag,
+  type Rule,
+  type RuleSet,
+} from '../qc/index.js';
 import { METRICS, parseIsoToEpochMs, scopeJudgesControl } from '../qc/index.js';
 import { cusumStep, CUSUM_START } from '../qc/rule-kinds/cusum.js';
 import { ewmaLimitHalfWidth, ewmaStep, EWMA_START } from '../qc/rule-kinds/ewma.js';
@@ -76,9 +85,16 @@ export interface ChartInput {
 const DEFAULT_EWMA = { lambda: 0.2, limitWidth: 2.962, restartAfterSignal: true };
 const DEFAULT_CUSUM = { referenceSd: 0.5, decisionSd: 5, restartAfterSignal: true };
 
-function ruleFor<K extends 'ewma' | 'cusum'>(rules: readonly Rule[], kind: K, controlId: string, metric: MetricName): Extract<Rule, { kind: K }> | undefined {
-  return rules.find((rule): rule is Extract<Rule, { kind: K }> =>
-    rule.kind === kind && rule.metric === metric && scopeJudgesControl(rule.scope, controlId));
+function ruleFor<K extends 'ewma' | 'cusum'>(
+  rules: readonly Rule[],
+  kind: K,
+  controlId: string,
+  metric: MetricName,
+): Extract<Rule, { kind: K }> | undefined {
+  return rules.find(
+    (rule): rule is Extract<Rule, { kind: K }> =>
+      rule.kind === kind && rule.metric === metric && scopeJudgesControl(rule.scope, controlId),
+  );
 }
 
 /** EWMA (Roberts 1959, exact limits of Lucas & Saccucci 1990) and tabular CUSUM (Page 1954) of judged runs, restarting after a signal as the rules do. O(n). */
@@ -92,8 +108,18 @@ function foldCharts(
   let ewmaState = EWMA_START;
   let cusumState = CUSUM_START;
   judged.forEach((point, index) => {
-    if (ewma.restartAfterSignal && ewmaState.step > 0 && Math.abs(ewmaState.statistic) > ewmaLimitHalfWidth(ewmaState.step, ewma.lambda, ewma.limitWidth)) ewmaState = EWMA_START;
-    if (cusum.restartAfterSignal && index > 0 && (cusumState.upper > cusum.decisionSd || cusumState.lower > cusum.decisionSd)) cusumState = CUSUM_START;
+    if (
+      ewma.restartAfterSignal &&
+      ewmaState.step > 0 &&
+      Math.abs(ewmaState.statistic) > ewmaLimitHalfWidth(ewmaState.step, ewma.lambda, ewma.limitWidth)
+    )
+      ewmaState = EWMA_START;
+    if (
+      cusum.restartAfterSignal &&
+      index > 0 &&
+      (cusumState.upper > cusum.decisionSd || cusumState.lower > cusum.decisionSd)
+    )
+      cusumState = CUSUM_START;
     const standardized = (point.value - baseline.mean) / baseline.sd;
     ewmaState = ewmaStep(ewmaState, standardized, ewma.lambda);
     cusumState = cusumStep(cusumState, standardized, cusum.referenceSd);
@@ -127,7 +153,10 @@ export function buildControlChart(input: ChartInput): ControlChartData {
   }
   all.sort((a, b) => a.epochMs - b.epochMs || a.setId.localeCompare(b.setId));
   const records = input.baselines
-    .filter((record) => record.controlId === control.id && record.metric === metric && parseIsoToEpochMs(record.fromIso) !== undefined)
+    .filter(
+      (record) =>
+        record.controlId === control.id && record.metric === metric && parseIsoToEpochMs(record.fromIso) !== undefined,
+    )
     .sort((a, b) => (parseIsoToEpochMs(a.fromIso) ?? 0) - (parseIsoToEpochMs(b.fromIso) ?? 0));
   const starts = [-Infinity, ...records.map((record) => parseIsoToEpochMs(record.fromIso) ?? -Infinity)];
   const ewmaRule = ruleFor(input.ruleSet.rules, 'ewma', control.id, metric);
@@ -158,18 +187,42 @@ export function buildControlChart(input: ChartInput): ControlChartData {
       startEpochMs: Number.isFinite(startMs) ? startMs : firstMs,
       endEpochMs: Number.isFinite(endMs) ? endMs : lastMs,
       ...(resolved.status === 'established'
-        ? { baseline: { mean: resolved.baseline.mean, sd: resolved.baseline.sd, runs: resolved.baseline.runs, source: resolved.baseline.source } }
+        ? {
+            baseline: {
+              mean: resolved.baseline.mean,
+              sd: resolved.baseline.sd,
+              runs: resolved.baseline.runs,
+              source: resolved.baseline.source,
+            },
+          }
         : { collecting: { runsSoFar: resolved.runsSoFar, runsNeeded: resolved.runsNeeded } }),
     };
     periods.push(period);
-    const judgedKeys = new Set(resolved.status === 'established' ? resolved.chartSeries.map((point) => `${point.setId}|${point.epochMs}`) : []);
-    const folded = resolved.status === 'established' ? foldCharts(resolved.chartSeries, resolved.baseline, ewma, cusum) : new Map();
+    const judgedKeys = new Set(
+      resolved.status === 'established' ? resolved.chartSeries.map((point) => `${point.setId}|${point.epochMs}`) : [],
+    );
+    const folded =
+      resolved.status === 'established' ? foldCharts(resolved.chartSeries, resolved.baseline, ewma, cusum) : new Map();
     for (const point of inPeriod) {
       const key = `${point.setId}|${point.epochMs}`;
-      const status: ChartPointStatus = excluded.has(point.setId) ? 'excluded' : resolved.status !== 'established' ? 'collecting' : judgedKeys.has(key) ? 'judged' : 'baseline';
-      const deviation = resolved.status === 'established' && status !== 'excluded' ? (point.value - resolved.baseline.mean) / resolved.baseline.sd : undefined;
+      const status: ChartPointStatus = excluded.has(point.setId)
+        ? 'excluded'
+        : resolved.status !== 'established'
+          ? 'collecting'
+          : judgedKeys.has(key)
+            ? 'judged'
+            : 'baseline';
+      const deviation =
+        resolved.status === 'established' && status !== 'excluded'
+          ? (point.value - resolved.baseline.mean) / resolved.baseline.sd
+          : undefined;
       points.push({
-        setId: point.setId, acquiredAt: point.acquiredAt, epochMs: point.epochMs, value: point.value, status, period: index,
+        setId: point.setId,
+        acquiredAt: point.acquiredAt,
+        epochMs: point.epochMs,
+        value: point.value,
+        status,
+        period: index,
         ...(deviation === undefined ? {} : { deviationSd: deviation }),
         ...(folded.get(key) ?? {}),
         flags: flagsBySet.get(point.setId) ?? [],
@@ -184,15 +237,26 @@ export function buildControlChart(input: ChartInput): ControlChartData {
     unit: METRICS[metric].unit,
     points: points.filter((point) => point.epochMs >= since),
     periods: periods.filter((period) => period.endEpochMs >= since),
-    breaks: records.map((record) => ({ epochMs: parseIsoToEpochMs(record.fromIso) ?? 0, iso: record.fromIso })).filter((b) => b.epochMs >= since),
-    ewma: { lambda: ewma.lambda, limitWidth: ewma.limitWidth, ...(ewmaRule === undefined ? {} : { ruleId: ewmaRule.id }) },
-    cusum: { referenceSd: cusum.referenceSd, decisionSd: cusum.decisionSd, ...(cusumRule === undefined ? {} : { ruleId: cusumRule.id }) },
+    breaks: records
+      .map((record) => ({ epochMs: parseIsoToEpochMs(record.fromIso) ?? 0, iso: record.fromIso }))
+      .filter((b) => b.epochMs >= since),
+    ewma: {
+      lambda: ewma.lambda,
+      limitWidth: ewma.limitWidth,
+      ...(ewmaRule === undefined ? {} : { ruleId: ewmaRule.id }),
+    },
+    cusum: {
+      referenceSd: cusum.referenceSd,
+      decisionSd: cusum.decisionSd,
+      ...(cusumRule === undefined ? {} : { ruleId: cusumRule.id }),
+    },
   };
 }
 
 /** The metrics a control has values for, in the METRICS table's order. */
 export function metricsOfControl(observations: readonly ControlObservation[], controlId: string): MetricName[] {
   const present = new Set<string>();
-  for (const observation of observations) if (observation.controlId === controlId) for (const name of Object.keys(observation.metrics)) present.add(name);
+  for (const observation of observations)
+    if (observation.controlId === controlId) for (const name of Object.keys(observation.metrics)) present.add(name);
   return (Object.keys(METRICS) as MetricName[]).filter((name) => present.has(name));
 }

@@ -24,13 +24,19 @@ export function selectControls(ruleSet: RuleSet, controlId?: string): ControlDef
   const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
   if (control === undefined) {
     const known = ruleSet.controls.map((candidate) => candidate.id);
-    throw new RangeError(`no control "${controlId}" in the rule set or config (known: ${known.length === 0 ? 'none' : known.join(', ')})`);
+    throw new RangeError(
+      `no control "${controlId}" in the rule set or config (known: ${known.length === 0 ? 'none' : known.join(', ')})`,
+    );
   }
   return [control];
 }
 
 /** Chart data for each selected control and metric, read from the ledger. O(history × charts). */
-export function controlChartsFromLedger(ledger: Ledger, ruleSet: RuleSet, selection: ChartSelection = {}): ControlChartData[] {
+export function controlChartsFromLedger(
+  ledger: Ledger,
+  ruleSet: RuleSet,
+  selection: ChartSelection = {},
+): ControlChartData[] {
   const controls = selectControls(ruleSet, selection.controlId).filter((control) => control.id !== INSTRUMENT_SCOPE);
   const ids = controls.map((control) => control.id);
   const observations = observationHistory(ledger, ids);
@@ -41,11 +47,18 @@ export function controlChartsFromLedger(ledger: Ledger, ruleSet: RuleSet, select
   for (const control of controls) {
     const metrics = selection.metric === undefined ? metricsOfControl(observations, control.id) : [selection.metric];
     for (const metric of metrics) {
-      charts.push(buildControlChart({
-        control, metric, ruleSet, observations, baselines, flags: flags.filter((flag) => flag.controlId === control.id),
-        excludedSetIds: excluded,
-        ...(selection.sinceEpochMs === undefined ? {} : { sinceEpochMs: selection.sinceEpochMs }),
-      }));
+      charts.push(
+        buildControlChart({
+          control,
+          metric,
+          ruleSet,
+          observations,
+          baselines,
+          flags: flags.filter((flag) => flag.controlId === control.id),
+          excludedSetIds: excluded,
+          ...(selection.sinceEpochMs === undefined ? {} : { sinceEpochMs: selection.sinceEpochMs }),
+        }),
+      );
     }
   }
   return charts;

@@ -33,26 +33,40 @@ export function controlChartText(chart: ControlChartData): string {
   const lines = [`control ${chart.controlId} · ${axisTitle(chart)} · ${chart.points.length} runs`];
   const ewmaSource = chart.ewma.ruleId === undefined ? 'kind defaults' : `rule ${chart.ewma.ruleId}`;
   const cusumSource = chart.cusum.ruleId === undefined ? 'kind defaults' : `rule ${chart.cusum.ruleId}`;
-  lines.push(`EWMA λ = ${chart.ewma.lambda}, L = ${chart.ewma.limitWidth} (${ewmaSource}); CUSUM k = ${chart.cusum.referenceSd} SD, h = ${chart.cusum.decisionSd} SD (${cusumSource})`);
-  lines.push(`marks: * judged run, o baseline run, ! flagged, x excluded, ? baseline being collected; ruler −3 … +3 SD`);
+  lines.push(
+    `EWMA λ = ${chart.ewma.lambda}, L = ${chart.ewma.limitWidth} (${ewmaSource}); CUSUM k = ${chart.cusum.referenceSd} SD, h = ${chart.cusum.decisionSd} SD (${cusumSource})`,
+  );
+  lines.push(
+    `marks: * judged run, o baseline run, ! flagged, x excluded, ? baseline being collected; ruler −3 … +3 SD`,
+  );
   for (const period of chart.periods) {
     const points = chart.points.filter((point) => point.period === period.index);
     if (points.length === 0) continue;
     lines.push('');
     const heading = period.fromIso === undefined ? 'period 1' : `rebaseline from ${period.fromIso}`;
-    lines.push(period.baseline === undefined
-      ? `── ${heading}: baseline not established (${period.collecting?.runsSoFar ?? 0} of ${period.collecting?.runsNeeded ?? 0} runs)`
-      : `── ${heading}: mean ${formatMetricValue(chart.metric, period.baseline.mean)}, SD ${formatMetricValue(chart.metric, period.baseline.sd)} (${period.baseline.source}, ${period.baseline.runs} runs)`);
-    lines.push(`${'acquired (UTC)'.padEnd(17)} ${'value'.padStart(14)}  ${'-3  -2  -1   0  +1  +2  +3'.padStart(28)}  ${'SD'.padStart(6)}  ${'EWMA'.padStart(12)}  ${'CUSUM+/-'.padStart(11)}  flags`);
+    lines.push(
+      period.baseline === undefined
+        ? `── ${heading}: baseline not established (${period.collecting?.runsSoFar ?? 0} of ${period.collecting?.runsNeeded ?? 0} runs)`
+        : `── ${heading}: mean ${formatMetricValue(chart.metric, period.baseline.mean)}, SD ${formatMetricValue(chart.metric, period.baseline.sd)} (${period.baseline.source}, ${period.baseline.runs} runs)`,
+    );
+    lines.push(
+      `${'acquired (UTC)'.padEnd(17)} ${'value'.padStart(14)}  ${'-3  -2  -1   0  +1  +2  +3'.padStart(28)}  ${'SD'.padStart(6)}  ${'EWMA'.padStart(12)}  ${'CUSUM+/-'.padStart(11)}  flags`,
+    );
     for (const point of points) {
       const when = point.acquiredAt.replace('T', ' ').slice(0, 16);
       const value = formatMetricValue(chart.metric, point.value);
       const mark = point.status === 'excluded' ? 'x' : point.status === 'collecting' ? '?' : markOf(point);
-      const deviation = point.deviationSd === undefined ? '' : `${point.deviationSd >= 0 ? '+' : ''}${point.deviationSd.toFixed(2)}`;
+      const deviation =
+        point.deviationSd === undefined ? '' : `${point.deviationSd >= 0 ? '+' : ''}${point.deviationSd.toFixed(2)}`;
       const ewma = point.ewma === undefined ? '' : formatMetricValue(chart.metric, point.ewma);
-      const cusum = point.cusumUpperSd === undefined || point.cusumLowerSd === undefined ? '' : `${point.cusumUpperSd.toFixed(1)}/${point.cusumLowerSd.toFixed(1)}`;
+      const cusum =
+        point.cusumUpperSd === undefined || point.cusumLowerSd === undefined
+          ? ''
+          : `${point.cusumUpperSd.toFixed(1)}/${point.cusumLowerSd.toFixed(1)}`;
       const note = point.status === 'excluded' ? 'excluded' : point.flags.join(', ');
-      lines.push(`${when.padEnd(17)} ${value.padStart(14)}  ${ruler(point.status === 'excluded' ? undefined : point.deviationSd, mark)}  ${deviation.padStart(6)}  ${ewma.padStart(12)}  ${cusum.padStart(11)}  ${note}`.trimEnd());
+      lines.push(
+        `${when.padEnd(17)} ${value.padStart(14)}  ${ruler(point.status === 'excluded' ? undefined : point.deviationSd, mark)}  ${deviation.padStart(6)}  ${ewma.padStart(12)}  ${cusum.padStart(11)}  ${note}`.trimEnd(),
+      );
     }
   }
   if (chart.points.length === 0) lines.push('no runs in the period shown');

@@ -15,8 +15,18 @@ export interface DigestOutcome {
 }
 
 /** Builds the digest of `date` (YYYY-MM-DD in the digest's zone), writes it under results/digest/ and e-mails it when configured. */
-export async function buildDigest(ledger: Ledger, config: DriftlightConfig, ruleSet: RuleSet, options: { date: string; now: Date; softwareVersion: string }): Promise<DigestOutcome> {
-  const data = gatherDigest(ledger, config, { date: options.date, ruleSet, now: options.now, softwareVersion: options.softwareVersion });
+export async function buildDigest(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  ruleSet: RuleSet,
+  options: { date: string; now: Date; softwareVersion: string },
+): Promise<DigestOutcome> {
+  const data = gatherDigest(ledger, config, {
+    date: options.date,
+    ruleSet,
+    now: options.now,
+    softwareVersion: options.softwareVersion,
+  });
   const forms = await renderDigest(data);
   const paths = writeDigest(config, data, forms);
   const channel = digestEmailChannel(config);

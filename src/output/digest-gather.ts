@@ -4,17 +4,39 @@ import { existsSync, readFileSync, statSync } from 'node:fs';
 import { basename, dirname, isAbsolute, join } from 'node:path';
 import type { AnalysisResult } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/index.js';
-import { INSTRUMENT_SCOPE, METRICS, epochMsToIso, localParts, parseIsoToEpochMs, zonedTimeToEpochMs, type MetricName, type RuleSet } from '../qc/index.js';
+import {
+  INSTRUMENT_SCOPE,
+  METRICS,
+  epochMsToIso,
+  localParts,
+  parseIsoToEpochMs,
+  zonedTimeToEpochMs,
+  type MetricName,
+  type RuleSet,
+} from '../qc/index.js';
 import { civilFromDays, daysFromCivil } from '../qc/time.js';
 import type { Ledger } from '../store/ledger.js';
 import { observationHistory } from '../store/qc-store.js';
 import { undeliveredAlerts } from '../store/alert-outbox.js';
 import { excludedSetIds } from '../store/qc-actions-store.js';
-import { deliveriesBetween, filesReceivedBetween, flagsOfControls, rejectionsBetween, waitingSets } from '../store/report-queries.js';
+import {
+  deliveriesBetween,
+  filesReceivedBetween,
+  flagsOfControls,
+  rejectionsBetween,
+  waitingSets,
+} from '../store/report-queries.js';
 import { resultsBetween } from '../store/results.js';
 import { controlChartsFromLedger } from './chart-source.js';
 import { dayFolderName } from './dated-path.js';
-import { DIGEST_SCHEMA, type ControlVerdict, type DecayPlotData, type DigestData, type HealthTrend, type SpectrumPlotData } from './digest-model.js';
+import {
+  DIGEST_SCHEMA,
+  type ControlVerdict,
+  type DecayPlotData,
+  type DigestData,
+  type HealthTrend,
+  type SpectrumPlotData,
+} from './digest-model.js';
 import { summaryRowOf, type SummaryRow } from './summary-table.js';
 
 /** Instrument metrics whose trends the digest shows (instrument scope), and the control metric of light throughput. */
@@ -82,9 +104,17 @@ export function readOutboxCsv(text: string): { header: string[]; columns: number
  * The outbox file of a set: outbox/DAY/SET/SET+suffix, DAY being the day folder of its result file
  * (the outbox and results use the same day), else its acquisition or creation day (UTC).
  */
-function outboxFile(outboxDir: string, located: { result: AnalysisResult; createdAt: string | undefined; path: string }, suffix: string): string | undefined {
+function outboxFile(
+  outboxDir: string,
+  located: { result: AnalysisResult; createdAt: string | undefined; path: string },
+  suffix: string,
+): string | undefined {
   const { result, createdAt, path } = located;
-  const days = [basename(dirname(path)), result.acquiredAt?.slice(0, 10), createdAt === undefined ? undefined : dayFolderName(new Date(createdAt))];
+  const days = [
+    basename(dirname(path)),
+    result.acquiredAt?.slice(0, 10),
+    createdAt === undefined ? undefined : dayFolderName(new Date(createdAt)),
+  ];
   for (const day of days) {
     if (day === undefined || !/^\d{4}-\d{2}-\d{2}$/.test(day)) continue;
     const candidate = join(outboxDir, day, result.setId, `${result.setId}${suffix}`);
@@ -93,7 +123,10 @@ function outboxFile(outboxDir: string, located: { result: AnalysisResult; create
   return undefined;
 }
 
-function decayPlot(outboxDir: string, located: { result: AnalysisResult; createdAt: string | undefined; path: string }): DecayPlotData | string {
+function decayPlot(
+  outboxDir: string,
+  located: { result: AnalysisResult; createdAt: string | undefined; path: string },
+): DecayPlotData | string {
   const { result } = located;
   const file = outboxFile(outboxDir, located, '.decay.fit.csv');
   if (file === undefined) return `no fitted decay in the outbox for ${result.setId}`;
@@ -103,16 +136,25 @@ function decayPlot(outboxDir: string, located: { result: AnalysisResult; created
   const counts = at('counts');
   const fit = at('fit');
   const residual = at('weighted residual');
-  if (timeNs === undefined || counts === undefined || fit === undefined || residual === undefined) return `${file}: no fit columns`;
+  if (timeNs === undefined || counts === undefined || fit === undefined || residual === undefined)
+    return `${file}: no fit columns`;
   const inRange = fit.map((value, i) => (value !== 0 || residual[i] !== 0 ? i : -1)).filter((i) => i >= 0);
   return {
-    setId: result.setId, sampleId: result.sampleId, timeNs, counts, fit, weightedResidual: residual,
+    setId: result.setId,
+    sampleId: result.sampleId,
+    timeNs,
+    counts,
+    fit,
+    weightedResidual: residual,
     fitRange: [inRange[0] ?? 0, inRange[inRange.length - 1] ?? 0],
     ...(result.decayFit === undefined ? {} : { chi2Reduced: result.decayFit.chi2Reduced }),
   };
 }
 
-function emissionPlot(outboxDir: string, located: { result: AnalysisResult; createdAt: string | undefined; path: string }): SpectrumPlotData | undefined {
+function emissionPlot(
+  outboxDir: string,
+  located: { result: AnalysisResult; createdAt: string | undefined; path: string },
+): SpectrumPlotData | undefined {
   const { result } = located;
   const file = outboxFile(outboxDir, located, '.emission.corrected.csv');
   if (file === undefined) return undefined;
@@ -120,7 +162,14 @@ function emissionPlot(outboxDir: string, located: { result: AnalysisResult; crea
   const wavelengthNm = columns[0];
   const values = columns[1];
   if (wavelengthNm === undefined || values === undefined || !/nm/.test(header[0] ?? '')) return undefined;
-  return { setId: result.setId, sampleId: result.sampleId, role: result.role, wavelengthNm, values, valueUnit: result.spectra.emission?.valueUnit ?? 'a.u.' };
+  return {
+    setId: result.setId,
+    sampleId: result.sampleId,
+    role: result.role,
+    wavelengthNm,
+    values,
+    valueUnit: result.spectra.emission?.valueUnit ?? 'a.u.',
+  };
 }
 
 export interface GatherOptions {
@@ -160,7 +209,12 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
   }
   const byRole: Record<string, number> = {};
   for (const { result } of results) byRole[result.role] = (byRole[result.role] ?? 0) + 1;
-  const samples: SummaryRow[] = results.map(({ result, path }) => summaryRowOf(result, path.startsWith(config.folders.results) ? path.slice(config.folders.results.length + 1) : path));
+  const samples: SummaryRow[] = results.map(({ result, path }) =>
+    summaryRowOf(
+      result,
+      path.startsWith(config.folders.results) ? path.slice(config.folders.results.length + 1) : path,
+    ),
+  );
 
   const controlIds = ruleSet.controls.map((control) => control.id);
   const observations = observationHistory(ledger);
@@ -174,8 +228,23 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
     });
     const runIds = new Set(runs.map((run) => run.setId));
     const flags = allFlags
-      .filter((flag) => flag.controlId === control.id && (runIds.has(flag.setId) || (flag.setId === '' && (parseIsoToEpochMs(flag.acquiredAt) ?? Number.NaN) >= fromMs && (parseIsoToEpochMs(flag.acquiredAt) ?? Number.NaN) < toMs)))
-      .map((flag) => ({ ruleId: flag.ruleId, check: flag.check, severity: flag.severity, metric: flag.metric, message: flag.message, setId: flag.setId, acquiredAt: flag.acquiredAt }));
+      .filter(
+        (flag) =>
+          flag.controlId === control.id &&
+          (runIds.has(flag.setId) ||
+            (flag.setId === '' &&
+              (parseIsoToEpochMs(flag.acquiredAt) ?? Number.NaN) >= fromMs &&
+              (parseIsoToEpochMs(flag.acquiredAt) ?? Number.NaN) < toMs)),
+      )
+      .map((flag) => ({
+        ruleId: flag.ruleId,
+        check: flag.check,
+        severity: flag.severity,
+        metric: flag.metric,
+        message: flag.message,
+        setId: flag.setId,
+        acquiredAt: flag.acquiredAt,
+      }));
     const serious = flags.some((flag) => flag.severity !== 'info');
     return {
       controlId: control.id,
@@ -188,7 +257,8 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
   });
   const excluded = options.excludedSetIds ?? excludedSetIds(ledger);
   const charts = DIGEST_CHART_METRICS.flatMap((metric) =>
-    controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs: historyFromMs, excludedSetIds: excluded }))
+    controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs: historyFromMs, excludedSetIds: excluded }),
+  )
     .filter((chart) => chart.points.length > 0)
     .sort((a, b) => a.controlId.localeCompare(b.controlId));
 
@@ -200,13 +270,19 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       .flatMap((o) => {
         const value = o.metrics[metric];
         const epochMs = parseIsoToEpochMs(o.acquiredAt);
-        return value === undefined || epochMs === undefined || epochMs < historyFromMs || epochMs >= toMs ? [] : [{ acquiredAt: o.acquiredAt, epochMs, value }];
+        return value === undefined || epochMs === undefined || epochMs < historyFromMs || epochMs >= toMs
+          ? []
+          : [{ acquiredAt: o.acquiredAt, epochMs, value }];
       })
       .sort((a, b) => a.epochMs - b.epochMs);
     const slope = slopePerDay(points);
     const latest = points[points.length - 1]?.value;
     return {
-      scope, metric, label: METRICS[metric].label, unit: METRICS[metric].unit, points,
+      scope,
+      metric,
+      label: METRICS[metric].label,
+      unit: METRICS[metric].unit,
+      points,
       ...(latest === undefined ? {} : { latest, windowMean: points.reduce((s, p) => s + p.value, 0) / points.length }),
       ...(slope === undefined ? {} : { slopePerDay: slope }),
     };
@@ -216,12 +292,14 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
     ...controlIds.flatMap((id) => CONTROL_HEALTH_METRICS.map((metric) => trend(id, metric))),
   ];
   const curveFile = config.instrument.detectorCorrectionFile;
-  const curvePath = curveFile === undefined ? undefined : isAbsolute(curveFile) ? curveFile : join(config.baseDir, curveFile);
-  const detectorCurve = curvePath === undefined
-    ? { note: 'no detector curve configured (instrument.detectorCorrectionFile)' }
-    : existsSync(curvePath)
-      ? { file: curvePath, ageDays: (options.now.getTime() - statSync(curvePath).mtimeMs) / 86_400_000 }
-      : { file: curvePath, note: 'the configured detector curve file does not exist' };
+  const curvePath =
+    curveFile === undefined ? undefined : isAbsolute(curveFile) ? curveFile : join(config.baseDir, curveFile);
+  const detectorCurve =
+    curvePath === undefined
+      ? { note: 'no detector curve configured (instrument.detectorCorrectionFile)' }
+      : existsSync(curvePath)
+        ? { file: curvePath, ageDays: (options.now.getTime() - statSync(curvePath).mtimeMs) / 86_400_000 }
+        : { file: curvePath, note: 'the configured detector curve file does not exist' };
 
   const waiting = waitingWithLacks(ledger, config);
 
@@ -240,26 +318,55 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       const plot = emissionPlot(config.folders.outbox, located);
       return plot === undefined ? [] : [plot];
     });
-  if (emission.length > MAX_SPECTRA) notes.push(`${emission.length} corrected emission spectra today; the plot overlays the first ${MAX_SPECTRA}`);
+  if (emission.length > MAX_SPECTRA)
+    notes.push(`${emission.length} corrected emission spectra today; the plot overlays the first ${MAX_SPECTRA}`);
 
   const deliveries = deliveriesBetween(ledger, fromMs, toMs);
   return {
     schema: DIGEST_SCHEMA,
-    date, timeZone, fromIso, toIso,
+    date,
+    timeZone,
+    fromIso,
+    toIso,
     generatedAt: options.now.toISOString(),
     softwareVersion: options.softwareVersion,
     files: { received: received.length, byState },
     sets: { processed: results.length, partial: results.filter(({ result }) => result.partial).length, byRole },
-    rejections: rejectionsBetween(ledger, fromIso, toIso).map((r) => ({ name: r.name, state: r.state, code: r.code ?? '', message: r.message ?? '', at: r.updatedAt })),
+    rejections: rejectionsBetween(ledger, fromIso, toIso).map((r) => ({
+      name: r.name,
+      state: r.state,
+      code: r.code ?? '',
+      message: r.message ?? '',
+      at: r.updatedAt,
+    })),
     alerts: {
       delivered: deliveries.filter((d) => d.status === 'delivered').length,
       failed: deliveries.filter((d) => d.status === 'failed').length,
-      deliveries: deliveries.map((d) => ({ channelId: d.channelId, key: d.key, type: d.type, severity: d.severity, status: d.status, attempts: d.attempts, error: d.error, at: epochMsToIso(d.atMs) })),
-      undelivered: undeliveredAlerts(ledger, 100).latest.map((d) => ({ channelId: d.channelId, key: d.key, severity: d.severity, status: d.status, attempts: d.attempts, error: d.lastError, at: epochMsToIso(d.createdAtMs) })),
+      deliveries: deliveries.map((d) => ({
+        channelId: d.channelId,
+        key: d.key,
+        type: d.type,
+        severity: d.severity,
+        status: d.status,
+        attempts: d.attempts,
+        error: d.error,
+        at: epochMsToIso(d.atMs),
+      })),
+      undelivered: undeliveredAlerts(ledger, 100).latest.map((d) => ({
+        channelId: d.channelId,
+        key: d.key,
+        severity: d.severity,
+        status: d.status,
+        attempts: d.attempts,
+        error: d.lastError,
+        at: epochMsToIso(d.createdAtMs),
+      })),
     },
-    controls, charts,
+    controls,
+    charts,
     health: { trends, detectorCurve, historyDays: config.digest.historyDays },
-    samples, waiting,
+    samples,
+    waiting,
     plots: { ...(controlDecay === undefined ? {} : { controlDecay }), emission: emission.slice(0, MAX_SPECTRA), notes },
   };
 }
@@ -278,14 +385,26 @@ export interface WaitingWithLacks {
 /** Waiting sets (open or queued) with what each has and lacks of the parts its role requires (assembly.requiredParts, assembly.referenceRequiredParts). */
 export function waitingWithLacks(ledger: Ledger, config: DriftlightConfig): WaitingWithLacks[] {
   const requiredFor = (role: string): readonly string[] =>
-    role === 'reference' ? config.assembly.referenceRequiredParts : role === 'sample' || role === 'control' ? config.assembly.requiredParts : [];
+    role === 'reference'
+      ? config.assembly.referenceRequiredParts
+      : role === 'sample' || role === 'control'
+        ? config.assembly.requiredParts
+        : [];
   return waitingSets(ledger).map((set) => {
     const has = new Set<string>();
     for (const file of set.files) {
       if (file.part !== null) has.add(file.part);
       if (file.part === 'decay' && file.hasIrfColumn) has.add('irf');
     }
-    return { setId: set.setId, sampleId: set.sampleId, role: set.role, state: set.state, since: set.createdAt, has: [...has].sort(), lacks: requiredFor(set.role).filter((part) => !has.has(part)) };
+    return {
+      setId: set.setId,
+      sampleId: set.sampleId,
+      role: set.role,
+      state: set.state,
+      since: set.createdAt,
+      has: [...has].sort(),
+      lacks: requiredFor(set.role).filter((part) => !has.has(part)),
+    };
   });
 }
 

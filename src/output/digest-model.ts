@@ -16,7 +16,11 @@ export interface ControlVerdict {
   readonly label: string;
   /** 'in control': runs today and no warning or critical flag; 'flagged': at least one; 'no run': none today. */
   readonly verdict: 'in control' | 'flagged' | 'no run';
-  readonly runs: readonly { readonly setId: string; readonly acquiredAt: string; readonly metrics: Readonly<Partial<Record<MetricName, number>>> }[];
+  readonly runs: readonly {
+    readonly setId: string;
+    readonly acquiredAt: string;
+    readonly metrics: Readonly<Partial<Record<MetricName, number>>>;
+  }[];
   readonly flags: readonly DigestFlag[];
   /** Flags of this control still open (any day). */
   readonly openFlags: number;
@@ -73,19 +77,62 @@ export interface DigestData {
   readonly generatedAt: string;
   readonly softwareVersion: string;
   readonly files: { readonly received: number; readonly byState: Readonly<Record<string, number>> };
-  readonly sets: { readonly processed: number; readonly partial: number; readonly byRole: Readonly<Record<string, number>> };
-  readonly rejections: readonly { readonly name: string; readonly state: string; readonly code: string; readonly message: string; readonly at: string }[];
+  readonly sets: {
+    readonly processed: number;
+    readonly partial: number;
+    readonly byRole: Readonly<Record<string, number>>;
+  };
+  readonly rejections: readonly {
+    readonly name: string;
+    readonly state: string;
+    readonly code: string;
+    readonly message: string;
+    readonly at: string;
+  }[];
   readonly alerts: {
     readonly delivered: number;
     readonly failed: number;
-    readonly deliveries: readonly { readonly channelId: string; readonly key: string; readonly type: string; readonly severity: string; readonly status: string; readonly attempts: number; readonly error: string | null; readonly at: string }[];
+    readonly deliveries: readonly {
+      readonly channelId: string;
+      readonly key: string;
+      readonly type: string;
+      readonly severity: string;
+      readonly status: string;
+      readonly attempts: number;
+      readonly error: string | null;
+      readonly at: string;
+    }[];
     /** Alerts not delivered (any day) from the durable alert outbox: 'pending' still retried, 'expired' given up; newest first. */
-    readonly undelivered: readonly { readonly channelId: string; readonly key: string; readonly severity: string; readonly status: 'pending' | 'expired'; readonly attempts: number; readonly error: string | null; readonly at: string }[];
+    readonly undelivered: readonly {
+      readonly channelId: string;
+      readonly key: string;
+      readonly severity: string;
+      readonly status: 'pending' | 'expired';
+      readonly attempts: number;
+      readonly error: string | null;
+      readonly at: string;
+    }[];
   };
   readonly controls: readonly ControlVerdict[];
   readonly charts: readonly ControlChartData[];
-  readonly health: { readonly trends: readonly HealthTrend[]; readonly detectorCurve: DetectorCurveAge; readonly historyDays: number };
+  readonly health: {
+    readonly trends: readonly HealthTrend[];
+    readonly detectorCurve: DetectorCurveAge;
+    readonly historyDays: number;
+  };
   readonly samples: readonly SummaryRow[];
-  readonly waiting: readonly { readonly setId: string; readonly sampleId: string; readonly role: string; readonly state: string; readonly since: string; readonly has: readonly string[]; readonly lacks: readonly string[] }[];
-  readonly plots: { readonly controlDecay?: DecayPlotData; readonly emission: readonly SpectrumPlotData[]; readonly notes: readonly string[] };
+  readonly waiting: readonly {
+    readonly setId: string;
+    readonly sampleId: string;
+    readonly role: string;
+    readonly state: string;
+    readonly since: string;
+    readonly has: readonly string[];
+    readonly lacks: readonly string[];
+  }[];
+  readonly plots: {
+    readonly controlDecay?: DecayPlotData;
+    readonly emission: readonly SpectrumPlotData[];
+    readonly notes: readonly string[];
+  };
 }

@@ -53,7 +53,8 @@ export function startDigestSchedule(options: DigestScheduleOptions): DigestSched
     return next;
   };
   const due = dueDigestDate(options.config.digest.time, options.timeZone, now());
-  const caughtUp = due === undefined || digestExists(options.config, due) ? Promise.resolve(undefined) : run(due).then(() => due);
+  const caughtUp =
+    due === undefined || digestExists(options.config, due) ? Promise.resolve(undefined) : run(due).then(() => due);
   const job = new Cron(cronPatternOf(options.config.digest.time), { timezone: options.timeZone, protect: true }, () => {
     void run(previousDay(localDate(now(), options.timeZone)));
   });

@@ -45,27 +45,41 @@ export function digestEmailChannel(config: DriftlightConfig): EmailChannelConfig
   const channel = config.alerts.channels.find((candidate) => candidate.id === id);
   if (channel?.type !== 'email') {
     throw new ConfigInvalid(`digest.emailChannel "${id}" is not an e-mail channel under alerts.channels`, {
-      configPath: 'digest.emailChannel', hint: 'Name the id of an alerts.channels entry with type: email, or remove digest.emailChannel.',
+      configPath: 'digest.emailChannel',
+      hint: 'Name the id of an alerts.channels entry with type: email, or remove digest.emailChannel.',
     });
   }
   return channel;
 }
 
 /** Sends the digest (HTML with a plain-text part) through the e-mail channel's SMTP server (RFC 2046 multipart/alternative). */
-export async function emailDigest(channel: EmailChannelConfig, data: DigestData, forms: DigestForms, env: NodeJS.ProcessEnv = process.env): Promise<void> {
+export async function emailDigest(
+  channel: EmailChannelConfig,
+  data: DigestData,
+  forms: DigestForms,
+  env: NodeJS.ProcessEnv = process.env,
+): Promise<void> {
   const password = channel.passwordEnv === undefined ? undefined : env[channel.passwordEnv];
   if (channel.passwordEnv !== undefined && (password === undefined || password === '')) {
-    throw new ConfigInvalid(`environment variable ${channel.passwordEnv} (the SMTP password) is not set`, { configPath: 'digest.emailChannel' });
+    throw new ConfigInvalid(`environment variable ${channel.passwordEnv} (the SMTP password) is not set`, {
+      configPath: 'digest.emailChannel',
+    });
   }
   const transport = nodemailer.createTransport({
-    host: channel.host, port: channel.port, secure: channel.secure, requireTLS: !channel.secure && !channel.allowPlainText,
-    connectionTimeout: channel.timeoutMs, greetingTimeout: channel.timeoutMs, socketTimeout: channel.timeoutMs,
+    host: channel.host,
+    port: channel.port,
+    secure: channel.secure,
+    requireTLS: !channel.secure && !channel.allowPlainText,
+    connectionTimeout: channel.timeoutMs,
+    greetingTimeout: channel.timeoutMs,
+    socketTimeout: channel.timeoutMs,
     ...(channel.username === undefined ? {} : { auth: { user: channel.username, pass: password ?? '' } }),
   });
   try {
     const flagged = data.controls.filter((c) => c.verdict === 'flagged').length;
     await transport.sendMail({
-      from: channel.from, to: [...channel.to],
+      from: channel.from,
+      to: [...channel.to],
       subject: `driftlight digest ${data.date}: ${data.sets.processed} sets, ${data.rejections.length} rejected, ${flagged === 0 ? 'controls in control' : `${flagged} control(s) flagged`}`,
       text: forms.markdown,
       html: forms.html,

@@ -21,4 +21,10 @@ export function isGoneError(error: unknown): boolean {
  * EPERM; some network and FUSE file systems: EINVAL, ENOTSUP). The rename is still atomic there;
  * only its durability cannot be asked for.
  */
-export const FOLDER_FSYNC_UNSUPPORTED_CODES: ReadonlySet<string> = new Set(['EISDIR', 'EPERM', 'EINVAL', 'ENOTSUP', 'EOPNOTSUPP']);
+export const FOLDER_FSYNC_UNSUPPORTED_CODES: ReadonlySet<string> = new Set([
+  'EISDIR',
+  'EPERM',
+  'EINVAL',
+  'ENOTSUP',
+  'EOPNOTSUPP',
+]);

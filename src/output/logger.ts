@@ -18,7 +18,11 @@ export function reopenLogFiles(): void {
 }
 
 /** Creates the logger for `logging` config writing to `logFile`; stdout lines go to `stdoutStream`. */
-export function createLogger(logging: LoggingConfig, logFile: string, stdoutStream: NodeJS.WritableStream = process.stdout): Logger {
+export function createLogger(
+  logging: LoggingConfig,
+  logFile: string,
+  stdoutStream: NodeJS.WritableStream = process.stdout,
+): Logger {
   mkdirSync(dirname(logFile), { recursive: true });
   const level: Level = logging.level === 'silent' ? 'fatal' : logging.level;
   const file = pino.destination({ dest: logFile, sync: false, mkdir: true });
@@ -29,7 +33,16 @@ export function createLogger(logging: LoggingConfig, logFile: string, stdoutStre
   const mode = logging.stdout === 'auto' ? (isTty ? 'pretty' : 'json') : logging.stdout;
   if (mode === 'json') streams.push({ level, stream: stdoutStream });
   if (mode === 'pretty') {
-    streams.push({ level, stream: pino.transport({ target: 'pino-pretty', options: { colorize: true, destination: 1 } }) as unknown as NodeJS.WritableStream });
+    streams.push({
+      level,
+      stream: pino.transport({
+        target: 'pino-pretty',
+        options: { colorize: true, destination: 1 },
+      }) as unknown as NodeJS.WritableStream,
+    });
   }
-  return pino({ level: logging.level, base: { app: 'driftlight' }, timestamp: pino.stdTimeFunctions.isoTime }, pino.multistream(streams));
+  return pino(
+    { level: logging.level, base: { app: 'driftlight' }, timestamp: pino.stdTimeFunctions.isoTime },
+    pino.multistream(streams),
+  );
 }

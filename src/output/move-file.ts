@@ -3,7 +3,18 @@
 // the unlink cannot lose the only copy. Idempotent when the source is already gone. The target
 // folder is created only when the rename finds it missing. A symbolic link is moved as the link
 // itself (never the file it points to, which may lie outside the inbox).
-import { closeSync, copyFileSync, fsyncSync, lstatSync, mkdirSync, openSync, readlinkSync, renameSync, rmSync, symlinkSync } from 'node:fs';
+import {
+  closeSync,
+  copyFileSync,
+  fsyncSync,
+  lstatSync,
+  mkdirSync,
+  openSync,
+  readlinkSync,
+  renameSync,
+  rmSync,
+  symlinkSync,
+} from 'node:fs';
 import { dirname } from 'node:path';
 import { fsyncDirectory } from './atomic-write.js';
 

@@ -43,7 +43,13 @@ function isOccupied(error: unknown): boolean {
  * is the durable record, and outbox files are rewritten on a re-run. A crash can leave a hidden
  * `.<setId>.*.tmp` folder in the day folder, which downstream tools skip as they skip any dot-folder.
  */
-export function writeOutbox(outboxDir: string, setId: string, filedAt: Date, artifacts: readonly OutboxArtifact[], timeZone = 'UTC'): string[] {
+export function writeOutbox(
+  outboxDir: string,
+  setId: string,
+  filedAt: Date,
+  artifacts: readonly OutboxArtifact[],
+  timeZone = 'UTC',
+): string[] {
   if (artifacts.length === 0) return [];
   const dayDir = join(outboxDir, dayFolderName(filedAt, timeZone));
   const dir = join(dayDir, setId);
@@ -62,7 +68,9 @@ export function writeOutbox(outboxDir: string, setId: string, filedAt: Date, art
     rmSync(temp, { recursive: true, force: true });
     if (!isOccupied(error)) throw error;
     // The set folder exists with files in it (a re-run): replace each file atomically.
-    artifacts.forEach((artifact, i) => writeFileAtomic(join(dir, names[i] ?? ''), artifact.content, { durable: false }));
+    artifacts.forEach((artifact, i) =>
+      writeFileAtomic(join(dir, names[i] ?? ''), artifact.content, { durable: false }),
+    );
   }
   return names.map((name) => join(dir, name));
 }

@@ -19,7 +19,12 @@ export function serializeResult(result: AnalysisResult): string {
 }
 
 /** Writes the result atomically with its fsync off the event loop (and its folder's, unless `syncFolder` is false: the caller then fsyncs it once for a batch); returns its path and the sha256 of the bytes written. */
-export async function writeResult(resultsDir: string, result: AnalysisResult, filedAt: Date, options: { syncFolder?: boolean; timeZone?: string } = {}): Promise<{ path: string; sha256: string }> {
+export async function writeResult(
+  resultsDir: string,
+  result: AnalysisResult,
+  filedAt: Date,
+  options: { syncFolder?: boolean; timeZone?: string } = {},
+): Promise<{ path: string; sha256: string }> {
   const path = resultPathFor(resultsDir, result.setId, filedAt, options.timeZone);
   const text = serializeResult(result);
   await writeFileAtomicAsync(path, text, options);

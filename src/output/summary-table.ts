@@ -54,7 +54,10 @@ export function summaryRowOf(result: AnalysisResult, resultPath: string): Summar
     quantumYieldStdUncertainty: qy?.standardUncertainty ?? null,
     standardId: qy?.standardId ?? null,
     components: (fit?.components ?? []).map((c) => ({
-      tauNs: c.tauNs, tauNsStdErr: c.tauNsStdErr ?? null, amplitudeFraction: c.amplitudeFraction, intensityFraction: c.intensityFraction,
+      tauNs: c.tauNs,
+      tauNsStdErr: c.tauNsStdErr ?? null,
+      amplitudeFraction: c.amplitudeFraction,
+      intensityFraction: c.intensityFraction,
     })),
     tauMeanIntensityNs: fit?.tauMeanIntensityNs ?? null,
     chi2Reduced: fit?.chi2Reduced ?? null,
@@ -89,25 +92,36 @@ export function rowTimeMs(row: Pick<SummaryRow, 'acquiredAt' | 'analyzedAt'>): n
  * by acquisition time (analysis time when the files gave none), oldest first. Unreadable files are
  * returned in `skipped` with the reason, never dropped silently.
  */
-export function readSummaryRows(resultsDir: string, fromMs = -Infinity, toMs = Infinity): { rows: SummaryRow[]; skipped: { path: string; reason: string }[] } {
+export function readSummaryRows(
+  resultsDir: string,
+  fromMs = -Infinity,
+  toMs = Infinity,
+): { rows: SummaryRow[]; skipped: { path: string; reason: string }[] } {
   const rows: SummaryRow[] = [];
   const skipped: { path: string; reason: string }[] = [];
   let days: string[] = [];
   try {
-    days = readdirSync(resultsDir).filter((name) => /^\d{4}-\d{2}-\d{2}$/.test(name)).sort();
+    days = readdirSync(resultsDir)
+      .filter((name) => /^\d{4}-\d{2}-\d{2}$/.test(name))
+      .sort();
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error;
   }
   for (const day of days) {
     const dayDir = join(resultsDir, day);
     if (!statSync(dayDir).isDirectory()) continue;
-    for (const name of readdirSync(dayDir).filter((n) => n.endsWith('.json') && !n.startsWith('.')).sort()) {
+    for (const name of readdirSync(dayDir)
+      .filter((n) => n.endsWith('.json') && !n.startsWith('.'))
+      .sort()) {
       const path = join(dayDir, name);
       let parsed: unknown;
       try {
         parsed = JSON.parse(readFileSync(path, 'utf8'));
       } catch (error) {
-        skipped.push({ path, reason: `not readable as JSON: ${error instanceof Error ? error.message : String(error)}` });
+        skipped.push({
+          path,
+          reason: `not readable as JSON: ${error instanceof Error ? error.message : String(error)}`,
+        });
         continue;
       }
       if (!isResult(parsed)) {
@@ -128,27 +142,71 @@ function csvField(value: string): string {
   return /[",\r\n]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-const numberText = (value: number | null | undefined): string => (value === null || value === undefined ? '' : String(value));
+const numberText = (value: number | null | undefined): string =>
+  value === null || value === undefined ? '' : String(value);
 
 /** The table as CSV (RFC 4180, CRLF line ends, UTF-8, header row; numbers at full precision, empty when absent). */
 export function summaryCsv(rows: readonly SummaryRow[]): string {
   const componentCount = Math.max(0, ...rows.map((row) => row.components.length));
   const header = [
-    'set_id', 'sample_id', 'role', 'acquired_at', 'analyzed_at', 'quantum_yield', 'quantum_yield_u', 'standard_id',
-    ...Array.from({ length: componentCount }, (_, i) => [`tau${i + 1}_ns`, `tau${i + 1}_u_ns`, `tau${i + 1}_amplitude_fraction`, `tau${i + 1}_intensity_fraction`]).flat(),
-    'tau_mean_intensity_ns', 'chi2_reduced', 'fit_converged', 'kr_per_s', 'knr_per_s', 'tau0_ns', 'partial', 'flags', 'missing', 'result_path',
+    'set_id',
+    'sample_id',
+    'role',
+    'acquired_at',
+    'analyzed_at',
+    'quantum_yield',
+    'quantum_yield_u',
+    'standard_id',
+    ...Array.from({ length: componentCount }, (_, i) => [
+      `tau${i + 1}_ns`,
+      `tau${i + 1}_u_ns`,
+      `tau${i + 1}_amplitude_fraction`,
+      `tau${i + 1}_intensity_fraction`,
+    ]).flat(),
+    'tau_mean_intensity_ns',
+    'chi2_reduced',
+    'fit_converged',
+    'kr_per_s',
+    'knr_per_s',
+    'tau0_ns',
+    'partial',
+    'flags',
+    'missing',
+    'result_path',
   ];
   const lines = [header.join(',')];
   for (const row of rows) {
     const components = Array.from({ length: componentCount }, (_, i) => {
       const c = row.components[i];
-      return c === undefined ? ['', '', '', ''] : [numberText(c.tauNs), numberText(c.tauNsStdErr), numberText(c.amplitudeFraction), numberText(c.intensityFraction)];
+      return c === undefined
+        ? ['', '', '', '']
+        : [
+            numberText(c.tauNs),
+            numberText(c.tauNsStdErr),
+            numberText(c.amplitudeFraction),
+            numberText(c.intensityFraction),
+          ];
     }).flat();
     const cells = [
-      row.setId, row.sampleId, row.role, row.acquiredAt ?? '', row.analyzedAt, numberText(row.quantumYield), numberText(row.quantumYieldStdUncertainty), row.standardId ?? '',
+      row.setId,
+      row.sampleId,
+      row.role,
+      row.acquiredAt ?? '',
+      row.analyzedAt,
+      numberText(row.quantumYield),
+      numberText(row.quantumYieldStdUncertainty),
+      row.standardId ?? '',
       ...components,
-      numberText(row.tauMeanIntensityNs), numberText(row.chi2Reduced), row.fitConverged === null ? '' : String(row.fitConverged),
-      numberText(row.krPerS), numberText(row.knrPerS), numberText(row.tau0Ns), String(row.partial), row.flags.join('; '), row.missing.join('; '), row.resultPath,
+      numberText(row.tauMeanIntensityNs),
+      numberText(row.chi2Reduced),
+      row.fitConverged === null ? '' : String(row.fitConverged),
+      numberText(row.krPerS),
+      numberText(row.knrPerS),
+      numberText(row.tau0Ns),
+      String(row.partial),
+      row.flags.join('; '),
+      row.missing.join('; '),
+      row.resultPath,
     ];
     lines.push(cells.map(csvField).join(','));
   }

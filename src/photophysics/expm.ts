@@ -16,7 +16,8 @@ const b = (i: number): number => PADE13[i] as number;
 /** e^A for a square matrix A by scaling and squaring with Padé [13/13] (Higham 2005); O(n³·(6 + s)). */
 export function expm(a: SquareMatrix): SquareMatrix {
   const n = a.size;
-  for (const value of a.data) if (!Number.isFinite(value)) throw new AnalysisFailed('INTERNAL', 'expm: the matrix has a non-finite entry');
+  for (const value of a.data)
+    if (!Number.isFinite(value)) throw new AnalysisFailed('INTERNAL', 'expm: the matrix has a non-finite entry');
   const norm = oneNorm(a);
   const squarings = norm > THETA13 ? Math.max(0, Math.ceil(Math.log2(norm / THETA13))) : 0;
   const scale = Math.pow(2, -squarings);
@@ -26,13 +27,69 @@ export function expm(a: SquareMatrix): SquareMatrix {
   const a4 = multiply(a2, a2);
   const a6 = multiply(a4, a2);
   // U = A·[A6(b13 A6 + b11 A4 + b9 A2) + b7 A6 + b5 A4 + b3 A2 + b1 I]
-  const uInner = multiply(a6, linearCombination([[b(13), a6], [b(11), a4], [b(9), a2]], n));
-  const u = multiply(a1, linearCombination([[1, uInner], [b(7), a6], [b(5), a4], [b(3), a2], [b(1), id]], n));
+  const uInner = multiply(
+    a6,
+    linearCombination(
+      [
+        [b(13), a6],
+        [b(11), a4],
+        [b(9), a2],
+      ],
+      n,
+    ),
+  );
+  const u = multiply(
+    a1,
+    linearCombination(
+      [
+        [1, uInner],
+        [b(7), a6],
+        [b(5), a4],
+        [b(3), a2],
+        [b(1), id],
+      ],
+      n,
+    ),
+  );
   // V = A6(b12 A6 + b10 A4 + b8 A2) + b6 A6 + b4 A4 + b2 A2 + b0 I
-  const vInner = multiply(a6, linearCombination([[b(12), a6], [b(10), a4], [b(8), a2]], n));
-  const v = linearCombination([[1, vInner], [b(6), a6], [b(4), a4], [b(2), a2], [b(0), id]], n);
+  const vInner = multiply(
+    a6,
+    linearCombination(
+      [
+        [b(12), a6],
+        [b(10), a4],
+        [b(8), a2],
+      ],
+      n,
+    ),
+  );
+  const v = linearCombination(
+    [
+      [1, vInner],
+      [b(6), a6],
+      [b(4), a4],
+      [b(2), a2],
+      [b(0), id],
+    ],
+    n,
+  );
   // r13 = (V − U)⁻¹(V + U)
-  let result = solve(linearCombination([[1, v], [-1, u]], n), linearCombination([[1, v], [1, u]], n));
+  let result = solve(
+    linearCombination(
+      [
+        [1, v],
+        [-1, u],
+      ],
+      n,
+    ),
+    linearCombination(
+      [
+        [1, v],
+        [1, u],
+      ],
+      n,
+    ),
+  );
   for (let i = 0; i < squarings; i++) result = multiply(result, result);
   return result;
 }

@@ -31,7 +31,9 @@ const gradientOptionsSchema = z
 export type GradientYieldOptions = z.input<typeof gradientOptionsSchema>;
 
 /** Validates GradientYieldOptions, fills defaults, freezes. */
-export function resolveGradientYieldOptions(options?: GradientYieldOptions): Readonly<z.output<typeof gradientOptionsSchema>> {
+export function resolveGradientYieldOptions(
+  options?: GradientYieldOptions,
+): Readonly<z.output<typeof gradientOptionsSchema>> {
   return resolveWithSchema(gradientOptionsSchema, options, 'quantumYield.gradient');
 }
 
@@ -49,7 +51,11 @@ export interface GradientYieldInput {
   readonly sampleRefractiveIndex: number;
   readonly referenceRefractiveIndex: number;
   readonly sameSolvent?: boolean;
-  readonly uncertainties?: { readonly referenceYield?: number; readonly sampleRefractiveIndex?: number; readonly referenceRefractiveIndex?: number };
+  readonly uncertainties?: {
+    readonly referenceYield?: number;
+    readonly sampleRefractiveIndex?: number;
+    readonly referenceRefractiveIndex?: number;
+  };
   readonly options?: GradientYieldOptions;
 }
 
@@ -63,17 +69,28 @@ export interface GradientYieldResult extends QuantumYieldResult {
   readonly referenceFit: SeriesFit;
 }
 
-function fitSeries(series: DilutionSeries, role: string, options: Readonly<z.output<typeof gradientOptionsSchema>>, warnings: string[]): SeriesFit {
+function fitSeries(
+  series: DilutionSeries,
+  role: string,
+  options: Readonly<z.output<typeof gradientOptionsSchema>>,
+  warnings: string[],
+): SeriesFit {
   if (series.absorbances.length < 3) {
-    throw new InputRejected('TOO_FEW_POINTS', `the ${role} dilution series has ${series.absorbances.length} points; the gradient method needs at least 3`);
+    throw new InputRejected(
+      'TOO_FEW_POINTS',
+      `the ${role} dilution series has ${series.absorbances.length} points; the gradient method needs at least 3`,
+    );
   }
   const x = series.absorbances.map((a) => (options.abscissa === 'absorptance' ? absorptanceFromAbsorbance(a) : a));
   const fit = fitThroughOrigin(x, [...series.integrals], undefined, `${role} dilution series`);
   const highestAbsorbance = Math.max(...series.absorbances);
-  if (fit.rSquared < options.minRSquared) warnings.push(`the ${role} series is not linear: R² = ${fit.rSquared.toFixed(4)} < ${options.minRSquared}`);
+  if (fit.rSquared < options.minRSquared)
+    warnings.push(`the ${role} series is not linear: R² = ${fit.rSquared.toFixed(4)} < ${options.minRSquared}`);
   if (
-    fit.relativeCurvature !== undefined && fit.curvaturePValue !== undefined &&
-    Math.abs(fit.relativeCurvature) > options.maxRelativeCurvature && fit.curvaturePValue < options.curvatureAlpha
+    fit.relativeCurvature !== undefined &&
+    fit.curvaturePValue !== undefined &&
+    Math.abs(fit.relativeCurvature) > options.maxRelativeCurvature &&
+    fit.curvaturePValue < options.curvatureAlpha
   ) {
     warnings.push(
       `the ${role} series curves ${fit.relativeCurvature < 0 ? 'downwards (inner filter or aggregation?)' : 'upwards'}: ` +
@@ -82,9 +99,12 @@ function fitSeries(series: DilutionSeries, role: string, options: Readonly<z.out
   }
   // Exact runs test: with 5 points no sign pattern reaches p < 0.2, with 7 none p < 0.03, so short series are never flagged.
   if (fit.residualRunsPValue < options.residualRunsAlpha) {
-    warnings.push(`the ${role} residuals show a systematic pattern (${fit.residualSignRuns} sign runs, runs test p = ${fit.residualRunsPValue.toPrecision(2)} < ${options.residualRunsAlpha})`);
+    warnings.push(
+      `the ${role} residuals show a systematic pattern (${fit.residualSignRuns} sign runs, runs test p = ${fit.residualRunsPValue.toPrecision(2)} < ${options.residualRunsAlpha})`,
+    );
   }
-  if (highestAbsorbance > options.absorbanceWarnLimit) warnings.push(`the ${role} series reaches A = ${highestAbsorbance} (> ${options.absorbanceWarnLimit})`);
+  if (highestAbsorbance > options.absorbanceWarnLimit)
+    warnings.push(`the ${role} series reaches A = ${highestAbsorbance} (> ${options.absorbanceWarnLimit})`);
   return Object.freeze({ ...fit, highestAbsorbance });
 }
 
@@ -95,24 +115,58 @@ export function gradientQuantumYield(input: GradientYieldInput): GradientYieldRe
   const sampleFit = fitSeries(input.sample, 'sample', options, warnings);
   const referenceFit = fitSeries(input.reference, 'reference', options, warnings);
   if (!(sampleFit.slope > 0 && referenceFit.slope > 0)) {
-    throw new InputRejected('INPUT_INVALID', 'a gradient is not positive; check that the integrals rise with absorbance');
+    throw new InputRejected(
+      'INPUT_INVALID',
+      'a gradient is not positive; check that the integrals rise with absorbance',
+    );
   }
   const nx = input.sampleRefractiveIndex;
   const nr = input.referenceRefractiveIndex;
   const quantumYield = input.referenceYield * (sampleFit.slope / referenceFit.slope) * ((nx * nx) / (nr * nr));
   const u = input.uncertainties ?? {};
   const lines: BudgetInput[] = [
-    { quantity: 'referenceYield', value: input.referenceYield, standardUncertainty: u.referenceYield ?? 0, sensitivityCoefficient: quantumYield / input.referenceYield, basis: u.referenceYield === undefined ? 'not stated' : 'stated' },
-    { quantity: 'sampleGradient', value: sampleFit.slope, standardUncertainty: sampleFit.slopeStandardError, sensitivityCoefficient: quantumYield / sampleFit.slope, basis: 'residual scatter of the fit' },
-    { quantity: 'referenceGradient', value: referenceFit.slope, standardUncertainty: referenceFit.slopeStandardError, sensitivityCoefficient: -quantumYield / referenceFit.slope, basis: 'residual scatter of the fit' },
+    {
+      quantity: 'referenceYield',
+      value: input.referenceYield,
+      standardUncertainty: u.referenceYield ?? 0,
+      sensitivityCoefficient: quantumYield / input.referenceYield,
+      basis: u.referenceYield === undefined ? 'not stated' : 'stated',
+    },
+    {
+      quantity: 'sampleGradient',
+      value: sampleFit.slope,
+      standardUncertainty: sampleFit.slopeStandardError,
+      sensitivityCoefficient: quantumYield / sampleFit.slope,
+      basis: 'residual scatter of the fit',
+    },
+    {
+      quantity: 'referenceGradient',
+      value: referenceFit.slope,
+      standardUncertainty: referenceFit.slopeStandardError,
+      sensitivityCoefficient: -quantumYield / referenceFit.slope,
+      basis: 'residual scatter of the fit',
+    },
   ];
   if (!(input.sameSolvent ?? nx === nr)) {
     lines.push(
-      { quantity: 'sampleRefractiveIndex', value: nx, standardUncertainty: u.sampleRefractiveIndex ?? options.defaultRefractiveIndexUncertainty, sensitivityCoefficient: (2 * quantumYield) / nx, basis: u.sampleRefractiveIndex === undefined ? 'practice default' : 'stated' },
-      { quantity: 'referenceRefractiveIndex', value: nr, standardUncertainty: u.referenceRefractiveIndex ?? options.defaultRefractiveIndexUncertainty, sensitivityCoefficient: (-2 * quantumYield) / nr, basis: u.referenceRefractiveIndex === undefined ? 'practice default' : 'stated' },
+      {
+        quantity: 'sampleRefractiveIndex',
+        value: nx,
+        standardUncertainty: u.sampleRefractiveIndex ?? options.defaultRefractiveIndexUncertainty,
+        sensitivityCoefficient: (2 * quantumYield) / nx,
+        basis: u.sampleRefractiveIndex === undefined ? 'practice default' : 'stated',
+      },
+      {
+        quantity: 'referenceRefractiveIndex',
+        value: nr,
+        standardUncertainty: u.referenceRefractiveIndex ?? options.defaultRefractiveIndexUncertainty,
+        sensitivityCoefficient: (-2 * quantumYield) / nr,
+        basis: u.referenceRefractiveIndex === undefined ? 'practice default' : 'stated',
+      },
     );
   }
-  if (u.referenceYield === undefined) warnings.push('u(referenceYield) not stated: its contribution is counted as zero');
+  if (u.referenceYield === undefined)
+    warnings.push('u(referenceYield) not stated: its contribution is counted as zero');
   const budget = combineUncertainty(lines);
   return Object.freeze({
     quantumYield,

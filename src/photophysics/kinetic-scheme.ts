@@ -53,14 +53,19 @@ export interface KineticSchemeResult {
 }
 
 function validate(input: KineticSchemeInput, states: readonly string[]): void {
-  if (states.length < 2 || new Set(states).size !== states.length) throw new InputRejected('INPUT_INVALID', 'a scheme needs at least two distinct states');
+  if (states.length < 2 || new Set(states).size !== states.length)
+    throw new InputRejected('INPUT_INVALID', 'a scheme needs at least two distinct states');
   for (const p of input.processes) {
-    if (!states.includes(p.from) || !states.includes(p.to)) throw new InputRejected('INPUT_INVALID', `process ${p.kind} ${p.from}→${p.to} names an unknown state`);
+    if (!states.includes(p.from) || !states.includes(p.to))
+      throw new InputRejected('INPUT_INVALID', `process ${p.kind} ${p.from}→${p.to} names an unknown state`);
     if (!PROCESS_KINDS.includes(p.kind)) throw new InputRejected('INPUT_INVALID', `unknown process kind "${p.kind}"`);
-    if (!(p.ratePerS >= 0) || !Number.isFinite(p.ratePerS)) throw new InputRejected('INPUT_INVALID', `the rate of ${p.kind} ${p.from}→${p.to} is ${p.ratePerS} s⁻¹`);
+    if (!(p.ratePerS >= 0) || !Number.isFinite(p.ratePerS))
+      throw new InputRejected('INPUT_INVALID', `the rate of ${p.kind} ${p.from}→${p.to} is ${p.ratePerS} s⁻¹`);
     if (p.from === p.to) throw new InputRejected('INPUT_INVALID', `process ${p.kind} starts and ends in ${p.from}`);
   }
-  for (const t of input.timesS) if (!(t >= 0) || !Number.isFinite(t)) throw new InputRejected('INPUT_INVALID', `time ${t} s must be finite and ≥ 0`);
+  for (const t of input.timesS)
+    if (!(t >= 0) || !Number.isFinite(t))
+      throw new InputRejected('INPUT_INVALID', `time ${t} s must be finite and ≥ 0`);
 }
 
 function initialPopulation(input: KineticSchemeInput, states: readonly string[]): Float64Array {
@@ -68,14 +73,19 @@ function initialPopulation(input: KineticSchemeInput, states: readonly string[])
   if (input.initialPopulation !== undefined) {
     for (const [state, value] of Object.entries(input.initialPopulation)) {
       const index = states.indexOf(state);
-      if (index < 0 || !(value >= 0)) throw new InputRejected('INPUT_INVALID', `initial population ${state} = ${value} is invalid`);
+      if (index < 0 || !(value >= 0))
+        throw new InputRejected('INPUT_INVALID', `initial population ${state} = ${value} is invalid`);
       p0[index] = value;
     }
     return p0;
   }
   const absorptions = input.processes.filter((p) => p.kind === 'absorption');
   const total = absorptions.reduce((sum, p) => sum + p.ratePerS, 0);
-  if (!(total > 0)) throw new InputRejected('INPUT_INVALID', 'give an initial population or at least one absorption process with a positive rate');
+  if (!(total > 0))
+    throw new InputRejected(
+      'INPUT_INVALID',
+      'give an initial population or at least one absorption process with a positive rate',
+    );
   for (const p of absorptions) p0[states.indexOf(p.to)] = (p0[states.indexOf(p.to)] as number) + p.ratePerS / total;
   return p0;
 }
@@ -126,7 +136,10 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
     const name = states[si] as string;
     if (!(outRate > 0)) {
       if ((p0[si] as number) > 0 || input.processes.some((p) => p.to === name && p.kind !== 'absorption')) {
-        throw new AnalysisFailed('OUT_OF_RANGE', `state ${name} is populated but has no decay process; yields would be infinite`);
+        throw new AnalysisFailed(
+          'OUT_OF_RANGE',
+          `state ${name} is populated but has no decay process; yields would be infinite`,
+        );
       }
       kExcited[(si - 1) * m + (si - 1)] = 1; // isolated, never populated: keep the system solvable
     }
@@ -145,13 +158,17 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
       radiative: PROCESS_TIME_SCALES[p.kind].radiative,
       quantumYield: p.ratePerS * integratedPopulationS(p.from),
     }));
-  const sumYield = (kind: ProcessKind): number => processYields.filter((y) => y.kind === kind).reduce((s, y) => s + y.quantumYield, 0);
+  const sumYield = (kind: ProcessKind): number =>
+    processYields.filter((y) => y.kind === kind).reduce((s, y) => s + y.quantumYield, 0);
   const emissionRate = (kind: ProcessKind): Float64Array =>
     Float64Array.from(input.timesS, (_, ti) =>
-      input.processes.filter((p) => p.kind === kind).reduce((s, p) => s + p.ratePerS * ((populations[p.from] as Float64Array)[ti] as number), 0),
+      input.processes
+        .filter((p) => p.kind === kind)
+        .reduce((s, p) => s + p.ratePerS * ((populations[p.from] as Float64Array)[ti] as number), 0),
     );
   for (const p of input.processes) {
-    if (p.kind !== 'absorption' && p.ratePerS > 0) warnings.push(...timeScalePlausibility(p.kind, 1e9 / p.ratePerS, p.to === states[0]));
+    if (p.kind !== 'absorption' && p.ratePerS > 0)
+      warnings.push(...timeScalePlausibility(p.kind, 1e9 / p.ratePerS, p.to === states[0]));
   }
   return Object.freeze({
     states: [...states],

@@ -25,9 +25,15 @@ export interface OriginLineFit {
 }
 
 function checkSeries(x: readonly number[], y: readonly number[], what: string): void {
-  if (x.length !== y.length) throw new InputRejected('LENGTH_MISMATCH', `${what}: ${x.length} x values but ${y.length} y values`);
-  if (x.length < 2) throw new InputRejected('TOO_FEW_POINTS', `${what}: a line through the origin needs at least 2 points, got ${x.length}`);
-  for (const value of [...x, ...y]) if (!Number.isFinite(value)) throw new InputRejected('NON_FINITE', `${what}: a value is not finite (${value})`);
+  if (x.length !== y.length)
+    throw new InputRejected('LENGTH_MISMATCH', `${what}: ${x.length} x values but ${y.length} y values`);
+  if (x.length < 2)
+    throw new InputRejected(
+      'TOO_FEW_POINTS',
+      `${what}: a line through the origin needs at least 2 points, got ${x.length}`,
+    );
+  for (const value of [...x, ...y])
+    if (!Number.isFinite(value)) throw new InputRejected('NON_FINITE', `${what}: a value is not finite (${value})`);
 }
 
 /** Count of runs of equal signs in a sequence (zeros join the previous run). */
@@ -45,10 +51,18 @@ export function signRuns(values: readonly number[]): number {
 }
 
 /** y = b1·x + b2·x² by least squares (2×2 normal equations); b2 and its standard error, or undefined with < 3 points. */
-export function quadraticThroughOrigin(x: readonly number[], y: readonly number[], weights?: readonly number[]): { b1: number; b2: number; b2StandardError: number } | undefined {
+export function quadraticThroughOrigin(
+  x: readonly number[],
+  y: readonly number[],
+  weights?: readonly number[],
+): { b1: number; b2: number; b2StandardError: number } | undefined {
   const n = x.length;
   if (n < 3) return undefined;
-  let s2 = 0, s3 = 0, s4 = 0, t1 = 0, t2 = 0;
+  let s2 = 0,
+    s3 = 0,
+    s4 = 0,
+    t1 = 0,
+    t2 = 0;
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
     const xi = x[i] as number;
@@ -74,13 +88,22 @@ export function quadraticThroughOrigin(x: readonly number[], y: readonly number[
 }
 
 /** Weighted (or ordinary, weights = 1) least-squares slope through the origin, y = b·x, with standard error, R², residual runs and curvature; O(n). */
-export function fitThroughOrigin(x: readonly number[], y: readonly number[], weights?: readonly number[], what = 'series'): OriginLineFit {
+export function fitThroughOrigin(
+  x: readonly number[],
+  y: readonly number[],
+  weights?: readonly number[],
+  what = 'series',
+): OriginLineFit {
   checkSeries(x, y, what);
   const n = x.length;
-  let sxx = 0, sxy = 0, sw = 0, swy = 0;
+  let sxx = 0,
+    sxy = 0,
+    sw = 0,
+    swy = 0;
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
-    if (!(w > 0)) throw new InputRejected('INPUT_INVALID', `${what}: weight ${i + 1} is ${w}; weights must be positive`);
+    if (!(w > 0))
+      throw new InputRejected('INPUT_INVALID', `${what}: weight ${i + 1} is ${w}; weights must be positive`);
     const xi = x[i] as number;
     const yi = y[i] as number;
     sxx += w * xi * xi;
@@ -92,7 +115,8 @@ export function fitThroughOrigin(x: readonly number[], y: readonly number[], wei
   const slope = sxy / sxx;
   const residuals = x.map((xi, i) => (y[i] as number) - slope * xi);
   const meanY = swy / sw;
-  let ssResidual = 0, ssTotal = 0;
+  let ssResidual = 0,
+    ssTotal = 0;
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
     ssResidual += w * (residuals[i] as number) ** 2;
@@ -103,7 +127,8 @@ export function fitThroughOrigin(x: readonly number[], y: readonly number[], wei
   // Residuals at rounding level (exact data) carry no sign information.
   const yScale = Math.max(...y.map(Math.abs));
   const signedResiduals = residuals.map((r) => (Math.abs(r) <= 1e-12 * yScale ? 0 : r));
-  const curvatureT = quadratic === undefined || !(quadratic.b2StandardError > 0) ? undefined : quadratic.b2 / quadratic.b2StandardError;
+  const curvatureT =
+    quadratic === undefined || !(quadratic.b2StandardError > 0) ? undefined : quadratic.b2 / quadratic.b2StandardError;
   return Object.freeze({
     slope,
     slopeStandardError: n > 1 ? Math.sqrt(ssResidual / (n - 1) / sxx) : 0,
@@ -129,7 +154,11 @@ export interface QuadraticFit {
 }
 
 /** Weighted least-squares quadratic with intercept, y = c0 + c1 x + c2 x², and the t statistic of c2 (normal equations, 3×3; Draper & Smith, Applied Regression Analysis §2); undefined with < 4 points or a singular design. */
-export function quadraticWithIntercept(x: readonly number[], y: readonly number[], weights?: readonly number[]): QuadraticFit | undefined {
+export function quadraticWithIntercept(
+  x: readonly number[],
+  y: readonly number[],
+  weights?: readonly number[],
+): QuadraticFit | undefined {
   const n = x.length;
   if (n < 4) return undefined;
   const m = [0, 0, 0, 0, 0, 0, 0, 0, 0];
@@ -144,15 +173,27 @@ export function quadraticWithIntercept(x: readonly number[], y: readonly number[
   }
   const at = (i: number): number => m[i] as number;
   const cofactor = [
-    at(4) * at(8) - at(5) * at(7), at(2) * at(7) - at(1) * at(8), at(1) * at(5) - at(2) * at(4),
-    at(5) * at(6) - at(3) * at(8), at(0) * at(8) - at(2) * at(6), at(2) * at(3) - at(0) * at(5),
-    at(3) * at(7) - at(4) * at(6), at(1) * at(6) - at(0) * at(7), at(0) * at(4) - at(1) * at(3),
+    at(4) * at(8) - at(5) * at(7),
+    at(2) * at(7) - at(1) * at(8),
+    at(1) * at(5) - at(2) * at(4),
+    at(5) * at(6) - at(3) * at(8),
+    at(0) * at(8) - at(2) * at(6),
+    at(2) * at(3) - at(0) * at(5),
+    at(3) * at(7) - at(4) * at(6),
+    at(1) * at(6) - at(0) * at(7),
+    at(0) * at(4) - at(1) * at(3),
   ];
-  const determinant = at(0) * (cofactor[0] as number) + at(1) * (cofactor[3] as number) + at(2) * (cofactor[6] as number);
+  const determinant =
+    at(0) * (cofactor[0] as number) + at(1) * (cofactor[3] as number) + at(2) * (cofactor[6] as number);
   if (!(Math.abs(determinant) > 0) || !Number.isFinite(determinant)) return undefined;
   const inverse = cofactor.map((c) => c / determinant);
-  const coefficient = (a: number): number => (inverse[a * 3] as number) * (r[0] as number) + (inverse[a * 3 + 1] as number) * (r[1] as number) + (inverse[a * 3 + 2] as number) * (r[2] as number);
-  const c0 = coefficient(0), c1 = coefficient(1), c2 = coefficient(2);
+  const coefficient = (a: number): number =>
+    (inverse[a * 3] as number) * (r[0] as number) +
+    (inverse[a * 3 + 1] as number) * (r[1] as number) +
+    (inverse[a * 3 + 2] as number) * (r[2] as number);
+  const c0 = coefficient(0),
+    c1 = coefficient(1),
+    c2 = coefficient(2);
   let ssResidual = 0;
   let yScale = 0;
   for (let i = 0; i < n; i++) {
@@ -164,7 +205,7 @@ export function quadraticWithIntercept(x: readonly number[], y: readonly number[
   const c2StandardError = Math.sqrt(Math.max(0, (ssResidual / degreesOfFreedom) * (inverse[8] as number)));
   const xMax = Math.max(...x.map(Math.abs));
   let c2TStatistic: number;
-  if (c2StandardError > 1e-12 * yScale / Math.max(xMax * xMax, 1e-300)) c2TStatistic = c2 / c2StandardError;
+  if (c2StandardError > (1e-12 * yScale) / Math.max(xMax * xMax, 1e-300)) c2TStatistic = c2 / c2StandardError;
   else c2TStatistic = Math.abs(c2 * xMax * xMax) > 1e-9 * yScale ? Math.sign(c2) * Number.POSITIVE_INFINITY : 0;
   return Object.freeze({ c0, c1, c2, c2TStatistic, degreesOfFreedom });
 }

@@ -60,7 +60,8 @@ export function solve(a: SquareMatrix, b: SquareMatrix): SquareMatrix {
       if (Math.abs(lu[row * n + column] as number) > Math.abs(lu[pivot * n + column] as number)) pivot = row;
     }
     const pivotValue = lu[pivot * n + column] as number;
-    if (pivotValue === 0 || !Number.isFinite(pivotValue)) throw new AnalysisFailed('INTERNAL', 'singular matrix in a linear solve');
+    if (pivotValue === 0 || !Number.isFinite(pivotValue))
+      throw new AnalysisFailed('INTERNAL', 'singular matrix in a linear solve');
     if (pivot !== column) {
       for (let j = 0; j < n; j++) {
         const t = lu[column * n + j] as number;
@@ -74,7 +75,8 @@ export function solve(a: SquareMatrix, b: SquareMatrix): SquareMatrix {
     for (let row = column + 1; row < n; row++) {
       const factor = (lu[row * n + column] as number) / pivotValue;
       if (factor === 0) continue;
-      for (let j = column; j < n; j++) lu[row * n + j] = (lu[row * n + j] as number) - factor * (lu[column * n + j] as number);
+      for (let j = column; j < n; j++)
+        lu[row * n + j] = (lu[row * n + j] as number) - factor * (lu[column * n + j] as number);
       for (let j = 0; j < n; j++) x[row * n + j] = (x[row * n + j] as number) - factor * (x[column * n + j] as number);
     }
   }

@@ -24,9 +24,15 @@ export function rateConstantsFromYield(input: {
   readonly tauUncertaintyNs?: number;
 }): RateConstants {
   const { quantumYield, tauNs } = input;
-  if (!(tauNs > 0) || !Number.isFinite(tauNs)) throw new InputRejected('INPUT_INVALID', `the lifetime ${tauNs} ns must be positive and finite`);
-  if (!(quantumYield > 0)) throw new InputRejected('INPUT_INVALID', `the quantum yield ${quantumYield} must be positive for a radiative lifetime`);
-  if (quantumYield > 1) throw new AnalysisFailed('OUT_OF_RANGE', `the quantum yield ${quantumYield} exceeds 1; k_nr would be negative`);
+  if (!(tauNs > 0) || !Number.isFinite(tauNs))
+    throw new InputRejected('INPUT_INVALID', `the lifetime ${tauNs} ns must be positive and finite`);
+  if (!(quantumYield > 0))
+    throw new InputRejected(
+      'INPUT_INVALID',
+      `the quantum yield ${quantumYield} must be positive for a radiative lifetime`,
+    );
+  if (quantumYield > 1)
+    throw new AnalysisFailed('OUT_OF_RANGE', `the quantum yield ${quantumYield} exceeds 1; k_nr would be negative`);
   const tauS = tauNs * 1e-9;
   const krPerS = quantumYield / tauS;
   const knrPerS = (1 - quantumYield) / tauS;
@@ -50,12 +56,15 @@ export function yieldsFromRateConstants(processes: readonly { readonly name: str
 } {
   if (processes.length === 0) throw new InputRejected('INPUT_INVALID', 'at least one process is needed');
   for (const p of processes) {
-    if (!(p.ratePerS >= 0) || !Number.isFinite(p.ratePerS)) throw new InputRejected('INPUT_INVALID', `the rate of ${p.name} is ${p.ratePerS} s⁻¹; it must be finite and ≥ 0`);
+    if (!(p.ratePerS >= 0) || !Number.isFinite(p.ratePerS))
+      throw new InputRejected('INPUT_INVALID', `the rate of ${p.name} is ${p.ratePerS} s⁻¹; it must be finite and ≥ 0`);
   }
   const totalRatePerS = processes.reduce((sum, p) => sum + p.ratePerS, 0);
   if (!(totalRatePerS > 0)) throw new InputRejected('INPUT_INVALID', 'all rates are zero; the state does not decay');
   return Object.freeze({
-    yields: Object.freeze(processes.map((p) => Object.freeze({ name: p.name, quantumYield: p.ratePerS / totalRatePerS }))),
+    yields: Object.freeze(
+      processes.map((p) => Object.freeze({ name: p.name, quantumYield: p.ratePerS / totalRatePerS })),
+    ),
     totalRatePerS,
     decayTimeNs: 1e9 / totalRatePerS,
   });
@@ -63,6 +72,7 @@ export function yieldsFromRateConstants(processes: readonly { readonly name: str
 
 /** Approximate first-order rate constant k ≈ 1/t (s⁻¹) for a time scale t in s (REFERENCES.md, trade time scales). */
 export function rateFromTimeScale(timeScaleS: number): number {
-  if (!(timeScaleS > 0) || !Number.isFinite(timeScaleS)) throw new InputRejected('INPUT_INVALID', `the time scale ${timeScaleS} s must be positive`);
+  if (!(timeScaleS > 0) || !Number.isFinite(timeScaleS))
+    throw new InputRejected('INPUT_INVALID', `the time scale ${timeScaleS} s must be positive`);
   return 1 / timeScaleS;
 }

@@ -25,7 +25,9 @@ const relativeYieldOptionsSchema = z
 export type RelativeYieldOptions = z.input<typeof relativeYieldOptionsSchema>;
 
 /** Validates RelativeYieldOptions, fills defaults, freezes. */
-export function resolveRelativeYieldOptions(options?: RelativeYieldOptions): Readonly<z.output<typeof relativeYieldOptionsSchema>> {
+export function resolveRelativeYieldOptions(
+  options?: RelativeYieldOptions,
+): Readonly<z.output<typeof relativeYieldOptionsSchema>> {
   return resolveWithSchema(relativeYieldOptionsSchema, options, 'quantumYield');
 }
 
@@ -69,15 +71,27 @@ export interface QuantumYieldResult {
   readonly warnings: readonly string[];
 }
 
-function checkAbsorbance(absorbance: number, role: string, limits: { warn: number; refuse: number }, warnings: string[]): void {
-  if (!(absorbance > 0)) throw new InputRejected('INPUT_INVALID', `the ${role} absorbance at excitation is ${formatSignificant(absorbance)}; it must be positive`);
+function checkAbsorbance(
+  absorbance: number,
+  role: string,
+  limits: { warn: number; refuse: number },
+  warnings: string[],
+): void {
+  if (!(absorbance > 0))
+    throw new InputRejected(
+      'INPUT_INVALID',
+      `the ${role} absorbance at excitation is ${formatSignificant(absorbance)}; it must be positive`,
+    );
   if (absorbance > limits.refuse) {
     throw new AnalysisFailed(
       'OUT_OF_RANGE',
       `the ${role} absorbance at excitation is ${formatSignificant(absorbance)}, above ${limits.refuse}; inner-filter effects make a relative yield untrustworthy — dilute it`,
     );
   }
-  if (absorbance > limits.warn) warnings.push(`the ${role} absorbance at excitation is ${formatSignificant(absorbance)} (> ${limits.warn}, Brouwer 2011)`);
+  if (absorbance > limits.warn)
+    warnings.push(
+      `the ${role} absorbance at excitation is ${formatSignificant(absorbance)} (> ${limits.warn}, Brouwer 2011)`,
+    );
 }
 
 /** Φ = Φ_ref·(F/F_ref)·(f_ref/f)·(n²/n_ref²), f = 1 − 10^(−A) (Brouwer, Pure Appl. Chem. 83, 2213 (2011)), with a first-order GUM budget. */
@@ -88,8 +102,12 @@ export function relativeQuantumYield(input: RelativeYieldInput): QuantumYieldRes
   const limits = { warn: options.absorbanceWarnLimit, refuse: options.absorbanceRefuseLimit };
   checkAbsorbance(input.sampleAbsorbance, 'sample', limits, warnings);
   checkAbsorbance(input.referenceAbsorbance, 'reference', limits, warnings);
-  for (const [name, value] of [['sample integral', input.sampleIntegral], ['reference integral', input.referenceIntegral]] as const) {
-    if (!(value > 0)) throw new InputRejected('INPUT_INVALID', `the ${name} is ${formatSignificant(value)}; it must be positive`);
+  for (const [name, value] of [
+    ['sample integral', input.sampleIntegral],
+    ['reference integral', input.referenceIntegral],
+  ] as const) {
+    if (!(value > 0))
+      throw new InputRejected('INPUT_INVALID', `the ${name} is ${formatSignificant(value)}; it must be positive`);
   }
   if (!(input.referenceYield > 0 && input.referenceYield <= 1)) {
     throw new InputRejected('INPUT_INVALID', `the reference yield ${input.referenceYield} is outside (0, 1]`);
@@ -102,36 +120,115 @@ export function relativeQuantumYield(input: RelativeYieldInput): QuantumYieldRes
   const nSample = input.sampleRefractiveIndex;
   const nReference = input.referenceRefractiveIndex;
   const quantumYield =
-    input.referenceYield * (input.sampleIntegral / input.referenceIntegral) * (fReference / fSample) * ((nSample * nSample) / (nReference * nReference));
-  if (quantumYield > 1) warnings.push(`the yield ${quantumYield.toPrecision(4)} exceeds 1; check the corrections, absorbances and standard`);
+    input.referenceYield *
+    (input.sampleIntegral / input.referenceIntegral) *
+    (fReference / fSample) *
+    ((nSample * nSample) / (nReference * nReference));
+  if (quantumYield > 1)
+    warnings.push(
+      `the yield ${quantumYield.toPrecision(4)} exceeds 1; check the corrections, absorbances and standard`,
+    );
   const given = input.uncertaintyBasis ?? {};
   const NOT_STATED = 'assumed zero: not stated';
   const absorbanceDefault = `assumed: ${options.defaultAbsorbanceUncertainty} (photometric repeatability, common practice)`;
   const indexDefault = `assumed: ${options.defaultRefractiveIndexUncertainty} (table value, see refractive-indices.ts)`;
-  const stated = (value: number | undefined, fallback: number, fallbackBasis: string, key: keyof RelativeYieldUncertainties): [number, string] =>
-    value === undefined ? [fallback, fallbackBasis] : [value, given[key] ?? 'stated'];
+  const stated = (
+    value: number | undefined,
+    fallback: number,
+    fallbackBasis: string,
+    key: keyof RelativeYieldUncertainties,
+  ): [number, string] => (value === undefined ? [fallback, fallbackBasis] : [value, given[key] ?? 'stated']);
   const lines: BudgetInput[] = [];
   const [uRef, uRefBasis] = stated(u.referenceYield, 0, NOT_STATED, 'referenceYield');
-  lines.push({ quantity: 'referenceYield', value: input.referenceYield, standardUncertainty: uRef, sensitivityCoefficient: quantumYield / input.referenceYield, basis: uRefBasis });
+  lines.push({
+    quantity: 'referenceYield',
+    value: input.referenceYield,
+    standardUncertainty: uRef,
+    sensitivityCoefficient: quantumYield / input.referenceYield,
+    basis: uRefBasis,
+  });
   const [uF, uFBasis] = stated(u.sampleIntegral, 0, NOT_STATED, 'sampleIntegral');
-  lines.push({ quantity: 'sampleIntegral', value: input.sampleIntegral, standardUncertainty: uF, sensitivityCoefficient: quantumYield / input.sampleIntegral, basis: uFBasis });
+  lines.push({
+    quantity: 'sampleIntegral',
+    value: input.sampleIntegral,
+    standardUncertainty: uF,
+    sensitivityCoefficient: quantumYield / input.sampleIntegral,
+    basis: uFBasis,
+  });
   const [uFr, uFrBasis] = stated(u.referenceIntegral, 0, NOT_STATED, 'referenceIntegral');
-  lines.push({ quantity: 'referenceIntegral', value: input.referenceIntegral, standardUncertainty: uFr, sensitivityCoefficient: -quantumYield / input.referenceIntegral, basis: uFrBasis });
-  const [uA, uABasis] = stated(u.sampleAbsorbance, options.defaultAbsorbanceUncertainty, absorbanceDefault, 'sampleAbsorbance');
-  lines.push({ quantity: 'sampleAbsorbance', value: input.sampleAbsorbance, standardUncertainty: uA, sensitivityCoefficient: (-quantumYield / fSample) * absorbedSlope(input.sampleAbsorbance), basis: uABasis });
-  const [uAr, uArBasis] = stated(u.referenceAbsorbance, options.defaultAbsorbanceUncertainty, absorbanceDefault, 'referenceAbsorbance');
-  lines.push({ quantity: 'referenceAbsorbance', value: input.referenceAbsorbance, standardUncertainty: uAr, sensitivityCoefficient: (quantumYield / fReference) * absorbedSlope(input.referenceAbsorbance), basis: uArBasis });
+  lines.push({
+    quantity: 'referenceIntegral',
+    value: input.referenceIntegral,
+    standardUncertainty: uFr,
+    sensitivityCoefficient: -quantumYield / input.referenceIntegral,
+    basis: uFrBasis,
+  });
+  const [uA, uABasis] = stated(
+    u.sampleAbsorbance,
+    options.defaultAbsorbanceUncertainty,
+    absorbanceDefault,
+    'sampleAbsorbance',
+  );
+  lines.push({
+    quantity: 'sampleAbsorbance',
+    value: input.sampleAbsorbance,
+    standardUncertainty: uA,
+    sensitivityCoefficient: (-quantumYield / fSample) * absorbedSlope(input.sampleAbsorbance),
+    basis: uABasis,
+  });
+  const [uAr, uArBasis] = stated(
+    u.referenceAbsorbance,
+    options.defaultAbsorbanceUncertainty,
+    absorbanceDefault,
+    'referenceAbsorbance',
+  );
+  lines.push({
+    quantity: 'referenceAbsorbance',
+    value: input.referenceAbsorbance,
+    standardUncertainty: uAr,
+    sensitivityCoefficient: (quantumYield / fReference) * absorbedSlope(input.referenceAbsorbance),
+    basis: uArBasis,
+  });
   const sameSolvent = input.sameSolvent ?? nSample === nReference;
   if (!sameSolvent) {
-    const [un, unBasis] = stated(u.sampleRefractiveIndex, options.defaultRefractiveIndexUncertainty, indexDefault, 'sampleRefractiveIndex');
-    lines.push({ quantity: 'sampleRefractiveIndex', value: nSample, standardUncertainty: un, sensitivityCoefficient: (2 * quantumYield) / nSample, basis: unBasis });
-    const [unr, unrBasis] = stated(u.referenceRefractiveIndex, options.defaultRefractiveIndexUncertainty, indexDefault, 'referenceRefractiveIndex');
-    lines.push({ quantity: 'referenceRefractiveIndex', value: nReference, standardUncertainty: unr, sensitivityCoefficient: (-2 * quantumYield) / nReference, basis: unrBasis });
+    const [un, unBasis] = stated(
+      u.sampleRefractiveIndex,
+      options.defaultRefractiveIndexUncertainty,
+      indexDefault,
+      'sampleRefractiveIndex',
+    );
+    lines.push({
+      quantity: 'sampleRefractiveIndex',
+      value: nSample,
+      standardUncertainty: un,
+      sensitivityCoefficient: (2 * quantumYield) / nSample,
+      basis: unBasis,
+    });
+    const [unr, unrBasis] = stated(
+      u.referenceRefractiveIndex,
+      options.defaultRefractiveIndexUncertainty,
+      indexDefault,
+      'referenceRefractiveIndex',
+    );
+    lines.push({
+      quantity: 'referenceRefractiveIndex',
+      value: nReference,
+      standardUncertainty: unr,
+      sensitivityCoefficient: (-2 * quantumYield) / nReference,
+      basis: unrBasis,
+    });
   }
   // The detector correction enters as a factor D = 1 on the integral ratio: ∂Φ/∂D = Φ.
   const [uD, uDBasis] = stated(u.detectorCorrectionRelative, 0, NOT_STATED, 'detectorCorrectionRelative');
-  lines.push({ quantity: 'detectorCorrection', value: 1, standardUncertainty: uD, sensitivityCoefficient: quantumYield, basis: uDBasis });
-  for (const line of lines) if (line.basis === NOT_STATED) warnings.push(`u(${line.quantity}) not stated: its contribution is counted as zero`);
+  lines.push({
+    quantity: 'detectorCorrection',
+    value: 1,
+    standardUncertainty: uD,
+    sensitivityCoefficient: quantumYield,
+    basis: uDBasis,
+  });
+  for (const line of lines)
+    if (line.basis === NOT_STATED) warnings.push(`u(${line.quantity}) not stated: its contribution is counted as zero`);
   const budget = combineUncertainty(lines);
   return Object.freeze({
     quantumYield,

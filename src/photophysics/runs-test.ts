@@ -18,7 +18,11 @@ export function runsProbability(runs: number, positive: number, negative: number
     return (2 * binomial(positive - 1, k - 1) * binomial(negative - 1, k - 1)) / total;
   }
   const k = (runs - 1) / 2;
-  return (binomial(positive - 1, k - 1) * binomial(negative - 1, k) + binomial(positive - 1, k) * binomial(negative - 1, k - 1)) / total;
+  return (
+    (binomial(positive - 1, k - 1) * binomial(negative - 1, k) +
+      binomial(positive - 1, k) * binomial(negative - 1, k - 1)) /
+    total
+  );
 }
 
 export interface RunsTestResult {

@@ -22,7 +22,9 @@ const sternVolmerOptionsSchema = z
 export type SternVolmerOptions = z.input<typeof sternVolmerOptionsSchema>;
 
 /** Validates SternVolmerOptions, fills defaults, freezes. */
-export function resolveSternVolmerOptions(options?: SternVolmerOptions): Readonly<z.output<typeof sternVolmerOptionsSchema>> {
+export function resolveSternVolmerOptions(
+  options?: SternVolmerOptions,
+): Readonly<z.output<typeof sternVolmerOptionsSchema>> {
   return resolveWithSchema(sternVolmerOptionsSchema, options, 'quench');
 }
 
@@ -73,7 +75,8 @@ export interface SternVolmerResult {
 function valueAtZero(concentrationsM: readonly number[], values: readonly number[], what: string): number {
   const index = concentrationsM.findIndex((c) => c === 0);
   const value = index < 0 ? undefined : values[index];
-  if (value === undefined || !(value > 0)) throw new InputRejected('INPUT_INVALID', `${what} needs a positive value at [Q] = 0`);
+  if (value === undefined || !(value > 0))
+    throw new InputRejected('INPUT_INVALID', `${what} needs a positive value at [Q] = 0`);
   return value;
 }
 
@@ -82,7 +85,8 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
   const options = resolveSternVolmerOptions(input.options);
   const q = input.concentrationsM;
   const warnings: string[] = [];
-  if (q.length < 3) throw new InputRejected('TOO_FEW_POINTS', `a quenching series needs at least 3 concentrations, got ${q.length}`);
+  if (q.length < 3)
+    throw new InputRejected('TOO_FEW_POINTS', `a quenching series needs at least 3 concentrations, got ${q.length}`);
   if (q.some((c) => !(c >= 0))) throw new InputRejected('INPUT_INVALID', 'quencher concentrations must be ≥ 0 M');
   let ratios: readonly number[];
   if (input.intensityRatios !== undefined) ratios = input.intensityRatios;
@@ -94,8 +98,11 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
       return f0 / f;
     });
   } else throw new InputRejected('MISSING_COLUMN', 'give F0/F ratios or intensities');
-  const useWeights = options.weighting === 'weighted' || (options.weighting === 'auto' && input.intensityRatioUncertainties !== undefined);
-  if (useWeights && input.intensityRatioUncertainties === undefined) throw new InputRejected('MISSING_COLUMN', 'weighted fitting needs F0/F uncertainties');
+  const useWeights =
+    options.weighting === 'weighted' ||
+    (options.weighting === 'auto' && input.intensityRatioUncertainties !== undefined);
+  if (useWeights && input.intensityRatioUncertainties === undefined)
+    throw new InputRejected('MISSING_COLUMN', 'weighted fitting needs F0/F uncertainties');
   const weights = useWeights ? input.intensityRatioUncertainties?.map((u) => 1 / (u * u)) : undefined;
   const excess = ratios.map((r) => r - 1);
   const intensityFit = fitThroughOrigin(q, excess, weights, 'Stern–Volmer intensity series');
@@ -104,7 +111,8 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
   // (practice) unless uncertainties are given. One-sided t test on c2 > 0 with n − 3 degrees of freedom.
   const curvatureWeights = weights ?? ratios.map((r) => 1 / (r * r));
   const quadratic = quadraticWithIntercept(q, ratios, curvatureWeights);
-  const curvaturePValue = quadratic === undefined ? undefined : studentTUpperTail(quadratic.c2TStatistic, quadratic.degreesOfFreedom);
+  const curvaturePValue =
+    quadratic === undefined ? undefined : studentTUpperTail(quadratic.c2TStatistic, quadratic.degreesOfFreedom);
   const curved = curvaturePValue !== undefined && curvaturePValue < options.curvatureAlpha;
 
   let kdPerM: number | undefined;
@@ -115,7 +123,12 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     const lifetimes = input.lifetimesNs;
     tau0Ns = valueAtZero(q, lifetimes, 'the lifetime series');
     tau0UncertaintyNs = input.tau0UncertaintyNs ?? 0;
-    const lifetimeFit = fitThroughOrigin(q, lifetimes.map((t) => (tau0Ns as number) / t - 1), undefined, 'Stern–Volmer lifetime series');
+    const lifetimeFit = fitThroughOrigin(
+      q,
+      lifetimes.map((t) => (tau0Ns as number) / t - 1),
+      undefined,
+      'Stern–Volmer lifetime series',
+    );
     kdPerM = lifetimeFit.slope;
     kdStandardErrorPerM = lifetimeFit.slopeStandardError;
   }
@@ -129,12 +142,18 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     const difference = ksv - kdPerM;
     const differenceSe = Math.hypot(ksvSe, kdStandardErrorPerM);
     if (!kdSignificant && ksv > 0) mechanism = 'static';
-    else if (Math.abs(difference) <= 2 * differenceSe || Math.abs(difference) <= 0.1 * Math.abs(ksv)) mechanism = 'dynamic';
+    else if (Math.abs(difference) <= 2 * differenceSe || Math.abs(difference) <= 0.1 * Math.abs(ksv))
+      mechanism = 'dynamic';
     else if (difference > 0) mechanism = 'combined';
     else warnings.push('lifetimes are quenched more than intensities; check the series (K_D > K_SV is not physical)');
     if (mechanism === 'combined' || mechanism === 'static') {
       const kd = mechanism === 'static' ? 0 : kdPerM;
-      ksPerM = fitThroughOrigin(q, ratios.map((r, i) => r / (1 + kd * (q[i] as number)) - 1), undefined, 'static part').slope;
+      ksPerM = fitThroughOrigin(
+        q,
+        ratios.map((r, i) => r / (1 + kd * (q[i] as number)) - 1),
+        undefined,
+        'static part',
+      ).slope;
     }
   } else if (curved && quadratic !== undefined) {
     mechanism = 'combined';
@@ -145,12 +164,15 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     if (discriminant >= 0) {
       const r1 = (b1 + Math.sqrt(discriminant)) / 2;
       const r2 = (b1 - Math.sqrt(discriminant)) / 2;
-      warnings.push(`upward curvature: the combined model gives constants ${r1.toPrecision(4)} and ${r2.toPrecision(4)} M⁻¹; lifetimes are needed to tell which is dynamic`);
+      warnings.push(
+        `upward curvature: the combined model gives constants ${r1.toPrecision(4)} and ${r2.toPrecision(4)} M⁻¹; lifetimes are needed to tell which is dynamic`,
+      );
     } else warnings.push('upward curvature beyond the combined static–dynamic model (sphere-of-action quenching?)');
   } else {
     warnings.push('without lifetimes a linear Stern–Volmer plot cannot tell dynamic from static quenching');
   }
-  if (curved && input.lifetimesNs !== undefined && mechanism === 'dynamic') warnings.push('the intensity plot curves upward although lifetimes agree; check the highest concentrations');
+  if (curved && input.lifetimesNs !== undefined && mechanism === 'dynamic')
+    warnings.push('the intensity plot curves upward although lifetimes agree; check the highest concentrations');
 
   const kqBasis = kdPerM !== undefined ? 'lifetimes' : tau0Ns !== undefined ? 'intensities' : undefined;
   const kForKq = kdPerM ?? ksv;
@@ -164,11 +186,14 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
   } else warnings.push('τ0 unknown: k_q not computed (give lifetimes or tau0Ns)');
 
   let limit: number | undefined;
-  const viscosityPaS = input.viscosityPaS ?? (input.solvent === undefined ? undefined : viscosityOf(input.solvent).viscosityPaS);
+  const viscosityPaS =
+    input.viscosityPaS ?? (input.solvent === undefined ? undefined : viscosityOf(input.solvent).viscosityPaS);
   if (viscosityPaS !== undefined) limit = diffusionLimitPerMPerS(options.temperatureK, viscosityPaS);
   const exceeds = limit === undefined || kqPerMPerS === undefined ? undefined : kqPerMPerS > limit;
   if (exceeds === true) {
-    warnings.push(`k_q = ${(kqPerMPerS as number).toExponential(2)} M⁻¹s⁻¹ exceeds the diffusion limit ${(limit as number).toExponential(2)}: static quenching or binding contributes`);
+    warnings.push(
+      `k_q = ${(kqPerMPerS as number).toExponential(2)} M⁻¹s⁻¹ exceeds the diffusion limit ${(limit as number).toExponential(2)}: static quenching or binding contributes`,
+    );
   }
   return Object.freeze({
     ksvPerM: ksv,
@@ -181,7 +206,8 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     kqStandardUncertaintyPerMPerS,
     kqBasis,
     mechanism,
-    intensityCurvature: quadratic === undefined || quadratic.c1 === 0 ? undefined : (quadratic.c2 * Math.max(...q)) / quadratic.c1,
+    intensityCurvature:
+      quadratic === undefined || quadratic.c1 === 0 ? undefined : (quadratic.c2 * Math.max(...q)) / quadratic.c1,
     intensityCurvatureT: quadratic?.c2TStatistic,
     intensityCurvaturePValue: curvaturePValue,
     diffusionLimitPerMPerS: limit,

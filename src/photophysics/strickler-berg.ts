@@ -23,7 +23,9 @@ const stricklerBergOptionsSchema = z
 export type StricklerBergOptions = z.input<typeof stricklerBergOptionsSchema>;
 
 /** Validates StricklerBergOptions, fills defaults, freezes. */
-export function resolveStricklerBergOptions(options?: StricklerBergOptions): Readonly<z.output<typeof stricklerBergOptionsSchema>> {
+export function resolveStricklerBergOptions(
+  options?: StricklerBergOptions,
+): Readonly<z.output<typeof stricklerBergOptionsSchema>> {
   return resolveWithSchema(stricklerBergOptionsSchema, options, 'stricklerBerg');
 }
 
@@ -54,15 +56,31 @@ export function stricklerBergRate(input: {
   readonly options?: StricklerBergOptions;
 }): StricklerBergResult {
   const options = resolveStricklerBergOptions(input.options);
-  if (!(input.refractiveIndex >= 1)) throw new InputRejected('INPUT_INVALID', `refractive index ${input.refractiveIndex} must be ≥ 1`);
+  if (!(input.refractiveIndex >= 1))
+    throw new InputRejected('INPUT_INVALID', `refractive index ${input.refractiveIndex} must be ≥ 1`);
   const warnings: string[] = [];
   const ab = input.absorptivity;
   const em = input.emission;
   const epsilonOverLambda = ab.values.map((e, i) => e / (ab.wavelengthNm[i] as number));
-  const integratedAbsorptivityPerMPerCm = trapezoid(ab.wavelengthNm, epsilonOverLambda, options.absorptionWindowNm?.[0], options.absorptionWindowNm?.[1]);
+  const integratedAbsorptivityPerMPerCm = trapezoid(
+    ab.wavelengthNm,
+    epsilonOverLambda,
+    options.absorptionWindowNm?.[0],
+    options.absorptionWindowNm?.[1],
+  );
   const weighted = em.values.map((f, i) => f * ((em.wavelengthNm[i] as number) * 1e-7) ** 3);
-  const emissionTotal = trapezoid(em.wavelengthNm, em.values, options.emissionWindowNm?.[0], options.emissionWindowNm?.[1]);
-  const emissionCubeWeighted = trapezoid(em.wavelengthNm, weighted, options.emissionWindowNm?.[0], options.emissionWindowNm?.[1]);
+  const emissionTotal = trapezoid(
+    em.wavelengthNm,
+    em.values,
+    options.emissionWindowNm?.[0],
+    options.emissionWindowNm?.[1],
+  );
+  const emissionCubeWeighted = trapezoid(
+    em.wavelengthNm,
+    weighted,
+    options.emissionWindowNm?.[0],
+    options.emissionWindowNm?.[1],
+  );
   if (!(integratedAbsorptivityPerMPerCm > 0) || !(emissionTotal > 0) || !(emissionCubeWeighted > 0)) {
     throw new InputRejected('INPUT_INVALID', 'the absorption and emission bands must have positive integrals');
   }
@@ -71,10 +89,18 @@ export function stricklerBergRate(input: {
   }
   const meanInverseCubeWavenumberPerCm3 = emissionTotal / emissionCubeWeighted;
   const n = input.refractiveIndex;
-  const krPerS = STRICKLER_BERG_CONSTANT * n * n * meanInverseCubeWavenumberPerCm3 * options.degeneracyRatio * integratedAbsorptivityPerMPerCm;
+  const krPerS =
+    STRICKLER_BERG_CONSTANT *
+    n *
+    n *
+    meanInverseCubeWavenumberPerCm3 *
+    options.degeneracyRatio *
+    integratedAbsorptivityPerMPerCm;
   const ratio = input.measuredKrPerS === undefined ? undefined : input.measuredKrPerS / krPerS;
   if (ratio !== undefined && (ratio < 0.5 || ratio > 2)) {
-    warnings.push(`measured/predicted k_r = ${ratio.toFixed(2)}: the emitting state may differ from the absorbing one, or the band windows are off`);
+    warnings.push(
+      `measured/predicted k_r = ${ratio.toFixed(2)}: the emitting state may differ from the absorbing one, or the band windows are off`,
+    );
   }
   return Object.freeze({
     krPerS,

@@ -57,7 +57,8 @@ export function regularizedIncompleteBeta(x: number, a: number, b: number): numb
 /** Upper-tail probability P(T > t) of Student's t with `degreesOfFreedom` (A&S 26.7.1: ½·I_{ν/(ν+t²)}(ν/2, ½) for t ≥ 0). */
 export function studentTUpperTail(t: number, degreesOfFreedom: number): number {
   if (!(degreesOfFreedom > 0) || Number.isNaN(t)) return Number.NaN;
-  const half = 0.5 * regularizedIncompleteBeta(degreesOfFreedom / (degreesOfFreedom + t * t), degreesOfFreedom / 2, 0.5);
+  const half =
+    0.5 * regularizedIncompleteBeta(degreesOfFreedom / (degreesOfFreedom + t * t), degreesOfFreedom / 2, 0.5);
   return t >= 0 ? half : 1 - half;
 }
 

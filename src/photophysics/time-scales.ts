@@ -36,10 +36,11 @@ export const PROCESS_TIME_SCALES: Readonly<Record<ProcessKind, ProcessTimeScale>
  * processes' ranges, widened to the ps–µs and 100 ns–100 s seen in practice (practice; Turro, Modern
  * Molecular Photochemistry, ch. 5, from memory).
  */
-export const TO_GROUND_STATE_TIME_SCALES: Readonly<Partial<Record<ProcessKind, readonly [number, number]>>> = Object.freeze({
-  'internal-conversion': [1e-12, 1e-6],
-  'intersystem-crossing': [1e-7, 1e2],
-});
+export const TO_GROUND_STATE_TIME_SCALES: Readonly<Partial<Record<ProcessKind, readonly [number, number]>>> =
+  Object.freeze({
+    'internal-conversion': [1e-12, 1e-6],
+    'intersystem-crossing': [1e-7, 1e2],
+  });
 
 /** Warnings when a time (ns) assigned to a process lies outside its usual time scale (REFERENCES.md trade time scales; to-ground ranges above, practice). */
 export function timeScalePlausibility(process: ProcessKind, timeNs: number, endsInGroundState = false): string[] {

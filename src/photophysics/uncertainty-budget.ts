@@ -32,7 +32,11 @@ export function combineUncertainty(inputs: readonly BudgetInput[]): UncertaintyB
   const variance = contributions.reduce((sum, c) => sum + c * c, 0);
   const lines = inputs.map((input, i) => {
     const contribution = contributions[i] as number;
-    return Object.freeze({ ...input, contribution, varianceShare: variance > 0 ? (contribution * contribution) / variance : 0 });
+    return Object.freeze({
+      ...input,
+      contribution,
+      varianceShare: variance > 0 ? (contribution * contribution) / variance : 0,
+    });
   });
   let dominant = lines[0];
   for (const line of lines) if (dominant === undefined || line.contribution > dominant.contribution) dominant = line;

@@ -5,7 +5,12 @@ import { AnalysisFailed } from '../model/errors.js';
 import { formatSignificant } from '../model/format-number.js';
 import type { Spectrum } from '../model/spectrum.js';
 import { bandEdgeFractions, integralWithUncertainty } from '../spectra/index.js';
-import { relativeQuantumYield, type QuantumYieldResult, type RelativeYieldOptions, type RelativeYieldUncertainties } from './relative-yield.js';
+import {
+  relativeQuantumYield,
+  type QuantumYieldResult,
+  type RelativeYieldOptions,
+  type RelativeYieldUncertainties,
+} from './relative-yield.js';
 
 /** A standard uncertainty with how it was obtained ('stated in …', 'assumed: …'). */
 export interface LabelledUncertainty {
@@ -60,11 +65,17 @@ export function quantumYieldFromSpectra(input: SpectraYieldInput): SpectraYieldR
   const edgeWarnings: string[] = [];
   const fraction = input.bandEdgeFraction ?? 0.1;
   const names = input.settingNames ?? { fraction: 'analysis.bandEdgeFraction', window: 'analysis.yieldWindowNm' };
-  for (const [role, spectrum] of [['sample', input.sampleEmission], ['reference', input.referenceEmission]] as const) {
+  for (const [role, spectrum] of [
+    ['sample', input.sampleEmission],
+    ['reference', input.referenceEmission],
+  ] as const) {
     const edges = bandEdgeFractions(spectrum, input.windowNm);
     const worst = Math.max(edges.lower, edges.upper);
     if (worst <= fraction) continue;
-    const side = edges.lower >= edges.upper ? `${formatSignificant(input.windowNm[0])} nm (lower)` : `${formatSignificant(input.windowNm[1])} nm (upper)`;
+    const side =
+      edges.lower >= edges.upper
+        ? `${formatSignificant(input.windowNm[0])} nm (lower)`
+        : `${formatSignificant(input.windowNm[1])} nm (upper)`;
     const message =
       `the ${role} emission is not back to baseline at ${side}: ${Number.isFinite(worst) ? `${formatSignificant(100 * worst, 3)} %` : 'an undefined fraction'} of its peak, ` +
       `above ${formatSignificant(100 * fraction)} % (${names.fraction}); the scan may be cut short inside its band — measure the whole band or set ${names.window}`;
@@ -85,7 +96,10 @@ export function quantumYieldFromSpectra(input: SpectraYieldInput): SpectraYieldR
     put('sampleIntegral', { value: sample.standardUncertainty, basis: noiseBasis(sample.noiseSigma, input.windowNm) });
   }
   if (reference.standardUncertainty !== undefined && reference.noiseSigma !== undefined) {
-    put('referenceIntegral', { value: reference.standardUncertainty, basis: noiseBasis(reference.noiseSigma, input.windowNm) });
+    put('referenceIntegral', {
+      value: reference.standardUncertainty,
+      basis: noiseBasis(reference.noiseSigma, input.windowNm),
+    });
   }
   put('referenceYield', input.referenceYieldUncertainty);
   put('sampleAbsorbance', input.sampleAbsorbanceUncertainty);

@@ -36,17 +36,36 @@ export interface FileClassification {
 }
 
 const PART_TOKENS: Readonly<Record<string, SetPart>> = {
-  em: 'emission', emission: 'emission', ex: 'excitation', excitation: 'excitation', abs: 'absorbance',
-  absorbance: 'absorbance', decay: 'decay', tcspc: 'decay', irf: 'irf', blank: 'blank', raman: 'raman',
-  'ref-em': 'reference-emission', 'ref-abs': 'reference-absorbance', detector: 'detector-curve',
+  em: 'emission',
+  emission: 'emission',
+  ex: 'excitation',
+  excitation: 'excitation',
+  abs: 'absorbance',
+  absorbance: 'absorbance',
+  decay: 'decay',
+  tcspc: 'decay',
+  irf: 'irf',
+  blank: 'blank',
+  raman: 'raman',
+  'ref-em': 'reference-emission',
+  'ref-abs': 'reference-absorbance',
+  detector: 'detector-curve',
 };
 
 /** Parts that support a sample measurement rather than being one. */
 export const SUPPORTING_PARTS: readonly SetPart[] = ['irf', 'blank', 'raman', 'detector-curve'];
 
 const PART_ROLE: Readonly<Record<SetPart, MeasurementRole>> = {
-  emission: 'sample', excitation: 'sample', absorbance: 'absorbance', decay: 'sample', irf: 'irf', blank: 'blank',
-  'reference-emission': 'reference', 'reference-absorbance': 'reference', 'detector-curve': 'detector-curve', raman: 'raman',
+  emission: 'sample',
+  excitation: 'sample',
+  absorbance: 'absorbance',
+  decay: 'sample',
+  irf: 'irf',
+  blank: 'blank',
+  'reference-emission': 'reference',
+  'reference-absorbance': 'reference',
+  'detector-curve': 'detector-curve',
+  raman: 'raman',
 };
 
 function partFromData(facts: FileFactsForAssembly): SetPart {
@@ -94,7 +113,12 @@ export function classifyFile(facts: FileFactsForAssembly, rules: AssemblyRules):
   if (patternPart !== undefined) {
     const compatible =
       (facts.dataType === 'decay') === (patternPart === 'decay' || patternPart === 'irf') &&
-      !(facts.metadataRole !== undefined && dataPart !== 'emission' && dataPart !== 'decay' && dataPart !== patternPart);
+      !(
+        facts.metadataRole !== undefined &&
+        dataPart !== 'emission' &&
+        dataPart !== 'decay' &&
+        dataPart !== patternPart
+      );
     if (compatible) part = patternPart;
   }
   const metadataSampleId = facts.metadataSampleId?.trim();
@@ -108,7 +132,12 @@ export function classifyFile(facts: FileFactsForAssembly, rules: AssemblyRules):
 }
 
 /** The role of a set from its sample id (configured references and controls win) and the file roles. */
-export function setRoleFor(sampleId: string, fileRole: MeasurementRole, part: SetPart, rules: AssemblyRules): MeasurementRole {
+export function setRoleFor(
+  sampleId: string,
+  fileRole: MeasurementRole,
+  part: SetPart,
+  rules: AssemblyRules,
+): MeasurementRole {
   if (rules.controlPatterns.some((p) => p.test(sampleId))) return 'control';
   if (rules.referencePatterns.some((p) => p.test(sampleId))) return 'reference';
   if (fileRole === 'control' || fileRole === 'reference') return fileRole;
@@ -131,7 +160,12 @@ export interface OpenSetView {
 
 export type Placement =
   | { readonly kind: 'join'; readonly setId: string }
-  | { readonly kind: 'create'; readonly sampleId: string; readonly role: MeasurementRole; readonly standalone: boolean };
+  | {
+      readonly kind: 'create';
+      readonly sampleId: string;
+      readonly role: MeasurementRole;
+      readonly standalone: boolean;
+    };
 
 /** Decides which open set a classified file joins, or that it starts a new one. */
 export function placeFile(
@@ -144,7 +178,11 @@ export function placeFile(
   const { part, sampleId, sampleIdSource, role } = file.classification;
   const supporting = SUPPORTING_PARTS.includes(part);
   const sameSample = openSets.find(
-    (s) => s.sampleId === sampleId && s.manifestFiles === undefined && !s.files.some((f) => f.part === part) && !isStandaloneRole(s.role),
+    (s) =>
+      s.sampleId === sampleId &&
+      s.manifestFiles === undefined &&
+      !s.files.some((f) => f.part === part) &&
+      !isStandaloneRole(s.role),
   );
   if (supporting && sampleIdSource !== 'pattern') {
     // A supporting measurement that names no sample through its file name stands alone (and is

@@ -53,7 +53,10 @@ export class HeldCommits<T extends { readonly id: string }> {
   private readonly held = new Map<string, Held<T>>();
 
   /** `retry` puts an outcome back into the next group commit. */
-  constructor(private readonly retry: (outcome: T) => void, private readonly schedule: Scheduler = timerScheduler) {}
+  constructor(
+    private readonly retry: (outcome: T) => void,
+    private readonly schedule: Scheduler = timerScheduler,
+  ) {}
 
   /** Outcomes held now. */
   get size(): number {

@@ -14,7 +14,14 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import { InputRejected } from '../model/errors.js';
 import type { ErrorCode } from '../model/error-codes.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesOfSet, filesToArchive, setFileError, setFileLocation, setFilesOfSetState, type FileRecord } from '../store/files.js';
+import {
+  filesOfSet,
+  filesToArchive,
+  setFileError,
+  setFileLocation,
+  setFilesOfSetState,
+  type FileRecord,
+} from '../store/files.js';
 import { upsertResult, type ResultIndexRecord } from '../store/results.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
 import { uniqueTarget } from '../output/dated-path.js';
@@ -44,7 +51,13 @@ function filedAt(item: CommitItem): Date {
  * committed done: its inputs stay in the inbox until a later recoverMoves() moves them.
  */
 export type CommitItemOutcome =
-  | { readonly ok: true; readonly setId: string; readonly path: string; readonly filesRejected: number; readonly movesFailed?: unknown }
+  | {
+      readonly ok: true;
+      readonly setId: string;
+      readonly path: string;
+      readonly filesRejected: number;
+      readonly movesFailed?: unknown;
+    }
   | { readonly ok: false; readonly setId: string; readonly error: unknown };
 
 /** An archive move done and not yet recorded in the ledger: the file's id and where it went. */
@@ -70,30 +83,58 @@ export interface CommitBatchResult {
  * item reports them in `movesFailed` and recoverMoves() finishes them later. Throws only when the
  * ledger transaction fails (rolled back: nothing of it, `earlierMoves` included, was recorded).
  */
-export async function commitResults(ledger: Ledger, config: DriftlightConfig, items: readonly CommitItem[], now: Date, earlierMoves: readonly ArchivedFile[] = []): Promise<CommitBatchResult> {
+export async function commitResults(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  items: readonly CommitItem[],
+  now: Date,
+  earlierMoves: readonly ArchivedFile[] = [],
+): Promise<CommitBatchResult> {
   const outcomes = new Map<string, CommitItemOutcome>();
-  const written = await Promise.all(items.map(async (item) => {
-    const setId = item.result.setId;
-    try {
-      const options = { syncFolder: false, timeZone: config.instrument.timeZone };
-      // A file holding several measurements gives one result each (issue 18.3): all are written before the set counts as done.
-      const [file, ...more] = await Promise.all([item.result, ...(item.output.measurements ?? []).map((m) => m.result)].map((result) => writeResult(config.folders.results, result, filedAt(item), options)));
-      if (file === undefined) throw new Error(`no result file written for ${setId}`);
-      return { item, file, more };
-    } catch (error) {
-      outcomes.set(setId, { ok: false, setId, error });
-      return undefined;
-    }
-  }));
+  const written = await Promise.all(
+    items.map(async (item) => {
+      const setId = item.result.setId;
+      try {
+        const options = { syncFolder: false, timeZone: config.instrument.timeZone };
+        // A file holding several measurements gives one result each (issue 18.3): all are written before the set counts as done.
+        const [file, ...more] = await Promise.all(
+          [item.result, ...(item.output.measurements ?? []).map((m) => m.result)].map((result) =>
+            writeResult(config.folders.results, result, filedAt(item), options),
+          ),
+        );
+        if (file === undefined) throw new Error(`no result file written for ${setId}`);
+        return { item, file, more };
+      } catch (error) {
+        outcomes.set(setId, { ok: false, setId, error });
+        return undefined;
+      }
+    }),
+  );
   const durable = written.filter((w) => w !== undefined);
-  await Promise.all([...new Set(durable.flatMap((w) => [w.file, ...w.more].map((f) => dirname(f.path))))].map((dir) => fsyncDirectoryAsync(dir)));
-  const committed: { item: CommitItem; path: string; sha256: string; more: readonly { path: string; sha256: string }[]; rejected: { file: FileRecord; reason: RejectedInput }[] }[] = [];
+  await Promise.all(
+    [...new Set(durable.flatMap((w) => [w.file, ...w.more].map((f) => dirname(f.path))))].map((dir) =>
+      fsyncDirectoryAsync(dir),
+    ),
+  );
+  const committed: {
+    item: CommitItem;
+    path: string;
+    sha256: string;
+    more: readonly { path: string; sha256: string }[];
+    rejected: { file: FileRecord; reason: RejectedInput }[];
+  }[] = [];
   for (const { item, file, more } of durable) {
     const setId = item.result.setId;
     try {
       writeOutbox(config.folders.outbox, setId, filedAt(item), item.output.artifacts, config.instrument.timeZone);
       for (const measurement of item.output.measurements ?? []) {
-        writeOutbox(config.folders.outbox, measurement.result.setId, filedAt(item), measurement.artifacts, config.instrument.timeZone);
+        writeOutbox(
+          config.folders.outbox,
+          measurement.result.setId,
+          filedAt(item),
+          measurement.artifacts,
+          config.instrument.timeZone,
+        );
       }
       const rejectedInputs = item.output.rejectedInputs ?? [];
       const rejected = rejectedInputs.length === 0 ? [] : rejectedOwnFiles(filesOfSet(ledger, setId), rejectedInputs);
@@ -105,9 +146,16 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   if (committed.length > 0) {
     ledger.durableTransaction(() => {
       recordMoves(ledger, earlierMoves, now);
-      for (const { item: { result, output }, path, sha256, more, rejected } of committed) {
+      for (const {
+        item: { result, output },
+        path,
+        sha256,
+        more,
+        rejected,
+      } of committed) {
         markSetDone(ledger, result.setId, path, result.partial, now);
-        if (output.analysisDurationMs !== undefined) recordAnalysisDuration(ledger, result.setId, output.analysisDurationMs, now.toISOString());
+        if (output.analysisDurationMs !== undefined)
+          recordAnalysisDuration(ledger, result.setId, output.analysisDurationMs, now.toISOString());
         upsertResult(ledger, resultIndexRecord(result, path, sha256));
         (output.measurements ?? []).forEach((measurement, index) => {
           const file = more[index];
@@ -122,18 +170,36 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
   const unrecordedMoves: ArchivedFile[] = committed.length > 0 ? [] : [...earlierMoves];
   if (committed.length > 0) {
     try {
-      await archiveSetFiles(ledger, config, committed.map((c) => c.item.result.setId), unrecordedMoves);
+      await archiveSetFiles(
+        ledger,
+        config,
+        committed.map((c) => c.item.result.setId),
+        unrecordedMoves,
+      );
     } catch (error) {
       archiveError = error;
     }
   }
-  for (const { item: { result }, path, rejected } of committed) {
+  for (const {
+    item: { result },
+    path,
+    rejected,
+  } of committed) {
     const quarantineError = errorOf(() => quarantineRejectedOwnFiles(ledger, config, result.setId, rejected, now));
     const movesFailed = archiveError ?? quarantineError;
-    outcomes.set(result.setId, { ok: true, setId: result.setId, path, filesRejected: rejected.length, ...(movesFailed === undefined ? {} : { movesFailed }) });
+    outcomes.set(result.setId, {
+      ok: true,
+      setId: result.setId,
+      path,
+      filesRejected: rejected.length,
+      ...(movesFailed === undefined ? {} : { movesFailed }),
+    });
   }
   return {
-    outcomes: items.map((item) => outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') }),
+    outcomes: items.map(
+      (item) =>
+        outcomes.get(item.result.setId) ?? { ok: false, setId: item.result.setId, error: new Error('not committed') },
+    ),
     unrecordedMoves,
   };
 }
@@ -141,16 +207,28 @@ export async function commitResults(ledger: Ledger, config: DriftlightConfig, it
 /** The results-index row of a written result. */
 function resultIndexRecord(result: AnalysisResult, path: string, sha256: string): ResultIndexRecord {
   return {
-    setId: result.setId, path, sampleId: result.sampleId, role: result.role,
-    acquiredAt: result.acquiredAt ?? null, analyzedAt: result.provenance.analyzedAt, partial: result.partial,
-    tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null, quantumYield: result.quantumYield?.value ?? null,
-    krPerS: result.rates?.krPerS ?? null, knrPerS: result.rates?.knrPerS ?? null, configHash: result.provenance.configHash,
-    resultSha256: sha256, flagsJson: JSON.stringify(result.qc.flags),
+    setId: result.setId,
+    path,
+    sampleId: result.sampleId,
+    role: result.role,
+    acquiredAt: result.acquiredAt ?? null,
+    analyzedAt: result.provenance.analyzedAt,
+    partial: result.partial,
+    tauMeanNs: result.decayFit?.tauMeanIntensityNs ?? null,
+    quantumYield: result.quantumYield?.value ?? null,
+    krPerS: result.rates?.krPerS ?? null,
+    knrPerS: result.rates?.knrPerS ?? null,
+    configHash: result.provenance.configHash,
+    resultSha256: sha256,
+    flagsJson: JSON.stringify(result.qc.flags),
   };
 }
 
 /** Among a set's own files (`files`), those still in the inbox that the worker's readers rejected, each with its reason. */
-function rejectedOwnFiles(files: readonly FileRecord[], rejectedInputs: readonly RejectedInput[]): { file: FileRecord; reason: RejectedInput }[] {
+function rejectedOwnFiles(
+  files: readonly FileRecord[],
+  rejectedInputs: readonly RejectedInput[],
+): { file: FileRecord; reason: RejectedInput }[] {
   const out: { file: FileRecord; reason: RejectedInput }[] = [];
   for (const file of files) {
     const reason = rejectedInputs.find((r) => r.sha256 === file.sha256 && r.name === file.name);
@@ -160,9 +238,19 @@ function rejectedOwnFiles(files: readonly FileRecord[], rejectedInputs: readonly
 }
 
 /** Quarantines own files of `setId` the worker's readers rejected, each with its own reason (code, line, hint). */
-function quarantineRejectedOwnFiles(ledger: Ledger, config: DriftlightConfig, setId: string, rejected: readonly { file: FileRecord; reason: RejectedInput }[], now: Date): void {
+function quarantineRejectedOwnFiles(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  setId: string,
+  rejected: readonly { file: FileRecord; reason: RejectedInput }[],
+  now: Date,
+): void {
   for (const { file, reason } of rejected) {
-    const error = new InputRejected(reason.code as ErrorCode, reason.message, { hint: reason.hint, file: file.name, ...(reason.line === undefined ? {} : { line: reason.line }) });
+    const error = new InputRejected(reason.code as ErrorCode, reason.message, {
+      hint: reason.hint,
+      file: file.name,
+      ...(reason.line === undefined ? {} : { line: reason.line }),
+    });
     rejectFile(ledger, config, file, error, now, 'rejected', setId);
   }
 }
@@ -172,7 +260,12 @@ function quarantineRejectedOwnFiles(ledger: Ledger, config: DriftlightConfig, se
  * fsync per archive folder, and appends each move to `moved` as it happens (so a move made before a
  * later one fails is not lost); the caller records them (recordArchiveMoves, or the next commit).
  */
-export async function archiveSetFiles(ledger: Ledger, config: DriftlightConfig, setIds: readonly string[], moved: ArchivedFile[]): Promise<void> {
+export async function archiveSetFiles(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  setIds: readonly string[],
+  moved: ArchivedFile[],
+): Promise<void> {
   const folders = new Set<string>();
   try {
     for (const setId of setIds) {
@@ -207,7 +300,13 @@ export function recordArchiveMoves(ledger: Ledger, moves: readonly ArchivedFile[
  * of quarantine moves that failed once the failure was recorded (the files then stay in the inbox
  * until a later recoverMoves()).
  */
-export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, setId: string, rejectedInputs: readonly RejectedInput[], now: Date): { files: number; movesFailed?: unknown } {
+export function commitUnreadableSet(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  setId: string,
+  rejectedInputs: readonly RejectedInput[],
+  now: Date,
+): { files: number; movesFailed?: unknown } {
   if (rejectedInputs.length === 0) return { files: 0 };
   const files = filesOfSet(ledger, setId);
   const own = files.filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
@@ -216,7 +315,15 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
   if (first === undefined || rejected.length < own.length) return { files: 0 };
   const names = rejected.map((r) => r.file.name).join(', ');
   ledger.durableTransaction(() => {
-    markSetFailed(ledger, setId, { code: first.reason.code, message: `no file of the set could be read (${names}); first: ${first.reason.message}` }, now);
+    markSetFailed(
+      ledger,
+      setId,
+      {
+        code: first.reason.code,
+        message: `no file of the set could be read (${names}); first: ${first.reason.message}`,
+      },
+      now,
+    );
     for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
   });
   const movesFailed = errorOf(() => quarantineRejectedOwnFiles(ledger, config, setId, rejected, now));
@@ -228,7 +335,13 @@ export function commitUnreadableSet(ledger: Ledger, config: DriftlightConfig, se
  * quarantine moves that failed once the failure was recorded (the files then stay in the inbox until
  * a later recoverMoves()), or undefined; a ledger error is thrown.
  */
-export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): unknown {
+export function commitFailure(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  setId: string,
+  failure: { code: string; message: string; hint?: string },
+  now: Date,
+): unknown {
   ledger.durableTransaction(() => {
     markSetFailed(ledger, setId, failure, now);
     for (const file of filesOfSet(ledger, setId)) {
@@ -239,12 +352,25 @@ export function commitFailure(ledger: Ledger, config: DriftlightConfig, setId: s
 }
 
 /** The error a failed set's own files are quarantined with (SET_FAILED, naming the set's failure); recovery words it the same way. */
-export function setFailedError(setId: string, failure: { code: string; message: string; hint?: string }): InputRejected {
-  return new InputRejected('SET_FAILED', `set ${setId} failed: ${failure.code}: ${failure.message}`, failure.hint === undefined ? {} : { hint: failure.hint });
+export function setFailedError(
+  setId: string,
+  failure: { code: string; message: string; hint?: string },
+): InputRejected {
+  return new InputRejected(
+    'SET_FAILED',
+    `set ${setId} failed: ${failure.code}: ${failure.message}`,
+    failure.hint === undefined ? {} : { hint: failure.hint },
+  );
 }
 
 /** Quarantines the failed files of a set not yet moved (idempotent). */
-export function quarantineFailedFiles(ledger: Ledger, config: DriftlightConfig, setId: string, failure: { code: string; message: string; hint?: string }, now: Date): void {
+export function quarantineFailedFiles(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  setId: string,
+  failure: { code: string; message: string; hint?: string },
+  now: Date,
+): void {
   for (const file of filesOfSet(ledger, setId)) {
     if (file.state !== 'failed' || file.quarantinePath !== null) continue;
     rejectFile(ledger, config, file, setFailedError(setId, failure), now, 'failed', setId);

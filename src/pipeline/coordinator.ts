@@ -62,11 +62,24 @@ export class Coordinator {
     const contents = new ContentCache();
     this.assembly = new SetAssembly({ config, ledger, logger, rules, contents, report });
     this.dispatcher = new JobDispatcher({
-      config, ledger, queue, logger, clock, softwareVersion: options.softwareVersion,
-      settings: dispatchSettingsFrom(config, rules), openSets: this.assembly, contents, report,
+      config,
+      ledger,
+      queue,
+      logger,
+      clock,
+      softwareVersion: options.softwareVersion,
+      settings: dispatchSettingsFrom(config, rules),
+      openSets: this.assembly,
+      contents,
+      report,
     });
     this.commits = new GroupCommit({
-      config, ledger, logger, clock, stages: options.stages ?? [], report,
+      config,
+      ledger,
+      logger,
+      clock,
+      stages: options.stages ?? [],
+      report,
       detached: config.queue.backend === 'in-process',
       inFlight: () => this.dispatcher.inFlight,
       release: (jobId) => this.dispatcher.release(jobId),
@@ -74,7 +87,15 @@ export class Coordinator {
       retake: (paths) => this.versions.retakeWhenStable(paths),
       archived: (moves) => this.versions.recheckLater(moves),
     });
-    this.versions = new VersionWatch({ config, ledger, logger, clock, assembly: this.assembly, dispatcher: this.dispatcher, intake: (paths) => this.intakeMany(paths) });
+    this.versions = new VersionWatch({
+      config,
+      ledger,
+      logger,
+      clock,
+      assembly: this.assembly,
+      dispatcher: this.dispatcher,
+      intake: (paths) => this.intakeMany(paths),
+    });
     queue.onOutcome((outcome) => this.commits.take(outcome));
   }
 
@@ -115,8 +136,16 @@ export class Coordinator {
   /** Crash recovery: finishes (or finds) interrupted moves of done/failed files, then re-enqueues queued sets (whose payloads may borrow those files). */
   async recover(): Promise<void> {
     const moves = recoverMoves(this.ledger, this.config, this.clock());
-    if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'recovery: finished interrupted moves and recorded moved files whose location was lost');
-    if (moves.failed > 0) this.logger.error({ files: moves.failed, err: moves.firstError }, 'recovery: files could not be moved to the archive or quarantine; they stay in the inbox and are tried again (watch: every watch.rescanIntervalMs)');
+    if (moves.moved + moves.relocated > 0)
+      this.logger.info(
+        { moved: moves.moved, relocated: moves.relocated },
+        'recovery: finished interrupted moves and recorded moved files whose location was lost',
+      );
+    if (moves.failed > 0)
+      this.logger.error(
+        { files: moves.failed, err: moves.firstError },
+        'recovery: files could not be moved to the archive or quarantine; they stay in the inbox and are tried again (watch: every watch.rescanIntervalMs)',
+      );
     this.versions.recheckRecentlyArchived();
     const queued = queuedSetJobs(this.ledger);
     for (const { id, jobId } of queued) await this.dispatcher.enqueue(id, jobId ?? id);
@@ -134,8 +163,16 @@ export class Coordinator {
     if (this.commits.running) return { moved: 0, relocated: 0, failed: 0 };
     this.commits.recordMovesNow();
     const moves = recoverMoves(this.ledger, this.config, this.clock());
-    if (moves.moved + moves.relocated > 0) this.logger.info({ moved: moves.moved, relocated: moves.relocated }, 'repair: finished file moves that had failed');
-    if (moves.failed > 0) this.logger.warn({ files: moves.failed, err: moves.firstError }, 'repair: files still cannot be moved out of the inbox; tried again later');
+    if (moves.moved + moves.relocated > 0)
+      this.logger.info(
+        { moved: moves.moved, relocated: moves.relocated },
+        'repair: finished file moves that had failed',
+      );
+    if (moves.failed > 0)
+      this.logger.warn(
+        { files: moves.failed, err: moves.firstError },
+        'repair: files still cannot be moved out of the inbox; tried again later',
+      );
     return moves;
   }
 

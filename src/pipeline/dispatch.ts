@@ -7,9 +7,23 @@ import type { AnalysisJobPayload, PayloadFile } from '../analysis/payload.js';
 import type { Reanalysis, SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { decayIrfCandidates, filesOfSet, getFile, pairingCandidates, type AcquiredSource, type FileRecord, type PairingFile } from '../store/files.js';
+import {
+  decayIrfCandidates,
+  filesOfSet,
+  getFile,
+  pairingCandidates,
+  type AcquiredSource,
+  type FileRecord,
+  type PairingFile,
+} from '../store/files.js';
 import { acquisitionEpochMs, isoFromEpochMs } from '../model/acquisition-time.js';
-import { getSet, pairingsOfSet, recentReferenceSetIds, referenceSetIdsMeasuredBetween, type PairingRecord } from '../store/sets.js';
+import {
+  getSet,
+  pairingsOfSet,
+  recentReferenceSetIds,
+  referenceSetIdsMeasuredBetween,
+  type PairingRecord,
+} from '../store/sets.js';
 import { choosePairing, requiredPartsFor, type AssemblyRules, type PairingCandidate } from './assemble.js';
 import type { StoredManifest } from './open-sets.js';
 import { findArchivedCopy } from './recovery.js';
@@ -41,8 +55,16 @@ export function choosePairings(
   const pairings: PairingRecord[] = [];
   const windows = config.assembly.pairingWindowHours;
   const referenceTime = setMeasuredAt(own) ?? now;
-  const borrow = (part: SetPart, candidates: readonly PairingFile[], windowHours: number, sameSample = false): boolean => {
-    const chosen = choosePairing(candidates.map(toCandidate), referenceTime, windowHours, { excludeSetId: set.id, ...(sameSample ? { sampleId: set.sampleId } : {}) });
+  const borrow = (
+    part: SetPart,
+    candidates: readonly PairingFile[],
+    windowHours: number,
+    sameSample = false,
+  ): boolean => {
+    const chosen = choosePairing(candidates.map(toCandidate), referenceTime, windowHours, {
+      excludeSetId: set.id,
+      ...(sameSample ? { sampleId: set.sampleId } : {}),
+    });
     if (chosen === undefined) return false;
     pairings.push({ setId: set.id, part, fileId: chosen.fileId, fromSetId: chosen.setId });
     return true;
@@ -58,26 +80,41 @@ export function choosePairings(
       if (borrow('blank', pairingCandidates(ledger, 'blank'), windows.blank)) borrowed.add('blank');
     }
     if (!present.has('absorbance') && windows.absorbance > 0) {
-      if (borrow('absorbance', pairingCandidates(ledger, 'absorbance'), windows.absorbance, true)) borrowed.add('absorbance');
+      if (borrow('absorbance', pairingCandidates(ledger, 'absorbance'), windows.absorbance, true))
+        borrowed.add('absorbance');
     }
   }
   if (SAMPLE_ROLES.has(set.role) && !present.has('reference-emission') && windows.reference > 0) {
     // The reference of the set's own session first (issue 16.4), else the most recent within the window.
     const sessionHours = Math.min(config.assembly.referenceSessionHours, windows.reference);
-    const reference = (sessionHours > 0 ? referenceSetNear(ledger, referenceTime, sessionHours, set.id) : undefined)
-      ?? referenceSetNear(ledger, referenceTime, windows.reference, set.id);
+    const reference =
+      (sessionHours > 0 ? referenceSetNear(ledger, referenceTime, sessionHours, set.id) : undefined) ??
+      referenceSetNear(ledger, referenceTime, windows.reference, set.id);
     if (reference !== undefined) {
-      pairings.push({ setId: set.id, part: 'reference-emission', fileId: reference.emission.id, fromSetId: reference.setId });
+      pairings.push({
+        setId: set.id,
+        part: 'reference-emission',
+        fileId: reference.emission.id,
+        fromSetId: reference.setId,
+      });
       borrowed.add('reference-emission');
       if (!present.has('reference-absorbance') && reference.absorbance !== undefined) {
-        pairings.push({ setId: set.id, part: 'reference-absorbance', fileId: reference.absorbance.id, fromSetId: reference.setId });
+        pairings.push({
+          setId: set.id,
+          part: 'reference-absorbance',
+          fileId: reference.absorbance.id,
+          fromSetId: reference.setId,
+        });
         borrowed.add('reference-absorbance');
       }
     }
   }
   const missing = requiredPartsFor(set.role, rules)
     .filter((p) => !present.has(p) && !borrowed.has(p))
-    .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));
+    .map((part) => ({
+      part,
+      reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}`,
+    }));
   return { pairings, missing };
 }
 
@@ -88,16 +125,19 @@ function setMeasuredAt(own: readonly FileRecord[]): Date | undefined {
 }
 
 /** A set's acquisition time: the earliest of its own files' (metadata before modification times), with where it came from. */
-export function setAcquisition(own: readonly FileRecord[]): { epochMs: number; acquiredAt: string; source: AcquiredSource } | undefined {
+export function setAcquisition(
+  own: readonly FileRecord[],
+): { epochMs: number; acquiredAt: string; source: AcquiredSource } | undefined {
   let chosen: { epochMs: number; acquiredAt: string; source: AcquiredSource } | undefined;
   for (const file of own) {
     if (file.acquiredAt === null || file.dataType === 'manifest' || file.state === 'rejected') continue;
     const epochMs = acquisitionEpochMs(file.acquiredAt);
     if (epochMs === undefined) continue;
     const source: AcquiredSource = file.acquiredSource ?? 'metadata';
-    const better = chosen === undefined
-      || (source === 'metadata' && chosen.source !== 'metadata')
-      || (source === chosen.source && epochMs < chosen.epochMs);
+    const better =
+      chosen === undefined ||
+      (source === 'metadata' && chosen.source !== 'metadata') ||
+      (source === chosen.source && epochMs < chosen.epochMs);
     if (better) chosen = { epochMs, acquiredAt: isoFromEpochMs(epochMs), source };
   }
   return chosen;
@@ -109,12 +149,23 @@ export function setAcquisition(own: readonly FileRecord[]): { epochMs: number; a
  * references are configured and assembly.referenceSessionHours and pairingWindowHours.reference are on.
  */
 export function needsSessionReference(config: DriftlightConfig, role: string, present: ReadonlySet<SetPart>): boolean {
-  return SAMPLE_ROLES.has(role) && present.has('emission') && !present.has('reference-emission') && config.references.length > 0
-    && config.assembly.referenceSessionHours > 0 && config.assembly.pairingWindowHours.reference > 0;
+  return (
+    SAMPLE_ROLES.has(role) &&
+    present.has('emission') &&
+    !present.has('reference-emission') &&
+    config.references.length > 0 &&
+    config.assembly.referenceSessionHours > 0 &&
+    config.assembly.pairingWindowHours.reference > 0
+  );
 }
 
 /** The reference set (queued or done) measured within assembly.referenceSessionHours of `measuredAt`, nearest before it, else nearest after; undefined when none. */
-export function sessionReferenceSetId(ledger: Ledger, config: DriftlightConfig, measuredAt: Date, excludeSetId: string): string | undefined {
+export function sessionReferenceSetId(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  measuredAt: Date,
+  excludeSetId: string,
+): string | undefined {
   const hours = Math.min(config.assembly.referenceSessionHours, config.assembly.pairingWindowHours.reference);
   return hours > 0 ? referenceSetNear(ledger, measuredAt, hours, excludeSetId)?.setId : undefined;
 }
@@ -125,12 +176,22 @@ export function setMeasuredAtOr(own: readonly FileRecord[], fallback: Date): Dat
 }
 
 /** The reference set measured within `windowHours` of `referenceTime`: the most recent at or before it, else the earliest after it (choosePairing). */
-function referenceSetNear(ledger: Ledger, referenceTime: Date, windowHours: number, excludeSetId: string): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
+function referenceSetNear(
+  ledger: Ledger,
+  referenceTime: Date,
+  windowHours: number,
+  excludeSetId: string,
+): { setId: string; emission: FileRecord; absorbance?: FileRecord } | undefined {
   const found = new Map<number, { setId: string; emission: FileRecord; absorbance?: FileRecord }>();
   // The newest reference sets (by arrival), and every one measured within the window: in a backlog
   // the reference of a control's own session may be older than the newest few.
   const windowMs = windowHours * 3_600_000;
-  const measuredNear = referenceSetIdsMeasuredBetween(ledger, excludeSetId, isoFromEpochMs(referenceTime.getTime() - windowMs), isoFromEpochMs(referenceTime.getTime() + windowMs));
+  const measuredNear = referenceSetIdsMeasuredBetween(
+    ledger,
+    excludeSetId,
+    isoFromEpochMs(referenceTime.getTime() - windowMs),
+    isoFromEpochMs(referenceTime.getTime() + windowMs),
+  );
   for (const setId of new Set([...recentReferenceSetIds(ledger, excludeSetId), ...measuredNear])) {
     const files = filesOfSet(ledger, setId).filter((f) => f.state !== 'rejected' && f.state !== 'failed');
     const emission = files.find((f) => f.part === 'emission');
@@ -138,7 +199,11 @@ function referenceSetNear(ledger: Ledger, referenceTime: Date, windowHours: numb
     const absorbance = files.find((f) => f.part === 'absorbance');
     found.set(emission.id, { setId, emission, ...(absorbance === undefined ? {} : { absorbance }) });
   }
-  const chosen = choosePairing([...found.values()].map((r) => toCandidate(r.emission)), referenceTime, windowHours);
+  const chosen = choosePairing(
+    [...found.values()].map((r) => toCandidate(r.emission)),
+    referenceTime,
+    windowHours,
+  );
   return chosen === undefined ? undefined : found.get(chosen.fileId);
 }
 
@@ -159,7 +224,8 @@ function readInput(config: DriftlightConfig, file: FileRecord): string {
     return readText(location);
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error;
-    const moved = file.archivePath === null && file.quarantinePath === null ? findArchivedCopy(config, file) : undefined;
+    const moved =
+      file.archivePath === null && file.quarantinePath === null ? findArchivedCopy(config, file) : undefined;
     if (moved !== undefined) return readText(moved);
     throw new InputRejected('INPUT_MISSING', `${file.name} is no longer at ${location}`, { file: file.name });
   }
@@ -171,7 +237,11 @@ export function currentLocation(file: FileRecord): string {
 }
 
 /** The reference standard of a reference set: its manifest's standardId or the matching references[] entry. */
-export function standardForSet(config: DriftlightConfig, setId: string, ledger: Ledger): { standardId: string; entry?: DriftlightConfig['references'][number] } | undefined {
+export function standardForSet(
+  config: DriftlightConfig,
+  setId: string,
+  ledger: Ledger,
+): { standardId: string; entry?: DriftlightConfig['references'][number] } | undefined {
   const set = getSet(ledger, setId);
   if (set === undefined) return undefined;
   const manifest = set.manifestJson === null ? undefined : (JSON.parse(set.manifestJson) as StoredManifest).manifest;
@@ -208,7 +278,14 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     if (file.dataType === 'manifest' || file.part === null || file.state === 'rejected') continue;
     const held = context.contentOf?.(file);
     const content = held === undefined ? readInput(config, file) : decodeInputText(held);
-    files.push({ name: file.name, sha256: file.sha256, part: file.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'own', content });
+    files.push({
+      name: file.name,
+      sha256: file.sha256,
+      part: file.part as SetPart,
+      role: (file.role ?? 'sample') as MeasurementRole,
+      origin: 'own',
+      content,
+    });
   }
   let referenceSetId: string | undefined;
   for (const pairing of pairingsOfSet(ledger, setId)) {
@@ -216,21 +293,33 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     if (file === undefined) continue;
     if (pairing.part === 'reference-emission') referenceSetId = pairing.fromSetId ?? undefined;
     files.push({
-      name: file.name, sha256: file.sha256, part: pairing.part as SetPart, role: (file.role ?? 'sample') as MeasurementRole, origin: 'paired',
-      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }), content: readInput(config, file),
+      name: file.name,
+      sha256: file.sha256,
+      part: pairing.part as SetPart,
+      role: (file.role ?? 'sample') as MeasurementRole,
+      origin: 'paired',
+      ...(pairing.fromSetId === null ? {} : { pairedFromSetId: pairing.fromSetId }),
+      content: readInput(config, file),
     });
   }
-  if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve')) files.push(context.detectorCurve);
+  if (context.detectorCurve !== undefined && !files.some((f) => f.part === 'detector-curve'))
+    files.push(context.detectorCurve);
   const role = set.role as MeasurementRole;
   const have = new Set<SetPart>(files.map((f) => f.part));
   if (own.some((f) => f.part === 'decay' && f.hasIrfColumn)) have.add('irf');
   const missingParts = requiredPartsFor(role, context.rules)
     .filter((part) => !have.has(part))
-    .map((part) => ({ part, reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}` }));
+    .map((part) => ({
+      part,
+      reason: `no ${part} arrived with the set${part === 'irf' || part === 'blank' ? ' and none valid was recorded within the pairing window' : ''}`,
+    }));
   const acquisition = setAcquisition(own);
   const reference =
-    referenceSetId !== undefined ? standardForSet(config, referenceSetId, ledger)
-      : role === 'reference' ? standardForSet(config, setId, ledger) : undefined;
+    referenceSetId !== undefined
+      ? standardForSet(config, referenceSetId, ledger)
+      : role === 'reference'
+        ? standardForSet(config, setId, ledger)
+        : undefined;
   return {
     setId,
     role,
@@ -243,7 +332,9 @@ export function buildPayload(context: PayloadContext, setId: string): AnalysisJo
     files,
     missingParts,
     settings: analysisSettingsFrom(config, reference),
-    ...(acquisition === undefined ? {} : { acquisition: { acquiredAt: acquisition.acquiredAt, source: acquisition.source } }),
+    ...(acquisition === undefined
+      ? {}
+      : { acquisition: { acquiredAt: acquisition.acquiredAt, source: acquisition.source } }),
     analyzedAt: context.now.toISOString(),
     ...(context.reanalysis === undefined ? {} : { reanalysis: context.reanalysis }),
     configHash: context.configHash,

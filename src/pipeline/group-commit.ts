@@ -9,7 +9,14 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import type { JobOutcome } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
 import { getSet } from '../store/sets.js';
-import { commitFailure, commitResults, commitUnreadableSet, recordArchiveMoves, type ArchivedFile, type CommitItem } from './commit.js';
+import {
+  commitFailure,
+  commitResults,
+  commitUnreadableSet,
+  recordArchiveMoves,
+  type ArchivedFile,
+  type CommitItem,
+} from './commit.js';
 import { HeldCommits, timerScheduler, type Scheduler } from './commit-retry.js';
 import { applyStages, type ResultStage } from './result-stage.js';
 import { analysedCurrentInputs, inputsChangedOnDisk, isRerunJob } from './input-versions.js';
@@ -124,7 +131,10 @@ export class GroupCommit {
       recordArchiveMoves(this.options.ledger, this.unrecordedMoves, this.options.clock());
       this.unrecordedMoves.length = 0;
     } catch (error) {
-      this.options.logger.error({ err: error, files: this.unrecordedMoves.length }, 'archive moves not recorded; the next commit records them, or the repair finds them');
+      this.options.logger.error(
+        { err: error, files: this.unrecordedMoves.length },
+        'archive moves not recorded; the next commit records them, or the repair finds them',
+      );
     }
   }
 
@@ -155,7 +165,10 @@ export class GroupCommit {
     const log = this.options.logger.child({ setId: setIdOfJob(outcome.id) });
     if (decision.kind === 'let-go') {
       this.options.report.setNotCommitted();
-      log.error({ err: error, failures: decision.failures }, 'commit failed; the set stays queued and is re-run at the next start');
+      log.error(
+        { err: error, failures: decision.failures },
+        'commit failed; the set stays queued and is re-run at the next start',
+      );
       return;
     }
     // One line per folder per interval (watch.rescanIntervalMs) while an outage lasts, not one per
@@ -163,7 +176,16 @@ export class GroupCommit {
     const folder = outageKey(error);
     const admitted = this.outageLog.admit(folder, this.options.clock().getTime());
     if (admitted === undefined) return;
-    log[decision.failures === 1 ? 'error' : 'warn']({ err: error, folder, failures: decision.failures, retryInMs: decision.retryInMs, notLoggedSinceLastLine: admitted.suppressed }, 'commit failed (are the results, outbox and archive folders writable, is the disk full?); the outcome is kept and committed again later');
+    log[decision.failures === 1 ? 'error' : 'warn'](
+      {
+        err: error,
+        folder,
+        failures: decision.failures,
+        retryInMs: decision.retryInMs,
+        notLoggedSinceLastLine: admitted.suppressed,
+      },
+      'commit failed (are the results, outbox and archive folders writable, is the disk full?); the outcome is kept and committed again later',
+    );
   }
 
   /** Commits buffered outcomes in batches until none is left; outcomes arriving meanwhile join the next batch. */
@@ -172,7 +194,8 @@ export class GroupCommit {
       // Let outcomes that finish together (several threads, one event-loop turn) join one batch, and
       // while other jobs are still running give them COMMIT_WINDOW_MS to join it.
       await new Promise<void>((resolve) => setImmediate(resolve));
-      if (this.options.inFlight() > this.buffer.length) await new Promise<void>((resolve) => setTimeout(resolve, COMMIT_WINDOW_MS));
+      if (this.options.inFlight() > this.buffer.length)
+        await new Promise<void>((resolve) => setTimeout(resolve, COMMIT_WINDOW_MS));
       while (this.buffer.length > 0) {
         const batch = this.buffer.splice(0, COMMIT_BATCH_MAX);
         try {
@@ -186,7 +209,10 @@ export class GroupCommit {
         try {
           await this.options.afterBatch();
         } catch (error) {
-          this.options.logger.error({ err: error }, 'dispatch of waiting sets failed; they are dispatched at the next tick or start');
+          this.options.logger.error(
+            { err: error },
+            'dispatch of waiting sets failed; they are dispatched at the next tick or start',
+          );
         }
       }
     } finally {
@@ -207,27 +233,43 @@ export class GroupCommit {
       try {
         const rerun = isRerunJob(outcome.id);
         const set = getSet(ledger, setId);
-        if (set === undefined || (!rerun && (set.state === 'done' || set.state === 'failed' || (set.jobId !== null && set.jobId !== outcome.id)))) {
-          log.debug({ jobId: outcome.id, state: set?.state }, 'outcome for a finished set, or for a run superseded by a newer one, ignored');
+        if (
+          set === undefined ||
+          (!rerun &&
+            (set.state === 'done' || set.state === 'failed' || (set.jobId !== null && set.jobId !== outcome.id)))
+        ) {
+          log.debug(
+            { jobId: outcome.id, state: set?.state },
+            'outcome for a finished set, or for a run superseded by a newer one, ignored',
+          );
           entry.resolve();
           continue;
         }
         // Before anything is committed: are the inputs still the bytes that were analysed (issue 20)?
         const changed = inputsChangedOnDisk(ledger, setId);
         if (changed.length > 0) {
-          log.warn({ files: changed.map((f) => f.name) }, 'an input changed after it was read; not committed: it is taken again once stable, and the set runs again');
+          log.warn(
+            { files: changed.map((f) => f.name) },
+            'an input changed after it was read; not committed: it is taken again once stable, and the set runs again',
+          );
           this.options.retake?.(changed.map((f) => f.path));
           entry.resolve();
           continue;
         }
         if (outcome.status === 'completed' && !analysedCurrentInputs(ledger, setId, outcome.value.result)) {
-          log.info({ jobId: outcome.id }, 'outcome computed from an earlier version of an input; not committed (a newer run follows)');
+          log.info(
+            { jobId: outcome.id },
+            'outcome computed from an earlier version of an input; not committed (a newer run follows)',
+          );
           entry.resolve();
           continue;
         }
         if (outcome.status === 'failed') {
           const movesFailed = commitFailure(ledger, config, setId, outcome.failure, now);
-          log.error({ code: outcome.failure.code, message: outcome.failure.message }, 'set failed; its files are quarantined');
+          log.error(
+            { code: outcome.failure.code, message: outcome.failure.message },
+            'set failed; its files are quarantined',
+          );
           logMovesFailed(log, movesFailed);
           report.setFailed(setId);
           entry.resolve();
@@ -236,7 +278,10 @@ export class GroupCommit {
         const unreadable = commitUnreadableSet(ledger, config, setId, outcome.value.rejectedInputs ?? [], now);
         if (unreadable.files > 0) {
           report.filesRejectedLater(unreadable.files);
-          log.warn({ files: unreadable.files }, 'no file of the set could be read; the set failed and its files are quarantined');
+          log.warn(
+            { files: unreadable.files },
+            'no file of the set could be read; the set failed and its files are quarantined',
+          );
           logMovesFailed(log, unreadable.movesFailed);
           report.setFailed(setId);
           entry.resolve();
@@ -252,7 +297,13 @@ export class GroupCommit {
     let outcomes;
     const carried = this.unrecordedMoves.splice(0);
     try {
-      const done = await commitResults(ledger, config, toCommit.map((c) => c.item), now, carried);
+      const done = await commitResults(
+        ledger,
+        config,
+        toCommit.map((c) => c.item),
+        now,
+        carried,
+      );
       outcomes = done.outcomes;
       this.unrecordedMoves.push(...done.unrecordedMoves);
       this.options.archived?.(done.unrecordedMoves);
@@ -265,7 +316,10 @@ export class GroupCommit {
     outcomes.forEach((committed, index) => {
       const pending = toCommit[index];
       if (pending === undefined) return;
-      const { entry, item: { result } } = pending;
+      const {
+        entry,
+        item: { result },
+      } = pending;
       if (!committed.ok) {
         entry.reject(committed.error);
         return;
@@ -275,7 +329,10 @@ export class GroupCommit {
         report.filesRejectedLater(committed.filesRejected);
         log.warn({ files: committed.filesRejected }, 'inputs rejected by the worker were quarantined');
       }
-      log.info({ result: committed.path, partial: result.partial, missing: result.missing.map((m) => m.what) }, 'result written');
+      log.info(
+        { result: committed.path, partial: result.partial, missing: result.missing.map((m) => m.what) },
+        'result written',
+      );
       logMovesFailed(log, committed.movesFailed);
       for (const stage of stages) {
         if (stage.afterCommit === undefined) continue;
@@ -295,9 +352,16 @@ export class GroupCommit {
     if (revisions.length === 0) return;
     try {
       const rewritten = await reviseResultFiles(this.options.ledger, revisions, now);
-      if (rewritten.length > 0) this.options.logger.info({ sets: rewritten }, 'QC verdict of earlier-written results revised (a result acquired before them arrived later); their files show it, qc.history keeps the earlier flags');
+      if (rewritten.length > 0)
+        this.options.logger.info(
+          { sets: rewritten },
+          'QC verdict of earlier-written results revised (a result acquired before them arrived later); their files show it, qc.history keeps the earlier flags',
+        );
     } catch (error) {
-      this.options.logger.error({ err: error, sets: revisions.map((revision) => revision.setId) }, 'could not rewrite results whose QC verdict was revised; the ledger holds the current verdict');
+      this.options.logger.error(
+        { err: error, sets: revisions.map((revision) => revision.setId) },
+        'could not rewrite results whose QC verdict was revised; the ledger holds the current verdict',
+      );
     }
   }
 }

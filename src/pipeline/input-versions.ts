@@ -37,7 +37,9 @@ export function sha256OfPath(path: string): string | undefined {
 
 /** Own data files of a set that take part in its analysis (not its manifest, not rejected ones). */
 function ownInputs(ledger: Ledger, setId: string): FileRecord[] {
-  return filesOfSet(ledger, setId).filter((f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected');
+  return filesOfSet(ledger, setId).filter(
+    (f) => f.dataType !== 'manifest' && f.part !== null && f.state !== 'rejected',
+  );
 }
 
 /**
@@ -68,8 +70,13 @@ export function inputsChangedOnDisk(ledger: Ledger, setId: string): FileRecord[]
  */
 export function analysedCurrentInputs(ledger: Ledger, setId: string, result: AnalysisResult): boolean {
   const key = (name: string, sha256: string): string => `${name}\0${sha256}`;
-  const analysed = result.provenance.inputs.filter((i) => i.origin === 'own').map((i) => key(i.file, i.sha256)).sort();
-  const current = ownInputs(ledger, setId).map((f) => key(f.name, f.sha256)).sort();
+  const analysed = result.provenance.inputs
+    .filter((i) => i.origin === 'own')
+    .map((i) => key(i.file, i.sha256))
+    .sort();
+  const current = ownInputs(ledger, setId)
+    .map((f) => key(f.name, f.sha256))
+    .sort();
   return analysed.length === current.length && analysed.every((k, i) => k === current[i]);
 }
 
@@ -88,7 +95,12 @@ export interface NewVersionCandidate {
  * metadata, else seen within `windowMs` before (a daily control exported under one name each day is
  * a new measurement, not a version).
  */
-export function findEarlierVersion(ledger: Ledger, candidate: NewVersionCandidate, now: Date, windowMs: number): FileRecord | undefined {
+export function findEarlierVersion(
+  ledger: Ledger,
+  candidate: NewVersionCandidate,
+  now: Date,
+  windowMs: number,
+): FileRecord | undefined {
   const records = filesByPath(ledger, candidate.path).reverse();
   for (const record of records) {
     if (record.setId === null || record.dataType === 'manifest') continue;
@@ -117,8 +129,12 @@ export const supersededInputsStage: ResultStage = {
     const versions = versionsOfSet(ledger, result.setId);
     if (versions.length === 0) return result;
     const supersededInputs: SupersededInput[] = versions.map((v) => ({
-      file: v.name, sha256: v.sha256, sizeBytes: v.sizeBytes, replacedAt: v.replacedAt,
-      ...(v.resultSha256 === null ? {} : { resultSha256: v.resultSha256 }), reason: v.reason,
+      file: v.name,
+      sha256: v.sha256,
+      sizeBytes: v.sizeBytes,
+      replacedAt: v.replacedAt,
+      ...(v.resultSha256 === null ? {} : { resultSha256: v.resultSha256 }),
+      reason: v.reason,
     }));
     return { ...result, provenance: { ...result.provenance, supersededInputs } };
   },
@@ -131,7 +147,7 @@ export function isRerunJob(jobId: string): boolean {
 
 /** Why an input's earlier version was replaced, by the state its set had reached. */
 export function replacementReason(state: string): string {
-  if (state === 'done') return 'the file was rewritten at its path after the set\'s result was written';
+  if (state === 'done') return "the file was rewritten at its path after the set's result was written";
   if (state === 'queued') return 'the file changed at its path while the set was being analysed';
   return 'the file changed at its path before the set was complete';
 }
@@ -158,7 +174,8 @@ export function statArchived(moves: readonly { id: number; archivePath: string }
   const out: ArchivedStat[] = [];
   for (const move of moves) {
     const stat = statSync(move.archivePath, { throwIfNoEntry: false });
-    if (stat !== undefined) out.push({ fileId: move.id, path: move.archivePath, sizeBytes: stat.size, mtimeMs: stat.mtimeMs });
+    if (stat !== undefined)
+      out.push({ fileId: move.id, path: move.archivePath, sizeBytes: stat.size, mtimeMs: stat.mtimeMs });
   }
   return out;
 }

@@ -45,10 +45,14 @@ export function acquireInstanceLock(stateDir: string, command: string, pid: numb
       if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
       const owner = ownerOf(path);
       if (owner !== undefined && owner !== pid && processAlive(owner)) {
-        throw new DriftlightError('ALREADY_RUNNING', `driftlight is already running (pid ${owner}) on the state folder ${stateDir}`, {
-          file: path,
-          hint: `Stop the other instance (kill ${owner}) or give this one its own state folder (folders.state); a lock whose process has died is taken over automatically.`,
-        });
+        throw new DriftlightError(
+          'ALREADY_RUNNING',
+          `driftlight is already running (pid ${owner}) on the state folder ${stateDir}`,
+          {
+            file: path,
+            hint: `Stop the other instance (kill ${owner}) or give this one its own state folder (folders.state); a lock whose process has died is taken over automatically.`,
+          },
+        );
       }
       // Stale (its process is gone, or the file is half-written): remove it and try again. Two
       // instances taking over at once both remove it, but only one of the exclusive creates wins.
@@ -68,5 +72,7 @@ export function acquireInstanceLock(stateDir: string, command: string, pid: numb
       },
     };
   }
-  throw new DriftlightError('ALREADY_RUNNING', `could not take the lock ${path}: another instance keeps taking it`, { file: path });
+  throw new DriftlightError('ALREADY_RUNNING', `could not take the lock ${path}: another instance keeps taking it`, {
+    file: path,
+  });
 }

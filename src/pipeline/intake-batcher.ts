@@ -10,6 +10,9 @@ export function batchStableFiles(
   const waiting: string[] = [];
   return (path) => {
     waiting.push(path);
-    if (waiting.length === 1) schedule(async () => { await intakeMany(waiting.splice(0)); });
+    if (waiting.length === 1)
+      schedule(async () => {
+        await intakeMany(waiting.splice(0));
+      });
   };
 }

@@ -2,14 +2,33 @@
 // then read what set assembly needs (a data file's head, see sniff.ts, or a set manifest). Bad files
 // are quarantined with their reason.
 import { createHash } from 'node:crypto';
-import { closeSync, existsSync, lstatSync, openSync, readFileSync, readlinkSync, readSync, realpathSync, renameSync, statSync } from 'node:fs';
+import {
+  closeSync,
+  existsSync,
+  lstatSync,
+  openSync,
+  readFileSync,
+  readlinkSync,
+  readSync,
+  realpathSync,
+  renameSync,
+  statSync,
+} from 'node:fs';
 import { basename, relative, resolve, isAbsolute } from 'node:path';
 import { DriftlightError, InputRejected } from '../model/errors.js';
 import { ERROR_CODES } from '../model/error-codes.js';
 import { decodeText, type ParsedData } from '../formats/index.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
-import { filesBySha256, insertFile, setFileError, setFileLocation, type AcquiredSource, type FileRecord, type NewFile } from '../store/files.js';
+import {
+  filesBySha256,
+  insertFile,
+  setFileError,
+  setFileLocation,
+  type AcquiredSource,
+  type FileRecord,
+  type NewFile,
+} from '../store/files.js';
 import { isoFromEpochMs, readAcquisitionTime } from '../model/acquisition-time.js';
 import { dayFolderName, uniqueTarget } from '../output/dated-path.js';
 import { moveFile } from '../output/move-file.js';
@@ -31,9 +50,15 @@ export interface Acquisition {
  * modification time, recorded as such (never the analysis time). Throws InputRejected
  * DATE_AMBIGUOUS or DATE_INVALID for a time that cannot be read as one instant.
  */
-export function acquisitionOf(parsed: ParsedData, modifiedMs: number, config: DriftlightConfig, fileName: string): Acquisition {
+export function acquisitionOf(
+  parsed: ParsedData,
+  modifiedMs: number,
+  config: DriftlightConfig,
+  fileName: string,
+): Acquisition {
   const text = parsed.type === 'spectrum' ? parsed.spectrum.metadata.acquiredAt : parsed.decay.metadata.acquiredAt;
-  if (text === undefined || text.trim() === '') return { acquiredAt: isoFromEpochMs(Math.round(modifiedMs)), source: 'file-modified' };
+  if (text === undefined || text.trim() === '')
+    return { acquiredAt: isoFromEpochMs(Math.round(modifiedMs)), source: 'file-modified' };
   const reading = readAcquisitionTime(text, {
     ...(config.instrument.dateOrder === undefined ? {} : { dateOrder: config.instrument.dateOrder }),
     timeZone: config.instrument.timeZone,
@@ -49,8 +74,19 @@ export type IntakeResult =
   | { readonly kind: 'gone' }
   | { readonly kind: 'known' }
   | { readonly kind: 'rejected' }
-  | { readonly kind: 'data'; readonly file: IntakeFile; readonly parsed: ParsedData; readonly bytes: Uint8Array; readonly acquisition: Acquisition }
-  | { readonly kind: 'manifest'; readonly file: IntakeFile; readonly manifest: SetManifest; readonly bytes: Uint8Array };
+  | {
+      readonly kind: 'data';
+      readonly file: IntakeFile;
+      readonly parsed: ParsedData;
+      readonly bytes: Uint8Array;
+      readonly acquisition: Acquisition;
+    }
+  | {
+      readonly kind: 'manifest';
+      readonly file: IntakeFile;
+      readonly manifest: SetManifest;
+      readonly bytes: Uint8Array;
+    };
 
 /** Files read earlier in the same intake batch but not recorded yet, by sha256 (for duplicate detection). */
 export type PendingIntake = ReadonlyMap<string, { readonly name: string; readonly path: string }>;
@@ -72,13 +108,27 @@ function sha256OfFile(path: string, sizeBytes: number): { sha256: string; bytes?
 }
 
 /** Quarantines a recorded file with `error` and marks it rejected (or failed). */
-export function rejectFile(ledger: Ledger, config: DriftlightConfig, file: FileRecord, error: DriftlightError, now: Date, state: 'rejected' | 'failed' = 'rejected', setId?: string): void {
+export function rejectFile(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  file: FileRecord,
+  error: DriftlightError,
+  now: Date,
+  state: 'rejected' | 'failed' = 'rejected',
+  setId?: string,
+): void {
   ledger.transaction(() => setFileError(ledger, file.id, state, { code: error.code, message: error.message }, now));
   const target = quarantineFile(
     config.folders.quarantine,
     file.path,
     file.name,
-    { code: error.code, message: error.message, hint: error.hint, ...(error.line === undefined ? {} : { line: error.line }), ...(setId === undefined ? {} : { setId }) },
+    {
+      code: error.code,
+      message: error.message,
+      hint: error.hint,
+      ...(error.line === undefined ? {} : { line: error.line }),
+      ...(setId === undefined ? {} : { setId }),
+    },
     now,
     file.sha256,
   );
@@ -99,7 +149,13 @@ export function finishArchiveMove(ledger: Ledger, config: DriftlightConfig, file
 }
 
 /** Reads a stable file; returns what it is and its bytes (recorded by the caller when it assembles it), or that it was handled (known, rejected, gone); `pending` lists files of the same batch not yet recorded. */
-export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: string, now: Date, pending: PendingIntake = new Map()): IntakeResult {
+export function intakeFile(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  path: string,
+  now: Date,
+  pending: PendingIntake = new Map(),
+): IntakeResult {
   let sizeBytes: number;
   let modifiedMs: number;
   try {
@@ -124,14 +180,25 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
   const known = filesBySha256(ledger, sha256);
   const samePath = known.filter((f) => f.path === path);
   for (const record of samePath) {
-    if (record.state === 'seen') return readRecorded(ledger, config, record, bytes ?? readFileSync(path), now, modifiedMs);
+    if (record.state === 'seen')
+      return readRecorded(ledger, config, record, bytes ?? readFileSync(path), now, modifiedMs);
     if (record.state === 'assembled' || record.state === 'queued') return { kind: 'known' };
     if (record.state === 'done' && record.archivePath === null) {
       finishArchiveMove(ledger, config, record, now);
       return { kind: 'known' };
     }
     if ((record.state === 'rejected' || record.state === 'failed') && record.quarantinePath === null) {
-      rejectFile(ledger, config, record, new InputRejected((record.errorCode ?? 'SET_FAILED') as keyof typeof ERROR_CODES, record.errorMessage ?? 'rejected'), now, record.state);
+      rejectFile(
+        ledger,
+        config,
+        record,
+        new InputRejected(
+          (record.errorCode ?? 'SET_FAILED') as keyof typeof ERROR_CODES,
+          record.errorMessage ?? 'rejected',
+        ),
+        now,
+        record.state,
+      );
       return { kind: 'known' };
     }
   }
@@ -146,20 +213,51 @@ export function intakeFile(ledger: Ledger, config: DriftlightConfig, path: strin
   const file = ledger.transaction(() => insertFile(ledger, newFile, now));
   if (original !== undefined) {
     const where = original.setId === null ? '' : ` in set ${original.setId}`;
-    rejectFile(ledger, config, file, new InputRejected('DUPLICATE_INPUT', `the same content was already received as ${original.name}${where} (sha256 ${sha256.slice(0, 12)}…)`, { file: name }), now);
+    rejectFile(
+      ledger,
+      config,
+      file,
+      new InputRejected(
+        'DUPLICATE_INPUT',
+        `the same content was already received as ${original.name}${where} (sha256 ${sha256.slice(0, 12)}…)`,
+        { file: name },
+      ),
+      now,
+    );
     return { kind: 'rejected' };
   }
-  rejectFile(ledger, config, file, new InputRejected('FILE_TOO_LARGE', `the file has ${sizeBytes} bytes, more than limits.maxFileBytes = ${config.limits.maxFileBytes}`, { file: name }), now);
+  rejectFile(
+    ledger,
+    config,
+    file,
+    new InputRejected(
+      'FILE_TOO_LARGE',
+      `the file has ${sizeBytes} bytes, more than limits.maxFileBytes = ${config.limits.maxFileBytes}`,
+      { file: name },
+    ),
+    now,
+  );
   return { kind: 'rejected' };
 }
 
 /** Reads a data file's head or a manifest; a bad file is recorded (if it is not yet) and quarantined. */
-function readRecorded(ledger: Ledger, config: DriftlightConfig, file: FileRecord | NewFile, bytes: Uint8Array, now: Date, modifiedMs: number): IntakeResult {
+function readRecorded(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  file: FileRecord | NewFile,
+  bytes: Uint8Array,
+  now: Date,
+  modifiedMs: number,
+): IntakeResult {
   try {
     if (isManifestName(file.name, config.assembly.manifestSuffixes)) {
       return { kind: 'manifest', file, manifest: parseManifest(decodeText(bytes).text, file.name), bytes };
     }
-    const parsed = readForAssembly(bytes, { fileName: file.name, maxBytes: config.limits.maxFileBytes, profiles: config.formats.profiles });
+    const parsed = readForAssembly(bytes, {
+      fileName: file.name,
+      maxBytes: config.limits.maxFileBytes,
+      profiles: config.formats.profiles,
+    });
     return { kind: 'data', file, parsed, bytes, acquisition: acquisitionOf(parsed, modifiedMs, config, file.name) };
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;
@@ -193,7 +291,8 @@ function takeLink(config: DriftlightConfig, path: string): string | undefined {
     real = realpathSync(path);
   } catch (error) {
     const code = errnoCode(error);
-    if (code === 'ELOOP') return `${basename(path)} is a symbolic link to ${target} that leads back to itself (a link loop)`;
+    if (code === 'ELOOP')
+      return `${basename(path)} is a symbolic link to ${target} that leads back to itself (a link loop)`;
     if (!isGoneError(error)) throw error;
     return `${basename(path)} is a symbolic link to ${target}, which does not exist (a dangling link)`;
   }
@@ -207,8 +306,10 @@ function takeLink(config: DriftlightConfig, path: string): string | undefined {
     if (!isGoneError(error)) throw error;
     inbox = resolve(config.folders.inbox);
   }
-  if (!isInside(real, inbox)) return `${basename(path)} is a symbolic link to ${real}, outside the inbox ${inbox}; only links resolving inside the inbox are taken (watch.symlinks: inside-inbox)`;
-  if (!statSync(real).isFile()) return `${basename(path)} is a symbolic link to the folder ${real}; links to folders are never followed`;
+  if (!isInside(real, inbox))
+    return `${basename(path)} is a symbolic link to ${real}, outside the inbox ${inbox}; only links resolving inside the inbox are taken (watch.symlinks: inside-inbox)`;
+  if (!statSync(real).isFile())
+    return `${basename(path)} is a symbolic link to the folder ${real}; links to folders are never followed`;
   try {
     renameSync(real, path);
   } catch (error) {

@@ -15,12 +15,28 @@ import type { JobQueue } from '../queue/job-queue.js';
 import type { Ledger } from '../store/ledger.js';
 import { advanceFilesOfSet, filesOfSet, type FileRecord } from '../store/files.js';
 import { getResult } from '../store/results.js';
-import { deleteOpenSet, deletePairingsOfSet, doneSampleSetIdsMeasuredBetween, getSet, insertPairing, markSetQueued, pairingsOfSet } from '../store/sets.js';
+import {
+  deleteOpenSet,
+  deletePairingsOfSet,
+  doneSampleSetIdsMeasuredBetween,
+  getSet,
+  insertPairing,
+  markSetQueued,
+  pairingsOfSet,
+} from '../store/sets.js';
 import { isoFromEpochMs } from '../model/acquisition-time.js';
 import { partsPresent, setReadiness, type AssemblyRules } from './assemble.js';
 import { commitFailure } from './commit.js';
 import type { ContentCache } from './content-cache.js';
-import { buildPayload, choosePairings, needsSessionReference, readText, sessionReferenceSetId, setAcquisition, setMeasuredAtOr } from './dispatch.js';
+import {
+  buildPayload,
+  choosePairings,
+  needsSessionReference,
+  readText,
+  sessionReferenceSetId,
+  setAcquisition,
+  setMeasuredAtOr,
+} from './dispatch.js';
 import { InFlightSlots } from './in-flight.js';
 import { isRerunJob, versionedJobId } from './input-versions.js';
 import { versionCountOfSet } from '../store/file-versions.js';
@@ -54,7 +70,18 @@ export function dispatchSettingsFrom(config: DriftlightConfig, rules: AssemblyRu
   if (curvePath === undefined) return { rules, configHash: configHash(config, undefined), detectorCurve: undefined };
   const content = readText(curvePath);
   const sha256 = createHash('sha256').update(readFileSync(curvePath)).digest('hex');
-  return { rules, configHash: configHash(config, sha256), detectorCurve: { name: basename(curvePath), sha256, part: 'detector-curve', role: 'detector-curve', origin: 'config', content } };
+  return {
+    rules,
+    configHash: configHash(config, sha256),
+    detectorCurve: {
+      name: basename(curvePath),
+      sha256,
+      part: 'detector-curve',
+      role: 'detector-curve',
+      origin: 'config',
+      content,
+    },
+  };
 }
 
 export interface JobDispatcherOptions {
@@ -79,7 +106,9 @@ export class JobDispatcher {
   private readonly awaitingReference = new Set<string>();
 
   constructor(private readonly options: JobDispatcherOptions) {
-    this.slots = new InFlightSlots(Math.max(MAX_IN_FLIGHT_PER_WORKER, MAX_IN_FLIGHT_PER_WORKER * options.config.queue.concurrency));
+    this.slots = new InFlightSlots(
+      Math.max(MAX_IN_FLIGHT_PER_WORKER, MAX_IN_FLIGHT_PER_WORKER * options.config.queue.concurrency),
+    );
   }
 
   /** Jobs dispatched and not yet committed. */
@@ -109,9 +138,22 @@ export class JobDispatcher {
    */
   async dispatchReady(sets: readonly OpenSet[], now: Date, force = false): Promise<void> {
     if (this.holdDispatch && !force) return;
-    const { ledger, config, openSets, logger, settings: { rules } } = this.options;
+    const {
+      ledger,
+      config,
+      openSets,
+      logger,
+      settings: { rules },
+    } = this.options;
     const empty: OpenSet[] = [];
-    const chosen: { set: OpenSet; reason: string; missing: readonly SetPart[]; paired: string[]; own?: FileRecord[]; jobId?: string }[] = [];
+    const chosen: {
+      set: OpenSet;
+      reason: string;
+      missing: readonly SetPart[];
+      paired: string[];
+      own?: FileRecord[];
+      jobId?: string;
+    }[] = [];
     for (const set of sets) {
       if (openSets.get(set.id) !== set) continue;
       if (set.files.length === 0 && set.manifest === undefined) {
@@ -122,7 +164,11 @@ export class JobDispatcher {
       if (!readiness.ready && !force) continue;
       // A complete sample or control waits for its session's reference until its deadline (a timeout or the end of a batch sends it on).
       if (!force && now.getTime() < set.deadlineAt.getTime() && this.waitsForReference(set, now)) {
-        if (!this.awaitingReference.has(set.id)) logger.info({ setId: set.id, until: set.deadlineAt.toISOString() }, 'set complete; waiting for the reference standard of its session');
+        if (!this.awaitingReference.has(set.id))
+          logger.info(
+            { setId: set.id, until: set.deadlineAt.toISOString() },
+            'set complete; waiting for the reference standard of its session',
+          );
         this.awaitingReference.add(set.id);
         continue;
       }
@@ -132,7 +178,12 @@ export class JobDispatcher {
         continue;
       }
       this.slots.dispatched(set.id);
-      chosen.push({ set, reason: readiness.ready ? readiness.reason : 'end-of-batch', missing: readiness.missingParts, paired: [] });
+      chosen.push({
+        set,
+        reason: readiness.ready ? readiness.reason : 'end-of-batch',
+        missing: readiness.missingParts,
+        paired: [],
+      });
     }
     if (empty.length === 0 && chosen.length === 0) return;
     ledger.transaction(() => {
@@ -140,7 +191,15 @@ export class JobDispatcher {
       for (const entry of chosen) {
         const { set } = entry;
         entry.own = filesOfSet(ledger, set.id);
-        const { pairings } = choosePairings(ledger, config, rules, set, partsPresent(toView(set).files), now, entry.own);
+        const { pairings } = choosePairings(
+          ledger,
+          config,
+          rules,
+          set,
+          partsPresent(toView(set).files),
+          now,
+          entry.own,
+        );
         for (const pairing of pairings) insertPairing(ledger, pairing);
         // A set run again after a new version of an input gets a new job id (a queue may keep finished ids).
         entry.jobId = versionedJobId(set.id, versionCountOfSet(ledger, set.id));
@@ -171,7 +230,9 @@ export class JobDispatcher {
   private waitsForReference(set: OpenSet, now: Date): boolean {
     const { ledger, config } = this.options;
     if (!needsSessionReference(config, set.role, partsPresent(toView(set).files))) return false;
-    return sessionReferenceSetId(ledger, config, setMeasuredAtOr(filesOfSet(ledger, set.id), now), set.id) === undefined;
+    return (
+      sessionReferenceSetId(ledger, config, setMeasuredAtOr(filesOfSet(ledger, set.id), now), set.id) === undefined
+    );
   }
 
   /**
@@ -181,28 +242,54 @@ export class JobDispatcher {
    * provenance.reanalysis says why and what it replaced. Sets with their own reference are left alone.
    */
   private async reanalyseForReference(referenceSetId: string): Promise<void> {
-    const { ledger, config, logger, settings: { rules }, clock } = this.options;
+    const {
+      ledger,
+      config,
+      logger,
+      settings: { rules },
+      clock,
+    } = this.options;
     const sessionMs = config.assembly.referenceSessionHours * 3_600_000;
     const reference = setAcquisition(filesOfSet(ledger, referenceSetId));
     if (sessionMs <= 0 || reference === undefined) return;
-    const candidates = doneSampleSetIdsMeasuredBetween(ledger, isoFromEpochMs(reference.epochMs - sessionMs), isoFromEpochMs(reference.epochMs + sessionMs));
+    const candidates = doneSampleSetIdsMeasuredBetween(
+      ledger,
+      isoFromEpochMs(reference.epochMs - sessionMs),
+      isoFromEpochMs(reference.epochMs + sessionMs),
+    );
     for (const setId of candidates) {
       const set = getSet(ledger, setId);
       const own = filesOfSet(ledger, setId);
       const measured = setAcquisition(own);
       const previous = getResult(ledger, setId);
       if (set === undefined || measured === undefined || previous === undefined) continue;
-      const present = partsPresent(own.flatMap((f) => (f.part === null || f.state === 'rejected' ? [] : [{ name: f.name, part: f.part as SetPart, hasIrfColumn: f.hasIrfColumn }])));
+      const present = partsPresent(
+        own.flatMap((f) =>
+          f.part === null || f.state === 'rejected'
+            ? []
+            : [{ name: f.name, part: f.part as SetPart, hasIrfColumn: f.hasIrfColumn }],
+        ),
+      );
       if (!needsSessionReference(config, set.role, present)) continue;
-      const pairedFrom = pairingsOfSet(ledger, setId).find((p) => p.part === 'reference-emission')?.fromSetId ?? undefined;
+      const pairedFrom =
+        pairingsOfSet(ledger, setId).find((p) => p.part === 'reference-emission')?.fromSetId ?? undefined;
       const pairedAt = pairedFrom === undefined ? undefined : setAcquisition(filesOfSet(ledger, pairedFrom));
       if (pairedAt !== undefined && Math.abs(pairedAt.epochMs - measured.epochMs) <= sessionMs) continue; // already has one of its session
       let chosenFrom: string | undefined;
       ledger.transaction(() => {
         deletePairingsOfSet(ledger, setId, ['reference-emission', 'reference-absorbance']);
-        const { pairings } = choosePairings(ledger, config, rules, { id: setId, sampleId: set.sampleId, role: set.role as OpenSet['role'] }, present, clock(), own);
+        const { pairings } = choosePairings(
+          ledger,
+          config,
+          rules,
+          { id: setId, sampleId: set.sampleId, role: set.role as OpenSet['role'] },
+          present,
+          clock(),
+          own,
+        );
         for (const pairing of pairings) {
-          if (pairing.part === 'reference-emission' || pairing.part === 'reference-absorbance') insertPairing(ledger, pairing);
+          if (pairing.part === 'reference-emission' || pairing.part === 'reference-absorbance')
+            insertPairing(ledger, pairing);
         }
         chosenFrom = pairings.find((p) => p.part === 'reference-emission')?.fromSetId ?? undefined;
       });
@@ -211,12 +298,16 @@ export class JobDispatcher {
         reason: 'reference-arrived',
         referenceSetId: chosenFrom,
         supersedes: {
-          analyzedAt: previous.analyzedAt, resultSha256: previous.resultSha256,
+          analyzedAt: previous.analyzedAt,
+          resultSha256: previous.resultSha256,
           ...(pairedFrom === undefined ? {} : { referenceSetId: pairedFrom }),
           ...(previous.quantumYield === null ? {} : { quantumYield: previous.quantumYield }),
         },
       };
-      logger.info({ setId, referenceSetId: chosenFrom, supersedes: previous.resultSha256 }, 're-analysing a set: the reference standard of its session arrived after it was analysed');
+      logger.info(
+        { setId, referenceSetId: chosenFrom, supersedes: previous.resultSha256 },
+        're-analysing a set: the reference standard of its session arrived after it was analysed',
+      );
       await this.enqueue(setId, `${setId}~ref-${chosenFrom}`, own, reanalysis);
     }
   }
@@ -240,17 +331,30 @@ export class JobDispatcher {
    * leaves the set as it was. `ownFiles`: the set's own files when the caller has just read them. Returns
    * undefined when enqueued, else why not.
    */
-  async enqueue(setId: string, jobId: string = setId, ownFiles?: readonly FileRecord[], reanalysis?: Reanalysis): Promise<string | undefined> {
+  async enqueue(
+    setId: string,
+    jobId: string = setId,
+    ownFiles?: readonly FileRecord[],
+    reanalysis?: Reanalysis,
+  ): Promise<string | undefined> {
     const { ledger, config, settings, clock, contents } = this.options;
     let payload: AnalysisJobPayload;
     try {
-      payload = buildPayload({
-        ledger, config, configHash: settings.configHash, softwareVersion: this.options.softwareVersion, rules: settings.rules,
-        ...(settings.detectorCurve === undefined ? {} : { detectorCurve: settings.detectorCurve }), now: clock(),
-        contentOf: (file) => contents.take(file.id),
-        ...(ownFiles === undefined ? {} : { ownFiles }),
-        ...(reanalysis === undefined ? {} : { reanalysis }),
-      }, setId);
+      payload = buildPayload(
+        {
+          ledger,
+          config,
+          configHash: settings.configHash,
+          softwareVersion: this.options.softwareVersion,
+          rules: settings.rules,
+          ...(settings.detectorCurve === undefined ? {} : { detectorCurve: settings.detectorCurve }),
+          now: clock(),
+          contentOf: (file) => contents.take(file.id),
+          ...(ownFiles === undefined ? {} : { ownFiles }),
+          ...(reanalysis === undefined ? {} : { reanalysis }),
+        },
+        setId,
+      );
     } catch (error) {
       if (!(error instanceof InputRejected) || error.code !== 'INPUT_MISSING') throw error;
       const log = this.options.logger.child({ setId });
@@ -258,8 +362,17 @@ export class JobDispatcher {
         log.warn({ code: error.code, message: error.message }, 'set not re-run: an input is missing');
         return error.message;
       }
-      const movesFailed = commitFailure(ledger, config, setId, { code: error.code, message: error.message, hint: error.hint }, clock());
-      log.error({ code: error.code, message: error.message }, 'set failed: an input is missing; its other files are quarantined');
+      const movesFailed = commitFailure(
+        ledger,
+        config,
+        setId,
+        { code: error.code, message: error.message, hint: error.hint },
+        clock(),
+      );
+      log.error(
+        { code: error.code, message: error.message },
+        'set failed: an input is missing; its other files are quarantined',
+      );
       logMovesFailed(log, movesFailed);
       this.options.report.setFailed(setId);
       return error.message;

@@ -20,7 +20,10 @@ const manifestSchema = z.strictObject({
   files: z
     .array(
       z.strictObject({
-        file: z.string().min(1).refine((f) => !f.includes('/') && !f.includes('\\'), 'a plain file name in the manifest\'s folder'),
+        file: z
+          .string()
+          .min(1)
+          .refine((f) => !f.includes('/') && !f.includes('\\'), "a plain file name in the manifest's folder"),
         part: z.enum(SET_PARTS),
         role: z.enum(MEASUREMENT_ROLES).optional(),
       }),
@@ -37,7 +40,11 @@ export function parseManifest(text: string, fileName: string): SetManifest {
   try {
     raw = parseYaml(text) as unknown;
   } catch (error) {
-    throw new InputRejected('MANIFEST_INVALID', `the manifest is not valid YAML/JSON: ${(error as Error).message.split('\n')[0] ?? ''}`, { file: fileName });
+    throw new InputRejected(
+      'MANIFEST_INVALID',
+      `the manifest is not valid YAML/JSON: ${(error as Error).message.split('\n')[0] ?? ''}`,
+      { file: fileName },
+    );
   }
   const parsed = manifestSchema.safeParse(raw);
   if (!parsed.success) {

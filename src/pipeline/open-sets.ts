@@ -30,7 +30,11 @@ export interface OpenSet {
 /** The assembly view of an open set. */
 export function toView(set: OpenSet): OpenSetView {
   return {
-    id: set.id, sampleId: set.sampleId, role: set.role, createdAt: set.createdAt, deadlineAt: set.deadlineAt,
+    id: set.id,
+    sampleId: set.sampleId,
+    role: set.role,
+    createdAt: set.createdAt,
+    deadlineAt: set.deadlineAt,
     files: set.files.map((f) => ({ name: f.name, part: f.part, hasIrfColumn: f.hasIrfColumn })),
     ...(set.manifest === undefined ? {} : { manifestFiles: set.manifest.manifest.files.map((f) => f.file) }),
   };
@@ -84,12 +88,16 @@ export class OpenSets {
 
   /** Every open set, oldest first. */
   all(): OpenSet[] {
-    return [...this.byId.values()].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id));
+    return [...this.byId.values()].sort(
+      (a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id),
+    );
   }
 
   /** Manifest sets, oldest first (the ones that may claim files already waiting elsewhere). */
   manifests(): OpenSet[] {
-    return [...this.manifestSets].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id));
+    return [...this.manifestSets].sort(
+      (a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.id.localeCompare(b.id),
+    );
   }
 
   /** Candidates for a new file, in insertion order: sets of the same sample id and every manifest set (indexed, so the cost does not grow with the number of open sets). */
@@ -112,8 +120,13 @@ export function fromRecord(ledger: Ledger, record: SetRecord): OpenSet {
   const manifest = record.manifestJson === null ? undefined : (JSON.parse(record.manifestJson) as StoredManifest);
   const role = record.role as MeasurementRole;
   return {
-    id: record.id, sampleId: record.sampleId, role, createdAt: new Date(record.createdAt), deadlineAt: new Date(record.deadlineAt),
-    files, ...(manifest === undefined ? {} : { manifest }),
+    id: record.id,
+    sampleId: record.sampleId,
+    role,
+    createdAt: new Date(record.createdAt),
+    deadlineAt: new Date(record.deadlineAt),
+    files,
+    ...(manifest === undefined ? {} : { manifest }),
     standalone: role === 'irf' || role === 'blank' || role === 'raman' || role === 'detector-curve',
   };
 }

@@ -10,16 +10,22 @@ import { controlSchema, parseRuleSet, withControls, type ControlDefinition, type
 
 /** rules/default.yaml of the installed package (from src/ under vitest, from dist/src/ when built). */
 export function defaultRuleSetFile(): string {
-  const candidates = ['../../rules/default.yaml', '../../../rules/default.yaml'].map((relative) => fileURLToPath(new URL(relative, import.meta.url)));
+  const candidates = ['../../rules/default.yaml', '../../../rules/default.yaml'].map((relative) =>
+    fileURLToPath(new URL(relative, import.meta.url)),
+  );
   const found = candidates.find((candidate) => existsSync(candidate));
-  if (found === undefined) throw new ConfigInvalid('the built-in rule set rules/default.yaml is missing from the installation', { configPath: 'rules.file' });
+  if (found === undefined)
+    throw new ConfigInvalid('the built-in rule set rules/default.yaml is missing from the installation', {
+      configPath: 'rules.file',
+    });
   return found;
 }
 
 /** Reads and validates a rule-set file (default: the built-in one); throws ConfigInvalid. */
 export function loadRuleSetFile(file?: string): RuleSet {
   const path = file ?? defaultRuleSetFile();
-  if (!existsSync(path)) throw new ConfigInvalid(`rule set file not found: ${path}`, { file: path, configPath: 'rules.file' });
+  if (!existsSync(path))
+    throw new ConfigInvalid(`rule set file not found: ${path}`, { file: path, configPath: 'rules.file' });
   return parseRuleSet(readFileSync(path, 'utf8'), path);
 }
 
@@ -27,8 +33,10 @@ export function loadRuleSetFile(file?: string): RuleSet {
 export function controlsFromConfig(entries: readonly ControlConfig[]): ControlDefinition[] {
   return entries.map((entry, index) => {
     const targets: Record<string, { mean: number; sd: number }> = { ...(entry.targets ?? {}) };
-    if (entry.targetYield !== undefined && entry.sdYield !== undefined) targets['controlQuantumYield'] = { mean: entry.targetYield, sd: entry.sdYield };
-    if (entry.targetTauNs !== undefined && entry.sdTauNs !== undefined) targets['meanLifetimeNs'] = { mean: entry.targetTauNs, sd: entry.sdTauNs };
+    if (entry.targetYield !== undefined && entry.sdYield !== undefined)
+      targets['controlQuantumYield'] = { mean: entry.targetYield, sd: entry.sdYield };
+    if (entry.targetTauNs !== undefined && entry.sdTauNs !== undefined)
+      targets['meanLifetimeNs'] = { mean: entry.targetTauNs, sd: entry.sdTauNs };
     const parsed = controlSchema.safeParse({
       id: entry.id,
       ...(entry.label === undefined ? {} : { label: entry.label }),
@@ -38,7 +46,9 @@ export function controlsFromConfig(entries: readonly ControlConfig[]): ControlDe
     });
     if (!parsed.success) {
       const issue = parsed.error.issues[0];
-      throw new ConfigInvalid(issue?.message ?? 'invalid control', { configPath: `controls[${index}]${issue === undefined ? '' : `.${issue.path.join('.')}`}` });
+      throw new ConfigInvalid(issue?.message ?? 'invalid control', {
+        configPath: `controls[${index}]${issue === undefined ? '' : `.${issue.path.join('.')}`}`,
+      });
     }
     return parsed.data;
   });

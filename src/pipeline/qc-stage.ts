@@ -24,7 +24,13 @@ import {
 } from '../qc/index.js';
 import type { Ledger } from '../store/ledger.js';
 import { excludedSetIds } from '../store/qc-actions-store.js';
-import { closeClockFlagsCoveredBy, flagSignaturesOfSets, reconcileOpenFlags, replaceVerdictsOfSet, verdictKeysOfScopes } from '../store/qc-order-store.js';
+import {
+  closeClockFlagsCoveredBy,
+  flagSignaturesOfSets,
+  reconcileOpenFlags,
+  replaceVerdictsOfSet,
+  verdictKeysOfScopes,
+} from '../store/qc-order-store.js';
 import { ledgerAlertOutbox } from '../store/alert-outbox.js';
 import {
   baselineRecords,
@@ -39,7 +45,13 @@ import {
 import { effectiveRuleSet } from './qc-rule-set.js';
 import type { ResultStage, ResultStageContext } from './result-stage.js';
 
-export { controlsFromConfig, defaultRuleSetFile, effectiveRuleSet, loadRuleSetFile, withConfigControls } from './qc-rule-set.js';
+export {
+  controlsFromConfig,
+  defaultRuleSetFile,
+  effectiveRuleSet,
+  loadRuleSetFile,
+  withConfigControls,
+} from './qc-rule-set.js';
 
 /** A rules-engine flag in the result's qc.flags form (same severities: info, warning, critical). */
 export function toResultFlag(flag: QcFlag): ResultQcFlag {
@@ -91,7 +103,11 @@ export function createQcStage(options: QcStageOptions): QcStage {
       const { ledger } = context;
       const nowIso = context.now.toISOString();
       const scopes = [observation.controlId, INSTRUMENT_SCOPE];
-      let outcome: { flags: QcFlag[]; recoveries: RecoveryNotice[]; ownFlags: QcFlag[] } = { flags: [], recoveries: [], ownFlags: [] };
+      let outcome: { flags: QcFlag[]; recoveries: RecoveryNotice[]; ownFlags: QcFlag[] } = {
+        flags: [],
+        recoveries: [],
+        ownFlags: [],
+      };
       ledger.transaction(() => {
         // Issue 16.2: insert the run at its acquisition time, judge it and every later run again, and
         // derive open alarms from the newest deciding verdicts, so arrival order changes nothing.
@@ -99,25 +115,40 @@ export function createQcStage(options: QcStageOptions): QcStage {
         recordObservation(ledger, observation);
         // Runs excluded by `rules exclude` (a known bad cuvette) leave the baseline and the charts (issue 16.7).
         const excluded = excludedSetIds(ledger);
-        const all = observationHistory(ledger).filter((run) => !excluded.has(run.setId) || run.setId === observation.setId);
+        const all = observationHistory(ledger).filter(
+          (run) => !excluded.has(run.setId) || run.setId === observation.setId,
+        );
         const judged = judgeFrom(observation, all, ruleSet, baselineRecords(ledger));
-        const known = flagSignaturesOfSets(ledger, judged.map((run) => run.observation.setId));
+        const known = flagSignaturesOfSets(
+          ledger,
+          judged.map((run) => run.observation.setId),
+        );
         for (const run of judged) {
           replaceFlagsOfSet(ledger, run.observation.setId, run.flags);
           replaceVerdictsOfSet(ledger, run.observation.setId, run.verdicts);
         }
         const keys = [...new Set([...verdictKeysOfScopes(ledger, scopes), ...openBefore.map(flagKey)])];
         const { closed } = reconcileOpenFlags(ledger, keys, nowIso);
-        const clockClosed = closeClockFlagsCoveredBy(ledger, observation.controlId, observation.acquiredAt, ruleSet.timeZone, nowIso);
+        const clockClosed = closeClockFlagsCoveredBy(
+          ledger,
+          observation.controlId,
+          observation.acquiredAt,
+          ruleSet.timeZone,
+          nowIso,
+        );
         const openAfter = new Set(openFlags(ledger, scopes).map(flagKey));
         // Alert only flags that are new and still open (a late run's flag already superseded is history).
         const fresh = judged.flatMap((run) =>
-          run.flags.filter((flag) => openAfter.has(flagKey(flag)) && !known.has(`${flag.setId}|${flagKey(flag)}|${flag.check}`)),
+          run.flags.filter(
+            (flag) => openAfter.has(flagKey(flag)) && !known.has(`${flag.setId}|${flagKey(flag)}|${flag.check}`),
+          ),
         );
         // "Back in control" only when this run is the newest of its scope and itself decides it.
         const newest = judged[judged.length - 1]?.observation.setId === observation.setId;
         const ownVerdicts = judged.find((run) => run.observation.setId === observation.setId)?.verdicts ?? [];
-        const settledHere = new Set(ownVerdicts.filter((verdict) => verdict.status === 'settled').map((verdict) => verdict.key));
+        const settledHere = new Set(
+          ownVerdicts.filter((verdict) => verdict.status === 'settled').map((verdict) => verdict.key),
+        );
         const recoveredKeys = new Set([...closed.filter((key) => newest && settledHere.has(key)), ...clockClosed]);
         const recoveries = detectRecoveries({
           activeFlags: openBefore.filter((flag) => recoveredKeys.has(flagKey(flag))),
@@ -133,7 +164,8 @@ export function createQcStage(options: QcStageOptions): QcStage {
           if (setId === observation.setId) continue;
           const before = [...known].filter((signature) => signature.startsWith(`${setId}|`)).sort();
           const after = run.flags.map((flag) => `${flag.setId}|${flagKey(flag)}|${flag.check}`).sort();
-          if (before.length === after.length && before.every((signature, index) => signature === after[index])) continue;
+          if (before.length === after.length && before.every((signature, index) => signature === after[index]))
+            continue;
           revisions.set(setId, {
             qcFlags: run.flags.map(toResultFlag),
             reason: `re-judged when the result of set ${observation.setId}, acquired ${observation.acquiredAt}, was placed before it in acquisition order`,
@@ -157,7 +189,12 @@ export function createQcStage(options: QcStageOptions): QcStage {
     },
     checkClock(ledger: Ledger, now: Date): QcFlag[] {
       const flags = evaluateClockRules({ history: observationHistory(ledger), ruleSet, now: now.getTime() });
-      const open = new Set(openFlags(ledger, ruleSet.controls.map((control) => control.id)).map(flagKey));
+      const open = new Set(
+        openFlags(
+          ledger,
+          ruleSet.controls.map((control) => control.id),
+        ).map(flagKey),
+      );
       const fresh = flags.filter((flag) => !open.has(flagKey(flag)));
       if (fresh.length > 0) recordFlags(ledger, fresh);
       dispatcher(ledger)?.dispatch(flags);
@@ -177,7 +214,10 @@ export function createQcStage(options: QcStageOptions): QcStage {
 }
 
 /** The stage as the pipeline runs it: rule file from config.rules.file (or the built-in), config controls merged, alerts per config.alerts; `nowMs` (default Date.now) times cooldowns. */
-export function qcStageFromConfig(config: DriftlightConfig, dependencies: { logger: AlertLogger; env?: SecretSource; nowMs?: () => number }): QcStage {
+export function qcStageFromConfig(
+  config: DriftlightConfig,
+  dependencies: { logger: AlertLogger; env?: SecretSource; nowMs?: () => number },
+): QcStage {
   const ruleSet = effectiveRuleSet(config);
   const channels = createChannels(config.alerts, { env: dependencies.env ?? process.env, logger: dependencies.logger });
   return createQcStage({

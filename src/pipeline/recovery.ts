@@ -46,7 +46,10 @@ export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha2
 }
 
 /** The archived copy of a done file whose archive path is not recorded: findMovedCopy in the archive folder the commit moved it to. */
-export function findArchivedCopy(config: DriftlightConfig, file: Pick<FileRecord, 'name' | 'sha256' | 'firstSeenAt'>): string | undefined {
+export function findArchivedCopy(
+  config: DriftlightConfig,
+  file: Pick<FileRecord, 'name' | 'sha256' | 'firstSeenAt'>,
+): string | undefined {
   return findMovedCopy(archiveFolderOf(config, file), file);
 }
 
@@ -68,34 +71,51 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
       firstError ??= error;
     }
   };
-  for (const file of filesAwaitingMove(ledger, ['done'])) attempt(() => {
-    if (existsSync(file.path)) {
-      finishArchiveMove(ledger, config, file, now);
-      moved += 1;
-      return;
-    }
-    const copy = findArchivedCopy(config, file);
-    if (copy !== undefined) {
-      ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
-      relocated += 1;
-    }
-  });
-  for (const file of filesAwaitingMove(ledger, ['rejected', 'failed'])) attempt(() => {
-    if (existsSync(file.path)) {
-      // A failed set's file is worded as the commit words it; a rejected file keeps its own code.
-      const error = file.state === 'failed'
-        ? setFailedError(file.setId ?? '?', { code: file.errorCode ?? 'SET_FAILED', message: file.errorMessage ?? 'unknown reason' })
-        : new InputRejected((file.errorCode ?? 'SET_FAILED') as ErrorCode, file.errorMessage ?? 'rejected before a crash');
-      rejectFile(ledger, config, file, error, now, file.state === 'failed' ? 'failed' : 'rejected', file.setId ?? undefined);
-      moved += 1;
-      return;
-    }
-    // rejectFile records the error (updated_at) and quarantines the file with the same time.
-    const copy = findMovedCopy(quarantineFolder(config.folders.quarantine, new Date(file.updatedAt)), file);
-    if (copy !== undefined) {
-      ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: copy }, now));
-      relocated += 1;
-    }
-  });
+  for (const file of filesAwaitingMove(ledger, ['done']))
+    attempt(() => {
+      if (existsSync(file.path)) {
+        finishArchiveMove(ledger, config, file, now);
+        moved += 1;
+        return;
+      }
+      const copy = findArchivedCopy(config, file);
+      if (copy !== undefined) {
+        ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
+        relocated += 1;
+      }
+    });
+  for (const file of filesAwaitingMove(ledger, ['rejected', 'failed']))
+    attempt(() => {
+      if (existsSync(file.path)) {
+        // A failed set's file is worded as the commit words it; a rejected file keeps its own code.
+        const error =
+          file.state === 'failed'
+            ? setFailedError(file.setId ?? '?', {
+                code: file.errorCode ?? 'SET_FAILED',
+                message: file.errorMessage ?? 'unknown reason',
+              })
+            : new InputRejected(
+                (file.errorCode ?? 'SET_FAILED') as ErrorCode,
+                file.errorMessage ?? 'rejected before a crash',
+              );
+        rejectFile(
+          ledger,
+          config,
+          file,
+          error,
+          now,
+          file.state === 'failed' ? 'failed' : 'rejected',
+          file.setId ?? undefined,
+        );
+        moved += 1;
+        return;
+      }
+      // rejectFile records the error (updated_at) and quarantines the file with the same time.
+      const copy = findMovedCopy(quarantineFolder(config.folders.quarantine, new Date(file.updatedAt)), file);
+      if (copy !== undefined) {
+        ledger.transaction(() => setFileLocation(ledger, file.id, { quarantinePath: copy }, now));
+        relocated += 1;
+      }
+    });
   return { moved, relocated, failed, ...(firstError === undefined ? {} : { firstError }) };
 }

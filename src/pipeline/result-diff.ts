@@ -31,15 +31,30 @@ export function diffResults(before: AnalysisResult, after: AnalysisResult): Resu
     const b = show(get(after));
     if (a !== b) changes.push({ field, before: a, after: b });
   }
-  if (before.partial !== after.partial) changes.push({ field: 'partial', before: String(before.partial), after: String(after.partial) });
-  const missing = (r: AnalysisResult): string => r.missing.map((m) => m.what).sort().join(',') || '—';
-  if (missing(before) !== missing(after)) changes.push({ field: 'missing', before: missing(before), after: missing(after) });
-  const flags = (r: AnalysisResult): string => r.qc.flags.map((f) => f.rule).sort().join(',') || '—';
+  if (before.partial !== after.partial)
+    changes.push({ field: 'partial', before: String(before.partial), after: String(after.partial) });
+  const missing = (r: AnalysisResult): string =>
+    r.missing
+      .map((m) => m.what)
+      .sort()
+      .join(',') || '—';
+  if (missing(before) !== missing(after))
+    changes.push({ field: 'missing', before: missing(before), after: missing(after) });
+  const flags = (r: AnalysisResult): string =>
+    r.qc.flags
+      .map((f) => f.rule)
+      .sort()
+      .join(',') || '—';
   if (flags(before) !== flags(after)) changes.push({ field: 'qc.flags', before: flags(before), after: flags(after) });
   const corrections = (r: AnalysisResult): string => r.provenance.corrections.join(',') || '—';
-  if (corrections(before) !== corrections(after)) changes.push({ field: 'corrections', before: corrections(before), after: corrections(after) });
+  if (corrections(before) !== corrections(after))
+    changes.push({ field: 'corrections', before: corrections(before), after: corrections(after) });
   if (before.provenance.configHash !== after.provenance.configHash) {
-    changes.push({ field: 'configHash', before: before.provenance.configHash.slice(0, 12), after: after.provenance.configHash.slice(0, 12) });
+    changes.push({
+      field: 'configHash',
+      before: before.provenance.configHash.slice(0, 12),
+      after: after.provenance.configHash.slice(0, 12),
+    });
   }
   return changes;
 }

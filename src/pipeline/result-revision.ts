@@ -24,12 +24,20 @@ export function revisedResult(result: AnalysisResult, revision: ResultRevision, 
 
 /** Same flags, in any order (rule, severity, message). O(n log n). */
 function sameFlags(a: AnalysisResult['qc']['flags'], b: AnalysisResult['qc']['flags']): boolean {
-  const text = (flags: AnalysisResult['qc']['flags']): string => flags.map((flag) => `${flag.rule}|${flag.severity}|${flag.message}`).sort().join('\n');
+  const text = (flags: AnalysisResult['qc']['flags']): string =>
+    flags
+      .map((flag) => `${flag.rule}|${flag.severity}|${flag.message}`)
+      .sort()
+      .join('\n');
   return text(a) === text(b);
 }
 
 /** Rewrites the result files of `revisions` (each whose flags changed) and updates their index rows; returns the set ids rewritten. */
-export async function reviseResultFiles(ledger: Ledger, revisions: readonly ResultRevision[], now: Date): Promise<string[]> {
+export async function reviseResultFiles(
+  ledger: Ledger,
+  revisions: readonly ResultRevision[],
+  now: Date,
+): Promise<string[]> {
   const rewritten: { setId: string; sha256: string; flagsJson: string }[] = [];
   for (const revision of revisions) {
     const row = getResult(ledger, revision.setId);
@@ -37,7 +45,11 @@ export async function reviseResultFiles(ledger: Ledger, revisions: readonly Resu
     if (row === undefined || current === undefined || sameFlags(current.qc.flags, revision.qcFlags)) continue;
     const text = serializeResult(revisedResult(current, revision, now.toISOString()));
     await writeFileAtomicAsync(row.path, text);
-    rewritten.push({ setId: revision.setId, sha256: createHash('sha256').update(text).digest('hex'), flagsJson: JSON.stringify(revision.qcFlags) });
+    rewritten.push({
+      setId: revision.setId,
+      sha256: createHash('sha256').update(text).digest('hex'),
+      flagsJson: JSON.stringify(revision.qcFlags),
+    });
   }
   if (rewritten.length > 0) {
     ledger.transaction(() => {

@@ -37,7 +37,11 @@ export interface ResultStage {
 }
 
 /** Runs `stages` in order over `result`; a stage that throws stops the chain (the caller decides). */
-export async function applyStages(stages: readonly ResultStage[], result: AnalysisResult, context: ResultStageContext): Promise<AnalysisResult> {
+export async function applyStages(
+  stages: readonly ResultStage[],
+  result: AnalysisResult,
+  context: ResultStageContext,
+): Promise<AnalysisResult> {
   let current = result;
   for (const stage of stages) current = await stage.apply(current, context);
   return current;

@@ -19,7 +19,15 @@ export interface CoordinatorCounts {
 export type CommittedListener = (setId: string, resultPath: string | undefined) => void;
 
 export class RunReport {
-  private readonly mutableCounts: CoordinatorCounts = { filesAccepted: 0, filesRejected: 0, setsDispatched: 0, setsDone: 0, setsFailed: 0, setsPartial: 0, setsNotCommitted: 0 };
+  private readonly mutableCounts: CoordinatorCounts = {
+    filesAccepted: 0,
+    filesRejected: 0,
+    setsDispatched: 0,
+    setsDone: 0,
+    setsFailed: 0,
+    setsPartial: 0,
+    setsNotCommitted: 0,
+  };
   private readonly listeners: CommittedListener[] = [];
 
   /** The counters so far (read-only to callers; the parts add through the methods below). */
@@ -75,5 +83,8 @@ export class RunReport {
 /** Logs file moves that failed after a set was recorded done or failed (error undefined: none failed). */
 export function logMovesFailed(log: Logger, error: unknown): void {
   if (error === undefined) return;
-  log.error({ err: error }, 'set recorded, but moving its inputs out of the inbox failed; they are moved by the next repair (watch: every watch.rescanIntervalMs; process: its next run)');
+  log.error(
+    { err: error },
+    'set recorded, but moving its inputs out of the inbox failed; they are moved by the next repair (watch: every watch.rescanIntervalMs; process: its next run)',
+  );
 }

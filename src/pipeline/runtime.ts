@@ -48,14 +48,19 @@ export function requiredFolders(config: DriftlightConfig): FolderName[] {
 }
 
 /** The folders among `names` that are missing (or not folders), as `folders.NAME (path)`. */
-export function missingFolders(config: DriftlightConfig, names: readonly FolderName[] = requiredFolders(config)): string[] {
-  return names.filter((name) => {
-    try {
-      return !statSync(config.folders[name]).isDirectory();
-    } catch {
-      return true;
-    }
-  }).map((name) => `folders.${name} (${config.folders[name]})`);
+export function missingFolders(
+  config: DriftlightConfig,
+  names: readonly FolderName[] = requiredFolders(config),
+): string[] {
+  return names
+    .filter((name) => {
+      try {
+        return !statSync(config.folders[name]).isDirectory();
+      } catch {
+        return true;
+      }
+    })
+    .map((name) => `folders.${name} (${config.folders[name]})`);
 }
 
 /**
@@ -65,13 +70,24 @@ export function missingFolders(config: DriftlightConfig, names: readonly FolderN
  */
 export function openPipeline(
   config: DriftlightConfig,
-  options: { softwareVersion: string; stages?: readonly ResultStage[]; logger?: Logger; clock?: () => Date; command?: string; requireFolders?: readonly FolderName[] },
+  options: {
+    softwareVersion: string;
+    stages?: readonly ResultStage[];
+    logger?: Logger;
+    clock?: () => Date;
+    command?: string;
+    requireFolders?: readonly FolderName[];
+  },
 ): Pipeline {
   const missing = missingFolders(config, options.requireFolders ?? []);
   if (missing.length > 0) {
-    throw new DriftlightError('FOLDER_MISSING', `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist; not started (it is not created, so an unmounted share is not replaced by an empty folder)`, {
-      hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config; `driftlight config check` lists the folders.',
-    });
+    throw new DriftlightError(
+      'FOLDER_MISSING',
+      `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist; not started (it is not created, so an unmounted share is not replaced by an empty folder)`,
+      {
+        hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config; `driftlight config check` lists the folders.',
+      },
+    );
   }
   mkdirSync(config.folders.state, { recursive: true });
   const lock = acquireInstanceLock(config.folders.state, options.command ?? 'pipeline');
@@ -80,7 +96,8 @@ export function openPipeline(
   // Temporary files of writes a killed run left half done (never renamed into place).
   const f = config.folders;
   const stale = removeStaleTempFiles([f.results, f.outbox, f.quarantine, f.state], processAlive);
-  if (stale.length > 0) logger.info({ files: stale.length, first: stale[0] }, 'removed temporary files of interrupted writes');
+  if (stale.length > 0)
+    logger.info({ files: stale.length, first: stale[0] }, 'removed temporary files of interrupted writes');
   let ledger: Ledger;
   try {
     ledger = openLedger(config.folders.state);
@@ -109,13 +126,22 @@ export function openPipeline(
   });
   const stages = options.stages ?? defaultResultStages(config, logger, options.clock);
   const coordinator = new Coordinator({
-    config, ledger, queue, logger, softwareVersion: options.softwareVersion,
+    config,
+    ledger,
+    queue,
+    logger,
+    softwareVersion: options.softwareVersion,
     stages,
     ...(options.clock === undefined ? {} : { clock: options.clock }),
   });
   let closed = false;
   return {
-    config, ledger, logger, queue, coordinator, stages,
+    config,
+    ledger,
+    logger,
+    queue,
+    coordinator,
+    stages,
     clockTick(now: Date) {
       for (const stage of stages) {
         try {

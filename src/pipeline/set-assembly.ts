@@ -10,7 +10,15 @@ import type { SetPart } from '../analysis/result.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { ParsedData } from '../formats/index.js';
 import type { Ledger } from '../store/ledger.js';
-import { assembleRecordedFile, getFile, insertAssembledFile, insertFileId, moveFileToSet, type FileFacts, type FileRecord } from '../store/files.js';
+import {
+  assembleRecordedFile,
+  getFile,
+  insertAssembledFile,
+  insertFileId,
+  moveFileToSet,
+  type FileFacts,
+  type FileRecord,
+} from '../store/files.js';
 import { deleteOpenSet, getSet, insertSet } from '../store/sets.js';
 import { reopenSet, replaceFileVersion, type NewContent } from '../store/file-versions.js';
 import { findEarlierVersion, replacementReason } from './input-versions.js';
@@ -121,16 +129,20 @@ export class SetAssembly {
     try {
       ledger.transaction(() => {
         for (const item of accepted) {
-          const fileId = item.kind === 'manifest'
-            ? this.placeManifest(item.file, item.manifest, now, touched)
-            : this.placeData(item.file, item.parsed, item.acquisition, now, touched);
+          const fileId =
+            item.kind === 'manifest'
+              ? this.placeManifest(item.file, item.manifest, now, touched)
+              : this.placeData(item.file, item.parsed, item.acquisition, now, touched);
           recordedIds.push(fileId);
         }
       });
     } catch (error) {
       // Rolled back: the in-memory view is rebuilt from the ledger; the files stay in the inbox.
       this.reload();
-      logger.error({ files: accepted.map((a) => a.file.path), err: error }, 'intake failed; the files stay in the inbox and are tried again later');
+      logger.error(
+        { files: accepted.map((a) => a.file.path), err: error },
+        'intake failed; the files stay in the inbox and are tried again later',
+      );
       return { failed: [...failed, ...accepted.map((a) => a.file.path)], touched: [] };
     }
     accepted.forEach((item, index) => {
@@ -142,28 +154,53 @@ export class SetAssembly {
   }
 
   /** Records a data file and places it in an open set (inside the intake transaction); returns its file id. */
-  private placeData(file: IntakeFile, parsed: ParsedData, acquisition: Acquisition, now: Date, touched: Set<OpenSet>): number {
+  private placeData(
+    file: IntakeFile,
+    parsed: ParsedData,
+    acquisition: Acquisition,
+    now: Date,
+    touched: Set<OpenSet>,
+  ): number {
     const { ledger, rules } = this.options;
     const metadata = parsed.type === 'spectrum' ? parsed.spectrum.metadata : parsed.decay.metadata;
     const hasIrfColumn = parsed.type === 'decay' && parsed.decay.irfCounts !== undefined;
-    const classification = classifyFile({
-      name: file.name, dataType: parsed.type, hasIrfColumn,
-      ...(parsed.type === 'spectrum' ? { spectrumKind: parsed.spectrum.kind } : {}),
-      ...(metadata.role === undefined ? {} : { metadataRole: metadata.role }),
-      ...(metadata.sampleId === undefined ? {} : { metadataSampleId: metadata.sampleId }),
-    }, rules);
+    const classification = classifyFile(
+      {
+        name: file.name,
+        dataType: parsed.type,
+        hasIrfColumn,
+        ...(parsed.type === 'spectrum' ? { spectrumKind: parsed.spectrum.kind } : {}),
+        ...(metadata.role === undefined ? {} : { metadataRole: metadata.role }),
+        ...(metadata.sampleId === undefined ? {} : { metadataSampleId: metadata.sampleId }),
+      },
+      rules,
+    );
     if (file.id === undefined) {
       // New bytes at the path of a recorded input of the same measurement: its new version (issue 20).
-      const earlier = findEarlierVersion(ledger, { path: file.path, sampleId: classification.sampleId, dataType: parsed.type, acquisition }, now, rules.setTimeoutMs);
+      const earlier = findEarlierVersion(
+        ledger,
+        { path: file.path, sampleId: classification.sampleId, dataType: parsed.type, acquisition },
+        now,
+        rules.setTimeoutMs,
+      );
       if (earlier !== undefined) {
         const facts: FileFacts = {
-          dataType: parsed.type, part: earlier.part, role: earlier.role, sampleId: classification.sampleId, acquiredAt: acquisition.acquiredAt, acquiredSource: acquisition.source,
-          excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
+          dataType: parsed.type,
+          part: earlier.part,
+          role: earlier.role,
+          sampleId: classification.sampleId,
+          acquiredAt: acquisition.acquiredAt,
+          acquiredSource: acquisition.source,
+          excitationNm: metadata.excitationNm ?? null,
+          solvent: metadata.solvent ?? null,
+          hasIrfColumn,
         };
         return this.placeNewVersion(earlier, file, facts, now, touched);
       }
     }
-    const candidates = this.openSets.candidatesFor(classification.sampleId).filter((s) => s.manifest === undefined || s.manifest.dir === dirname(file.path));
+    const candidates = this.openSets
+      .candidatesFor(classification.sampleId)
+      .filter((s) => s.manifest === undefined || s.manifest.dir === dirname(file.path));
     const placement = placeFile({ name: file.name, classification }, candidates.map(toView), rules);
     let set: OpenSet;
     if (placement.kind === 'join') {
@@ -172,16 +209,38 @@ export class SetAssembly {
       set = found;
     } else {
       const id = makeSetId(placement.sampleId, file.sha256);
-      set = { id, sampleId: placement.sampleId, role: placement.role, createdAt: now, deadlineAt: new Date(now.getTime() + rules.setTimeoutMs), files: [], standalone: placement.standalone };
-      insertSet(ledger, { id: set.id, sampleId: set.sampleId, role: set.role, source: classification.sampleIdSource, createdAt: now, deadlineAt: set.deadlineAt });
+      set = {
+        id,
+        sampleId: placement.sampleId,
+        role: placement.role,
+        createdAt: now,
+        deadlineAt: new Date(now.getTime() + rules.setTimeoutMs),
+        files: [],
+        standalone: placement.standalone,
+      };
+      insertSet(ledger, {
+        id: set.id,
+        sampleId: set.sampleId,
+        role: set.role,
+        source: classification.sampleIdSource,
+        createdAt: now,
+        deadlineAt: set.deadlineAt,
+      });
       this.openSets.add(set);
     }
     const listed = set.manifest?.manifest.files.find((f) => f.file === file.name);
     const part: SetPart = listed?.part ?? classification.part;
     const role: MeasurementRole = listed?.role ?? classification.role;
     const facts = {
-      dataType: parsed.type, part, role, sampleId: classification.sampleId, acquiredAt: acquisition.acquiredAt, acquiredSource: acquisition.source,
-      excitationNm: metadata.excitationNm ?? null, solvent: metadata.solvent ?? null, hasIrfColumn,
+      dataType: parsed.type,
+      part,
+      role,
+      sampleId: classification.sampleId,
+      acquiredAt: acquisition.acquiredAt,
+      acquiredSource: acquisition.source,
+      excitationNm: metadata.excitationNm ?? null,
+      solvent: metadata.solvent ?? null,
+      hasIrfColumn,
     };
     let fileId: number;
     if (file.id === undefined) {
@@ -202,7 +261,14 @@ export class SetAssembly {
    * the new content (at `keptAt` when it lies in the archive already), and its set is opened again
    * (when it was queued or done) to run once more. Returns the file id.
    */
-  placeNewVersion(earlier: FileRecord, content: NewContent, facts: FileFacts, now: Date, touched: Set<OpenSet>, keptAt?: { archivePath: string }): number {
+  placeNewVersion(
+    earlier: FileRecord,
+    content: NewContent,
+    facts: FileFacts,
+    now: Date,
+    touched: Set<OpenSet>,
+    keptAt?: { archivePath: string },
+  ): number {
     const { ledger, logger } = this.options;
     const setId = earlier.setId ?? '';
     const record = getSet(ledger, setId);
@@ -210,7 +276,10 @@ export class SetAssembly {
     replaceFileVersion(ledger, earlier, content, replacementReason(record.state), now, keptAt);
     assembleRecordedFile(ledger, earlier.id, facts, setId, now);
     touched.add(this.reopen(setId, record.state, now));
-    logger.warn({ setId, file: earlier.name, earlierSha256: earlier.sha256, sha256: content.sha256, setWas: record.state }, 'an input changed at its path after it was read: taken as a new version, the set runs again');
+    logger.warn(
+      { setId, file: earlier.name, earlierSha256: earlier.sha256, sha256: content.sha256, setWas: record.state },
+      'an input changed at its path after it was read: taken as a new version, the set runs again',
+    );
     return earlier.id;
   }
 
@@ -233,13 +302,42 @@ export class SetAssembly {
     const dir = dirname(file.path);
     const id = makeSetId(manifest.sampleId, file.sha256);
     const set: OpenSet = {
-      id, sampleId: manifest.sampleId, role: manifest.role, createdAt: now, deadlineAt: new Date(now.getTime() + rules.setTimeoutMs),
-      files: [], manifest: { dir, manifest }, standalone: false,
+      id,
+      sampleId: manifest.sampleId,
+      role: manifest.role,
+      createdAt: now,
+      deadlineAt: new Date(now.getTime() + rules.setTimeoutMs),
+      files: [],
+      manifest: { dir, manifest },
+      standalone: false,
     };
     const manifestJson = JSON.stringify(set.manifest);
     const fileId = file.id ?? insertFileId(ledger, file, now);
-    insertSet(ledger, { id, sampleId: manifest.sampleId, role: manifest.role, source: 'manifest', createdAt: now, deadlineAt: set.deadlineAt, manifestJson });
-    assembleRecordedFile(ledger, fileId, { dataType: 'manifest', part: null, role: manifest.role, sampleId: manifest.sampleId, acquiredAt: null, excitationNm: manifest.excitationNm ?? null, solvent: manifest.solvent ?? null, hasIrfColumn: false }, id, now);
+    insertSet(ledger, {
+      id,
+      sampleId: manifest.sampleId,
+      role: manifest.role,
+      source: 'manifest',
+      createdAt: now,
+      deadlineAt: set.deadlineAt,
+      manifestJson,
+    });
+    assembleRecordedFile(
+      ledger,
+      fileId,
+      {
+        dataType: 'manifest',
+        part: null,
+        role: manifest.role,
+        sampleId: manifest.sampleId,
+        acquiredAt: null,
+        excitationNm: manifest.excitationNm ?? null,
+        solvent: manifest.solvent ?? null,
+        hasIrfColumn: false,
+      },
+      id,
+      now,
+    );
     // Claim listed files already waiting in other open sets. Only plain sets give files up: a
     // manifest set keeps what its own manifest lists, and lives until complete or timed out, even
     // while it has no files yet (issue 20: a second manifest deleted the first's empty set).

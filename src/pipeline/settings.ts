@@ -5,7 +5,10 @@ import type { DriftlightConfig } from '../config/resolve.js';
 import type { ReferenceConfig } from '../config/sections/references.js';
 
 /** The settings analyze() needs, taken from the resolved config (plus the reference standard used, if any). */
-export function analysisSettingsFrom(config: DriftlightConfig, reference?: { standardId: string; entry?: ReferenceConfig }): AnalysisSettings {
+export function analysisSettingsFrom(
+  config: DriftlightConfig,
+  reference?: { standardId: string; entry?: ReferenceConfig },
+): AnalysisSettings {
   const entry = reference?.entry;
   const [windowFromNm, windowToNm] = config.analysis.yieldWindowNm ?? [];
   return {
@@ -13,7 +16,9 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     estimator: config.analysis.estimator,
     scatter: config.analysis.scatter,
     pileUpCorrection: config.analysis.pileUpCorrection,
-    ...(config.instrument.repetitionRateMHz === undefined ? {} : { repetitionRateHz: config.instrument.repetitionRateMHz * 1e6 }),
+    ...(config.instrument.repetitionRateMHz === undefined
+      ? {}
+      : { repetitionRateHz: config.instrument.repetitionRateMHz * 1e6 }),
     innerFilter: config.analysis.innerFilter,
     maxAbsorbanceForYield: config.analysis.maxAbsorbanceForYield,
     refractiveIndex: { ...config.analysis.refractiveIndex },
@@ -23,7 +28,9 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
     maxFileBytes: config.limits.maxFileBytes,
     ...(config.formats.profiles.length === 0 ? {} : { formatProfiles: config.formats.profiles }),
     yieldWindow: {
-      ...(windowFromNm === undefined || windowToNm === undefined ? {} : { windowNm: [windowFromNm, windowToNm] as const }),
+      ...(windowFromNm === undefined || windowToNm === undefined
+        ? {}
+        : { windowNm: [windowFromNm, windowToNm] as const }),
       scatterExclusionNm: config.analysis.scatterExclusionNm,
       bandEdgeFraction: config.analysis.bandEdgeFraction,
       bandEdgeAction: config.analysis.bandEdgeAction,
@@ -34,7 +41,9 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
           reference: {
             standardId: reference.standardId,
             ...(entry?.quantumYield === undefined ? {} : { quantumYield: entry.quantumYield }),
-            ...(entry?.quantumYieldStdUncertainty === undefined ? {} : { quantumYieldStdUncertainty: entry.quantumYieldStdUncertainty }),
+            ...(entry?.quantumYieldStdUncertainty === undefined
+              ? {}
+              : { quantumYieldStdUncertainty: entry.quantumYieldStdUncertainty }),
             ...(entry?.refractiveIndex === undefined ? {} : { refractiveIndex: entry.refractiveIndex }),
           },
         }),
@@ -44,7 +53,10 @@ export function analysisSettingsFrom(config: DriftlightConfig, reference?: { sta
 function canonical(value: unknown): string {
   if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
   if (value !== null && typeof value === 'object') {
-    return `{${Object.keys(value).sort().map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`).join(',')}}`;
+    return `{${Object.keys(value)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
+      .join(',')}}`;
   }
   return JSON.stringify(value) ?? 'null';
 }

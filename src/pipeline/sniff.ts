@@ -58,7 +58,10 @@ function isUtf16(bytes: Uint8Array): boolean {
 }
 
 /** Reads what set assembly needs from a data file: its head for long delimited files, else the whole file; throws InputRejected. */
-export function readForAssembly(bytes: Uint8Array, options: { fileName: string; maxBytes: number; profiles?: readonly FormatProfile[] }): ParsedData {
+export function readForAssembly(
+  bytes: Uint8Array,
+  options: { fileName: string; maxBytes: number; profiles?: readonly FormatProfile[] },
+): ParsedData {
   const end = intakeHeadEnd(bytes);
   if (end === undefined || isUtf16(bytes) || sniffFormat(bytes) !== 'delimited') return readData(bytes, options);
   try {

@@ -37,7 +37,11 @@ export class StableFiles {
       this.pending.delete(path);
       return;
     }
-    this.pending.set(path, { sizeBytes: stat.sizeBytes, mtimeMs: stat.mtimeMs, quietUntilMs: this.now() + this.stabilityWindowMs });
+    this.pending.set(path, {
+      sizeBytes: stat.sizeBytes,
+      mtimeMs: stat.mtimeMs,
+      quietUntilMs: this.now() + this.stabilityWindowMs,
+    });
     this.timer ??= setInterval(() => this.check(), this.pollIntervalMs);
   }
 

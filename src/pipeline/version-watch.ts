@@ -12,7 +12,13 @@ import { filesByPath, getFile, setFileError, setFileLocation, type FileFacts } f
 import { getSet } from '../store/sets.js';
 import { recentlyArchivedFiles, replaceFileVersion } from '../store/file-versions.js';
 import type { ArchivedFile } from './commit.js';
-import { archiveRecheckMs, changedSinceArchived, replacementReason, sha256OfPath, statArchived } from './input-versions.js';
+import {
+  archiveRecheckMs,
+  changedSinceArchived,
+  replacementReason,
+  sha256OfPath,
+  statArchived,
+} from './input-versions.js';
 import type { JobDispatcher } from './job-dispatcher.js';
 import type { OpenSet } from './open-sets.js';
 import type { SetAssembly } from './set-assembly.js';
@@ -40,14 +46,37 @@ export class VersionWatch {
 
   constructor(private readonly options: VersionWatchOptions) {
     const { watch } = options.config;
-    this.retakes = new StableFiles(watch.stabilityWindowMs, watch.pollIntervalMs, (path) => {
-      this.retaking += 1;
-      this.retake(path)
-        .catch((error: unknown) => options.logger.error({ file: path, err: error }, 'intake of a changed input failed; it is taken at the next start'))
-        .finally(() => { this.retaking -= 1; });
-    }, Date.now, (error, path) => options.logger.error({ file: path, err: error }, 'a changed input could not be looked at; it is taken at the next start'));
-    this.archivedChanges = new StableFiles(watch.stabilityWindowMs, watch.pollIntervalMs, (path) => this.takeArchivedVersion(path),
-      Date.now, (error, path) => options.logger.error({ file: path, err: error }, 'a changed archived copy could not be looked at'));
+    this.retakes = new StableFiles(
+      watch.stabilityWindowMs,
+      watch.pollIntervalMs,
+      (path) => {
+        this.retaking += 1;
+        this.retake(path)
+          .catch((error: unknown) =>
+            options.logger.error(
+              { file: path, err: error },
+              'intake of a changed input failed; it is taken at the next start',
+            ),
+          )
+          .finally(() => {
+            this.retaking -= 1;
+          });
+      },
+      Date.now,
+      (error, path) =>
+        options.logger.error(
+          { file: path, err: error },
+          'a changed input could not be looked at; it is taken at the next start',
+        ),
+    );
+    this.archivedChanges = new StableFiles(
+      watch.stabilityWindowMs,
+      watch.pollIntervalMs,
+      (path) => this.takeArchivedVersion(path),
+      Date.now,
+      (error, path) =>
+        options.logger.error({ file: path, err: error }, 'a changed archived copy could not be looked at'),
+    );
   }
 
   /** Whether changed inputs wait to be taken again (drain waits for them: their sets are still queued). */
@@ -76,7 +105,9 @@ export class VersionWatch {
    * version once stable; the others are looked at once more later.
    */
   recheckRecentlyArchived(): void {
-    const since = new Date(this.options.clock().getTime() - archiveRecheckMs(this.options.config.watch.stabilityWindowMs)).toISOString();
+    const since = new Date(
+      this.options.clock().getTime() - archiveRecheckMs(this.options.config.watch.stabilityWindowMs),
+    ).toISOString();
     const unchanged: ArchivedFile[] = [];
     for (const file of recentlyArchivedFiles(this.options.ledger, since)) {
       const path = file.archivePath ?? '';
@@ -119,28 +150,44 @@ export class VersionWatch {
       return;
     }
     const records = filesByPath(ledger, path);
-    const waiting = records.find((f) => f.setId !== null && f.state === 'queued' && f.archivePath === null && f.quarantinePath === null);
+    const waiting = records.find(
+      (f) => f.setId !== null && f.state === 'queued' && f.archivePath === null && f.quarantinePath === null,
+    );
     const set = waiting?.setId === null || waiting?.setId === undefined ? undefined : getSet(ledger, waiting.setId);
     if (waiting === undefined || set === undefined || set.state !== 'queued') return;
     if (sha256OfPath(path) === waiting.sha256) return;
     const rejected = records.find((f) => !before.has(f.id) && f.state === 'rejected');
-    const error = rejected === undefined
-      ? { code: 'INPUT_MISSING', message: `${waiting.name} changed after it was read and is no longer at ${path}` }
-      : { code: rejected.errorCode ?? 'INPUT_REJECTED', message: `${waiting.name} changed after it was read and its new version was rejected: ${rejected.errorMessage ?? ''}` };
+    const error =
+      rejected === undefined
+        ? { code: 'INPUT_MISSING', message: `${waiting.name} changed after it was read and is no longer at ${path}` }
+        : {
+            code: rejected.errorCode ?? 'INPUT_REJECTED',
+            message: `${waiting.name} changed after it was read and its new version was rejected: ${rejected.errorMessage ?? ''}`,
+          };
     const now = clock();
     const touched = new Set<OpenSet>();
     try {
       ledger.transaction(() => {
-        replaceFileVersion(ledger, waiting, { sha256: rejected?.sha256 ?? waiting.sha256, sizeBytes: rejected?.sizeBytes ?? 0 }, replacementReason('queued'), now);
+        replaceFileVersion(
+          ledger,
+          waiting,
+          { sha256: rejected?.sha256 ?? waiting.sha256, sizeBytes: rejected?.sizeBytes ?? 0 },
+          replacementReason('queued'),
+          now,
+        );
         setFileError(ledger, waiting.id, 'rejected', error, now);
-        if (rejected !== undefined && rejected.quarantinePath !== null) setFileLocation(ledger, waiting.id, { quarantinePath: rejected.quarantinePath }, now);
+        if (rejected !== undefined && rejected.quarantinePath !== null)
+          setFileLocation(ledger, waiting.id, { quarantinePath: rejected.quarantinePath }, now);
         touched.add(assembly.reopen(set.id, set.state, now));
       });
     } catch (failure) {
       assembly.reload();
       throw failure;
     }
-    logger.warn({ setId: set.id, file: waiting.name, code: error.code }, 'an input changed after it was read and its new version is not usable: the set runs again without it');
+    logger.warn(
+      { setId: set.id, file: waiting.name, code: error.code },
+      'an input changed after it was read and its new version is not usable: the set runs again without it',
+    );
     await dispatcher.dispatchReady([...touched], now, true);
   }
 
@@ -152,18 +199,38 @@ export class VersionWatch {
     if (fileId === undefined) return;
     try {
       const earlier = getFile(ledger, fileId);
-      if (earlier === undefined || earlier.archivePath !== path || earlier.setId === null || earlier.dataType === null || earlier.dataType === 'manifest') return;
+      if (
+        earlier === undefined ||
+        earlier.archivePath !== path ||
+        earlier.setId === null ||
+        earlier.dataType === null ||
+        earlier.dataType === 'manifest'
+      )
+        return;
       const sha256 = sha256OfPath(path);
       if (sha256 === undefined || sha256 === earlier.sha256) return;
       const sizeBytes = readFileSync(path).byteLength;
       const now = clock();
       const touched = new Set<OpenSet>();
       const facts: FileFacts = {
-        dataType: earlier.dataType, part: earlier.part, role: earlier.role, sampleId: earlier.sampleId, acquiredAt: earlier.acquiredAt, acquiredSource: earlier.acquiredSource,
-        excitationNm: earlier.excitationNm, solvent: earlier.solvent, hasIrfColumn: earlier.hasIrfColumn,
+        dataType: earlier.dataType,
+        part: earlier.part,
+        role: earlier.role,
+        sampleId: earlier.sampleId,
+        acquiredAt: earlier.acquiredAt,
+        acquiredSource: earlier.acquiredSource,
+        excitationNm: earlier.excitationNm,
+        solvent: earlier.solvent,
+        hasIrfColumn: earlier.hasIrfColumn,
       };
-      ledger.transaction(() => assembly.placeNewVersion(earlier, { sha256, sizeBytes }, facts, now, touched, { archivePath: path }));
-      void dispatcher.dispatchReady([...touched], now, true).catch((error: unknown) => logger.error({ err: error }, 'dispatch after a new input version failed; it is dispatched at the next tick'));
+      ledger.transaction(() =>
+        assembly.placeNewVersion(earlier, { sha256, sizeBytes }, facts, now, touched, { archivePath: path }),
+      );
+      void dispatcher
+        .dispatchReady([...touched], now, true)
+        .catch((error: unknown) =>
+          logger.error({ err: error }, 'dispatch after a new input version failed; it is dispatched at the next tick'),
+        );
     } catch (error) {
       assembly.reload();
       logger.error({ file: path, err: error }, 'an archived input changed after its move but could not be taken again');

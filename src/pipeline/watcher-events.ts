@@ -17,19 +17,33 @@ import { StableFiles, type FileStat } from './stable-files.js';
 import type { InboxWatcher, InboxWatcherEvents } from './watcher-types.js';
 
 /** What the watcher needs of fs.watch (replaceable in tests, e.g. by one that loses every event). */
-export type FolderWatchFn = (dir: string, listener: (event: string, name: string | Buffer | null) => void) => Pick<FSWatcher, 'close' | 'on'>;
+export type FolderWatchFn = (
+  dir: string,
+  listener: (event: string, name: string | Buffer | null) => void,
+) => Pick<FSWatcher, 'close' | 'on'>;
 
 const osFolderWatch: FolderWatchFn = (dir, listener) => watch(dir, { persistent: true }, listener);
 
 /** Starts watching `inboxDir` and its sub-folders with OS events, re-listing the tree every `options.rescanIntervalMs`. */
-export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, events: InboxWatcherEvents, folderWatch: FolderWatchFn = osFolderWatch): InboxWatcher {
+export function watchInboxWithEvents(
+  inboxDir: string,
+  options: WatchConfig,
+  events: InboxWatcherEvents,
+  folderWatch: FolderWatchFn = osFolderWatch,
+): InboxWatcher {
   const extra = compileGlobs(options.ignoreGlobs);
   /** Files handed to onFile and still in the inbox, with their size and mtime then. */
   const reported = new Map<string, FileStat>();
-  const stable = new StableFiles(options.stabilityWindowMs, options.pollIntervalMs, (path, stat) => {
-    reported.set(path, stat);
-    events.onFile(path);
-  }, Date.now, (error) => report(error));
+  const stable = new StableFiles(
+    options.stabilityWindowMs,
+    options.pollIntervalMs,
+    (path, stat) => {
+      reported.set(path, stat);
+      events.onFile(path);
+    },
+    Date.now,
+    (error) => report(error),
+  );
   /**
    * Watched folders, with the identity (inode and birth time) each had when its watch began: a folder
    * deleted and made again is a new folder the old watch does not see, even when ext4 gives it the
@@ -60,11 +74,14 @@ export function watchInboxWithEvents(inboxDir: string, options: WatchConfig, eve
       // A symbolic link below the inbox is never followed (it may lead outside): it is reported as
       // a file of its own, and intake refuses it or takes what it points to (watch.symlinks). Only
       // the inbox itself may be a link (a configured path).
-      if (link?.isSymbolicLink() === true && !isRoot) return { kind: 'file', stat: { sizeBytes: link.size, mtimeMs: link.mtimeMs } };
+      if (link?.isSymbolicLink() === true && !isRoot)
+        return { kind: 'file', stat: { sizeBytes: link.size, mtimeMs: link.mtimeMs } };
       const target = link?.isSymbolicLink() === true ? statSync(path, { throwIfNoEntry: false }) : link;
       if (target === undefined) return { kind: 'gone' };
       if (target.isFile()) return { kind: 'file', stat: { sizeBytes: target.size, mtimeMs: target.mtimeMs } };
-      return target.isDirectory() ? { kind: 'folder', identity: `${target.ino}:${target.birthtimeMs}` } : { kind: 'other' };
+      return target.isDirectory()
+        ? { kind: 'folder', identity: `${target.ino}:${target.birthtimeMs}` }
+        : { kind: 'other' };
     } catch (error) {
       // A folder on the path replaced by a file (ENOTDIR) is a path gone; anything else (EACCES,
       // EIO, ENAMETOOLONG, ELOOP) reaches the log with the path in its message, and the path is let go.

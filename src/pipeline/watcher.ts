@@ -12,5 +12,7 @@ export type { InboxWatcher, InboxWatcherEvents } from './watcher-types.js';
 
 /** Starts watching `inboxDir` with the `watch` config section. */
 export function watchInbox(inboxDir: string, options: WatchConfig, events: InboxWatcherEvents): InboxWatcher {
-  return options.usePolling ? watchInboxByPolling(inboxDir, options, events) : watchInboxWithEvents(inboxDir, options, events);
+  return options.usePolling
+    ? watchInboxByPolling(inboxDir, options, events)
+    : watchInboxWithEvents(inboxDir, options, events);
 }

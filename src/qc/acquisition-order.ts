@@ -27,13 +27,19 @@ export interface RunJudgement {
 }
 
 /** Total acquisition order: time, then set id (a re-export at the same time sorts by its id). O(1). */
-export function compareAcquisition(a: { acquiredAtMs: number; setId: string }, b: { acquiredAtMs: number; setId: string }): number {
+export function compareAcquisition(
+  a: { acquiredAtMs: number; setId: string },
+  b: { acquiredAtMs: number; setId: string },
+): number {
   return a.acquiredAtMs - b.acquiredAtMs || (a.setId < b.setId ? -1 : a.setId > b.setId ? 1 : 0);
 }
 
 /** Acquisition time and set id of an observation, for compareAcquisition. O(1). */
 export function acquisitionOf(observation: ControlObservation): { acquiredAtMs: number; setId: string } {
-  return { acquiredAtMs: requireEpochMs(observation.acquiredAt, `acquiredAt of set ${observation.setId}`), setId: observation.setId };
+  return {
+    acquiredAtMs: requireEpochMs(observation.acquiredAt, `acquiredAt of set ${observation.setId}`),
+    setId: observation.setId,
+  };
 }
 
 /** One run judged against every run acquired before it (pure). O(rules × history). */
@@ -79,13 +85,19 @@ export function judgeFrom(
  * acquisition order; unsettled runs decide nothing) fired. Returns, per key, the newest settled
  * verdict (undefined when none): flags acquired after it are open. O(verdicts).
  */
-export function openStateFromVerdicts(verdicts: readonly RuleVerdict[]): Map<string, { open: boolean; lastSettled?: RuleVerdict; lastDeciding: RuleVerdict }> {
+export function openStateFromVerdicts(
+  verdicts: readonly RuleVerdict[],
+): Map<string, { open: boolean; lastSettled?: RuleVerdict; lastDeciding: RuleVerdict }> {
   const state = new Map<string, { open: boolean; lastSettled?: RuleVerdict; lastDeciding: RuleVerdict }>();
   const ordered = [...verdicts].filter((verdict) => verdict.status !== 'unsettled').sort(compareAcquisition);
   for (const verdict of ordered) {
     const previous = state.get(verdict.key);
     const lastSettled = verdict.status === 'settled' ? verdict : previous?.lastSettled;
-    state.set(verdict.key, { open: verdict.status === 'fired', lastDeciding: verdict, ...(lastSettled === undefined ? {} : { lastSettled }) });
+    state.set(verdict.key, {
+      open: verdict.status === 'fired',
+      lastDeciding: verdict,
+      ...(lastSettled === undefined ? {} : { lastSettled }),
+    });
   }
   return state;
 }

@@ -21,8 +21,17 @@ export interface BaselineRecord {
 }
 
 export type ResolvedBaseline =
-  | { readonly status: 'established'; readonly baseline: EstablishedBaseline; readonly chartSeries: readonly SeriesPoint[] }
-  | { readonly status: 'collecting'; readonly runsSoFar: number; readonly runsNeeded: number; readonly fromIso?: string | undefined };
+  | {
+      readonly status: 'established';
+      readonly baseline: EstablishedBaseline;
+      readonly chartSeries: readonly SeriesPoint[];
+    }
+  | {
+      readonly status: 'collecting';
+      readonly runsSoFar: number;
+      readonly runsNeeded: number;
+      readonly fromIso?: string | undefined;
+    };
 
 /**
  * Mean and sample SD of baseline runs, leaving out runs beyond `excludeBeyondSd` SDs of the
@@ -30,11 +39,18 @@ export type ResolvedBaseline =
  * or the SD is 0, unless `allowZeroSd` (rules that use only the mean: identical runs still give a
  * mean). O(n).
  */
-export function establishBaseline(values: readonly number[], excludeBeyondSd: number, allowZeroSd = false): { mean: number; sd: number; runs: number } | undefined {
+export function establishBaseline(
+  values: readonly number[],
+  excludeBeyondSd: number,
+  allowZeroSd = false,
+): { mean: number; sd: number; runs: number } | undefined {
   if (values.length < 2) return undefined;
   const provisionalMean = meanOf(values);
   const provisionalSd = sampleStandardDeviation(values);
-  const kept = provisionalSd > 0 ? values.filter((value) => Math.abs(value - provisionalMean) <= excludeBeyondSd * provisionalSd) : [...values];
+  const kept =
+    provisionalSd > 0
+      ? values.filter((value) => Math.abs(value - provisionalMean) <= excludeBeyondSd * provisionalSd)
+      : [...values];
   if (kept.length < 2) return undefined;
   const sd = sampleStandardDeviation(kept);
   return sd > 0 || allowZeroSd ? { mean: meanOf(kept), sd, runs: kept.length } : undefined;
@@ -79,7 +95,13 @@ export function resolveBaseline(
   if (declared !== undefined) {
     return {
       status: 'established',
-      baseline: { mean: declared.mean, sd: declared.sd, runs: 0, source: 'declared', ...(record === undefined ? {} : { fromIso: record.fromIso }) },
+      baseline: {
+        mean: declared.mean,
+        sd: declared.sd,
+        runs: 0,
+        source: 'declared',
+        ...(record === undefined ? {} : { fromIso: record.fromIso }),
+      },
       chartSeries: sincePeriodStart,
     };
   }

@@ -29,11 +29,16 @@ export const controlSchema = z.strictObject({
         .optional(),
       role: z.string().min(1).optional(),
     })
-    .refine((match) => match.sampleId !== undefined || match.sampleIdPattern !== undefined || match.role !== undefined, {
-      error: 'give sampleId, sampleIdPattern and/or role',
-    }),
+    .refine(
+      (match) => match.sampleId !== undefined || match.sampleIdPattern !== undefined || match.role !== undefined,
+      {
+        error: 'give sampleId, sampleIdPattern and/or role',
+      },
+    ),
   /** Declared target and SD per metric; metrics without one use a baseline from runs. */
-  targets: z.partialRecord(z.enum(METRIC_NAMES, { error: `expected one of ${METRIC_NAMES.join(', ')}` }), targetSchema).default({}),
+  targets: z
+    .partialRecord(z.enum(METRIC_NAMES, { error: `expected one of ${METRIC_NAMES.join(', ')}` }), targetSchema)
+    .default({}),
   /** Runs that establish a baseline (first N in-control runs). Default 20. */
   baselineRuns: wholeNumberAtLeast(2).default(DEFAULT_BASELINE_RUNS),
   /** Runs beyond this many SDs of the provisional baseline are left out of it. Default 3. */
@@ -53,15 +58,27 @@ function isValidRegExp(pattern: string): boolean {
 
 /** A glob with * (any run) and ? (one character) as an anchored, case-sensitive RegExp. O(pattern length). */
 export function globToRegExp(pattern: string): RegExp {
-  const escaped = pattern.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*/g, '.*').replace(/\?/g, '.');
+  const escaped = pattern
+    .replace(/[.+^${}()|[\]\\]/g, '\\$&')
+    .replace(/\*/g, '.*')
+    .replace(/\?/g, '.');
   return new RegExp(`^${escaped}$`);
 }
 
 /** True when a result with this sample id and role is the given control (every given criterion must match). */
-export function isControlMatch(control: ControlDefinition, sampleId: string | undefined, role: string | undefined): boolean {
+export function isControlMatch(
+  control: ControlDefinition,
+  sampleId: string | undefined,
+  role: string | undefined,
+): boolean {
   const { match } = control;
-  if (match.sampleId !== undefined && (sampleId === undefined || !globToRegExp(match.sampleId).test(sampleId))) return false;
-  if (match.sampleIdPattern !== undefined && (sampleId === undefined || !new RegExp(match.sampleIdPattern).test(sampleId))) return false;
+  if (match.sampleId !== undefined && (sampleId === undefined || !globToRegExp(match.sampleId).test(sampleId)))
+    return false;
+  if (
+    match.sampleIdPattern !== undefined &&
+    (sampleId === undefined || !new RegExp(match.sampleIdPattern).test(sampleId))
+  )
+    return false;
   if (match.role !== undefined && match.role !== role) return false;
   return true;
 }
@@ -76,6 +93,9 @@ export function findControl(
 }
 
 /** The declared target of a control's metric, if any. */
-export function declaredTarget(control: ControlDefinition, metric: MetricName): { mean: number; sd: number } | undefined {
+export function declaredTarget(
+  control: ControlDefinition,
+  metric: MetricName,
+): { mean: number; sd: number } | undefined {
   return control.targets[metric];
 }

@@ -34,17 +34,25 @@ export function seriesFor(
     const value = earlier.metrics[metric];
     const epochMs = parseIsoToEpochMs(earlier.acquiredAt);
     if (value === undefined || !Number.isFinite(value) || epochMs === undefined || epochMs > latestMs) continue;
-    if (epochMs === latestMs && earlier.setId === observation.setId && earlier.controlId === observation.controlId) continue;
+    if (epochMs === latestMs && earlier.setId === observation.setId && earlier.controlId === observation.controlId)
+      continue;
     points.push({ value, acquiredAt: earlier.acquiredAt, epochMs, setId: earlier.setId });
   }
   points.sort((a, b) => a.epochMs - b.epochMs);
   const value = observation.metrics[metric];
-  if (value !== undefined) points.push({ value, acquiredAt: observation.acquiredAt, epochMs: latestMs, setId: observation.setId });
+  if (value !== undefined)
+    points.push({ value, acquiredAt: observation.acquiredAt, epochMs: latestMs, setId: observation.setId });
   return points;
 }
 
 /** Turns a kind's findings into flags carrying the judged control (or "instrument"). */
-function toFlags(rule: Rule, controlId: string, findings: readonly RuleFinding[], acquiredAt: string, setId: string): QcFlag[] {
+function toFlags(
+  rule: Rule,
+  controlId: string,
+  findings: readonly RuleFinding[],
+  acquiredAt: string,
+  setId: string,
+): QcFlag[] {
   return findings.map((finding) => ({
     ruleId: rule.id,
     kind: rule.kind,
@@ -110,7 +118,9 @@ export function evaluateRuleStates(input: EvaluationInput): RuleStates {
     if (ruleNeedsBaseline(rule)) {
       const control = ruleSet.controls.find((candidate) => candidate.id === controlId);
       if (control === undefined) continue;
-      const resolved = resolveBaseline(control, rule.metric, points, baselines, { meanSuffices: kind.baselineMeanSuffices === true });
+      const resolved = resolveBaseline(control, rule.metric, points, baselines, {
+        meanSuffices: kind.baselineMeanSuffices === true,
+      });
       if (resolved.status !== 'established') continue;
       baseline = resolved.baseline;
       chartSeries = resolved.chartSeries;

@@ -33,6 +33,10 @@ export interface RecoveryNotice {
 }
 
 /** Cooldown and recovery key: rule + control + metric. */
-export function flagKey(flag: { readonly ruleId: string; readonly controlId: string; readonly metric: MetricName }): string {
+export function flagKey(flag: {
+  readonly ruleId: string;
+  readonly controlId: string;
+  readonly metric: MetricName;
+}): string {
   return `${flag.ruleId}|${flag.controlId}|${flag.metric}`;
 }

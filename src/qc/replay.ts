@@ -30,7 +30,11 @@ export interface ReplayOutcome {
 /** Observations sorted by acquisition time (stable for equal times). O(n log n). */
 export function sortByAcquisition(observations: readonly ControlObservation[]): ControlObservation[] {
   return observations
-    .map((observation, index) => ({ observation, index, epochMs: requireEpochMs(observation.acquiredAt, `acquiredAt of set ${observation.setId}`) }))
+    .map((observation, index) => ({
+      observation,
+      index,
+      epochMs: requireEpochMs(observation.acquiredAt, `acquiredAt of set ${observation.setId}`),
+    }))
     .sort((a, b) => a.epochMs - b.epochMs || a.index - b.index)
     .map((entry) => entry.observation);
 }
@@ -46,8 +50,18 @@ export function replayObservations(
   const steps: ReplayStep[] = [];
   ordered.forEach((observation, index) => {
     const history = ordered.slice(0, index);
-    const { flags, unsettledKeys } = evaluateRuleStates({ history, observation, ruleSet, baselines: options.baselines ?? [] });
-    const recoveries = detectRecoveries({ activeFlags: [...open.values()], newFlags: flags, observation, unsettledKeys });
+    const { flags, unsettledKeys } = evaluateRuleStates({
+      history,
+      observation,
+      ruleSet,
+      baselines: options.baselines ?? [],
+    });
+    const recoveries = detectRecoveries({
+      activeFlags: [...open.values()],
+      newFlags: flags,
+      observation,
+      unsettledKeys,
+    });
     for (const notice of recoveries) open.delete(flagKey(notice));
     for (const flag of flags) open.set(flagKey(flag), flag);
     steps.push({ observation, flags, recoveries });
@@ -56,7 +70,12 @@ export function replayObservations(
   for (const tick of options.clockTicksEpochMs ?? []) {
     const history = ordered.filter((observation) => requireEpochMs(observation.acquiredAt, 'acquiredAt') <= tick);
     clockFlags.push(
-      ...evaluateClockRules({ history, ruleSet, now: tick, ...(options.timeZone === undefined ? {} : { timeZone: options.timeZone }) }),
+      ...evaluateClockRules({
+        history,
+        ruleSet,
+        now: tick,
+        ...(options.timeZone === undefined ? {} : { timeZone: options.timeZone }),
+      }),
     );
   }
   return { steps, clockFlags };

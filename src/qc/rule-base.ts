@@ -36,9 +36,15 @@ export const scopeSchema = z.union(
   [
     z.literal(INSTRUMENT_SCOPE),
     z.strictObject({ control: z.string().min(1) }),
-    z.strictObject({ controls: z.array(z.string().min(1), { error: 'expected a list of control ids' }).min(1, { error: 'name at least one control' }) }),
+    z.strictObject({
+      controls: z
+        .array(z.string().min(1), { error: 'expected a list of control ids' })
+        .min(1, { error: 'name at least one control' }),
+    }),
   ],
-  { error: `expected "${INSTRUMENT_SCOPE}", { control: CONTROL_ID } or { controls: [CONTROL_ID, …] }; leave it out to judge every control` },
+  {
+    error: `expected "${INSTRUMENT_SCOPE}", { control: CONTROL_ID } or { controls: [CONTROL_ID, …] }; leave it out to judge every control`,
+  },
 );
 /** Absent: every control. `instrument`: instrument checks. `{ control }` / `{ controls }`: only those controls. */
 export type RuleScope = z.output<typeof scopeSchema> | undefined;

@@ -67,25 +67,41 @@ export function startQueueWorker(options: QueueWorkerOptions): QueueWorker {
   });
   worker.on('completed', (job) => {
     completedTotal += 1;
-    logger.info({ event: 'job.completed', jobId: job.id, attempts: job.attemptsMade, durationMs: durationMs(job.id) }, 'job completed');
+    logger.info(
+      { event: 'job.completed', jobId: job.id, attempts: job.attemptsMade, durationMs: durationMs(job.id) },
+      'job completed',
+    );
   });
   worker.on('failed', (job, error) => {
     failedTotal += 1;
     const failure = decodeFailure(error.message);
     const willRetry = job !== undefined && !failure.permanent && job.attemptsMade < (job.opts.attempts ?? 1);
     logger.warn(
-      { event: 'job.failed', jobId: job?.id, attempts: job?.attemptsMade, durationMs: durationMs(job?.id), code: failure.code, permanent: failure.permanent, willRetry },
+      {
+        event: 'job.failed',
+        jobId: job?.id,
+        attempts: job?.attemptsMade,
+        durationMs: durationMs(job?.id),
+        code: failure.code,
+        permanent: failure.permanent,
+        willRetry,
+      },
       `job failed: ${failure.message}`,
     );
   });
-  worker.on('stalled', (jobId) => logger.warn({ event: 'job.stalled', jobId }, 'job stalled (its worker stopped renewing the lock); it runs again'));
+  worker.on('stalled', (jobId) =>
+    logger.warn({ event: 'job.stalled', jobId }, 'job stalled (its worker stopped renewing the lock); it runs again'),
+  );
   worker.on('error', (error) => logger.error({ event: 'redis.error', err: error }, `worker error: ${error.message}`));
 
   const heartbeatMs = options.heartbeatMs ?? 0;
   const heartbeat =
     heartbeatMs > 0
       ? setInterval(() => {
-          logger.info({ event: 'heartbeat', running: worker.isRunning(), active: startedAtMs.size, completedTotal, failedTotal }, 'heartbeat');
+          logger.info(
+            { event: 'heartbeat', running: worker.isRunning(), active: startedAtMs.size, completedTotal, failedTotal },
+            'heartbeat',
+          );
         }, heartbeatMs)
       : undefined;
   heartbeat?.unref();

@@ -50,8 +50,12 @@ class BullmqJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
     });
     this.events = new QueueEvents(options.queueName, { connection, prefix: options.prefix });
     const where = { redisUrl: redactRedisUrl(options.redisUrl), queue: options.queueName };
-    this.queue.on('error', (error) => logger.error({ ...where, event: 'redis.error', err: error }, `queue error: ${error.message}`));
-    this.events.on('error', (error) => logger.error({ ...where, event: 'redis.error', err: error }, `queue events error: ${error.message}`));
+    this.queue.on('error', (error) =>
+      logger.error({ ...where, event: 'redis.error', err: error }, `queue error: ${error.message}`),
+    );
+    this.events.on('error', (error) =>
+      logger.error({ ...where, event: 'redis.error', err: error }, `queue events error: ${error.message}`),
+    );
     this.events.on('completed', ({ jobId }) => this.deliverById(jobId));
     this.events.on('failed', ({ jobId }) => this.deliverById(jobId));
     this.hub = new OutcomeHub<Result>(logger, () => undefined);
@@ -78,7 +82,15 @@ class BullmqJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
   }
 
   async stats(): Promise<JobQueueStats> {
-    const counts = await this.queue.getJobCounts('wait', 'delayed', 'prioritized', 'waiting-children', 'active', 'completed', 'failed');
+    const counts = await this.queue.getJobCounts(
+      'wait',
+      'delayed',
+      'prioritized',
+      'waiting-children',
+      'active',
+      'completed',
+      'failed',
+    );
     const count = (name: string): number => counts[name] ?? 0;
     return {
       waiting: count('wait') + count('delayed') + count('prioritized') + count('waiting-children'),
@@ -90,7 +102,15 @@ class BullmqJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
 
   async drain(): Promise<void> {
     for (;;) {
-      const counts = await this.queue.getJobCounts('wait', 'delayed', 'prioritized', 'waiting-children', 'active', 'completed', 'failed');
+      const counts = await this.queue.getJobCounts(
+        'wait',
+        'delayed',
+        'prioritized',
+        'waiting-children',
+        'active',
+        'completed',
+        'failed',
+      );
       const total = Object.values(counts).reduce((sum, value) => sum + value, 0);
       if (total === 0 && this.delivering.size === 0) return;
       if (this.closed) return;

@@ -146,7 +146,14 @@ class InProcessJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
       this.ready.unshift(...jobs);
       return;
     }
-    await Promise.all(jobs.map((job, i) => this.settle(job, results[i] ?? { ok: false, failure: queueFailure('WORKER_LOST', 'no result came back for this job') })));
+    await Promise.all(
+      jobs.map((job, i) =>
+        this.settle(
+          job,
+          results[i] ?? { ok: false, failure: queueFailure('WORKER_LOST', 'no result came back for this job') },
+        ),
+      ),
+    );
   }
 
   /** Counts one attempt of `job` with `result`: delivers its outcome, or schedules a retry with backoff. */

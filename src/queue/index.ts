@@ -5,7 +5,15 @@ import type { JobQueue } from './job-queue.js';
 import { resolveQueueOptions, type QueueBackendOptions } from './options.js';
 
 export type { JobFailure, JobOutcome, JobQueue, JobQueueOptions, JobQueueStats } from './job-queue.js';
-export { QUEUE_BACKENDS, QUEUE_DEFAULTS, resolveQueueOptions, type QueueBackendName, type QueueBackendOptions, type QueueRetention, type ResolvedQueueOptions } from './options.js';
+export {
+  QUEUE_BACKENDS,
+  QUEUE_DEFAULTS,
+  resolveQueueOptions,
+  type QueueBackendName,
+  type QueueBackendOptions,
+  type QueueRetention,
+  type ResolvedQueueOptions,
+} from './options.js';
 export { startQueueWorker, type QueueWorker, type QueueWorkerOptions } from './bullmq-worker.js';
 
 /** Creates the job queue of the configured backend (default: in-process worker threads). */

@@ -13,11 +13,13 @@ function isKnownCode(code: unknown): code is ErrorCode {
 /** A JobFailure from any thrown value (DriftlightError, plain Error, string, ...). */
 export function toJobFailure(error: unknown): JobFailure {
   const record = typeof error === 'object' && error !== null ? (error as Record<string, unknown>) : {};
-  const message = error instanceof Error ? error.message : typeof record['message'] === 'string' ? record['message'] : String(error);
+  const message =
+    error instanceof Error ? error.message : typeof record['message'] === 'string' ? record['message'] : String(error);
   const code = typeof record['code'] === 'string' ? record['code'] : 'TRANSIENT';
   const kindIsPermanent = isKnownCode(code) && PERMANENT_KINDS.has(ERROR_CODES[code].kind);
   const permanent = record['permanent'] === true || kindIsPermanent;
-  const hint = typeof record['hint'] === 'string' ? record['hint'] : isKnownCode(code) ? ERROR_CODES[code].hint : undefined;
+  const hint =
+    typeof record['hint'] === 'string' ? record['hint'] : isKnownCode(code) ? ERROR_CODES[code].hint : undefined;
   return hint === undefined ? { code, message, permanent } : { code, message, hint, permanent };
 }
 
@@ -44,5 +46,7 @@ export function decodeFailure(reason: string | undefined): JobFailure {
     }
   }
   const text = reason ?? 'job failed without a reason';
-  return /stall/i.test(text) ? queueFailure('WORKER_LOST', text) : { code: 'TRANSIENT', message: text, permanent: false };
+  return /stall/i.test(text)
+    ? queueFailure('WORKER_LOST', text)
+    : { code: 'TRANSIENT', message: text, permanent: false };
 }

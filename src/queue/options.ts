@@ -76,8 +76,16 @@ const schema = z.object({
     .string()
     .regex(/^rediss?:\/\//, 'must start with redis:// or rediss://')
     .default(D.redisUrl),
-  prefix: z.string().min(1).regex(/^[^:{}\s]+$/, 'no ":", braces or spaces').default(D.prefix),
-  queueName: z.string().min(1).regex(/^[^:{}\s]+$/, 'no ":", braces or spaces').default(D.queueName),
+  prefix: z
+    .string()
+    .min(1)
+    .regex(/^[^:{}\s]+$/, 'no ":", braces or spaces')
+    .default(D.prefix),
+  queueName: z
+    .string()
+    .min(1)
+    .regex(/^[^:{}\s]+$/, 'no ":", braces or spaces')
+    .default(D.queueName),
   retention: z
     .object({
       completedCount: z.number().int().min(0).default(D.retention.completedCount),

@@ -95,7 +95,9 @@ export function createTaskPool(options: TaskPoolOptions): TaskPool {
     async runBatch(payloads) {
       const task: BatchTask = { kind: BATCH_TASK, payloads };
       try {
-        const results = (await pool.run(task, { signal: AbortSignal.timeout(options.jobTimeoutMs * payloads.length) })) as TaskResult[];
+        const results = (await pool.run(task, {
+          signal: AbortSignal.timeout(options.jobTimeoutMs * payloads.length),
+        })) as TaskResult[];
         return results.length === payloads.length ? results : undefined;
       } catch {
         return undefined;

@@ -14,7 +14,8 @@ import { gatherStatus, latestDigestDate } from './status-data.js';
 import { renderStatusPage } from './status-page.js';
 
 /** Content-Security-Policy of every HTML response: nothing may be loaded from anywhere (inline CSS only). */
-const CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
+const CSP =
+  "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
 
 export interface StatusAppOptions {
   readonly ledger: Ledger;
@@ -48,26 +49,42 @@ export function buildStatusApp(options: StatusAppOptions): FastifyInstance {
   const registry = createMetricsRegistry(ledger);
 
   app.addHook('onRequest', async (request, reply) => {
-    void reply.header('x-content-type-options', 'nosniff').header('referrer-policy', 'no-referrer').header('cache-control', 'no-store');
+    void reply
+      .header('x-content-type-options', 'nosniff')
+      .header('referrer-policy', 'no-referrer')
+      .header('cache-control', 'no-store');
     if (token === undefined || request.routeOptions.url === '/healthz') return;
     if (!tokenMatches(request.headers.authorization, token)) {
-      await reply.code(401).header('www-authenticate', 'Bearer realm="driftlight"').type('text/plain; charset=utf-8').send('token required: send "Authorization: Bearer TOKEN"\n');
+      await reply
+        .code(401)
+        .header('www-authenticate', 'Bearer realm="driftlight"')
+        .type('text/plain; charset=utf-8')
+        .send('token required: send "Authorization: Bearer TOKEN"\n');
     }
   });
   if (options.onResponse !== undefined) {
     const onResponse = options.onResponse;
     app.addHook('onResponse', async (request, reply) => onResponse(request.url, reply.statusCode));
   }
-  app.setNotFoundHandler(async (_request, reply) => reply.code(404).type('text/plain; charset=utf-8').send('not found: the status page serves /, /digest, /healthz and /metrics only\n'));
+  app.setNotFoundHandler(async (_request, reply) =>
+    reply
+      .code(404)
+      .type('text/plain; charset=utf-8')
+      .send('not found: the status page serves /, /digest, /healthz and /metrics only\n'),
+  );
   app.setErrorHandler(async (error, _request, reply) => {
     // The message of an unexpected failure may hold paths; it goes to stderr, the client gets a short text.
-    process.stderr.write(`status page error: ${error instanceof Error ? error.stack ?? error.message : String(error)}\n`);
+    process.stderr.write(
+      `status page error: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`,
+    );
     return reply.code(500).type('text/plain; charset=utf-8').send('internal error (see the server log)\n');
   });
 
   app.get('/healthz', async (_request, reply) => {
     const row = ledger.database.prepare('SELECT 1 AS ok').get() as { ok: number } | undefined;
-    return reply.type('application/json; charset=utf-8').send({ status: row?.ok === 1 ? 'ok' : 'ledger unreadable', version: options.softwareVersion });
+    return reply
+      .type('application/json; charset=utf-8')
+      .send({ status: row?.ok === 1 ? 'ok' : 'ledger unreadable', version: options.softwareVersion });
   });
   app.get('/metrics', async (_request, reply) => reply.type(registry.contentType).send(await registry.metrics()));
   app.get('/', async (_request, reply) => {
@@ -81,7 +98,8 @@ export function buildStatusApp(options: StatusAppOptions): FastifyInstance {
     try {
       body = readFileSync(join(digestFolder(config), `${date}.html`), 'utf8');
     } catch (error) {
-      if ((error as NodeJS.ErrnoException).code === 'ENOENT') return reply.code(404).type('text/plain; charset=utf-8').send(`the digest of ${date} has no HTML form\n`);
+      if ((error as NodeJS.ErrnoException).code === 'ENOENT')
+        return reply.code(404).type('text/plain; charset=utf-8').send(`the digest of ${date} has no HTML form\n`);
       throw error;
     }
     return html(reply, body);

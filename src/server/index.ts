@@ -3,7 +3,15 @@ import type { AddressInfo } from 'node:net';
 import { buildStatusApp, type StatusAppOptions } from './app.js';
 import type { ServerOptions } from './options.js';
 
-export { resolveServerOptions, isLoopbackHost, parseListenAddress, DEFAULT_LISTEN, TOKEN_ENV, type ServerOptions, type ServerOptionsInput } from './options.js';
+export {
+  resolveServerOptions,
+  isLoopbackHost,
+  parseListenAddress,
+  DEFAULT_LISTEN,
+  TOKEN_ENV,
+  type ServerOptions,
+  type ServerOptionsInput,
+} from './options.js';
 export { METRIC_NAMES } from './metrics.js';
 
 export interface RunningStatusServer {
@@ -13,7 +21,10 @@ export interface RunningStatusServer {
 }
 
 /** Starts the status server on `server.host:server.port`; resolves once it listens. */
-export async function startStatusServer(server: ServerOptions, app: Omit<StatusAppOptions, 'token'>): Promise<RunningStatusServer> {
+export async function startStatusServer(
+  server: ServerOptions,
+  app: Omit<StatusAppOptions, 'token'>,
+): Promise<RunningStatusServer> {
   const instance = buildStatusApp({ ...app, token: server.token });
   await instance.listen({ host: server.host, port: server.port });
   const address = instance.server.address() as AddressInfo;

@@ -31,17 +31,25 @@ export interface ServerOptions {
   readonly token: string | undefined;
 }
 
-const listenSchema = z.string().regex(/^(\[[0-9a-fA-F:.]+\]|[A-Za-z0-9.-]+):\d{1,5}$/, 'expected HOST:PORT, e.g. 127.0.0.1:8470 or [::1]:8470');
+const listenSchema = z
+  .string()
+  .regex(/^(\[[0-9a-fA-F:.]+\]|[A-Za-z0-9.-]+):\d{1,5}$/, 'expected HOST:PORT, e.g. 127.0.0.1:8470 or [::1]:8470');
 
 /** Splits HOST:PORT ([v6]:PORT) and checks the port; throws ConfigInvalid naming the option. */
 export function parseListenAddress(text: string): { host: string; port: number } {
   const parsed = listenSchema.safeParse(text);
-  if (!parsed.success) throw new ConfigInvalid(`--http ${text}: expected HOST:PORT, e.g. 127.0.0.1:8470 or [::1]:8470`, { configPath: '--http', hint: 'Give an address and port, e.g. --http 127.0.0.1:8470.' });
+  if (!parsed.success)
+    throw new ConfigInvalid(`--http ${text}: expected HOST:PORT, e.g. 127.0.0.1:8470 or [::1]:8470`, {
+      configPath: '--http',
+      hint: 'Give an address and port, e.g. --http 127.0.0.1:8470.',
+    });
   const at = text.lastIndexOf(':');
   const host = text.slice(0, at).replace(/^\[(.*)\]$/, '$1');
   const port = Number(text.slice(at + 1));
-  if (!Number.isInteger(port) || port < 0 || port > 65_535) throw new ConfigInvalid(`--http ${text}: port must be 0–65535`, { configPath: '--http' });
-  if (host.includes(':') && !isIPv6(host)) throw new ConfigInvalid(`--http ${text}: "${host}" is not an IPv6 address`, { configPath: '--http' });
+  if (!Number.isInteger(port) || port < 0 || port > 65_535)
+    throw new ConfigInvalid(`--http ${text}: port must be 0–65535`, { configPath: '--http' });
+  if (host.includes(':') && !isIPv6(host))
+    throw new ConfigInvalid(`--http ${text}: "${host}" is not an IPv6 address`, { configPath: '--http' });
   return { host, port };
 }
 
@@ -59,7 +67,10 @@ function readToken(input: ServerOptionsInput): string | undefined {
     try {
       text = readFileSync(input.tokenFile, 'utf8');
     } catch (error) {
-      throw new ConfigInvalid(`--token-file ${input.tokenFile} cannot be read: ${error instanceof Error ? error.message : String(error)}`, { configPath: '--token-file', cause: error });
+      throw new ConfigInvalid(
+        `--token-file ${input.tokenFile} cannot be read: ${error instanceof Error ? error.message : String(error)}`,
+        { configPath: '--token-file', cause: error },
+      );
     }
     return text.split(/\r?\n/)[0]?.trim() ?? '';
   }
@@ -76,13 +87,18 @@ export function resolveServerOptions(input: ServerOptionsInput = {}): ServerOpti
   const loopback = isLoopbackHost(host);
   const token = readToken(input);
   if (token !== undefined && token.length < MIN_TOKEN_LENGTH) {
-    throw new ConfigInvalid(`the status page token is ${token.length} characters; at least ${MIN_TOKEN_LENGTH} are needed`, {
-      configPath: input.tokenFile === undefined ? TOKEN_ENV : '--token-file', hint: 'Make a long random token, e.g. `openssl rand -hex 24 > token.txt`.',
-    });
+    throw new ConfigInvalid(
+      `the status page token is ${token.length} characters; at least ${MIN_TOKEN_LENGTH} are needed`,
+      {
+        configPath: input.tokenFile === undefined ? TOKEN_ENV : '--token-file',
+        hint: 'Make a long random token, e.g. `openssl rand -hex 24 > token.txt`.',
+      },
+    );
   }
   if (!loopback && token === undefined) {
     throw new ConfigInvalid(`refusing to serve the status page on ${host} (not loopback) without a token`, {
-      configPath: '--http', hint: `Set ${TOKEN_ENV} or pass --token-file FILE (at least ${MIN_TOKEN_LENGTH} characters); clients send "Authorization: Bearer TOKEN". Or listen on 127.0.0.1.`,
+      configPath: '--http',
+      hint: `Set ${TOKEN_ENV} or pass --token-file FILE (at least ${MIN_TOKEN_LENGTH} characters); clients send "Authorization: Bearer TOKEN". Or listen on 127.0.0.1.`,
     });
   }
   return Object.freeze({ host, port, loopback, token });

@@ -37,7 +37,11 @@ export interface StatusData {
   readonly softwareVersion: string;
   readonly counts: LedgerStatus;
   readonly latestDigest?: LatestDigest;
-  readonly controls: readonly { readonly controlId: string; readonly label: string; readonly openFlags: readonly OpenControlFlag[] }[];
+  readonly controls: readonly {
+    readonly controlId: string;
+    readonly label: string;
+    readonly openFlags: readonly OpenControlFlag[];
+  }[];
   /** Open flags of the instrument scope and of controls no longer in the rule set. */
   readonly otherOpenFlags: readonly { readonly controlId: string; readonly flags: readonly OpenControlFlag[] }[];
   readonly charts: readonly ControlChartData[];
@@ -58,7 +62,10 @@ export function latestDigestDate(config: DriftlightConfig): string | undefined {
     if ((error as NodeJS.ErrnoException).code === 'ENOENT') return undefined;
     throw error;
   }
-  return names.flatMap((name) => DIGEST_NAME.exec(name)?.[1] ?? []).sort().pop();
+  return names
+    .flatMap((name) => DIGEST_NAME.exec(name)?.[1] ?? [])
+    .sort()
+    .pop();
 }
 
 function readLatestDigest(config: DriftlightConfig): LatestDigest | undefined {
@@ -68,13 +75,22 @@ function readLatestDigest(config: DriftlightConfig): LatestDigest | undefined {
   const data = JSON.parse(readFileSync(join(folder, `${date}.json`), 'utf8')) as DigestData;
   const hasHtml = readdirSync(folder).includes(`${date}.html`);
   return {
-    date, generatedAt: data.generatedAt, setsProcessed: data.sets.processed, rejected: data.rejections.length,
-    controls: data.controls.map((c) => ({ controlId: c.controlId, verdict: c.verdict })), hasHtml,
+    date,
+    generatedAt: data.generatedAt,
+    setsProcessed: data.sets.processed,
+    rejected: data.rejections.length,
+    controls: data.controls.map((c) => ({ controlId: c.controlId, verdict: c.verdict })),
+    hasHtml,
   };
 }
 
 /** Reads everything the status page shows at `now`. */
-export function gatherStatus(ledger: Ledger, config: DriftlightConfig, ruleSet: RuleSet, options: { now: Date; softwareVersion: string }): StatusData {
+export function gatherStatus(
+  ledger: Ledger,
+  config: DriftlightConfig,
+  ruleSet: RuleSet,
+  options: { now: Date; softwareVersion: string },
+): StatusData {
   const chartDays = config.digest.historyDays;
   // The window ends at the latest control run (or now, if earlier): a workspace looked at after
   // weeks without runs still shows its last historyDays days rather than empty charts.
@@ -82,7 +98,9 @@ export function gatherStatus(ledger: Ledger, config: DriftlightConfig, ruleSet: 
   const chartEndMs = Math.min(options.now.getTime(), latestRunMs ?? options.now.getTime());
   const sinceEpochMs = chartEndMs - chartDays * 86_400_000;
   const excluded = excludedSetIds(ledger);
-  const charts = DIGEST_CHART_METRICS.flatMap((metric) => controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs, excludedSetIds: excluded }))
+  const charts = DIGEST_CHART_METRICS.flatMap((metric) =>
+    controlChartsFromLedger(ledger, ruleSet, { metric, sinceEpochMs, excludedSetIds: excluded }),
+  )
     .filter((chart) => chart.points.length > 0)
     .sort((a, b) => a.controlId.localeCompare(b.controlId));
   const open = openFlagsByControl(ledger);
@@ -93,9 +111,15 @@ export function gatherStatus(ledger: Ledger, config: DriftlightConfig, ruleSet: 
     softwareVersion: options.softwareVersion,
     counts: ledgerStatus(ledger, 0),
     ...(latestDigest === undefined ? {} : { latestDigest }),
-    controls: ruleSet.controls.map((c) => ({ controlId: c.id, label: c.label ?? c.id, openFlags: open.find((o) => o.controlId === c.id)?.flags ?? [] })),
+    controls: ruleSet.controls.map((c) => ({
+      controlId: c.id,
+      label: c.label ?? c.id,
+      openFlags: open.find((o) => o.controlId === c.id)?.flags ?? [],
+    })),
     otherOpenFlags: open.filter((o) => !known.has(o.controlId)),
-    charts, chartDays, chartEnd: new Date(chartEndMs).toISOString(),
+    charts,
+    chartDays,
+    chartEnd: new Date(chartEndMs).toISOString(),
     waiting: waitingWithLacks(ledger, config),
     rejections: ledgerStatus(ledger, REJECTIONS_SHOWN).lastErrors,
     alerts: undeliveredAlerts(ledger, 50),

@@ -9,7 +9,11 @@ import { interpolateAt } from './interpolate.js';
  * Default window (nm): the range common to all spectra, starting `exclusionNm` above λex and ending `exclusionNm` below
  * 2·λex (first-order Rayleigh line and its second grating order; common practice). Throws AXIS_NOT_COVERED when empty.
  */
-export function defaultIntegrationWindow(spectra: readonly Spectrum[], excitationNm: number | undefined, exclusionNm: number): [number, number] {
+export function defaultIntegrationWindow(
+  spectra: readonly Spectrum[],
+  excitationNm: number | undefined,
+  exclusionNm: number,
+): [number, number] {
   let from = -Infinity;
   let to = Infinity;
   for (const s of spectra) {
@@ -31,7 +35,10 @@ export function defaultIntegrationWindow(spectra: readonly Spectrum[], excitatio
 }
 
 /** Edge value over peak (dimensionless) at both ends of `windowNm`; the peak is the largest value inside the window. */
-export function bandEdgeFractions(spectrum: Spectrum, windowNm: readonly [number, number]): { readonly lower: number; readonly upper: number; readonly peak: number } {
+export function bandEdgeFractions(
+  spectrum: Spectrum,
+  windowNm: readonly [number, number],
+): { readonly lower: number; readonly upper: number; readonly peak: number } {
   const axis = spectrum.wavelengthNm;
   let peak = 0;
   for (let i = 0; i < axis.length; i++) {

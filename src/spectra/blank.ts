@@ -33,7 +33,9 @@ export function subtractBlank(sample: Spectrum, blank: Spectrum, options?: Blank
   const sampleExcitationNm = sample.metadata.excitationNm;
   const blankExcitationNm = blank.metadata.excitationNm;
   if (sampleExcitationNm === undefined || blankExcitationNm === undefined) {
-    warnings.push('the excitation wavelength of the sample or the blank is unknown; matched excitation was not verified');
+    warnings.push(
+      'the excitation wavelength of the sample or the blank is unknown; matched excitation was not verified',
+    );
   } else {
     const differenceNm = Math.abs(sampleExcitationNm - blankExcitationNm);
     if (differenceNm > resolved.excitationToleranceNm) {

@@ -42,7 +42,9 @@ export function subtractDark(spectrum: Spectrum, dark: Spectrum | number, option
   if (resolved.scaleByIntegrationTime && sampleTimeS !== undefined && darkTimeS !== undefined && darkTimeS > 0) {
     scale = sampleTimeS / darkTimeS;
   } else if (sampleTimeS !== darkTimeS) {
-    warnings.push('integration times of sample and dark differ or are unknown; the dark spectrum was subtracted unscaled');
+    warnings.push(
+      'integration times of sample and dark differ or are unknown; the dark spectrum was subtracted unscaled',
+    );
   }
   for (let i = 0; i < out.length; i++) out[i] = (spectrum.values[i] as number) - scale * (darkOnAxis[i] as number);
   return {

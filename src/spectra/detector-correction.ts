@@ -23,7 +23,9 @@ export type DetectorCorrectionOptions = z.input<typeof detectorOptionsSchema>;
 export type ResolvedDetectorCorrectionOptions = Readonly<z.output<typeof detectorOptionsSchema>>;
 
 /** Validates DetectorCorrectionOptions, fills defaults, freezes. */
-export function resolveDetectorCorrectionOptions(options?: DetectorCorrectionOptions): ResolvedDetectorCorrectionOptions {
+export function resolveDetectorCorrectionOptions(
+  options?: DetectorCorrectionOptions,
+): ResolvedDetectorCorrectionOptions {
   return resolveWithSchema(detectorOptionsSchema, options, 'corrections.detector');
 }
 
@@ -34,7 +36,9 @@ const RESPONSE_WORDS = /sensitivity|response|responsivity|efficiency/i;
  * What a curve's own words say it holds: 'multiply' (correction factors), 'divide' (relative response or sensitivity),
  * or undefined when they say neither or both (value column, unit, and header entries other than the file's role).
  */
-export function detectorCurveMeaningFromHeader(curve: Spectrum): { readonly meaning: 'multiply' | 'divide'; readonly evidence: string } | undefined {
+export function detectorCurveMeaningFromHeader(
+  curve: Spectrum,
+): { readonly meaning: 'multiply' | 'divide'; readonly evidence: string } | undefined {
   const texts = [
     ['value column', curve.valueColumn],
     ['value unit', curve.valueUnit],
@@ -42,8 +46,10 @@ export function detectorCurveMeaningFromHeader(curve: Spectrum): { readonly mean
   ] as const;
   const factor = texts.find(([, text]) => FACTOR_WORDS.test(text));
   const response = texts.find(([, text]) => RESPONSE_WORDS.test(text) && !FACTOR_WORDS.test(text));
-  if (factor !== undefined && response === undefined) return { meaning: 'multiply', evidence: `${factor[0]} "${factor[1]}"` };
-  if (response !== undefined && factor === undefined) return { meaning: 'divide', evidence: `${response[0]} "${response[1]}"` };
+  if (factor !== undefined && response === undefined)
+    return { meaning: 'multiply', evidence: `${factor[0]} "${factor[1]}"` };
+  if (response !== undefined && factor === undefined)
+    return { meaning: 'divide', evidence: `${response[0]} "${response[1]}"` };
   return undefined;
 }
 
@@ -54,7 +60,12 @@ export function applyDetectorCorrection(
   options?: DetectorCorrectionOptions,
 ): CorrectionResult {
   const resolved = resolveDetectorCorrectionOptions(options);
-  const curveOnAxis = resampleOnto(curve.wavelengthNm, curve.values, spectrum.wavelengthNm, 'the detector correction curve');
+  const curveOnAxis = resampleOnto(
+    curve.wavelengthNm,
+    curve.values,
+    spectrum.wavelengthNm,
+    'the detector correction curve',
+  );
   const fromHeader = resolved.curveMeaning === 'from-header' ? detectorCurveMeaningFromHeader(curve) : undefined;
   const meaning = resolved.curveMeaning === 'from-header' ? fromHeader?.meaning : resolved.curveMeaning;
   if (meaning === undefined) {
@@ -62,7 +73,9 @@ export function applyDetectorCorrection(
       'INPUT_INVALID',
       `the detector curve (value column "${curve.valueColumn}", unit "${curve.valueUnit}") does not say whether it holds correction factors ` +
         '(to multiply) or the relative response / sensitivity of the instrument (to divide by); applying it the wrong way doubles the instrument response',
-      { hint: 'name the value column "correction factor" or "relative response", or set instrument.detectorCurveMeaning (config) / --detector-curve-meaning (CLI) to multiply or divide' },
+      {
+        hint: 'name the value column "correction factor" or "relative response", or set instrument.detectorCurveMeaning (config) / --detector-curve-meaning (CLI) to multiply or divide',
+      },
     );
   }
   const out = new Float64Array(spectrum.values.length);
@@ -84,7 +97,12 @@ export function applyDetectorCorrection(
     record: makeCorrectionRecord(
       'applyDetectorCorrection',
       { detectorCurve: curve },
-      { curveMeaning: meaning, curveMeaningFrom: fromHeader === undefined ? 'option' : fromHeader.evidence, curveFromNm: first, curveToNm: last },
+      {
+        curveMeaning: meaning,
+        curveMeaningFrom: fromHeader === undefined ? 'option' : fromHeader.evidence,
+        curveFromNm: first,
+        curveToNm: last,
+      },
       [],
     ),
   };

@@ -81,11 +81,17 @@ function convert(
 }
 
 /** Converts to an ascending energy axis E = hc/λ (eV, hc = 1239.84198 eV·nm) with I(E) = I(λ)·λ²/hc for densities (Mooney & Kambhampati 2013). */
-export function toEnergyScale(spectrum: Spectrum, options?: ScaleOptions): { spectrum: ConvertedSpectrum; record: CorrectionRecord } {
+export function toEnergyScale(
+  spectrum: Spectrum,
+  options?: ScaleOptions,
+): { spectrum: ConvertedSpectrum; record: CorrectionRecord } {
   return convert(spectrum, 'energy', options);
 }
 
 /** Converts to an ascending wavenumber axis ν̃ = 1e7/λ (cm⁻¹) with I(ν̃) = I(λ)·λ²/1e7 for densities (Mooney & Kambhampati 2013). */
-export function toWavenumberScale(spectrum: Spectrum, options?: ScaleOptions): { spectrum: ConvertedSpectrum; record: CorrectionRecord } {
+export function toWavenumberScale(
+  spectrum: Spectrum,
+  options?: ScaleOptions,
+): { spectrum: ConvertedSpectrum; record: CorrectionRecord } {
   return convert(spectrum, 'wavenumber', options);
 }

@@ -62,7 +62,10 @@ function absorbanceValues(spectrum: Spectrum): Float64Array {
     const percent = spectrum.valueUnit.toLowerCase().includes('percent') || spectrum.valueUnit.includes('%');
     return spectrum.values.map((t) => -Math.log10(percent ? t / 100 : t));
   }
-  throw new InputRejected('INPUT_INVALID', `the inner-filter correction needs an absorbance spectrum, got a ${spectrum.kind} spectrum`);
+  throw new InputRejected(
+    'INPUT_INVALID',
+    `the inner-filter correction needs an absorbance spectrum, got a ${spectrum.kind} spectrum`,
+  );
 }
 
 /** Corrects an emission spectrum for inner-filter effects using the sample's absorbance spectrum (per-cm scaling from its path length); refuses above maxAbsorbance. */
@@ -74,7 +77,10 @@ export function correctInnerFilter(
   const resolved = resolveInnerFilterOptions(options);
   const excitationNm = resolved.excitationNm ?? spectrum.metadata.excitationNm;
   if (excitationNm === undefined) {
-    throw new InputRejected('MISSING_COLUMN', 'the excitation wavelength is unknown; give it in the options or the file metadata');
+    throw new InputRejected(
+      'MISSING_COLUMN',
+      'the excitation wavelength is unknown; give it in the options or the file metadata',
+    );
   }
   const absorbancePathCm = resolved.absorbancePathLengthCm ?? absorbance.metadata.pathLengthCm ?? 1;
   const absorbanceRaw = absorbanceValues(absorbance);
@@ -102,7 +108,12 @@ export function correctInnerFilter(
         'the inner-filter correction is large and depends on the assumed geometry',
     );
   }
-  const emissionAbsorbance = resampleOnto(absorbance.wavelengthNm, absorbanceRaw, spectrum.wavelengthNm, 'the absorbance spectrum');
+  const emissionAbsorbance = resampleOnto(
+    absorbance.wavelengthNm,
+    absorbanceRaw,
+    spectrum.wavelengthNm,
+    'the absorbance spectrum',
+  );
   const [x1, x2] = resolved.excitationZoneCm;
   const [y1, y2] = resolved.emissionZoneCm;
   const perCmExcitation = absorbanceAtExcitation / resolved.cellPathCm;
@@ -127,7 +138,9 @@ export function correctInnerFilter(
     out[i] = (spectrum.values[i] as number) * factor;
   }
   if (largestEmissionAbsorbance > resolved.warnAbsorbance) {
-    warnings.push(`the cell absorbance reaches ${largestEmissionAbsorbance.toFixed(3)} inside the emission range (re-absorption corrected)`);
+    warnings.push(
+      `the cell absorbance reaches ${largestEmissionAbsorbance.toFixed(3)} inside the emission range (re-absorption corrected)`,
+    );
   }
   return {
     spectrum: withValues(spectrum, out),

@@ -30,7 +30,14 @@ export interface SpectrumMetrics {
 }
 
 /** Vertex of the parabola through (x0,y0),(x1,y1),(x2,y2) on a non-uniform axis (Lagrange form). */
-export function parabolaVertex(x0: number, y0: number, x1: number, y1: number, x2: number, y2: number): { x: number; y: number } | undefined {
+export function parabolaVertex(
+  x0: number,
+  y0: number,
+  x1: number,
+  y1: number,
+  x2: number,
+  y2: number,
+): { x: number; y: number } | undefined {
   const d0 = (x0 - x1) * (x0 - x2);
   const d1 = (x1 - x0) * (x1 - x2);
   const d2 = (x2 - x0) * (x2 - x1);
@@ -43,7 +50,11 @@ export function parabolaVertex(x0: number, y0: number, x1: number, y1: number, x
 }
 
 /** Vertex of the least-squares parabola through points (x_i, y_i), x centred on xc for conditioning (3×3 normal equations); undefined unless it opens downward. */
-export function leastSquaresParabolaVertex(xs: readonly number[], ys: readonly number[], xc: number): { x: number; y: number } | undefined {
+export function leastSquaresParabolaVertex(
+  xs: readonly number[],
+  ys: readonly number[],
+  xc: number,
+): { x: number; y: number } | undefined {
   const s = [0, 0, 0, 0, 0];
   const t = [0, 0, 0];
   xs.forEach((x, i) => {
@@ -91,7 +102,14 @@ export function findPeak(
   }
   const vertex =
     xs.length === 3
-      ? parabolaVertex(xs[0] as number, ys[0] as number, xs[1] as number, ys[1] as number, xs[2] as number, ys[2] as number)
+      ? parabolaVertex(
+          xs[0] as number,
+          ys[0] as number,
+          xs[1] as number,
+          ys[1] as number,
+          xs[2] as number,
+          ys[2] as number,
+        )
       : leastSquaresParabolaVertex(xs, ys, axis[best] as number);
   if (vertex === undefined || vertex.x < (axis[best - 1] as number) || vertex.x > (axis[best + 1] as number)) {
     return { wavelengthNm: axis[best] as number, value: values[best] as number, atEdge: false };
@@ -100,7 +118,11 @@ export function findPeak(
 }
 
 /** FWHM in nm: half-maximum crossings on each side of the peak, linearly interpolated; undefined if a side never drops below half. */
-export function fullWidthHalfMaximum(axis: ArrayLike<number>, values: ArrayLike<number>, peakValue: number): number | undefined {
+export function fullWidthHalfMaximum(
+  axis: ArrayLike<number>,
+  values: ArrayLike<number>,
+  peakValue: number,
+): number | undefined {
   const half = peakValue / 2;
   let top = 0;
   for (let i = 1; i < values.length; i++) if ((values[i] as number) > (values[top] as number)) top = i;
@@ -146,7 +168,11 @@ export function integralWithUncertainty(
   const noiseSigma = noiseFromSecondDifferences(axis, spectrum.values);
   let sumSquares = 0;
   for (const w of weights) sumSquares += w * w;
-  return { integral, standardUncertainty: noiseSigma === undefined ? undefined : noiseSigma * Math.sqrt(sumSquares), noiseSigma };
+  return {
+    integral,
+    standardUncertainty: noiseSigma === undefined ? undefined : noiseSigma * Math.sqrt(sumSquares),
+    noiseSigma,
+  };
 }
 
 /** Peak (nm), FWHM (nm), integral (value·nm), centroid (nm), noise σ and peak SNR of a spectrum; throws INPUT_INVALID for a non-positive integral. */
@@ -155,14 +181,20 @@ export function spectrumMetrics(spectrum: Spectrum): SpectrumMetrics {
   const values = spectrum.values;
   const warnings: string[] = [];
   const peak = findPeak(axis, values);
-  if (peak.atEdge) warnings.push(`the maximum lies at the edge of the range (${peak.wavelengthNm} nm); the true peak may be outside it`);
+  if (peak.atEdge)
+    warnings.push(
+      `the maximum lies at the edge of the range (${peak.wavelengthNm} nm); the true peak may be outside it`,
+    );
   const fwhmNm = fullWidthHalfMaximum(axis, values, peak.value);
   if (fwhmNm === undefined) warnings.push('the band does not fall to half maximum on both sides; FWHM not reported');
   const integratedIntensity = trapezoid(axis, values);
   const weighted = new Float64Array(axis.length);
   for (let i = 0; i < axis.length; i++) weighted[i] = (axis[i] as number) * (values[i] as number);
   if (!(integratedIntensity > 0)) {
-    throw new InputRejected('INPUT_INVALID', `the integrated intensity is ${integratedIntensity}; a centroid needs a positive band`);
+    throw new InputRejected(
+      'INPUT_INVALID',
+      `the integrated intensity is ${integratedIntensity}; a centroid needs a positive band`,
+    );
   }
   const centroidNm = trapezoid(axis, weighted) / integratedIntensity;
   const noiseSigma = noiseFromSecondDifferences(axis, values);

@@ -78,32 +78,53 @@ export function ramanTest(spectrum: Spectrum, options?: RamanOptions): RamanTest
   const resolved = resolveRamanOptions(options);
   const excitationNm = resolved.excitationNm ?? spectrum.metadata.excitationNm;
   if (excitationNm === undefined) {
-    throw new InputRejected('MISSING_COLUMN', 'the excitation wavelength of the Raman scan is unknown; give it in the options or metadata');
+    throw new InputRejected(
+      'MISSING_COLUMN',
+      'the excitation wavelength of the Raman scan is unknown; give it in the options or metadata',
+    );
   }
   const warnings: string[] = [];
   const expectedPeakNm = ramanPeakNm(excitationNm, resolved.ramanShiftPerCm);
   const axis = spectrum.wavelengthNm;
-  const peakRange = indexRange(axis, expectedPeakNm - resolved.searchHalfWidthNm, expectedPeakNm + resolved.searchHalfWidthNm);
+  const peakRange = indexRange(
+    axis,
+    expectedPeakNm - resolved.searchHalfWidthNm,
+    expectedPeakNm + resolved.searchHalfWidthNm,
+  );
   if (peakRange === undefined) {
-    throw new InputRejected('AXIS_NOT_COVERED', `the scan does not cover ${expectedPeakNm.toFixed(1)} ± ${resolved.searchHalfWidthNm} nm`);
+    throw new InputRejected(
+      'AXIS_NOT_COVERED',
+      `the scan does not cover ${expectedPeakNm.toFixed(1)} ± ${resolved.searchHalfWidthNm} nm`,
+    );
   }
-  const stepNm = ((axis[peakRange[1]] as number) - (axis[peakRange[0]] as number)) / Math.max(1, peakRange[1] - peakRange[0]);
+  const stepNm =
+    ((axis[peakRange[1]] as number) - (axis[peakRange[0]] as number)) / Math.max(1, peakRange[1] - peakRange[0]);
   const halfWindowPoints = Math.max(1, Math.round(resolved.peakFitHalfWidthNm / stepNm));
   const peak = findPeak(axis, spectrum.values, peakRange[0], peakRange[1], halfWindowPoints);
   if (peak.atEdge || peak.wavelengthNm === axis[peakRange[0]] || peak.wavelengthNm === axis[peakRange[1]]) {
     warnings.push('the Raman maximum lies at the edge of the search window; the band may be missing or shifted');
   }
   const backgroundNm = resolved.backgroundNm ?? 1e7 / (1e7 / excitationNm - RAMAN_BACKGROUND_SHIFT_PER_CM);
-  const backgroundRange = indexRange(axis, backgroundNm - resolved.backgroundHalfWidthNm, backgroundNm + resolved.backgroundHalfWidthNm);
+  const backgroundRange = indexRange(
+    axis,
+    backgroundNm - resolved.backgroundHalfWidthNm,
+    backgroundNm + resolved.backgroundHalfWidthNm,
+  );
   if (backgroundRange === undefined) {
-    throw new InputRejected('AXIS_NOT_COVERED', `the scan does not cover the background window ${backgroundNm.toFixed(1)} ± ${resolved.backgroundHalfWidthNm} nm`);
+    throw new InputRejected(
+      'AXIS_NOT_COVERED',
+      `the scan does not cover the background window ${backgroundNm.toFixed(1)} ± ${resolved.backgroundHalfWidthNm} nm`,
+    );
   }
   let sum = 0;
   for (let i = backgroundRange[0]; i <= backgroundRange[1]; i++) sum += spectrum.values[i] as number;
   const backgroundSignal = sum / (backgroundRange[1] - backgroundRange[0] + 1);
   const net = peak.value - backgroundSignal;
   if (!(net > 0)) {
-    throw new AnalysisFailed('OUT_OF_RANGE', `no Raman band: the peak (${peak.value}) does not exceed the background (${backgroundSignal})`);
+    throw new AnalysisFailed(
+      'OUT_OF_RANGE',
+      `no Raman band: the peak (${peak.value}) does not exceed the background (${backgroundSignal})`,
+    );
   }
   const sigma = noiseFromSecondDifferences(axis, spectrum.values, backgroundRange[0], backgroundRange[1]);
   if (sigma === undefined) warnings.push('too few points in the background window for a noise estimate');

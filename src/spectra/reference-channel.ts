@@ -6,7 +6,8 @@ import { makeCorrectionRecord, type CorrectionResult } from './correction-record
 import { resolveWithSchema } from './options.js';
 
 /** Column names taken for a reference-detector channel when none is named (case-insensitive). */
-const REFERENCE_COLUMN_PATTERN = /^(r|r1|ref|reference|reference[ _-]?(detector|channel|signal)|lamp|lamp[ _-]?monitor|monitor)\b/i;
+const REFERENCE_COLUMN_PATTERN =
+  /^(r|r1|ref|reference|reference[ _-]?(detector|channel|signal)|lamp|lamp[ _-]?monitor|monitor)\b/i;
 
 const referenceChannelOptionsSchema = z
   .object({

@@ -8,7 +8,9 @@ export const ACQUISITION_MIGRATIONS: readonly Migration[] = [
     // so its modification time stands in (never the analysis time). NULL on rows recorded before.
     id: '0300-acquisition-source',
     up(database) {
-      database.exec(`ALTER TABLE files ADD COLUMN acquired_source TEXT CHECK (acquired_source IN ('metadata','file-modified'))`);
+      database.exec(
+        `ALTER TABLE files ADD COLUMN acquired_source TEXT CHECK (acquired_source IN ('metadata','file-modified'))`,
+      );
     },
   },
   {

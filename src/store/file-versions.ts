@@ -21,8 +21,16 @@ export interface FileVersionRecord {
 }
 
 interface FileVersionRow {
-  file_id: number; set_id: string | null; name: string; sha256: string; size_bytes: number; first_seen_at: string;
-  replaced_at: string; location: string | null; result_sha256: string | null; reason: string;
+  file_id: number;
+  set_id: string | null;
+  name: string;
+  sha256: string;
+  size_bytes: number;
+  first_seen_at: string;
+  replaced_at: string;
+  location: string | null;
+  result_sha256: string | null;
+  reason: string;
 }
 
 /** The new content of a file: what intake read at its path. */
@@ -38,23 +46,60 @@ export interface NewContent {
  * archive and quarantine paths cleared; the caller assembles it again), or, with `keptAt`, at that
  * archive path (the earlier version was overwritten there by a writer that held the file open).
  */
-export function replaceFileVersion(ledger: Ledger, earlier: FileRecord, content: NewContent, reason: string, now: Date, keptAt?: { archivePath: string }): void {
-  const result = earlier.setId === null ? undefined : (ledger.prepare('SELECT result_sha256 FROM results WHERE set_id = ?').get(earlier.setId) as { result_sha256: string } | undefined);
-  ledger.prepare(`INSERT INTO file_versions (file_id, set_id, name, sha256, size_bytes, first_seen_at, replaced_at, location, result_sha256, reason)
-    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(
-    earlier.id, earlier.setId, earlier.name, earlier.sha256, earlier.sizeBytes, earlier.firstSeenAt, now.toISOString(),
-    keptAt === undefined ? (earlier.archivePath ?? earlier.quarantinePath) : null, result?.result_sha256 ?? null, reason,
-  );
-  ledger.prepare(`UPDATE files SET sha256 = ?, size_bytes = ?, state = 'seen', archive_path = ?, quarantine_path = NULL,
-    error_code = NULL, error_message = NULL, updated_at = ? WHERE id = ?`).run(content.sha256, content.sizeBytes, keptAt?.archivePath ?? null, now.toISOString(), earlier.id);
+export function replaceFileVersion(
+  ledger: Ledger,
+  earlier: FileRecord,
+  content: NewContent,
+  reason: string,
+  now: Date,
+  keptAt?: { archivePath: string },
+): void {
+  const result =
+    earlier.setId === null
+      ? undefined
+      : (ledger.prepare('SELECT result_sha256 FROM results WHERE set_id = ?').get(earlier.setId) as
+          { result_sha256: string } | undefined);
+  ledger
+    .prepare(
+      `INSERT INTO file_versions (file_id, set_id, name, sha256, size_bytes, first_seen_at, replaced_at, location, result_sha256, reason)
+    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+    )
+    .run(
+      earlier.id,
+      earlier.setId,
+      earlier.name,
+      earlier.sha256,
+      earlier.sizeBytes,
+      earlier.firstSeenAt,
+      now.toISOString(),
+      keptAt === undefined ? (earlier.archivePath ?? earlier.quarantinePath) : null,
+      result?.result_sha256 ?? null,
+      reason,
+    );
+  ledger
+    .prepare(
+      `UPDATE files SET sha256 = ?, size_bytes = ?, state = 'seen', archive_path = ?, quarantine_path = NULL,
+    error_code = NULL, error_message = NULL, updated_at = ? WHERE id = ?`,
+    )
+    .run(content.sha256, content.sizeBytes, keptAt?.archivePath ?? null, now.toISOString(), earlier.id);
 }
 
 /** Earlier versions of the inputs of `setId`, oldest first. */
 export function versionsOfSet(ledger: Ledger, setId: string): FileVersionRecord[] {
-  const rows = ledger.prepare('SELECT * FROM file_versions WHERE set_id = ? ORDER BY id').all(setId) as FileVersionRow[];
+  const rows = ledger
+    .prepare('SELECT * FROM file_versions WHERE set_id = ? ORDER BY id')
+    .all(setId) as FileVersionRow[];
   return rows.map((row) => ({
-    fileId: row.file_id, setId: row.set_id, name: row.name, sha256: row.sha256, sizeBytes: row.size_bytes, firstSeenAt: row.first_seen_at,
-    replacedAt: row.replaced_at, location: row.location, resultSha256: row.result_sha256, reason: row.reason,
+    fileId: row.file_id,
+    setId: row.set_id,
+    name: row.name,
+    sha256: row.sha256,
+    sizeBytes: row.size_bytes,
+    firstSeenAt: row.first_seen_at,
+    replacedAt: row.replaced_at,
+    location: row.location,
+    resultSha256: row.result_sha256,
+    reason: row.reason,
   }));
 }
 
@@ -65,17 +110,29 @@ export function versionCountOfSet(ledger: Ledger, setId: string): number {
 
 /** Opens a queued, done or failed set again (a new version of one of its inputs arrived), until `deadlineAt`. */
 export function reopenSet(ledger: Ledger, setId: string, deadlineAt: Date): void {
-  ledger.prepare(`UPDATE sets SET state = 'open', deadline_at = ?, job_id = NULL, queued_at = NULL, done_at = NULL, error_code = NULL, error_message = NULL WHERE id = ?`)
+  ledger
+    .prepare(
+      `UPDATE sets SET state = 'open', deadline_at = ?, job_id = NULL, queued_at = NULL, done_at = NULL, error_code = NULL, error_message = NULL WHERE id = ?`,
+    )
     .run(deadlineAt.toISOString(), setId);
 }
 
 /** Done files moved to the archive (recorded) since `sinceIso`: what a restart looks at once more. */
-export function recentlyArchivedFiles(ledger: Ledger, sinceIso: string): Pick<FileRecord, 'id' | 'archivePath' | 'sizeBytes'>[] {
-  const rows = ledger.prepare(`SELECT id, archive_path, size_bytes FROM files WHERE state = 'done' AND archive_path IS NOT NULL AND updated_at >= ?`).all(sinceIso) as { id: number; archive_path: string; size_bytes: number }[];
+export function recentlyArchivedFiles(
+  ledger: Ledger,
+  sinceIso: string,
+): Pick<FileRecord, 'id' | 'archivePath' | 'sizeBytes'>[] {
+  const rows = ledger
+    .prepare(
+      `SELECT id, archive_path, size_bytes FROM files WHERE state = 'done' AND archive_path IS NOT NULL AND updated_at >= ?`,
+    )
+    .all(sinceIso) as { id: number; archive_path: string; size_bytes: number }[];
   return rows.map((row) => ({ id: row.id, archivePath: row.archive_path, sizeBytes: row.size_bytes }));
 }
 
 /** Queued sets with the job id each was queued under (recovery re-enqueues each under it: a set run again after a new input version has `SETID~vN`), oldest first. */
 export function queuedSetJobs(ledger: Ledger): { id: string; jobId: string | null }[] {
-  return (ledger.prepare(`SELECT id, job_id AS jobId FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string; jobId: string | null }[]);
+  return ledger
+    .prepare(`SELECT id, job_id AS jobId FROM sets WHERE state = 'queued' ORDER BY created_at, id`)
+    .all() as { id: string; jobId: string | null }[];
 }

@@ -36,21 +36,54 @@ export interface FileRecord {
 }
 
 interface FileRow {
-  id: number; sha256: string; path: string; name: string; size_bytes: number; first_seen_at: string;
-  updated_at: string; state: FileState; data_type: FileRecord['dataType']; part: string | null;
-  role: string | null; sample_id: string | null; acquired_at: string | null; acquired_source?: AcquiredSource | null; excitation_nm: number | null;
-  solvent: string | null; has_irf_column: number; set_id: string | null; archive_path: string | null;
-  quarantine_path: string | null; error_code: string | null; error_message: string | null;
+  id: number;
+  sha256: string;
+  path: string;
+  name: string;
+  size_bytes: number;
+  first_seen_at: string;
+  updated_at: string;
+  state: FileState;
+  data_type: FileRecord['dataType'];
+  part: string | null;
+  role: string | null;
+  sample_id: string | null;
+  acquired_at: string | null;
+  acquired_source?: AcquiredSource | null;
+  excitation_nm: number | null;
+  solvent: string | null;
+  has_irf_column: number;
+  set_id: string | null;
+  archive_path: string | null;
+  quarantine_path: string | null;
+  error_code: string | null;
+  error_message: string | null;
 }
 
 function toRecord(row: FileRow): FileRecord {
   return {
-    id: row.id, sha256: row.sha256, path: row.path, name: row.name, sizeBytes: row.size_bytes,
-    firstSeenAt: row.first_seen_at, updatedAt: row.updated_at, state: row.state, dataType: row.data_type,
-    part: row.part, role: row.role, sampleId: row.sample_id, acquiredAt: row.acquired_at, acquiredSource: row.acquired_source ?? null,
-    excitationNm: row.excitation_nm, solvent: row.solvent, hasIrfColumn: row.has_irf_column === 1,
-    setId: row.set_id, archivePath: row.archive_path, quarantinePath: row.quarantine_path,
-    errorCode: row.error_code, errorMessage: row.error_message,
+    id: row.id,
+    sha256: row.sha256,
+    path: row.path,
+    name: row.name,
+    sizeBytes: row.size_bytes,
+    firstSeenAt: row.first_seen_at,
+    updatedAt: row.updated_at,
+    state: row.state,
+    dataType: row.data_type,
+    part: row.part,
+    role: row.role,
+    sampleId: row.sample_id,
+    acquiredAt: row.acquired_at,
+    acquiredSource: row.acquired_source ?? null,
+    excitationNm: row.excitation_nm,
+    solvent: row.solvent,
+    hasIrfColumn: row.has_irf_column === 1,
+    setId: row.set_id,
+    archivePath: row.archive_path,
+    quarantinePath: row.quarantine_path,
+    errorCode: row.error_code,
+    errorMessage: row.error_message,
   };
 }
 
@@ -88,8 +121,10 @@ export function insertFile(ledger: Ledger, file: NewFile, now: Date): FileRecord
 export function insertFileId(ledger: Ledger, file: NewFile, now: Date): number {
   const at = now.toISOString();
   const info = ledger
-    .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state)
-              VALUES (?, ?, ?, ?, ?, ?, 'seen')`)
+    .prepare(
+      `INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state)
+              VALUES (?, ?, ?, ?, ?, ?, 'seen')`,
+    )
     .run(file.sha256, file.path, file.name, file.sizeBytes, at, at);
   return Number(info.lastInsertRowid);
 }
@@ -139,21 +174,52 @@ export function filesToArchive(ledger: Ledger, setId: string): FileToArchive[] {
 /** Stores the classification of a file read successfully. */
 function setFileFacts(ledger: Ledger, id: number, facts: FileFacts, now: Date): void {
   ledger
-    .prepare(`UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, acquired_source = ?, excitation_nm = ?,
-              solvent = ?, has_irf_column = ?, updated_at = ? WHERE id = ?`)
-    .run(facts.dataType, facts.part, facts.role, facts.sampleId, facts.acquiredAt, facts.acquiredSource ?? null, facts.excitationNm, facts.solvent,
-      facts.hasIrfColumn ? 1 : 0, now.toISOString(), id);
+    .prepare(
+      `UPDATE files SET data_type = ?, part = ?, role = ?, sample_id = ?, acquired_at = ?, acquired_source = ?, excitation_nm = ?,
+              solvent = ?, has_irf_column = ?, updated_at = ? WHERE id = ?`,
+    )
+    .run(
+      facts.dataType,
+      facts.part,
+      facts.role,
+      facts.sampleId,
+      facts.acquiredAt,
+      facts.acquiredSource ?? null,
+      facts.excitationNm,
+      facts.solvent,
+      facts.hasIrfColumn ? 1 : 0,
+      now.toISOString(),
+      id,
+    );
 }
 
 /** Records a file that was read and placed in set `setId` (state `assembled`, with its facts) in one statement; returns its id. */
 export function insertAssembledFile(ledger: Ledger, file: NewFile, facts: FileFacts, setId: string, now: Date): number {
   const at = now.toISOString();
   const info = ledger
-    .prepare(`INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state, data_type, part, role, sample_id,
+    .prepare(
+      `INSERT INTO files (sha256, path, name, size_bytes, first_seen_at, updated_at, state, data_type, part, role, sample_id,
               acquired_at, acquired_source, excitation_nm, solvent, has_irf_column, set_id)
-              VALUES (?, ?, ?, ?, ?, ?, 'assembled', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
-    .run(file.sha256, file.path, file.name, file.sizeBytes, at, at, facts.dataType, facts.part, facts.role, facts.sampleId,
-      facts.acquiredAt, facts.acquiredSource ?? null, facts.excitationNm, facts.solvent, facts.hasIrfColumn ? 1 : 0, setId);
+              VALUES (?, ?, ?, ?, ?, ?, 'assembled', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+    )
+    .run(
+      file.sha256,
+      file.path,
+      file.name,
+      file.sizeBytes,
+      at,
+      at,
+      facts.dataType,
+      facts.part,
+      facts.role,
+      facts.sampleId,
+      facts.acquiredAt,
+      facts.acquiredSource ?? null,
+      facts.excitationNm,
+      facts.solvent,
+      facts.hasIrfColumn ? 1 : 0,
+      setId,
+    );
   return Number(info.lastInsertRowid);
 }
 
@@ -165,7 +231,9 @@ export function assembleRecordedFile(ledger: Ledger, id: number, facts: FileFact
 
 /** Moves an assembled file into set `setId` as `part` (a manifest claiming it); `role` null keeps its role. */
 export function moveFileToSet(ledger: Ledger, id: number, setId: string, part: string, role: string | null): void {
-  ledger.prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?').run(setId, part, role, id);
+  ledger
+    .prepare('UPDATE files SET set_id = ?, part = ?, role = COALESCE(?, role) WHERE id = ?')
+    .run(setId, part, role, id);
 }
 
 /** Moves a file to `state`, optionally attaching it to a set. */
@@ -173,7 +241,9 @@ export function setFileState(ledger: Ledger, id: number, state: FileState, now: 
   if (setId === undefined) {
     ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE id = ?').run(state, now.toISOString(), id);
   } else {
-    ledger.prepare('UPDATE files SET state = ?, set_id = ?, updated_at = ? WHERE id = ?').run(state, setId, now.toISOString(), id);
+    ledger
+      .prepare('UPDATE files SET state = ?, set_id = ?, updated_at = ? WHERE id = ?')
+      .run(state, setId, now.toISOString(), id);
   }
 }
 
@@ -184,7 +254,9 @@ export function setFilesOfSetState(ledger: Ledger, setId: string, state: FileSta
 
 /** Moves the own files of a set that are in state `from` to state `to` (e.g. assembled → queued at dispatch). */
 export function advanceFilesOfSet(ledger: Ledger, setId: string, from: FileState, to: FileState, now: Date): void {
-  ledger.prepare('UPDATE files SET state = ?, updated_at = ? WHERE set_id = ? AND state = ?').run(to, now.toISOString(), setId, from);
+  ledger
+    .prepare('UPDATE files SET state = ?, updated_at = ? WHERE set_id = ? AND state = ?')
+    .run(to, now.toISOString(), setId, from);
 }
 
 /** Marks a file rejected or failed with its error (and where it was quarantined). */
@@ -201,19 +273,29 @@ export function setFileError(
 }
 
 /** Records where a file now lives after an archive or quarantine move. */
-export function setFileLocation(ledger: Ledger, id: number, where: { archivePath?: string; quarantinePath?: string }, now: Date): void {
+export function setFileLocation(
+  ledger: Ledger,
+  id: number,
+  where: { archivePath?: string; quarantinePath?: string },
+  now: Date,
+): void {
   if (where.archivePath !== undefined) {
-    ledger.prepare('UPDATE files SET archive_path = ?, updated_at = ? WHERE id = ?').run(where.archivePath, now.toISOString(), id);
+    ledger
+      .prepare('UPDATE files SET archive_path = ?, updated_at = ? WHERE id = ?')
+      .run(where.archivePath, now.toISOString(), id);
   }
   if (where.quarantinePath !== undefined) {
-    ledger.prepare('UPDATE files SET quarantine_path = ?, updated_at = ? WHERE id = ?').run(where.quarantinePath, now.toISOString(), id);
+    ledger
+      .prepare('UPDATE files SET quarantine_path = ?, updated_at = ? WHERE id = ?')
+      .run(where.quarantinePath, now.toISOString(), id);
   }
 }
 
 /** What pairing needs of a candidate file: who it is, whose set it belongs to, and when it was measured (acquiredAt, else firstSeenAt). */
 export type PairingFile = Pick<FileRecord, 'id' | 'setId' | 'sampleId' | 'acquiredAt' | 'firstSeenAt'>;
 
-const PAIRING_COLUMNS = 'id, set_id AS setId, sample_id AS sampleId, acquired_at AS acquiredAt, first_seen_at AS firstSeenAt';
+const PAIRING_COLUMNS =
+  'id, set_id AS setId, sample_id AS sampleId, acquired_at AS acquiredAt, first_seen_at AS firstSeenAt';
 
 /** SQL of pairingCandidates (walks index files_part_seen newest first; exported for the query-plan test). Only the columns pairing uses: up to `limit` rows are read per dispatch. */
 export const PAIRING_CANDIDATES_SQL = `SELECT ${PAIRING_COLUMNS} FROM files WHERE part = ? AND state IN ('assembled','queued','done') ORDER BY first_seen_at DESC, id DESC LIMIT ?`;

@@ -24,7 +24,10 @@ export interface Ledger {
 }
 
 /** Opens (creating if needed) the ledger in `stateDir`, in WAL mode, and applies pending migrations. */
-export function openLedger(stateDir: string, options: { migrations?: readonly Migration[]; readonly?: boolean } = {}): Ledger {
+export function openLedger(
+  stateDir: string,
+  options: { migrations?: readonly Migration[]; readonly?: boolean } = {},
+): Ledger {
   mkdirSync(stateDir, { recursive: true });
   const database = new BetterSqlite3(join(stateDir, LEDGER_FILE_NAME), { readonly: options.readonly ?? false });
   if (options.readonly !== true) {

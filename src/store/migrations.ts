@@ -114,7 +114,14 @@ const CORE_MIGRATIONS: readonly Migration[] = [
 ];
 
 /** Every migration, in the order applied. Append other modules' lists here. */
-export const MIGRATIONS: readonly Migration[] = [...CORE_MIGRATIONS, ...QC_MIGRATIONS, ...ACQUISITION_MIGRATIONS, ...ALERT_OUTBOX_MIGRATIONS, ...METRICS_MIGRATIONS, ...FILE_VERSION_MIGRATIONS];
+export const MIGRATIONS: readonly Migration[] = [
+  ...CORE_MIGRATIONS,
+  ...QC_MIGRATIONS,
+  ...ACQUISITION_MIGRATIONS,
+  ...ALERT_OUTBOX_MIGRATIONS,
+  ...METRICS_MIGRATIONS,
+  ...FILE_VERSION_MIGRATIONS,
+];
 
 /** Applies every migration of `migrations` not yet recorded, each in its own transaction; returns the ids applied. */
 export function applyMigrations(database: Database, migrations: readonly Migration[] = MIGRATIONS): string[] {

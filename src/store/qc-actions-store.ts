@@ -16,13 +16,34 @@ export interface QcAction {
   readonly detail: Readonly<Record<string, unknown>>;
 }
 
-interface ActionRow { id: number; action: string; control_id: string; set_id: string | null; flag_key: string | null; comment: string; by_user: string; at_iso: string; detail_json: string }
+interface ActionRow {
+  id: number;
+  action: string;
+  control_id: string;
+  set_id: string | null;
+  flag_key: string | null;
+  comment: string;
+  by_user: string;
+  at_iso: string;
+  detail_json: string;
+}
 
 /** Appends an action; returns its id. */
 export function recordAction(ledger: Ledger, action: Omit<QcAction, 'id'>): number {
   const info = ledger.database
-    .prepare('INSERT INTO qc_actions (action, control_id, set_id, flag_key, comment, by_user, at_iso, detail_json) VALUES (?, ?, ?, ?, ?, ?, ?, ?)')
-    .run(action.action, action.controlId, action.setId ?? null, action.flagKey ?? null, action.comment, action.by, action.atIso, JSON.stringify(action.detail));
+    .prepare(
+      'INSERT INTO qc_actions (action, control_id, set_id, flag_key, comment, by_user, at_iso, detail_json) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
+    )
+    .run(
+      action.action,
+      action.controlId,
+      action.setId ?? null,
+      action.flagKey ?? null,
+      action.comment,
+      action.by,
+      action.atIso,
+      JSON.stringify(action.detail),
+    );
   return Number(info.lastInsertRowid);
 }
 
@@ -57,9 +78,24 @@ export function excludedSetIds(ledger: Ledger): Set<string> {
  * Marks the stored flags of a run (all keys, or one rule|control|metric key) as acknowledged by an
  * action; returns how many flags it marked. An acknowledged flag stays in the history and closes.
  */
-export function acknowledgeFlags(ledger: Ledger, setId: string, key: string | undefined, actionId: number, atIso: string): number {
-  const info = key === undefined
-    ? ledger.database.prepare('UPDATE qc_flags SET acknowledged_action_id = ?, open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE set_id = ?').run(actionId, atIso, setId)
-    : ledger.database.prepare('UPDATE qc_flags SET acknowledged_action_id = ?, open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE set_id = ? AND flag_key = ?').run(actionId, atIso, setId, key);
+export function acknowledgeFlags(
+  ledger: Ledger,
+  setId: string,
+  key: string | undefined,
+  actionId: number,
+  atIso: string,
+): number {
+  const info =
+    key === undefined
+      ? ledger.database
+          .prepare(
+            'UPDATE qc_flags SET acknowledged_action_id = ?, open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE set_id = ?',
+          )
+          .run(actionId, atIso, setId)
+      : ledger.database
+          .prepare(
+            'UPDATE qc_flags SET acknowledged_action_id = ?, open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE set_id = ? AND flag_key = ?',
+          )
+          .run(actionId, atIso, setId, key);
   return info.changes;
 }

@@ -4,19 +4,34 @@ import { compareAcquisition, localParts, openStateFromVerdicts, parseIsoToEpochM
 import type { RuleVerdict, VerdictStatus } from '../qc/index.js';
 import type { Ledger } from './ledger.js';
 
-interface VerdictRow { set_id: string; flag_key: string; status: string; acquired_at_ms: number }
-interface OpenFlagRow { id: number; set_id: string; flag_key: string; acquired_at: string; open: number }
+interface VerdictRow {
+  set_id: string;
+  flag_key: string;
+  status: string;
+  acquired_at_ms: number;
+}
+interface OpenFlagRow {
+  id: number;
+  set_id: string;
+  flag_key: string;
+  acquired_at: string;
+  open: number;
+}
 
 /** Replaces the verdicts stored for a run. */
 export function replaceVerdictsOfSet(ledger: Ledger, setId: string, verdicts: readonly RuleVerdict[]): void {
   ledger.database.prepare('DELETE FROM qc_verdicts WHERE set_id = ?').run(setId);
-  const insert = ledger.database.prepare('INSERT INTO qc_verdicts (set_id, flag_key, status, acquired_at_ms) VALUES (?, ?, ?, ?)');
+  const insert = ledger.database.prepare(
+    'INSERT INTO qc_verdicts (set_id, flag_key, status, acquired_at_ms) VALUES (?, ?, ?, ?)',
+  );
   for (const verdict of verdicts) insert.run(verdict.setId, verdict.key, verdict.status, verdict.acquiredAtMs);
 }
 
 /** Stored verdicts of the given keys. */
 export function verdictsOf(ledger: Ledger, keys: readonly string[]): RuleVerdict[] {
-  const select = ledger.database.prepare('SELECT set_id, flag_key, status, acquired_at_ms FROM qc_verdicts WHERE flag_key = ?');
+  const select = ledger.database.prepare(
+    'SELECT set_id, flag_key, status, acquired_at_ms FROM qc_verdicts WHERE flag_key = ?',
+  );
   return keys.flatMap((key) =>
     (select.all(key) as VerdictRow[]).map((row) => ({
       setId: row.set_id,
@@ -38,11 +53,19 @@ export function verdictKeysOfScopes(ledger: Ledger, scopes: readonly string[]): 
  * verdict fired and the flag was acquired after the newest settled one. Returns the keys that went
  * from open to closed and from closed to open. Clock flags (no set) are left alone.
  */
-export function reconcileOpenFlags(ledger: Ledger, keys: readonly string[], nowIso: string): { closed: string[]; opened: string[] } {
+export function reconcileOpenFlags(
+  ledger: Ledger,
+  keys: readonly string[],
+  nowIso: string,
+): { closed: string[]; opened: string[] } {
   const state = openStateFromVerdicts(verdictsOf(ledger, keys));
-  const select = ledger.database.prepare("SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE flag_key = ? AND set_id != '' AND acknowledged_action_id IS NULL");
+  const select = ledger.database.prepare(
+    "SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE flag_key = ? AND set_id != '' AND acknowledged_action_id IS NULL",
+  );
   const setOpen = ledger.database.prepare('UPDATE qc_flags SET open = 1, recovered_at = NULL WHERE id = ?');
-  const setClosed = ledger.database.prepare('UPDATE qc_flags SET open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE id = ?');
+  const setClosed = ledger.database.prepare(
+    'UPDATE qc_flags SET open = 0, recovered_at = COALESCE(recovered_at, ?) WHERE id = ?',
+  );
   const closed: string[] = [];
   const opened: string[] = [];
   for (const key of keys) {
@@ -53,7 +76,9 @@ export function reconcileOpenFlags(ledger: Ledger, keys: readonly string[], nowI
     let isOpen = false;
     for (const row of rows) {
       const position = { acquiredAtMs: parseIsoToEpochMs(row.acquired_at) ?? 0, setId: row.set_id };
-      const open = keyState?.open === true && (keyState.lastSettled === undefined || compareAcquisition(position, keyState.lastSettled) > 0);
+      const open =
+        keyState?.open === true &&
+        (keyState.lastSettled === undefined || compareAcquisition(position, keyState.lastSettled) > 0);
       isOpen ||= open;
       if (open && row.open !== 1) setOpen.run(row.id);
       if (!open && row.open === 1) setClosed.run(nowIso, row.id);
@@ -65,12 +90,20 @@ export function reconcileOpenFlags(ledger: Ledger, keys: readonly string[], nowI
 }
 
 /** Closes open clock flags (control missing) of a control for local days up to the run's local day. */
-export function closeClockFlagsCoveredBy(ledger: Ledger, controlId: string, acquiredAtIso: string, timeZone: string, nowIso: string): string[] {
+export function closeClockFlagsCoveredBy(
+  ledger: Ledger,
+  controlId: string,
+  acquiredAtIso: string,
+  timeZone: string,
+  nowIso: string,
+): string[] {
   const runMs = parseIsoToEpochMs(acquiredAtIso);
   if (runMs === undefined) return [];
   const runDay = localParts(runMs, timeZone).date;
   const rows = ledger.database
-    .prepare("SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE set_id = '' AND open = 1 AND control_id = ?")
+    .prepare(
+      "SELECT id, set_id, flag_key, acquired_at, open FROM qc_flags WHERE set_id = '' AND open = 1 AND control_id = ?",
+    )
     .all(controlId) as OpenFlagRow[];
   const close = ledger.database.prepare('UPDATE qc_flags SET open = 0, recovered_at = ? WHERE id = ?');
   const keys: string[] = [];
@@ -88,7 +121,8 @@ export function flagSignaturesOfSets(ledger: Ledger, setIds: readonly string[]):
   const select = ledger.database.prepare('SELECT flag_key, check_name FROM qc_flags WHERE set_id = ?');
   const signatures = new Set<string>();
   for (const setId of setIds) {
-    for (const row of select.all(setId) as { flag_key: string; check_name: string }[]) signatures.add(`${setId}|${row.flag_key}|${row.check_name}`);
+    for (const row of select.all(setId) as { flag_key: string; check_name: string }[])
+      signatures.add(`${setId}|${row.flag_key}|${row.check_name}`);
   }
   return signatures;
 }

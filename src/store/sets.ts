@@ -25,18 +25,40 @@ export interface SetRecord {
 }
 
 interface SetRow {
-  id: string; sample_id: string; role: string; source: SetSource; state: SetState; created_at: string;
-  deadline_at: string; queued_at: string | null; done_at: string | null; manifest_json: string | null;
-  job_id: string | null; result_path: string | null; partial: number | null; error_code: string | null;
+  id: string;
+  sample_id: string;
+  role: string;
+  source: SetSource;
+  state: SetState;
+  created_at: string;
+  deadline_at: string;
+  queued_at: string | null;
+  done_at: string | null;
+  manifest_json: string | null;
+  job_id: string | null;
+  result_path: string | null;
+  partial: number | null;
+  error_code: string | null;
   error_message: string | null;
 }
 
 function toRecord(row: SetRow): SetRecord {
   return {
-    id: row.id, sampleId: row.sample_id, role: row.role, source: row.source, state: row.state,
-    createdAt: row.created_at, deadlineAt: row.deadline_at, queuedAt: row.queued_at, doneAt: row.done_at,
-    manifestJson: row.manifest_json, jobId: row.job_id, resultPath: row.result_path,
-    partial: row.partial === null ? null : row.partial === 1, errorCode: row.error_code, errorMessage: row.error_message,
+    id: row.id,
+    sampleId: row.sample_id,
+    role: row.role,
+    source: row.source,
+    state: row.state,
+    createdAt: row.created_at,
+    deadlineAt: row.deadline_at,
+    queuedAt: row.queued_at,
+    doneAt: row.done_at,
+    manifestJson: row.manifest_json,
+    jobId: row.job_id,
+    resultPath: row.result_path,
+    partial: row.partial === null ? null : row.partial === 1,
+    errorCode: row.error_code,
+    errorMessage: row.error_message,
   };
 }
 
@@ -53,9 +75,19 @@ export interface NewSet {
 /** Inserts an open set. */
 export function insertSet(ledger: Ledger, set: NewSet): void {
   ledger
-    .prepare(`INSERT INTO sets (id, sample_id, role, source, state, created_at, deadline_at, manifest_json)
-              VALUES (?, ?, ?, ?, 'open', ?, ?, ?)`)
-    .run(set.id, set.sampleId, set.role, set.source, set.createdAt.toISOString(), set.deadlineAt.toISOString(), set.manifestJson ?? null);
+    .prepare(
+      `INSERT INTO sets (id, sample_id, role, source, state, created_at, deadline_at, manifest_json)
+              VALUES (?, ?, ?, ?, 'open', ?, ?, ?)`,
+    )
+    .run(
+      set.id,
+      set.sampleId,
+      set.role,
+      set.source,
+      set.createdAt.toISOString(),
+      set.deadlineAt.toISOString(),
+      set.manifestJson ?? null,
+    );
 }
 
 /** The set with this id, if any. */
@@ -66,19 +98,25 @@ export function getSet(ledger: Ledger, id: string): SetRecord | undefined {
 
 /** Sets in `state`, oldest first. */
 export function setsInState(ledger: Ledger, state: SetState): SetRecord[] {
-  return (ledger.prepare('SELECT * FROM sets WHERE state = ? ORDER BY created_at, id').all(state) as SetRow[]).map(toRecord);
+  return (ledger.prepare('SELECT * FROM sets WHERE state = ? ORDER BY created_at, id').all(state) as SetRow[]).map(
+    toRecord,
+  );
 }
 
 /** Ids of the sets in state `queued`, oldest first (re-enqueued at start-up). */
 export function queuedSetIds(ledger: Ledger): string[] {
-  return (ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[]).map((row) => row.id);
+  return (
+    ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[]
+  ).map((row) => row.id);
 }
 
 /** Finished sets created at or after `since`, oldest first (for reprocess). */
 export function finishedSetsSince(ledger: Ledger, since: Date): SetRecord[] {
-  return (ledger
-    .prepare(`SELECT * FROM sets WHERE state IN ('done','failed') AND created_at >= ? ORDER BY created_at, id`)
-    .all(since.toISOString()) as SetRow[]).map(toRecord);
+  return (
+    ledger
+      .prepare(`SELECT * FROM sets WHERE state IN ('done','failed') AND created_at >= ? ORDER BY created_at, id`)
+      .all(since.toISOString()) as SetRow[]
+  ).map(toRecord);
 }
 
 /** Deletes an open set left without files (its files were claimed by a manifest). */
@@ -88,13 +126,17 @@ export function deleteOpenSet(ledger: Ledger, id: string): void {
 
 /** Marks a set queued under `jobId`. */
 export function markSetQueued(ledger: Ledger, id: string, jobId: string, now: Date): void {
-  ledger.prepare(`UPDATE sets SET state = 'queued', job_id = ?, queued_at = ? WHERE id = ?`).run(jobId, now.toISOString(), id);
+  ledger
+    .prepare(`UPDATE sets SET state = 'queued', job_id = ?, queued_at = ? WHERE id = ?`)
+    .run(jobId, now.toISOString(), id);
 }
 
 /** Marks a set done with its result path. */
 export function markSetDone(ledger: Ledger, id: string, resultPath: string, partial: boolean, now: Date): void {
   ledger
-    .prepare(`UPDATE sets SET state = 'done', result_path = ?, partial = ?, done_at = ?, error_code = NULL, error_message = NULL WHERE id = ?`)
+    .prepare(
+      `UPDATE sets SET state = 'done', result_path = ?, partial = ?, done_at = ?, error_code = NULL, error_message = NULL WHERE id = ?`,
+    )
     .run(resultPath, partial ? 1 : 0, now.toISOString(), id);
 }
 
@@ -118,8 +160,15 @@ export const REFERENCE_SETS_MEASURED_SQL = `SELECT DISTINCT f.set_id AS id FROM 
  * measured within [fromIso, toIso] (canonical UTC ISO): a backlog holding more reference sets than
  * recentReferenceSetIds returns still finds the ones measured near a sample. O(files in the window).
  */
-export function referenceSetIdsMeasuredBetween(ledger: Ledger, excludeSetId: string, fromIso: string, toIso: string): string[] {
-  return (ledger.prepare(REFERENCE_SETS_MEASURED_SQL).all(fromIso, toIso, excludeSetId) as { id: string }[]).map((row) => row.id);
+export function referenceSetIdsMeasuredBetween(
+  ledger: Ledger,
+  excludeSetId: string,
+  fromIso: string,
+  toIso: string,
+): string[] {
+  return (ledger.prepare(REFERENCE_SETS_MEASURED_SQL).all(fromIso, toIso, excludeSetId) as { id: string }[]).map(
+    (row) => row.id,
+  );
 }
 
 /** Ids of the newest `limit` reference-standard sets queued or done, other than `excludeSetId`. */
@@ -158,7 +207,12 @@ export function doneSampleSetIdsMeasuredBetween(ledger: Ledger, fromIso: string,
 
 /** The parts a set borrowed. */
 export function pairingsOfSet(ledger: Ledger, setId: string): PairingRecord[] {
-  return (ledger.prepare('SELECT set_id, part, file_id, from_set_id FROM set_pairings WHERE set_id = ?').all(setId) as {
-    set_id: string; part: string; file_id: number; from_set_id: string | null;
-  }[]).map((r) => ({ setId: r.set_id, part: r.part, fileId: r.file_id, fromSetId: r.from_set_id }));
+  return (
+    ledger.prepare('SELECT set_id, part, file_id, from_set_id FROM set_pairings WHERE set_id = ?').all(setId) as {
+      set_id: string;
+      part: string;
+      file_id: number;
+      from_set_id: string | null;
+    }[]
+  ).map((r) => ({ setId: r.set_id, part: r.part, fileId: r.file_id, fromSetId: r.from_set_id }));
 }

@@ -8,29 +8,77 @@ export interface LedgerStatus {
   readonly sets: Readonly<Record<SetState, number>>;
   readonly results: number;
   /** The oldest set not yet finished, if any. */
-  readonly oldestWaiting?: { readonly setId: string; readonly sampleId: string; readonly state: SetState; readonly createdAt: string };
+  readonly oldestWaiting?: {
+    readonly setId: string;
+    readonly sampleId: string;
+    readonly state: SetState;
+    readonly createdAt: string;
+  };
   /** The most recent rejections and failures, newest first. */
-  readonly lastErrors: readonly { readonly name: string; readonly state: string; readonly code: string; readonly message: string; readonly at: string }[];
+  readonly lastErrors: readonly {
+    readonly name: string;
+    readonly state: string;
+    readonly code: string;
+    readonly message: string;
+    readonly at: string;
+  }[];
 }
 
 /** Counts by state, the oldest waiting set and the last `errorLimit` errors. */
 export function ledgerStatus(ledger: Ledger, errorLimit = 5): LedgerStatus {
   const db = ledger.database;
   const files = Object.fromEntries(FILE_STATES.map((s) => [s, 0])) as Record<FileState, number>;
-  for (const row of db.prepare('SELECT state, COUNT(*) AS n FROM files GROUP BY state').all() as { state: FileState; n: number }[]) files[row.state] = row.n;
+  for (const row of db.prepare('SELECT state, COUNT(*) AS n FROM files GROUP BY state').all() as {
+    state: FileState;
+    n: number;
+  }[])
+    files[row.state] = row.n;
   const sets = Object.fromEntries(SET_STATES.map((s) => [s, 0])) as Record<SetState, number>;
-  for (const row of db.prepare('SELECT state, COUNT(*) AS n FROM sets GROUP BY state').all() as { state: SetState; n: number }[]) sets[row.state] = row.n;
+  for (const row of db.prepare('SELECT state, COUNT(*) AS n FROM sets GROUP BY state').all() as {
+    state: SetState;
+    n: number;
+  }[])
+    sets[row.state] = row.n;
   const results = (db.prepare('SELECT COUNT(*) AS n FROM results').get() as { n: number }).n;
   const oldest = db
-    .prepare(`SELECT id, sample_id, state, created_at FROM sets WHERE state IN ('open','queued') ORDER BY created_at, id LIMIT 1`)
+    .prepare(
+      `SELECT id, sample_id, state, created_at FROM sets WHERE state IN ('open','queued') ORDER BY created_at, id LIMIT 1`,
+    )
     .get() as { id: string; sample_id: string; state: SetState; created_at: string } | undefined;
-  const lastErrors = (db
-    .prepare(`SELECT name, state, error_code, error_message, updated_at FROM files WHERE state IN ('rejected','failed')
-              ORDER BY updated_at DESC, id DESC LIMIT ?`)
-    .all(errorLimit) as { name: string; state: string; error_code: string | null; error_message: string | null; updated_at: string }[])
-    .map((r) => ({ name: r.name, state: r.state, code: r.error_code ?? '', message: r.error_message ?? '', at: r.updated_at }));
+  const lastErrors = (
+    db
+      .prepare(
+        `SELECT name, state, error_code, error_message, updated_at FROM files WHERE state IN ('rejected','failed')
+              ORDER BY updated_at DESC, id DESC LIMIT ?`,
+      )
+      .all(errorLimit) as {
+      name: string;
+      state: string;
+      error_code: string | null;
+      error_message: string | null;
+      updated_at: string;
+    }[]
+  ).map((r) => ({
+    name: r.name,
+    state: r.state,
+    code: r.error_code ?? '',
+    message: r.error_message ?? '',
+    at: r.updated_at,
+  }));
   return {
-    files, sets, results, lastErrors,
-    ...(oldest === undefined ? {} : { oldestWaiting: { setId: oldest.id, sampleId: oldest.sample_id, state: oldest.state, createdAt: oldest.created_at } }),
+    files,
+    sets,
+    results,
+    lastErrors,
+    ...(oldest === undefined
+      ? {}
+      : {
+          oldestWaiting: {
+            setId: oldest.id,
+            sampleId: oldest.sample_id,
+            state: oldest.state,
+            createdAt: oldest.created_at,
+          },
+        }),
   };
 }

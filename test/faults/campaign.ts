@@ -10,13 +10,32 @@
 // inbox or the ledger unfinished (stuck 0), every link must be quarantined and its target left alone.
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import Database from 'better-sqlite3';
-import { appendFileSync, closeSync, existsSync, mkdirSync, openSync, readFileSync, symlinkSync, writeFileSync, writeSync } from 'node:fs';
+import {
+  appendFileSync,
+  closeSync,
+  existsSync,
+  mkdirSync,
+  openSync,
+  readFileSync,
+  symlinkSync,
+  writeFileSync,
+  writeSync,
+} from 'node:fs';
 import { createHash } from 'node:crypto';
 import { join } from 'node:path';
 import { createSeededRandom } from '../../src/decay/index.js';
 import { blockFolder, unblockFolder } from '../helpers/blocked-folder.js';
 import { CLI_PATH } from '../helpers/cli.js';
-import { generateSet, listFiles, makeWorkspace, readResults, startWatch, stopWatch, waitFor, type GeneratedSet } from '../integration/pipeline-helpers.js';
+import {
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  startWatch,
+  stopWatch,
+  waitFor,
+  type GeneratedSet,
+} from '../integration/pipeline-helpers.js';
 
 export interface CampaignOptions {
   readonly sets: number;
@@ -72,8 +91,15 @@ const sha256 = (text: string): string => createHash('sha256').update(text).diges
 const STABILITY_WINDOW_MS = 400;
 
 function manifestText(set: GeneratedSet): string {
-  const part = (name: string): string => (name.includes('-e.') ? 'emission' : name.includes('-a.') ? 'absorbance' : 'decay');
-  return [`sampleId: ${set.sampleId}`, 'role: sample', 'files:', ...set.files.map((f) => `  - { file: ${f.name}, part: ${part(f.name)} }`), ''].join('\n');
+  const part = (name: string): string =>
+    name.includes('-e.') ? 'emission' : name.includes('-a.') ? 'absorbance' : 'decay';
+  return [
+    `sampleId: ${set.sampleId}`,
+    'role: sample',
+    'files:',
+    ...set.files.map((f) => `  - { file: ${f.name}, part: ${part(f.name)} }`),
+    '',
+  ].join('\n');
 }
 
 /**
@@ -88,10 +114,25 @@ export function diagnoseLost(dir: string, sampleIds: readonly string[]): string[
     const inbox = listFiles(join(dir, 'inbox'));
     const quarantine = listFiles(join(dir, 'quarantine'));
     return sampleIds.map((id) => {
-      const sets = db.prepare('SELECT id, state, error_code, result_path FROM sets WHERE sample_id = ?').all(id) as { id: string; state: string; error_code: string | null; result_path: string | null }[];
-      const files = db.prepare(`SELECT name, state, error_code FROM files WHERE sample_id = ? OR name LIKE ? ORDER BY id`).all(id, `${id}%`) as { name: string; state: string; error_code: string | null }[];
-      const setText = sets.map((s) => `${s.id} ${s.state}${s.error_code === null ? '' : ` ${s.error_code}`}${s.result_path === null ? '' : existsSync(s.result_path) ? ' result present' : ' RESULT FILE MISSING'}`).join('; ') || 'no set';
-      const fileText = files.map((f) => `${f.name} ${f.state}${f.error_code === null ? '' : ` ${f.error_code}`}`).join(', ') || 'no file recorded';
+      const sets = db.prepare('SELECT id, state, error_code, result_path FROM sets WHERE sample_id = ?').all(id) as {
+        id: string;
+        state: string;
+        error_code: string | null;
+        result_path: string | null;
+      }[];
+      const files = db
+        .prepare(`SELECT name, state, error_code FROM files WHERE sample_id = ? OR name LIKE ? ORDER BY id`)
+        .all(id, `${id}%`) as { name: string; state: string; error_code: string | null }[];
+      const setText =
+        sets
+          .map(
+            (s) =>
+              `${s.id} ${s.state}${s.error_code === null ? '' : ` ${s.error_code}`}${s.result_path === null ? '' : existsSync(s.result_path) ? ' result present' : ' RESULT FILE MISSING'}`,
+          )
+          .join('; ') || 'no set';
+      const fileText =
+        files.map((f) => `${f.name} ${f.state}${f.error_code === null ? '' : ` ${f.error_code}`}`).join(', ') ||
+        'no file recorded';
       const left = inbox.filter((p) => p.includes(id));
       const held = quarantine.filter((p) => p.includes(id) && !p.endsWith('.error.json'));
       return `${id}: sets [${setText}]; files [${fileText}]; inbox [${left.join(', ')}]; quarantine [${held.join(', ')}]`;
@@ -102,7 +143,9 @@ export function diagnoseLost(dir: string, sampleIds: readonly string[]): string[
 }
 
 /** Runs the campaign in a fresh workspace and returns its row, what became of each lost set, and the workspace (for inspection). */
-export async function runCampaign(options: CampaignOptions): Promise<{ row: CampaignRow; lostDetail: string[]; staleDetail: string[]; dir: string }> {
+export async function runCampaign(
+  options: CampaignOptions,
+): Promise<{ row: CampaignRow; lostDetail: string[]; staleDetail: string[]; dir: string }> {
   const startedAt = Date.now();
   const dir = makeWorkspace('', { stabilityWindowMs: STABILITY_WINDOW_MS, setTimeoutMs: 600_000 });
   const inbox = join(dir, 'inbox');
@@ -115,15 +158,26 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     const roll = i % 5;
     // One in five by manifest (alternately before and after its files), one in five slow, one in
     // ten with a paused writer, one in ten rewritten.
-    const planned = (set: GeneratedSet, kind: PlannedSet['kind']): PlannedSet => ({ set, kind, finalContent: new Map(set.files.map((f) => [f.name, f.content])) });
-    if (roll === 1) return planned(generateSet(id, 5000 + i, { nameStyle: 'opaque' }), i % 10 === 1 ? 'manifest-first' : 'manifest-last');
+    const planned = (set: GeneratedSet, kind: PlannedSet['kind']): PlannedSet => ({
+      set,
+      kind,
+      finalContent: new Map(set.files.map((f) => [f.name, f.content])),
+    });
+    if (roll === 1)
+      return planned(
+        generateSet(id, 5000 + i, { nameStyle: 'opaque' }),
+        i % 10 === 1 ? 'manifest-first' : 'manifest-last',
+      );
     if (roll === 3) return planned(generateSet(id, 5000 + i), 'slow');
     if (roll === 4) {
       const p = planned(generateSet(id, 5000 + i), i % 10 === 4 ? 'paused' : 'rewritten');
       if (p.kind === 'rewritten') {
         // Same sample and acquisition time, new bytes: a re-export, i.e. a new version of the file.
         const decayName = p.set.files.find((f) => f.name.includes('decay'))?.name ?? '';
-        p.finalContent.set(decayName, generateSet(id, 105_000 + i).files.find((f) => f.name === decayName)?.content ?? '');
+        p.finalContent.set(
+          decayName,
+          generateSet(id, 105_000 + i).files.find((f) => f.name === decayName)?.content ?? '',
+        );
       }
       return p;
     }
@@ -170,7 +224,15 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
         const isDecay = f.name.includes('decay');
         if (kind === 'slow') slowWrites.push(writeSlowly(join(inbox, f.name), f.content));
         else if (kind === 'paused' && isDecay) slowWrites.push(writePaused(join(inbox, f.name), f.content));
-        else if (kind === 'rewritten' && isDecay) slowWrites.push(writeTwice(join(inbox, f.name), f.content, finalContent.get(f.name) ?? '', 1500 + Math.floor(random.nextUniform() * 1500)));
+        else if (kind === 'rewritten' && isDecay)
+          slowWrites.push(
+            writeTwice(
+              join(inbox, f.name),
+              f.content,
+              finalContent.get(f.name) ?? '',
+              1500 + Math.floor(random.nextUniform() * 1500),
+            ),
+          );
         else writeFileSync(join(inbox, f.name), f.content);
       }
       if (kind === 'manifest-last') writeFileSync(join(inbox, `${set.sampleId}.set.yaml`), manifestText(set));
@@ -188,7 +250,10 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   };
 
   // Fault schedule: kills and outages at seeded moments while the sets arrive.
-  const faults: ('kill' | 'outage')[] = [...Array<'kill'>(options.kills).fill('kill'), ...Array<'outage'>(options.outages).fill('outage')];
+  const faults: ('kill' | 'outage')[] = [
+    ...Array<'kill'>(options.kills).fill('kill'),
+    ...Array<'outage'>(options.outages).fill('outage'),
+  ];
   for (let i = faults.length - 1; i > 0; i--) {
     const j = Math.floor(random.nextUniform() * (i + 1));
     [faults[i], faults[j]] = [faults[j] as 'kill' | 'outage', faults[i] as 'kill' | 'outage'];
@@ -203,14 +268,19 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     const run = { killed: false, code: null as number | null, stderr: '' };
     runs.push(run);
     const proc = startWatch(dir);
-    proc.stderr?.on('data', (chunk: Buffer) => { run.stderr += chunk.toString(); });
+    proc.stderr?.on('data', (chunk: Buffer) => {
+      run.stderr += chunk.toString();
+    });
     proc.stdout?.resume();
-    proc.once('exit', (code) => { run.code = code; });
+    proc.once('exit', (code) => {
+      run.code = code;
+    });
     runOf.set(proc, run);
     return proc;
   };
   const logPath = join(dir, 'state', 'driftlight.log');
-  const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
+  const watchingLines = (): number =>
+    existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0;
   /** Writes sets every 100 ms for `ms`. */
   const arriveFor = async (ms: number): Promise<void> => {
     const started = Date.now();
@@ -226,7 +296,12 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     // arrive, and the wait counts, from the moment the run reported it is watching (what a killed
     // run left unfinished is the restart's backlog).
     const target = readyCount;
-    await waitFor('the restarted watch to report it is watching', () => watchingLines() >= target || child.exitCode !== null, 120_000, 50);
+    await waitFor(
+      'the restarted watch to report it is watching',
+      () => watchingLines() >= target || child.exitCode !== null,
+      120_000,
+      50,
+    );
     await arriveFor(waits[index] ?? 0);
     if (fault === 'kill') {
       const run = runOf.get(child);
@@ -253,11 +328,16 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   await sleep(1000);
   await stopWatch(child);
   // Every own input of a result must be the final bytes of its file.
-  const finalSha = new Map(planned.flatMap((p) => [...p.finalContent.entries()].map(([name, content]) => [name, sha256(content)] as const)));
-  const staleCount = (results: ReturnType<typeof readResults>): number => results.filter((r) => {
-    const inputs = (r.result['provenance'] as { inputs: { file: string; sha256: string; origin: string }[] }).inputs.filter((i) => i.origin === 'own');
-    return inputs.some((i) => finalSha.has(i.file) && finalSha.get(i.file) !== i.sha256);
-  }).length;
+  const finalSha = new Map(
+    planned.flatMap((p) => [...p.finalContent.entries()].map(([name, content]) => [name, sha256(content)] as const)),
+  );
+  const staleCount = (results: ReturnType<typeof readResults>): number =>
+    results.filter((r) => {
+      const inputs = (
+        r.result['provenance'] as { inputs: { file: string; sha256: string; origin: string }[] }
+      ).inputs.filter((i) => i.origin === 'own');
+      return inputs.some((i) => finalSha.has(i.file) && finalSha.get(i.file) !== i.sha256);
+    }).length;
   const before = watchingLines();
   const final = startRun();
   const expectedIds = new Set(planned.map((p) => p.set.sampleId));
@@ -266,11 +346,18 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
     // A running watch looks at archived copies again after archiveRecheckMs (>= 5 s): a writer that
     // kept writing into a moved file is taken as a new version only then, so wait for that too and
     // count as stale only what is still stale when the wait ends.
-    await waitFor('every set to have a result from its final bytes and the inbox to be empty', () => {
-      const results = readResults(dir);
-      const have = new Set(results.map((r) => r.result.sampleId));
-      return [...expectedIds].every((id) => have.has(id)) && listFiles(inbox).length === 0 && staleCount(results) === 0;
-    }, options.drainTimeoutMs, 250).catch(() => undefined);
+    await waitFor(
+      'every set to have a result from its final bytes and the inbox to be empty',
+      () => {
+        const results = readResults(dir);
+        const have = new Set(results.map((r) => r.result.sampleId));
+        return (
+          [...expectedIds].every((id) => have.has(id)) && listFiles(inbox).length === 0 && staleCount(results) === 0
+        );
+      },
+      options.drainTimeoutMs,
+      250,
+    ).catch(() => undefined);
     await sleep(500);
   } finally {
     await stopWatch(final);
@@ -281,11 +368,18 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   const lostIds = [...expectedIds].filter((id) => !bySample.has(id));
   const stale = staleCount(found);
   const kindOf = new Map(planned.map((p) => [p.set.sampleId, p.kind] as const));
-  const staleDetail = found.filter((r) => staleCount([r]) > 0).map((r) => `${r.result.sampleId} (${kindOf.get(r.result.sampleId) ?? 'unknown'})`);
+  const staleDetail = found
+    .filter((r) => staleCount([r]) > 0)
+    .map((r) => `${r.result.sampleId} (${kindOf.get(r.result.sampleId) ?? 'unknown'})`);
   const lost = lostIds.length;
   // Extra results for a set, and results under a sample id no set has (invented ids).
-  const duplicated = [...bySample.entries()].reduce((n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count), 0);
-  const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], { encoding: 'utf8' });
+  const duplicated = [...bySample.entries()].reduce(
+    (n, [id, count]) => n + (expectedIds.has(id) ? count - 1 : count),
+    0,
+  );
+  const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], {
+    encoding: 'utf8',
+  });
   const parsed = JSON.parse(status.stdout) as { sets: Record<string, number> };
   const unfinished = (parsed.sets['open'] ?? 0) + (parsed.sets['queued'] ?? 0);
   const stuck = listFiles(inbox).length + unfinished;
@@ -297,23 +391,37 @@ export async function runCampaign(options: CampaignOptions): Promise<{ row: Camp
   // Runs that ended on their own, other than the clean stops (exit 0): a refused restart or a crash.
   const unexpectedExits = runs.filter((r) => !r.killed && r.code !== null && r.code !== 0);
   const row: CampaignRow = {
-    faultsInjected: faults.length, kills: options.kills, outages: options.outages,
+    faultsInjected: faults.length,
+    kills: options.kills,
+    outages: options.outages,
     sets: planned.length,
     manifestSets: planned.filter((p) => p.kind.startsWith('manifest')).length,
     slowWriterSets: planned.filter((p) => p.kind === 'slow').length,
     pausedWriterSets: planned.filter((p) => p.kind === 'paused').length,
     rewrittenSets: planned.filter((p) => p.kind === 'rewritten').length,
     symlinks: links.length,
-    results: found.length, lost, duplicated, stuck, stale, linksFollowed, unexpectedExits: unexpectedExits.length,
+    results: found.length,
+    lost,
+    duplicated,
+    stuck,
+    stale,
+    linksFollowed,
+    unexpectedExits: unexpectedExits.length,
     seconds: Math.round((Date.now() - startedAt) / 1000),
   };
   writeFileSync(join(dir, 'campaign-runs.json'), JSON.stringify(runs, null, 1));
-  const exitDetail = unexpectedExits.map((r) => `watch exited with ${String(r.code)}: ${r.stderr.trim().split('\n').slice(0, 3).join(' | ')}`);
+  const exitDetail = unexpectedExits.map(
+    (r) => `watch exited with ${String(r.code)}: ${r.stderr.trim().split('\n').slice(0, 3).join(' | ')}`,
+  );
   return { row, lostDetail: [...diagnoseLost(dir, lostIds), ...exitDetail], staleDetail, dir };
 }
 
 /** The row as a Markdown table (header + one line). */
 export function campaignTable(row: CampaignRow): string {
   const keys = Object.keys(row) as (keyof CampaignRow)[];
-  return [`| ${keys.join(' | ')} |`, `| ${keys.map(() => '---').join(' | ')} |`, `| ${keys.map((k) => String(row[k])).join(' | ')} |`].join('\n');
+  return [
+    `| ${keys.join(' | ')} |`,
+    `| ${keys.map(() => '---').join(' | ')} |`,
+    `| ${keys.map((k) => String(row[k])).join(' | ')} |`,
+  ].join('\n');
 }

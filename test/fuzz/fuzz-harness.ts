@@ -14,7 +14,9 @@ export const FUZZ_SEED = Number(process.env['DRIFTLIGHT_FUZZ_SEED'] ?? 2026_12_0
 export const CASE_LIMIT_MS = 1000;
 
 /** Characters that matter to the readers (separators, signs, exponents, JCAMP and YAML markers). */
-export const SYNTAX_BYTES = fc.constantFrom(...'0123456789.,;:\t -+eE#\n\r{}[]"\'=$@%JjSs?()/\\*|&!~'.split('').map((char) => char.charCodeAt(0)));
+export const SYNTAX_BYTES = fc.constantFrom(
+  ...'0123456789.,;:\t -+eE#\n\r{}[]"\'=$@%JjSs?()/\\*|&!~'.split('').map((char) => char.charCodeAt(0)),
+);
 
 export interface ByteEdit {
   readonly at: number;
@@ -24,18 +26,33 @@ export interface ByteEdit {
 
 /** Byte edits (set, insert, delete) at random places, and an optional cut of the end. */
 export const byteMutation = fc.record({
-  edits: fc.array(fc.record({ at: fc.nat(), byte: fc.oneof(SYNTAX_BYTES, fc.integer({ min: 0, max: 255 })), kind: fc.constantFrom<ByteEdit['kind']>('set', 'insert', 'delete') }), { minLength: 1, maxLength: 12 }),
+  edits: fc.array(
+    fc.record({
+      at: fc.nat(),
+      byte: fc.oneof(SYNTAX_BYTES, fc.integer({ min: 0, max: 255 })),
+      kind: fc.constantFrom<ByteEdit['kind']>('set', 'insert', 'delete'),
+    }),
+    { minLength: 1, maxLength: 12 },
+  ),
   cut: fc.option(fc.nat(), { nil: undefined }),
 });
 
 /** Line edits: delete, duplicate, swap with another line, or replace by a generated line. */
 export const lineMutation = fc.array(
-  fc.record({ at: fc.nat(), other: fc.nat(), kind: fc.constantFrom('delete', 'duplicate', 'swap', 'replace'), text: fc.string({ maxLength: 40 }) }),
+  fc.record({
+    at: fc.nat(),
+    other: fc.nat(),
+    kind: fc.constantFrom('delete', 'duplicate', 'swap', 'replace'),
+    text: fc.string({ maxLength: 40 }),
+  }),
   { minLength: 1, maxLength: 6 },
 );
 
 /** `content` with the byte edits applied (then cut), as bytes. */
-export function applyByteMutation(content: Uint8Array, mutation: { edits: readonly ByteEdit[]; cut: number | undefined }): Uint8Array {
+export function applyByteMutation(
+  content: Uint8Array,
+  mutation: { edits: readonly ByteEdit[]; cut: number | undefined },
+): Uint8Array {
   const out = Array.from(content);
   for (const edit of mutation.edits) {
     const at = out.length === 0 ? 0 : edit.at % out.length;
@@ -47,7 +64,10 @@ export function applyByteMutation(content: Uint8Array, mutation: { edits: readon
 }
 
 /** `text` with the line edits applied. */
-export function applyLineMutation(text: string, edits: readonly { at: number; other: number; kind: string; text: string }[]): string {
+export function applyLineMutation(
+  text: string,
+  edits: readonly { at: number; other: number; kind: string; text: string }[],
+): string {
   const lines = text.split('\n');
   for (const edit of edits) {
     if (lines.length === 0) break;
@@ -68,7 +88,11 @@ export const slowest = new Map<string, number>();
  * Runs one case: `work` must return, or throw a DriftlightError of an `expected` class whose code is in the
  * error-code table, within CASE_LIMIT_MS. Returns what happened ('result' or the code).
  */
-export function expectTypedOutcome(target: string, expected: readonly (abstract new (...args: never[]) => DriftlightError)[], work: () => unknown): string {
+export function expectTypedOutcome(
+  target: string,
+  expected: readonly (abstract new (...args: never[]) => DriftlightError)[],
+  work: () => unknown,
+): string {
   const started = performance.now();
   let outcome = 'result';
   try {

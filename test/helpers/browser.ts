@@ -24,7 +24,16 @@ export async function openInChromium(url: string): Promise<OpenedPage> {
     executablePath: CHROMIUM_PATH,
     headless: true,
     viewport: { width: 1200, height: 900 },
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
   });
   const page = await context.newPage();
   const consoleErrors: string[] = [];
@@ -36,7 +45,9 @@ export async function openInChromium(url: string): Promise<OpenedPage> {
   page.on('request', (request) => requests.push(request.url()));
   await page.goto(url, { waitUntil: 'load' });
   return {
-    page, consoleErrors, requests,
+    page,
+    consoleErrors,
+    requests,
     async screenshot(name: string): Promise<string> {
       mkdirSync(ARTIFACTS_DIR, { recursive: true });
       const path = join(ARTIFACTS_DIR, name);
@@ -49,9 +60,11 @@ export async function openInChromium(url: string): Promise<OpenedPage> {
 
 /** Per chart figure on the page: its id and how many drawn data marks (symbol, line and rule paths) its SVG holds. */
 export async function chartMarks(page: Page): Promise<{ id: string; points: number; lines: number }[]> {
-  return page.$$eval('figure.chart', (figures) => figures.map((figure) => ({
-    id: figure.getAttribute('data-chart') ?? '',
-    points: figure.querySelectorAll('svg g.mark-symbol path').length,
-    lines: figure.querySelectorAll('svg g.mark-line path').length,
-  })));
+  return page.$$eval('figure.chart', (figures) =>
+    figures.map((figure) => ({
+      id: figure.getAttribute('data-chart') ?? '',
+      points: figure.querySelectorAll('svg g.mark-symbol path').length,
+      lines: figure.querySelectorAll('svg g.mark-line path').length,
+    })),
+  );
 }

@@ -18,12 +18,20 @@ export function faceWorkspace(history: Partial<HistoryOptions> = {}): { dir: str
   const config = join(dir, 'driftlight.yaml');
   // The example day holds one malformed export on purpose, so `process` exits 3 (rejected input).
   const run = runDriftlight(['process', join(dir, 'inbox'), '--config', config]);
-  if (run.status !== 0 && run.status !== 3 && run.status !== 4) throw new Error(`process failed (${String(run.status)}): ${run.stderr}`);
+  if (run.status !== 0 && run.status !== 3 && run.status !== 4)
+    throw new Error(`process failed (${String(run.status)}): ${run.stderr}`);
   writeFileSync(join(dir, 'teal-rules.yaml'), TEAL_RULES_YAML);
   appendFileSync(config, 'rules: { file: teal-rules.yaml }\n');
   const ledger = openLedger(join(dir, 'state'));
   try {
-    seedQcHistory(ledger, tealRuleSet(), { days: 30, endDay: '2026-12-05', shiftFromDay: 24, shiftSd: 2.5, rebaselineDay: 15, ...history });
+    seedQcHistory(ledger, tealRuleSet(), {
+      days: 30,
+      endDay: '2026-12-05',
+      shiftFromDay: 24,
+      shiftSd: 2.5,
+      rebaselineDay: 15,
+      ...history,
+    });
   } finally {
     ledger.close();
   }

@@ -10,7 +10,12 @@ export const REDIS_URL = process.env['REDIS_URL'] ?? 'redis://127.0.0.1:6379';
 const IN_CI = process.env['CI'] === 'true';
 
 async function probeRedis(url: string): Promise<string | undefined> {
-  const client = new Redis(url, { lazyConnect: true, maxRetriesPerRequest: 0, retryStrategy: () => null, connectTimeout: 1_000 });
+  const client = new Redis(url, {
+    lazyConnect: true,
+    maxRetriesPerRequest: 0,
+    retryStrategy: () => null,
+    connectTimeout: 1_000,
+  });
   let lastError: string | undefined;
   client.on('error', (error: Error) => {
     lastError = error.message; // more telling than connect()'s "Connection is closed."
@@ -28,7 +33,9 @@ async function probeRedis(url: string): Promise<string | undefined> {
 
 const unreachableReason = await probeRedis(REDIS_URL);
 if (unreachableReason !== undefined && !IN_CI) {
-  console.log(`[redis] ${REDIS_URL} unreachable (${unreachableReason}): Redis tests skipped; start redis-server or set REDIS_URL`);
+  console.log(
+    `[redis] ${REDIS_URL} unreachable (${unreachableReason}): Redis tests skipped; start redis-server or set REDIS_URL`,
+  );
 }
 
 /** describe() for Redis suites: skipped when Redis is unreachable, failing under CI=true. */
@@ -36,7 +43,9 @@ export function describeRedis(name: string, body: () => void): void {
   describe.skipIf(unreachableReason !== undefined && !IN_CI)(name, () => {
     beforeAll(() => {
       if (unreachableReason !== undefined) {
-        throw new Error(`Redis at ${REDIS_URL} is unreachable (${unreachableReason}); CI=true requires it. Start redis-server or set REDIS_URL.`);
+        throw new Error(
+          `Redis at ${REDIS_URL} is unreachable (${unreachableReason}); CI=true requires it. Start redis-server or set REDIS_URL.`,
+        );
       }
     });
     body();

@@ -5,7 +5,12 @@ import { createHash } from 'node:crypto';
 import type { AnalysisJobPayload, AnalysisSettings, PayloadFile } from '../../src/analysis/payload.js';
 import type { SetPart } from '../../src/analysis/result.js';
 import { sampleStandardNormal, type UniformSource } from '../../src/decay/index.js';
-import { absorbanceSpectrum, decayHistogram, emissionIntegralUnattenuated, emissionSpectrum } from '../../src/demo/synthetic.js';
+import {
+  absorbanceSpectrum,
+  decayHistogram,
+  emissionIntegralUnattenuated,
+  emissionSpectrum,
+} from '../../src/demo/synthetic.js';
 import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../../src/formats/index.js';
 import { withValues, type MeasurementRole, type Spectrum } from '../../src/model/spectrum.js';
 
@@ -31,8 +36,22 @@ export interface YieldSetSpec {
 
 const sha = (text: string): string => createHash('sha256').update(text).digest('hex');
 
-function payloadFile(name: string, content: string, part: SetPart, role: MeasurementRole, origin: PayloadFile['origin'] = 'own'): PayloadFile {
-  return { name, sha256: sha(content), part, role, origin, content, ...(origin === 'paired' ? { pairedFromSetId: 'ref-set' } : {}) };
+function payloadFile(
+  name: string,
+  content: string,
+  part: SetPart,
+  role: MeasurementRole,
+  origin: PayloadFile['origin'] = 'own',
+): PayloadFile {
+  return {
+    name,
+    sha256: sha(content),
+    part,
+    role,
+    origin,
+    content,
+    ...(origin === 'paired' ? { pairedFromSetId: 'ref-set' } : {}),
+  };
 }
 
 /** Adds N(0, σ²) to every point of an absorbance file's values (a measured, not a true, absorbance). */
@@ -41,8 +60,14 @@ function withPhotometricNoise(values: Float64Array, sigma: number, random: Unifo
 }
 
 export const BASE_SETTINGS: AnalysisSettings = {
-  components: 1, estimator: 'ml', innerFilter: 'centred', maxAbsorbanceForYield: 0.1, refractiveIndex: {}, defaultRefractiveIndex: 1.333,
-  cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 }, maxFileBytes: 50_000_000,
+  components: 1,
+  estimator: 'ml',
+  innerFilter: 'centred',
+  maxAbsorbanceForYield: 0.1,
+  refractiveIndex: {},
+  defaultRefractiveIndex: 1.333,
+  cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 },
+  maxFileBytes: 50_000_000,
   reference: { standardId: 'rhodamine-6g-ethanol' },
 };
 
@@ -50,14 +75,48 @@ export const BASE_SETTINGS: AnalysisSettings = {
 export function yieldSet(spec: YieldSetSpec, random: UniformSource, setId = 'teal-test'): AnalysisJobPayload {
   const excitationNm = spec.excitationNm ?? 480;
   const sampleShape = spec.sampleBand ?? { peakNm: 511, widthNm: 55 };
-  const sampleBand = { bandPeakNm: sampleShape.peakNm, bandWidthNm: sampleShape.widthNm, excitationNm, absorbanceAtExcitation: spec.sampleAbsorbance };
+  const sampleBand = {
+    bandPeakNm: sampleShape.peakNm,
+    bandWidthNm: sampleShape.widthNm,
+    excitationNm,
+    absorbanceAtExcitation: spec.sampleAbsorbance,
+  };
   const refBandShape = spec.referenceBand ?? { peakNm: 528, widthNm: 60 };
-  const referenceBand = { bandPeakNm: refBandShape.peakNm, bandWidthNm: refBandShape.widthNm, excitationNm, absorbanceAtExcitation: spec.referenceAbsorbance };
+  const referenceBand = {
+    bandPeakNm: refBandShape.peakNm,
+    bandWidthNm: refBandShape.widthNm,
+    excitationNm,
+    absorbanceAtExcitation: spec.referenceAbsorbance,
+  };
   const [sFrom, sTo] = spec.sampleRangeNm ?? [excitationNm + 10, 745];
   const [rFrom, rTo] = spec.referenceRangeNm ?? [excitationNm + 10, 745];
   const meta = { excitationNm, solvent: 'ethanol' };
-  const sampleEm = emissionSpectrum({ peakNm: 536, widthNm: 42, integral: emissionIntegralUnattenuated(spec.sampleYield, spec.sampleAbsorbance, ETHANOL_N), fromNm: sFrom, toNm: sTo, innerFilter: sampleBand, noiseRelative: 0.003 }, { ...meta, sampleId: 'CTRL-teal', role: 'control' }, random);
-  const referenceEm = emissionSpectrum({ peakNm: 552, widthNm: 38, integral: emissionIntegralUnattenuated(R6G_YIELD, spec.referenceAbsorbance, ETHANOL_N), fromNm: rFrom, toNm: rTo, innerFilter: referenceBand, noiseRelative: 0.003 }, { ...meta, sampleId: 'REF-R6G', role: 'reference' }, random);
+  const sampleEm = emissionSpectrum(
+    {
+      peakNm: 536,
+      widthNm: 42,
+      integral: emissionIntegralUnattenuated(spec.sampleYield, spec.sampleAbsorbance, ETHANOL_N),
+      fromNm: sFrom,
+      toNm: sTo,
+      innerFilter: sampleBand,
+      noiseRelative: 0.003,
+    },
+    { ...meta, sampleId: 'CTRL-teal', role: 'control' },
+    random,
+  );
+  const referenceEm = emissionSpectrum(
+    {
+      peakNm: 552,
+      widthNm: 38,
+      integral: emissionIntegralUnattenuated(R6G_YIELD, spec.referenceAbsorbance, ETHANOL_N),
+      fromNm: rFrom,
+      toNm: rTo,
+      innerFilter: referenceBand,
+      noiseRelative: 0.003,
+    },
+    { ...meta, sampleId: 'REF-R6G', role: 'reference' },
+    random,
+  );
   const noise = spec.absorbanceNoise ?? 0.0005;
   const sampleAbs = absorbanceSpectrum(sampleBand, { sampleId: 'CTRL-teal', solvent: 'ethanol' }, random);
   const referenceAbs = absorbanceSpectrum(referenceBand, { sampleId: 'REF-R6G', solvent: 'ethanol' }, random);
@@ -66,15 +125,32 @@ export function yieldSet(spec: YieldSetSpec, random: UniformSource, setId = 'tea
     payloadFile('teal_em.csv', writeSpectrumCsv(sampleEm), 'emission', 'control'),
     payloadFile('teal_abs.jdx', writeSpectrumJcamp(noisyAbs(sampleAbs)), 'absorbance', 'absorbance'),
     payloadFile('r6g_em.csv', writeSpectrumCsv(referenceEm), 'reference-emission', 'reference', 'paired'),
-    payloadFile('r6g_abs.jdx', writeSpectrumJcamp(noisyAbs(referenceAbs)), 'reference-absorbance', 'reference', 'paired'),
+    payloadFile(
+      'r6g_abs.jdx',
+      writeSpectrumJcamp(noisyAbs(referenceAbs)),
+      'reference-absorbance',
+      'reference',
+      'paired',
+    ),
   ];
   if (spec.withDecay === true) {
-    const decay = decayHistogram({ tauNs: [4.1], photons: 200_000, channels: 512, channelWidthNs: 0.05 }, { sampleId: 'CTRL-teal', excitationNm }, random);
+    const decay = decayHistogram(
+      { tauNs: [4.1], photons: 200_000, channels: 512, channelWidthNs: 0.05 },
+      { sampleId: 'CTRL-teal', excitationNm },
+      random,
+    );
     files.push(payloadFile('teal_decay.csv', writeDecayCsv(decay), 'decay', 'control'));
   }
   return {
-    setId, role: 'control', sampleId: 'CTRL-teal', sampleInfo: {}, files, missingParts: [],
+    setId,
+    role: 'control',
+    sampleId: 'CTRL-teal',
+    sampleInfo: {},
+    files,
+    missingParts: [],
     settings: { ...BASE_SETTINGS, ...spec.settings },
-    analyzedAt: '2026-12-05T12:00:00.000Z', configHash: 'c'.repeat(64), softwareVersion: '0.1.0',
+    analyzedAt: '2026-12-05T12:00:00.000Z',
+    configHash: 'c'.repeat(64),
+    softwareVersion: '0.1.0',
   };
 }

@@ -28,18 +28,29 @@ describe('process: open QC flags and undelivered alerts', () => {
     // The control emission scaled by 0.7: Φ = 0.56 against the target 0.8 ± 0.03, a 1-3s rejection
     // (relative yield ∝ integrated emission, Brouwer, Pure Appl. Chem. 83, 2213, 2011; Westgard rules, common practice).
     const emission = join(inbox, 'run0314-a.csv');
-    writeFileSync(emission, readFileSync(emission, 'utf8').split('\n')
-      .map((line) => (/^\d+(\.\d+)?,[\d.]+$/.test(line) ? `${line.split(',')[0]},${(Number(line.split(',')[1]) * 0.7).toFixed(3)}` : line))
-      .join('\n'));
+    writeFileSync(
+      emission,
+      readFileSync(emission, 'utf8')
+        .split('\n')
+        .map((line) =>
+          /^\d+(\.\d+)?,[\d.]+$/.test(line)
+            ? `${line.split(',')[0]},${(Number(line.split(',')[1]) * 0.7).toFixed(3)}`
+            : line,
+        )
+        .join('\n'),
+    );
     const port = await closedPort();
     const config = join(folder, 'driftlight.yaml');
-    writeFileSync(config, [
-      `folders: { inbox: ${inbox} }`,
-      'references: [{ id: r6g, sampleIdPattern: "^REF-R6G", standardId: rhodamine-6g-ethanol }]',
-      'controls: [{ id: teal, sampleIdPattern: "^CTRL-teal", targetYield: 0.8, sdYield: 0.03 }]',
-      'logging: { stdout: "off" }',
-      `alerts: { channels: [{ id: hook, type: webhook, url: "http://127.0.0.1:${port}/qc", attempts: 2, backoffMs: 10, timeoutMs: 2000 }], routing: { info: [], warning: [hook], critical: [hook] } }`,
-    ].join('\n'));
+    writeFileSync(
+      config,
+      [
+        `folders: { inbox: ${inbox} }`,
+        'references: [{ id: r6g, sampleIdPattern: "^REF-R6G", standardId: rhodamine-6g-ethanol }]',
+        'controls: [{ id: teal, sampleIdPattern: "^CTRL-teal", targetYield: 0.8, sdYield: 0.03 }]',
+        'logging: { stdout: "off" }',
+        `alerts: { channels: [{ id: hook, type: webhook, url: "http://127.0.0.1:${port}/qc", attempts: 2, backoffMs: 10, timeoutMs: 2000 }], routing: { info: [], warning: [hook], critical: [hook] } }`,
+      ].join('\n'),
+    );
 
     const run = runDriftlight(['process', '--config', config, inbox]);
     // The demo day holds a deliberately bad file, so this run exits 3 (rejected inputs take precedence over 4).
@@ -50,7 +61,9 @@ describe('process: open QC flags and undelivered alerts', () => {
     const status = runDriftlight(['status', '--config', config]);
     expect(status.status).toBe(0);
     expect(status.stdout).toMatch(/alerts not delivered: [1-9]\d* still retried, 0 expired/);
-    expect(status.stdout).toMatch(/hook {2}yield-[^ ]+ \(critical\): pending, 2 attempt\(s\): fetch failed: .*ECONNREFUSED/);
+    expect(status.stdout).toMatch(
+      /hook {2}yield-[^ ]+ \(critical\): pending, 2 attempt\(s\): fetch failed: .*ECONNREFUSED/,
+    );
 
     // The receiver comes back; the next run (nothing new to process) delivers from the outbox.
     const bodies: string[] = [];
@@ -68,7 +81,9 @@ describe('process: open QC flags and undelivered alerts', () => {
       const { CLI_PATH } = await import('../helpers/cli.js');
       // Run asynchronously: the receiver lives in this process.
       const second = await new Promise<{ status: number | null; stdout: string }>((resolve) => {
-        const child = spawn(process.execPath, [CLI_PATH, 'process', '--config', config, inbox], { stdio: ['ignore', 'pipe', 'pipe'] });
+        const child = spawn(process.execPath, [CLI_PATH, 'process', '--config', config, inbox], {
+          stdio: ['ignore', 'pipe', 'pipe'],
+        });
         let stdout = '';
         child.stdout.on('data', (chunk: Buffer) => (stdout += chunk.toString()));
         child.on('close', (status) => resolve({ status, stdout }));

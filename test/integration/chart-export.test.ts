@@ -18,9 +18,14 @@ beforeAll(() => {
 
 function resultFiles(): { path: string; result: AnalysisResult }[] {
   const root = join(dir, 'results');
-  return readdirSync(root).flatMap((day) => readdirSync(join(root, day)).filter((n) => n.endsWith('.json')).map((name) => ({
-    path: `${day}/${name}`, result: JSON.parse(readFileSync(join(root, day, name), 'utf8')) as AnalysisResult,
-  })));
+  return readdirSync(root).flatMap((day) =>
+    readdirSync(join(root, day))
+      .filter((n) => n.endsWith('.json'))
+      .map((name) => ({
+        path: `${day}/${name}`,
+        result: JSON.parse(readFileSync(join(root, day, name), 'utf8')) as AnalysisResult,
+      })),
+  );
 }
 
 describe('driftlight chart', () => {
@@ -37,7 +42,9 @@ describe('driftlight chart', () => {
 
   it('writes an SVG and a self-contained HTML page; an unknown control is a usage error', () => {
     const svg = join(dir, 'teal.svg');
-    expect(runDriftlight(['chart', 'teal', '--metric', 'controlQuantumYield', '--out', svg, '-c', config]).status).toBe(0);
+    expect(runDriftlight(['chart', 'teal', '--metric', 'controlQuantumYield', '--out', svg, '-c', config]).status).toBe(
+      0,
+    );
     expect(readFileSync(svg, 'utf8')).toMatch(/^<svg[^>]*><title>Control chart: teal, control yield<\/title>/);
     const html = join(dir, 'teal.html');
     const run = runDriftlight(['chart', 'teal', '--days', '400', '--out', html, '-c', config]);
@@ -65,7 +72,9 @@ describe('driftlight export', () => {
       expect(row['result_path']).toBe(path);
       expect(row['sample_id']).toBe(result.sampleId);
       expect(row['quantum_yield']).toBe(result.quantumYield === undefined ? '' : String(result.quantumYield.value));
-      expect(row['tau_mean_intensity_ns']).toBe(result.decayFit === undefined ? '' : String(result.decayFit.tauMeanIntensityNs));
+      expect(row['tau_mean_intensity_ns']).toBe(
+        result.decayFit === undefined ? '' : String(result.decayFit.tauMeanIntensityNs),
+      );
       if (row['kr_per_s'] !== '') {
         withRates += 1;
         const phi = Number(row['quantum_yield']);

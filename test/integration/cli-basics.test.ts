@@ -16,7 +16,9 @@ describe('driftlight CLI basics', () => {
     const child = spawn(process.execPath, [CLI_PATH, 'config', 'docs'], { stdio: ['ignore', 'pipe', 'pipe'] });
     child.stdout.destroy();
     let stderr = '';
-    child.stderr.on('data', (chunk: Buffer) => { stderr += chunk.toString(); });
+    child.stderr.on('data', (chunk: Buffer) => {
+      stderr += chunk.toString();
+    });
     const code = await new Promise<number | null>((resolve) => child.once('exit', resolve));
     expect({ code, stderr }).toEqual({ code: 0, stderr: '' });
   });

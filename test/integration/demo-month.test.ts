@@ -20,10 +20,18 @@ import { CLI_PATH, REPO_ROOT } from '../helpers/cli.js';
 
 const truth = generateDemoMonth().truth;
 
-interface Run { status: number | null; stdout: string; stderr: string }
+interface Run {
+  status: number | null;
+  stdout: string;
+  stderr: string;
+}
 
 /** What the status page served by `demo --serve` answered before the demo was stopped with SIGINT. */
-interface Served { url: string; status: number; html: string }
+interface Served {
+  url: string;
+  status: number;
+  html: string;
+}
 
 /** Runs `demo --keep DIR --serve`; once it prints the status page's URL, fetches the page, then stops the demo with SIGINT (Ctrl-C). */
 function runDemo(dir: string, served: Served[]): Promise<Run> {
@@ -36,12 +44,16 @@ function runDemo(dir: string, served: Served[]): Promise<Run> {
       const url = /^status page: (http:\/\/127\.0\.0\.1:\d+\/)/m.exec(stdout)?.[1];
       if (url !== undefined && served.length === 0) {
         served.push({ url, status: 0, html: '' });
-        void fetch(url).then(async (response) => {
-          served[0] = { url, status: response.status, html: await response.text() };
-        }).finally(() => child.kill('SIGINT'));
+        void fetch(url)
+          .then(async (response) => {
+            served[0] = { url, status: response.status, html: await response.text() };
+          })
+          .finally(() => child.kill('SIGINT'));
       }
     });
-    child.stderr.on('data', (chunk: Buffer) => { stderr += chunk.toString(); });
+    child.stderr.on('data', (chunk: Buffer) => {
+      stderr += chunk.toString();
+    });
     const timer = setTimeout(() => child.kill('SIGKILL'), 170_000);
     child.on('close', (status) => {
       clearTimeout(timer);
@@ -57,7 +69,8 @@ describe('driftlight demo: a month with faults, caught', () => {
   let alerts: ReceivedAlert[];
   let results: AnalysisResult[];
   const served: Served[] = [];
-  const flagsOf = (predicate: (a: ReceivedAlert) => boolean) => alerts.filter((a) => a.payload['type'] === 'flag' && predicate(a));
+  const flagsOf = (predicate: (a: ReceivedAlert) => boolean) =>
+    alerts.filter((a) => a.payload['type'] === 'flag' && predicate(a));
 
   beforeAll(async () => {
     parent = mkdtempSync(join(tmpdir(), 'dl-demo-month-'));
@@ -93,17 +106,28 @@ describe('driftlight demo: a month with faults, caught', () => {
     for (const t of truth.twoColumnDecays) {
       const perColumn = results.filter((r) => r.provenance.inputs.some((i) => i.file === t.file));
       expect(perColumn.map((r) => r.measurement?.column).sort(), t.file).toEqual([...t.columns].sort());
-      for (const r of perColumn) expect(Math.abs((r.decayFit?.tauMeanIntensityNs ?? 0) / t.tauNs - 1), `${t.file} ${r.measurement?.column ?? ''}`).toBeLessThan(0.03);
+      for (const r of perColumn)
+        expect(
+          Math.abs((r.decayFit?.tauMeanIntensityNs ?? 0) / t.tauNs - 1),
+          `${t.file} ${r.measurement?.column ?? ''}`,
+        ).toBeLessThan(0.03);
     }
     // The in-control controls' lifetimes agree with the generator (single exponential, 300 000 counts).
     for (const c of truth.controls.filter((x) => x.day < 24)) {
-      const r = results.find((x) => x.sampleId === c.sampleId && Date.parse(x.acquiredAt ?? '') === Date.parse(c.acquiredAt));
+      const r = results.find(
+        (x) => x.sampleId === c.sampleId && Date.parse(x.acquiredAt ?? '') === Date.parse(c.acquiredAt),
+      );
       expect(Math.abs((r?.decayFit?.tauMeanIntensityNs ?? 0) / c.tauNs - 1), c.sampleId).toBeLessThan(0.02);
     }
   });
 
   it.each(truth.faults)('alerts the $id fault within $withinDays days of day $fromDay', (fault) => {
-    const hits = flagsOf((a) => fault.expectedRules.includes(String(a.payload['ruleId'])) && a.day >= fault.fromDay && String(a.payload['acquiredAt']) >= monthDate(fault.fromDay));
+    const hits = flagsOf(
+      (a) =>
+        fault.expectedRules.includes(String(a.payload['ruleId'])) &&
+        a.day >= fault.fromDay &&
+        String(a.payload['acquiredAt']) >= monthDate(fault.fromDay),
+    );
     expect(hits.length, `alerts of ${fault.expectedRules.join('/')} from day ${fault.fromDay}`).toBeGreaterThan(0);
     const first = Math.min(...hits.map((a) => a.day));
     expect(first - fault.fromDay).toBeLessThanOrEqual(fault.withinDays);
@@ -125,7 +149,12 @@ describe('driftlight demo: a month with faults, caught', () => {
 
   it('does not clear the contamination alarm when the day-22 control is re-exported on day 25', () => {
     const reExportDate = monthDate(truth.lateReExport.acquiredDay);
-    const recoveries = alerts.filter((a) => a.payload['type'] === 'recovery' && a.day === truth.lateReExport.arrivesDay && String(a.payload['acquiredAt']).startsWith(reExportDate));
+    const recoveries = alerts.filter(
+      (a) =>
+        a.payload['type'] === 'recovery' &&
+        a.day === truth.lateReExport.arrivesDay &&
+        String(a.payload['acquiredAt']).startsWith(reExportDate),
+    );
     expect(recoveries).toEqual([]);
   });
 
@@ -135,7 +164,9 @@ describe('driftlight demo: a month with faults, caught', () => {
     expect(critical.map((a) => `${a.day} ${String(a.payload['ruleId'])}`)).toEqual([]);
     const warnings = flagsOf((a) => inControl.has(a.day));
     // Reported, not bounded: the count the note quotes.
-    console.info(`demo month: ${warnings.length} warning(s) on in-control days: ${warnings.map((a) => `day ${a.day} ${String(a.payload['ruleId'])}`).join(', ') || 'none'}`);
+    console.info(
+      `demo month: ${warnings.length} warning(s) on in-control days: ${warnings.map((a) => `day ${a.day} ${String(a.payload['ruleId'])}`).join(', ') || 'none'}`,
+    );
   });
 
   it('reads the European day-first date of one export as the right day', () => {
@@ -143,7 +174,7 @@ describe('driftlight demo: a month with faults, caught', () => {
     expect(Date.parse(r?.acquiredAt ?? '')).toBe(Date.parse(truth.europeanDate.acquiredAt));
   });
 
-  it('writes the last day\'s digest with its charts, the control chart and the summary CSV, and prints their paths', async () => {
+  it("writes the last day's digest with its charts, the control chart and the summary CSV, and prints their paths", async () => {
     const lastDate = monthDate(30);
     const digestHtml = join(workspace, 'results', 'digest', `${lastDate}.html`);
     const chartHtml = join(workspace, 'results', 'charts', 'ql-daily.html');
@@ -153,7 +184,13 @@ describe('driftlight demo: a month with faults, caught', () => {
     try {
       const marks = await chartMarks(opened.page);
       // The daily control's yield and lifetime charts, the instrument trends, the day's control decay, the emission overlay.
-      expect(marks.map((m) => m.id)).toEqual(['chart-ql-daily-controlQuantumYield', 'chart-ql-daily-meanLifetimeNs', 'chart-instrument-health', 'chart-control-decay', 'chart-emission']);
+      expect(marks.map((m) => m.id)).toEqual([
+        'chart-ql-daily-controlQuantumYield',
+        'chart-ql-daily-meanLifetimeNs',
+        'chart-instrument-health',
+        'chart-control-decay',
+        'chart-emission',
+      ]);
       for (const mark of marks) expect(mark.points + mark.lines, mark.id).toBeGreaterThan(0);
       // One symbol per control run of the month (the re-exported day-22 control is a run of its own).
       expect(marks[0]?.points).toBeGreaterThanOrEqual(truth.controls.length);
@@ -164,7 +201,9 @@ describe('driftlight demo: a month with faults, caught', () => {
       await opened.close();
     }
     // Instrument health: the IRF width measured with each control's decay, before and after the day-27 alignment change (truth: FWHM per day).
-    const digest = JSON.parse(readFileSync(join(workspace, 'results', 'digest', `${lastDate}.json`), 'utf8')) as DigestData;
+    const digest = JSON.parse(
+      readFileSync(join(workspace, 'results', 'digest', `${lastDate}.json`), 'utf8'),
+    ) as DigestData;
     const irfWidth = digest.health.trends.find((t) => t.metric === 'irfWidthNs');
     expect(irfWidth?.points.length).toBeGreaterThanOrEqual(truth.controls.length);
     const first = truth.controls[0];
@@ -181,7 +220,10 @@ describe('driftlight demo: a month with faults, caught', () => {
     expect(served[0]?.status).toBe(200);
     const html = served[0]?.html ?? '';
     expect(html).toContain(`Digest of <strong>${monthDate(30)}</strong>`);
-    expect([...html.matchAll(/<figure class="chart" id="([^"]+)"/g)].map((m) => m[1])).toEqual(['chart-ql-daily-controlQuantumYield', 'chart-ql-daily-meanLifetimeNs']);
+    expect([...html.matchAll(/<figure class="chart" id="([^"]+)"/g)].map((m) => m[1])).toEqual([
+      'chart-ql-daily-controlQuantumYield',
+      'chart-ql-daily-meanLifetimeNs',
+    ]);
     expect(run.stdout).toContain('SIGINT: status page stopped');
   });
 });

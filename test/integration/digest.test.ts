@@ -40,14 +40,24 @@ describe('daily digest', () => {
     try {
       const marks = await chartMarks(opened.page);
       // Two control charts (yield, lifetime) of "teal", the instrument trends, the control decay, the emission overlay.
-      expect(marks.map((m) => m.id)).toEqual(['chart-teal-controlQuantumYield', 'chart-teal-meanLifetimeNs', 'chart-instrument-health', 'chart-control-decay', 'chart-emission']);
+      expect(marks.map((m) => m.id)).toEqual([
+        'chart-teal-controlQuantumYield',
+        'chart-teal-meanLifetimeNs',
+        'chart-instrument-health',
+        'chart-control-decay',
+        'chart-emission',
+      ]);
       for (const mark of marks) expect(mark.points + mark.lines, mark.id).toBeGreaterThan(0);
       // Every run in the yield chart is a symbol: 30 seeded runs plus the demo's own control run.
       expect(marks[0]?.points).toBeGreaterThanOrEqual(31);
-      const captions = await opened.page.$$eval('figure.chart figcaption .text-alternative', (nodes) => nodes.map((n) => n.textContent ?? ''));
+      const captions = await opened.page.$$eval('figure.chart figcaption .text-alternative', (nodes) =>
+        nodes.map((n) => n.textContent ?? ''),
+      );
       expect(captions).toHaveLength(5);
       for (const caption of captions) expect(caption.length).toBeGreaterThan(40);
-      const titles = await opened.page.$$eval('figure.chart svg > title', (nodes) => nodes.map((n) => n.textContent ?? ''));
+      const titles = await opened.page.$$eval('figure.chart svg > title', (nodes) =>
+        nodes.map((n) => n.textContent ?? ''),
+      );
       expect(titles).toHaveLength(5);
       await opened.screenshot('digest.png');
       expect(opened.consoleErrors).toEqual([]);
@@ -58,7 +68,13 @@ describe('daily digest', () => {
   });
 
   it('Markdown, JSON and CSV say the same day: sets, controls, samples', () => {
-    const data = JSON.parse(readFileSync(digestPath('json'), 'utf8')) as { schema: string; sets: { processed: number }; controls: { controlId: string; verdict: string }[]; samples: { setId: string }[]; rejections: unknown[] };
+    const data = JSON.parse(readFileSync(digestPath('json'), 'utf8')) as {
+      schema: string;
+      sets: { processed: number };
+      controls: { controlId: string; verdict: string }[];
+      samples: { setId: string }[];
+      rejections: unknown[];
+    };
     expect(data.schema).toBe('driftlight.digest/1');
     expect(data.sets.processed).toBe(5);
     expect(data.rejections).toHaveLength(1);
@@ -90,13 +106,35 @@ describe('daily digest', () => {
       const ledger = openLedger(loaded.folders.state, { readonly: true });
       const data = (() => {
         try {
-          return gatherDigest(ledger, loaded, { date: TODAY, ruleSet: effectiveRuleSet(loaded), now: new Date(), softwareVersion: 'test' });
+          return gatherDigest(ledger, loaded, {
+            date: TODAY,
+            ruleSet: effectiveRuleSet(loaded),
+            now: new Date(),
+            softwareVersion: 'test',
+          });
         } finally {
           ledger.close();
         }
       })();
       const forms = await renderDigest(data);
-      await emailDigest({ id: 'mail', type: 'email', host: '127.0.0.1', port, secure: false, requireTls: false, allowPlainText: true, from: 'driftlight@lab.example', to: ['qc@lab.example'], timeoutMs: 5000, attempts: 1, backoffMs: 0 }, data, forms);
+      await emailDigest(
+        {
+          id: 'mail',
+          type: 'email',
+          host: '127.0.0.1',
+          port,
+          secure: false,
+          requireTls: false,
+          allowPlainText: true,
+          from: 'driftlight@lab.example',
+          to: ['qc@lab.example'],
+          timeoutMs: 5000,
+          attempts: 1,
+          backoffMs: 0,
+        },
+        data,
+        forms,
+      );
       expect(mails).toHaveLength(1);
       const mail = mails[0] ?? '';
       expect(mail).toMatch(/Content-Type: multipart\/alternative/i);
@@ -108,5 +146,3 @@ describe('daily digest', () => {
     }
   });
 });
-
-

@@ -4,7 +4,13 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createSeededRandom, expectedDecayCounts, gaussianIrf, samplePoisson, simulateDecay } from '../../src/decay/index.js';
+import {
+  createSeededRandom,
+  expectedDecayCounts,
+  gaussianIrf,
+  samplePoisson,
+  simulateDecay,
+} from '../../src/decay/index.js';
 import { writeDecayCsv } from '../../src/formats/csv-writer.js';
 import { createDecay } from '../../src/model/decay.js';
 import { runDriftlight } from '../helpers/cli.js';
@@ -24,12 +30,21 @@ const widthNs = 25 / channels;
 const irf = gaussianIrf(channels, widthNs, 2, 0.2);
 const irfCounts = Array.from(irf, (value) => Math.round(value * 1e5));
 // Truth 3.9 ns (a fluorescein-like lifetime; REFERENCES.md, from memory), Poisson counts, seeded.
-const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [3.9], photons: 5e4, irf, backgroundPerChannel: 1 }, createSeededRandom(1));
+const decay = simulateDecay(
+  { channels, channelWidthNs: widthNs, tauNs: [3.9], photons: 5e4, irf, backgroundPerChannel: 1 },
+  createSeededRandom(1),
+);
 const time = (k: number): string => (k * widthNs).toFixed(6);
 const withIrf = join(directory, 'dye-with-irf.csv');
-writeFileSync(withIrf, ['time (ns),counts,irf', ...Array.from(decay.counts, (c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n');
+writeFileSync(
+  withIrf,
+  ['time (ns),counts,irf', ...Array.from(decay.counts, (c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n',
+);
 const decayOnly = join(directory, 'dye.csv');
-writeFileSync(decayOnly, ['time (ns),counts', ...Array.from(decay.counts, (c, k) => `${time(k)},${c}`)].join('\n') + '\n');
+writeFileSync(
+  decayOnly,
+  ['time (ns),counts', ...Array.from(decay.counts, (c, k) => `${time(k)},${c}`)].join('\n') + '\n',
+);
 const irfOnly = join(directory, 'irf.csv');
 writeFileSync(irfOnly, ['time (ns),counts', ...irfCounts.map((c, k) => `${time(k)},${c}`)].join('\n') + '\n');
 
@@ -85,17 +100,30 @@ describe('driftlight fit-decay', () => {
     // 5,000 scattered photons (IRF-shaped) added to the 3.9 ns decay: truth scatter fraction 5,000 / (5·10⁴ + 5,000 + background) ≈ 0.08.
     const random = createSeededRandom(8);
     const irfSum = irf.reduce((a, b) => a + b, 0);
-    const scattered = Array.from(decay.counts, (c, k) => c + samplePoisson((5000 * (irf[k] as number)) / irfSum, random));
+    const scattered = Array.from(
+      decay.counts,
+      (c, k) => c + samplePoisson((5000 * (irf[k] as number)) / irfSum, random),
+    );
     const path = join(directory, 'dye-scatter.csv');
-    writeFileSync(path, ['time (ns),counts,irf', ...scattered.map((c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n');
+    writeFileSync(
+      path,
+      ['time (ns),counts,irf', ...scattered.map((c, k) => `${time(k)},${c},${irfCounts[k]}`)].join('\n') + '\n',
+    );
     const withScatter = runDriftlight(['fit-decay', path, '--scatter', '--json']);
     expect(withScatter.status).toBe(0);
-    const fit = JSON.parse(withScatter.stdout) as CliFit & { scatterFraction: number; freeParameters: string[]; acceptable: boolean };
+    const fit = JSON.parse(withScatter.stdout) as CliFit & {
+      scatterFraction: number;
+      freeParameters: string[];
+      acceptable: boolean;
+    };
     expect(fit.freeParameters).toContain('scatterCounts');
     expect(fit.scatterFraction).toBeGreaterThan(0.04);
     expect(fit.scatterFraction).toBeLessThan(0.12);
     expect(fit.acceptable).toBe(true);
-    const without = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as { freeParameters: string[]; scatterFraction: number };
+    const without = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as {
+      freeParameters: string[];
+      scatterFraction: number;
+    };
     expect(without.freeParameters).not.toContain('scatterCounts');
     expect(without.scatterFraction).toBe(0);
     expect(runDriftlight(['fit-decay', path, '--scatter']).stdout).toMatch(/^ {2}acceptable {2}yes$/m);
@@ -108,7 +136,13 @@ describe('driftlight fit-decay', () => {
     const pulseIrf = gaussianIrf(n, width, 1.5, 0.2);
     const longIrf = new Float64Array(n * 60);
     longIrf.set(pulseIrf);
-    const long = expectedDecayCounts({ channels: n * 60, channelWidthNs: width, tauNs: [4], photons: 1e5, irf: longIrf });
+    const long = expectedDecayCounts({
+      channels: n * 60,
+      channelWidthNs: width,
+      tauNs: [4],
+      photons: 1e5,
+      irf: longIrf,
+    });
     const expected = new Float64Array(n).fill(2);
     for (let k = 0; k < long.length; k++) expected[k % n] = (expected[k % n] as number) + (long[k] as number);
     const random = createSeededRandom(5);
@@ -116,13 +150,25 @@ describe('driftlight fit-decay', () => {
     const path = join(directory, 'dye-80mhz.csv');
     const timeNs = Float64Array.from({ length: n }, (_unused, k) => Number((k * width).toPrecision(12)));
     const irfColumn = Float64Array.from(pulseIrf, (value) => Math.round(value * 1e5));
-    writeFileSync(path, writeDecayCsv(createDecay({ timeNs, counts, channelWidthNs: width, irfCounts: irfColumn, metadata: { collectionTimeS: 1 } })));
-    const unknown = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as { acceptable: boolean; warnings: string[] };
+    writeFileSync(
+      path,
+      writeDecayCsv(
+        createDecay({ timeNs, counts, channelWidthNs: width, irfCounts: irfColumn, metadata: { collectionTimeS: 1 } }),
+      ),
+    );
+    const unknown = JSON.parse(runDriftlight(['fit-decay', path, '--json']).stdout) as {
+      acceptable: boolean;
+      warnings: string[];
+    };
     expect(unknown.acceptable).toBe(false);
     expect(unknown.warnings.some((w) => w.includes('--repetition-rate-mhz'))).toBe(true);
     const known = runDriftlight(['fit-decay', path, '--repetition-rate-mhz', '80', '--pile-up-correction', '--json']);
     expect(known.status).toBe(0);
-    const fit = JSON.parse(known.stdout) as CliFit & { acceptable: boolean; pileUpCorrected: boolean; warnings: string[] };
+    const fit = JSON.parse(known.stdout) as CliFit & {
+      acceptable: boolean;
+      pileUpCorrected: boolean;
+      warnings: string[];
+    };
     expect(fit.acceptable).toBe(true);
     expect(fit.pileUpCorrected).toBe(true);
     expect(fit.warnings.some((w) => w.startsWith('light from earlier pulses'))).toBe(false);
@@ -135,7 +181,13 @@ describe('driftlight fit-decay', () => {
     const fineWidth = 0.0125;
     const fine = gaussianIrf(4 * channels, fineWidth, 3, 0.2);
     const finePath = join(directory, 'irf-fine.csv');
-    writeFileSync(finePath, ['time (ns),counts', ...Array.from(fine, (v, k) => `${(-1 + k * fineWidth).toFixed(6)},${Math.round(v * 1e5)}`)].join('\n') + '\n');
+    writeFileSync(
+      finePath,
+      [
+        'time (ns),counts',
+        ...Array.from(fine, (v, k) => `${(-1 + k * fineWidth).toFixed(6)},${Math.round(v * 1e5)}`),
+      ].join('\n') + '\n',
+    );
     const run = runDriftlight(['fit-decay', decayOnly, '--irf', finePath, '--json']);
     expect(run.status).toBe(0);
     const fit = JSON.parse(run.stdout) as CliFit & { warnings: string[]; shiftNs: number };
@@ -144,7 +196,13 @@ describe('driftlight fit-decay', () => {
     expect(Math.abs(fit.shiftNs)).toBeLessThan(0.02);
     const coarsePath = join(directory, 'irf-coarse.csv');
     const coarse = gaussianIrf(channels / 4, 4 * widthNs, 2, 0.2);
-    writeFileSync(coarsePath, ['time (ns),counts', ...Array.from(coarse, (v, k) => `${(k * 4 * widthNs).toFixed(6)},${Math.round(v * 1e5)}`)].join('\n') + '\n');
+    writeFileSync(
+      coarsePath,
+      [
+        'time (ns),counts',
+        ...Array.from(coarse, (v, k) => `${(k * 4 * widthNs).toFixed(6)},${Math.round(v * 1e5)}`),
+      ].join('\n') + '\n',
+    );
     const refused = runDriftlight(['fit-decay', decayOnly, '--irf', coarsePath]);
     expect(refused.status).toBe(3);
     expect(refused.stderr).toMatch(/irf-coarse\.csv.*IRF_AXIS_MISMATCH/);

@@ -16,7 +16,11 @@ afterAll(() => {
 
 describe('driftlight inspect', () => {
   it('prints kind, points, axis, layout and metadata for each file and exits 0', () => {
-    const run = runDriftlight(['inspect', 'examples/formats/emission-with-header.csv', 'examples/formats/decay-with-irf-ps.txt']);
+    const run = runDriftlight([
+      'inspect',
+      'examples/formats/emission-with-header.csv',
+      'examples/formats/decay-with-irf-ps.txt',
+    ]);
     expect(run.status).toBe(0);
     expect(run.stdout).toContain('emission spectrum');
     expect(run.stdout).toContain('400 … 600 nm');
@@ -27,16 +31,39 @@ describe('driftlight inspect', () => {
   });
 
   it('prints one JSON object per line per file with --json', () => {
-    const run = runDriftlight(['inspect', '--json', 'examples/formats/absorbance.jdx', 'examples/formats/transmittance-percent.txt']);
+    const run = runDriftlight([
+      'inspect',
+      '--json',
+      'examples/formats/absorbance.jdx',
+      'examples/formats/transmittance-percent.txt',
+    ]);
     expect(run.status).toBe(0);
-    const lines = run.stdout.trim().split('\n').map((line) => JSON.parse(line) as Record<string, unknown>);
+    const lines = run.stdout
+      .trim()
+      .split('\n')
+      .map((line) => JSON.parse(line) as Record<string, unknown>);
     expect(lines).toHaveLength(2);
-    expect(lines[0]).toMatchObject({ file: 'examples/formats/absorbance.jdx', kind: 'absorbance', points: 51, axis: { unit: 'nm', min: 200, max: 300 }, layout: { format: 'jcamp-dx' } });
-    expect(lines[1]).toMatchObject({ kind: 'absorbance', points: 11, metadata: { sampleId: 'dye-7 in ethanol' }, layout: { delimiter: '\t', headerLineCount: 3 } });
+    expect(lines[0]).toMatchObject({
+      file: 'examples/formats/absorbance.jdx',
+      kind: 'absorbance',
+      points: 51,
+      axis: { unit: 'nm', min: 200, max: 300 },
+      layout: { format: 'jcamp-dx' },
+    });
+    expect(lines[1]).toMatchObject({
+      kind: 'absorbance',
+      points: 11,
+      metadata: { sampleId: 'dye-7 in ethanol' },
+      layout: { delimiter: '\t', headerLineCount: 3 },
+    });
   });
 
   it('exits 3 and reports FILE:LINE: CODE: message when an input is rejected, still reading the others', () => {
-    const run = runDriftlight(['inspect', 'examples/formats/malformed-truncated.csv', 'examples/formats/emission-wavenumber.csv']);
+    const run = runDriftlight([
+      'inspect',
+      'examples/formats/malformed-truncated.csv',
+      'examples/formats/emission-wavenumber.csv',
+    ]);
     expect(run.status).toBe(3);
     expect(run.stderr).toContain('examples/formats/malformed-truncated.csv:15: TRUNCATED: ');
     expect(run.stderr).not.toMatch(/\n\s+at /);

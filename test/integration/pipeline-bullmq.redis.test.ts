@@ -11,7 +11,16 @@ import Database from 'better-sqlite3';
 import { afterAll, afterEach, beforeEach, expect, it } from 'vitest';
 import { CLI_PATH } from '../helpers/cli.js';
 import { cleanupQueue, describeRedis, randomPrefix, REDIS_URL } from '../helpers/redis.js';
-import { dropSet, generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  dropSet,
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 import { spawnWorker, type WorkerProcess } from './queue-processes.js';
 
 const QUEUE_NAME = 'analyze';
@@ -22,19 +31,24 @@ const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms
 /** A workspace whose config makes `watch` a pure BullMQ coordinator on `prefix`. */
 function makeCoordinatorWorkspace(prefix: string): string {
   const dir = makeWorkspace();
-  writeFileSync(join(dir, 'driftlight.yaml'), [
-    'watch: { stabilityWindowMs: 150, pollIntervalMs: 50 }',
-    'assembly: { setTimeoutMs: 60000 }',
-    `queue: { runWorker: false, prefix: ${prefix}, queueName: ${QUEUE_NAME}, concurrency: 2, backoffMs: 50, outcomeSweepMs: 500 }`,
-    'logging: { level: info, stdout: off }',
-    '',
-  ].join('\n'));
+  writeFileSync(
+    join(dir, 'driftlight.yaml'),
+    [
+      'watch: { stabilityWindowMs: 150, pollIntervalMs: 50 }',
+      'assembly: { setTimeoutMs: 60000 }',
+      `queue: { runWorker: false, prefix: ${prefix}, queueName: ${QUEUE_NAME}, concurrency: 2, backoffMs: 50, outcomeSweepMs: 500 }`,
+      'logging: { level: info, stdout: off }',
+      '',
+    ].join('\n'),
+  );
   return dir;
 }
 
 /** Counts of sets and files by state, from `driftlight status --json`. */
 function ledgerStatus(dir: string): { sets: Record<string, number>; files: Record<string, number> } {
-  const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], { encoding: 'utf8' });
+  const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], {
+    encoding: 'utf8',
+  });
   expect(status.status, status.stderr).toBe(0);
   return JSON.parse(status.stdout) as { sets: Record<string, number>; files: Record<string, number> };
 }
@@ -43,8 +57,13 @@ function ledgerStatus(dir: string): { sets: Record<string, number>; files: Recor
 function ledgerRows(dir: string): { sets: { sample_id: string; state: string }[]; resultSetIds: string[] } {
   const db = new Database(join(dir, 'state', 'ledger.sqlite'), { readonly: true });
   try {
-    const sets = db.prepare('SELECT sample_id, state FROM sets ORDER BY sample_id').all() as { sample_id: string; state: string }[];
-    const resultSetIds = (db.prepare('SELECT set_id FROM results').all() as { set_id: string }[]).map((row) => row.set_id);
+    const sets = db.prepare('SELECT sample_id, state FROM sets ORDER BY sample_id').all() as {
+      sample_id: string;
+      state: string;
+    }[];
+    const resultSetIds = (db.prepare('SELECT set_id FROM results').all() as { set_id: string }[]).map(
+      (row) => row.set_id,
+    );
     return { sets, resultSetIds };
   } finally {
     db.close();
@@ -54,7 +73,9 @@ function ledgerRows(dir: string): { sets: { sample_id: string; state: string }[]
 /** Log lines of the coordinator's log file with `msg`. */
 function logCount(dir: string, msg: string): number {
   try {
-    return readFileSync(join(dir, 'state', 'driftlight.log'), 'utf8').split('\n').filter((line) => line.includes(`"msg":"${msg}"`)).length;
+    return readFileSync(join(dir, 'state', 'driftlight.log'), 'utf8')
+      .split('\n')
+      .filter((line) => line.includes(`"msg":"${msg}"`)).length;
   } catch {
     return 0;
   }
@@ -62,8 +83,12 @@ function logCount(dir: string, msg: string): number {
 
 /** Jobs a worker has started and not yet finished (completed or failed), by its log lines. */
 function jobsInHand(worker: WorkerProcess): string[] {
-  const finished = new Set(worker.lines.filter((l) => l.event === 'job.completed' || l.event === 'job.failed').map((l) => l.jobId));
-  return worker.lines.filter((l) => l.event === 'job.started' && l.jobId !== undefined && !finished.has(l.jobId)).map((l) => l.jobId ?? '');
+  const finished = new Set(
+    worker.lines.filter((l) => l.event === 'job.completed' || l.event === 'job.failed').map((l) => l.jobId),
+  );
+  return worker.lines
+    .filter((l) => l.event === 'job.started' && l.jobId !== undefined && !finished.has(l.jobId))
+    .map((l) => l.jobId ?? '');
 }
 
 /** Checks that every set in `sampleIds` has exactly one complete result, archived inputs, and one `done` ledger row. */
@@ -91,12 +116,22 @@ describeRedis('the pipeline on BullMQ: a pure coordinator and worker processes',
   let coordinators: ChildProcess[] = [];
 
   const startWorker = (): WorkerProcess => {
-    const worker = spawnWorker({ redisUrl: REDIS_URL, prefix, queue: QUEUE_NAME, concurrency: 1, processor: ANALYZE_PROCESSOR_PATH });
+    const worker = spawnWorker({
+      redisUrl: REDIS_URL,
+      prefix,
+      queue: QUEUE_NAME,
+      concurrency: 1,
+      processor: ANALYZE_PROCESSOR_PATH,
+    });
     workers.push(worker);
     return worker;
   };
   const startCoordinator = (dir: string): { child: ChildProcess; stderr: () => string } => {
-    const child = spawn(process.execPath, [CLI_PATH, 'watch', '--redis', REDIS_URL, '--config', join(dir, 'driftlight.yaml')], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(
+      process.execPath,
+      [CLI_PATH, 'watch', '--redis', REDIS_URL, '--config', join(dir, 'driftlight.yaml')],
+      { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] },
+    );
     coordinators.push(child);
     let stderr = '';
     child.stderr?.setEncoding('utf8').on('data', (chunk: string) => {
@@ -136,23 +171,36 @@ describeRedis('the pipeline on BullMQ: a pure coordinator and worker processes',
 
     // Kill a worker while it holds a job and the backlog is still being worked on.
     let killedInHand: string[] = [];
-    await waitFor('the victim worker busy mid-run', () => {
-      killedInHand = jobsInHand(victim);
-      return killedInHand.length > 0 && readResults(dir).length >= 5;
-    }, 30_000, 10);
+    await waitFor(
+      'the victim worker busy mid-run',
+      () => {
+        killedInHand = jobsInHand(victim);
+        return killedInHand.length > 0 && readResults(dir).length >= 5;
+      },
+      30_000,
+      10,
+    );
     expect(await victim.stop('SIGKILL')).toBe('SIGKILL');
     expect(readResults(dir).length).toBeLessThan(sets.length);
     await dropping;
     expect(dropped).toBe(sets.length);
 
-    await waitFor('40 results and an empty inbox', () => readResults(dir).length >= sets.length && listFiles(inbox).length === 0, 45_000);
+    await waitFor(
+      '40 results and an empty inbox',
+      () => readResults(dir).length >= sets.length && listFiles(inbox).length === 0,
+      45_000,
+    );
     await sleep(300); // a duplicate commit, were there one, would land now
     expect(await stopWatch(coordinator.child)).toBe(0);
     expect(coordinator.stderr()).toBe('');
     expect(await survivor.stop('SIGTERM')).toBe(0);
     expect(survivor.lines.at(-1)).toMatchObject({ event: 'worker.stopped' });
 
-    expectEachSetDoneOnce(dir, sets.map((s) => s.sampleId), 3);
+    expectEachSetDoneOnce(
+      dir,
+      sets.map((s) => s.sampleId),
+      3,
+    );
     // The job the killed worker held was run again by the survivor and committed once.
     const results = readResults(dir);
     for (const jobId of killedInHand) expect(results.filter((r) => r.result.setId === jobId)).toHaveLength(1);
@@ -179,12 +227,20 @@ describeRedis('the pipeline on BullMQ: a pure coordinator and worker processes',
     const worker = startWorker();
     await worker.waitForLine((line) => line.event === 'job.completed', 20_000, 'a job run with no coordinator up');
     const second = startCoordinator(dir);
-    await waitFor('8 results after the restart', () => readResults(dir).length >= sets.length && listFiles(inbox).length === 0, 30_000);
+    await waitFor(
+      '8 results after the restart',
+      () => readResults(dir).length >= sets.length && listFiles(inbox).length === 0,
+      30_000,
+    );
     await sleep(300);
     expect(await stopWatch(second.child)).toBe(0);
     expect(second.stderr()).toBe('');
     expect(await worker.stop('SIGTERM')).toBe(0);
-    expectEachSetDoneOnce(dir, sets.map((s) => s.sampleId), 3);
+    expectEachSetDoneOnce(
+      dir,
+      sets.map((s) => s.sampleId),
+      3,
+    );
     const completedJobs = worker.lines.filter((l) => l.event === 'job.completed').map((l) => l.jobId);
     expect(new Set(completedJobs).size).toBe(completedJobs.length); // each job ran once
   }, 60_000);

@@ -8,7 +8,16 @@ import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { ChildProcess } from 'node:child_process';
-import { generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  startWatch,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 
 const sha256 = (text: string): string => createHash('sha256').update(text).digest('hex');
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
@@ -44,12 +53,26 @@ async function startedWatch(dir: string): Promise<ChildProcess> {
 }
 
 /** The decay input of the sample's only result, with the result (throws unless exactly one result). */
-function onlyResult(dir: string, sampleId: string): { result: Record<string, unknown>; decaySha256: string | undefined; superseded: { file: string; sha256: string }[] } {
+function onlyResult(
+  dir: string,
+  sampleId: string,
+): {
+  result: Record<string, unknown>;
+  decaySha256: string | undefined;
+  superseded: { file: string; sha256: string }[];
+} {
   const mine = readResults(dir).filter((r) => r.result.sampleId === sampleId);
   if (mine.length !== 1) throw new Error(`expected one result for ${sampleId}, found ${mine.length}`);
   const result = mine[0]?.result ?? {};
-  const provenance = result['provenance'] as { inputs: { part: string; sha256: string }[]; supersededInputs?: { file: string; sha256: string }[] };
-  return { result, decaySha256: provenance.inputs.find((i) => i.part === 'decay')?.sha256, superseded: provenance.supersededInputs ?? [] };
+  const provenance = result['provenance'] as {
+    inputs: { part: string; sha256: string }[];
+    supersededInputs?: { file: string; sha256: string }[];
+  };
+  return {
+    result,
+    decaySha256: provenance.inputs.find((i) => i.part === 'decay')?.sha256,
+    superseded: provenance.supersededInputs ?? [],
+  };
 }
 
 describe('inputs that change at their path after they were read', () => {
@@ -65,19 +88,30 @@ describe('inputs that change at their path after they were read', () => {
     const newContent = generateSet('rewritten-1', 72).files.find((f) => f.name === decayName)?.content ?? '';
     expect(sha256(newContent)).not.toBe(sha256(oldContent));
     writeFileSync(join(dir, 'inbox', decayName), newContent);
-    await waitFor('the result from the new version', () => {
-      try {
-        return onlyResult(dir, 'rewritten-1').decaySha256 === sha256(newContent) && listFiles(join(dir, 'inbox')).length === 0;
-      } catch {
-        return false;
-      }
-    }, 45_000);
+    await waitFor(
+      'the result from the new version',
+      () => {
+        try {
+          return (
+            onlyResult(dir, 'rewritten-1').decaySha256 === sha256(newContent) &&
+            listFiles(join(dir, 'inbox')).length === 0
+          );
+        } catch {
+          return false;
+        }
+      },
+      45_000,
+    );
     const { superseded } = onlyResult(dir, 'rewritten-1');
-    expect(superseded.map((s) => ({ file: s.file, sha256: s.sha256 }))).toEqual([{ file: decayName, sha256: sha256(oldContent) }]);
+    expect(superseded.map((s) => ({ file: s.file, sha256: s.sha256 }))).toEqual([
+      { file: decayName, sha256: sha256(oldContent) },
+    ]);
     expect(ledgerRows(dir, 'SELECT id FROM sets WHERE sample_id = ?', 'rewritten-1')).toHaveLength(1);
     // Both versions are kept in the archive; nothing is quarantined.
     const archived = listFiles(join(dir, 'archive')).filter((p) => p.includes('rewritten-1_decay'));
-    expect(archived.map((p) => sha256(readFileSync(join(dir, 'archive', p), 'utf8'))).sort()).toEqual([sha256(oldContent), sha256(newContent)].sort());
+    expect(archived.map((p) => sha256(readFileSync(join(dir, 'archive', p), 'utf8'))).sort()).toEqual(
+      [sha256(oldContent), sha256(newContent)].sort(),
+    );
     expect(listFiles(join(dir, 'quarantine'))).toEqual([]);
   }, 90_000);
 
@@ -88,12 +122,28 @@ describe('inputs that change at their path after they were read', () => {
     const decay = set.files.find((f) => f.name.includes('decay'));
     if (decay === undefined) throw new Error('no decay file');
     writeFileSync(join(dir, 'inbox', decay.name), decay.content);
-    await waitFor('the first version recorded', () => ledgerRows(dir, 'SELECT id FROM files WHERE name = ?', decay.name).length === 1, 20_000);
+    await waitFor(
+      'the first version recorded',
+      () => ledgerRows(dir, 'SELECT id FROM files WHERE name = ?', decay.name).length === 1,
+      20_000,
+    );
     const newContent = generateSet('rewritten-2', 74).files.find((f) => f.name === decay.name)?.content ?? '';
     writeFileSync(join(dir, 'inbox', decay.name), newContent);
-    await waitFor('the new version recorded', () => ledgerRows(dir, 'SELECT sha256 FROM files WHERE name = ?', decay.name).some((r) => r['sha256'] === sha256(newContent)), 20_000);
+    await waitFor(
+      'the new version recorded',
+      () =>
+        ledgerRows(dir, 'SELECT sha256 FROM files WHERE name = ?', decay.name).some(
+          (r) => r['sha256'] === sha256(newContent),
+        ),
+      20_000,
+    );
     for (const f of set.files.filter((g) => g !== decay)) writeFileSync(join(dir, 'inbox', f.name), f.content);
-    await waitFor('the result', () => readResults(dir).some((r) => r.result.sampleId === 'rewritten-2') && listFiles(join(dir, 'inbox')).length === 0, 20_000);
+    await waitFor(
+      'the result',
+      () =>
+        readResults(dir).some((r) => r.result.sampleId === 'rewritten-2') && listFiles(join(dir, 'inbox')).length === 0,
+      20_000,
+    );
     const { decaySha256, superseded } = onlyResult(dir, 'rewritten-2');
     expect(decaySha256).toBe(sha256(newContent));
     expect(superseded.map((s) => s.sha256)).toEqual([sha256(decay.content)]);
@@ -119,13 +169,17 @@ describe('inputs that change at their path after they were read', () => {
       closeSync(fd);
     }
     const whole = sha256(decay.content);
-    await waitFor('the result from the whole file', () => {
-      try {
-        return onlyResult(dir, 'paused-1').decaySha256 === whole && listFiles(join(dir, 'inbox')).length === 0;
-      } catch {
-        return false;
-      }
-    }, 45_000);
+    await waitFor(
+      'the result from the whole file',
+      () => {
+        try {
+          return onlyResult(dir, 'paused-1').decaySha256 === whole && listFiles(join(dir, 'inbox')).length === 0;
+        } catch {
+          return false;
+        }
+      },
+      45_000,
+    );
     const recorded = ledgerRows(dir, 'SELECT sha256, archive_path FROM files WHERE name = ?', decay.name);
     expect(recorded.map((r) => r['sha256'])).toEqual([whole]);
     expect(sha256(readFileSync(String(recorded[0]?.['archive_path']), 'utf8'))).toBe(whole);

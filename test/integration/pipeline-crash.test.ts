@@ -7,7 +7,16 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { createSeededRandom } from '../../src/decay/index.js';
 import { CLI_PATH } from '../helpers/cli.js';
-import { generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  startWatch,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 
 const SETS = 300;
 const ROUNDS = 5;
@@ -17,11 +26,14 @@ describe('crash recovery under kill -9', () => {
   it('processes each of 300 sets exactly once across five SIGKILL restarts', async () => {
     const dir = makeWorkspace('', { stabilityWindowMs: 100, requiredParts: 'emission, decay, irf' });
     const inbox = join(dir, 'inbox');
-    const sets = Array.from({ length: SETS }, (_u, i) => generateSet(`burst-${String(i).padStart(3, '0')}`, 1000 + i, { parts: ['emission', 'decay'] }));
+    const sets = Array.from({ length: SETS }, (_u, i) =>
+      generateSet(`burst-${String(i).padStart(3, '0')}`, 1000 + i, { parts: ['emission', 'decay'] }),
+    );
     const random = createSeededRandom(4242);
     let written = 0;
     const writeSome = (count: number): void => {
-      for (const set of sets.slice(written, written + count)) for (const f of set.files) writeFileSync(join(inbox, f.name), f.content);
+      for (const set of sets.slice(written, written + count))
+        for (const f of set.files) writeFileSync(join(inbox, f.name), f.content);
       written = Math.min(SETS, written + count);
     };
     for (let round = 0; round < ROUNDS; round++) {
@@ -39,7 +51,8 @@ describe('crash recovery under kill -9', () => {
     // The final run must be up (signal handlers installed) before it is stopped: the rounds may
     // already have finished every set, so wait for its own "watching" line in the log.
     const logPath = join(dir, 'state', 'driftlight.log');
-    const watchingLines = (): number => (existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0);
+    const watchingLines = (): number =>
+      existsSync(logPath) ? readFileSync(logPath, 'utf8').split('"msg":"watching"').length - 1 : 0;
     const watchingBefore = watchingLines();
     const final = startWatch(dir);
     try {
@@ -60,7 +73,11 @@ describe('crash recovery under kill -9', () => {
     const archived = listFiles(join(dir, 'archive')).map((p) => p.split('/').pop());
     expect(archived).toHaveLength(SETS * 2);
     expect(new Set(archived).size).toBe(SETS * 2);
-    const status = spawnSync(process.execPath, [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')], { encoding: 'utf8' });
+    const status = spawnSync(
+      process.execPath,
+      [CLI_PATH, 'status', '--json', '--config', join(dir, 'driftlight.yaml')],
+      { encoding: 'utf8' },
+    );
     const parsed = JSON.parse(status.stdout) as { sets: Record<string, number>; files: Record<string, number> };
     expect(parsed.sets).toEqual({ open: 0, queued: 0, done: SETS, failed: 0 });
     expect(parsed.files.done).toBe(SETS * 2);

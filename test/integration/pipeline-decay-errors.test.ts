@@ -37,17 +37,24 @@ function processDecay(name: string, content: string): { decayFit: DecayFitInFile
 describe('decay error notes in the result file (issue 17.3)', () => {
   afterAll(() => removeWorkspaces());
 
-  it('writes errorNotes and the IRF-noise part of τ\'s error for an IRF of whole counts', () => {
-    const decay = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-01', acquiredAt: '2026-03-14T10:05:00Z' }, createSeededRandom(1701));
+  it("writes errorNotes and the IRF-noise part of τ's error for an IRF of whole counts", () => {
+    const decay = decayHistogram(
+      { tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 },
+      { sampleId: 'errnotes-01', acquiredAt: '2026-03-14T10:05:00Z' },
+      createSeededRandom(1701),
+    );
     const content = writeDecayCsv(decay);
     const { decayFit, result } = processDecay('errnotes-01_decay.csv', content);
     expect(validate(result), ajv.errorsText(validate.errors)).toBe(true);
     // The reference: the fit engine run in-process on the same file's contents, default options as the pipeline's.
     const parsed = readData(new TextEncoder().encode(content), { fileName: 'errnotes-01_decay.csv' });
-    if (parsed.type !== 'decay' || parsed.decay.irfCounts === undefined) throw new Error('the written file should read back as a decay with its IRF');
+    if (parsed.type !== 'decay' || parsed.decay.irfCounts === undefined)
+      throw new Error('the written file should read back as a decay with its IRF');
     const direct = fitDecay(parsed.decay, { irfCounts: parsed.decay.irfCounts });
     expect(decayFit.errorNotes).toEqual(direct.errorNotes);
-    expect(decayFit.errorNotes.some((n) => n.includes("the IRF's counting noise") && n.includes('propagated'))).toBe(true);
+    expect(decayFit.errorNotes.some((n) => n.includes("the IRF's counting noise") && n.includes('propagated'))).toBe(
+      true,
+    );
     const component = decayFit.components[0];
     const directComponent = direct.components[0];
     expect(component?.tauNsStdErrFromIrf).toBeGreaterThan(0);
@@ -57,11 +64,18 @@ describe('decay error notes in the result file (issue 17.3)', () => {
   });
 
   it('says why the IRF noise is not propagated for a normalised IRF, and leaves tauNsStdErrFromIrf out', () => {
-    const counted = decayHistogram({ tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 }, { sampleId: 'errnotes-02', acquiredAt: '2026-03-14T10:05:00Z' }, createSeededRandom(1702));
+    const counted = decayHistogram(
+      { tauNs: [3.1], photons: 50_000, channels: 256, channelWidthNs: 0.1 },
+      { sampleId: 'errnotes-02', acquiredAt: '2026-03-14T10:05:00Z' },
+      createSeededRandom(1702),
+    );
     const peak = Math.max(...(counted.irfCounts ?? [1]));
     const normalised = createDecay({
-      timeNs: counted.timeNs, counts: counted.counts, channelWidthNs: counted.channelWidthNs,
-      irfCounts: Float64Array.from(counted.irfCounts ?? [], (v) => v / peak), metadata: counted.metadata,
+      timeNs: counted.timeNs,
+      counts: counted.counts,
+      channelWidthNs: counted.channelWidthNs,
+      irfCounts: Float64Array.from(counted.irfCounts ?? [], (v) => v / peak),
+      metadata: counted.metadata,
     });
     const { decayFit, result } = processDecay('errnotes-02_decay.csv', writeDecayCsv(normalised));
     expect(validate(result), ajv.errorsText(validate.errors)).toBe(true);

@@ -21,7 +21,14 @@ describe('process: one file, several measurements (issue 18.3)', () => {
     copyFileSync(fixture('decay_two_wavelengths.csv'), join(dir, 'inbox', 'dye7_decay.csv'));
     const run = runDriftlight(['process', join(dir, 'inbox'), '--config', join(dir, 'driftlight.yaml')]);
     expect(run.status, run.stderr).toBe(0);
-    const results = readResults(dir).map((r) => r.result as unknown as { setId: string; measurement?: { id: string; column: string; setId?: string }; decayFit?: { tauMeanIntensityNs: number } });
+    const results = readResults(dir).map(
+      (r) =>
+        r.result as unknown as {
+          setId: string;
+          measurement?: { id: string; column: string; setId?: string };
+          decayFit?: { tauMeanIntensityNs: number };
+        },
+    );
     expect(results).toHaveLength(2);
     for (const result of results) expect(validate(result), ajv.errorsText(validate.errors)).toBe(true);
     const [first, second] = [...results].sort((a, b) => a.setId.length - b.setId.length);
@@ -43,9 +50,21 @@ describe('process: one file, several measurements (issue 18.3)', () => {
     copyFileSync(fixture('emission_xy_pairs_tab.txt'), join(dir, 'inbox', 'trio_em.txt'));
     const run = runDriftlight(['process', join(dir, 'inbox'), '--config', join(dir, 'driftlight.yaml')]);
     expect(run.status, run.stderr).toBe(0);
-    const results = readResults(dir).map((r) => r.result as unknown as { measurement?: { column: string }; spectra: { emission?: { peakWavelengthNm: number } } });
+    const results = readResults(dir).map(
+      (r) =>
+        r.result as unknown as {
+          measurement?: { column: string };
+          spectra: { emission?: { peakWavelengthNm: number } };
+        },
+    );
     for (const result of results) expect(validate(result), ajv.errorsText(validate.errors)).toBe(true);
     // make_layouts.py: bands centred at 440, 470 and 480 nm.
-    expect(results.map((r) => [r.measurement?.column, Math.round(r.spectra.emission?.peakWavelengthNm ?? 0)]).sort()).toEqual([['sampleA', 440], ['sampleB', 470], ['sampleC', 480]]);
+    expect(
+      results.map((r) => [r.measurement?.column, Math.round(r.spectra.emission?.peakWavelengthNm ?? 0)]).sort(),
+    ).toEqual([
+      ['sampleA', 440],
+      ['sampleB', 470],
+      ['sampleC', 480],
+    ]);
   });
 });

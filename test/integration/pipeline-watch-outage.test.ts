@@ -8,23 +8,37 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ChildProcess } from 'node:child_process';
 import { blockFolder, unblockFolder } from '../helpers/blocked-folder.js';
-import { dropSet, generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  dropSet,
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  startWatch,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 
 describe('driftlight watch through a storage outage', () => {
   let dir: string;
   let child: ChildProcess;
-  const log = (): string => (existsSync(join(dir, 'state', 'driftlight.log')) ? readFileSync(join(dir, 'state', 'driftlight.log'), 'utf8') : '');
+  const log = (): string =>
+    existsSync(join(dir, 'state', 'driftlight.log')) ? readFileSync(join(dir, 'state', 'driftlight.log'), 'utf8') : '';
 
   beforeAll(async () => {
     dir = makeWorkspace();
     // The same test config as makeWorkspace's, with a short rescan interval (the repair runs with it).
-    writeFileSync(join(dir, 'driftlight.yaml'), [
-      'watch: { stabilityWindowMs: 150, pollIntervalMs: 50, rescanIntervalMs: 300 }',
-      'assembly: { setTimeoutMs: 60000, requiredParts: [emission, absorbance, decay, irf] }',
-      'queue: { concurrency: 1, backoffMs: 50 }',
-      'logging: { level: info, stdout: off }',
-      '',
-    ].join('\n'));
+    writeFileSync(
+      join(dir, 'driftlight.yaml'),
+      [
+        'watch: { stabilityWindowMs: 150, pollIntervalMs: 50, rescanIntervalMs: 300 }',
+        'assembly: { setTimeoutMs: 60000, requiredParts: [emission, absorbance, decay, irf] }',
+        'queue: { concurrency: 1, backoffMs: 50 }',
+        'logging: { level: info, stdout: off }',
+        '',
+      ].join('\n'),
+    );
     child = startWatch(dir);
     await waitFor('watch to start', () => log().includes('"msg":"watching"'));
   });
@@ -38,10 +52,16 @@ describe('driftlight watch through a storage outage', () => {
     blockFolder(join(dir, 'results'));
     const set = generateSet('outage-results', 41);
     dropSet(join(dir, 'inbox'), set);
-    await waitFor('the failed commit in the log', () => log().includes('the outcome is kept and committed again later'));
+    await waitFor('the failed commit in the log', () =>
+      log().includes('the outcome is kept and committed again later'),
+    );
     expect(set.files.every((f) => existsSync(join(dir, 'inbox', f.name)))).toBe(true);
     unblockFolder(join(dir, 'results'));
-    await waitFor('the held result', () => readResults(dir).some((r) => r.result.sampleId === 'outage-results'), 15_000);
+    await waitFor(
+      'the held result',
+      () => readResults(dir).some((r) => r.result.sampleId === 'outage-results'),
+      15_000,
+    );
     await waitFor('inputs archived', () => set.files.every((f) => !existsSync(join(dir, 'inbox', f.name))));
     expect(listFiles(join(dir, 'archive')).filter((p) => p.includes('outage-results'))).toHaveLength(set.files.length);
   }, 40_000);
@@ -54,7 +74,11 @@ describe('driftlight watch through a storage outage', () => {
     await waitFor('the failed moves in the log', () => log().includes('moving its inputs out of the inbox failed'));
     expect(set.files.every((f) => existsSync(join(dir, 'inbox', f.name)))).toBe(true);
     unblockFolder(join(dir, 'archive'));
-    await waitFor('inputs archived by the repair', () => set.files.every((f) => !existsSync(join(dir, 'inbox', f.name))), 15_000);
+    await waitFor(
+      'inputs archived by the repair',
+      () => set.files.every((f) => !existsSync(join(dir, 'inbox', f.name))),
+      15_000,
+    );
     expect(listFiles(join(dir, 'archive')).filter((p) => p.includes('outage-archive'))).toHaveLength(set.files.length);
     // The log line is written asynchronously, a moment after the moves it reports.
     await waitFor('the repair in the log', () => log().includes('repair: finished file moves that had failed'));

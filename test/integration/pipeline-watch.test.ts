@@ -5,7 +5,18 @@ import { appendFileSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ChildProcess } from 'node:child_process';
-import { dropSet, generateIrf, generateSet, listFiles, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  dropSet,
+  generateIrf,
+  generateSet,
+  listFiles,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  startWatch,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
@@ -22,7 +33,9 @@ describe('driftlight watch', () => {
     // Arrived while driftlight was down: found by the start-up scan.
     dropSet(inbox, generateSet('early-01', 1));
     child = startWatch(dir);
-    child.stderr?.on('data', (chunk: Buffer) => { stderr += chunk.toString(); });
+    child.stderr?.on('data', (chunk: Buffer) => {
+      stderr += chunk.toString();
+    });
     await waitFor('the start-up scan result', () => resultsFor('early-01').length === 1);
   });
 
@@ -68,23 +81,41 @@ describe('driftlight watch', () => {
     dropSet(inbox, set);
     await waitFor('dup-01', () => resultsFor('dup-01').length === 1);
     writeFileSync(join(inbox, 'dup-01-again_em.csv'), set.files[0]?.content ?? '');
-    await waitFor('duplicate quarantined', () => listFiles(join(dir, 'quarantine')).some((p) => p.endsWith('dup-01-again_em.csv.error.json')));
-    const record = JSON.parse(readFileSync(join(dir, 'quarantine', listFiles(join(dir, 'quarantine')).find((p) => p.endsWith('dup-01-again_em.csv.error.json')) ?? ''), 'utf8')) as { code: string };
+    await waitFor('duplicate quarantined', () =>
+      listFiles(join(dir, 'quarantine')).some((p) => p.endsWith('dup-01-again_em.csv.error.json')),
+    );
+    const record = JSON.parse(
+      readFileSync(
+        join(
+          dir,
+          'quarantine',
+          listFiles(join(dir, 'quarantine')).find((p) => p.endsWith('dup-01-again_em.csv.error.json')) ?? '',
+        ),
+        'utf8',
+      ),
+    ) as { code: string };
     expect(record.code).toBe('DUPLICATE_INPUT');
     expect(resultsFor('dup-01')).toHaveLength(1);
   });
 
   it('assembles a set from a manifest that arrives before its files, and one that arrives after', async () => {
-    const manifest = (id: string): string => `sampleId: ${id}\nrole: sample\nexcitationNm: 480\nfiles:\n  - { file: ${id}-e.csv, part: emission }\n  - { file: ${id}-a.csv, part: absorbance }\n  - { file: ${id}-d.csv, part: decay }\n`;
+    const manifest = (id: string): string =>
+      `sampleId: ${id}\nrole: sample\nexcitationNm: 480\nfiles:\n  - { file: ${id}-e.csv, part: emission }\n  - { file: ${id}-a.csv, part: absorbance }\n  - { file: ${id}-d.csv, part: decay }\n`;
     writeFileSync(join(inbox, 'mf-before.set.yaml'), manifest('mf-before'));
     await sleep(400);
     dropSet(inbox, generateSet('mf-before', 5, { nameStyle: 'opaque' }));
     dropSet(inbox, generateSet('mf-after', 6, { nameStyle: 'opaque' }));
     await sleep(600);
     writeFileSync(join(inbox, 'mf-after.set.yaml'), manifest('mf-after'));
-    await waitFor('both manifest sets', () => resultsFor('mf-before').length === 1 && resultsFor('mf-after').length === 1);
+    await waitFor(
+      'both manifest sets',
+      () => resultsFor('mf-before').length === 1 && resultsFor('mf-after').length === 1,
+    );
     for (const id of ['mf-before', 'mf-after']) {
-      const result = resultsFor(id)[0]?.result as unknown as { partial: boolean; provenance: { inputs: { file: string }[] } };
+      const result = resultsFor(id)[0]?.result as unknown as {
+        partial: boolean;
+        provenance: { inputs: { file: string }[] };
+      };
       expect(result.partial, id).toBe(false);
       expect(result.provenance.inputs.map((i) => i.file).sort()).toEqual([`${id}-a.csv`, `${id}-d.csv`, `${id}-e.csv`]);
     }

@@ -26,7 +26,11 @@ describe('process on a folder outside the inbox', () => {
     // Nothing was created in the user's folder (or the current directory).
     expect(readdirSync(user)).toEqual(['monday']);
     expect(readResults(dir).map((r) => r.result.sampleId)).toEqual(['adhoc-01']);
-    expect(listFiles(join(dir, 'archive')).map((p) => p.split('/').pop()).sort()).toEqual(set.files.map((f) => f.name).sort());
+    expect(
+      listFiles(join(dir, 'archive'))
+        .map((p) => p.split('/').pop())
+        .sort(),
+    ).toEqual(set.files.map((f) => f.name).sort());
     // The staging copies are gone once archived.
     expect(listFiles(join(dir, 'state', 'process-staging'))).toEqual([]);
   });

@@ -7,7 +7,13 @@ import { describe, expect, it } from 'vitest';
 import type { AnalysisResult } from '../../src/analysis/result.js';
 import type { AlertDispatcher } from '../../src/output/alerts/index.js';
 import { createQcStage, loadRuleSetFile, withConfigControls } from '../../src/pipeline/qc-stage.js';
-import { flagKey, observationFromResult, replayObservations, type QcFlag, type RecoveryNotice } from '../../src/qc/index.js';
+import {
+  flagKey,
+  observationFromResult,
+  replayObservations,
+  type QcFlag,
+  type RecoveryNotice,
+} from '../../src/qc/index.js';
 import { openLedger } from '../../src/store/ledger.js';
 import { flagSignaturesOfSets } from '../../src/store/qc-order-store.js';
 import { openFlags } from '../../src/store/qc-store.js';
@@ -41,7 +47,12 @@ async function feed(order: readonly AnalysisResult[], name: string): Promise<Out
     const written = await stage.apply(result, context);
     stage.afterCommit?.(written, context);
   }
-  const flags = [...flagSignaturesOfSets(ledger, series.map((result) => result.setId))].sort();
+  const flags = [
+    ...flagSignaturesOfSets(
+      ledger,
+      series.map((result) => result.setId),
+    ),
+  ].sort();
   const open = [...new Set(openFlags(ledger, ['teal', 'instrument']).map(flagKey))].sort();
   ledger.close();
   return { flags, open, alerts };
@@ -50,14 +61,19 @@ async function feed(order: readonly AnalysisResult[], name: string): Promise<Out
 describe('QC judged in acquisition order (issue 16.2)', () => {
   it('gives identical flags and open alarms whatever order the runs arrive in, with no false recovery', async () => {
     const dayByDay = await feed(series, 'watch');
-    const backlog = await feed([...series].sort((a, b) => (a.setId < b.setId ? -1 : 1)), 'process');
+    const backlog = await feed(
+      [...series].sort((a, b) => (a.setId < b.setId ? -1 : 1)),
+      'process',
+    );
     const shuffledOrder = await feed(shuffled(series, 7), 'shuffled');
     const reversed = await feed([...series].reverse(), 'reversed');
 
     // The pure replay in acquisition order (src/qc/replay.ts) is the reference the ledger must match.
     const observations = series.flatMap((result) => observationFromResult(result, ruleSet.controls) ?? []);
     const replay = replayObservations(observations, ruleSet);
-    const expected = replay.steps.flatMap((step) => step.flags.map((flag) => `${flag.setId}|${flagKey(flag)}|${flag.check}`)).sort();
+    const expected = replay.steps
+      .flatMap((step) => step.flags.map((flag) => `${flag.setId}|${flagKey(flag)}|${flag.check}`))
+      .sort();
     expect(expected.length).toBeGreaterThan(10);
     for (const outcome of [dayByDay, backlog, shuffledOrder, reversed]) {
       expect(outcome.flags).toEqual(expected);
@@ -65,7 +81,9 @@ describe('QC judged in acquisition order (issue 16.2)', () => {
     }
 
     // The newest run is 5 SD low: the yield alarms stay open (no "back in control" from the re-export).
-    expect(dayByDay.open).toEqual(expect.arrayContaining(['yield-westgard|teal|controlQuantumYield', 'yield-cusum|teal|controlQuantumYield']));
+    expect(dayByDay.open).toEqual(
+      expect.arrayContaining(['yield-westgard|teal|controlQuantumYield', 'yield-cusum|teal|controlQuantumYield']),
+    );
     const lastArrival = dayByDay.alerts[dayByDay.alerts.length - 1];
     expect(lastArrival?.recoveries).toEqual([]);
     expect(lastArrival?.flags).toEqual([]);
@@ -81,7 +99,9 @@ describe('QC judged in acquisition order (issue 16.2)', () => {
     // First yield alarm after the drift starts: within the days docs/qc.md states (critical by day 8 of a −0.5 %/day drift).
     const driftStartIso = series[DRIFT_START_DAY]?.acquiredAt ?? '';
     const firstCritical = replay.steps.findIndex(
-      (step) => step.observation.acquiredAt >= driftStartIso && step.flags.some((flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical'),
+      (step) =>
+        step.observation.acquiredAt >= driftStartIso &&
+        step.flags.some((flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical'),
     );
     const firstCriticalDay = firstCritical - DRIFT_START_DAY + 1;
     expect(firstCriticalDay).toBeGreaterThan(0);
@@ -89,7 +109,9 @@ describe('QC judged in acquisition order (issue 16.2)', () => {
     // The sensitivity loss (−1.5 %/day from the same day) is flagged within 4 days (docs/qc.md, 1 % CV: max 4)
     // and, the level staying 22 % low, its alarm is still open at the end (issue 16.5).
     const firstIntensity = replay.steps.findIndex(
-      (step) => step.observation.acquiredAt >= driftStartIso && step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight'),
+      (step) =>
+        step.observation.acquiredAt >= driftStartIso &&
+        step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight'),
     );
     expect(firstIntensity - DRIFT_START_DAY + 1).toBeLessThanOrEqual(4);
     expect(dayByDay.open).toContain('intensity-cusum|teal|intensityPerAbsorbedLight');

@@ -20,7 +20,13 @@ export const SERIES = {
 } as const;
 
 /** The 3-line README control, as driftlight.yaml defines it. */
-export const SERIES_CONTROL = { id: 'teal', sampleIdPattern: '^CTRL-teal', targetYield: SERIES.targetYield, sdYield: SERIES.sdYield, baselineRuns: 20 };
+export const SERIES_CONTROL = {
+  id: 'teal',
+  sampleIdPattern: '^CTRL-teal',
+  targetYield: SERIES.targetYield,
+  sdYield: SERIES.sdYield,
+  baselineRuns: 20,
+};
 
 /** ISO acquisition time of series day `day` (day 0 = Monday 2 March 2026, 08:00 UTC). */
 export function seriesDayIso(day: number): string {
@@ -28,7 +34,12 @@ export function seriesDayIso(day: number): string {
 }
 
 /** One control result as the pipeline would produce it (yield, emission integral, absorbance). */
-function controlRunResult(setId: string, acquiredAt: string, quantumYield: number, intensityPerAbsorbedLight: number): AnalysisResult {
+function controlRunResult(
+  setId: string,
+  acquiredAt: string,
+  quantumYield: number,
+  intensityPerAbsorbedLight: number,
+): AnalysisResult {
   const absorptance = 1 - 10 ** -SERIES.absorbanceAtExcitation;
   return {
     schema: 'driftlight.result/1',
@@ -39,11 +50,29 @@ function controlRunResult(setId: string, acquiredAt: string, quantumYield: numbe
     partial: false,
     missing: [],
     spectra: {
-      emission: { peakWavelengthNm: 515, peakValue: 1, integratedIntensity: intensityPerAbsorbedLight * absorptance, fwhmNm: 35, valueUnit: 'counts', rangeNm: [490, 650] },
-      absorbance: { absorbanceAtExcitation: SERIES.absorbanceAtExcitation, excitationNm: 480, peakWavelengthNm: 490, peakAbsorbance: 0.06 },
+      emission: {
+        peakWavelengthNm: 515,
+        peakValue: 1,
+        integratedIntensity: intensityPerAbsorbedLight * absorptance,
+        fwhmNm: 35,
+        valueUnit: 'counts',
+        rangeNm: [490, 650],
+      },
+      absorbance: {
+        absorbanceAtExcitation: SERIES.absorbanceAtExcitation,
+        excitationNm: 480,
+        peakWavelengthNm: 490,
+        peakAbsorbance: 0.06,
+      },
     },
     corrections: [],
-    quantumYield: { value: quantumYield, standardUncertainty: 0.01, budget: [], standardId: 'rhodamine-6g-ethanol', warnings: [] },
+    quantumYield: {
+      value: quantumYield,
+      standardUncertainty: 0.01,
+      budget: [],
+      standardId: 'rhodamine-6g-ethanol',
+      warnings: [],
+    },
     warnings: [],
     qc: { flags: [] },
     provenance: { inputs: [], configHash: 'test', softwareVersion: '0.1.0', corrections: [], analyzedAt: acquiredAt },
@@ -62,10 +91,13 @@ export function controlSeries(seed: number): AnalysisResult[] {
     const driftDays = Math.min(Math.max(0, day - DRIFT_START_DAY + 1), SERIES.driftDays);
     let meanYield = SERIES.targetYield * (1 + (SERIES.yieldDriftPercentPerDay / 100) * driftDays);
     if (day >= STEP_DAY) meanYield = SERIES.targetYield + SERIES.stepSd * SERIES.sdYield;
-    const meanIntensity = SERIES.intensityPerAbsorbedLight * (1 + (SERIES.sensitivityDriftPercentPerDay / 100) * driftDays);
+    const meanIntensity =
+      SERIES.intensityPerAbsorbedLight * (1 + (SERIES.sensitivityDriftPercentPerDay / 100) * driftDays);
     const quantumYield = meanYield + SERIES.sdYield * random.standardNormal();
     const intensity = meanIntensity * (1 + (SERIES.intensityCvPercent / 100) * random.standardNormal());
-    results.push(controlRunResult(`ctrl-${seriesDayIso(day).slice(0, 10)}`, seriesDayIso(day), quantumYield, intensity));
+    results.push(
+      controlRunResult(`ctrl-${seriesDayIso(day).slice(0, 10)}`, seriesDayIso(day), quantumYield, intensity),
+    );
   }
   const old = results[10];
   if (old === undefined) throw new Error('series too short');

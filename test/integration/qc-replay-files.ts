@@ -41,20 +41,42 @@ export interface MeasuredFiles {
 
 /** One measurement in ethanol at 480 nm excitation: emission integral ∝ sensitivity · Φ · (1 − 10^−A) / n² (src/demo/synthetic.ts). */
 export function measuredFiles(
-  spec: { sampleId: string; acquiredAt: string; quantumYield: number; absorbance: number; peakNm: number; bandPeakNm: number; sensitivity: number },
+  spec: {
+    sampleId: string;
+    acquiredAt: string;
+    quantumYield: number;
+    absorbance: number;
+    peakNm: number;
+    bandPeakNm: number;
+    sensitivity: number;
+  },
   random: ReturnType<typeof createSeededRandom>,
 ): MeasuredFiles {
   const em = emissionSpectrum(
-    { peakNm: spec.peakNm, widthNm: 38, integral: spec.sensitivity * emissionIntegralFor(spec.quantumYield, spec.absorbance, ETHANOL_N) },
+    {
+      peakNm: spec.peakNm,
+      widthNm: 38,
+      integral: spec.sensitivity * emissionIntegralFor(spec.quantumYield, spec.absorbance, ETHANOL_N),
+    },
     { sampleId: spec.sampleId, excitationNm: EXCITATION_NM, solvent: 'ethanol', acquiredAt: spec.acquiredAt },
     random,
   );
   const abs = absorbanceSpectrum(
-    { bandPeakNm: spec.bandPeakNm, bandWidthNm: 60, excitationNm: EXCITATION_NM, absorbanceAtExcitation: spec.absorbance },
+    {
+      bandPeakNm: spec.bandPeakNm,
+      bandWidthNm: 60,
+      excitationNm: EXCITATION_NM,
+      absorbanceAtExcitation: spec.absorbance,
+    },
     { sampleId: spec.sampleId, solvent: 'ethanol', acquiredAt: spec.acquiredAt },
     random,
   );
-  return { em: writeSpectrumCsv(em), abs: writeSpectrumJcamp(abs), emJcamp: writeSpectrumJcamp(em), absCsv: writeSpectrumCsv(abs) };
+  return {
+    em: writeSpectrumCsv(em),
+    abs: writeSpectrumJcamp(abs),
+    emJcamp: writeSpectrumJcamp(em),
+    absCsv: writeSpectrumCsv(abs),
+  };
 }
 
 /** One file written into the inbox. */
@@ -109,27 +131,56 @@ export function replaySeries(seed = 20261205): ReplaySeries {
     let meanYield = REPLAY.controlYield * (1 + (REPLAY.yieldDriftPercentPerDay / 100) * driftDays);
     if (day >= REPLAY.stepDay) meanYield = REPLAY.controlYield + REPLAY.stepSd * sdYield;
     const controlYield = meanYield + sdYield * sampleStandardNormal(random);
-    const sensitivity = (1 + (REPLAY.sensitivityDriftPercentPerDay / 100) * driftDays) * (1 + (REPLAY.sensitivityCvPercent / 100) * sampleStandardNormal(random));
+    const sensitivity =
+      (1 + (REPLAY.sensitivityDriftPercentPerDay / 100) * driftDays) *
+      (1 + (REPLAY.sensitivityCvPercent / 100) * sampleStandardNormal(random));
     const files: ReplayFile[] = [];
-    const measure = (sampleId: string, hhmm: string, quantumYield: number, absorbance: number, peakNm: number, bandPeakNm: number): MeasuredFiles =>
-      measuredFiles({ sampleId, acquiredAt: replayTime(day, hhmm), quantumYield, absorbance, peakNm, bandPeakNm, sensitivity }, random);
+    const measure = (
+      sampleId: string,
+      hhmm: string,
+      quantumYield: number,
+      absorbance: number,
+      peakNm: number,
+      bandPeakNm: number,
+    ): MeasuredFiles =>
+      measuredFiles(
+        { sampleId, acquiredAt: replayTime(day, hhmm), quantumYield, absorbance, peakNm, bandPeakNm, sensitivity },
+        random,
+      );
     const referenceId = `REF-R6G-${mmdd(day)}`;
     const reference = measure(referenceId, '07:50', REFERENCE_YIELD, 0.05, 552, 528);
-    files.push({ name: `${referenceId}_em.csv`, content: reference.em }, { name: `${referenceId}_abs.jdx`, content: reference.abs });
+    files.push(
+      { name: `${referenceId}_em.csv`, content: reference.em },
+      { name: `${referenceId}_abs.jdx`, content: reference.abs },
+    );
     const controlId = `CTRL-teal-${mmdd(day)}`;
     const control = measure(controlId, '08:10', controlYield, 0.05, 540, 516);
-    files.push({ name: `${controlId}_em.csv`, content: control.em }, { name: `${controlId}_abs.jdx`, content: control.abs });
+    files.push(
+      { name: `${controlId}_em.csv`, content: control.em },
+      { name: `${controlId}_abs.jdx`, content: control.abs },
+    );
     controlSampleIds.push(controlId);
     controlAcquiredAt.push(replayTime(day, '08:10'));
-    if (day === REPLAY.reexportOfDay) reexport = [{ name: `${controlId}_em.jdx`, content: control.emJcamp }, { name: `${controlId}_abs.csv`, content: control.absCsv }];
+    if (day === REPLAY.reexportOfDay)
+      reexport = [
+        { name: `${controlId}_em.jdx`, content: control.emJcamp },
+        { name: `${controlId}_abs.csv`, content: control.absCsv },
+      ];
     perDay.push(files);
   }
   const lateDays = new Set([...LATE.values()].flat());
   const deliveries: ReplayDelivery[] = [];
   for (let day = 0; day < REPLAY.days; day++) {
-    for (const late of LATE.get(day) ?? []) deliveries.push({ day, arriveAt: replayTime(day, '07:30'), files: perDay[late] ?? [] });
+    for (const late of LATE.get(day) ?? [])
+      deliveries.push({ day, arriveAt: replayTime(day, '07:30'), files: perDay[late] ?? [] });
     if (!lateDays.has(day)) deliveries.push({ day, arriveAt: replayTime(day, '08:20'), files: perDay[day] ?? [] });
-    if (day === REPLAY.reexportArrivesDay) deliveries.push({ day, arriveAt: replayTime(day, '16:30'), files: reexport });
+    if (day === REPLAY.reexportArrivesDay)
+      deliveries.push({ day, arriveAt: replayTime(day, '16:30'), files: reexport });
   }
-  return { deliveries, controlSampleIds, controlAcquiredAt, reexportSampleId: controlSampleIds[REPLAY.reexportOfDay] ?? '' };
+  return {
+    deliveries,
+    controlSampleIds,
+    controlAcquiredAt,
+    reexportSampleId: controlSampleIds[REPLAY.reexportOfDay] ?? '',
+  };
 }

@@ -28,7 +28,10 @@ const SMTP_PASSWORD = 'replay-sink-password';
 const series = replaySeries();
 
 /** A webhook receiver on 127.0.0.1:`port` (0: any free port) keeping each POSTed JSON body. */
-async function startWebhook(port: number, bodies: Record<string, unknown>[]): Promise<{ server: Server; port: number }> {
+async function startWebhook(
+  port: number,
+  bodies: Record<string, unknown>[],
+): Promise<{ server: Server; port: number }> {
   const server = createServer((request, response) => {
     let body = '';
     request.on('data', (chunk: Buffer) => (body += chunk.toString()));
@@ -102,7 +105,8 @@ async function waitUntil(what: string, condition: () => boolean, timeoutMs = 30_
 }
 
 /** A flag as compared between the runs: acquisition time, control, rule, metric, check, severity (set ids differ when a backlog groups a re-export with its original). */
-const signature = (flag: RecordedFlag): string => `${flag.acquiredAt}|${flag.controlId}|${flag.ruleId}|${flag.metric}|${flag.check}|${flag.severity}`;
+const signature = (flag: RecordedFlag): string =>
+  `${flag.acquiredAt}|${flag.controlId}|${flag.ruleId}|${flag.metric}|${flag.check}|${flag.severity}`;
 
 /** Scenario day of an ISO acquisition time. */
 const dayOf = (iso: string): number => Math.floor((Date.parse(iso) - Date.parse(replayTime(0, '00:00'))) / 86_400_000);
@@ -125,11 +129,14 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
   const hookPort = webhook.port;
   const smtpPort = smtp.port;
   for (const folder of ['inbox', 'results']) mkdirSync(join(dir, folder), { recursive: true });
-  writeFileSync(join(dir, 'driftlight.yaml'), configText([
-    '{ id: log, type: log }',
-    `{ id: lab-hook, type: webhook, url: "http://127.0.0.1:${hookPort}/qc", attempts: 2, backoffMs: 50, timeoutMs: 2000 }`,
-    `{ id: lab-mail, type: email, host: 127.0.0.1, port: ${smtpPort}, from: driftlight@lab.example, to: [qc@lab.example], username: qc-bot, passwordEnv: ${SMTP_PASSWORD_ENV}, attempts: 2, backoffMs: 50, timeoutMs: 5000, allowPlainText: true }`,
-  ]));
+  writeFileSync(
+    join(dir, 'driftlight.yaml'),
+    configText([
+      '{ id: log, type: log }',
+      `{ id: lab-hook, type: webhook, url: "http://127.0.0.1:${hookPort}/qc", attempts: 2, backoffMs: 50, timeoutMs: 2000 }`,
+      `{ id: lab-mail, type: email, host: 127.0.0.1, port: ${smtpPort}, from: driftlight@lab.example, to: [qc@lab.example], username: qc-bot, passwordEnv: ${SMTP_PASSWORD_ENV}, attempts: 2, backoffMs: 50, timeoutMs: 5000, allowPlainText: true }`,
+    ]),
+  );
   process.env[SMTP_PASSWORD_ENV] = SMTP_PASSWORD;
   let nowMs = Date.parse(replayTime(0, '06:00'));
   const clock = (): Date => new Date(nowMs);
@@ -137,8 +144,18 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
   const stop = new Promise<string>((resolve) => (stopWatch = resolve));
   let onReady: (pipeline: Pipeline) => void = () => undefined;
   const ready = new Promise<Pipeline>((resolve) => (onReady = resolve));
-  const done = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, { clock, clockCheckIntervalMs: 20, tickIntervalMs: 20, onReady });
-  const pipeline = await Promise.race([ready, done.then((): never => { throw new Error('watch ended before it was ready'); })]);
+  const done = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, {
+    clock,
+    clockCheckIntervalMs: 20,
+    tickIntervalMs: 20,
+    onReady,
+  });
+  const pipeline = await Promise.race([
+    ready,
+    done.then((): never => {
+      throw new Error('watch ended before it was ready');
+    }),
+  ]);
   const { coordinator, stages, ledger } = pipeline;
   const idle = (): Promise<unknown> => Promise.all(stages.map((stage) => stage.idle?.()));
   const tickAt = async (iso: string): Promise<void> => {
@@ -160,8 +177,14 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
         nowMs = Date.parse(delivery.arriveAt);
         for (const file of delivery.files) writeFileSync(join(dir, 'inbox', file.name), file.content);
         written += delivery.files.length;
-        await waitUntil(`intake of ${delivery.arriveAt}`, () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written);
-        await waitUntil(`analyses of ${delivery.arriveAt}`, () => coordinator.pendingJobs === 0 && coordinator.openSetCount === 0);
+        await waitUntil(
+          `intake of ${delivery.arriveAt}`,
+          () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written,
+        );
+        await waitUntil(
+          `analyses of ${delivery.arriveAt}`,
+          () => coordinator.pendingJobs === 0 && coordinator.openSetCount === 0,
+        );
         await idle();
       }
       if (day === REPLAY.stepDay) {
@@ -181,8 +204,21 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
     }
     const undelivered = undeliveredAlerts(ledger);
     const flags = flagsOfControls(ledger);
-    const open = [...new Set(flags.filter((flag) => flag.open && flag.ruleId !== 'control-missing').map((flag) => `${flag.ruleId}|${flag.controlId}|${flag.metric}`))].sort();
-    return { flags, open, hook, mails, outage, undelivered: { pending: undelivered.pending, expired: undelivered.expired } };
+    const open = [
+      ...new Set(
+        flags
+          .filter((flag) => flag.open && flag.ruleId !== 'control-missing')
+          .map((flag) => `${flag.ruleId}|${flag.controlId}|${flag.metric}`),
+      ),
+    ].sort();
+    return {
+      flags,
+      open,
+      hook,
+      mails,
+      outage,
+      undelivered: { pending: undelivered.pending, expired: undelivered.expired },
+    };
   } finally {
     stopWatch('replay finished');
     await done;
@@ -195,7 +231,8 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
 async function replayThroughProcess(dir: string): Promise<{ flags: RecordedFlag[]; open: string[] }> {
   const backlog = join(dir, 'backlog');
   mkdirSync(backlog, { recursive: true });
-  for (const delivery of series.deliveries) for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
+  for (const delivery of series.deliveries)
+    for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
   writeFileSync(join(dir, 'driftlight.yaml'), configText(['{ id: log, type: log }']));
   mkdirSync(join(dir, 'inbox'), { recursive: true });
   const sink = new Writable({ write: (_chunk, _encoding, callback) => callback() });
@@ -204,7 +241,13 @@ async function replayThroughProcess(dir: string): Promise<{ flags: RecordedFlag[
   const ledger = openLedger(join(dir, 'state'));
   try {
     const flags = flagsOfControls(ledger);
-    const open = [...new Set(flags.filter((flag) => flag.open && flag.ruleId !== 'control-missing').map((flag) => `${flag.ruleId}|${flag.controlId}|${flag.metric}`))].sort();
+    const open = [
+      ...new Set(
+        flags
+          .filter((flag) => flag.open && flag.ruleId !== 'control-missing')
+          .map((flag) => `${flag.ruleId}|${flag.controlId}|${flag.metric}`),
+      ),
+    ].sort();
     return { flags, open };
   } finally {
     ledger.close();
@@ -224,7 +267,9 @@ describe('two months of a control through watch and process (issue 16, must-show
     const yieldsOf = (dir: string): string[] => {
       const ledger = openLedger(join(dir, 'state'));
       try {
-        return observationHistory(ledger).map((o) => `${o.acquiredAt} ${o.metrics.controlQuantumYield?.toFixed(4) ?? 'none'}`).sort();
+        return observationHistory(ledger)
+          .map((o) => `${o.acquiredAt} ${o.metrics.controlQuantumYield?.toFixed(4) ?? 'none'}`)
+          .sort();
       } finally {
         ledger.close();
       }
@@ -235,39 +280,72 @@ describe('two months of a control through watch and process (issue 16, must-show
     // the files) carries the flags the ledger holds now, though late results re-judged many of them
     // after they were written; the flags they had before are kept in qc.history.
     let revisedFiles = 0;
-    for (const { dir, flags } of [{ dir: watchDir, flags: watched.flags }, { dir: processDir, flags: processed.flags }]) {
+    for (const { dir, flags } of [
+      { dir: watchDir, flags: watched.flags },
+      { dir: processDir, flags: processed.flags },
+    ]) {
       const results = readResultFiles(join(dir, 'results')).filter((result) => result.role === 'control');
       expect(results.length).toBe(REPLAY.days + 1);
       for (const result of results) {
         const inFile = result.qc.flags.map((flag) => `${flag.rule}|${flag.severity}`).sort();
-        const inLedger = flags.filter((flag) => flag.setId === result.setId).map((flag) => `${flag.ruleId}:${flag.check}|${flag.severity}`).sort();
+        const inLedger = flags
+          .filter((flag) => flag.setId === result.setId)
+          .map((flag) => `${flag.ruleId}:${flag.check}|${flag.severity}`)
+          .sort();
         expect(inFile, result.setId).toEqual(inLedger);
         if (dir === watchDir && (result.qc.history ?? []).length > 0) revisedFiles += 1;
       }
       const exported = readSummaryRows(join(dir, 'results'), 0, Infinity).rows.filter((row) => row.role === 'control');
       for (const row of exported) {
-        const inLedger = flags.filter((flag) => flag.setId === row.setId).map((flag) => `${flag.ruleId}:${flag.check} (${flag.severity})`).sort();
-        expect(row.flags.filter((text) => /\((info|warning|critical)\)$/.test(text)).sort(), row.setId).toEqual(inLedger);
+        const inLedger = flags
+          .filter((flag) => flag.setId === row.setId)
+          .map((flag) => `${flag.ruleId}:${flag.check} (${flag.severity})`)
+          .sort();
+        expect(row.flags.filter((text) => /\((info|warning|critical)\)$/.test(text)).sort(), row.setId).toEqual(
+          inLedger,
+        );
       }
     }
     expect(revisedFiles).toBeGreaterThan(0);
-    console.log(`replay: ${revisedFiles} control result files re-judged after they were written (watch), each with qc.history`);
+    console.log(
+      `replay: ${revisedFiles} control result files re-judged after they were written (watch), each with qc.history`,
+    );
 
     // Identical flags (run flags; control-missing comes from the clock, which only `watch` has).
-    const watchFlags = watched.flags.filter((flag) => flag.setId !== '').map(signature).sort();
-    const processFlags = processed.flags.filter((flag) => flag.setId !== '').map(signature).sort();
+    const watchFlags = watched.flags
+      .filter((flag) => flag.setId !== '')
+      .map(signature)
+      .sort();
+    const processFlags = processed.flags
+      .filter((flag) => flag.setId !== '')
+      .map(signature)
+      .sort();
     expect(watchFlags.length).toBeGreaterThan(20);
     expect(processFlags).toEqual(watchFlags);
     expect(processed.open).toEqual(watched.open);
 
     // First alarm of each fault, in days from its first affected run (docs/qc.md, "Run lengths and drift detection").
     const firstDay = (from: number, predicate: (flag: RecordedFlag) => boolean): number =>
-      Math.min(...watched.flags.filter((flag) => dayOf(flag.acquiredAt) >= from && predicate(flag)).map((flag) => dayOf(flag.acquiredAt))) - from + 1;
-    const yieldDrift = firstDay(REPLAY.driftStartDay, (flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical');
+      Math.min(
+        ...watched.flags
+          .filter((flag) => dayOf(flag.acquiredAt) >= from && predicate(flag))
+          .map((flag) => dayOf(flag.acquiredAt)),
+      ) -
+      from +
+      1;
+    const yieldDrift = firstDay(
+      REPLAY.driftStartDay,
+      (flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical',
+    );
     const sensitivityDrift = firstDay(REPLAY.driftStartDay, (flag) => flag.metric === 'intensityPerAbsorbedLight');
-    const step = firstDay(REPLAY.stepDay, (flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical');
-    console.log(`replay: first critical yield flag on drift day ${yieldDrift}, first intensity flag on drift day ${sensitivityDrift}, step flagged on its day ${step}; ` +
-      `${watchFlags.length} run flags identical; outage: ${watched.outage.pendingDuring} deliveries waiting, ${watched.outage.hookAfter} webhook and ${watched.outage.mailAfter} mails delivered after it`);
+    const step = firstDay(
+      REPLAY.stepDay,
+      (flag) => flag.metric === 'controlQuantumYield' && flag.severity === 'critical',
+    );
+    console.log(
+      `replay: first critical yield flag on drift day ${yieldDrift}, first intensity flag on drift day ${sensitivityDrift}, step flagged on its day ${step}; ` +
+        `${watchFlags.length} run flags identical; outage: ${watched.outage.pendingDuring} deliveries waiting, ${watched.outage.hookAfter} webhook and ${watched.outage.mailAfter} mails delivered after it`,
+    );
     expect(yieldDrift).toBeLessThanOrEqual(8); // p90 of the −0.5 %/day drift at 1.5 % CV: 8 days
     expect(sensitivityDrift).toBeLessThanOrEqual(4); // max of the −1.5 %/day loss at 1 % CV: 4 days
     expect(step).toBe(1); // a 5 SD step: 1-3s on its first run
@@ -275,12 +353,21 @@ describe('two months of a control through watch and process (issue 16, must-show
     // No false recovery: the yield stays 5 SD low and the sensitivity 22 % low, so neither is ever
     // announced back in control after its fault began (the re-export of day 10 on day 58 included).
     // (control-missing is cleared, rightly, when a late control arrives: not a recovery of a level.)
-    const recoveries = watched.hook.filter((alert) => alert['type'] === 'recovery' && alert['ruleId'] !== 'control-missing');
-    const falseRecoveries = recoveries.filter((alert) =>
-      (alert['metric'] === 'controlQuantumYield' && dayOf(String(alert['acquiredAt'])) >= REPLAY.stepDay) ||
-      (alert['metric'] === 'intensityPerAbsorbedLight' && dayOf(String(alert['acquiredAt'])) >= REPLAY.driftStartDay));
+    const recoveries = watched.hook.filter(
+      (alert) => alert['type'] === 'recovery' && alert['ruleId'] !== 'control-missing',
+    );
+    const falseRecoveries = recoveries.filter(
+      (alert) =>
+        (alert['metric'] === 'controlQuantumYield' && dayOf(String(alert['acquiredAt'])) >= REPLAY.stepDay) ||
+        (alert['metric'] === 'intensityPerAbsorbedLight' && dayOf(String(alert['acquiredAt'])) >= REPLAY.driftStartDay),
+    );
     expect(falseRecoveries).toEqual([]);
-    expect(watched.open).toEqual(expect.arrayContaining(['yield-westgard|teal|controlQuantumYield', 'intensity-cusum|teal|intensityPerAbsorbedLight']));
+    expect(watched.open).toEqual(
+      expect.arrayContaining([
+        'yield-westgard|teal|controlQuantumYield',
+        'intensity-cusum|teal|intensityPerAbsorbedLight',
+      ]),
+    );
 
     // No alert lost while the receivers were down: deliveries waited in the outbox, arrived after the
     // outage, and at the end nothing is pending or expired; the webhook and the mailbox got the same alerts.
@@ -289,7 +376,12 @@ describe('two months of a control through watch and process (issue 16, must-show
     expect(watched.outage.mailAfter).toBe(watched.outage.hookAfter);
     expect(watched.undelivered).toEqual({ pending: 0, expired: 0 });
     expect(watched.mails.length).toBe(watched.hook.length);
-    const stepAlerts = watched.hook.filter((alert) => alert['type'] === 'flag' && alert['metric'] === 'controlQuantumYield' && dayOf(String(alert['acquiredAt'])) === REPLAY.stepDay);
+    const stepAlerts = watched.hook.filter(
+      (alert) =>
+        alert['type'] === 'flag' &&
+        alert['metric'] === 'controlQuantumYield' &&
+        dayOf(String(alert['acquiredAt'])) === REPLAY.stepDay,
+    );
     expect(stepAlerts.length).toBeGreaterThan(0);
   }, 600_000);
 });

@@ -13,7 +13,13 @@ describe('driftlight quench', () => {
     const run = runDriftlight(['quench', join(REPO_ROOT, 'test/fixtures/spectra/quench-dynamic.csv'), '--json']);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
-    const result = JSON.parse(run.stdout) as { ksvPerM: number; kdPerM: number; kqPerMPerS: number; mechanism: string; exceedsDiffusionLimit: boolean };
+    const result = JSON.parse(run.stdout) as {
+      ksvPerM: number;
+      kdPerM: number;
+      kqPerMPerS: number;
+      mechanism: string;
+      exceedsDiffusionLimit: boolean;
+    };
     expect(result.ksvPerM).toBeCloseTo(20, 0);
     expect(result.kdPerM).toBeCloseTo(20, 0);
     expect(result.kqPerMPerS / 5e9).toBeCloseTo(1, 1);
@@ -23,7 +29,15 @@ describe('driftlight quench', () => {
 
   it('flags k_q above the diffusion limit from an intensity series with τ0 in the header', () => {
     const path = join(dir, 'fast.csv');
-    writeFileSync(path, ['# solvent: water', '# tau0_ns: 4.0', 'quencher_M;intensity', ...[0, 0.01, 0.02, 0.03].map((q) => `${q};${1000 / (1 + 100 * q)}`)].join('\n'));
+    writeFileSync(
+      path,
+      [
+        '# solvent: water',
+        '# tau0_ns: 4.0',
+        'quencher_M;intensity',
+        ...[0, 0.01, 0.02, 0.03].map((q) => `${q};${1000 / (1 + 100 * q)}`),
+      ].join('\n'),
+    );
     const run = runDriftlight(['quench', path]);
     expect(run.status).toBe(0);
     expect(run.stdout).toMatch(/exceeds the diffusion limit/);

@@ -10,7 +10,14 @@ import { afterEach, beforeEach, expect, it } from 'vitest';
 import { createJobQueue, type QueueBackendOptions } from '../../src/queue/index.js';
 import { cleanupQueue, describeRedis, randomPrefix, REDIS_URL } from '../helpers/redis.js';
 import { numericWork } from '../fixtures/queue/compute.mjs';
-import { COMPUTE_PROCESSOR, outcomeRecorder, waitFor, type ComputePayload, type ComputeQueue, type ComputeResult } from '../unit/queue/contract.js';
+import {
+  COMPUTE_PROCESSOR,
+  outcomeRecorder,
+  waitFor,
+  type ComputePayload,
+  type ComputeQueue,
+  type ComputeResult,
+} from '../unit/queue/contract.js';
 import { freePort, killHard, spawnWorker, startRedisServer, type WorkerProcess } from './queue-processes.js';
 
 const QUEUE_NAME = 'faults';
@@ -72,7 +79,11 @@ describeRedis('BullMQ faults with real processes', () => {
     await second.waitForLine((line) => line.event === 'worker.started', 15_000, 'start');
     expect(await first.stop('SIGKILL')).toBe('SIGKILL');
 
-    await second.waitForLine((line) => line.event === 'job.completed' && line.jobId === 'victim', 30_000, 'recovered job');
+    await second.waitForLine(
+      (line) => line.event === 'job.completed' && line.jobId === 'victim',
+      30_000,
+      'recovered job',
+    );
     await queue.drain();
     const starts = executions(logFile, 'victim', 'start');
     expect(starts).toHaveLength(2);
@@ -161,13 +172,17 @@ describeRedis('BullMQ faults with real processes', () => {
     for (const w of [first, second]) await w.waitForLine((line) => line.event === 'worker.started', 15_000, 'start');
     const count = 200;
     // 10 ms of sleep per job keeps both workers busy (without it one worker can drain the queue alone)
-    for (let n = 0; n < count; n += 1) await queue.enqueue(`bulk-${n}`, { id: `bulk-${n}`, n, iterations: 20_000, sleepMs: 10 });
+    for (let n = 0; n < count; n += 1)
+      await queue.enqueue(`bulk-${n}`, { id: `bulk-${n}`, n, iterations: 20_000, sleepMs: 10 });
     await queue.drain();
 
     expect(committed.byId.size).toBe(count);
     for (let n = 0; n < count; n += 1) {
       expect(committed.deliveries.get(`bulk-${n}`)).toBe(1);
-      expect(committed.byId.get(`bulk-${n}`)).toMatchObject({ status: 'completed', value: { n, square: n * n, work: numericWork(n, 20_000) } });
+      expect(committed.byId.get(`bulk-${n}`)).toMatchObject({
+        status: 'completed',
+        value: { n, square: n * n, work: numericWork(n, 20_000) },
+      });
     }
     const completedBy = (w: WorkerProcess): number => w.lines.filter((line) => line.event === 'job.completed').length;
     expect(completedBy(first) + completedBy(second)).toBe(count);

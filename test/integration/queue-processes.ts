@@ -33,15 +33,24 @@ export function spawnWorker(options: {
   heartbeatMs?: number;
 }): WorkerProcess {
   const args = [
-    CLI_PATH, 'worker',
-    '--redis', options.redisUrl,
-    '--prefix', options.prefix,
-    '--queue', options.queue,
-    '--concurrency', String(options.concurrency),
-    '--processor', options.processor ?? COMPUTE_PROCESSOR_PATH,
-    '--lock-duration-ms', '1000',
-    '--stalled-interval-ms', '500',
-    '--heartbeat-ms', String(options.heartbeatMs ?? 0),
+    CLI_PATH,
+    'worker',
+    '--redis',
+    options.redisUrl,
+    '--prefix',
+    options.prefix,
+    '--queue',
+    options.queue,
+    '--concurrency',
+    String(options.concurrency),
+    '--processor',
+    options.processor ?? COMPUTE_PROCESSOR_PATH,
+    '--lock-duration-ms',
+    '1000',
+    '--stalled-interval-ms',
+    '500',
+    '--heartbeat-ms',
+    String(options.heartbeatMs ?? 0),
   ];
   const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'] });
   const lines: WorkerLogLine[] = [];
@@ -64,7 +73,9 @@ export function spawnWorker(options: {
   child.stderr?.setEncoding('utf8').on('data', (chunk: string) => {
     stderr += chunk;
   });
-  const exited = new Promise<number | string>((resolve) => child.once('exit', (code, signal) => resolve(code ?? signal ?? 'unknown')));
+  const exited = new Promise<number | string>((resolve) =>
+    child.once('exit', (code, signal) => resolve(code ?? signal ?? 'unknown')),
+  );
   return {
     child,
     lines,
@@ -72,7 +83,10 @@ export function spawnWorker(options: {
       const seen = lines.find(match);
       if (seen !== undefined) return Promise.resolve(seen);
       return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`worker ${child.pid}: no ${what} within ${timeoutMs} ms; stderr: ${stderr}`)), timeoutMs);
+        const timer = setTimeout(
+          () => reject(new Error(`worker ${child.pid}: no ${what} within ${timeoutMs} ms; stderr: ${stderr}`)),
+          timeoutMs,
+        );
         waiters.push({ match, resolve: (line) => (clearTimeout(timer), resolve(line)) });
       });
     },
@@ -100,7 +114,22 @@ export async function freePort(): Promise<number> {
 export async function startRedisServer(port: number, dir: string): Promise<ChildProcess> {
   const child = spawn(
     '/usr/bin/redis-server',
-    ['--port', String(port), '--bind', '127.0.0.1', '--appendonly', 'yes', '--appendfsync', 'always', '--dir', dir, '--save', '', '--maxmemory-policy', 'noeviction'],
+    [
+      '--port',
+      String(port),
+      '--bind',
+      '127.0.0.1',
+      '--appendonly',
+      'yes',
+      '--appendfsync',
+      'always',
+      '--dir',
+      dir,
+      '--save',
+      '',
+      '--maxmemory-policy',
+      'noeviction',
+    ],
     { stdio: ['ignore', 'pipe', 'pipe'] },
   );
   await new Promise<void>((resolve, reject) => {

@@ -8,14 +8,26 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { createJobQueue } from '../../src/queue/index.js';
 import { runDriftlight } from '../helpers/cli.js';
 import { cleanupQueue, describeRedis, randomPrefix, REDIS_URL } from '../helpers/redis.js';
-import { COMPUTE_PROCESSOR, outcomeRecorder, type ComputePayload, type ComputeQueue, type ComputeResult } from '../unit/queue/contract.js';
+import {
+  COMPUTE_PROCESSOR,
+  outcomeRecorder,
+  type ComputePayload,
+  type ComputeQueue,
+  type ComputeResult,
+} from '../unit/queue/contract.js';
 import { spawnWorker, type WorkerProcess } from './queue-processes.js';
 
 const QUEUE_NAME = 'cli';
 
 describe('driftlight worker (no Redis needed)', () => {
   it('exits with the usage code and names the file when the processor is missing', () => {
-    const run = runDriftlight(['worker', '--processor', '/nonexistent/analyze-job.js', '--redis', 'redis://127.0.0.1:1']);
+    const run = runDriftlight([
+      'worker',
+      '--processor',
+      '/nonexistent/analyze-job.js',
+      '--redis',
+      'redis://127.0.0.1:1',
+    ]);
     expect(run.status).toBe(2);
     expect(run.stderr).toContain('CONFIG_INVALID');
     expect(run.stderr).toContain('/nonexistent/analyze-job.js');
@@ -37,7 +49,14 @@ describeRedis('driftlight worker process', () => {
   beforeEach(() => {
     prefix = randomPrefix();
     tempDir = mkdtempSync(join(tmpdir(), 'driftlight-worker-cli-'));
-    queue = createJobQueue<ComputePayload, ComputeResult>({ backend: 'bullmq', processorFile: COMPUTE_PROCESSOR, redisUrl: REDIS_URL, prefix, queueName: QUEUE_NAME, outcomeSweepMs: 500 });
+    queue = createJobQueue<ComputePayload, ComputeResult>({
+      backend: 'bullmq',
+      processorFile: COMPUTE_PROCESSOR,
+      redisUrl: REDIS_URL,
+      prefix,
+      queueName: QUEUE_NAME,
+      outcomeSweepMs: 500,
+    });
   });
   afterEach(async () => {
     await queue?.close();

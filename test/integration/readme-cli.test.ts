@@ -45,13 +45,18 @@ describe('README command reference', () => {
     expect([...fromReadme].sort()).toEqual([...fromHelp].sort());
   });
 
-  it.each(rows.map((row) => [row.words.join(' '), row] as const))('`%s`: its subcommands and options exist in its --help', (_name, row) => {
-    const [command, sub] = row.words;
-    const subcommands = sub === undefined ? [] : sub.split('|');
-    const help = runDriftlight([command ?? '', '--help']);
-    expect(help.status).toBe(0);
-    if (subcommands.length > 0) expect(helpCommands(help.stdout)).toEqual(expect.arrayContaining(subcommands));
-    const texts = [help.stdout, ...subcommands.map((s) => runDriftlight([command ?? '', s, '--help']).stdout)].join('\n');
-    for (const option of row.options) expect(texts, `${option} in ${row.words.join(' ')} --help`).toContain(option);
-  });
+  it.each(rows.map((row) => [row.words.join(' '), row] as const))(
+    '`%s`: its subcommands and options exist in its --help',
+    (_name, row) => {
+      const [command, sub] = row.words;
+      const subcommands = sub === undefined ? [] : sub.split('|');
+      const help = runDriftlight([command ?? '', '--help']);
+      expect(help.status).toBe(0);
+      if (subcommands.length > 0) expect(helpCommands(help.stdout)).toEqual(expect.arrayContaining(subcommands));
+      const texts = [help.stdout, ...subcommands.map((s) => runDriftlight([command ?? '', s, '--help']).stdout)].join(
+        '\n',
+      );
+      for (const option of row.options) expect(texts, `${option} in ${row.words.join(' ')} --help`).toContain(option);
+    },
+  );
 });

@@ -20,7 +20,11 @@ function blockAfter(marker: string, language: string): string {
 
 /** Splits a shell line into words (the README examples use no quoting). */
 function words(line: string): string[] {
-  return line.replace(/#.*$/, '').trim().split(/\s+/).filter((word) => word.length > 0);
+  return line
+    .replace(/#.*$/, '')
+    .trim()
+    .split(/\s+/)
+    .filter((word) => word.length > 0);
 }
 
 describe('README', () => {
@@ -64,17 +68,25 @@ describe('README', () => {
     const emission = join(inbox, 'run0314-a.csv');
     const scaled = readFileSync(emission, 'utf8')
       .split('\n')
-      .map((line) => (/^\d+(\.\d+)?,[\d.]+$/.test(line) ? `${line.split(',')[0]},${(Number(line.split(',')[1]) * 0.7).toFixed(3)}` : line))
+      .map((line) =>
+        /^\d+(\.\d+)?,[\d.]+$/.test(line)
+          ? `${line.split(',')[0]},${(Number(line.split(',')[1]) * 0.7).toFixed(3)}`
+          : line,
+      )
       .join('\n');
     writeFileSync(emission, scaled);
     const file = join(folder, 'driftlight.yaml');
     writeFileSync(file, config.replace('/data/fluorometer-exports', inbox));
     const check = runDriftlight(['config', 'check', '--config', file]);
-    expect(check.stdout).toMatch(/teal {2}match: sampleIdPattern \^CTRL-teal\n.*targets: controlQuantumYield 0\.8 ± 0\.03.*\n\s+judged by: yield-westgard/);
+    expect(check.stdout).toMatch(
+      /teal {2}match: sampleIdPattern \^CTRL-teal\n.*targets: controlQuantumYield 0\.8 ± 0\.03.*\n\s+judged by: yield-westgard/,
+    );
     expect(check.stdout).not.toContain('warning:');
     runDriftlight(['process', '--config', file, inbox]);
     const resultsDir = join(folder, 'results');
-    const controlFile = readdirSync(resultsDir, { recursive: true, encoding: 'utf8' }).find((name) => /CTRL-teal-0314.*\.json$/.test(name));
+    const controlFile = readdirSync(resultsDir, { recursive: true, encoding: 'utf8' }).find((name) =>
+      /CTRL-teal-0314.*\.json$/.test(name),
+    );
     expect(controlFile).toBeDefined();
     const result = JSON.parse(readFileSync(join(resultsDir, controlFile ?? ''), 'utf8')) as {
       quantumYield?: { value: number };

@@ -24,11 +24,39 @@ const CONTROL_YIELD = 0.8;
 function session(day: number, sensitivity: number, seed: number): { reference: ReplayFile[]; control: ReplayFile[] } {
   const random = createSeededRandom(seed);
   const stamp = replayTime(day, '00:00').slice(5, 10).replace('-', '');
-  const ref = measuredFiles({ sampleId: `REF-R6G-${stamp}`, acquiredAt: replayTime(day, '07:50'), quantumYield: REFERENCE_YIELD, absorbance: 0.05, peakNm: 552, bandPeakNm: 528, sensitivity }, random);
-  const ctl = measuredFiles({ sampleId: `CTRL-teal-${stamp}`, acquiredAt: replayTime(day, '08:10'), quantumYield: CONTROL_YIELD, absorbance: 0.05, peakNm: 540, bandPeakNm: 516, sensitivity }, random);
+  const ref = measuredFiles(
+    {
+      sampleId: `REF-R6G-${stamp}`,
+      acquiredAt: replayTime(day, '07:50'),
+      quantumYield: REFERENCE_YIELD,
+      absorbance: 0.05,
+      peakNm: 552,
+      bandPeakNm: 528,
+      sensitivity,
+    },
+    random,
+  );
+  const ctl = measuredFiles(
+    {
+      sampleId: `CTRL-teal-${stamp}`,
+      acquiredAt: replayTime(day, '08:10'),
+      quantumYield: CONTROL_YIELD,
+      absorbance: 0.05,
+      peakNm: 540,
+      bandPeakNm: 516,
+      sensitivity,
+    },
+    random,
+  );
   return {
-    reference: [{ name: `REF-R6G-${stamp}_em.csv`, content: ref.em }, { name: `REF-R6G-${stamp}_abs.jdx`, content: ref.abs }],
-    control: [{ name: `CTRL-teal-${stamp}_em.csv`, content: ctl.em }, { name: `CTRL-teal-${stamp}_abs.jdx`, content: ctl.abs }],
+    reference: [
+      { name: `REF-R6G-${stamp}_em.csv`, content: ref.em },
+      { name: `REF-R6G-${stamp}_abs.jdx`, content: ref.abs },
+    ],
+    control: [
+      { name: `CTRL-teal-${stamp}_em.csv`, content: ctl.em },
+      { name: `CTRL-teal-${stamp}_abs.jdx`, content: ctl.abs },
+    ],
   };
 }
 
@@ -70,7 +98,11 @@ async function waitUntil(what: string, condition: () => boolean, timeoutMs = 20_
 
 /** The control results by sample id (the newest file of each set). */
 function controlResults(dir: string): Map<string, AnalysisResult> {
-  return new Map(readResultFiles(join(dir, 'results')).filter((r) => r.role === 'control').map((r) => [r.sampleId, r]));
+  return new Map(
+    readResultFiles(join(dir, 'results'))
+      .filter((r) => r.role === 'control')
+      .map((r) => [r.sampleId, r]),
+  );
 }
 
 async function throughWatch(dir: string): Promise<Map<string, AnalysisResult>> {
@@ -81,11 +113,24 @@ async function throughWatch(dir: string): Promise<Map<string, AnalysisResult>> {
   const stop = new Promise<string>((resolve) => (stopWatch = resolve));
   let onReady: (pipeline: Pipeline) => void = () => undefined;
   const ready = new Promise<Pipeline>((resolve) => (onReady = resolve));
-  const done = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, { clock: () => new Date(nowMs), clockCheckIntervalMs: 20, tickIntervalMs: 20, onReady });
-  const { coordinator } = await Promise.race([ready, done.then((): never => { throw new Error('watch ended before it was ready'); })]);
+  const done = runWatch({ config: join(dir, 'driftlight.yaml') }, stop, {
+    clock: () => new Date(nowMs),
+    clockCheckIntervalMs: 20,
+    tickIntervalMs: 20,
+    onReady,
+  });
+  const { coordinator } = await Promise.race([
+    ready,
+    done.then((): never => {
+      throw new Error('watch ended before it was ready');
+    }),
+  ]);
   let written = 0;
   const settled = async (what: string): Promise<void> => {
-    await waitUntil(`intake of ${what}`, () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written);
+    await waitUntil(
+      `intake of ${what}`,
+      () => coordinator.counts.filesAccepted + coordinator.counts.filesRejected >= written,
+    );
     await new Promise((r) => setTimeout(r, 100)); // a few ticks (every 20 ms)
     await waitUntil(`analyses of ${what}`, () => coordinator.pendingJobs === 0);
   };
@@ -111,9 +156,14 @@ async function throughWatch(dir: string): Promise<Map<string, AnalysisResult>> {
 async function throughProcess(dir: string): Promise<Map<string, AnalysisResult>> {
   const backlog = join(dir, 'backlog');
   mkdirSync(backlog, { recursive: true });
-  for (const delivery of deliveries) for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
+  for (const delivery of deliveries)
+    for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
   writeFileSync(join(dir, 'driftlight.yaml'), configText());
-  await runBatch([backlog], { config: join(dir, 'driftlight.yaml') }, new Writable({ write: (_c, _e, callback) => callback() }));
+  await runBatch(
+    [backlog],
+    { config: join(dir, 'driftlight.yaml') },
+    new Writable({ write: (_c, _e, callback) => callback() }),
+  );
   return controlResults(dir);
 }
 
@@ -129,7 +179,9 @@ describe('a control waits for the reference of its session (issue 16.4)', () => 
       expect(got?.quantumYield?.value, sampleId).toBe(expected.quantumYield?.value);
       // The same reference measurement (set ids end in the hash of whichever file came first, so compare the sample id).
       const referenceOf = (result: AnalysisResult | undefined): string | undefined =>
-        result?.provenance.inputs.find((input) => input.part === 'reference-emission')?.pairedFromSetId?.replace(/-[0-9a-f]{12}$/, '');
+        result?.provenance.inputs
+          .find((input) => input.part === 'reference-emission')
+          ?.pairedFromSetId?.replace(/-[0-9a-f]{12}$/, '');
       expect(referenceOf(got), sampleId).toBe(referenceOf(expected));
       expect(referenceOf(got), sampleId).toBe(sampleId.replace('CTRL-teal', 'REF-R6G'));
     }

@@ -39,7 +39,10 @@ describe('driftlight rules check', () => {
 
   it('exits 2 naming the file, line and config path of an invalid rule', () => {
     const file = join(workDir, 'bad.yaml');
-    writeFileSync(file, 'controls: []\nrules:\n  - id: e\n    metric: controlQuantumYield\n    scope: instrument\n    kind: ewma\n    severity: warning\n    lambda: 1.5\n');
+    writeFileSync(
+      file,
+      'controls: []\nrules:\n  - id: e\n    metric: controlQuantumYield\n    scope: instrument\n    kind: ewma\n    severity: warning\n    lambda: 1.5\n',
+    );
     const run = runDriftlight(['rules', 'check', file]);
     expect(run.status).toBe(2);
     expect(run.stderr).toContain(`${file}:8: CONFIG_INVALID: rules[0].lambda: expected a number between 0 and 1`);
@@ -61,24 +64,56 @@ describe('driftlight rules simulate', () => {
   writeResults(resultsDir, results);
 
   it('lists the alerts that would have fired, in time order, with recoveries and a missing control', () => {
-    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml', '--config', controlsConfig]);
+    const run = runDriftlight([
+      'rules',
+      'simulate',
+      '--history',
+      resultsDir,
+      '--rules',
+      'rules/default.yaml',
+      '--config',
+      controlsConfig,
+    ]);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
     const lines = run.stdout.trim().split('\n');
     expect(lines[0]).toMatch(/^replayed 23 QC observation\(s\)/);
     const westgard = lines.find((line) => line.includes('yield-westgard 1-3s'));
     // mean 0.925, SD 0.00785 of BASELINE_YIELDS (computed) → 0.900 is 3.2 SD below.
-    expect(westgard).toBe('2026-03-22T08:00:00.000Z  CRITICAL  yield-westgard 1-3s  fluorescein-daily  control yield 0.900 is 3.2 SD below baseline mean 0.925 (1-3s).');
+    expect(westgard).toBe(
+      '2026-03-22T08:00:00.000Z  CRITICAL  yield-westgard 1-3s  fluorescein-daily  control yield 0.900 is 3.2 SD below baseline mean 0.925 (1-3s).',
+    );
     expect(lines.some((line) => line.startsWith('2026-03-23T08:00:00.000Z  RECOVERED yield-westgard'))).toBe(true);
-    expect(lines.some((line) => line.includes('No fluorescein-daily control result (control yield) by 10:00 (UTC) on 2026-03-24.'))).toBe(true);
+    expect(
+      lines.some((line) =>
+        line.includes('No fluorescein-daily control result (control yield) by 10:00 (UTC) on 2026-03-24.'),
+      ),
+    ).toBe(true);
     expect(lines.filter((line) => line.includes('control-missing'))).toHaveLength(1);
   });
 
   it('--json prints one alert object per line', () => {
-    const run = runDriftlight(['rules', 'simulate', '--history', resultsDir, '--rules', 'rules/default.yaml', '--config', controlsConfig, '--json']);
+    const run = runDriftlight([
+      'rules',
+      'simulate',
+      '--history',
+      resultsDir,
+      '--rules',
+      'rules/default.yaml',
+      '--config',
+      controlsConfig,
+      '--json',
+    ]);
     expect(run.status).toBe(0);
-    const alerts = run.stdout.trim().split('\n').map((line) => JSON.parse(line) as { type: string; ruleId: string; check: string; setId: string });
-    expect(alerts.find((alert) => alert.check === '1-3s')).toMatchObject({ type: 'flag', ruleId: 'yield-westgard', setId: 'ctrl-020' });
+    const alerts = run.stdout
+      .trim()
+      .split('\n')
+      .map((line) => JSON.parse(line) as { type: string; ruleId: string; check: string; setId: string });
+    expect(alerts.find((alert) => alert.check === '1-3s')).toMatchObject({
+      type: 'flag',
+      ruleId: 'yield-westgard',
+      setId: 'ctrl-020',
+    });
     expect(alerts.some((alert) => alert.type === 'recovery')).toBe(true);
   });
 });
@@ -96,7 +131,19 @@ describe('driftlight rules rebaseline', () => {
     }
     ledger.close();
 
-    const run = runDriftlight(['rules', 'rebaseline', 'fluorescein-daily', '--from', '2026-04-01', '--config', configFile, '--comment', 'new lamp', '--by', 'tester']);
+    const run = runDriftlight([
+      'rules',
+      'rebaseline',
+      'fluorescein-daily',
+      '--from',
+      '2026-04-01',
+      '--config',
+      configFile,
+      '--comment',
+      'new lamp',
+      '--by',
+      'tester',
+    ]);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
     // 2026-04-01 is day 30: the shifted runs, mean 0.925 − 0.02 = 0.905 (computed from BASELINE_YIELDS).
@@ -110,7 +157,17 @@ describe('driftlight rules rebaseline', () => {
   });
 
   it('exits 2 for an unknown control', () => {
-    const run = runDriftlight(['rules', 'rebaseline', 'no-such-control', '--from', '2026-04-01', '--config', join(workDir, 'driftlight.yaml'), '--comment', 'x']);
+    const run = runDriftlight([
+      'rules',
+      'rebaseline',
+      'no-such-control',
+      '--from',
+      '2026-04-01',
+      '--config',
+      join(workDir, 'driftlight.yaml'),
+      '--comment',
+      'x',
+    ]);
     expect(run.status).toBe(2);
     expect(run.stderr).toContain('no control "no-such-control"');
   });
@@ -136,12 +193,38 @@ describe('alarm handling (issue 16.7)', () => {
     for (const result of results) await stage.apply(result, { ledger, now: new Date(result.acquiredAt ?? 0) });
     ledger.close();
 
-    const ack = runDriftlight(['rules', 'ack', 'ctrl-020', '--rule', 'yield-westgard', '--comment', 'air bubble in the cuvette', '--by', 'dana', '--config', configFile]);
+    const ack = runDriftlight([
+      'rules',
+      'ack',
+      'ctrl-020',
+      '--rule',
+      'yield-westgard',
+      '--comment',
+      'air bubble in the cuvette',
+      '--by',
+      'dana',
+      '--config',
+      configFile,
+    ]);
     expect(ack.stderr).toBe('');
-    expect(ack.stdout).toMatch(/^acknowledged [1-9]\d* flag\(s\) of run ctrl-020 \(fluorescein-daily\) by dana: air bubble in the cuvette/);
-    const exclude = runDriftlight(['rules', 'exclude', 'ctrl-020', '--comment', 'bad cuvette', '--by', 'dana', '--config', configFile]);
+    expect(ack.stdout).toMatch(
+      /^acknowledged [1-9]\d* flag\(s\) of run ctrl-020 \(fluorescein-daily\) by dana: air bubble in the cuvette/,
+    );
+    const exclude = runDriftlight([
+      'rules',
+      'exclude',
+      'ctrl-020',
+      '--comment',
+      'bad cuvette',
+      '--by',
+      'dana',
+      '--config',
+      configFile,
+    ]);
     expect(exclude.status).toBe(0);
-    expect(exclude.stdout).toContain('excluded run ctrl-020 (fluorescein-daily, acquired 2026-03-22T08:00:00.000Z) by dana: bad cuvette');
+    expect(exclude.stdout).toContain(
+      'excluded run ctrl-020 (fluorescein-daily, acquired 2026-03-22T08:00:00.000Z) by dana: bad cuvette',
+    );
 
     const reopened = openLedger(stateDir);
     const stillOpen = openFlags(reopened, ['fluorescein-daily']).filter((flag) => flag.ruleId === 'yield-westgard');
@@ -152,18 +235,40 @@ describe('alarm handling (issue 16.7)', () => {
     expect(simulate.stderr).toBe('');
     const lines = simulate.stdout.trim().split('\n');
     expect(lines[0]).toMatch(/^replayed 20 QC observation\(s\) \(1 excluded\)/);
-    expect(lines).toContainEqual(expect.stringMatching(/ACKNOWLEDGE fluorescein-daily {2}run ctrl-020, flag yield-westgard {2}by dana: air bubble in the cuvette$/));
-    expect(lines).toContainEqual(expect.stringMatching(/EXCLUDE +fluorescein-daily {2}run ctrl-020 {2}by dana: bad cuvette$/));
+    expect(lines).toContainEqual(
+      expect.stringMatching(
+        /ACKNOWLEDGE fluorescein-daily {2}run ctrl-020, flag yield-westgard {2}by dana: air bubble in the cuvette$/,
+      ),
+    );
+    expect(lines).toContainEqual(
+      expect.stringMatching(/EXCLUDE +fluorescein-daily {2}run ctrl-020 {2}by dana: bad cuvette$/),
+    );
     // control-missing judged in the config's zone, and its repeats summarised in one line.
     const missing = lines.filter((line) => line.includes('control-missing'));
     expect(missing).toHaveLength(1);
-    expect(missing[0]).toMatch(/control missing {2}fluorescein-daily {2}no control result by the due time on 14 days, 2026-03-02 to 2026-03-19/);
+    expect(missing[0]).toMatch(
+      /control missing {2}fluorescein-daily {2}no control result by the due time on 14 days, 2026-03-02 to 2026-03-19/,
+    );
   });
 
   it('rebaseline tells the truth when a target is declared, and records who and why', () => {
-    const run = runDriftlight(['rules', 'rebaseline', 'fluorescein-daily', '--from', '2026-03-02', '--comment', 'new lamp', '--by', 'dana', '--config', configFile]);
+    const run = runDriftlight([
+      'rules',
+      'rebaseline',
+      'fluorescein-daily',
+      '--from',
+      '2026-03-02',
+      '--comment',
+      'new lamp',
+      '--by',
+      'dana',
+      '--config',
+      configFile,
+    ]);
     expect(run.stderr).toBe('');
-    expect(run.stdout).toContain('fluorescein-daily mean lifetime: not rebaselined — the config declares target 4 ± 0.1, which the charts keep judging against');
+    expect(run.stdout).toContain(
+      'fluorescein-daily mean lifetime: not rebaselined — the config declares target 4 ± 0.1, which the charts keep judging against',
+    );
     // The yield has no declared target: its baseline is computed from the 20 runs (ctrl-020 excluded).
     expect(run.stdout).toMatch(/fluorescein-daily control yield: baseline mean 0\.925, SD 0\.007847 from 20 runs/);
     expect(run.stdout).toContain('recorded: rebaseline by dana: new lamp');

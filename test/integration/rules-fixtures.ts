@@ -16,7 +16,13 @@ export function controlResult(dayIndex: number, quantumYield: number, sampleId =
     missing: [],
     spectra: {},
     corrections: [],
-    quantumYield: { value: quantumYield, standardUncertainty: 0.01, budget: [], standardId: 'quinine-hclo4', warnings: [] },
+    quantumYield: {
+      value: quantumYield,
+      standardUncertainty: 0.01,
+      budget: [],
+      standardId: 'quinine-hclo4',
+      warnings: [],
+    },
     warnings: [],
     qc: { flags: [] },
     provenance: { inputs: [], configHash: 'test', softwareVersion: '0.1.0', corrections: [], analyzedAt: acquiredAt },
@@ -25,7 +31,8 @@ export function controlResult(dayIndex: number, quantumYield: number, sampleId =
 
 /** Yields of 20 baseline days around 0.925 (SD ≈ 0.0103), fixed so tests are deterministic. */
 export const BASELINE_YIELDS = [
-  0.93, 0.92, 0.935, 0.915, 0.925, 0.94, 0.91, 0.928, 0.922, 0.931, 0.919, 0.926, 0.924, 0.933, 0.917, 0.927, 0.923, 0.936, 0.914, 0.925,
+  0.93, 0.92, 0.935, 0.915, 0.925, 0.94, 0.91, 0.928, 0.922, 0.931, 0.919, 0.926, 0.924, 0.933, 0.917, 0.927, 0.923,
+  0.936, 0.914, 0.925,
 ];
 
 /** Writes results as results/YYYY-MM-DD/SETID.json under `resultsDir`. */

@@ -10,13 +10,20 @@ import { createAlertDispatcher, createChannels, type AlertDispatcher } from '../
 import { createQcStage, loadRuleSetFile, withConfigControls } from '../../src/pipeline/qc-stage.js';
 import { openLedger } from '../../src/store/ledger.js';
 import { flagSignaturesOfSets } from '../../src/store/qc-order-store.js';
-import { ledgerAlertState, ledgerDeliveryRecorder, observationHistory, openFlags, recentDeliveries } from '../../src/store/qc-store.js';
+import {
+  ledgerAlertState,
+  ledgerDeliveryRecorder,
+  observationHistory,
+  openFlags,
+  recentDeliveries,
+} from '../../src/store/qc-store.js';
 import { memoryLogger } from '../unit/output/alerts/alert-fixtures.js';
 import { BASELINE_YIELDS, controlResult } from './rules-fixtures.js';
 
 const workDir = mkdtempSync(join(tmpdir(), 'driftlight-qc-stage-'));
 /** The shipped rules with the control defined once, as driftlight.yaml `controls` would (issue 16.1). */
-const ruleSetWithControl = () => withConfigControls(loadRuleSetFile(), [{ id: 'fluorescein-daily', sampleIdPattern: '^CTRL-FLU', baselineRuns: 20 }]);
+const ruleSetWithControl = () =>
+  withConfigControls(loadRuleSetFile(), [{ id: 'fluorescein-daily', sampleIdPattern: '^CTRL-FLU', baselineRuns: 20 }]);
 afterAll(() => rmSync(workDir, { recursive: true, force: true }));
 
 describe('QC result stage', () => {
@@ -37,7 +44,13 @@ describe('QC result stage', () => {
     const stage = createQcStage({
       ruleSet: ruleSetWithControl(),
       dispatcherFor: (forLedger) => {
-        dispatcher = createAlertDispatcher({ alerts, channels, state: ledgerAlertState(forLedger), recorder: ledgerDeliveryRecorder(forLedger), logger });
+        dispatcher = createAlertDispatcher({
+          alerts,
+          channels,
+          state: ledgerAlertState(forLedger),
+          recorder: ledgerDeliveryRecorder(forLedger),
+          logger,
+        });
         return dispatcher;
       },
     });
@@ -48,9 +61,13 @@ describe('QC result stage', () => {
       return written;
     };
 
-    for (const [day, value] of BASELINE_YIELDS.entries()) expect((await run(controlResult(day, value))).qc.flags).toEqual([]);
+    for (const [day, value] of BASELINE_YIELDS.entries())
+      expect((await run(controlResult(day, value))).qc.flags).toEqual([]);
     const flagged = await run(controlResult(20, 0.9));
-    expect(flagged.qc.flags.map((flag) => [flag.rule, flag.severity])).toContainEqual(['yield-westgard:1-3s', 'critical']);
+    expect(flagged.qc.flags.map((flag) => [flag.rule, flag.severity])).toContainEqual([
+      'yield-westgard:1-3s',
+      'critical',
+    ]);
     expect(openFlags(ledger, ['fluorescein-daily']).map((flag) => flag.ruleId)).toContain('yield-westgard');
 
     const calm = await run(controlResult(21, 0.926));
@@ -65,7 +82,9 @@ describe('QC result stage', () => {
     expect(openFlags(ledger, ['fluorescein-daily'])).toEqual([]);
 
     // Clock rule: no control on Tuesday 24 March by 10:00 UTC; flagged once, closed when one arrives.
-    expect(stage.checkClock(ledger, new Date('2026-03-24T10:30:00Z')).map((flag) => flag.ruleId)).toEqual(['control-missing']);
+    expect(stage.checkClock(ledger, new Date('2026-03-24T10:30:00Z')).map((flag) => flag.ruleId)).toEqual([
+      'control-missing',
+    ]);
     expect(stage.checkClock(ledger, new Date('2026-03-24T11:30:00Z'))).toEqual([]);
     await run(controlResult(22, 0.925));
     expect(openFlags(ledger, ['fluorescein-daily'])).toEqual([]);

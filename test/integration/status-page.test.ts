@@ -25,13 +25,18 @@ let server: ChildProcess | undefined;
 let base = '';
 
 /** GET with the path sent exactly as given (no URL normalisation), returning status and body. */
-function rawGet(path: string, headers: Record<string, string> = {}): Promise<{ status: number; body: string; headers: Record<string, unknown> }> {
+function rawGet(
+  path: string,
+  headers: Record<string, string> = {},
+): Promise<{ status: number; body: string; headers: Record<string, unknown> }> {
   const url = new URL(base);
   return new Promise((resolve, reject) => {
     const req = request({ host: url.hostname, port: url.port, path, method: 'GET', headers }, (res) => {
       const chunks: Buffer[] = [];
       res.on('data', (chunk: Buffer) => chunks.push(chunk));
-      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8'), headers: res.headers }));
+      res.on('end', () =>
+        resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8'), headers: res.headers }),
+      );
     });
     req.on('error', reject);
     req.end();
@@ -40,27 +45,60 @@ function rawGet(path: string, headers: Record<string, string> = {}): Promise<{ s
 
 beforeAll(async () => {
   ({ dir, config } = faceWorkspace({ endDay: TODAY }));
-  const exclude = runDriftlight(['rules', 'exclude', EXCLUDED_SET, '--comment', 'cuvette scratched (test)', '--by', 'test', '-c', config]);
+  const exclude = runDriftlight([
+    'rules',
+    'exclude',
+    EXCLUDED_SET,
+    '--comment',
+    'cuvette scratched (test)',
+    '--by',
+    'test',
+    '-c',
+    config,
+  ]);
   if (exclude.status !== 0) throw new Error(`rules exclude failed: ${exclude.stderr}`);
   const ledger = openLedger(join(dir, 'state'));
   try {
     // One alert the webhook could not take yet (still retried) and one given up: what the dispatcher records.
     const outbox = ledgerAlertOutbox(ledger);
     const message: AlertMessage = {
-      type: 'flag', key: 'teal-westgard|teal|controlQuantumYield', severity: 'critical', ruleId: 'teal-westgard', kind: 'westgard', controlId: 'teal',
-      metric: 'controlQuantumYield', checks: ['1-3s'], message: 'control yield 3.2 SD above the baseline mean', values: {}, acquiredAt: `${TODAY}T08:00:00.000Z`,
-      setId: 'CTRL-teal-d030', createdAt: `${TODAY}T08:05:00.000Z`,
+      type: 'flag',
+      key: 'teal-westgard|teal|controlQuantumYield',
+      severity: 'critical',
+      ruleId: 'teal-westgard',
+      kind: 'westgard',
+      controlId: 'teal',
+      metric: 'controlQuantumYield',
+      checks: ['1-3s'],
+      message: 'control yield 3.2 SD above the baseline mean',
+      values: {},
+      acquiredAt: `${TODAY}T08:00:00.000Z`,
+      setId: 'CTRL-teal-d030',
+      createdAt: `${TODAY}T08:05:00.000Z`,
     };
-    const pending = outbox.add({ channelId: 'lab-hook', message, createdAtMs: Date.now() - 60_000, expiresAtMs: Date.now() + 3_600_000 });
+    const pending = outbox.add({
+      channelId: 'lab-hook',
+      message,
+      createdAtMs: Date.now() - 60_000,
+      expiresAtMs: Date.now() + 3_600_000,
+    });
     outbox.markRetry(pending, 3, 'connect ECONNREFUSED 127.0.0.1:9', Date.now() + 60_000);
-    const expired = outbox.add({ channelId: 'lab-hook', message: { ...message, key: 'teal-ewma|teal|meanLifetimeNs', metric: 'meanLifetimeNs' }, createdAtMs: Date.now() - 120_000, expiresAtMs: Date.now() - 1 });
+    const expired = outbox.add({
+      channelId: 'lab-hook',
+      message: { ...message, key: 'teal-ewma|teal|meanLifetimeNs', metric: 'meanLifetimeNs' },
+      createdAtMs: Date.now() - 120_000,
+      expiresAtMs: Date.now() - 1,
+    });
     outbox.markExpired(expired, 5, 'HTTP 503', Date.now());
   } finally {
     ledger.close();
   }
   const digest = runDriftlight(['digest', '--date', TODAY, '-c', config]);
   if (digest.status !== 0) throw new Error(`digest failed: ${digest.stderr}`);
-  server = spawn(process.execPath, [CLI_PATH, 'serve', '--http', '127.0.0.1:0', '-c', config], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] });
+  server = spawn(process.execPath, [CLI_PATH, 'serve', '--http', '127.0.0.1:0', '-c', config], {
+    cwd: dir,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   base = await new Promise<string>((resolve, reject) => {
     let out = '';
     let err = '';
@@ -69,7 +107,9 @@ beforeAll(async () => {
       const match = /status page: (http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
       if (match?.[1] !== undefined) resolve(match[1]);
     });
-    server?.stderr?.on('data', (chunk: Buffer) => { err += chunk.toString('utf8'); });
+    server?.stderr?.on('data', (chunk: Buffer) => {
+      err += chunk.toString('utf8');
+    });
     server?.on('exit', (code) => reject(new Error(`serve exited ${String(code)}: ${err}`)));
   });
 });
@@ -92,7 +132,8 @@ describe('driftlight serve', () => {
     expect(page.headers.get('content-security-policy')).toContain("default-src 'none'");
     const html = await page.text();
     expect(html).not.toMatch(/<script|(?:href|src)="(?:https?:)?\/\//i);
-    for (const id of ['digest', 'controls', 'counts', 'waiting', 'rejections', 'alerts']) expect(html).toContain(`id="${id}"`);
+    for (const id of ['digest', 'controls', 'counts', 'waiting', 'rejections', 'alerts'])
+      expect(html).toContain(`id="${id}"`);
     expect(html).toContain(`Digest of <strong>${TODAY}</strong>`);
     // The example day's malformed export is the one rejection (examples/day/inbox).
     expect(html).toMatch(/Recent rejections<\/h2>\n<table>.*<\/table>/s);
@@ -103,9 +144,11 @@ describe('driftlight serve', () => {
     expect(await digest.text()).toContain(`driftlight digest ${TODAY}`);
     // The digest (built after `rules exclude`) draws the excluded run as excluded and lists the outbox's undelivered alerts.
     const data = JSON.parse(readFileSync(join(dir, 'results', 'digest', `${TODAY}.json`), 'utf8')) as DigestData;
-    for (const chart of data.charts) expect(chart.points.find((p) => p.setId === EXCLUDED_SET)?.status, chart.metric).toBe('excluded');
+    for (const chart of data.charts)
+      expect(chart.points.find((p) => p.setId === EXCLUDED_SET)?.status, chart.metric).toBe('excluded');
     expect(data.alerts.undelivered.map((a) => [a.key, a.status, a.attempts])).toEqual([
-      ['teal-westgard|teal|controlQuantumYield', 'pending', 3], ['teal-ewma|teal|meanLifetimeNs', 'expired', 5],
+      ['teal-westgard|teal|controlQuantumYield', 'pending', 3],
+      ['teal-ewma|teal|meanLifetimeNs', 'expired', 5],
     ]);
   });
 
@@ -141,7 +184,11 @@ describe('driftlight serve', () => {
     expect(text).toMatch(/^ {2}teal: \d+ open$/m);
     expect(text).toMatch(/^ {4}critical +\S+ /m);
     expect(text).toContain('alerts not delivered: 1 still retried, 1 expired (given up)');
-    const status = JSON.parse(runDriftlight(['status', '--json', '-c', config]).stdout) as { files: Record<string, number>; sets: Record<string, number>; results: number };
+    const status = JSON.parse(runDriftlight(['status', '--json', '-c', config]).stdout) as {
+      files: Record<string, number>;
+      sets: Record<string, number>;
+      results: number;
+    };
     expect(family('driftlight_files_processed').type).toBe('GAUGE');
     expect(value('driftlight_files_processed')).toBe(status.files['done']);
     expect(value('driftlight_files_rejected')).toBe(status.files['rejected']);
@@ -154,19 +201,34 @@ describe('driftlight serve', () => {
     // Every set `process` analysed recorded its analysis time at commit.
     expect(Number(sample?.count)).toBe(status.results);
     expect(Number(sample?.sum)).toBeGreaterThan(0);
-    const buckets = Object.entries(sample?.buckets ?? {}).map(([le, n]) => [Number(le), Number(n)] as const).sort((a, b) => a[0] - b[0]);
-    for (let i = 1; i < buckets.length; i += 1) expect(buckets[i]?.[1]).toBeGreaterThanOrEqual(buckets[i - 1]?.[1] ?? 0);
+    const buckets = Object.entries(sample?.buckets ?? {})
+      .map(([le, n]) => [Number(le), Number(n)] as const)
+      .sort((a, b) => a[0] - b[0]);
+    for (let i = 1; i < buckets.length; i += 1)
+      expect(buckets[i]?.[1]).toBeGreaterThanOrEqual(buckets[i - 1]?.[1] ?? 0);
     expect(family('driftlight_alerts_sent_total').type).toBe('COUNTER');
     expect(family('driftlight_alerts_failed_total').type).toBe('COUNTER');
-    expect(family('driftlight_alerts_expired_total').metrics).toEqual([{ labels: { channel: 'lab-hook' }, value: '1' }]);
+    expect(family('driftlight_alerts_expired_total').metrics).toEqual([
+      { labels: { channel: 'lab-hook' }, value: '1' },
+    ]);
     expect(family('driftlight_alerts_pending').metrics).toEqual([{ labels: { channel: 'lab-hook' }, value: '1' }]);
   });
 
   it('no request path reaches the file system: traversal attempts and unknown paths are 404', async () => {
     const attempts = [
-      '/../../../../etc/passwd', '/%2e%2e/%2e%2e/%2e%2e/etc/passwd', '/..%2f..%2f..%2fetc%2fpasswd', '//etc/passwd',
-      '/digest/../state/ledger.sqlite', `/digest/${TODAY}.html`, `/digest/..%2f..%2fstate%2fledger.sqlite`, '/state/ledger.sqlite',
-      '/results/', '/inbox/', '/driftlight.yaml', '/digest/', '/?file=../../etc/passwd&path=/etc/passwd',
+      '/../../../../etc/passwd',
+      '/%2e%2e/%2e%2e/%2e%2e/etc/passwd',
+      '/..%2f..%2f..%2fetc%2fpasswd',
+      '//etc/passwd',
+      '/digest/../state/ledger.sqlite',
+      `/digest/${TODAY}.html`,
+      `/digest/..%2f..%2fstate%2fledger.sqlite`,
+      '/state/ledger.sqlite',
+      '/results/',
+      '/inbox/',
+      '/driftlight.yaml',
+      '/digest/',
+      '/?file=../../etc/passwd&path=/etc/passwd',
     ];
     for (const path of attempts) {
       const response = await rawGet(path);
@@ -178,10 +240,16 @@ describe('driftlight serve', () => {
   });
 
   it('refuses a bind outside loopback without a token', () => {
-    const run = runDriftlight(['serve', '--http', '0.0.0.0:0', '-c', config], { env: { DRIFTLIGHT_HTTP_TOKEN: '' }, timeoutMs: 20_000 });
+    const run = runDriftlight(['serve', '--http', '0.0.0.0:0', '-c', config], {
+      env: { DRIFTLIGHT_HTTP_TOKEN: '' },
+      timeoutMs: 20_000,
+    });
     expect(run.status).toBe(2);
     expect(run.stderr).toContain('without a token');
-    const short = runDriftlight(['serve', '--http', '127.0.0.1:0', '-c', config], { env: { DRIFTLIGHT_HTTP_TOKEN: 'short' }, timeoutMs: 20_000 });
+    const short = runDriftlight(['serve', '--http', '127.0.0.1:0', '-c', config], {
+      env: { DRIFTLIGHT_HTTP_TOKEN: 'short' },
+      timeoutMs: 20_000,
+    });
     expect(short.status).toBe(2);
     expect(short.stderr).toContain('at least 16');
   });
@@ -189,7 +257,10 @@ describe('driftlight serve', () => {
 
 describe('driftlight watch --http', () => {
   it('serves the same page from inside the watch process (beside a running serve) and stops on SIGINT', async () => {
-    const watch = spawn(process.execPath, [CLI_PATH, 'watch', '--http', '127.0.0.1:0', '-c', config], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] });
+    const watch = spawn(process.execPath, [CLI_PATH, 'watch', '--http', '127.0.0.1:0', '-c', config], {
+      cwd: dir,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     try {
       const url = await new Promise<string>((resolve, reject) => {
         let log = '';

@@ -4,7 +4,16 @@
 import { existsSync, readFileSync, renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { dropSet, generateSet, makeWorkspace, readResults, removeWorkspaces, startWatch, stopWatch, waitFor } from './pipeline-helpers.js';
+import {
+  dropSet,
+  generateSet,
+  makeWorkspace,
+  readResults,
+  removeWorkspaces,
+  startWatch,
+  stopWatch,
+  waitFor,
+} from './pipeline-helpers.js';
 
 afterAll(() => removeWorkspaces());
 

@@ -19,7 +19,7 @@ function deadPid(): number {
 }
 
 describe('instance lock', () => {
-  it('refuses a second holder while the first lives, naming its pid; takes over a dead holder\'s lock', async () => {
+  it("refuses a second holder while the first lives, naming its pid; takes over a dead holder's lock", async () => {
     const state = tempDir('dl-lock-');
     const sleeper = spawn(process.execPath, ['-e', 'setTimeout(() => {}, 60000)'], { stdio: 'ignore' });
     try {
@@ -41,7 +41,10 @@ describe('instance lock', () => {
     const first = startWatch(dir);
     try {
       await waitFor('the first watch to hold the lock', () => existsSync(join(dir, 'state', LOCK_FILE_NAME)), 30_000);
-      const second = runDriftlight(['watch', '--config', join(dir, 'driftlight.yaml')], { cwd: dir, timeoutMs: 30_000 });
+      const second = runDriftlight(['watch', '--config', join(dir, 'driftlight.yaml')], {
+        cwd: dir,
+        timeoutMs: 30_000,
+      });
       expect(second.status).toBe(2);
       expect(second.stderr).toContain(`ALREADY_RUNNING: driftlight is already running (pid ${first.pid})`);
       expect(second.stderr.trim().split('\n')).toHaveLength(2);
@@ -72,7 +75,10 @@ describe('missing folders', () => {
     const dir = tempDir('dl-noresults-');
     mkdirSync(join(dir, 'inbox'));
     const results = join(dir, 'share', 'results');
-    writeFileSync(join(dir, 'driftlight.yaml'), `folders: { inbox: inbox, results: ${results} }\nlogging: { stdout: off }\n`);
+    writeFileSync(
+      join(dir, 'driftlight.yaml'),
+      `folders: { inbox: inbox, results: ${results} }\nlogging: { stdout: off }\n`,
+    );
     const check = runDriftlight(['config', 'check', '--config', join(dir, 'driftlight.yaml')], { cwd: dir });
     expect(check.status).toBe(2);
     expect(check.stderr).toContain(`folders.results (${results}) does not exist`);

@@ -22,19 +22,59 @@ const detected = (phi: number, a: number, n: number): number => (1e7 * phi * (1 
 // 350–700 nm: the quinine band (peak 455 nm) is back to baseline at the lower edge of the window (365 nm).
 const emissionAxis = axisNm(350, 700, 1);
 const absorbanceAxis = axisNm(300, 550, 1);
-const absorbance = (peakNm: number, peak: number): number[] => absorbanceAxis.map((l) => peak * Math.exp(-((l - peakNm) ** 2) / (2 * 20 ** 2)));
-const sample = write('fluorescein.csv', writeSpectrumCsv(makeSpectrum('emission', emissionAxis, gaussianBand(emissionAxis, detected(0.925, 0.04, 1.334), 520, 15), { noiseSigma: 30, seed: 11, metadata: { excitationNm: 490, solvent: '0.1 M NaOH' } })));
-const sampleAbs = write('fluorescein-abs.csv', writeSpectrumCsv(makeSpectrum('absorbance', absorbanceAxis, absorbance(490, 0.04), { valueUnit: 'absorbance' })));
-const reference = write('quinine.csv', writeSpectrumCsv(makeSpectrum('emission', emissionAxis, gaussianBand(emissionAxis, detected(0.546, 0.05, 1.339), 455, 28), { noiseSigma: 30, seed: 12, metadata: { excitationNm: 350, solvent: '0.5 M H2SO4' } })));
-const referenceAbs = write('quinine-abs.csv', writeSpectrumCsv(makeSpectrum('absorbance', absorbanceAxis, absorbance(350, 0.05), { valueUnit: 'absorbance' })));
-const files = ['--sample', sample, '--sample-absorbance', sampleAbs, '--reference', reference, '--reference-absorbance', referenceAbs];
+const absorbance = (peakNm: number, peak: number): number[] =>
+  absorbanceAxis.map((l) => peak * Math.exp(-((l - peakNm) ** 2) / (2 * 20 ** 2)));
+const sample = write(
+  'fluorescein.csv',
+  writeSpectrumCsv(
+    makeSpectrum('emission', emissionAxis, gaussianBand(emissionAxis, detected(0.925, 0.04, 1.334), 520, 15), {
+      noiseSigma: 30,
+      seed: 11,
+      metadata: { excitationNm: 490, solvent: '0.1 M NaOH' },
+    }),
+  ),
+);
+const sampleAbs = write(
+  'fluorescein-abs.csv',
+  writeSpectrumCsv(makeSpectrum('absorbance', absorbanceAxis, absorbance(490, 0.04), { valueUnit: 'absorbance' })),
+);
+const reference = write(
+  'quinine.csv',
+  writeSpectrumCsv(
+    makeSpectrum('emission', emissionAxis, gaussianBand(emissionAxis, detected(0.546, 0.05, 1.339), 455, 28), {
+      noiseSigma: 30,
+      seed: 12,
+      metadata: { excitationNm: 350, solvent: '0.5 M H2SO4' },
+    }),
+  ),
+);
+const referenceAbs = write(
+  'quinine-abs.csv',
+  writeSpectrumCsv(makeSpectrum('absorbance', absorbanceAxis, absorbance(350, 0.05), { valueUnit: 'absorbance' })),
+);
+const files = [
+  '--sample',
+  sample,
+  '--sample-absorbance',
+  sampleAbs,
+  '--reference',
+  reference,
+  '--reference-absorbance',
+  referenceAbs,
+];
 
 describe('driftlight yield', () => {
   it('reproduces Φ(fluorescein) = 0.925 against quinine-h2so4-0.5m within twice the stated standard uncertainty', () => {
     const run = runDriftlight(['yield', ...files, '--standard', 'quinine-h2so4-0.5m', '--json']);
     expect(run.stderr).toBe('');
     expect(run.status).toBe(0);
-    const result = JSON.parse(run.stdout) as { quantumYield: number; standardUncertainty: number; budget: { quantity: string }[]; dominantContribution: string; warnings: string[] };
+    const result = JSON.parse(run.stdout) as {
+      quantumYield: number;
+      standardUncertainty: number;
+      budget: { quantity: string }[];
+      dominantContribution: string;
+      warnings: string[];
+    };
     expect(Math.abs(result.quantumYield - 0.925)).toBeLessThan(2 * result.standardUncertainty);
     expect(result.standardUncertainty).toBeGreaterThan(0.02); // the 4 % on the quinine value dominates
     expect(result.dominantContribution).toBe('referenceYield');
@@ -53,8 +93,30 @@ describe('driftlight yield', () => {
   });
 
   it('refuses a reference scan cut short inside its band (issue 15 item 3), and flags it when told to', () => {
-    const cut = write('quinine-cut.csv', writeSpectrumCsv(makeSpectrum('emission', axisNm(420, 700, 1), gaussianBand(axisNm(420, 700, 1), detected(0.546, 0.05, 1.339), 455, 28), { noiseSigma: 30, seed: 13, metadata: { excitationNm: 350, solvent: '0.5 M H2SO4' } })));
-    const args = ['yield', '--sample', sample, '--sample-absorbance', sampleAbs, '--reference', cut, '--reference-absorbance', referenceAbs, '--standard', 'quinine-h2so4-0.5m'];
+    const cut = write(
+      'quinine-cut.csv',
+      writeSpectrumCsv(
+        makeSpectrum(
+          'emission',
+          axisNm(420, 700, 1),
+          gaussianBand(axisNm(420, 700, 1), detected(0.546, 0.05, 1.339), 455, 28),
+          { noiseSigma: 30, seed: 13, metadata: { excitationNm: 350, solvent: '0.5 M H2SO4' } },
+        ),
+      ),
+    );
+    const args = [
+      'yield',
+      '--sample',
+      sample,
+      '--sample-absorbance',
+      sampleAbs,
+      '--reference',
+      cut,
+      '--reference-absorbance',
+      referenceAbs,
+      '--standard',
+      'quinine-h2so4-0.5m',
+    ];
     const refused = runDriftlight(args);
     expect(refused.status).not.toBe(0);
     expect(refused.stderr).toContain('reference emission is not back to baseline at 420 nm (lower)');
@@ -64,7 +126,15 @@ describe('driftlight yield', () => {
   });
 
   it('integrates over the window given with --window-nm and reports it', () => {
-    const run = runDriftlight(['yield', ...files, '--standard', 'quinine-h2so4-0.5m', '--window-nm', '370,690', '--json']);
+    const run = runDriftlight([
+      'yield',
+      ...files,
+      '--standard',
+      'quinine-h2so4-0.5m',
+      '--window-nm',
+      '370,690',
+      '--json',
+    ]);
     expect(run.status).toBe(0);
     expect((JSON.parse(run.stdout) as { windowNm: number[] }).windowNm).toEqual([370, 690]);
   });

@@ -10,26 +10,45 @@ const fraction = z
   .max(1, { error: 'expected a number between 0 and 1' });
 
 export const controlEntry = z.strictObject({
-  id: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'expected letters, digits, ".", "_" or "-"' })
+  id: z
+    .string()
+    .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'expected letters, digits, ".", "_" or "-"' })
     .describe('Name of the control (letters, digits, ".", "_", "-"); alerts and `rules` commands use it.'),
   label: z.string().min(1).optional().describe('Wording used in messages. Default: the id'),
-  sampleIdPattern: z.string().min(1).describe('Regular expression matched against sample ids; a match makes the set a control set.'),
+  sampleIdPattern: z
+    .string()
+    .min(1)
+    .describe('Regular expression matched against sample ids; a match makes the set a control set.'),
   targetYield: fraction.optional().describe('Expected quantum yield. Default: none'),
   sdYield: z.number().positive().optional().describe('Expected standard deviation of the yield. Default: none'),
   targetTauNs: z.number().positive().optional().describe('Expected intensity-weighted lifetime in ns. Default: none'),
-  sdTauNs: z.number().positive().optional().describe('Expected standard deviation of that lifetime in ns. Default: none'),
+  sdTauNs: z
+    .number()
+    .positive()
+    .optional()
+    .describe('Expected standard deviation of that lifetime in ns. Default: none'),
   targets: z
     .partialRecord(
       z.enum(METRIC_NAMES, { error: `expected one of ${METRIC_NAMES.join(', ')}` }),
       z.strictObject({ mean: z.number(), sd: z.number().positive() }),
     )
     .optional()
-    .describe('Declared target { mean, sd } per metric (e.g. intensityPerAbsorbedLight, in the metric\'s unit); targetYield/targetTauNs fill the yield and lifetime. Default: none (baseline from runs)'),
-  baselineRuns: z.number().int().min(2).default(20)
-    .describe('Metrics without a declared target are judged against the mean and SD of this many first runs (Levey–Jennings practice). Default: 20'),
+    .describe(
+      "Declared target { mean, sd } per metric (e.g. intensityPerAbsorbedLight, in the metric's unit); targetYield/targetTauNs fill the yield and lifetime. Default: none (baseline from runs)",
+    ),
+  baselineRuns: z
+    .number()
+    .int()
+    .min(2)
+    .default(20)
+    .describe(
+      'Metrics without a declared target are judged against the mean and SD of this many first runs (Levey–Jennings practice). Default: 20',
+    ),
 });
 
-export const controlsSection = z.array(controlEntry).default([])
+export const controlsSection = z
+  .array(controlEntry)
+  .default([])
   .describe('Control fluorophores checked by the QC rules. Default: []');
 
 export type ControlConfig = z.output<typeof controlEntry>;

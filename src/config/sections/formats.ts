@@ -6,8 +6,12 @@ import { formatProfileSchema } from '../../formats/index.js';
 
 export const formatsSection = z
   .strictObject({
-    profiles: z.array(formatProfileSchema).default([])
-      .describe('Instrument profiles, tried in order; the first whose match pattern fits a file name fixes that file\'s layout (see docs/formats.md). Default: [] (every layout sniffed)'),
+    profiles: z
+      .array(formatProfileSchema)
+      .default([])
+      .describe(
+        "Instrument profiles, tried in order; the first whose match pattern fits a file name fixes that file's layout (see docs/formats.md). Default: [] (every layout sniffed)",
+      ),
   })
   .prefault({});
 

@@ -33,7 +33,9 @@ export interface AlertOutbox {
 }
 
 /** Outbox held in memory (tests, `rules simulate`). */
-export function createMemoryOutbox(): AlertOutbox & { readonly entries: Map<number, OutboxEntry & { status: 'pending' | 'delivered' | 'expired' }> } {
+export function createMemoryOutbox(): AlertOutbox & {
+  readonly entries: Map<number, OutboxEntry & { status: 'pending' | 'delivered' | 'expired' }>;
+} {
   const entries = new Map<number, OutboxEntry & { status: 'pending' | 'delivered' | 'expired' }>();
   let nextId = 1;
   const update = (id: number, change: Partial<OutboxEntry & { status: 'pending' | 'delivered' | 'expired' }>): void => {
@@ -44,7 +46,15 @@ export function createMemoryOutbox(): AlertOutbox & { readonly entries: Map<numb
     entries,
     add({ channelId, message, createdAtMs, expiresAtMs }) {
       const id = nextId++;
-      entries.set(id, { id, channelId, message, attempts: 0, nextAttemptAtMs: createdAtMs, expiresAtMs, status: 'pending' });
+      entries.set(id, {
+        id,
+        channelId,
+        message,
+        attempts: 0,
+        nextAttemptAtMs: createdAtMs,
+        expiresAtMs,
+        status: 'pending',
+      });
       return id;
     },
     due: (nowMs) => [...entries.values()].filter((e) => e.status === 'pending' && e.nextAttemptAtMs <= nowMs),

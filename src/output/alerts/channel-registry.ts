@@ -11,9 +11,15 @@ export interface ChannelDependencies {
   readonly logger: AlertLogger;
 }
 
-type ChannelFactory<Config extends AlertChannelConfig> = (config: Config, configPath: string, dependencies: ChannelDependencies) => AlertChannel;
+type ChannelFactory<Config extends AlertChannelConfig> = (
+  config: Config,
+  configPath: string,
+  dependencies: ChannelDependencies,
+) => AlertChannel;
 
-export const CHANNEL_TYPES: { [Type in AlertChannelConfig['type']]: ChannelFactory<Extract<AlertChannelConfig, { type: Type }>> } = {
+export const CHANNEL_TYPES: {
+  [Type in AlertChannelConfig['type']]: ChannelFactory<Extract<AlertChannelConfig, { type: Type }>>;
+} = {
   webhook: (config, configPath, dependencies) => createWebhookChannel(config, configPath, dependencies.env),
   email: (config, configPath, dependencies) => createEmailChannel(config, configPath, dependencies.env),
   log: (config, _configPath, dependencies) => createLogChannel(config, dependencies.logger),
@@ -24,7 +30,10 @@ export function createChannels(
   alerts: AlertsConfig,
   dependencies: Partial<ChannelDependencies> = {},
 ): Map<string, AlertChannel> {
-  const resolved: ChannelDependencies = { env: dependencies.env ?? process.env, logger: dependencies.logger ?? jsonLineLogger() };
+  const resolved: ChannelDependencies = {
+    env: dependencies.env ?? process.env,
+    logger: dependencies.logger ?? jsonLineLogger(),
+  };
   const channels = new Map<string, AlertChannel>();
   alerts.channels.forEach((config, index) => {
     const configPath = `alerts.channels[${index}]`;
@@ -35,7 +44,11 @@ export function createChannels(
 }
 
 /** Dispatches to the factory of the config's type. */
-function createChannel(config: AlertChannelConfig, configPath: string, dependencies: ChannelDependencies): AlertChannel {
+function createChannel(
+  config: AlertChannelConfig,
+  configPath: string,
+  dependencies: ChannelDependencies,
+): AlertChannel {
   switch (config.type) {
     case 'webhook':
       return CHANNEL_TYPES.webhook(config, configPath, dependencies);

@@ -36,11 +36,16 @@ export async function deliverWithRetry(
   let lastError = '';
   for (let attempt = 1; attempt <= policy.attempts; attempt++) {
     const controller = new AbortController();
-    const timer = setTimeout(() => controller.abort(new Error(`timed out after ${policy.timeoutMs} ms`)), policy.timeoutMs);
+    const timer = setTimeout(
+      () => controller.abort(new Error(`timed out after ${policy.timeoutMs} ms`)),
+      policy.timeoutMs,
+    );
     timer.unref();
     try {
       const aborted = new Promise<never>((_, reject) => {
-        controller.signal.addEventListener('abort', () => reject(new Error(`timed out after ${policy.timeoutMs} ms`)), { once: true });
+        controller.signal.addEventListener('abort', () => reject(new Error(`timed out after ${policy.timeoutMs} ms`)), {
+          once: true,
+        });
       });
       // A channel that ignores the signal still loses the race: the attempt ends at its time limit.
       await Promise.race([channel.send(message, controller.signal), aborted]);

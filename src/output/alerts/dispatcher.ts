@@ -38,7 +38,9 @@ export interface AlertDispatcher {
 }
 
 /** Builds a dispatcher over configured channels, an alert state store and a delivery recorder. */
-export function createAlertDispatcher(dependencies: DispatcherDependencies): AlertDispatcher & Required<Pick<AlertDispatcher, 'retryDue'>> {
+export function createAlertDispatcher(
+  dependencies: DispatcherDependencies,
+): AlertDispatcher & Required<Pick<AlertDispatcher, 'retryDue'>> {
   const { alerts, channels, state, recorder, logger } = dependencies;
   const nowMs = dependencies.nowMs ?? Date.now;
   const sleep = dependencies.sleep ?? sleepMs;
@@ -50,14 +52,24 @@ export function createAlertDispatcher(dependencies: DispatcherDependencies): Ale
   const inFlight = new Set<number>();
 
   /** One delivery of the outbox: a burst of the channel's attempts when new, else one attempt; then delivered, rescheduled or expired. */
-  const deliver = async (entry: { id: number; channelId: string; message: AlertMessage; attempts: number; expiresAtMs: number }, fresh: boolean): Promise<void> => {
+  const deliver = async (
+    entry: { id: number; channelId: string; message: AlertMessage; attempts: number; expiresAtMs: number },
+    fresh: boolean,
+  ): Promise<void> => {
     const channel = channels.get(entry.channelId);
     if (channel === undefined) {
       outbox.markExpired(entry.id, entry.attempts, `channel ${entry.channelId} is no longer configured`, nowMs());
-      logger.error({ channel: entry.channelId, key: entry.message.key }, `alert not delivered: channel ${entry.channelId} is no longer configured`);
+      logger.error(
+        { channel: entry.channelId, key: entry.message.key },
+        `alert not delivered: channel ${entry.channelId} is no longer configured`,
+      );
       return;
     }
-    const policy = alerts.channels.find((config) => config.id === channel.id) ?? { attempts: 1, backoffMs: 0, timeoutMs: 10_000 };
+    const policy = alerts.channels.find((config) => config.id === channel.id) ?? {
+      attempts: 1,
+      backoffMs: 0,
+      timeoutMs: 10_000,
+    };
     const outcome = await deliverWithRetry(channel, entry.message, fresh ? policy : { ...policy, attempts: 1 }, sleep);
     const attempts = entry.attempts + outcome.attempts;
     const now = nowMs();
@@ -73,24 +85,40 @@ export function createAlertDispatcher(dependencies: DispatcherDependencies): Ale
         atMs: now,
       });
     } catch (error) {
-      logger.error({ err: error instanceof Error ? error.message : String(error) }, 'could not record an alert delivery');
+      logger.error(
+        { err: error instanceof Error ? error.message : String(error) },
+        'could not record an alert delivery',
+      );
     }
     if (outcome.status === 'delivered') {
       outbox.markDelivered(entry.id, attempts, now);
-      if (!fresh) logger.info({ channel: channel.id, key: entry.message.key, attempts }, `alert delivered on channel ${channel.id} after ${attempts} attempts`);
+      if (!fresh)
+        logger.info(
+          { channel: channel.id, key: entry.message.key, attempts },
+          `alert delivered on channel ${channel.id} after ${attempts} attempts`,
+        );
       return;
     }
     const error = outcome.error ?? 'unknown error';
     const waitMs = exponentialBackoffMs(Math.max(policy.backoffMs, 1000), attempts, maxIntervalMs);
     if (now + waitMs > entry.expiresAtMs) {
       outbox.markExpired(entry.id, attempts, error, now);
-      logger.error({ channel: channel.id, key: entry.message.key, attempts, error }, `alert delivery on channel ${channel.id} expired after ${attempts} attempts; it was not delivered`);
+      logger.error(
+        { channel: channel.id, key: entry.message.key, attempts, error },
+        `alert delivery on channel ${channel.id} expired after ${attempts} attempts; it was not delivered`,
+      );
       return;
     }
     const nextAttemptAtMs = now + waitMs;
     outbox.markRetry(entry.id, attempts, error, nextAttemptAtMs);
     logger.error(
-      { channel: channel.id, key: entry.message.key, attempts, error, nextAttemptAt: new Date(nextAttemptAtMs).toISOString() },
+      {
+        channel: channel.id,
+        key: entry.message.key,
+        attempts,
+        error,
+        nextAttemptAt: new Date(nextAttemptAtMs).toISOString(),
+      },
       `alert delivery failed on channel ${channel.id}; it stays in the outbox and is tried again until delivered or expired`,
     );
   };
@@ -153,7 +181,10 @@ export function createAlertDispatcher(dependencies: DispatcherDependencies): Ale
       try {
         for (const entry of outbox.due(nowMs())) start(entry, false);
       } catch (error) {
-        logger.error({ err: error instanceof Error ? error.message : String(error) }, 'could not read the alert outbox');
+        logger.error(
+          { err: error instanceof Error ? error.message : String(error) },
+          'could not read the alert outbox',
+        );
       }
     },
     async idle(): Promise<void> {

@@ -34,7 +34,12 @@ export function createEmailChannel(config: EmailChannelConfig, configPath: strin
     type: 'email',
     async send(message: AlertMessage): Promise<void> {
       // The dispatcher bounds each attempt; nodemailer's own socket timeouts close the connection.
-      await transport.sendMail({ from: config.from, to: [...config.to], subject: alertSubject(message), text: alertText(message) });
+      await transport.sendMail({
+        from: config.from,
+        to: [...config.to],
+        subject: alertSubject(message),
+        text: alertText(message),
+      });
     },
     close(): void {
       transport.close();

@@ -13,9 +13,11 @@ export interface AlertLogger {
 
 /** A logger writing JSON lines to a stream (default stderr). */
 export function jsonLineLogger(stream: NodeJS.WritableStream = process.stderr): AlertLogger {
-  const write = (level: string) => (object: object, message: string): void => {
-    stream.write(`${JSON.stringify({ level, time: new Date().toISOString(), msg: message, ...object })}\n`);
-  };
+  const write =
+    (level: string) =>
+    (object: object, message: string): void => {
+      stream.write(`${JSON.stringify({ level, time: new Date().toISOString(), msg: message, ...object })}\n`);
+    };
   return { info: write('info'), warn: write('warn'), error: write('error') };
 }
 

@@ -37,8 +37,13 @@ export function createWebhookChannel(
     type: 'webhook',
     async send(message: AlertMessage, signal: AbortSignal): Promise<void> {
       const body = JSON.stringify(alertPayload(message));
-      const headers: Record<string, string> = { ...config.headers, 'content-type': 'application/json', 'user-agent': 'driftlight-alerts' };
-      if (signingKey !== undefined) headers[SIGNATURE_HEADER] = signWebhookBody(body, signingKey, Math.floor(nowMs() / 1000));
+      const headers: Record<string, string> = {
+        ...config.headers,
+        'content-type': 'application/json',
+        'user-agent': 'driftlight-alerts',
+      };
+      if (signingKey !== undefined)
+        headers[SIGNATURE_HEADER] = signWebhookBody(body, signingKey, Math.floor(nowMs() / 1000));
       const response = await fetch(config.url, { method: 'POST', headers, body, signal });
       await response.arrayBuffer();
       if (!response.ok) throw new Error(`webhook ${config.id} answered HTTP ${response.status}`);

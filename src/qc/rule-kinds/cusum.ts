@@ -37,7 +37,10 @@ export function cusumStep(state: CusumState, standardizedValue: number, referenc
 }
 
 /** The sums after folding the series (restarting after each signal when asked) and the side that signalled last. O(n). */
-function foldSeries(rule: CusumRule, context: ObservationContext): { state: CusumState; lastSignal: 'upper' | 'lower' | undefined } | undefined {
+function foldSeries(
+  rule: CusumRule,
+  context: ObservationContext,
+): { state: CusumState; lastSignal: 'upper' | 'lower' | undefined } | undefined {
   const { baseline, series } = context;
   if (baseline === undefined || series.length === 0) return undefined;
   let state = CUSUM_START;
@@ -58,7 +61,8 @@ export const cusumKind = defineRuleKind({
   kind: 'cusum',
   schema: cusumRuleSchema,
   needsBaseline: true,
-  describe: (rule) => `tabular CUSUM k = ${rule.referenceSd} SD, h = ${rule.decisionSd} SD, both sides${rule.restartAfterSignal ? ', restarting after a signal' : ''}`,
+  describe: (rule) =>
+    `tabular CUSUM k = ${rule.referenceSd} SD, h = ${rule.decisionSd} SD, both sides${rule.restartAfterSignal ? ', restarting after a signal' : ''}`,
   evaluate(rule, context): RuleFinding[] {
     const { baseline, metric } = context;
     const folded = foldSeries(rule, context);
@@ -74,7 +78,14 @@ export const cusumKind = defineRuleKind({
       findings.push({
         severity: rule.severity,
         check: side.check,
-        values: { upperSum: state.upper, lowerSum: state.lower, decisionSd: rule.decisionSd, referenceSd: rule.referenceSd, mean: baseline.mean, sd: baseline.sd },
+        values: {
+          upperSum: state.upper,
+          lowerSum: state.lower,
+          decisionSd: rule.decisionSd,
+          referenceSd: rule.referenceSd,
+          mean: baseline.mean,
+          sd: baseline.sd,
+        },
         message:
           `${metricLabel(metric)} has shifted ${side.direction} from ${centreName(metric, baseline)}: ` +
           `the ${side.check} is ${side.sum.toFixed(1)} SD, over the limit h = ${rule.decisionSd} SD (CUSUM k = ${rule.referenceSd}).`,

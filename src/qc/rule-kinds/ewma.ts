@@ -39,7 +39,10 @@ export function ewmaLimitHalfWidth(step: number, lambda: number, limitWidth: num
 }
 
 /** The EWMA after folding the series (restarting after each signal when asked) and the sign of the last signal. O(n). */
-function foldSeries(rule: EwmaRule, context: ObservationContext): { state: EwmaState; lastSignalSign: number } | undefined {
+function foldSeries(
+  rule: EwmaRule,
+  context: ObservationContext,
+): { state: EwmaState; lastSignalSign: number } | undefined {
   const { baseline, series } = context;
   if (baseline === undefined || series.length === 0) return undefined;
   let state = EWMA_START;
@@ -61,7 +64,8 @@ export const ewmaKind = defineRuleKind({
   kind: 'ewma',
   schema: ewmaRuleSchema,
   needsBaseline: true,
-  describe: (rule) => `EWMA λ = ${rule.lambda}, L = ${rule.limitWidth} (exact time-varying limits${rule.restartAfterSignal ? ', restarting after a signal' : ''})`,
+  describe: (rule) =>
+    `EWMA λ = ${rule.lambda}, L = ${rule.limitWidth} (exact time-varying limits${rule.restartAfterSignal ? ', restarting after a signal' : ''})`,
   evaluate(rule, context): RuleFinding[] {
     const { baseline, metric } = context;
     const folded = foldSeries(rule, context);

@@ -42,7 +42,8 @@ export const instrumentHealthKind = defineRuleKind({
     const { series, metric } = context;
     const recent = series.slice(-rule.consecutiveRuns);
     const latest = series[series.length - 1];
-    if (latest === undefined || recent.length < rule.consecutiveRuns || !recent.every((p) => breaches(rule, p.value))) return [];
+    if (latest === undefined || recent.length < rule.consecutiveRuns || !recent.every((p) => breaches(rule, p.value)))
+      return [];
     const isHigh = rule.above !== undefined && latest.value > rule.above;
     const limit = (isHigh ? rule.above : rule.below) ?? 0;
     const runsText = rule.consecutiveRuns > 1 ? ` for ${rule.consecutiveRuns} runs in a row` : '';

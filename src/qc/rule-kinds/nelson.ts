@@ -14,7 +14,12 @@ export const nelsonRuleSchema = z.strictObject({
   kind: z.literal('nelson'),
   /** Which of the eight tests to apply; default all. */
   tests: z
-    .array(z.union(NELSON_TESTS.map((test) => z.literal(test)), { error: 'expected test numbers 1 to 8' }))
+    .array(
+      z.union(
+        NELSON_TESTS.map((test) => z.literal(test)),
+        { error: 'expected test numbers 1 to 8' },
+      ),
+    )
     .min(1)
     .default([...NELSON_TESTS]),
 });
@@ -76,7 +81,10 @@ export function nelsonViolations(standardized: readonly number[], tests: readonl
     8: () => {
       const points = tail(z, 8);
       return (
-        points !== undefined && points.every((v) => Math.abs(v) > 1) && points.some((v) => v > 0) && points.some((v) => v < 0)
+        points !== undefined &&
+        points.every((v) => Math.abs(v) > 1) &&
+        points.some((v) => v > 0) &&
+        points.some((v) => v < 0)
       );
     },
   };
@@ -97,7 +105,12 @@ export const nelsonKind = defineRuleKind({
     return nelsonViolations(standardized, rule.tests).map((test) => ({
       severity: rule.severity,
       check: `Nelson ${test}`,
-      values: { value: latest.value, mean: baseline.mean, sd: baseline.sd, sdUnits: standardize(latest.value, baseline) },
+      values: {
+        value: latest.value,
+        mean: baseline.mean,
+        sd: baseline.sd,
+        sdUnits: standardize(latest.value, baseline),
+      },
       message: `${describeDeviation(metric, latest.value, baseline)}; ${metricLabel(metric)} shows ${TEST_WORDING[test]} (Nelson ${test}).`,
     }));
   },

@@ -27,7 +27,10 @@ export const percentChangeRuleSchema = z
     /** Fewest preceding runs before the rule judges at all (against: median). Default 3. */
     minRuns: wholeNumberAtLeast(1).default(3),
   })
-  .refine((rule) => rule.minRuns <= rule.windowRuns, { error: 'minRuns must not exceed windowRuns', path: ['minRuns'] });
+  .refine((rule) => rule.minRuns <= rule.windowRuns, {
+    error: 'minRuns must not exceed windowRuns',
+    path: ['minRuns'],
+  });
 export type PercentChangeRule = z.output<typeof percentChangeRuleSchema>;
 
 export const percentChangeKind = defineRuleKind({
@@ -67,7 +70,13 @@ export const percentChangeKind = defineRuleKind({
       {
         severity: rule.severity,
         check: 'percent change',
-        values: { value: latest.value, ...(rule.against === 'baseline' ? { mean: reference } : { median: reference }), changePercent, maxPercent: rule.maxPercent, runs },
+        values: {
+          value: latest.value,
+          ...(rule.against === 'baseline' ? { mean: reference } : { median: reference }),
+          changePercent,
+          maxPercent: rule.maxPercent,
+          runs,
+        },
         message: `${metricLabel(metric)} ${formatMetricValue(metric, latest.value)} is ${Math.abs(changePercent).toFixed(1)} % ${direction} ${against} (limit ${rule.maxPercent} %).`,
       },
     ];

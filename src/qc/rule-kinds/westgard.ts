@@ -14,7 +14,10 @@ export const westgardRuleSchema = z.strictObject({
   ...baseRuleShape,
   kind: z.literal('westgard'),
   /** Which checks to apply; default all six. */
-  checks: z.array(z.enum(WESTGARD_CHECKS, { error: `expected one of ${WESTGARD_CHECKS.join(', ')}` })).min(1).default([...WESTGARD_CHECKS]),
+  checks: z
+    .array(z.enum(WESTGARD_CHECKS, { error: `expected one of ${WESTGARD_CHECKS.join(', ')}` }))
+    .min(1)
+    .default([...WESTGARD_CHECKS]),
   /** Severity of a 1-2s warning (the rule's `severity` applies to the rejection checks). Default warning. */
   warningSeverity: z.enum(SEVERITIES).default('warning'),
   /** within-run (1981 definition: two results of the same run) or consecutive (the last two runs). Default within-run. */
@@ -56,8 +59,10 @@ export function westgardViolations(
   if (enabled.has('2-2s') && allBeyond(lastN(2), 2)) rejections.push('2-2s');
   // R-4s: one result beyond +2 SD and another beyond −2 SD (within the run, or in consecutive runs).
   if (enabled.has('R-4s')) {
-    const partners = options.rangeScope === 'within-run' ? sameRun : count >= 2 ? [standardized[count - 2] as number] : [];
-    if ((latest > 2 && partners.some((z) => z < -2)) || (latest < -2 && partners.some((z) => z > 2))) rejections.push('R-4s');
+    const partners =
+      options.rangeScope === 'within-run' ? sameRun : count >= 2 ? [standardized[count - 2] as number] : [];
+    if ((latest > 2 && partners.some((z) => z < -2)) || (latest < -2 && partners.some((z) => z > 2)))
+      rejections.push('R-4s');
   }
   // 4-1s: four consecutive results beyond the same 1 SD limit.
   if (enabled.has('4-1s') && allBeyond(lastN(4), 1)) rejections.push('4-1s');

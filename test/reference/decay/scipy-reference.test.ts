@@ -28,7 +28,8 @@ interface ReferenceFit {
 
 const here = new URL('.', import.meta.url);
 const decays = (JSON.parse(readFileSync(new URL('decays.json', here), 'utf8')) as { decays: ReferenceDecay[] }).decays;
-const references = (JSON.parse(readFileSync(new URL('reference.json', here), 'utf8')) as { cases: ReferenceFit[] }).cases;
+const references = (JSON.parse(readFileSync(new URL('reference.json', here), 'utf8')) as { cases: ReferenceFit[] })
+  .cases;
 
 describe('fitDecay agrees with scipy.optimize.least_squares on the Poisson deviance', () => {
   it.each(decays.map((decay) => [decay.name, decay] as const))('%s', (_name, input) => {

@@ -17,21 +17,48 @@ const day = generateDemoDay();
 const spuriousControlDay = generateDemoDay(20260312);
 const sha = (text: string): string => createHash('sha256').update(text).digest('hex');
 
-function file(name: string, part: SetPart, role: MeasurementRole, origin: PayloadFile['origin'] = 'own', from = day): PayloadFile {
+function file(
+  name: string,
+  part: SetPart,
+  role: MeasurementRole,
+  origin: PayloadFile['origin'] = 'own',
+  from = day,
+): PayloadFile {
   const found = from.files.find((f) => f.name === name);
   if (found === undefined) throw new Error(`no demo file ${name}`);
-  return { name, sha256: sha(found.content), part, role, origin, content: found.content, ...(origin === 'paired' ? { pairedFromSetId: 'ref-set' } : {}) };
+  return {
+    name,
+    sha256: sha(found.content),
+    part,
+    role,
+    origin,
+    content: found.content,
+    ...(origin === 'paired' ? { pairedFromSetId: 'ref-set' } : {}),
+  };
 }
 
 function payload(role: MeasurementRole, sampleId: string, files: PayloadFile[], components: 1 | 2): AnalysisJobPayload {
   return {
-    setId: `${sampleId}-${components}`, role, sampleId, sampleInfo: {}, missingParts: [], files,
+    setId: `${sampleId}-${components}`,
+    role,
+    sampleId,
+    sampleInfo: {},
+    missingParts: [],
+    files,
     settings: {
-      components, estimator: 'ml', innerFilter: 'centred', maxAbsorbanceForYield: 0.1, refractiveIndex: {}, defaultRefractiveIndex: 1.333,
-      cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 }, maxFileBytes: 50_000_000,
+      components,
+      estimator: 'ml',
+      innerFilter: 'centred',
+      maxAbsorbanceForYield: 0.1,
+      refractiveIndex: {},
+      defaultRefractiveIndex: 1.333,
+      cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 },
+      maxFileBytes: 50_000_000,
       reference: { standardId: 'rhodamine-6g-ethanol' },
     },
-    analyzedAt: '2026-03-14T12:00:00.000Z', configHash: 'c'.repeat(64), softwareVersion: '0.1.0',
+    analyzedAt: '2026-03-14T12:00:00.000Z',
+    configHash: 'c'.repeat(64),
+    softwareVersion: '0.1.0',
   };
 }
 
@@ -46,13 +73,17 @@ const sampleFiles = (): PayloadFile[] => [
 
 describe('an unacceptable lifetime fit in the pipeline', () => {
   it('QC does not judge the lifetime of a two-component fit of the mono-exponential control (τ2 at the 25,600 ns bound)', () => {
-    const { result } = analyze(payload('control', 'CTRL-teal-0314', [file('run0314-c.csv', 'decay', 'control', 'own', spuriousControlDay)], 2));
+    const { result } = analyze(
+      payload('control', 'CTRL-teal-0314', [file('run0314-c.csv', 'decay', 'control', 'own', spuriousControlDay)], 2),
+    );
     expect(result.decayFit?.components[1]?.tauNs).toBeGreaterThan(256);
     expect(result.decayFit?.acceptable).toBe(false);
     expect(result.decayFit?.unacceptableReasons?.join(' ')).toMatch(/upper bound/);
     expect(metricsOfResult(result).meanLifetimeNs).toBeUndefined();
     // The same control fitted with one component is acceptable and judged (truth 4.1 ns, within 3 %).
-    const single = analyze(payload('control', 'CTRL-teal-0314', [file('run0314-c.csv', 'decay', 'control', 'own', spuriousControlDay)], 1)).result;
+    const single = analyze(
+      payload('control', 'CTRL-teal-0314', [file('run0314-c.csv', 'decay', 'control', 'own', spuriousControlDay)], 1),
+    ).result;
     expect(single.decayFit?.acceptable).toBe(true);
     expect(single.decayFit?.unacceptableReasons).toEqual([]);
     expect(Math.abs((metricsOfResult(single).meanLifetimeNs ?? 0) / 4.1 - 1)).toBeLessThan(0.03);

@@ -10,19 +10,38 @@ import { decayHistogram, withoutIrf } from '../../../src/demo/synthetic.js';
 import { createSeededRandom } from '../../../src/decay/index.js';
 import { metricsOfResult } from '../../../src/qc/observation.js';
 
-const settings = { components: 1, estimator: 'ml', innerFilter: 'centred', maxAbsorbanceForYield: 0.1, refractiveIndex: {}, defaultRefractiveIndex: 1.333,
-  cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 }, maxFileBytes: 1e7 } as const;
+const settings = {
+  components: 1,
+  estimator: 'ml',
+  innerFilter: 'centred',
+  maxAbsorbanceForYield: 0.1,
+  refractiveIndex: {},
+  defaultRefractiveIndex: 1.333,
+  cuvette: { pathLengthCm: 1, excitationWindowStartCm: 0.4, excitationWindowEndCm: 0.6 },
+  maxFileBytes: 1e7,
+} as const;
 
 describe('IRF width in the decay fit summary', () => {
-  it.each([0.2, 0.45])('reports the FWHM of a %s ns Gaussian IRF (0.05 ns channels) within half a channel', (fwhmNs) => {
-    const decay = decayHistogram({ tauNs: [3.9], photons: 200_000, channels: 512, channelWidthNs: 0.05, irfFwhmNs: fwhmNs }, {}, createSeededRandom(11));
-    const { summary } = fitSetDecay(decay, undefined, settings, createStepContext());
-    expect(summary.irfSource).toBe('decay-column');
-    expect(Math.abs((summary.irfFwhmNs ?? 0) - fwhmNs)).toBeLessThanOrEqual(0.025);
-  });
+  it.each([0.2, 0.45])(
+    'reports the FWHM of a %s ns Gaussian IRF (0.05 ns channels) within half a channel',
+    (fwhmNs) => {
+      const decay = decayHistogram(
+        { tauNs: [3.9], photons: 200_000, channels: 512, channelWidthNs: 0.05, irfFwhmNs: fwhmNs },
+        {},
+        createSeededRandom(11),
+      );
+      const { summary } = fitSetDecay(decay, undefined, settings, createStepContext());
+      expect(summary.irfSource).toBe('decay-column');
+      expect(Math.abs((summary.irfFwhmNs ?? 0) - fwhmNs)).toBeLessThanOrEqual(0.025);
+    },
+  );
 
   it('reports no width without an IRF (tail fit), and QC sees irfWidthNs only when it is there', () => {
-    const decay = decayHistogram({ tauNs: [3.9], photons: 200_000, channels: 512, channelWidthNs: 0.05, irfFwhmNs: 0.3 }, {}, createSeededRandom(12));
+    const decay = decayHistogram(
+      { tauNs: [3.9], photons: 200_000, channels: 512, channelWidthNs: 0.05, irfFwhmNs: 0.3 },
+      {},
+      createSeededRandom(12),
+    );
     const { summary } = fitSetDecay(withoutIrf(decay), undefined, settings, createStepContext());
     expect(summary.irfFwhmNs).toBeUndefined();
     const base = { spectra: {}, missing: [] } as unknown as AnalysisResult;

@@ -31,16 +31,26 @@ describe('Redis URL from a file or the environment', () => {
   it('--redis env reads $DRIFTLIGHT_REDIS_URL; without --redis the variable replaces queue.redisUrl only', () => {
     const dir = workspace();
     const env = { [REDIS_URL_ENV]: secret };
-    expect(configFromOptions({ config: join(dir, 'driftlight.yaml'), redis: 'env' }, env).queue).toMatchObject({ backend: 'bullmq', redisUrl: secret });
-    expect(configFromOptions({ config: join(dir, 'driftlight.yaml') }, env).queue).toMatchObject({ backend: 'in-process', redisUrl: secret });
-    expect(configFromOptions({ config: join(dir, 'driftlight.yaml') }, {}).queue.redisUrl).toBe('redis://127.0.0.1:6379');
+    expect(configFromOptions({ config: join(dir, 'driftlight.yaml'), redis: 'env' }, env).queue).toMatchObject({
+      backend: 'bullmq',
+      redisUrl: secret,
+    });
+    expect(configFromOptions({ config: join(dir, 'driftlight.yaml') }, env).queue).toMatchObject({
+      backend: 'in-process',
+      redisUrl: secret,
+    });
+    expect(configFromOptions({ config: join(dir, 'driftlight.yaml') }, {}).queue.redisUrl).toBe(
+      'redis://127.0.0.1:6379',
+    );
   });
 
   it('names what is wrong: an unreadable file, a file or variable without a URL', () => {
     const dir = workspace();
     writeFileSync(join(dir, 'empty.url'), '\n');
     expect(() => redisUrlFrom(`@${join(dir, 'missing.url')}`, {})).toThrow(/cannot read .*missing\.url \(ENOENT\)/);
-    expect(() => redisUrlFrom(`@${join(dir, 'empty.url')}`, {})).toThrow(/does not hold a redis:\/\/ or rediss:\/\/ URL/);
+    expect(() => redisUrlFrom(`@${join(dir, 'empty.url')}`, {})).toThrow(
+      /does not hold a redis:\/\/ or rediss:\/\/ URL/,
+    );
     expect(() => redisUrlFrom('env', {})).toThrow(/\$DRIFTLIGHT_REDIS_URL does not hold/);
     expect(redisUrlFrom(secret, {})).toBe(secret);
   });

@@ -19,7 +19,16 @@ describe('config', () => {
     const config = resolveConfig({}, { baseDir: '/lab' });
     expect(config.folders.inbox).toBe('/lab/inbox');
     expect(config.limits.maxFileBytes).toBe(50 * 1024 * 1024);
-    expect(config.queue).toMatchObject({ backend: 'in-process', attempts: 3, backoffMs: 500, jobTimeoutMs: 300_000, redisUrl: 'redis://127.0.0.1:6379', prefix: 'driftlight', queueName: 'analyze', retention: { completedCount: 1000, failedCount: 5000 } });
+    expect(config.queue).toMatchObject({
+      backend: 'in-process',
+      attempts: 3,
+      backoffMs: 500,
+      jobTimeoutMs: 300_000,
+      redisUrl: 'redis://127.0.0.1:6379',
+      prefix: 'driftlight',
+      queueName: 'analyze',
+      retention: { completedCount: 1000, failedCount: 5000 },
+    });
     expect(config.queue.concurrency).toBeGreaterThanOrEqual(1);
     expect(Object.isFrozen(config.folders)).toBe(true);
   });
@@ -47,8 +56,12 @@ describe('config', () => {
   });
 
   it('rejects unknown options, bad regular expressions and broken YAML with a location', () => {
-    expect(() => resolveConfig({ watch: { stabiltyWindowMs: 5 } }, { baseDir: '/' })).toThrow(/watch.stabiltyWindowMs: unknown option "stabiltyWindowMs"; did you mean "stabilityWindowMs"\?/);
-    expect(() => resolveConfig({ references: [{ id: 'r', sampleIdPattern: '(', standardId: 'x' }] }, { baseDir: '/' })).toThrow(/invalid regular expression/);
+    expect(() => resolveConfig({ watch: { stabiltyWindowMs: 5 } }, { baseDir: '/' })).toThrow(
+      /watch.stabiltyWindowMs: unknown option "stabiltyWindowMs"; did you mean "stabilityWindowMs"\?/,
+    );
+    expect(() =>
+      resolveConfig({ references: [{ id: 'r', sampleIdPattern: '(', standardId: 'x' }] }, { baseDir: '/' }),
+    ).toThrow(/invalid regular expression/);
     const file = tempConfig('folders:\n  inbox: [unclosed\n');
     expect(() => loadConfig(file)).toThrow(ConfigInvalid);
   });

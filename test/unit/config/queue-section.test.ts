@@ -27,9 +27,17 @@ describe('config queue section', () => {
   it('--redis URL selects bullmq at that URL over the config file and keeps its other queue options', () => {
     const dir = tempDir('dl-config-');
     const file = join(dir, 'driftlight.yaml');
-    writeFileSync(file, 'queue: { backend: in-process, redisUrl: redis://elsewhere:6379, prefix: lab2, runWorker: false }\n');
+    writeFileSync(
+      file,
+      'queue: { backend: in-process, redisUrl: redis://elsewhere:6379, prefix: lab2, runWorker: false }\n',
+    );
     const config = configFromOptions({ config: file, redis: 'redis://queue-host:6380' });
-    expect(config.queue).toMatchObject({ backend: 'bullmq', redisUrl: 'redis://queue-host:6380', prefix: 'lab2', runWorker: false });
+    expect(config.queue).toMatchObject({
+      backend: 'bullmq',
+      redisUrl: 'redis://queue-host:6380',
+      prefix: 'lab2',
+      runWorker: false,
+    });
     expect(coordinatorRunsWorker(config.queue)).toBe(false);
     expect(Object.isFrozen(config.queue)).toBe(true);
     expect(configFromOptions({ config: file }).queue.backend).toBe('in-process');

@@ -52,24 +52,61 @@ describe('strict config (issue 20.8)', () => {
       const raw = entry === undefined ? { [section]: { bogusKey: 1 } } : { [section]: [{ ...entry, bogusKey: 1 }] };
       const error = problemOf(raw);
       const path = entry === undefined ? `${section}.bogusKey` : `${section}[0].bogusKey`;
-      expect(error.toUserLine(), section).toMatch(new RegExp(`^/lab/driftlight\\.yaml: CONFIG_INVALID: ${path.replace(/[[\].]/g, '\\$&')}: unknown option "bogusKey" \\(valid here: [^\\n]+\\)$`));
+      expect(error.toUserLine(), section).toMatch(
+        new RegExp(
+          `^/lab/driftlight\\.yaml: CONFIG_INVALID: ${path.replace(/[[\].]/g, '\\$&')}: unknown option "bogusKey" \\(valid here: [^\\n]+\\)$`,
+        ),
+      );
       expect(error.configPath).toBe(path);
     }
   });
 
   it('names the nearest valid key inside controls[], alert channels, routing, profiles and nested objects', () => {
     const cases: [unknown, string][] = [
-      [{ controls: [{ ...ENTRY['controls'], sdYeild: 0.01 }] }, 'controls[0].sdYeild: unknown option "sdYeild"; did you mean "sdYield"?'],
-      [{ alerts: { channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x', timoutMs: 5 }] } }, 'alerts.channels[0].timoutMs: unknown option "timoutMs"; did you mean "timeoutMs"?'],
-      [{ alerts: { channels: [{ id: 'm', type: 'email', to: ['a@b.invalid'], from: 'd@b.invalid', host: 'localhost', requireTls: true, prot: 25 }] } }, 'alerts.channels[0].prot: unknown option "prot"; did you mean "port"?'],
-      [{ alerts: { routing: { critcal: ['log'] } } }, 'alerts.routing.critcal: unknown option "critcal"; did you mean "critical"?'],
-      [{ formats: { profiles: [{ match: '*.dat', delimeter: 'tab' }] } }, 'formats.profiles[0].delimeter: unknown option "delimeter"; did you mean "delimiter"?'],
-      [{ queue: { retention: { complitedCount: 5 } } }, 'queue.retention.complitedCount: unknown option "complitedCount"; did you mean "completedCount"?'],
+      [
+        { controls: [{ ...ENTRY['controls'], sdYeild: 0.01 }] },
+        'controls[0].sdYeild: unknown option "sdYeild"; did you mean "sdYield"?',
+      ],
+      [
+        { alerts: { channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x', timoutMs: 5 }] } },
+        'alerts.channels[0].timoutMs: unknown option "timoutMs"; did you mean "timeoutMs"?',
+      ],
+      [
+        {
+          alerts: {
+            channels: [
+              {
+                id: 'm',
+                type: 'email',
+                to: ['a@b.invalid'],
+                from: 'd@b.invalid',
+                host: 'localhost',
+                requireTls: true,
+                prot: 25,
+              },
+            ],
+          },
+        },
+        'alerts.channels[0].prot: unknown option "prot"; did you mean "port"?',
+      ],
+      [
+        { alerts: { routing: { critcal: ['log'] } } },
+        'alerts.routing.critcal: unknown option "critcal"; did you mean "critical"?',
+      ],
+      [
+        { formats: { profiles: [{ match: '*.dat', delimeter: 'tab' }] } },
+        'formats.profiles[0].delimeter: unknown option "delimeter"; did you mean "delimiter"?',
+      ],
+      [
+        { queue: { retention: { complitedCount: 5 } } },
+        'queue.retention.complitedCount: unknown option "complitedCount"; did you mean "completedCount"?',
+      ],
       [{ queue: { redis: 'redis://x' } }, 'queue.redis: unknown option "redis"; did you mean "redisUrl"?'],
       [{ rules: { fiel: 'x.yaml' } }, 'rules.fiel: unknown option "fiel"; did you mean "file"?'],
       [{ analysis: { compnents: 2 } }, 'analysis.compnents: unknown option "compnents"; did you mean "components"?'],
     ];
-    for (const [raw, line] of cases) expect(problemOf(raw).toUserLine()).toBe(`/lab/driftlight.yaml: CONFIG_INVALID: ${line}`);
+    for (const [raw, line] of cases)
+      expect(problemOf(raw).toUserLine()).toBe(`/lab/driftlight.yaml: CONFIG_INVALID: ${line}`);
   });
 
   it('says each problem once, on its own line, with its path once', () => {
@@ -87,26 +124,51 @@ describe('strict config (issue 20.8)', () => {
       // The path appears once in its line.
       expect(line.split(`${path ?? ''}:`).length - 1, line).toBe(1);
     }
-    expect(lines.some((line) => line.endsWith('alerts.channels[0].id: required, and missing (expected string)'))).toBe(true);
-    expect(lines.some((line) => line.includes('controls[0].bogus: unknown option "bogus" (valid here: id, label, sampleIdPattern,'))).toBe(true);
+    expect(lines.some((line) => line.endsWith('alerts.channels[0].id: required, and missing (expected string)'))).toBe(
+      true,
+    );
+    expect(
+      lines.some((line) =>
+        line.includes('controls[0].bogus: unknown option "bogus" (valid here: id, label, sampleIdPattern,'),
+      ),
+    ).toBe(true);
   });
 
   it('reports nothing about a channel the config never wrote: unwritten routes go to the configured channels', () => {
-    const config = resolveConfig({ alerts: { channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x' }] } }, { baseDir: '/' });
+    const config = resolveConfig(
+      { alerts: { channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x' }] } },
+      { baseDir: '/' },
+    );
     expect(config.alerts.routing).toEqual({ info: ['hook'], warning: ['hook'], critical: ['hook'] });
     const defaults = resolveConfig({}, { baseDir: '/' });
     expect(defaults.alerts.routing).toEqual({ info: ['log'], warning: ['log'], critical: ['log'] });
     // A route the user did write is still checked.
-    const error = problemOf({ alerts: { channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x' }], routing: { critical: ['pager'] } } });
-    expect(error.toUserLine()).toBe('/lab/driftlight.yaml: CONFIG_INVALID: alerts.routing.critical[0]: no channel with id "pager" under alerts.channels');
+    const error = problemOf({
+      alerts: {
+        channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x' }],
+        routing: { critical: ['pager'] },
+      },
+    });
+    expect(error.toUserLine()).toBe(
+      '/lab/driftlight.yaml: CONFIG_INVALID: alerts.routing.critical[0]: no channel with id "pager" under alerts.channels',
+    );
     // A channel of an unknown type is one line about its type, not one per channel type.
-    expect(problemOf({ alerts: { channels: [{ id: 'x', type: 'webhok', url: 'http://127.0.0.1:9/x' }] } }).toUserLine().split('\n')).toHaveLength(1);
+    expect(
+      problemOf({ alerts: { channels: [{ id: 'x', type: 'webhok', url: 'http://127.0.0.1:9/x' }] } })
+        .toUserLine()
+        .split('\n'),
+    ).toHaveLength(1);
   });
 });
 
 describe('strict rule files and manifests (issue 20.8)', () => {
   it('a rule file names an unknown key with the nearest valid one, and a misspelt kind with the nearest kind', () => {
-    const yaml = ['rules:', '  - { id: y-ewma, metric: controlQuantumYield, kind: ewma, severity: warning, lamda: 0.2 }', '  - { id: y-w, metric: controlQuantumYield, kind: westgrd, severity: critical }', ''].join('\n');
+    const yaml = [
+      'rules:',
+      '  - { id: y-ewma, metric: controlQuantumYield, kind: ewma, severity: warning, lamda: 0.2 }',
+      '  - { id: y-w, metric: controlQuantumYield, kind: westgrd, severity: critical }',
+      '',
+    ].join('\n');
     let error: unknown;
     try {
       parseRuleSet(yaml, 'lab-rules.yaml');
@@ -122,7 +184,11 @@ describe('strict rule files and manifests (issue 20.8)', () => {
   });
 
   it('a manifest names an unknown key with the nearest valid one', () => {
-    expect(() => parseManifest('sampleId: s1\nsolvnt: ethanol\nfiles: [{ file: a.csv, part: emission }]\n', 'set.yaml')).toThrow(InputRejected);
-    expect(() => parseManifest('sampleId: s1\nsolvnt: ethanol\nfiles: [{ file: a.csv, part: emission }]\n', 'set.yaml')).toThrow('solvnt: unknown option "solvnt"; did you mean "solvent"?');
+    expect(() =>
+      parseManifest('sampleId: s1\nsolvnt: ethanol\nfiles: [{ file: a.csv, part: emission }]\n', 'set.yaml'),
+    ).toThrow(InputRejected);
+    expect(() =>
+      parseManifest('sampleId: s1\nsolvnt: ethanol\nfiles: [{ file: a.csv, part: emission }]\n', 'set.yaml'),
+    ).toThrow('solvnt: unknown option "solvnt"; did you mean "solvent"?');
   });
 });

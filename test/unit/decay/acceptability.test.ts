@@ -3,7 +3,14 @@
 // the limits (half a channel, ten windows, amplitudes that cancel by more than half) are this project's
 // stated choices, documented in docs/decay.md.
 import { describe, expect, it } from 'vitest';
-import { createSeededRandom, expectedDecayCounts, fitDecay, gaussianIrf, samplePoisson, simulateDecay } from '../../../src/decay/index.js';
+import {
+  createSeededRandom,
+  expectedDecayCounts,
+  fitDecay,
+  gaussianIrf,
+  samplePoisson,
+  simulateDecay,
+} from '../../../src/decay/index.js';
 import { fitAcceptability } from '../../../src/decay/acceptability.js';
 import { createDecay } from '../../../src/model/index.js';
 
@@ -12,7 +19,10 @@ function monoControl(seed: number): ReturnType<typeof simulateDecay> {
   const channels = 512;
   const widthNs = 0.05;
   const irf = Float64Array.from(gaussianIrf(channels, widthNs, 1.5, 0.25), (value) => Math.round(value * 20000));
-  return simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [4.1], photons: 3e5, irf, backgroundPerChannel: 2 }, createSeededRandom(seed));
+  return simulateDecay(
+    { channels, channelWidthNs: widthNs, tauNs: [4.1], photons: 3e5, irf, backgroundPerChannel: 2 },
+    createSeededRandom(seed),
+  );
 }
 
 describe('fit acceptability', () => {
@@ -42,10 +52,18 @@ describe('fit acceptability', () => {
       expect(mono.acceptable).toBe(true);
       const channels = 512;
       const widthNs = 0.05;
-      const bi = simulateDecay({
-        channels, channelWidthNs: widthNs, tauNs: [0.6, 3.5], intensityFractions: [0.35, 0.65], photons: 3e5,
-        irf: gaussianIrf(channels, widthNs, 1.5, 0.25), backgroundPerChannel: 2,
-      }, createSeededRandom(100 + seed));
+      const bi = simulateDecay(
+        {
+          channels,
+          channelWidthNs: widthNs,
+          tauNs: [0.6, 3.5],
+          intensityFractions: [0.35, 0.65],
+          photons: 3e5,
+          irf: gaussianIrf(channels, widthNs, 1.5, 0.25),
+          backgroundPerChannel: 2,
+        },
+        createSeededRandom(100 + seed),
+      );
       const two = fitDecay(bi, { components: 2, profileIntervals: false });
       expect(two.unacceptableReasons).toEqual([]);
       expect(two.acceptable).toBe(true);
@@ -59,19 +77,31 @@ describe('fit acceptability', () => {
     const fine = 10;
     const irfFine = gaussianIrf(channels * fine, widthNs / fine, 2, 0.25);
     const expectedFine = expectedDecayCounts({
-      channels: channels * fine, channelWidthNs: widthNs / fine, tauNs: [0.5, 3], intensityFractions: [0.3, 0.7], photons: 1e6, irf: irfFine, backgroundPerChannel: 0.1,
+      channels: channels * fine,
+      channelWidthNs: widthNs / fine,
+      tauNs: [0.5, 3],
+      intensityFractions: [0.3, 0.7],
+      photons: 1e6,
+      irf: irfFine,
+      backgroundPerChannel: 0.1,
     });
-    const binned = (values: Float64Array): Float64Array => Float64Array.from({ length: channels }, (_unused, k) => {
-      let sum = 0;
-      for (let j = 0; j < fine; j++) sum += values[k * fine + j] as number;
-      return sum;
-    });
+    const binned = (values: Float64Array): Float64Array =>
+      Float64Array.from({ length: channels }, (_unused, k) => {
+        let sum = 0;
+        for (let j = 0; j < fine; j++) sum += values[k * fine + j] as number;
+        return sum;
+      });
     const expected = binned(expectedFine);
     const irf = binned(irfFine);
     for (const seed of [1, 2, 3]) {
       const random = createSeededRandom(seed);
       const counts = Float64Array.from(expected, (mean) => samplePoisson(mean, random));
-      const decay = createDecay({ timeNs: Float64Array.from({ length: channels }, (_unused, k) => k * widthNs), counts, channelWidthNs: widthNs, irfCounts: irf });
+      const decay = createDecay({
+        timeNs: Float64Array.from({ length: channels }, (_unused, k) => k * widthNs),
+        counts,
+        channelWidthNs: widthNs,
+        irfCounts: irf,
+      });
       const fit = fitDecay(decay, { components: 'auto', profileIntervals: false });
       expect(fit.selection?.chosenComponents).toBe(2);
       // With the flat-IRF model the 3-component candidate grew a sub-channel component and was refused as
@@ -89,18 +119,28 @@ describe('fit acceptability', () => {
     const base = { converged: true, channelWidthNs: 0.05, windowNs: 25.6, atBound: [] as string[] };
     const cancelling = fitAcceptability({
       ...base,
-      components: [{ tauNs: 2, amplitude: 100, tauFixed: false }, { tauNs: 2.5, amplitude: -90, tauFixed: false }],
+      components: [
+        { tauNs: 2, amplitude: 100, tauFixed: false },
+        { tauNs: 2.5, amplitude: -90, tauFixed: false },
+      ],
     });
     expect(cancelling.some((reason) => /cancel/.test(reason))).toBe(true);
     // A rise term (negative amplitude) that does not cancel most of the decay is allowed.
     const rise = fitAcceptability({
       ...base,
-      components: [{ tauNs: 0.3, amplitude: -20, tauFixed: false }, { tauNs: 4, amplitude: 100, tauFixed: false }],
+      components: [
+        { tauNs: 0.3, amplitude: -20, tauFixed: false },
+        { tauNs: 4, amplitude: 100, tauFixed: false },
+      ],
     });
     expect(rise).toEqual([]);
     // A fixed lifetime is the caller's choice and is not judged; a free one beyond ten windows is.
     expect(fitAcceptability({ ...base, components: [{ tauNs: 1000, amplitude: 5, tauFixed: true }] })).toEqual([]);
-    expect(fitAcceptability({ ...base, components: [{ tauNs: 1000, amplitude: 5, tauFixed: false }] })[0]).toMatch(/10 × the window/);
-    expect(fitAcceptability({ ...base, converged: false, components: [{ tauNs: 4, amplitude: 5, tauFixed: false }] })[0]).toMatch(/did not converge/);
+    expect(fitAcceptability({ ...base, components: [{ tauNs: 1000, amplitude: 5, tauFixed: false }] })[0]).toMatch(
+      /10 × the window/,
+    );
+    expect(
+      fitAcceptability({ ...base, converged: false, components: [{ tauNs: 4, amplitude: 5, tauFixed: false }] })[0],
+    ).toMatch(/did not converge/);
   });
 });

@@ -6,7 +6,13 @@
 //    10⁴ photons (Köllner & Wolfrum, Chem. Phys. Lett. 200, 199 (1992)), and the empirical σ matches the
 //    Cramér–Rao bound 1/√I with I = Σ(1/μᵢ)(∂μᵢ/∂τ)² (Bouchet et al., Opt. Express 27, 21239 (2019), from memory).
 import { describe, expect, it } from 'vitest';
-import { createSeededRandom, expectedDecayCounts, fitDecay, gaussianIrf, simulateDecay } from '../../../src/decay/index.js';
+import {
+  createSeededRandom,
+  expectedDecayCounts,
+  fitDecay,
+  gaussianIrf,
+  simulateDecay,
+} from '../../../src/decay/index.js';
 
 function mean(values: readonly number[]): number {
   return values.reduce((sum, value) => sum + value, 0) / values.length;
@@ -43,7 +49,9 @@ describe('ML standard errors and bias at 1,000 photons (400 seeded decays)', () 
     if (Math.abs(tauHat - tauNs) < (component?.tauNsStdErr ?? 0)) covered++;
     const range = { rangeNs: fit.rangeNs } as const;
     neyman.push(fitDecay(decay, { ...options, ...range, estimator: 'lsq-neyman' }).components[0]?.tauNs ?? Number.NaN);
-    pearson.push(fitDecay(decay, { ...options, ...range, estimator: 'lsq-pearson' }).components[0]?.tauNs ?? Number.NaN);
+    pearson.push(
+      fitDecay(decay, { ...options, ...range, estimator: 'lsq-pearson' }).components[0]?.tauNs ?? Number.NaN,
+    );
   }
 
   it('converges on nearly every decay', () => {

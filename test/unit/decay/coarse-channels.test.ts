@@ -26,16 +26,29 @@ function caseData(c: CoarseCase): { expected: Float64Array; irf: Float64Array; c
   const irfCentreNs = 1.0 + 0.37 * c.channelWidthNs;
   const irf = gaussianIrf(channels, c.channelWidthNs, irfCentreNs, c.irfFwhmNs);
   const expected = exactGaussianDecayCounts({
-    channels, channelWidthNs: c.channelWidthNs, irfCentreNs: irfCentreNs + c.shiftChannels * c.channelWidthNs,
-    irfFwhmNs: c.irfFwhmNs, tauNs: [c.tauNs], photons: PHOTONS, backgroundPerChannel: 1,
+    channels,
+    channelWidthNs: c.channelWidthNs,
+    irfCentreNs: irfCentreNs + c.shiftChannels * c.channelWidthNs,
+    irfFwhmNs: c.irfFwhmNs,
+    tauNs: [c.tauNs],
+    photons: PHOTONS,
+    backgroundPerChannel: 1,
   });
   return { expected, irf: Float64Array.from(irf, (v) => v * 1e6), channels };
 }
 
-function fitTau(counts: Float64Array, irf: Float64Array, c: CoarseCase, options: FitDecayOptions = {}): { tauNs: number; warnings: readonly string[] } {
+function fitTau(
+  counts: Float64Array,
+  irf: Float64Array,
+  c: CoarseCase,
+  options: FitDecayOptions = {},
+): { tauNs: number; warnings: readonly string[] } {
   const decay = createDecay({
     timeNs: Float64Array.from({ length: counts.length }, (_unused, k) => k * c.channelWidthNs),
-    counts, channelWidthNs: c.channelWidthNs, irfCounts: irf, metadata: {},
+    counts,
+    channelWidthNs: c.channelWidthNs,
+    irfCounts: irf,
+    metadata: {},
   });
   const result = fitDecay(decay, { profileIntervals: false, ...options });
   return { tauNs: result.components[0]?.tauNs as number, warnings: result.warnings };
@@ -53,21 +66,28 @@ export const COARSE_CASES: readonly CoarseCase[] = [
 ];
 
 describe('coarse channels: lifetime bias against an exact continuous-IRF truth', () => {
-  it.each(COARSE_CASES)('τ $tauNs ns, Δ $channelWidthNs ns, IRF FWHM $irfFwhmNs ns, offset $shiftChannels channel', (c) => {
-    const { expected, irf } = caseData(c);
-    const fit = fitTau(expected, irf, c);
-    const flat = fitTau(expected, irf, c, { irfWithinChannel: 'flat' });
-    const bias = fit.tauNs / c.tauNs - 1;
-    const flatBias = flat.tauNs / c.tauNs - 1;
-    console.info(`COARSE tau=${c.tauNs} dt=${c.channelWidthNs} fwhm=${c.irfFwhmNs} off=${c.shiftChannels}: noise-free bias flat ${(100 * flatBias).toFixed(2)} %, second-order ${(100 * bias).toFixed(2)} %; warned=${fit.warnings.some((w) => /IRF FWHM spans/.test(w))}`);
-    const warned = fit.warnings.some((w) => /IRF FWHM spans/.test(w));
-    // Without a warning the second-order treatment keeps the noise-free bias within 0.25 %; the flat IRF
-    // is always at least as biased (O(Δ²) against O(Δ⁴)).
-    if (!warned) expect(Math.abs(bias)).toBeLessThan(0.0025);
-    expect(Math.abs(bias)).toBeLessThanOrEqual(Math.abs(flatBias) + 1e-4);
-    // The flat treatment warns below 10 channels per FWHM.
-    expect(flat.warnings.some((w) => /IRF FWHM spans .* irfWithinChannel 'flat'/.test(w))).toBe(c.irfFwhmNs / c.channelWidthNs < 10);
-  });
+  it.each(COARSE_CASES)(
+    'τ $tauNs ns, Δ $channelWidthNs ns, IRF FWHM $irfFwhmNs ns, offset $shiftChannels channel',
+    (c) => {
+      const { expected, irf } = caseData(c);
+      const fit = fitTau(expected, irf, c);
+      const flat = fitTau(expected, irf, c, { irfWithinChannel: 'flat' });
+      const bias = fit.tauNs / c.tauNs - 1;
+      const flatBias = flat.tauNs / c.tauNs - 1;
+      console.info(
+        `COARSE tau=${c.tauNs} dt=${c.channelWidthNs} fwhm=${c.irfFwhmNs} off=${c.shiftChannels}: noise-free bias flat ${(100 * flatBias).toFixed(2)} %, second-order ${(100 * bias).toFixed(2)} %; warned=${fit.warnings.some((w) => /IRF FWHM spans/.test(w))}`,
+      );
+      const warned = fit.warnings.some((w) => /IRF FWHM spans/.test(w));
+      // Without a warning the second-order treatment keeps the noise-free bias within 0.25 %; the flat IRF
+      // is always at least as biased (O(Δ²) against O(Δ⁴)).
+      if (!warned) expect(Math.abs(bias)).toBeLessThan(0.0025);
+      expect(Math.abs(bias)).toBeLessThanOrEqual(Math.abs(flatBias) + 1e-4);
+      // The flat treatment warns below 10 channels per FWHM.
+      expect(flat.warnings.some((w) => /IRF FWHM spans .* irfWithinChannel 'flat'/.test(w))).toBe(
+        c.irfFwhmNs / c.channelWidthNs < 10,
+      );
+    },
+  );
 
   it.skipIf(process.env['DRIFTLIGHT_LONG_TESTS'] !== '1').each(COARSE_CASES.slice(0, 3))(
     'seeded (100 Poisson decays, 1e6 photons): τ $tauNs ns, Δ $channelWidthNs ns, offset $shiftChannels',
@@ -85,7 +105,9 @@ describe('coarse channels: lifetime bias against an exact continuous-IRF truth',
         const sd = Math.sqrt(values.reduce((s, v) => s + (v - mean) ** 2, 0) / (values.length - 1));
         return `${(100 * mean).toFixed(2)} ± ${((100 * sd) / Math.sqrt(values.length)).toFixed(2)} % (SD ${(100 * sd).toFixed(2)} %)`;
       };
-      console.info(`COARSE-SEEDED tau=${c.tauNs} dt=${c.channelWidthNs} off=${c.shiftChannels}: flat ${summary(biases.flat)}, second-order ${summary(biases.secondOrder)}`);
+      console.info(
+        `COARSE-SEEDED tau=${c.tauNs} dt=${c.channelWidthNs} off=${c.shiftChannels}: flat ${summary(biases.flat)}, second-order ${summary(biases.secondOrder)}`,
+      );
       const mean = biases.secondOrder.reduce((s, v) => s + v, 0) / biases.secondOrder.length;
       expect(Math.abs(mean)).toBeLessThan(0.005);
     },

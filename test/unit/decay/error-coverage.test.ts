@@ -30,10 +30,47 @@ interface CoverageCase {
 }
 
 export const COVERAGE_CASES: readonly CoverageCase[] = [
-  { name: 'mono 2 ns', channels: 256, channelWidthNs: 0.05, tauNs: [2], photons: 1e5, backgroundPerChannel: 2, irfCounts: 1e5, irfFwhmNs: 0.2 },
-  { name: 'bi 0.5 + 3 ns', channels: 256, channelWidthNs: 0.08, tauNs: [0.5, 3], intensityFractions: [0.4, 0.6], photons: 2e5, backgroundPerChannel: 1, irfCounts: 1e5, irfFwhmNs: 0.2 },
-  { name: 'low-IRF-count mono 1 ns (IRF 1e4 counts)', channels: 200, channelWidthNs: 0.05, tauNs: [1], photons: 2e5, backgroundPerChannel: 2, irfCounts: 1e4, irfFwhmNs: 0.3 },
-  { name: 'background at its bound (true 0), mono 2 ns, 2e3 photons', channels: 256, channelWidthNs: 0.05, tauNs: [2], photons: 2e3, backgroundPerChannel: 0, irfCounts: 1e5, irfFwhmNs: 0.2 },
+  {
+    name: 'mono 2 ns',
+    channels: 256,
+    channelWidthNs: 0.05,
+    tauNs: [2],
+    photons: 1e5,
+    backgroundPerChannel: 2,
+    irfCounts: 1e5,
+    irfFwhmNs: 0.2,
+  },
+  {
+    name: 'bi 0.5 + 3 ns',
+    channels: 256,
+    channelWidthNs: 0.08,
+    tauNs: [0.5, 3],
+    intensityFractions: [0.4, 0.6],
+    photons: 2e5,
+    backgroundPerChannel: 1,
+    irfCounts: 1e5,
+    irfFwhmNs: 0.2,
+  },
+  {
+    name: 'low-IRF-count mono 1 ns (IRF 1e4 counts)',
+    channels: 200,
+    channelWidthNs: 0.05,
+    tauNs: [1],
+    photons: 2e5,
+    backgroundPerChannel: 2,
+    irfCounts: 1e4,
+    irfFwhmNs: 0.3,
+  },
+  {
+    name: 'background at its bound (true 0), mono 2 ns, 2e3 photons',
+    channels: 256,
+    channelWidthNs: 0.05,
+    tauNs: [2],
+    photons: 2e3,
+    backgroundPerChannel: 0,
+    irfCounts: 1e5,
+    irfFwhmNs: 0.2,
+  },
 ];
 
 interface CoverageTally {
@@ -47,29 +84,46 @@ function runCase(c: CoverageCase, seeds: number, profile: boolean): CoverageTall
   const random = createSeededRandom(17_3);
   const trueIrf = gaussianIrf(c.channels, c.channelWidthNs, 1.0 + 0.3 * c.channelWidthNs, c.irfFwhmNs);
   const expected = expectedDecayCounts({
-    channels: c.channels, channelWidthNs: c.channelWidthNs, tauNs: c.tauNs, photons: c.photons, irf: trueIrf,
-    backgroundPerChannel: c.backgroundPerChannel, ...(c.intensityFractions === undefined ? {} : { intensityFractions: c.intensityFractions }),
+    channels: c.channels,
+    channelWidthNs: c.channelWidthNs,
+    tauNs: c.tauNs,
+    photons: c.photons,
+    irf: trueIrf,
+    backgroundPerChannel: c.backgroundPerChannel,
+    ...(c.intensityFractions === undefined ? {} : { intensityFractions: c.intensityFractions }),
   });
-  const tally: CoverageTally = { covered: c.tauNs.map(() => 0), fits: 0, notAvailable: 0, notAvailableWithoutReason: 0 };
+  const tally: CoverageTally = {
+    covered: c.tauNs.map(() => 0),
+    fits: 0,
+    notAvailable: 0,
+    notAvailableWithoutReason: 0,
+  };
   for (let seed = 0; seed < seeds; seed++) {
     const irf = Float64Array.from(trueIrf, (g) => samplePoisson(g * c.irfCounts, random));
     const counts = Float64Array.from(expected, (mean) => samplePoisson(mean, random));
     const decay = createDecay({
       timeNs: Float64Array.from({ length: c.channels }, (_unused, k) => k * c.channelWidthNs),
-      counts, channelWidthNs: c.channelWidthNs, irfCounts: irf, metadata: {},
+      counts,
+      channelWidthNs: c.channelWidthNs,
+      irfCounts: irf,
+      metadata: {},
     });
     const fit = fitDecay(decay, { components: c.tauNs.length as 1 | 2, profileIntervals: profile });
     tally.fits++;
     fit.components.forEach((component, index) => {
       const truth = c.tauNs[index] as number;
       const se = component.tauNsStdErr;
-      if (se !== undefined && Math.abs(component.tauNs - truth) <= se) tally.covered[index] = (tally.covered[index] as number) + 1;
+      if (se !== undefined && Math.abs(component.tauNs - truth) <= se)
+        tally.covered[index] = (tally.covered[index] as number) + 1;
       if (profile) {
         const interval = component.tauNsInterval;
         const missing = interval === undefined || interval.lowNs === undefined || interval.highNs === undefined;
         if (missing) {
           tally.notAvailable++;
-          const explained = interval !== undefined && (interval.lowNs !== undefined || interval.lowReason !== undefined) && (interval.highNs !== undefined || interval.highReason !== undefined);
+          const explained =
+            interval !== undefined &&
+            (interval.lowNs !== undefined || interval.lowReason !== undefined) &&
+            (interval.highNs !== undefined || interval.highReason !== undefined);
           if (!explained) tally.notAvailableWithoutReason++;
         }
       }
@@ -79,19 +133,31 @@ function runCase(c: CoverageCase, seeds: number, profile: boolean): CoverageTall
 }
 
 describe(`±1 SE coverage of τ on ${SEEDS} seeded fits per case (68.27 % ± ${(100 * TOLERANCE).toFixed(1)} %)`, () => {
-  it.each(COVERAGE_CASES.map((c) => [c.name, c] as const))('%s', (_name, c) => {
-    const started = performance.now();
-    const tally = runCase(c, SEEDS, false);
-    const rates = tally.covered.map((covered) => covered / tally.fits);
-    console.info(`COVERAGE ${c.name}: ${rates.map((r) => `${(100 * r).toFixed(1)} %`).join(', ')} of ${tally.fits} (${((performance.now() - started) / 1000).toFixed(1)} s)`);
-    for (const rate of rates) expect(Math.abs(rate - COVERAGE)).toBeLessThanOrEqual(TOLERANCE);
-  }, 300_000);
+  it.each(COVERAGE_CASES.map((c) => [c.name, c] as const))(
+    '%s',
+    (_name, c) => {
+      const started = performance.now();
+      const tally = runCase(c, SEEDS, false);
+      const rates = tally.covered.map((covered) => covered / tally.fits);
+      console.info(
+        `COVERAGE ${c.name}: ${rates.map((r) => `${(100 * r).toFixed(1)} %`).join(', ')} of ${tally.fits} (${((performance.now() - started) / 1000).toFixed(1)} s)`,
+      );
+      for (const rate of rates) expect(Math.abs(rate - COVERAGE)).toBeLessThanOrEqual(TOLERANCE);
+    },
+    300_000,
+  );
 });
 
 describe('profile intervals are computed or say why not', () => {
-  it.each(COVERAGE_CASES.slice(0, 3).map((c) => [c.name, c] as const))('%s (40 seeds)', (_name, c) => {
-    const tally = runCase(c, LONG ? 200 : 40, true);
-    console.info(`PROFILE ${c.name}: n/a ${tally.notAvailable} of ${tally.fits * c.tauNs.length}, without a reason ${tally.notAvailableWithoutReason}`);
-    expect(tally.notAvailableWithoutReason).toBe(0);
-  }, 300_000);
+  it.each(COVERAGE_CASES.slice(0, 3).map((c) => [c.name, c] as const))(
+    '%s (40 seeds)',
+    (_name, c) => {
+      const tally = runCase(c, LONG ? 200 : 40, true);
+      console.info(
+        `PROFILE ${c.name}: n/a ${tally.notAvailable} of ${tally.fits * c.tauNs.length}, without a reason ${tally.notAvailableWithoutReason}`,
+      );
+      expect(tally.notAvailableWithoutReason).toBe(0);
+    },
+    300_000,
+  );
 });

@@ -5,7 +5,11 @@ import { convolveExponentialWithIrf, type ConvolutionBuffers } from '../../../sr
 import { shiftIrf } from '../../../src/decay/irf-shift.js';
 
 function buffers(length: number): ConvolutionBuffers {
-  return { response: new Float64Array(length), responsePerTauNs: new Float64Array(length), responsePerShiftNs: new Float64Array(length) };
+  return {
+    response: new Float64Array(length),
+    responsePerTauNs: new Float64Array(length),
+    responsePerShiftNs: new Float64Array(length),
+  };
 }
 
 /**
@@ -33,15 +37,18 @@ function bruteForce(irf: Float64Array, tauNs: number, widthNs: number, channel: 
 const irf = Float64Array.from([0, 0.1, 0.4, 0.3, 0.2, 0, 0, 0, 0, 0, 0, 0]);
 
 describe('convolveExponentialWithIrf', () => {
-  it.each([[0.05], [0.3], [2.5]])('matches brute-force quadrature of the double integral (τ = %s ns, Δ = 0.1 ns)', (tauNs) => {
-    const out = buffers(irf.length);
-    convolveExponentialWithIrf(irf, undefined, tauNs, 0.1, undefined, 0, irf.length, false, out);
-    for (let k = 0; k < irf.length; k++) {
-      // Midpoint rule error is O(h²); 400 subdivisions per channel keep it below 1e-4 relative.
-      const expected = bruteForce(irf, tauNs, 0.1, k, 400);
-      expect(Math.abs((out.response[k] as number) - expected)).toBeLessThan(2e-4 * Math.max(expected, 1e-3));
-    }
-  });
+  it.each([[0.05], [0.3], [2.5]])(
+    'matches brute-force quadrature of the double integral (τ = %s ns, Δ = 0.1 ns)',
+    (tauNs) => {
+      const out = buffers(irf.length);
+      convolveExponentialWithIrf(irf, undefined, tauNs, 0.1, undefined, 0, irf.length, false, out);
+      for (let k = 0; k < irf.length; k++) {
+        // Midpoint rule error is O(h²); 400 subdivisions per channel keep it below 1e-4 relative.
+        const expected = bruteForce(irf, tauNs, 0.1, k, 400);
+        expect(Math.abs((out.response[k] as number) - expected)).toBeLessThan(2e-4 * Math.max(expected, 1e-3));
+      }
+    },
+  );
 
   it('has the τ derivative of a central finite difference', () => {
     const out = buffers(irf.length);

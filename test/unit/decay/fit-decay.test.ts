@@ -14,7 +14,18 @@ describe('lifetime standards recovered within 3 standard errors', () => {
     const widthNs = windowNs / channels;
     const random = createSeededRandom(20261201);
     const irf = gaussianIrf(channels, widthNs, 0.1 * windowNs, fwhmNs);
-    const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [tauNs], photons, irf, backgroundPerChannel: 0.5, shiftNs: 0.3 * widthNs }, random);
+    const decay = simulateDecay(
+      {
+        channels,
+        channelWidthNs: widthNs,
+        tauNs: [tauNs],
+        photons,
+        irf,
+        backgroundPerChannel: 0.5,
+        shiftNs: 0.3 * widthNs,
+      },
+      random,
+    );
     const fit = fitDecay(decay);
     expect(fit.converged).toBe(true);
     expect(fit.model).toBe('reconvolution');
@@ -66,10 +77,18 @@ describe('tail fit without an IRF', () => {
 function biExponential(seed: number, photons = 2e5): ReturnType<typeof simulateDecay> {
   const channels = 1024;
   const widthNs = 50 / channels;
-  return simulateDecay({
-    channels, channelWidthNs: widthNs, tauNs: [0.6, 3.5], intensityFractions: [0.35, 0.65], photons,
-    irf: gaussianIrf(channels, widthNs, 3, 0.2), backgroundPerChannel: 1,
-  }, createSeededRandom(seed));
+  return simulateDecay(
+    {
+      channels,
+      channelWidthNs: widthNs,
+      tauNs: [0.6, 3.5],
+      intensityFractions: [0.35, 0.65],
+      photons,
+      irf: gaussianIrf(channels, widthNs, 3, 0.2),
+      backgroundPerChannel: 1,
+    },
+    createSeededRandom(seed),
+  );
 }
 
 describe('two components and model selection', () => {
@@ -97,9 +116,17 @@ describe('two components and model selection', () => {
     expect(bi.selection?.candidates).toHaveLength(3);
     expect(bi.selection?.reason).toMatch(/2 components chosen/);
     const channels = 512;
-    const mono = simulateDecay({
-      channels, channelWidthNs: 25 / channels, tauNs: [2], photons: 5e4, irf: gaussianIrf(channels, 25 / channels, 2, 0.2), backgroundPerChannel: 0.5,
-    }, createSeededRandom(12));
+    const mono = simulateDecay(
+      {
+        channels,
+        channelWidthNs: 25 / channels,
+        tauNs: [2],
+        photons: 5e4,
+        irf: gaussianIrf(channels, 25 / channels, 2, 0.2),
+        backgroundPerChannel: 0.5,
+      },
+      createSeededRandom(12),
+    );
     const single = fitDecay(mono, { components: 'auto' });
     expect(single.selection?.chosenComponents).toBe(1);
     // Profile intervals are computed for the chosen model only.
@@ -118,13 +145,19 @@ describe('periodic excitation', () => {
     const periodNs = 25;
     const widthNs = periodNs / channels;
     const irf = gaussianIrf(channels, widthNs, 2, 0.15);
-    const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [9], photons: 2e5, irf, periodNs }, createSeededRandom(4), 1e9 / periodNs);
+    const decay = simulateDecay(
+      { channels, channelWidthNs: widthNs, tauNs: [9], photons: 2e5, irf, periodNs },
+      createSeededRandom(4),
+      1e9 / periodNs,
+    );
     const fit = fitDecay(decay, { profileIntervals: false });
     const component = fit.components[0];
     expect(fit.converged).toBe(true);
     expect(Math.abs((component?.tauNs ?? 0) - 9)).toBeLessThan(3 * (component?.tauNsStdErr ?? 0));
     // Ignoring the earlier pulses (no repetition rate) fits far worse: the wrapped tail is not a constant.
-    const naive = fitDecay(createDecay({ timeNs: decay.timeNs, counts: decay.counts, irfCounts: irf }), { profileIntervals: false });
+    const naive = fitDecay(createDecay({ timeNs: decay.timeNs, counts: decay.counts, irfCounts: irf }), {
+      profileIntervals: false,
+    });
     expect(naive.deviance - fit.deviance).toBeGreaterThan(50);
   });
 });
@@ -133,7 +166,10 @@ describe('options, errors and warnings', () => {
   const channels = 512;
   const widthNs = 25 / channels;
   const irf = gaussianIrf(channels, widthNs, 2, 0.2);
-  const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [3], photons: 3e4, irf, backgroundPerChannel: 1 }, createSeededRandom(21));
+  const decay = simulateDecay(
+    { channels, channelWidthNs: widthNs, tauNs: [3], photons: 3e4, irf, backgroundPerChannel: 1 },
+    createSeededRandom(21),
+  );
 
   it('holds fixed parameters and reports them', () => {
     const fit = fitDecay(decay, { fixed: { tau1Ns: 3.2 }, profileIntervals: false });
@@ -175,13 +211,21 @@ describe('options, errors and warnings', () => {
   });
 
   it('warns about low peak counts and lifetimes below a tenth of the IRF FWHM', () => {
-    const faint = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [3], photons: 800, irf }, createSeededRandom(2));
-    expect(fitDecay(faint, { profileIntervals: false }).warnings.some((w) => w.startsWith('peak counts are low'))).toBe(true);
+    const faint = simulateDecay(
+      { channels, channelWidthNs: widthNs, tauNs: [3], photons: 800, irf },
+      createSeededRandom(2),
+    );
+    expect(fitDecay(faint, { profileIntervals: false }).warnings.some((w) => w.startsWith('peak counts are low'))).toBe(
+      true,
+    );
     // τ = 40 ps against a 0.5 ns IRF on 24 ps channels: resolvable in principle, but below FWHM/10.
     const fineChannels = 1024;
     const fineWidthNs = 25 / fineChannels;
     const broad = gaussianIrf(fineChannels, fineWidthNs, 3, 0.5);
-    const fast = simulateDecay({ channels: fineChannels, channelWidthNs: fineWidthNs, tauNs: [0.04], photons: 1e5, irf: broad }, createSeededRandom(3));
+    const fast = simulateDecay(
+      { channels: fineChannels, channelWidthNs: fineWidthNs, tauNs: [0.04], photons: 1e5, irf: broad },
+      createSeededRandom(3),
+    );
     const fastFit = fitDecay(fast, { profileIntervals: false });
     expect(fastFit.converged).toBe(true);
     expect(fastFit.warnings.some((w) => w.includes('below a tenth of the IRF FWHM'))).toBe(true);
@@ -189,16 +233,24 @@ describe('options, errors and warnings', () => {
 
   it('warns when the count rate exceeds 5 % of the repetition rate and applies Coates only when possible', () => {
     const busy = createDecay({
-      timeNs: decay.timeNs, counts: decay.counts, irfCounts: irf,
+      timeNs: decay.timeNs,
+      counts: decay.counts,
+      irfCounts: irf,
       metadata: { repetitionRateHz: 1e6, countRatePerS: 1e5 },
     });
     const withoutCycles = fitDecay(busy, { pileUpCorrection: true, profileIntervals: false });
     expect(withoutCycles.warnings.some((w) => w.includes('exceeds 5 %'))).toBe(true);
     expect(withoutCycles.warnings.some((w) => w.includes('collection time or repetition rate is unknown'))).toBe(true);
     expect(withoutCycles.pileUpCorrected).toBe(false);
-    const withCycles = fitDecay(createDecay({
-      timeNs: decay.timeNs, counts: decay.counts, irfCounts: irf, metadata: { repetitionRateHz: 1e6, collectionTimeS: 1 },
-    }), { pileUpCorrection: true, profileIntervals: false });
+    const withCycles = fitDecay(
+      createDecay({
+        timeNs: decay.timeNs,
+        counts: decay.counts,
+        irfCounts: irf,
+        metadata: { repetitionRateHz: 1e6, collectionTimeS: 1 },
+      }),
+      { pileUpCorrection: true, profileIntervals: false },
+    );
     expect(withCycles.pileUpCorrected).toBe(true);
   });
 
@@ -207,7 +259,10 @@ describe('options, errors and warnings', () => {
     const random = createSeededRandom(8);
     const irfSum = irf.reduce((a, b) => a + b, 0);
     const scattered = mean.map((value, k) => value + samplePoisson((5000 * (irf[k] as number)) / irfSum, random));
-    const fit = fitDecay(createDecay({ timeNs: decay.timeNs, counts: scattered, irfCounts: irf }), { scatter: true, profileIntervals: false });
+    const fit = fitDecay(createDecay({ timeNs: decay.timeNs, counts: scattered, irfCounts: irf }), {
+      scatter: true,
+      profileIntervals: false,
+    });
     expect(fit.scatterFraction).toBeGreaterThan(0.1);
     expect(fit.scatterFraction).toBeLessThan(0.2);
     expect(Math.abs((fit.components[0]?.tauNs ?? 0) - 3)).toBeLessThan(3 * (fit.components[0]?.tauNsStdErr ?? 0));

@@ -9,10 +9,19 @@ import { prepareDecay } from '../../../src/decay/prepare-decay.js';
 
 const channels = 512;
 const widthNs = 25 / channels;
-const decay = simulateDecay({
-  channels, channelWidthNs: widthNs, tauNs: [0.7, 3.5], intensityFractions: [0.4, 0.6], photons: 2e4,
-  irf: gaussianIrf(channels, widthNs, 2, 0.2), backgroundPerChannel: 0.5, shiftNs: 0.01,
-}, createSeededRandom(31));
+const decay = simulateDecay(
+  {
+    channels,
+    channelWidthNs: widthNs,
+    tauNs: [0.7, 3.5],
+    intensityFractions: [0.4, 0.6],
+    photons: 2e4,
+    irf: gaussianIrf(channels, widthNs, 2, 0.2),
+    backgroundPerChannel: 0.5,
+    shiftNs: 0.01,
+  },
+  createSeededRandom(31),
+);
 
 function problemFor(estimator: 'ml' | 'lsq-neyman' | 'lsq-pearson') {
   const options = resolveFitDecayOptions({ components: 2, estimator, profileIntervals: false });
@@ -24,16 +33,19 @@ function problemFor(estimator: 'ml' | 'lsq-neyman' | 'lsq-pearson') {
 }
 
 describe('FitProblem', () => {
-  it.each(['ml', 'lsq-neyman', 'lsq-pearson'] as const)('returns the same Σ r² with and without derivatives (%s), bit for bit', (estimator) => {
-    const { problem, start, size } = problemFor(estimator);
-    const normal = new Float64Array(size * size);
-    const gradient = new Float64Array(size);
-    for (const factor of [1, 1.01, 0.97]) {
-      const parameters = Float64Array.from(start, (value) => value * factor);
-      const withDerivatives = problem.evaluate(parameters, true, normal, gradient);
-      expect(problem.evaluate(parameters, false, normal, gradient)).toBe(withDerivatives);
-    }
-  });
+  it.each(['ml', 'lsq-neyman', 'lsq-pearson'] as const)(
+    'returns the same Σ r² with and without derivatives (%s), bit for bit',
+    (estimator) => {
+      const { problem, start, size } = problemFor(estimator);
+      const normal = new Float64Array(size * size);
+      const gradient = new Float64Array(size);
+      for (const factor of [1, 1.01, 0.97]) {
+        const parameters = Float64Array.from(start, (value) => value * factor);
+        const withDerivatives = problem.evaluate(parameters, true, normal, gradient);
+        expect(problem.evaluate(parameters, false, normal, gradient)).toBe(withDerivatives);
+      }
+    },
+  );
 
   it('reuses the last evaluation for the information and the fitted counts only at the same parameters', () => {
     const { problem, start, size } = problemFor('ml');

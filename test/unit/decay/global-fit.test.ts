@@ -11,7 +11,18 @@ describe('globalFit', () => {
   const random = createSeededRandom(31);
   const fractions = [0.2, 0.5, 0.8];
   const decays = fractions.map((fraction) =>
-    simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [0.9, 4.2], intensityFractions: [fraction, 1 - fraction], photons: 3e4, irf, backgroundPerChannel: 0.5 }, random),
+    simulateDecay(
+      {
+        channels,
+        channelWidthNs: widthNs,
+        tauNs: [0.9, 4.2],
+        intensityFractions: [fraction, 1 - fraction],
+        photons: 3e4,
+        irf,
+        backgroundPerChannel: 0.5,
+      },
+      random,
+    ),
   );
 
   it('recovers shared lifetimes within 3 standard errors and per-decay fractions', () => {

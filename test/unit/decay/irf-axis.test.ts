@@ -10,18 +10,29 @@ import { InputRejected } from '../../../src/model/index.js';
 
 const channels = 512;
 const widthNs = 0.05;
-const decayAxis = { timeNs: Float64Array.from({ length: channels }, (_unused, k) => k * widthNs), channelWidthNs: widthNs };
+const decayAxis = {
+  timeNs: Float64Array.from({ length: channels }, (_unused, k) => k * widthNs),
+  channelWidthNs: widthNs,
+};
 const centreNs = 2;
 const fwhmNs = 0.25;
 
 /** A Gaussian IRF integrated over channels of `width` starting at `startNs` (absolute centre `centreNs`). */
-function irfOn(width: number, count: number, startNs: number): { timeNs: Float64Array; counts: Float64Array; channelWidthNs: number } {
+function irfOn(
+  width: number,
+  count: number,
+  startNs: number,
+): { timeNs: Float64Array; counts: Float64Array; channelWidthNs: number } {
   // gaussianIrf integrates from 0; shifting the centre by −startNs puts channel k at startNs + k·width.
-  return { timeNs: Float64Array.from({ length: count }, (_unused, k) => startNs + k * width), counts: gaussianIrf(count, width, centreNs - startNs, fwhmNs), channelWidthNs: width };
+  return {
+    timeNs: Float64Array.from({ length: count }, (_unused, k) => startNs + k * width),
+    counts: gaussianIrf(count, width, centreNs - startNs, fwhmNs),
+    channelWidthNs: width,
+  };
 }
 
 describe('IRF on its own time axis', () => {
-  it('rebins a finer IRF (25 ps) onto the decay\'s 50 ps channels exactly (channel integrals add up)', () => {
+  it("rebins a finer IRF (25 ps) onto the decay's 50 ps channels exactly (channel integrals add up)", () => {
     const fine = irfOn(0.025, 1024, 0);
     const aligned = alignIrfToDecay(fine, decayAxis);
     const truth = gaussianIrf(channels, widthNs, centreNs, fwhmNs);
@@ -36,7 +47,8 @@ describe('IRF on its own time axis', () => {
     // 20 ps channels straddle the 50 ps ones: within a straddled IRF channel the counts are split by time
     // (flat within the channel): 0.5 % of the peak here (IRF σ ≈ 5 IRF channels), below 1 %.
     let worst = 0;
-    for (let k = 0; k < channels; k++) worst = Math.max(worst, Math.abs((aligned.counts[k] as number) - (truth[k] as number)));
+    for (let k = 0; k < channels; k++)
+      worst = Math.max(worst, Math.abs((aligned.counts[k] as number) - (truth[k] as number)));
     expect(worst / Math.max(...truth)).toBeLessThan(0.01);
     let sum = 0;
     for (const value of aligned.counts) sum += value;
@@ -58,7 +70,17 @@ describe('IRF on its own time axis', () => {
   });
 
   it('recovers the lifetime with the aligned IRF where channel-by-channel pairing does not (truth 3.4 ns)', () => {
-    const decay = simulateDecay({ channels, channelWidthNs: widthNs, tauNs: [3.4], photons: 2e5, irf: gaussianIrf(channels, widthNs, centreNs, fwhmNs), backgroundPerChannel: 2 }, createSeededRandom(17));
+    const decay = simulateDecay(
+      {
+        channels,
+        channelWidthNs: widthNs,
+        tauNs: [3.4],
+        photons: 2e5,
+        irf: gaussianIrf(channels, widthNs, centreNs, fwhmNs),
+        backgroundPerChannel: 2,
+      },
+      createSeededRandom(17),
+    );
     const recorded = irfOn(0.025, 1200, -3);
     const aligned = alignIrfToDecay(recorded, decayAxis);
     const fit = fitDecay(decay, { irfCounts: aligned.counts, profileIntervals: false });
@@ -67,10 +89,13 @@ describe('IRF on its own time axis', () => {
     expect(Math.abs(fit.shiftNs)).toBeLessThan(0.01);
     // The old pairing (the first 512 IRF channels taken as the decay's) puts the IRF 3 ns and a factor of 2 off.
     const paired = fitDecay(decay, { irfCounts: recorded.counts.subarray(0, channels), profileIntervals: false });
-    expect(paired.acceptable && Math.abs((paired.components[0]?.tauNs ?? 0) - 3.4) < 3 * (paired.components[0]?.tauNsStdErr ?? 0)).toBe(false);
+    expect(
+      paired.acceptable &&
+        Math.abs((paired.components[0]?.tauNs ?? 0) - 3.4) < 3 * (paired.components[0]?.tauNsStdErr ?? 0),
+    ).toBe(false);
   });
 
-  it('refuses an IRF coarser than the decay, and one that falls outside the decay\'s window, with IRF_AXIS_MISMATCH and a hint', () => {
+  it("refuses an IRF coarser than the decay, and one that falls outside the decay's window, with IRF_AXIS_MISMATCH and a hint", () => {
     const coarse = irfOn(0.1, 256, 0);
     expect(() => alignIrfToDecay(coarse, decayAxis)).toThrow(InputRejected);
     try {

@@ -34,7 +34,9 @@ describe('shiftIrfSecondOrder', () => {
     const above = shifted(widthNs + 1e-9);
     for (let k = 10; k < 40; k++) {
       expect(Math.abs((below.values[k] as number) - (above.values[k] as number))).toBeLessThan(1e-8); // |slope| ≤ ~3 per ns over 2e-9 ns
-      expect(Math.abs((below.slope[k] as number) - (above.slope[k] as number))).toBeLessThan(1e-5 * Math.max(...above.slope.map(Math.abs)));
+      expect(Math.abs((below.slope[k] as number) - (above.slope[k] as number))).toBeLessThan(
+        1e-5 * Math.max(...above.slope.map(Math.abs)),
+      );
     }
     // Central difference of the values against the analytic slope at a sub-channel shift.
     const h = 1e-6;

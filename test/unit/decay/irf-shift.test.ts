@@ -59,4 +59,3 @@ describe('shiftIrf', () => {
     expect(out.every((value) => Number.isNaN(value))).toBe(true);
   });
 });
-

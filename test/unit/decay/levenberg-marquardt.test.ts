@@ -11,12 +11,16 @@ function rosenbrock(poison = false): SumOfSquaresObjective {
       const x = p[0] as number;
       const y = p[1] as number;
       const r = [10 * (y - x * x), 1 - x];
-      const jacobian = [[-20 * x, 10], [-1, 0]];
+      const jacobian = [
+        [-20 * x, 10],
+        [-1, 0],
+      ];
       if (withDerivatives) {
         for (let i = 0; i < 2; i++) {
           gradient[i] = (jacobian[0]?.[i] ?? 0) * (r[0] ?? 0) + (jacobian[1]?.[i] ?? 0) * (r[1] ?? 0);
           for (let j = 0; j < 2; j++) {
-            normal[i * 2 + j] = (jacobian[0]?.[i] ?? 0) * (jacobian[0]?.[j] ?? 0) + (jacobian[1]?.[i] ?? 0) * (jacobian[1]?.[j] ?? 0);
+            normal[i * 2 + j] =
+              (jacobian[0]?.[i] ?? 0) * (jacobian[0]?.[j] ?? 0) + (jacobian[1]?.[i] ?? 0) * (jacobian[1]?.[j] ?? 0);
           }
         }
       }
@@ -40,7 +44,13 @@ describe('minimiseLevenbergMarquardt', () => {
 
   it('respects an upper bound x ≤ 0.5: scipy least_squares gives (0.5, 0.25), Σr² = 0.25', () => {
     // scipy.optimize.least_squares(f, [-1.2, 1], bounds=([-inf, -inf], [0.5, inf])) → x = [0.5, 0.25], 2·cost = 0.25
-    const outcome = minimiseLevenbergMarquardt(rosenbrock(), Float64Array.from([-1.2, 1]), unbounded, Float64Array.from([0.5, Infinity]), 200);
+    const outcome = minimiseLevenbergMarquardt(
+      rosenbrock(),
+      Float64Array.from([-1.2, 1]),
+      unbounded,
+      Float64Array.from([0.5, Infinity]),
+      200,
+    );
     expect(outcome.converged).toBe(true);
     expect(outcome.parameters[0]).toBeCloseTo(0.5, 8);
     expect(outcome.parameters[1]).toBeCloseTo(0.25, 6);
@@ -48,7 +58,13 @@ describe('minimiseLevenbergMarquardt', () => {
   });
 
   it('holds a parameter when lower = upper', () => {
-    const outcome = minimiseLevenbergMarquardt(rosenbrock(), Float64Array.from([0.3, 1]), Float64Array.from([0.3, -Infinity]), Float64Array.from([0.3, Infinity]), 200);
+    const outcome = minimiseLevenbergMarquardt(
+      rosenbrock(),
+      Float64Array.from([0.3, 1]),
+      Float64Array.from([0.3, -Infinity]),
+      Float64Array.from([0.3, Infinity]),
+      200,
+    );
     expect(outcome.converged).toBe(true);
     expect(outcome.parameters[0]).toBe(0.3);
     // min over y of 100(y − 0.09)² + 0.49: y = 0.09 (by hand), to the decrement tolerance.

@@ -19,7 +19,14 @@ const slots = 7; // τ1, τ2, p1, p2, shift, background, scatter
 const local = Float64Array.from([0.6, 3.2, 4000, 9000, 0.037, 1.5, 250]);
 
 function modelFor(periodNs: number | undefined) {
-  return createReconvolutionModel({ irfUnit, channelWidthNs: widthNs, periodNs, firstChannel, endChannel, components: 2 });
+  return createReconvolutionModel({
+    irfUnit,
+    channelWidthNs: widthNs,
+    periodNs,
+    firstChannel,
+    endChannel,
+    components: 2,
+  });
 }
 
 function valuesAt(periodNs: number | undefined, parameters: Float64Array): Float64Array {
@@ -45,7 +52,8 @@ describe.each([
       const up = valuesAt(periodNs, plus);
       const down = valuesAt(periodNs, minus);
       let largest = 0;
-      for (let k = 0; k < channelCount; k++) largest = Math.max(largest, Math.abs(jacobian[slot * channelCount + k] as number));
+      for (let k = 0; k < channelCount; k++)
+        largest = Math.max(largest, Math.abs(jacobian[slot * channelCount + k] as number));
       for (let k = 0; k < channelCount; k++) {
         const numeric = ((up[k] as number) - (down[k] as number)) / (2 * step);
         // Central differences are O(step²) accurate; 1e-6 of the column's scale leaves room for rounding.

@@ -1,6 +1,13 @@
 // Normal distribution, chi-square quantile, residual tests and estimator sums against scipy and by hand.
 import { describe, expect, it } from 'vitest';
-import { countsLogCounts, estimatorObjective, estimatorResiduals, estimatorWeights, pearsonChiSquare, poissonDeviance } from '../../../src/decay/estimators.js';
+import {
+  countsLogCounts,
+  estimatorObjective,
+  estimatorResiduals,
+  estimatorWeights,
+  pearsonChiSquare,
+  poissonDeviance,
+} from '../../../src/decay/estimators.js';
 import { chiSquareQuantileOneDof, normalCdf, normalQuantile } from '../../../src/decay/normal-distribution.js';
 import { createSeededRandom } from '../../../src/decay/random.js';
 import { durbinWatson, residualAutocorrelation, runsTest } from '../../../src/decay/residual-tests.js';
@@ -84,13 +91,22 @@ describe('deviance from the residual pass', () => {
   it('is the Poisson deviance itself for ml, bit for bit', () => {
     const counts = Float64Array.from([0, 1, 5, 10, 3, 7, 7, 2]);
     const model = Float64Array.from([0.5, 2, 4.5, 12, 3.2, 7, 7.000000000000001, 1e-12]);
-    expect(estimatorResiduals('ml', counts, model, new Float64Array(8), undefined)).toBe(poissonDeviance(counts, model));
+    expect(estimatorResiduals('ml', counts, model, new Float64Array(8), undefined)).toBe(
+      poissonDeviance(counts, model),
+    );
   });
 });
 
 describe('n·ln(n) per channel', () => {
   it('takes small whole counts from a table with the same values as the direct expression', () => {
-    const counts = Float64Array.from([...Array.from({ length: 5000 }, (_unused, k) => k), 0.5, 2.25, 4095.5, 1e6 + 0.5, 123456]);
+    const counts = Float64Array.from([
+      ...Array.from({ length: 5000 }, (_unused, k) => k),
+      0.5,
+      2.25,
+      4095.5,
+      1e6 + 0.5,
+      123456,
+    ]);
     const countsLog = countsLogCounts(counts);
     counts.forEach((n, k) => expect(countsLog[k]).toBe(n > 0 ? n * Math.log(n) : 0));
   });
@@ -114,7 +130,14 @@ describe('residual tests', () => {
 
   it('autocorrelation in blocks of lags equals the definition one lag at a time, bit for bit', () => {
     const random = createSeededRandom(5);
-    for (const [length, maxLag] of [[1, 32], [3, 32], [7, 5], [40, 32], [101, 9], [1000, 32]] as const) {
+    for (const [length, maxLag] of [
+      [1, 32],
+      [3, 32],
+      [7, 5],
+      [40, 32],
+      [101, 9],
+      [1000, 32],
+    ] as const) {
       const residuals = Float64Array.from({ length }, () => random.nextUniform() - 0.5);
       let power = 0;
       for (let k = 0; k < length; k++) power += (residuals[k] as number) ** 2;

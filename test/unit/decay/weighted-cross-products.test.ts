@@ -5,7 +5,13 @@ import { createSeededRandom } from '../../../src/decay/index.js';
 import { weightedCrossProducts } from '../../../src/decay/weighted-cross-products.js';
 
 /** Σ_k (w_k·J_a[k])·J_b[k] and Σ_k J_a[k]·s_k by the definition, one sum at a time. */
-function plain(jacobian: Float64Array, channels: number, slots: readonly number[], weights: Float64Array, slope: Float64Array) {
+function plain(
+  jacobian: Float64Array,
+  channels: number,
+  slots: readonly number[],
+  weights: Float64Array,
+  slope: Float64Array,
+) {
   const count = slots.length;
   const products = new Float64Array(count * count);
   const gradient = new Float64Array(count);
@@ -17,7 +23,8 @@ function plain(jacobian: Float64Array, channels: number, slots: readonly number[
     for (let b = a; b < count; b++) {
       const offsetB = (slots[b] as number) * channels;
       let sum = 0;
-      for (let k = 0; k < channels; k++) sum += (weights[k] as number) * (jacobian[offsetA + k] as number) * (jacobian[offsetB + k] as number);
+      for (let k = 0; k < channels; k++)
+        sum += (weights[k] as number) * (jacobian[offsetA + k] as number) * (jacobian[offsetB + k] as number);
       products[a * count + b] = sum;
     }
   }
@@ -49,7 +56,15 @@ describe('weightedCrossProducts', () => {
 
   it('leaves the gradient alone without a slope', () => {
     const gradient = Float64Array.from([7, 7]);
-    weightedCrossProducts(Float64Array.from([1, 2, 3, 4]), 2, Int32Array.from([0, 1]), Float64Array.from([1, 1]), new Float64Array(4), undefined, gradient);
+    weightedCrossProducts(
+      Float64Array.from([1, 2, 3, 4]),
+      2,
+      Int32Array.from([0, 1]),
+      Float64Array.from([1, 1]),
+      new Float64Array(4),
+      undefined,
+      gradient,
+    );
     expect(Array.from(gradient)).toEqual([7, 7]);
   });
 });

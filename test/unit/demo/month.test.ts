@@ -13,10 +13,14 @@ const fileNamed = (name: string) => month.arrivals.find((a) => a.file.name === n
 describe('generateDemoMonth', () => {
   it('gives the same files, times and truth for the same seed, and other files for another seed', () => {
     const again = generateDemoMonth();
-    expect(again.arrivals.map((a) => [a.arriveAt, a.file.name, a.file.content])).toEqual(month.arrivals.map((a) => [a.arriveAt, a.file.name, a.file.content]));
+    expect(again.arrivals.map((a) => [a.arriveAt, a.file.name, a.file.content])).toEqual(
+      month.arrivals.map((a) => [a.arriveAt, a.file.name, a.file.content]),
+    );
     expect(again.truth).toEqual(month.truth);
     const other = generateDemoMonth(7);
-    expect(other.arrivals.find((a) => a.file.name.endsWith('_em.csv'))?.file.content).not.toBe(month.arrivals.find((a) => a.file.name.endsWith('_em.csv'))?.file.content);
+    expect(other.arrivals.find((a) => a.file.name.endsWith('_em.csv'))?.file.content).not.toBe(
+      month.arrivals.find((a) => a.file.name.endsWith('_em.csv'))?.file.content,
+    );
   });
 
   it('has one control with emission, absorbance, decay and IRF every day, a weekly reference and Raman scan, blanks and samples', () => {
@@ -26,7 +30,9 @@ describe('generateDemoMonth', () => {
         expect(fileNamed(`${control.sampleId}${suffix}`)?.day, `${control.sampleId}${suffix}`).toBe(control.day);
       }
     }
-    expect(month.arrivals.filter((a) => a.file.name.startsWith('REF-R6G-') && a.file.name.endsWith('_em.txt'))).toHaveLength(5);
+    expect(
+      month.arrivals.filter((a) => a.file.name.startsWith('REF-R6G-') && a.file.name.endsWith('_em.txt')),
+    ).toHaveLength(5);
     expect(month.arrivals.filter((a) => a.file.name.endsWith('_raman.csv'))).toHaveLength(4);
     expect(month.arrivals.filter((a) => a.file.name.startsWith('blank_'))).toHaveLength(MONTH_DAYS);
     expect(month.truth.quenching.sampleIds).toHaveLength(5);
@@ -48,7 +54,11 @@ describe('generateDemoMonth', () => {
       else expect(Math.abs(c.sensitivity - (1 - 0.03 * (c.day - 16)))).toBeLessThan(0.032);
       expect(c.quantumYield).toBeCloseTo(c.day >= 24 ? 0.71 * 0.8 : 0.71, 10);
     }
-    expect(month.truth.faults.map((f) => [f.id, f.fromDay])).toEqual([['sensitivity-loss', 17], ['contaminated-control', 24], ['irf-broadening', 27]]);
+    expect(month.truth.faults.map((f) => [f.id, f.fromDay])).toEqual([
+      ['sensitivity-loss', 17],
+      ['contaminated-control', 24],
+      ['irf-broadening', 27],
+    ]);
   });
 
   it('writes a malformed export that the readers refuse with the code the truth names', () => {
@@ -65,14 +75,17 @@ describe('generateDemoMonth', () => {
   });
 
   it('writes the IRF-less decay without an IRF column, the European date day-first, and the re-export late', () => {
-    const decay = readData(bytes(fileNamed(month.truth.missingIrf.file)?.file.content ?? ''), { fileName: month.truth.missingIrf.file });
+    const decay = readData(bytes(fileNamed(month.truth.missingIrf.file)?.file.content ?? ''), {
+      fileName: month.truth.missingIrf.file,
+    });
     expect(decay.type).toBe('decay');
     if (decay.type === 'decay') expect(decay.decay.irfCounts).toBeUndefined();
     const european = fileNamed(month.truth.europeanDate.file);
     expect(european?.file.content).toContain(`Date: ${month.truth.europeanDate.written}`);
     expect(month.truth.europeanDate.written).toBe('15.02.2026 13:45');
     expect(month.truth.europeanDate.acquiredAt).toBe('2026-02-15T13:45:00Z');
-    for (const name of month.truth.lateReExport.files) expect(fileNamed(name)?.day).toBe(month.truth.lateReExport.arrivesDay);
+    for (const name of month.truth.lateReExport.files)
+      expect(fileNamed(name)?.day).toBe(month.truth.lateReExport.arrivesDay);
   });
 
   it('ships a rule set that parses and leaves the control to the config (defined once)', () => {

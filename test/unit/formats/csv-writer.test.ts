@@ -9,17 +9,25 @@ import { bytes, rejection } from './helpers.js';
 
 describe('writeSpectrumCsv', () => {
   it('round-trips random spectra exactly (fast-check, 150 runs)', () => {
-    fc.assert(fc.property(spectrumArbitrary(), (spectrum) => {
-      const back = readData(bytes(writeSpectrumCsv(spectrum)), { fileName: 'round.csv' });
-      expect(back.type).toBe('spectrum');
-      if (back.type !== 'spectrum') return;
-      expect(back.spectrum).toEqual(spectrum);
-    }), { numRuns: 150 });
+    fc.assert(
+      fc.property(spectrumArbitrary(), (spectrum) => {
+        const back = readData(bytes(writeSpectrumCsv(spectrum)), { fileName: 'round.csv' });
+        expect(back.type).toBe('spectrum');
+        if (back.type !== 'spectrum') return;
+        expect(back.spectrum).toEqual(spectrum);
+      }),
+      { numRuns: 150 },
+    );
   });
 
   it('writes a header block, the column names and one row per point', () => {
     const text = writeSpectrumCsv(readSample());
-    expect(text.split('\n').slice(0, 4)).toEqual(['# kind: emission', '# value column: signal', '# value unit: a.u.', '# excitation wavelength (nm): 350']);
+    expect(text.split('\n').slice(0, 4)).toEqual([
+      '# kind: emission',
+      '# value column: signal',
+      '# value unit: a.u.',
+      '# excitation wavelength (nm): 350',
+    ]);
     expect(text).toContain('wavelength (nm),signal\n400,1\n401,2.5\n');
   });
 });
@@ -32,14 +40,17 @@ function readSample() {
 
 describe('writeDecayCsv', () => {
   it('round-trips random decays exactly, with extra columns listed as ignored (fast-check, 150 runs)', () => {
-    fc.assert(fc.property(decayArbitrary(), (decay) => {
-      const fit = Array.from(decay.counts, (count) => count * 0.5 - 1);
-      const back = readData(bytes(writeDecayCsv(decay, { fit })), { fileName: 'round.csv' });
-      expect(back.type).toBe('decay');
-      if (back.type !== 'decay') return;
-      expect(back.decay).toEqual(decay);
-      expect(back.layout.ignoredColumns).toEqual(['fit']);
-    }), { numRuns: 150 });
+    fc.assert(
+      fc.property(decayArbitrary(), (decay) => {
+        const fit = Array.from(decay.counts, (count) => count * 0.5 - 1);
+        const back = readData(bytes(writeDecayCsv(decay, { fit })), { fileName: 'round.csv' });
+        expect(back.type).toBe('decay');
+        if (back.type !== 'decay') return;
+        expect(back.decay).toEqual(decay);
+        expect(back.layout.ignoredColumns).toEqual(['fit']);
+      }),
+      { numRuns: 150 },
+    );
   });
 
   it('refuses extra columns that would read back as counts or IRF, or that do not fit', () => {

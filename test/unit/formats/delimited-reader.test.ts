@@ -4,7 +4,10 @@ import { describe, expect, it } from 'vitest';
 import { readData } from '../../../src/formats/index.js';
 import { fixture, bytes } from './helpers.js';
 
-function spectrumOf(name: string, options: { valueColumn?: string | number; kindHint?: 'emission' | 'absorbance' } = {}) {
+function spectrumOf(
+  name: string,
+  options: { valueColumn?: string | number; kindHint?: 'emission' | 'absorbance' } = {},
+) {
   const data = readData(fixture(name), { fileName: name, ...options });
   if (data.type !== 'spectrum') throw new Error(`${name} read as ${data.type}`);
   return data;
@@ -29,18 +32,40 @@ describe('delimited reader: spectra', () => {
     expect(Object.keys(spectrum.otherColumns)).toEqual(['Reference (cps)']);
     expect(spectrum.otherColumns['Reference (cps)']?.[0]).toBe(46.9);
     expect(spectrum.metadata).toMatchObject({
-      sampleId: 'QS-0412', solvent: '0.1 M HClO4', excitationNm: 350, excitationSlitNm: 5, emissionSlitNm: 2.5,
-      integrationTimeS: 0.1, role: 'control', acquiredAt: '2026-03-14T09:26:53Z',
+      sampleId: 'QS-0412',
+      solvent: '0.1 M HClO4',
+      excitationNm: 350,
+      excitationSlitNm: 5,
+      emissionSlitNm: 2.5,
+      integrationTimeS: 0.1,
+      role: 'control',
+      acquiredAt: '2026-03-14T09:26:53Z',
     });
     // 298.15 K − 273.15 = 25 °C (SI definition of the Celsius scale)
     expect(spectrum.metadata.temperatureC).toBeCloseTo(25, 10);
-    expect(spectrum.metadata.extra).toEqual({ 'header line 1': 'Instrument export (invented example)', Operator: 'J. Placeholder' });
-    expect(layout).toMatchObject({ format: 'delimited', delimiter: ',', decimalMark: '.', headerLineCount: 13, axisUnitFound: 'nm', conversions: [] });
+    expect(spectrum.metadata.extra).toEqual({
+      'header line 1': 'Instrument export (invented example)',
+      Operator: 'J. Placeholder',
+    });
+    expect(layout).toMatchObject({
+      format: 'delimited',
+      delimiter: ',',
+      decimalMark: '.',
+      headerLineCount: 13,
+      axisUnitFound: 'nm',
+      conversions: [],
+    });
   });
 
   it('reads a TSV with decimal comma, UTF-8 BOM and CRLF line ends', () => {
     const { spectrum, layout } = spectrumOf('excitation-decimal-comma.tsv');
-    expect(layout).toMatchObject({ delimiter: '\t', decimalMark: ',', hasBom: true, lineEnding: 'crlf', headerLineCount: 3 });
+    expect(layout).toMatchObject({
+      delimiter: '\t',
+      decimalMark: ',',
+      hasBom: true,
+      lineEnding: 'crlf',
+      headerLineCount: 3,
+    });
     expect(spectrum.kind).toBe('excitation');
     expect(spectrum.metadata.emissionNm).toBe(520);
     // Fixture rows "502,5\t...": 502.5 nm
@@ -71,7 +96,11 @@ describe('delimited reader: spectra', () => {
 
   it('converts a wavenumber axis to nm with the Jacobian for emission (Mooney & Kambhampati 2013)', () => {
     const { spectrum, layout } = spectrumOf('emission-wavenumber.csv');
-    expect(layout.conversions.map((c) => c.code)).toEqual(['wavenumber-to-wavelength', 'jacobian-intensity', 'axis-reversed']);
+    expect(layout.conversions.map((c) => c.code)).toEqual([
+      'wavenumber-to-wavelength',
+      'jacobian-intensity',
+      'axis-reversed',
+    ]);
     // numpy 2.4: λ = 1e7/23000 = 434.7826086956522, I = 0.7576·1e7/λ² = 40.077040000000004
     expect(spectrum.wavelengthNm[0]).toBeCloseTo(434.7826086956522, 10);
     expect(spectrum.values[0]).toBeCloseTo(40.077040000000004, 10);
@@ -125,13 +154,17 @@ describe('delimited reader: spectra', () => {
   });
 
   it('reads a decay from JCAMP-DX with a time axis', () => {
-    const text = '##TITLE=d\n##JCAMP-DX=5.01\n##XUNITS=NANOSECONDS\n##YUNITS=COUNTS\n##FIRSTX=0\n##LASTX=0.3\n##NPOINTS=4\n##XYDATA=(X++(Y..Y))\n0 9 7 4 2\n##END=\n';
+    const text =
+      '##TITLE=d\n##JCAMP-DX=5.01\n##XUNITS=NANOSECONDS\n##YUNITS=COUNTS\n##FIRSTX=0\n##LASTX=0.3\n##NPOINTS=4\n##XYDATA=(X++(Y..Y))\n0 9 7 4 2\n##END=\n';
     const data = readData(bytes(text), { fileName: 'd.jdx' });
     expect(data.type === 'decay' && Array.from(data.decay.counts)).toEqual([9, 7, 4, 2]);
   });
 
   it('uses the kind hint when the content names no kind', () => {
-    const data = readData(bytes('wavelength (nm),value\n300,0.1\n301,0.2\n'), { fileName: 'h.csv', kindHint: 'absorbance' });
+    const data = readData(bytes('wavelength (nm),value\n300,0.1\n301,0.2\n'), {
+      fileName: 'h.csv',
+      kindHint: 'absorbance',
+    });
     expect(data.type === 'spectrum' && data.spectrum.kind).toBe('absorbance');
   });
 });
@@ -146,7 +179,12 @@ describe('delimited reader: decays', () => {
     expect(decay.irfCounts?.length).toBe(64);
     expect(layout.conversions.map((c) => c.code)).toEqual(['time-unit-to-ns']);
     expect(layout).toMatchObject({ valueColumn: 'counts', irfColumn: 'irf' });
-    expect(decay.metadata).toMatchObject({ excitationNm: 405, emissionNm: 520, repetitionRateHz: 20e6, sampleId: 'DYE-A' });
+    expect(decay.metadata).toMatchObject({
+      excitationNm: 405,
+      emissionNm: 520,
+      repetitionRateHz: 20e6,
+      sampleId: 'DYE-A',
+    });
   });
 
   it('reads channel numbers with a channel width in ps and a count rate in kcps', () => {

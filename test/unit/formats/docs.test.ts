@@ -17,7 +17,9 @@ describe('docs/formats.md', () => {
   });
 
   it('lists every error code raised in src/formats', () => {
-    const sources = readdirSync(`${ROOT}src/formats`).map((name) => readFileSync(`${ROOT}src/formats/${name}`, 'utf8')).join('\n');
+    const sources = readdirSync(`${ROOT}src/formats`)
+      .map((name) => readFileSync(`${ROOT}src/formats/${name}`, 'utf8'))
+      .join('\n');
     const codes = new Set([...sources.matchAll(/(?:reject|InputRejected)\(\s*'([A-Z_]+)'/g)].map((match) => match[1]));
     expect(codes.size).toBeGreaterThan(15);
     for (const code of codes) expect(docs).toContain(`\`${String(code)}\``);

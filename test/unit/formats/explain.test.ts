@@ -25,7 +25,10 @@ describe('explainData', () => {
       'words "exc wavelength" → excitationNm',
       'words "detector": not in the vocabulary, kept in metadata.extra',
     ]);
-    expect(explanation.columns.map((item) => item.readAs)).toEqual(['axis (unit assumed)', 'emission values of measurement emission_sections.txt']);
+    expect(explanation.columns.map((item) => item.readAs)).toEqual([
+      'axis (unit assumed)',
+      'emission values of measurement emission_sections.txt',
+    ]);
     // "Wavelength" without a unit is an assumption (nm): a profile is offered and was tried.
     expect(explanation.profile?.checked).toBe(true);
   });
@@ -43,7 +46,12 @@ describe('explainData', () => {
     const summary = layout('raman_shift_no_excitation.csv');
     const raman = explainData(summary, { fileName: 'raman_shift_no_excitation.csv' });
     expect('refused' in raman.outcome && raman.outcome.refused.code).toBe('EXCITATION_REQUIRED');
-    expect(readMeasurements(summary, { fileName: 'raman_shift_no_excitation.csv', profiles: [{ match: 'raman_*', excitationNm: 350 }] })).toHaveLength(1);
+    expect(
+      readMeasurements(summary, {
+        fileName: 'raman_shift_no_excitation.csv',
+        profiles: [{ match: 'raman_*', excitationNm: 350 }],
+      }),
+    ).toHaveLength(1);
   });
 
   it('offers no profile for an excitation–emission matrix (a profile could only misread it)', () => {
@@ -54,6 +62,8 @@ describe('explainData', () => {
 
   it('lists the summary lines after the data', () => {
     const explanation = explainData(layout('decay_summary_block.txt'), { fileName: 'decay_summary_block.txt' });
-    expect(explanation.lines.filter((item) => item.readAs.startsWith('after the data')).map((item) => item.where)).toEqual(['line 50', 'line 51']);
+    expect(
+      explanation.lines.filter((item) => item.readAs.startsWith('after the data')).map((item) => item.where),
+    ).toEqual(['line 50', 'line 51']);
   });
 });

@@ -33,7 +33,11 @@ describe('decodeAsdfLine: further rules of the specification', () => {
   // Multi-digit SQZ/DIF/DUP tokens: the letter replaces the sign and first digit (spec, ASDF section).
   it('reads multi-digit tokens and DUP counts above 9', () => {
     // A23 = +123; J0 = +10 (J is +1, then the digit 0); S1 = DUP count 11 (S is 1, then the digit 1).
-    expect(decodeAsdfLine('100A23J0S1', 1, 'f').values).toEqual([100, 123, ...Array.from({ length: 11 }, (_, k) => 133 + 10 * k)]);
+    expect(decodeAsdfLine('100A23J0S1', 1, 'f').values).toEqual([
+      100,
+      123,
+      ...Array.from({ length: 11 }, (_, k) => 133 + 10 * k),
+    ]);
     expect(decodeAsdfLine('5a5j5', 1, 'f').values).toEqual([5, -15, -30]); // a5 = −15, then j5 = a difference of −15
   });
 
@@ -41,7 +45,11 @@ describe('decodeAsdfLine: further rules of the specification', () => {
     expect(decodeAsdfLine('400 1.5E-3 -2.5e2 7', 1, 'f').values).toEqual([400, 0.0015, -250, 7]);
   });
 
-  it.each([['a DIF with no previous ordinate', '1J2'], ['a stray character', '1 2 #'], ['a DUP with no ordinate before it', '1S2']])('rejects %s', (_label, line) => {
+  it.each([
+    ['a DIF with no previous ordinate', '1J2'],
+    ['a stray character', '1 2 #'],
+    ['a DUP with no ordinate before it', '1S2'],
+  ])('rejects %s', (_label, line) => {
     expect(rejection(() => decodeAsdfLine(line, 4, 'f.jdx'))).toMatchObject({ code: 'JCAMP_INVALID', line: 4 });
   });
 });
@@ -50,7 +58,11 @@ describe('decodeAsdfLine: a DUP count cannot ask for more ordinates than a table
   it('refuses a DUP count that would pass MAX_JCAMP_ORDINATES, without expanding it', () => {
     // "s00011" in a mutated file asked for 900,011 copies; "s99999999" would ask for about 10^9.
     for (const line of ['350 0.0s00011', '350 1 s99999999']) {
-      expect(rejection(() => decodeAsdfLine(line, 7, 'f.jdx'))).toMatchObject({ code: 'JCAMP_INVALID', line: 7, message: expect.stringContaining(`more than ${MAX_JCAMP_ORDINATES} ordinates`) });
+      expect(rejection(() => decodeAsdfLine(line, 7, 'f.jdx'))).toMatchObject({
+        code: 'JCAMP_INVALID',
+        line: 7,
+        message: expect.stringContaining(`more than ${MAX_JCAMP_ORDINATES} ordinates`),
+      });
     }
     // Below the bound a long DUP is still read: "T00000" repeats the ordinate 200,000 times (T = 2).
     expect(decodeAsdfLine('350 1T00000', 7, 'f.jdx').values.length).toBe(1 + 200_000);
@@ -58,7 +70,21 @@ describe('decodeAsdfLine: a DUP count cannot ask for more ordinates than a table
 
   it('refuses a table whose lines together pass the bound', () => {
     const lines = Array.from({ length: 3 }, (_unused, k) => `${k} 1 s${Math.ceil(MAX_JCAMP_ORDINATES / 2)}`);
-    const text = ['##TITLE=bomb', '##JCAMP-DX=4.24', '##XUNITS=NANOMETERS', '##YUNITS=ARBITRARY UNITS', '##FIRSTX=0', '##LASTX=2', '##XFACTOR=1', '##YFACTOR=1', '##XYDATA=(X++(Y..Y))', ...lines, '##END='].join('\n');
-    expect(rejection(() => readData(new TextEncoder().encode(text), { fileName: 'bomb.jdx' }))).toMatchObject({ code: 'JCAMP_INVALID' });
+    const text = [
+      '##TITLE=bomb',
+      '##JCAMP-DX=4.24',
+      '##XUNITS=NANOMETERS',
+      '##YUNITS=ARBITRARY UNITS',
+      '##FIRSTX=0',
+      '##LASTX=2',
+      '##XFACTOR=1',
+      '##YFACTOR=1',
+      '##XYDATA=(X++(Y..Y))',
+      ...lines,
+      '##END=',
+    ].join('\n');
+    expect(rejection(() => readData(new TextEncoder().encode(text), { fileName: 'bomb.jdx' }))).toMatchObject({
+      code: 'JCAMP_INVALID',
+    });
   });
 });

@@ -19,18 +19,23 @@ function spectrumOf(content: Uint8Array, name = 'f.jdx') {
 }
 
 describe('JCAMP-DX reader vs jcampconverter@10.0.2', () => {
-  it.each(['emission-difdup.jdx', 'absorbance-affn.jdx', 'absorbance-sqz-micrometres.jdx'])('%s decodes to the same points', (name) => {
-    const text = readFileSync(`${FIXTURES}${name}`, 'utf8');
-    const expected = reference(text);
-    const { spectrum, layout } = spectrumOf(fixture(name), name);
-    const factor = layout.conversions.some((c) => c.code === 'micrometre-to-nanometre') ? 1000 : 1;
-    expect(spectrum.values.length).toBe(expected.y.length);
-    expected.y.forEach((y, i) => expect(spectrum.values[i]).toBeCloseTo(y, 12));
-    expected.x.forEach((x, i) => expect(spectrum.wavelengthNm[i]).toBeCloseTo(x * factor, 9));
-  });
+  it.each(['emission-difdup.jdx', 'absorbance-affn.jdx', 'absorbance-sqz-micrometres.jdx'])(
+    '%s decodes to the same points',
+    (name) => {
+      const text = readFileSync(`${FIXTURES}${name}`, 'utf8');
+      const expected = reference(text);
+      const { spectrum, layout } = spectrumOf(fixture(name), name);
+      const factor = layout.conversions.some((c) => c.code === 'micrometre-to-nanometre') ? 1000 : 1;
+      expect(spectrum.values.length).toBe(expected.y.length);
+      expected.y.forEach((y, i) => expect(spectrum.values[i]).toBeCloseTo(y, 12));
+      expected.x.forEach((x, i) => expect(spectrum.wavelengthNm[i]).toBeCloseTo(x * factor, 9));
+    },
+  );
 
   it('(XY..XY) pairs decode like the reference library (which reads them under ##PEAK TABLE, not ##XYPOINTS)', () => {
-    const text = readFileSync(`${FIXTURES}transmittance-xypoints.jdx`, 'utf8').replace('##XYPOINTS=', '##PEAK TABLE=').replace('##YUNITS=TRANSMITTANCE', '##YUNITS=ABSORBANCE');
+    const text = readFileSync(`${FIXTURES}transmittance-xypoints.jdx`, 'utf8')
+      .replace('##XYPOINTS=', '##PEAK TABLE=')
+      .replace('##YUNITS=TRANSMITTANCE', '##YUNITS=ABSORBANCE');
     const expected = reference(text);
     const { spectrum } = spectrumOf(bytes(text));
     // Our axis is converted to ascending nm (λ = 10⁷/ν̃), so compare in that form.
@@ -72,7 +77,8 @@ describe('JCAMP-DX reader: units, kinds and metadata', () => {
   });
 
   it('ignores $$ comments and accepts labels with spaces, dashes and lower case', () => {
-    const text = '##TITLE=c $$ comment\n##jcamp-dx=4.24 $$ v\n##X_UNITS=NANOMETERS\n##first x=500\n##LASTX=502\n##XY DATA=(X++(Y..Y)) $$ table\n500 1 2 3 $$ data\n##END=\n';
+    const text =
+      '##TITLE=c $$ comment\n##jcamp-dx=4.24 $$ v\n##X_UNITS=NANOMETERS\n##first x=500\n##LASTX=502\n##XY DATA=(X++(Y..Y)) $$ table\n500 1 2 3 $$ data\n##END=\n';
     const { spectrum } = spectrumOf(bytes(text));
     expect(Array.from(spectrum.wavelengthNm)).toEqual([500, 501, 502]);
     expect(Array.from(spectrum.values)).toEqual([1, 2, 3]);

@@ -57,7 +57,8 @@ function close(actual: number | undefined, expected: number, relative = 1e-6): b
 
 /** Every measurement the module reads from the bytes (readMeasurements when it exists, else readData alone). */
 function readAll(content: Uint8Array, fileName: string): ParsedData[] {
-  const all = (formats as unknown as { readMeasurements?: (c: Uint8Array, o: { fileName: string }) => ParsedData[] }).readMeasurements;
+  const all = (formats as unknown as { readMeasurements?: (c: Uint8Array, o: { fileName: string }) => ParsedData[] })
+    .readMeasurements;
   return all === undefined ? [formats.readData(content, { fileName })] : all(content, { fileName });
 }
 
@@ -72,27 +73,40 @@ function checkParsed(all: readonly ParsedData[], expect: LayoutExpect): string[]
   if (first.type !== expect.type) return [`read as ${first.type}, expected ${expect.type}`];
   const count = expect.measurements ?? 1;
   if (all.length !== count) problems.push(`${all.length} measurement(s), expected ${count}`);
-  for (const id of expect.ids ?? []) if (!all.some((data) => measurementId(data).includes(id))) problems.push(`no measurement id names "${id}"`);
+  for (const id of expect.ids ?? [])
+    if (!all.some((data) => measurementId(data).includes(id))) problems.push(`no measurement id names "${id}"`);
   if (first.type === 'decay') {
     const { decay } = first;
-    if (decay.timeNs.length !== expect.points) problems.push(`${decay.timeNs.length} points, expected ${String(expect.points)}`);
-    if (expect.axis0 !== undefined && !close(decay.timeNs[0], expect.axis0, 1e-9)) problems.push(`t0 ${String(decay.timeNs[0])} ns, expected ${expect.axis0}`);
-    if (expect.axisLast !== undefined && !close(decay.timeNs[decay.timeNs.length - 1], expect.axisLast, 1e-9)) problems.push(`last t ${String(decay.timeNs[decay.timeNs.length - 1])} ns, expected ${expect.axisLast}`);
-    if (expect.value0 !== undefined && !close(decay.counts[0], expect.value0)) problems.push(`first count ${String(decay.counts[0])}, expected ${expect.value0}`);
-    if (expect.channelWidthNs !== undefined && !close(decay.channelWidthNs, expect.channelWidthNs, 1e-9)) problems.push(`channel width ${decay.channelWidthNs} ns, expected ${expect.channelWidthNs}`);
+    if (decay.timeNs.length !== expect.points)
+      problems.push(`${decay.timeNs.length} points, expected ${String(expect.points)}`);
+    if (expect.axis0 !== undefined && !close(decay.timeNs[0], expect.axis0, 1e-9))
+      problems.push(`t0 ${String(decay.timeNs[0])} ns, expected ${expect.axis0}`);
+    if (expect.axisLast !== undefined && !close(decay.timeNs[decay.timeNs.length - 1], expect.axisLast, 1e-9))
+      problems.push(`last t ${String(decay.timeNs[decay.timeNs.length - 1])} ns, expected ${expect.axisLast}`);
+    if (expect.value0 !== undefined && !close(decay.counts[0], expect.value0))
+      problems.push(`first count ${String(decay.counts[0])}, expected ${expect.value0}`);
+    if (expect.channelWidthNs !== undefined && !close(decay.channelWidthNs, expect.channelWidthNs, 1e-9))
+      problems.push(`channel width ${decay.channelWidthNs} ns, expected ${expect.channelWidthNs}`);
     if (expect.irf === true && decay.irfCounts === undefined) problems.push('IRF column not read');
-    if (expect.excitationNm !== undefined && decay.metadata.excitationNm !== expect.excitationNm) problems.push('excitation not read');
+    if (expect.excitationNm !== undefined && decay.metadata.excitationNm !== expect.excitationNm)
+      problems.push('excitation not read');
     return problems;
   }
   if (first.type === 'spectrum') {
     const { spectrum } = first;
     if (spectrum.kind !== expect.kind) problems.push(`kind ${spectrum.kind}, expected ${String(expect.kind)}`);
-    if (spectrum.wavelengthNm.length !== expect.points) problems.push(`${spectrum.wavelengthNm.length} points, expected ${String(expect.points)}`);
-    if (expect.axis0 !== undefined && !close(spectrum.wavelengthNm[0], expect.axis0)) problems.push(`first λ ${String(spectrum.wavelengthNm[0])} nm, expected ${expect.axis0}`);
-    if (expect.value0 !== undefined && !close(spectrum.values[0], expect.value0)) problems.push(`first value ${String(spectrum.values[0])}, expected ${expect.value0}`);
+    if (spectrum.wavelengthNm.length !== expect.points)
+      problems.push(`${spectrum.wavelengthNm.length} points, expected ${String(expect.points)}`);
+    if (expect.axis0 !== undefined && !close(spectrum.wavelengthNm[0], expect.axis0))
+      problems.push(`first λ ${String(spectrum.wavelengthNm[0])} nm, expected ${expect.axis0}`);
+    if (expect.value0 !== undefined && !close(spectrum.values[0], expect.value0))
+      problems.push(`first value ${String(spectrum.values[0])}, expected ${expect.value0}`);
     for (const field of ['excitationNm', 'emissionNm', 'temperatureC'] as const) {
       const wanted = expect[field];
-      if (wanted !== undefined && (spectrum.metadata as unknown as Record<string, unknown>)[field] !== wanted) problems.push(`${field} ${String((spectrum.metadata as unknown as Record<string, unknown>)[field])}, expected ${wanted}`);
+      if (wanted !== undefined && (spectrum.metadata as unknown as Record<string, unknown>)[field] !== wanted)
+        problems.push(
+          `${field} ${String((spectrum.metadata as unknown as Record<string, unknown>)[field])}, expected ${wanted}`,
+        );
     }
   }
   return problems;
@@ -105,9 +119,15 @@ function quenchOutcome(entry: LayoutEntry, bytes: Uint8Array): LayoutOutcome {
     const ratios = series.columns.ratio ?? [];
     const result = sternVolmer({ concentrationsM: concentrations, intensityRatios: ratios });
     const problems: string[] = [];
-    if (!close(concentrations[1], entry.expect.concentrationM1 ?? Number.NaN)) problems.push(`second concentration ${String(concentrations[1])} M, expected ${String(entry.expect.concentrationM1)}`);
-    if (!close(result.ksvPerM, entry.expect.ksvPerM ?? Number.NaN, 1e-3)) problems.push(`K_SV ${result.ksvPerM} /M, expected ${String(entry.expect.ksvPerM)}`);
-    return problems.length === 0 ? { status: 'read', summary: 'read' } : { status: 'misread', summary: `misread: ${problems.join('; ')}` };
+    if (!close(concentrations[1], entry.expect.concentrationM1 ?? Number.NaN))
+      problems.push(
+        `second concentration ${String(concentrations[1])} M, expected ${String(entry.expect.concentrationM1)}`,
+      );
+    if (!close(result.ksvPerM, entry.expect.ksvPerM ?? Number.NaN, 1e-3))
+      problems.push(`K_SV ${result.ksvPerM} /M, expected ${String(entry.expect.ksvPerM)}`);
+    return problems.length === 0
+      ? { status: 'read', summary: 'read' }
+      : { status: 'misread', summary: `misread: ${problems.join('; ')}` };
   } catch (error) {
     if (error instanceof InputRejected) return { status: 'refused', summary: `refused ${error.code}` };
     throw error;
@@ -124,15 +144,24 @@ export function layoutOutcome(entry: LayoutEntry): LayoutOutcome {
   } catch (error) {
     if (!(error instanceof InputRejected)) throw error;
     if (entry.expect.type === 'rejected') {
-      return error.code === entry.expect.code ? { status: 'refused', summary: `refused ${error.code}` } : { status: 'refused', summary: `refused ${error.code} (expected ${String(entry.expect.code)})` };
+      return error.code === entry.expect.code
+        ? { status: 'refused', summary: `refused ${error.code}` }
+        : { status: 'refused', summary: `refused ${error.code} (expected ${String(entry.expect.code)})` };
     }
     return { status: 'refused', summary: `refused ${error.code}` };
   }
   if (entry.expect.type === 'rejected') {
     const first = all[0];
-    const what = first === undefined ? 'nothing' : first.type === 'spectrum' ? `${first.spectrum.kind} spectrum ${first.spectrum.wavelengthNm[0]?.toFixed(0) ?? ''}–${first.spectrum.wavelengthNm[first.spectrum.wavelengthNm.length - 1]?.toFixed(0) ?? ''} nm` : `decay of ${first.decay.timeNs.length} channels`;
+    const what =
+      first === undefined
+        ? 'nothing'
+        : first.type === 'spectrum'
+          ? `${first.spectrum.kind} spectrum ${first.spectrum.wavelengthNm[0]?.toFixed(0) ?? ''}–${first.spectrum.wavelengthNm[first.spectrum.wavelengthNm.length - 1]?.toFixed(0) ?? ''} nm`
+          : `decay of ${first.decay.timeNs.length} channels`;
     return { status: 'misread', summary: `misread: read as ${what}` };
   }
   const problems = checkParsed(all, entry.expect);
-  return problems.length === 0 ? { status: 'read', summary: 'read' } : { status: 'misread', summary: `misread: ${problems.join('; ')}` };
+  return problems.length === 0
+    ? { status: 'read', summary: 'read' }
+    : { status: 'misread', summary: `misread: ${problems.join('; ')}` };
 }

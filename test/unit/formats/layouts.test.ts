@@ -27,7 +27,9 @@ describe('layout table (test/fixtures/formats/layouts)', () => {
   it('is listed row by row in docs/formats.md with its before and after', () => {
     const docs = readFileSync(new URL('../../../docs/formats.md', import.meta.url), 'utf8');
     for (const entry of layouts) {
-      expect(docs).toContain(`| \`${entry.file}\` | ${entry.group} | ${entry.layout} | ${entry.before ?? ''} | ${entry.after ?? ''} |`);
+      expect(docs).toContain(
+        `| \`${entry.file}\` | ${entry.group} | ${entry.layout} | ${entry.before ?? ''} | ${entry.after ?? ''} |`,
+      );
     }
     expect(layouts.filter((entry) => (entry.after ?? '').startsWith('misread'))).toEqual([]);
   });

@@ -42,7 +42,15 @@ describe('mapHeader', () => {
   });
 
   it('keeps text fields, roles and unknown keys verbatim', () => {
-    const mapped = mapHeader([entry('Sample name', ' QS-1 '), entry('Role', 'Reference standard'), entry('Lab Notes', 'kept as is'), entry('Solvent', 'ethanol')], 'f');
+    const mapped = mapHeader(
+      [
+        entry('Sample name', ' QS-1 '),
+        entry('Role', 'Reference standard'),
+        entry('Lab Notes', 'kept as is'),
+        entry('Solvent', 'ethanol'),
+      ],
+      'f',
+    );
     expect(mapped.texts).toMatchObject({ sampleId: 'QS-1', solvent: 'ethanol' });
     expect(mapped.role).toBe('reference');
     expect(mapped.extra).toEqual({ 'Lab Notes': 'kept as is' });
@@ -54,7 +62,11 @@ describe('mapHeader', () => {
   });
 
   it('rejects a numeric field that is not a number, naming the line', () => {
-    expect(rejection(() => mapHeader([entry('excitation', 'blue', 7)], 'h.csv'))).toMatchObject({ code: 'METADATA_INVALID', line: 7, file: 'h.csv' });
+    expect(rejection(() => mapHeader([entry('excitation', 'blue', 7)], 'h.csv'))).toMatchObject({
+      code: 'METADATA_INVALID',
+      line: 7,
+      file: 'h.csv',
+    });
   });
 });
 

@@ -18,10 +18,21 @@ function mapLine(line: string, delimiter: string | null = null): ReturnType<type
 
 describe('column names by their parts', () => {
   it.each([
-    ['time_ns', 'time', 1], ['timeNs', 'time', 1], ['TIME_PS', 'time', 1e-3], ['Time (ns)', 'time', 1], ['time in ns', 'time', 1],
-    ['time-ps', 'time', 1e-3], ['t [µs]', 'time', 1e3], ['wl_nm', 'wavelength', 1], ['lambdaNm', 'wavelength', 1],
-    ['WAVELENGTH_NM', 'wavelength', 1], ['wavenumber_cm-1', 'wavenumber', 1], ['Wavenumber (cm⁻¹)', 'wavenumber', 1],
-    ['Raman shift (cm⁻¹)', 'raman-shift', 1], ['raman_shift_cm-1', 'raman-shift', 1], ['energy_eV', 'energy', 1],
+    ['time_ns', 'time', 1],
+    ['timeNs', 'time', 1],
+    ['TIME_PS', 'time', 1e-3],
+    ['Time (ns)', 'time', 1],
+    ['time in ns', 'time', 1],
+    ['time-ps', 'time', 1e-3],
+    ['t [µs]', 'time', 1e3],
+    ['wl_nm', 'wavelength', 1],
+    ['lambdaNm', 'wavelength', 1],
+    ['WAVELENGTH_NM', 'wavelength', 1],
+    ['wavenumber_cm-1', 'wavenumber', 1],
+    ['Wavenumber (cm⁻¹)', 'wavenumber', 1],
+    ['Raman shift (cm⁻¹)', 'raman-shift', 1],
+    ['raman_shift_cm-1', 'raman-shift', 1],
+    ['energy_eV', 'energy', 1],
   ])('%s → %s', (name, quantity, factor) => {
     const reading = readAxisName(name);
     expect(reading.unit?.quantity).toBe(quantity);
@@ -36,8 +47,12 @@ describe('column names by their parts', () => {
   });
 
   it.each([
-    ['[KI] (mM)', 'KI', 1e-3], ['acrylamide (µM)', 'acrylamide', 1e-6], ['quencher_M', 'quencher', 1], ['[Q] / uM', 'Q', 1e-6],
-    ['c (mol/L)', 'c', 1], ['iodide [nM]', 'iodide', 1e-9],
+    ['[KI] (mM)', 'KI', 1e-3],
+    ['acrylamide (µM)', 'acrylamide', 1e-6],
+    ['quencher_M', 'quencher', 1],
+    ['[Q] / uM', 'Q', 1e-6],
+    ['c (mol/L)', 'c', 1],
+    ['iodide [nM]', 'iodide', 1e-9],
   ])('concentration %s → %s × %s M', (name, species, factor) => {
     expect(readConcentrationName(name)).toEqual({ species, unit: expect.any(String) as string, toMolar: factor });
   });
@@ -99,31 +114,47 @@ type UnitForm = 'paren' | 'bracket' | 'snake' | 'in' | 'slash' | 'glued' | 'valu
 function spell(words: readonly string[], style: WordStyle): string {
   const cap = (word: string) => word.charAt(0).toUpperCase() + word.slice(1);
   switch (style) {
-    case 'spaced': return words.map(cap).join(' ');
-    case 'snake': return words.join('_');
-    case 'upper-snake': return words.join('_').toUpperCase();
-    case 'camel': return words.map((word, i) => (i === 0 ? word : cap(word))).join('');
-    case 'pascal': return words.map(cap).join('');
-    case 'kebab': return words.join('-');
-    case 'dotted': return words.join('.');
+    case 'spaced':
+      return words.map(cap).join(' ');
+    case 'snake':
+      return words.join('_');
+    case 'upper-snake':
+      return words.join('_').toUpperCase();
+    case 'camel':
+      return words.map((word, i) => (i === 0 ? word : cap(word))).join('');
+    case 'pascal':
+      return words.map(cap).join('');
+    case 'kebab':
+      return words.join('-');
+    case 'dotted':
+      return words.join('.');
   }
 }
 
 function withUnit(key: string, style: WordStyle, unit: string, form: UnitForm): string {
   switch (form) {
-    case 'paren': return `${key} (${unit})`;
-    case 'bracket': return `${key} [${unit}]`;
-    case 'snake': return `${key}_${style === 'upper-snake' ? unit.toUpperCase() : unit}`;
-    case 'in': return `${key} in ${unit}`;
-    case 'slash': return `${key}/${unit}`;
-    case 'glued': return style === 'camel' || style === 'pascal' ? `${key}${unit.charAt(0).toUpperCase()}${unit.slice(1)}` : `${key}_${unit}`;
-    case 'value': return key;
+    case 'paren':
+      return `${key} (${unit})`;
+    case 'bracket':
+      return `${key} [${unit}]`;
+    case 'snake':
+      return `${key}_${style === 'upper-snake' ? unit.toUpperCase() : unit}`;
+    case 'in':
+      return `${key} in ${unit}`;
+    case 'slash':
+      return `${key}/${unit}`;
+    case 'glued':
+      return style === 'camel' || style === 'pascal'
+        ? `${key}${unit.charAt(0).toUpperCase()}${unit.slice(1)}`
+        : `${key}_${unit}`;
+    case 'value':
+      return key;
   }
 }
 
-const spellings = VOCABULARY.flatMap((row) => row.keys
-  .filter((key) => !/per channel$/.test(key))
-  .map((key) => ({ row, words: key.split(' ') })));
+const spellings = VOCABULARY.flatMap((row) =>
+  row.keys.filter((key) => !/per channel$/.test(key)).map((key) => ({ row, words: key.split(' ') })),
+);
 
 describe('every vocabulary entry, however spelled (property)', () => {
   it('gives the same typed value for every spelling (fast-check)', () => {
@@ -134,23 +165,29 @@ describe('every vocabulary entry, however spelled (property)', () => {
       separator: fc.constantFrom(': ', '=', ' = ', '\t', ','),
       magnitude: fc.integer({ min: 1, max: 99_999 }),
     });
-    fc.assert(fc.property(arbitrary, ({ index, style, form, separator, magnitude }) => {
-      const { row, words } = spellings[index] as (typeof spellings)[number];
-      const key = spell(words, style);
-      const number = magnitude / 10;
-      if (row.quantity === 'text') {
-        const value = row.field === 'role' ? 'control' : row.field === 'kind' ? 'emission' : `T-${magnitude}`;
-        const mapped = mapLine(`${key}${separator}${value}`);
-        if (row.field === 'role') expect(mapped.role).toBe('control');
-        else expect(mapped.texts[row.field]).toBe(value);
-        return;
-      }
-      const { unit, convert } = UNIT_FOR[row.quantity] as { unit: string; convert: (v: number) => number };
-      const line = form === 'value' ? `${key}${separator}${number} ${unit}` : `${withUnit(key, style, unit, form)}${separator}${number}`;
-      const plain = mapLine(`${row.keys[0] ?? ''} (${unit}): ${number}`).numbers[row.field];
-      const mapped = mapLine(line).numbers[row.field];
-      expect(mapped, line).toBeCloseTo(convert(number), 9);
-      expect(mapped, line).toBe(plain);
-    }), { numRuns: 2000 });
+    fc.assert(
+      fc.property(arbitrary, ({ index, style, form, separator, magnitude }) => {
+        const { row, words } = spellings[index] as (typeof spellings)[number];
+        const key = spell(words, style);
+        const number = magnitude / 10;
+        if (row.quantity === 'text') {
+          const value = row.field === 'role' ? 'control' : row.field === 'kind' ? 'emission' : `T-${magnitude}`;
+          const mapped = mapLine(`${key}${separator}${value}`);
+          if (row.field === 'role') expect(mapped.role).toBe('control');
+          else expect(mapped.texts[row.field]).toBe(value);
+          return;
+        }
+        const { unit, convert } = UNIT_FOR[row.quantity] as { unit: string; convert: (v: number) => number };
+        const line =
+          form === 'value'
+            ? `${key}${separator}${number} ${unit}`
+            : `${withUnit(key, style, unit, form)}${separator}${number}`;
+        const plain = mapLine(`${row.keys[0] ?? ''} (${unit}): ${number}`).numbers[row.field];
+        const mapped = mapLine(line).numbers[row.field];
+        expect(mapped, line).toBeCloseTo(convert(number), 9);
+        expect(mapped, line).toBe(plain);
+      }),
+      { numRuns: 2000 },
+    );
   });
 });

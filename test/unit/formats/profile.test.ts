@@ -10,9 +10,18 @@ import { LAYOUTS } from './layouts-outcome.js';
 const profile = (fields: Record<string, unknown>) => formatProfileSchema.parse(fields);
 
 describe('matchProfile', () => {
-  const profiles = [profile({ match: 'run*_tcspc.txt', name: 'a' }), profile({ match: 'lab2/**/*.csv', name: 'b' }), profile({ match: '*.CSV', name: 'c' })];
+  const profiles = [
+    profile({ match: 'run*_tcspc.txt', name: 'a' }),
+    profile({ match: 'lab2/**/*.csv', name: 'b' }),
+    profile({ match: '*.CSV', name: 'c' }),
+  ];
   it.each([
-    ['run7_tcspc.txt', 'a'], ['/data/inbox/RUN12_TCSPC.TXT', 'a'], ['/x/lab2/day1/a.csv', 'b'], ['lab2/a.csv', 'b'], ['other.csv', 'c'], ['run7_tcspc.dat', undefined],
+    ['run7_tcspc.txt', 'a'],
+    ['/data/inbox/RUN12_TCSPC.TXT', 'a'],
+    ['/x/lab2/day1/a.csv', 'b'],
+    ['lab2/a.csv', 'b'],
+    ['other.csv', 'c'],
+    ['run7_tcspc.dat', undefined],
   ])('%s → %s', (file, name) => {
     expect(matchProfile(profiles, file)?.name).toBe(name);
   });
@@ -22,7 +31,10 @@ describe('profiles read what sniffing cannot', () => {
   it('reads a header-less TCSPC file (refused without a profile) as a ps decay', () => {
     const content = readFileSync(`${LAYOUTS}tcspc_run7.dat`);
     expect(rejection(() => readData(content, { fileName: 'tcspc_run7.dat' })).code).toBe('UNKNOWN_UNIT');
-    const data = readData(content, { fileName: 'tcspc_run7.dat', profiles: [{ match: 'tcspc_*.dat', axisUnit: 'ps', kind: 'decay' }] });
+    const data = readData(content, {
+      fileName: 'tcspc_run7.dat',
+      profiles: [{ match: 'tcspc_*.dat', axisUnit: 'ps', kind: 'decay' }],
+    });
     expect(data.type).toBe('decay');
     if (data.type !== 'decay') return;
     expect(data.decay.timeNs[0]).toBe(0.25); // first row of the file: 250 ps
@@ -33,12 +45,28 @@ describe('profiles read what sniffing cannot', () => {
 
   it('fixes delimiter, decimal mark, header lines, names line, axis, value and IRF columns and channel width', () => {
     const text = [
-      'instrument note 1', 'instrument note 2', 'ch;sample;perp;prompt',
+      'instrument note 1',
+      'instrument note 2',
+      'ch;sample;perp;prompt',
       ...Array.from({ length: 8 }, (_, i) => `${i};${100 - i},5;${50 - i};${i === 1 ? 9 : 0}`),
     ].join('\n');
     const all = readMeasurements(bytes(text), {
       fileName: 'x/run_a.csv',
-      profiles: [{ match: '*.csv', delimiter: 'semicolon', decimalMark: ',', headerLines: 3, columnNamesLine: 3, axisColumn: 'ch', axisUnit: 'channel', valueColumns: ['sample', 3], irfColumn: 'prompt', channelWidthNs: 0.05, role: 'sample' }],
+      profiles: [
+        {
+          match: '*.csv',
+          delimiter: 'semicolon',
+          decimalMark: ',',
+          headerLines: 3,
+          columnNamesLine: 3,
+          axisColumn: 'ch',
+          axisUnit: 'channel',
+          valueColumns: ['sample', 3],
+          irfColumn: 'prompt',
+          channelWidthNs: 0.05,
+          role: 'sample',
+        },
+      ],
     });
     expect(all.map((data) => data.id)).toEqual(['x/run_a.csv#sample', 'x/run_a.csv#perp']);
     const [first, second] = all;
@@ -51,7 +79,12 @@ describe('profiles read what sniffing cannot', () => {
   });
 
   it('says which profile setting does not fit', () => {
-    const error = rejection(() => readData(bytes('a\nb\n1,2\n3,4\n5,6\n7,8\n'), { fileName: 'a.csv', profiles: [{ match: 'a.csv', headerLines: 1 }] }));
+    const error = rejection(() =>
+      readData(bytes('a\nb\n1,2\n3,4\n5,6\n7,8\n'), {
+        fileName: 'a.csv',
+        profiles: [{ match: 'a.csv', headerLines: 1 }],
+      }),
+    );
     expect(error.code).toBe('NO_DATA');
     expect(error.hint).toMatch(/headerLines/);
   });
@@ -61,6 +94,8 @@ describe('config formats.profiles', () => {
   it('validates profiles and refuses an unknown field', () => {
     const config = resolveConfig({ formats: { profiles: [{ match: '*.txt', axisUnit: 'ps' }] } }, { baseDir: '/' });
     expect(config.formats.profiles[0]?.axisUnit).toBe('ps');
-    expect(() => resolveConfig({ formats: { profiles: [{ match: '*.txt', axisUnits: 'ps' }] } }, { baseDir: '/' })).toThrow(/axisUnits/);
+    expect(() =>
+      resolveConfig({ formats: { profiles: [{ match: '*.txt', axisUnits: 'ps' }] } }, { baseDir: '/' }),
+    ).toThrow(/axisUnits/);
   });
 });

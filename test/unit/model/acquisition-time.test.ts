@@ -16,7 +16,12 @@ const READ: readonly { text: string; options?: AcquisitionTimeOptions; iso: stri
   { text: '2026-12-05T09:30:00', options: { timeZone: 'Europe/Berlin' }, iso: '2026-12-05T08:30:00.000Z', form: 'iso' }, // Python zoneinfo: CET
   { text: '2026-07-05T09:30:00', options: { timeZone: 'Europe/Berlin' }, iso: '2026-07-05T07:30:00.000Z', form: 'iso' }, // Python zoneinfo: CEST
   { text: '2026-12-05T09:30', options: { timeZone: 'America/New_York' }, iso: '2026-12-05T14:30:00.000Z', form: 'iso' }, // Python zoneinfo: EST
-  { text: '2026-12-05 09:30 UTC', options: { timeZone: 'Europe/Berlin' }, iso: '2026-12-05T09:30:00.000Z', form: 'iso' }, // zone in the text wins
+  {
+    text: '2026-12-05 09:30 UTC',
+    options: { timeZone: 'Europe/Berlin' },
+    iso: '2026-12-05T09:30:00.000Z',
+    form: 'iso',
+  }, // zone in the text wins
   { text: '20261205T093000Z', iso: '2026-12-05T09:30:00.000Z', form: 'iso' }, // ISO 8601 basic format
   { text: '2026/12/05 09:30:15', iso: '2026-12-05T09:30:15.000Z', form: 'year-first' },
   { text: '2024-02-29', iso: '2024-02-29T00:00:00.000Z', form: 'iso' }, // 2024 is a leap year
@@ -30,10 +35,20 @@ const READ: readonly { text: string; options?: AcquisitionTimeOptions; iso: stri
   { text: '05-December-2026', iso: '2026-12-05T00:00:00.000Z', form: 'month-name' },
   { text: '46361.395833333336', iso: '2026-12-05T09:30:00.000Z', form: 'excel-serial' }, // Python: 1899-12-30 + 46361.3958333 d
   { text: '46361', iso: '2026-12-05T00:00:00.000Z', form: 'excel-serial' }, // Python: 1899-12-30 + 46361 d
-  { text: '46361.395833333336', options: { timeZone: 'Europe/Berlin' }, iso: '2026-12-05T08:30:00.000Z', form: 'excel-serial' },
+  {
+    text: '46361.395833333336',
+    options: { timeZone: 'Europe/Berlin' },
+    iso: '2026-12-05T08:30:00.000Z',
+    form: 'excel-serial',
+  },
 ];
 
-const REFUSED: readonly { text: string; options?: AcquisitionTimeOptions; code: 'DATE_AMBIGUOUS' | 'DATE_INVALID'; says: RegExp }[] = [
+const REFUSED: readonly {
+  text: string;
+  options?: AcquisitionTimeOptions;
+  code: 'DATE_AMBIGUOUS' | 'DATE_INVALID';
+  says: RegExp;
+}[] = [
   { text: '05.12.2026', code: 'DATE_AMBIGUOUS', says: /2026-12-05 \(day first\) or 2026-05-12 \(month first\)/ },
   { text: '05/12/2026 09:30', code: 'DATE_AMBIGUOUS', says: /day first/ },
   { text: '05.12.26', options: BERLIN_DMY, code: 'DATE_AMBIGUOUS', says: /2-digit year/ },

@@ -16,7 +16,9 @@ describe('folder fsync errors', () => {
 
   it('throws for a folder that is gone, with its path, instead of swallowing it', async () => {
     const missing = join(tempDir('dl-fsync-'), 'no-such-folder');
-    expect(() => fsyncDirectory(missing)).toThrow(expect.objectContaining({ code: 'ENOENT', message: expect.stringContaining(missing) }));
+    expect(() => fsyncDirectory(missing)).toThrow(
+      expect.objectContaining({ code: 'ENOENT', message: expect.stringContaining(missing) }),
+    );
     await expect(fsyncDirectoryAsync(missing)).rejects.toMatchObject({ code: 'ENOENT' });
   });
 

@@ -23,9 +23,18 @@ describe('moveFile across file systems', () => {
       writeFileSync(from, 'x,y\n1,2\n');
       const to = join(tempDir('dl-move-to-'), 'archive', 'a.csv');
       const steps: string[] = [];
-      crossDeviceSteps.copy = (f, t) => { steps.push('copy'); original.copy(f, t); };
-      crossDeviceSteps.fsyncFile = (p) => { steps.push(`fsync file ${p === to ? 'copy' : p}`); original.fsyncFile(p); };
-      crossDeviceSteps.fsyncFolder = (d) => { steps.push(`fsync folder ${d === dirname(to) ? 'target' : d}`); original.fsyncFolder(d); };
+      crossDeviceSteps.copy = (f, t) => {
+        steps.push('copy');
+        original.copy(f, t);
+      };
+      crossDeviceSteps.fsyncFile = (p) => {
+        steps.push(`fsync file ${p === to ? 'copy' : p}`);
+        original.fsyncFile(p);
+      };
+      crossDeviceSteps.fsyncFolder = (d) => {
+        steps.push(`fsync folder ${d === dirname(to) ? 'target' : d}`);
+        original.fsyncFolder(d);
+      };
       crossDeviceSteps.unlink = (p) => {
         steps.push(`unlink ${p === from ? 'source' : p}`);
         expect(readFileSync(to, 'utf8')).toBe('x,y\n1,2\n');

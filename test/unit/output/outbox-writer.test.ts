@@ -19,7 +19,10 @@ describe('writeOutbox', () => {
     const day = join(outbox, '2026-03-14');
     expect(readdirSync(day)).toEqual(['set-a']);
     expect(readdirSync(join(day, 'set-a')).sort()).toEqual(['set-a.decay.fit.csv', 'set-a.emission.corrected.csv']);
-    expect(paths).toEqual([join(day, 'set-a', 'set-a.emission.corrected.csv'), join(day, 'set-a', 'set-a.decay.fit.csv')]);
+    expect(paths).toEqual([
+      join(day, 'set-a', 'set-a.emission.corrected.csv'),
+      join(day, 'set-a', 'set-a.decay.fit.csv'),
+    ]);
     expect(readFileSync(paths[1] ?? '', 'utf8')).toBe('time (ns),counts\n0,5\n');
   });
 
@@ -46,7 +49,12 @@ describe('writeOutbox', () => {
   it('leaves no set folder and no temporary folder when a file cannot be written', () => {
     const outbox = tempDir('dl-outbox-');
     // An empty name makes the file path the temporary folder itself: the open fails (EISDIR).
-    expect(() => writeOutbox(outbox, 'set-d', CREATED, [{ name: 'ok.csv', content: 'x\n' }, { name: '', content: 'y\n' }])).toThrow();
+    expect(() =>
+      writeOutbox(outbox, 'set-d', CREATED, [
+        { name: 'ok.csv', content: 'x\n' },
+        { name: '', content: 'y\n' },
+      ]),
+    ).toThrow();
     expect(readdirSync(join(outbox, '2026-03-14'))).toEqual([]);
   });
 

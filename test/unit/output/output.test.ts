@@ -2,7 +2,14 @@
 import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { fsyncDirectoryAsync, moveFile, quarantineFile, uniqueTarget, writeFileAtomic, writeFileAtomicAsync } from '../../../src/output/index.js';
+import {
+  fsyncDirectoryAsync,
+  moveFile,
+  quarantineFile,
+  uniqueTarget,
+  writeFileAtomic,
+  writeFileAtomicAsync,
+} from '../../../src/output/index.js';
 import { tempDir } from '../../helpers/temp-dir.js';
 
 describe('output', () => {
@@ -37,7 +44,14 @@ describe('output', () => {
     for (let i = 0; i < 2; i++) {
       const input = join(dir, 'bad.csv');
       writeFileSync(input, `junk ${i}`);
-      quarantineFile(join(dir, 'q'), input, 'bad.csv', { code: 'NON_NUMERIC', message: 'column 2 holds "x"', hint: 'fix it', line: 4 }, now, 'f'.repeat(64));
+      quarantineFile(
+        join(dir, 'q'),
+        input,
+        'bad.csv',
+        { code: 'NON_NUMERIC', message: 'column 2 holds "x"', hint: 'fix it', line: 4 },
+        now,
+        'f'.repeat(64),
+      );
       expect(existsSync(input)).toBe(false);
     }
     const day = join(dir, 'q', '2026-03-14');

@@ -16,12 +16,15 @@ function toMatrix(rows: number[][]): { size: number; data: Float64Array } {
 }
 
 describe('expm', () => {
-  it.each(reference.generic.map((g) => [g.oneNorm.toFixed(3), g] as const))('matches scipy.linalg.expm for ‖A‖₁ = %s', (_norm, g) => {
-    const result = expm(toMatrix(g.matrix));
-    const expected = g.expm.flat();
-    const scale = Math.max(...expected.map(Math.abs));
-    expected.forEach((value, i) => expect(Math.abs((result.data[i] as number) - value)).toBeLessThan(1e-11 * scale));
-  });
+  it.each(reference.generic.map((g) => [g.oneNorm.toFixed(3), g] as const))(
+    'matches scipy.linalg.expm for ‖A‖₁ = %s',
+    (_norm, g) => {
+      const result = expm(toMatrix(g.matrix));
+      const expected = g.expm.flat();
+      const scale = Math.max(...expected.map(Math.abs));
+      expected.forEach((value, i) => expect(Math.abs((result.data[i] as number) - value)).toBeLessThan(1e-11 * scale));
+    },
+  );
 
   it('gives e^a on a diagonal matrix and the identity for zero', () => {
     // exp of a diagonal matrix is the diagonal of exponentials (definition of the power series).

@@ -11,7 +11,9 @@ describe('gradientQuantumYield', () => {
     const result = gradientQuantumYield({
       sample: { absorbances, integrals: sampleIntegrals },
       reference: { absorbances, integrals: referenceIntegrals },
-      referenceYield: 0.546, sampleRefractiveIndex: 1.3618, referenceRefractiveIndex: 1.339,
+      referenceYield: 0.546,
+      sampleRefractiveIndex: 1.3618,
+      referenceRefractiveIndex: 1.339,
       uncertainties: { referenceYield: 0.02 },
     });
     // By hand: Σxy = 0.02·1.02e6 + 0.04·1.98e6 + 0.06·3.05e6 + 0.08·3.96e6 + 0.1·5.01e6 = 1.1004e6,
@@ -35,7 +37,9 @@ describe('gradientQuantumYield', () => {
     const result = gradientQuantumYield({
       sample: { absorbances: sampleAbsorbances, integrals: sampleAbsorbances.map((a) => 1e7 * (1 - 10 ** -a)) },
       reference: { absorbances, integrals: absorbances.map((a) => 4.0e6 * a) },
-      referenceYield: 0.6, sampleRefractiveIndex: 1.333, referenceRefractiveIndex: 1.333,
+      referenceYield: 0.6,
+      sampleRefractiveIndex: 1.333,
+      referenceRefractiveIndex: 1.333,
     });
     const text = result.warnings.join(' | ');
     expect(text).toMatch(/curves downwards/);
@@ -52,7 +56,9 @@ describe('gradientQuantumYield', () => {
     const result = gradientQuantumYield({
       sample: { absorbances: longAbsorbances, integrals },
       reference: { absorbances, integrals: absorbances.map((a) => 4.0e6 * a) },
-      referenceYield: 0.6, sampleRefractiveIndex: 1.333, referenceRefractiveIndex: 1.333,
+      referenceYield: 0.6,
+      sampleRefractiveIndex: 1.333,
+      referenceRefractiveIndex: 1.333,
       options: { absorbanceWarnLimit: 0.2 },
     });
     expect(result.sampleFit.residualSignRuns).toBeLessThanOrEqual(3);

@@ -65,7 +65,9 @@ describe('solveKineticScheme', () => {
         const expected = scheme.populations[ti]?.[si] as number;
         // Relative 1e-7: with rates spanning 1e2–1e12 s⁻¹, ~29 squarings lose ≈ 2^s·ε (Higham 2005 §3);
         // scipy's expm uses the newer Al-Mohy & Higham (2009) variant, so the two differ at that level.
-        expect(Math.abs((result.populations[state]?.[ti] as number) - expected)).toBeLessThanOrEqual(1e-7 * Math.abs(expected) + 1e-15);
+        expect(Math.abs((result.populations[state]?.[ti] as number) - expected)).toBeLessThanOrEqual(
+          1e-7 * Math.abs(expected) + 1e-15,
+        );
       });
     });
     // Yields from scipy's ∫P dt: Φ_f = k_f·∫P_S1, Φ_p = k_p·∫P_T1.
@@ -106,7 +108,9 @@ describe('solveKineticScheme', () => {
     const ours = errors((ti, si) => result.populations[stiffScheme.states[si] as string]?.[ti] as number);
     const scipyExpm = errors((ti, si) => stiffScheme.populationsScipyExpm[ti]?.[si] as number);
     const radau = errors((ti, si) => stiffScheme.populationsSolveIvpRadau[ti]?.[si] as number);
-    console.info(`stiff scheme errors vs mpmath: driftlight ${JSON.stringify(ours)}, scipy expm ${JSON.stringify(scipyExpm)}, solve_ivp Radau ${JSON.stringify(radau)}`);
+    console.info(
+      `stiff scheme errors vs mpmath: driftlight ${JSON.stringify(ours)}, scipy expm ${JSON.stringify(scipyExpm)}, solve_ivp Radau ${JSON.stringify(radau)}`,
+    );
     // docs/photophysics.md states: absolute ≤ 1e−8 and relative ≤ 1e−6 on populations above 1e−12 for such schemes.
     expect(ours.absolute).toBeLessThanOrEqual(1e-8);
     expect(ours.relative).toBeLessThanOrEqual(1e-6);
@@ -124,7 +128,12 @@ describe('solveKineticScheme', () => {
 
   it('refuses a populated state without a decay path', () => {
     expect(() =>
-      solveKineticScheme({ states: ['S0', 'S1', 'T1'], initialPopulation: { S1: 1 }, processes: [{ kind: 'intersystem-crossing', from: 'S1', to: 'T1', ratePerS: 1e8 }], timesS: [0] }),
+      solveKineticScheme({
+        states: ['S0', 'S1', 'T1'],
+        initialPopulation: { S1: 1 },
+        processes: [{ kind: 'intersystem-crossing', from: 'S1', to: 'T1', ratePerS: 1e8 }],
+        timesS: [0],
+      }),
     ).toThrow(/T1 is populated but has no decay/);
   });
 });

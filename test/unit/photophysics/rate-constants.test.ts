@@ -1,6 +1,10 @@
 // Rate constants from yield and lifetime (Birks 1976), yields from rate constants, and time scales.
 import { describe, expect, it } from 'vitest';
-import { rateConstantsFromYield, rateFromTimeScale, yieldsFromRateConstants } from '../../../src/photophysics/rate-constants.js';
+import {
+  rateConstantsFromYield,
+  rateFromTimeScale,
+  yieldsFromRateConstants,
+} from '../../../src/photophysics/rate-constants.js';
 import { timeScalePlausibility } from '../../../src/photophysics/time-scales.js';
 
 describe('rateConstantsFromYield', () => {
@@ -14,7 +18,12 @@ describe('rateConstantsFromYield', () => {
   });
 
   it('propagates uncertainties to first order', () => {
-    const rates = rateConstantsFromYield({ quantumYield: 0.5, tauNs: 2, quantumYieldUncertainty: 0.02, tauUncertaintyNs: 0.04 });
+    const rates = rateConstantsFromYield({
+      quantumYield: 0.5,
+      tauNs: 2,
+      quantumYieldUncertainty: 0.02,
+      tauUncertaintyNs: 0.04,
+    });
     // u(k_r)/k_r = √((0.02/0.5)² + (0.04/2)²) = √(0.0016 + 0.0004) by hand.
     expect((rates.krStandardUncertaintyPerS as number) / rates.krPerS).toBeCloseTo(Math.sqrt(0.002), 12);
   });

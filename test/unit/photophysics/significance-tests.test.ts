@@ -1,7 +1,12 @@
 // Student t tail probabilities and the exact runs test used by the photophysics warnings (issue 17.5).
 import { describe, expect, it } from 'vitest';
 import { runsProbability, runsTestTooFew } from '../../../src/photophysics/runs-test.js';
-import { logGamma, regularizedIncompleteBeta, studentTTwoSidedPValue, studentTUpperTail } from '../../../src/photophysics/student-t.js';
+import {
+  logGamma,
+  regularizedIncompleteBeta,
+  studentTTwoSidedPValue,
+  studentTUpperTail,
+} from '../../../src/photophysics/student-t.js';
 
 describe('Student t (A&S 26.7.1 via the incomplete beta)', () => {
   // Check values from scipy 1.17: scipy.stats.t.sf, scipy.special.betainc, scipy.special.gammaln.

@@ -39,7 +39,11 @@ describe('sternVolmer', () => {
   });
 
   it('calls quenching static when lifetimes do not change', () => {
-    const result = sternVolmer({ concentrationsM, intensityRatios: concentrationsM.map((q) => 1 + 20 * q), lifetimesNs: concentrationsM.map(() => tau0Ns) });
+    const result = sternVolmer({
+      concentrationsM,
+      intensityRatios: concentrationsM.map((q) => 1 + 20 * q),
+      lifetimesNs: concentrationsM.map(() => tau0Ns),
+    });
     expect(result.mechanism).toBe('static');
     expect(result.ksPerM).toBeCloseTo(20, 10);
   });
@@ -56,14 +60,23 @@ describe('sternVolmer', () => {
   });
 
   it('sees upward curvature without lifetimes and names both constants', () => {
-    const result = sternVolmer({ concentrationsM, intensityRatios: concentrationsM.map((q) => (1 + 10 * q) * (1 + 30 * q)), tau0Ns });
+    const result = sternVolmer({
+      concentrationsM,
+      intensityRatios: concentrationsM.map((q) => (1 + 10 * q) * (1 + 30 * q)),
+      tau0Ns,
+    });
     expect(result.mechanism).toBe('combined');
     // Roots of t² − 40t + 300 = 0 are 30 and 10 (by hand).
     expect(result.warnings.join(' ')).toMatch(/constants 30\.00 and 10\.00/);
   });
 
   it('flags k_q above the diffusion limit 8RT/3η (water 0.890 mPa·s at 25 °C, CRC, from memory)', () => {
-    const result = sternVolmer({ concentrationsM, intensities: concentrationsM.map((q) => 1000 / (1 + 80 * q)), tau0Ns, solvent: 'water' });
+    const result = sternVolmer({
+      concentrationsM,
+      intensities: concentrationsM.map((q) => 1000 / (1 + 80 * q)),
+      tau0Ns,
+      solvent: 'water',
+    });
     expect(result.kqPerMPerS).toBeCloseTo(2e10, -6);
     expect(result.exceedsDiffusionLimit).toBe(true);
     expect(result.mechanism).toBe('undetermined');

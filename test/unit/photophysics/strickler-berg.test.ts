@@ -9,7 +9,9 @@ describe('stricklerBergRate', () => {
   const centrePerCm = 25000;
   const lnWidth = 0.04;
   const absorptionAxis = axisNm(290, 550, 0.05);
-  const epsilon = absorptionAxis.map((l) => epsilonMaxPerMPerCm * Math.exp(-((Math.log(1e7 / l) - Math.log(centrePerCm)) ** 2) / (2 * lnWidth ** 2)));
+  const epsilon = absorptionAxis.map(
+    (l) => epsilonMaxPerMPerCm * Math.exp(-((Math.log(1e7 / l) - Math.log(centrePerCm)) ** 2) / (2 * lnWidth ** 2)),
+  );
   // Emission per unit wavenumber F(ν̃) = ν̃³·G(ν̃; μ, σ) → ⟨ν̃⁻³⟩⁻¹ = ∫F/∫ν̃⁻³F = μ³ + 3μσ² (Gaussian moments);
   // on the nm axis F(λ) = F(ν̃)·1e7/λ² (Jacobian, Mooney & Kambhampati 2013).
   const muPerCm = 20000;
@@ -37,9 +39,19 @@ describe('stricklerBergRate', () => {
 
   it('reports measured/predicted k_r and warns when they disagree by more than 2×', () => {
     const predicted = stricklerBergRate({ absorptivity, emission: emissionSpectrum, refractiveIndex: 1.333 }).krPerS;
-    const close = stricklerBergRate({ absorptivity, emission: emissionSpectrum, refractiveIndex: 1.333, measuredKrPerS: 0.9 * predicted });
+    const close = stricklerBergRate({
+      absorptivity,
+      emission: emissionSpectrum,
+      refractiveIndex: 1.333,
+      measuredKrPerS: 0.9 * predicted,
+    });
     expect(close.measuredToPredictedRatio).toBeCloseTo(0.9, 10);
-    const far = stricklerBergRate({ absorptivity, emission: emissionSpectrum, refractiveIndex: 1.333, measuredKrPerS: 0.2 * predicted });
+    const far = stricklerBergRate({
+      absorptivity,
+      emission: emissionSpectrum,
+      refractiveIndex: 1.333,
+      measuredKrPerS: 0.2 * predicted,
+    });
     expect(far.warnings.join(' ')).toMatch(/measured\/predicted/);
   });
 });

@@ -29,7 +29,9 @@ function gradientRate(pattern: RegExp, noise: Noise, xs: readonly number[], seed
     const result = gradientQuantumYield({
       sample: { absorbances: xs, integrals: series() },
       reference: { absorbances: xs, integrals: series() },
-      referenceYield: 0.5, sampleRefractiveIndex: 1.333, referenceRefractiveIndex: 1.333,
+      referenceYield: 0.5,
+      sampleRefractiveIndex: 1.333,
+      referenceRefractiveIndex: 1.333,
       uncertainties: { referenceYield: 0.01 },
     });
     // Count series, not calls: each call fits two series.
@@ -65,7 +67,9 @@ describe('warning false-positive rates on clean data (seeded, 2000 series each)'
     let detected = 0;
     const trials = 500;
     for (let i = 0; i < trials; i++) {
-      const intensities = concentrationsM.map((q) => (1e6 / ((1 + 10 * q) * (1 + 30 * q))) * (1 + 0.01 * sampleStandardNormal(random)));
+      const intensities = concentrationsM.map(
+        (q) => (1e6 / ((1 + 10 * q) * (1 + 30 * q))) * (1 + 0.01 * sampleStandardNormal(random)),
+      );
       if (sternVolmer({ concentrationsM, intensities, tau0Ns: 4 }).mechanism === 'combined') detected++;
     }
     console.info(`Stern–Volmer power, combined 10/30 M⁻¹, 1 % noise: ${((100 * detected) / trials).toFixed(1)} %`);
@@ -73,9 +77,19 @@ describe('warning false-positive rates on clean data (seeded, 2000 series each)'
   });
 
   it.each<[string, RegExp, Noise, readonly number[]]>([
-    ['gradient: systematic residual pattern, 5 points, 1 % relative noise', /systematic pattern/, 'relative', absorbances],
+    [
+      'gradient: systematic residual pattern, 5 points, 1 % relative noise',
+      /systematic pattern/,
+      'relative',
+      absorbances,
+    ],
     ['gradient: systematic residual pattern, 5 points, constant noise', /systematic pattern/, 'absolute', absorbances],
-    ['gradient: systematic residual pattern, 10 points, 1 % relative noise', /systematic pattern/, 'relative', longAbsorbances],
+    [
+      'gradient: systematic residual pattern, 10 points, 1 % relative noise',
+      /systematic pattern/,
+      'relative',
+      longAbsorbances,
+    ],
     ['gradient: curvature, 5 points, 1 % relative noise', /curves/, 'relative', absorbances],
     ['gradient: curvature, 5 points, constant noise', /curves/, 'absolute', absorbances],
     ['gradient: curvature, 10 points, constant noise', /curves/, 'absolute', longAbsorbances],

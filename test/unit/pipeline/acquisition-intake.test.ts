@@ -10,13 +10,21 @@ import { runBatch } from '../../../src/cli/process.js';
 import { generateSet } from '../../integration/pipeline-helpers.js';
 import { tempDir } from '../../helpers/temp-dir.js';
 
-const silent = (): Writable => new Writable({ write(_chunk, _enc, done) { done(); } });
+const silent = (): Writable =>
+  new Writable({
+    write(_chunk, _enc, done) {
+      done();
+    },
+  });
 
 /** A generated set whose files say `acquiredAt` (or nothing, when null) instead of their own times. */
 function writeSet(inbox: string, sampleId: string, acquiredAt: string | null): string[] {
   mkdirSync(inbox, { recursive: true });
   return generateSet(sampleId, 41).files.map((f) => {
-    const content = f.content.replace(/^# acquired at: .*\n/m, acquiredAt === null ? '' : `# acquired at: ${acquiredAt}\n`);
+    const content = f.content.replace(
+      /^# acquired at: .*\n/m,
+      acquiredAt === null ? '' : `# acquired at: ${acquiredAt}\n`,
+    );
     const path = join(inbox, f.name);
     writeFileSync(path, content);
     return path;
@@ -29,7 +37,10 @@ function setup(name: string, yaml: string): { dir: string; inbox: string; config
   return { dir, inbox: join(dir, 'inbox'), config: join(dir, 'driftlight.yaml') };
 }
 
-function onlyResult(dir: string): { day: string; result: Record<string, unknown> & { provenance: Record<string, unknown> } } {
+function onlyResult(dir: string): {
+  day: string;
+  result: Record<string, unknown> & { provenance: Record<string, unknown> };
+} {
   const days = readdirSync(join(dir, 'results'));
   expect(days).toHaveLength(1);
   const day = days[0] ?? '';
@@ -44,8 +55,12 @@ describe('acquisition times at intake', () => {
     writeSet(inbox, 'acq-amb', '05.12.2026 09:30');
     const summary = await runBatch([inbox], { config }, silent());
     expect(summary).toMatchObject({ done: 0 });
-    const quarantined = readdirSync(join(dir, 'quarantine')).flatMap((day) => readdirSync(join(dir, 'quarantine', day)).map((f) => join(dir, 'quarantine', day, f)));
-    const reasons = quarantined.filter((p) => p.endsWith('.error.json')).map((p) => JSON.parse(readFileSync(p, 'utf8')) as { code: string; hint: string });
+    const quarantined = readdirSync(join(dir, 'quarantine')).flatMap((day) =>
+      readdirSync(join(dir, 'quarantine', day)).map((f) => join(dir, 'quarantine', day, f)),
+    );
+    const reasons = quarantined
+      .filter((p) => p.endsWith('.error.json'))
+      .map((p) => JSON.parse(readFileSync(p, 'utf8')) as { code: string; hint: string });
     expect(reasons).toHaveLength(3);
     for (const reason of reasons) {
       expect(reason.code).toBe('DATE_AMBIGUOUS');
@@ -70,7 +85,9 @@ describe('acquisition times at intake', () => {
     expect(await runBatch([inbox], { config }, silent())).toMatchObject({ done: 0 });
     const day = readdirSync(join(dir, 'quarantine'))[0] ?? '';
     const reasons = readdirSync(join(dir, 'quarantine', day)).filter((f) => f.endsWith('.error.json'));
-    expect(reasons.map((f) => (JSON.parse(readFileSync(join(dir, 'quarantine', day, f), 'utf8')) as { code: string }).code)).toEqual(['DATE_INVALID', 'DATE_INVALID', 'DATE_INVALID']);
+    expect(
+      reasons.map((f) => (JSON.parse(readFileSync(join(dir, 'quarantine', day, f), 'utf8')) as { code: string }).code),
+    ).toEqual(['DATE_INVALID', 'DATE_INVALID', 'DATE_INVALID']);
   });
 
   it('uses the file modification time when a file has no acquisition time, records it as such, and never the analysis time', async () => {

@@ -3,14 +3,24 @@
 // doubling, at most 60 s; 3 failures for other errors) is the project's own choice, documented in
 // src/pipeline/commit-retry.ts.
 import { describe, expect, it } from 'vitest';
-import { commitRetryDelayMs, HeldCommits, isEnvironmentError, type Scheduler } from '../../../src/pipeline/commit-retry.js';
+import {
+  commitRetryDelayMs,
+  HeldCommits,
+  isEnvironmentError,
+  type Scheduler,
+} from '../../../src/pipeline/commit-retry.js';
 
-function recordingScheduler(): { schedule: Scheduler; calls: { run: () => void; delayMs: number; cancelled: boolean }[] } {
+function recordingScheduler(): {
+  schedule: Scheduler;
+  calls: { run: () => void; delayMs: number; cancelled: boolean }[];
+} {
   const calls: { run: () => void; delayMs: number; cancelled: boolean }[] = [];
   const schedule: Scheduler = (run, delayMs) => {
     const call = { run, delayMs, cancelled: false };
     calls.push(call);
-    return () => { call.cancelled = true; };
+    return () => {
+      call.cancelled = true;
+    };
   };
   return { schedule, calls };
 }
@@ -26,7 +36,9 @@ describe('commit retry', () => {
   });
 
   it('waits 1 s, doubling per failure, at most 60 s', () => {
-    expect([1, 2, 3, 4, 5, 6, 7, 8].map(commitRetryDelayMs)).toEqual([1000, 2000, 4000, 8000, 16_000, 32_000, 60_000, 60_000]);
+    expect([1, 2, 3, 4, 5, 6, 7, 8].map(commitRetryDelayMs)).toEqual([
+      1000, 2000, 4000, 8000, 16_000, 32_000, 60_000, 60_000,
+    ]);
   });
 
   it('holds an outcome that failed with an environment error and retries it when its timer fires', () => {

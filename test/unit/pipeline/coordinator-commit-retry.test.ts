@@ -33,10 +33,20 @@ async function waitUntil(what: string, condition: () => boolean, timeoutMs = 10_
   }
 }
 
-function setup(name: string, stages?: ResultStage[]): { pipeline: Pipeline; inbox: string; dir: string; paths: string[]; setState: () => string | undefined } {
+function setup(
+  name: string,
+  stages?: ResultStage[],
+): { pipeline: Pipeline; inbox: string; dir: string; paths: string[]; setState: () => string | undefined } {
   const dir = tempDir(`dl-commit-retry-${name}-`);
-  const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
-  const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }), ...(stages === undefined ? {} : { stages }) });
+  const config = resolveConfig(
+    { assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'silent', stdout: 'off' } },
+    { baseDir: dir },
+  );
+  const pipeline = openPipeline(config, {
+    softwareVersion: 'test',
+    logger: pino({ level: 'silent' }),
+    ...(stages === undefined ? {} : { stages }),
+  });
   opened.push(pipeline);
   const inbox = config.folders.inbox;
   mkdirSync(inbox, { recursive: true });
@@ -46,7 +56,8 @@ function setup(name: string, stages?: ResultStage[]): { pipeline: Pipeline; inbo
     writeFileSync(path, f.content);
     return path;
   });
-  const setState = (): string | undefined => (pipeline.ledger.database.prepare(`SELECT state FROM sets LIMIT 1`).get() as { state: string } | undefined)?.state;
+  const setState = (): string | undefined =>
+    (pipeline.ledger.database.prepare(`SELECT state FROM sets LIMIT 1`).get() as { state: string } | undefined)?.state;
   return { pipeline, inbox, dir, paths, setState };
 }
 
@@ -63,7 +74,9 @@ describe('commits that fail for reasons outside the set', () => {
     const { pipeline, dir, paths, setState } = setup('results');
     blockFolder(join(dir, 'results'));
     let resultPath: string | undefined;
-    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    pipeline.coordinator.onCommitted((_id, path) => {
+      resultPath = path;
+    });
     expect(await pipeline.coordinator.intakeMany(paths)).toEqual([]);
     await pipeline.coordinator.tick(true);
     await waitUntil('the first commit to fail and be held', () => pipeline.coordinator.heldCommitCount === 1);
@@ -77,7 +90,9 @@ describe('commits that fail for reasons outside the set', () => {
     expect(pipeline.coordinator.heldCommitCount).toBe(0);
     expect(pipeline.coordinator.pendingJobs).toBe(0);
     expect(paths.some((p) => existsSync(p))).toBe(false);
-    const archived = readdirSync(join(dir, 'archive'), { recursive: true }).map(String).filter((p) => p.endsWith('.csv'));
+    const archived = readdirSync(join(dir, 'archive'), { recursive: true })
+      .map(String)
+      .filter((p) => p.endsWith('.csv'));
     expect(archived).toHaveLength(paths.length);
   }, 20_000);
 
@@ -85,7 +100,9 @@ describe('commits that fail for reasons outside the set', () => {
     const { pipeline, dir, paths, setState } = setup('archive');
     blockFolder(join(dir, 'archive'));
     let resultPath: string | undefined;
-    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    pipeline.coordinator.onCommitted((_id, path) => {
+      resultPath = path;
+    });
     await pipeline.coordinator.intakeMany(paths);
     await pipeline.coordinator.tick(true);
     await pipeline.coordinator.drain();
@@ -96,24 +113,48 @@ describe('commits that fail for reasons outside the set', () => {
     unblockFolder(join(dir, 'archive'));
     expect(pipeline.coordinator.repairMoves().moved).toBe(paths.length);
     expect(paths.some((p) => existsSync(p))).toBe(false);
-    const unplaced = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`).get() as { n: number };
+    const unplaced = pipeline.ledger.database
+      .prepare(`SELECT COUNT(*) AS n FROM files WHERE archive_path IS NULL`)
+      .get() as { n: number };
     expect(unplaced.n).toBe(0);
   }, 20_000);
 
   it('records a failed set even when its files cannot be quarantined, and repairMoves() quarantines them later', async () => {
     // A queue whose every job fails permanently (as a fit that cannot converge would).
     const dir = tempDir('dl-commit-retry-quarantine-');
-    const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
+    const config = resolveConfig(
+      { assembly: { setTimeoutMs: 600_000 }, logging: { level: 'silent', stdout: 'off' } },
+      { baseDir: dir },
+    );
     const ledger = openLedger(config.folders.state);
     let deliver: ((outcome: JobOutcome<AnalysisOutput>) => void | Promise<void>) | undefined;
     const queue: JobQueue<AnalysisJobPayload, AnalysisOutput> = {
-      enqueue: async (id) => { setImmediate(() => void deliver?.({ id, status: 'failed', failure: { code: 'FIT_DIVERGED', message: 'no fit converged', permanent: true }, attempts: 1 })); },
-      onOutcome: (listener) => { deliver = listener; },
+      enqueue: async (id) => {
+        setImmediate(
+          () =>
+            void deliver?.({
+              id,
+              status: 'failed',
+              failure: { code: 'FIT_DIVERGED', message: 'no fit converged', permanent: true },
+              attempts: 1,
+            }),
+        );
+      },
+      onOutcome: (listener) => {
+        deliver = listener;
+      },
       stats: async () => ({ waiting: 0, active: 0, completed: 0, failed: 0 }),
       drain: async () => undefined,
       close: async () => undefined,
     };
-    const coordinator = new Coordinator({ config, ledger, queue, logger: pino({ level: 'silent' }), softwareVersion: 'test', stages: [] });
+    const coordinator = new Coordinator({
+      config,
+      ledger,
+      queue,
+      logger: pino({ level: 'silent' }),
+      softwareVersion: 'test',
+      stages: [],
+    });
     try {
       mkdirSync(config.folders.inbox, { recursive: true });
       const paths = generateSet('retry-quarantine', 33).files.map((f) => {
@@ -156,7 +197,13 @@ describe('commits that fail for reasons outside the set', () => {
 
   it('lets go of an outcome after 3 failures when the error is not an I/O or database error', async () => {
     let calls = 0;
-    const failing: ResultStage = { name: 'always-fails', apply: () => { calls += 1; throw new TypeError('a bug in a result stage'); } };
+    const failing: ResultStage = {
+      name: 'always-fails',
+      apply: () => {
+        calls += 1;
+        throw new TypeError('a bug in a result stage');
+      },
+    };
     const { pipeline, setState, paths } = setup('bug', [failing]);
     await pipeline.coordinator.intakeMany(paths);
     await pipeline.coordinator.tick(true);
@@ -184,7 +231,12 @@ describe('`process` when a result cannot be written', () => {
     mkdirSync(join(dir, 'results'));
     for (const day of days) writeFileSync(join(dir, 'results', day), 'a file where a folder belongs');
     let printed = '';
-    const out = new Writable({ write(chunk: Buffer, _enc, done) { printed += chunk.toString(); done(); } });
+    const out = new Writable({
+      write(chunk: Buffer, _enc, done) {
+        printed += chunk.toString();
+        done();
+      },
+    });
     const first = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
     expect(first).toMatchObject({ sets: 1, done: 0, failed: 0, notCommitted: 1 });
     expect(printed).toContain('not committed: 1 set(s)');

@@ -19,7 +19,8 @@ vi.mock('../../../src/pipeline/intake.js', async (importOriginal) => {
   return {
     ...real,
     intakeFile: (...args: Parameters<typeof real.intakeFile>) => {
-      if (failOnce.delete(args[2])) throw Object.assign(new Error(`EIO: i/o error, read '${args[2]}'`), { code: 'EIO' });
+      if (failOnce.delete(args[2]))
+        throw Object.assign(new Error(`EIO: i/o error, read '${args[2]}'`), { code: 'EIO' });
       return real.intakeFile(...args);
     },
   };
@@ -33,7 +34,10 @@ afterEach(async () => {
 describe('intake failures that are not the file’s fault', () => {
   it('returns the file, leaves it in the inbox unrecorded, and a second intake completes its set', async () => {
     const dir = tempDir('dl-intake-retry-');
-    const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'warn', stdout: 'off' } }, { baseDir: dir });
+    const config = resolveConfig(
+      { assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'warn', stdout: 'off' } },
+      { baseDir: dir },
+    );
     const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }) });
     opened.push(pipeline);
     pipeline.coordinator.holdDispatch = true;
@@ -48,14 +52,21 @@ describe('intake failures that are not the file’s fault', () => {
     failOnce.add(troubled);
     expect(await pipeline.coordinator.intakeMany(paths)).toEqual([troubled]);
     expect(existsSync(troubled)).toBe(true);
-    const recorded = pipeline.ledger.database.prepare(`SELECT COUNT(*) AS n FROM files WHERE path = ?`).get(troubled) as { n: number };
+    const recorded = pipeline.ledger.database
+      .prepare(`SELECT COUNT(*) AS n FROM files WHERE path = ?`)
+      .get(troubled) as { n: number };
     expect(recorded.n).toBe(0);
     expect(await pipeline.coordinator.intakeMany([troubled])).toEqual([]);
     let resultPath: string | undefined;
-    pipeline.coordinator.onCommitted((_id, path) => { resultPath = path; });
+    pipeline.coordinator.onCommitted((_id, path) => {
+      resultPath = path;
+    });
     await pipeline.coordinator.tick(true);
     await pipeline.coordinator.drain();
-    const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as { partial: boolean; provenance: { inputs: { file: string }[] } };
+    const result = JSON.parse(readFileSync(resultPath ?? '', 'utf8')) as {
+      partial: boolean;
+      provenance: { inputs: { file: string }[] };
+    };
     expect(result.partial).toBe(false);
     expect(result.provenance.inputs.map((i) => i.file).sort()).toEqual(set.files.map((f) => f.name).sort());
   });
@@ -69,7 +80,12 @@ describe('intake failures that are not the file’s fault', () => {
     const troubled = join(dir, 'inbox', set.files[0]?.name ?? '');
     failOnce.add(troubled);
     let printed = '';
-    const out = new Writable({ write(chunk: Buffer, _enc, done) { printed += chunk.toString(); done(); } });
+    const out = new Writable({
+      write(chunk: Buffer, _enc, done) {
+        printed += chunk.toString();
+        done();
+      },
+    });
     const first = await runBatch([join(dir, 'inbox')], { config: join(dir, 'driftlight.yaml') }, out);
     expect(first).toMatchObject({ files: 3, accepted: 2, notTaken: 1 });
     expect(printed).toContain(`not taken:  1 file(s)`);

@@ -20,7 +20,10 @@ afterEach(async () => {
 
 function start(existing?: string): { pipeline: Pipeline; inbox: string; dir: string } {
   const dir = existing ?? mkdtempSync(join(tmpdir(), 'dl-mf-'));
-  const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 2 }, logging: { level: 'warn', stdout: 'off' } }, { baseDir: dir });
+  const config = resolveConfig(
+    { assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 2 }, logging: { level: 'warn', stdout: 'off' } },
+    { baseDir: dir },
+  );
   const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }) });
   opened.push({ pipeline, dir: existing === undefined ? dir : '' });
   mkdirSync(config.folders.inbox, { recursive: true });
@@ -91,7 +94,11 @@ describe('manifest sets', () => {
       await pipeline.coordinator.intakeMany([join(inbox, f.name)]);
     }
     await pipeline.coordinator.drain();
-    expect(results(dir).map((r) => `${r.sampleId}:${String(r.partial)}`).sort()).toEqual(['mfc-a:false', 'mfc-b:false']);
+    expect(
+      results(dir)
+        .map((r) => `${r.sampleId}:${String(r.partial)}`)
+        .sort(),
+    ).toEqual(['mfc-a:false', 'mfc-b:false']);
     expect(readdirSync(inbox)).toEqual([]);
   });
 });

@@ -6,7 +6,9 @@ import { analysisSettingsFrom } from '../../../src/pipeline/settings.js';
 describe('decay settings from the config', () => {
   it('passes analysis.scatter (default false)', () => {
     expect(analysisSettingsFrom(resolveConfig({}, { baseDir: '/tmp' })).scatter).toBe(false);
-    expect(analysisSettingsFrom(resolveConfig({ analysis: { scatter: true } }, { baseDir: '/tmp' })).scatter).toBe(true);
+    expect(analysisSettingsFrom(resolveConfig({ analysis: { scatter: true } }, { baseDir: '/tmp' })).scatter).toBe(
+      true,
+    );
   });
 });
 
@@ -15,7 +17,12 @@ describe('repetition rate and pile-up correction from the config (issue 17.1, 17
     const defaults = analysisSettingsFrom(resolveConfig({}, { baseDir: '/tmp' }));
     expect(defaults.repetitionRateHz).toBeUndefined();
     expect(defaults.pileUpCorrection).toBe(false);
-    const set = analysisSettingsFrom(resolveConfig({ instrument: { repetitionRateMHz: 80 }, analysis: { pileUpCorrection: true } }, { baseDir: '/tmp' }));
+    const set = analysisSettingsFrom(
+      resolveConfig(
+        { instrument: { repetitionRateMHz: 80 }, analysis: { pileUpCorrection: true } },
+        { baseDir: '/tmp' },
+      ),
+    );
     expect(set.repetitionRateHz).toBe(80e6);
     expect(set.pileUpCorrection).toBe(true);
   });

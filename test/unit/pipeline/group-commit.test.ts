@@ -19,14 +19,31 @@ afterEach(() => {
   for (const ledger of ledgers.splice(0)) ledger.close();
 });
 
-const failedOutcome = (id: string): JobOutcome<AnalysisOutput> => ({ id, status: 'failed', failure: { code: 'FIT_DIVERGED', message: 'no fit converged', permanent: true }, attempts: 1 });
+const failedOutcome = (id: string): JobOutcome<AnalysisOutput> => ({
+  id,
+  status: 'failed',
+  failure: { code: 'FIT_DIVERGED', message: 'no fit converged', permanent: true },
+  attempts: 1,
+});
 
 /** A ledger whose every statement fails with SQLITE_BUSY (a database error that may pass). */
 function busyLedger(ledger: Ledger): Ledger {
-  return { ...ledger, prepare: () => { throw Object.assign(new Error('database is locked'), { code: 'SQLITE_BUSY' }); } };
+  return {
+    ...ledger,
+    prepare: () => {
+      throw Object.assign(new Error('database is locked'), { code: 'SQLITE_BUSY' });
+    },
+  };
 }
 
-function setup(options: { detached: boolean; busy?: boolean }): { commits: GroupCommit; ledger: Ledger; report: RunReport; released: string[]; batches: () => number; scheduled: number[] } {
+function setup(options: { detached: boolean; busy?: boolean }): {
+  commits: GroupCommit;
+  ledger: Ledger;
+  report: RunReport;
+  released: string[];
+  batches: () => number;
+  scheduled: number[];
+} {
   const dir = tempDir('dl-group-commit-');
   const config = resolveConfig({ logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
   const ledger = openLedger(config.folders.state);
@@ -35,18 +52,30 @@ function setup(options: { detached: boolean; busy?: boolean }): { commits: Group
   const released: string[] = [];
   let batches = 0;
   const scheduled: number[] = [];
-  const schedule: Scheduler = (_run, delayMs) => { scheduled.push(delayMs); return () => undefined; };
+  const schedule: Scheduler = (_run, delayMs) => {
+    scheduled.push(delayMs);
+    return () => undefined;
+  };
   const commits = new GroupCommit({
-    config, ledger: options.busy === true ? busyLedger(ledger) : ledger, logger: pino({ level: 'silent' }), clock: () => new Date('2026-03-14T12:00:00Z'),
-    stages: [], report, detached: options.detached, inFlight: () => 0,
+    config,
+    ledger: options.busy === true ? busyLedger(ledger) : ledger,
+    logger: pino({ level: 'silent' }),
+    clock: () => new Date('2026-03-14T12:00:00Z'),
+    stages: [],
+    report,
+    detached: options.detached,
+    inFlight: () => 0,
     release: (id) => released.push(id),
-    afterBatch: async () => { batches += 1; },
+    afterBatch: async () => {
+      batches += 1;
+    },
     schedule,
   });
   return { commits, ledger, report, released, batches: () => batches, scheduled };
 }
 
-const settle = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0)).then(() => new Promise((resolve) => setImmediate(resolve)));
+const settle = (): Promise<void> =>
+  new Promise((resolve) => setTimeout(resolve, 0)).then(() => new Promise((resolve) => setImmediate(resolve)));
 
 describe('GroupCommit', () => {
   it('reads the set id out of a job id', () => {
@@ -57,10 +86,15 @@ describe('GroupCommit', () => {
   it('commits outcomes that arrive together as one batch and records a failed job as a failed set', async () => {
     const { commits, ledger, report, released, batches } = setup({ detached: false });
     const now = new Date('2026-03-14T11:00:00Z');
-    for (const id of ['gc-a', 'gc-b']) insertSet(ledger, { id, sampleId: id, role: 'sample', source: 'pattern', createdAt: now, deadlineAt: now });
+    for (const id of ['gc-a', 'gc-b'])
+      insertSet(ledger, { id, sampleId: id, role: 'sample', source: 'pattern', createdAt: now, deadlineAt: now });
     const told: [string, string | undefined][] = [];
     report.onCommitted((setId, path) => told.push([setId, path]));
-    await Promise.all([commits.take(failedOutcome('gc-a')), commits.take(failedOutcome('gc-b')), commits.take(failedOutcome('gc-unknown'))]);
+    await Promise.all([
+      commits.take(failedOutcome('gc-a')),
+      commits.take(failedOutcome('gc-b')),
+      commits.take(failedOutcome('gc-unknown')),
+    ]);
     await settle();
     expect(batches()).toBe(1);
     expect(released.sort()).toEqual(['gc-a', 'gc-b', 'gc-unknown']);

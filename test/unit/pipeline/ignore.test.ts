@@ -4,7 +4,15 @@ import { compileGlobs, isIgnoredFile, isInHiddenFolder } from '../../../src/pipe
 
 describe('ignored inbox files', () => {
   it('skips hidden, temporary and partial files and extra globs, and reads the rest', () => {
-    for (const name of ['.x.csv', 'run.csv.tmp', 'run.csv~', '~$run.csv', 'run.csv.part', 'run.crdownload', 'run.csv.error.json']) {
+    for (const name of [
+      '.x.csv',
+      'run.csv.tmp',
+      'run.csv~',
+      '~$run.csv',
+      'run.csv.part',
+      'run.crdownload',
+      'run.csv.error.json',
+    ]) {
       expect(isIgnoredFile(`/inbox/${name}`), name).toBe(true);
     }
     expect(isIgnoredFile('/inbox/orchid-01_em.csv')).toBe(false);

@@ -41,7 +41,9 @@ describe('InFlightSlots', () => {
     slots.take('a');
     slots.take('b');
     let woke = false;
-    const waiting = slots.whenEmpty().then(() => { woke = true; });
+    const waiting = slots.whenEmpty().then(() => {
+      woke = true;
+    });
     slots.release('a');
     await Promise.resolve();
     expect(woke).toBe(false);

@@ -14,7 +14,11 @@ afterEach(() => {
   for (const ledger of ledgers.splice(0)) ledger.close();
 });
 
-function setup(symlinks: 'refuse' | 'inside-inbox' = 'inside-inbox'): { config: ReturnType<typeof resolveConfig>; ledger: Ledger; inbox: string } {
+function setup(symlinks: 'refuse' | 'inside-inbox' = 'inside-inbox'): {
+  config: ReturnType<typeof resolveConfig>;
+  ledger: Ledger;
+  inbox: string;
+} {
   const dir = tempDir('dl-intake-err-');
   const config = resolveConfig({ watch: { symlinks }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
   mkdirSync(config.folders.inbox, { recursive: true });
@@ -35,7 +39,9 @@ describe('intake and file-system errors', () => {
   it('throws any other error with the path in its message (ENAMETOOLONG here) instead of calling the file gone', () => {
     const { config, ledger, inbox } = setup();
     const tooLong = join(inbox, `${'i'.repeat(300)}.csv`); // over NAME_MAX (255 bytes)
-    expect(() => intakeFile(ledger, config, tooLong, now)).toThrow(expect.objectContaining({ code: 'ENAMETOOLONG', message: expect.stringContaining(tooLong) }));
+    expect(() => intakeFile(ledger, config, tooLong, now)).toThrow(
+      expect.objectContaining({ code: 'ENAMETOOLONG', message: expect.stringContaining(tooLong) }),
+    );
   });
 
   it('refuses a link that leads back to itself, naming the loop', () => {
@@ -43,7 +49,10 @@ describe('intake and file-system errors', () => {
     const loop = join(inbox, 'loop.csv');
     symlinkSync(loop, loop);
     expect(intakeFile(ledger, config, loop, now)).toEqual({ kind: 'rejected' });
-    const row = ledger.database.prepare('SELECT error_code, error_message FROM files').get() as { error_code: string; error_message: string };
+    const row = ledger.database.prepare('SELECT error_code, error_message FROM files').get() as {
+      error_code: string;
+      error_message: string;
+    };
     expect(row.error_code).toBe('SYMLINK_REFUSED');
     expect(row.error_message).toContain('link loop');
   });

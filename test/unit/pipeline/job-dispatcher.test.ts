@@ -22,15 +22,27 @@ afterEach(() => {
   for (const ledger of ledgers.splice(0)) ledger.close();
 });
 
-function setup(sets: number): { dispatcher: JobDispatcher; assembly: SetAssembly; ledger: Ledger; enqueued: string[]; report: RunReport; now: Date } {
+function setup(sets: number): {
+  dispatcher: JobDispatcher;
+  assembly: SetAssembly;
+  ledger: Ledger;
+  enqueued: string[];
+  report: RunReport;
+  now: Date;
+} {
   const dir = tempDir('dl-dispatcher-');
-  const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
+  const config = resolveConfig(
+    { assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'silent', stdout: 'off' } },
+    { baseDir: dir },
+  );
   mkdirSync(config.folders.inbox, { recursive: true });
   const ledger = openLedger(config.folders.state);
   ledgers.push(ledger);
   const enqueued: string[] = [];
   const queue: JobQueue<AnalysisJobPayload, AnalysisOutput> = {
-    enqueue: async (id) => { enqueued.push(id); },
+    enqueue: async (id) => {
+      enqueued.push(id);
+    },
     onOutcome: () => undefined,
     stats: async () => ({ waiting: 0, active: 0, completed: 0, failed: 0 }),
     drain: async () => undefined,
@@ -51,7 +63,18 @@ function setup(sets: number): { dispatcher: JobDispatcher; assembly: SetAssembly
     }
   }
   assembly.intakeChunk(paths, now);
-  const dispatcher = new JobDispatcher({ config, ledger, queue, logger, clock: () => now, softwareVersion: 'test', settings: dispatchSettingsFrom(config, rules), openSets: assembly, contents, report });
+  const dispatcher = new JobDispatcher({
+    config,
+    ledger,
+    queue,
+    logger,
+    clock: () => now,
+    softwareVersion: 'test',
+    settings: dispatchSettingsFrom(config, rules),
+    openSets: assembly,
+    contents,
+    report,
+  });
   return { dispatcher, assembly, ledger, enqueued, report, now };
 }
 
@@ -88,7 +111,9 @@ describe('JobDispatcher', () => {
     const { dispatcher, assembly, enqueued, now } = setup(2);
     await dispatcher.dispatchReady(assembly.inDispatchOrder(), now, true);
     let idle = false;
-    const waiting = dispatcher.whenNoneInFlight().then(() => { idle = true; });
+    const waiting = dispatcher.whenNoneInFlight().then(() => {
+      idle = true;
+    });
     dispatcher.release(enqueued[0] ?? '');
     await Promise.resolve();
     expect(idle).toBe(false);

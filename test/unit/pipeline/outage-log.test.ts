@@ -3,7 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { OutageLog, outageKey } from '../../../src/pipeline/outage-log.js';
 
-const enotdir = (path: string): Error => Object.assign(new Error(`ENOTDIR: not a directory, open '${path}'`), { code: 'ENOTDIR', path });
+const enotdir = (path: string): Error =>
+  Object.assign(new Error(`ENOTDIR: not a directory, open '${path}'`), { code: 'ENOTDIR', path });
 
 describe('OutageLog', () => {
   it('keys a failure by the folder of its path, else by its code', () => {
@@ -17,7 +18,9 @@ describe('OutageLog', () => {
     const results = outageKey(enotdir('/w/results/2026-03-14/.a.json.1.2.tmp'));
     const outbox = outageKey(enotdir('/w/outbox/2026-03-14/.b.1.3.tmp'));
     // 40 sets failing within one second in the same folder: one line.
-    const admitted = Array.from({ length: 40 }, (_u, i) => log.admit(results, 1000 + i * 25)).filter((a) => a !== undefined);
+    const admitted = Array.from({ length: 40 }, (_u, i) => log.admit(results, 1000 + i * 25)).filter(
+      (a) => a !== undefined,
+    );
     expect(admitted).toEqual([{ suppressed: 0 }]);
     // Another folder has its own line.
     expect(log.admit(outbox, 1500)).toEqual({ suppressed: 0 });

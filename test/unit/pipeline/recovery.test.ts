@@ -16,7 +16,9 @@ describe('findMovedCopy', () => {
     writeFileSync(join(dir, 'irf~1.csv'), 'the IRF of Tuesday\n');
     writeFileSync(join(dir, 'irf~2.csv'), 'the IRF of Wednesday\n');
     expect(findMovedCopy(dir, { name: 'irf.csv', sha256: sha256('the IRF of Monday\n') })).toBe(join(dir, 'irf.csv'));
-    expect(findMovedCopy(dir, { name: 'irf.csv', sha256: sha256('the IRF of Wednesday\n') })).toBe(join(dir, 'irf~2.csv'));
+    expect(findMovedCopy(dir, { name: 'irf.csv', sha256: sha256('the IRF of Wednesday\n') })).toBe(
+      join(dir, 'irf~2.csv'),
+    );
     expect(findMovedCopy(dir, { name: 'irf.csv', sha256: sha256('the IRF of Thursday\n') })).toBeUndefined();
     // The name itself taken by nothing (its holder was deleted by hand): the ~N names are still searched.
     writeFileSync(join(dir, 'blank~1.csv'), 'blank\n');

@@ -14,7 +14,18 @@ describe('RunReport', () => {
     report.setDone('s1', '/r/s1.json', true);
     report.setFailed('s2');
     report.setNotCommitted();
-    expect(report.counts).toEqual({ filesAccepted: 3, filesRejected: 2, setsDispatched: 2, setsDone: 1, setsFailed: 1, setsPartial: 1, setsNotCommitted: 1 });
-    expect(told).toEqual([['s1', '/r/s1.json'], ['s2', undefined]]);
+    expect(report.counts).toEqual({
+      filesAccepted: 3,
+      filesRejected: 2,
+      setsDispatched: 2,
+      setsDone: 1,
+      setsFailed: 1,
+      setsPartial: 1,
+      setsNotCommitted: 1,
+    });
+    expect(told).toEqual([
+      ['s1', '/r/s1.json'],
+      ['s2', undefined],
+    ]);
   });
 });

@@ -22,13 +22,23 @@ afterEach(() => {
 
 function setup(): { assembly: SetAssembly; ledger: Ledger; inbox: string; report: RunReport; contents: ContentCache } {
   const dir = tempDir('dl-set-assembly-');
-  const config = resolveConfig({ assembly: { setTimeoutMs: 600_000 }, logging: { level: 'silent', stdout: 'off' } }, { baseDir: dir });
+  const config = resolveConfig(
+    { assembly: { setTimeoutMs: 600_000 }, logging: { level: 'silent', stdout: 'off' } },
+    { baseDir: dir },
+  );
   mkdirSync(config.folders.inbox, { recursive: true });
   const ledger = openLedger(config.folders.state);
   ledgers.push(ledger);
   const report = new RunReport();
   const contents = new ContentCache();
-  const assembly = new SetAssembly({ config, ledger, logger: pino({ level: 'silent' }), rules: assemblyRulesFrom(config), contents, report });
+  const assembly = new SetAssembly({
+    config,
+    ledger,
+    logger: pino({ level: 'silent' }),
+    rules: assemblyRulesFrom(config),
+    contents,
+    report,
+  });
   return { assembly, ledger, inbox: config.folders.inbox, report, contents };
 }
 
@@ -43,7 +53,10 @@ function drop(inbox: string, files: readonly { name: string; content: string }[]
 describe('SetAssembly', () => {
   it('records the files of a chunk and places them in one open set, quarantining a bad file', () => {
     const { assembly, ledger, inbox, report, contents } = setup();
-    const paths = drop(inbox, [...generateSet('asm-one', 41).files, { name: 'asm-one_junk.csv', content: 'not,a\nmeasurement,at all\n' }]);
+    const paths = drop(inbox, [
+      ...generateSet('asm-one', 41).files,
+      { name: 'asm-one_junk.csv', content: 'not,a\nmeasurement,at all\n' },
+    ]);
     const { failed, touched } = assembly.intakeChunk(paths, new Date('2026-03-14T12:00:00Z'));
     expect(failed).toEqual([]);
     expect(touched).toHaveLength(1);

@@ -6,7 +6,13 @@ import { InputRejected } from '../../../src/model/errors.js';
 import { HEAD_DATA_ROWS, HEAD_LINES, headEnd, intakeHeadEnd, readForAssembly } from '../../../src/pipeline/sniff.js';
 
 const encoder = new TextEncoder();
-const HEADER = ['# kind: emission', '# sample id: head-01', '# excitation wavelength (nm): 480', '# acquired at: 2026-03-14T10:00:00Z', 'wavelength (nm),intensity'];
+const HEADER = [
+  '# kind: emission',
+  '# sample id: head-01',
+  '# excitation wavelength (nm): 480',
+  '# acquired at: 2026-03-14T10:00:00Z',
+  'wavelength (nm),intensity',
+];
 
 /** An emission CSV of `rows` data rows; `badRow` (0-based data row) holds a broken number. */
 function emissionCsv(rows: number, badRow?: number): Uint8Array {
@@ -26,7 +32,10 @@ describe('readForAssembly', () => {
   it('ends the intake head after the first data rows, or after HEAD_LINES lines when no data run shows', () => {
     const bytes = emissionCsv(300);
     const end = intakeHeadEnd(bytes);
-    const head = new TextDecoder().decode(bytes.subarray(0, end)).split('\n').filter((l) => l !== '');
+    const head = new TextDecoder()
+      .decode(bytes.subarray(0, end))
+      .split('\n')
+      .filter((l) => l !== '');
     expect(head).toHaveLength(HEADER.length + HEAD_DATA_ROWS);
     const prose = encoder.encode(`${Array.from({ length: 100 }, (_u, i) => `# note ${i}`).join('\n')}\n`);
     expect(intakeHeadEnd(prose)).toBe(headEnd(prose, HEAD_LINES));
@@ -57,6 +66,8 @@ describe('readForAssembly', () => {
     const badRow = HEAD_DATA_ROWS + 20;
     const bytes = emissionCsv(300, badRow);
     expect(readForAssembly(bytes, options).type).toBe('spectrum');
-    expect(() => readData(bytes, options)).toThrow(expect.objectContaining({ code: 'NON_NUMERIC', line: HEADER.length + badRow + 1 }));
+    expect(() => readData(bytes, options)).toThrow(
+      expect.objectContaining({ code: 'NON_NUMERIC', line: HEADER.length + badRow + 1 }),
+    );
   });
 });

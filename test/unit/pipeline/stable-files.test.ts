@@ -52,7 +52,13 @@ describe('StableFiles', () => {
     const dir = mkdtempSync(join(tmpdir(), 'dl-stable-err-'));
     dirs.push(dir);
     const errors: { code: unknown; path: string; message: string }[] = [];
-    const stable = new StableFiles(50, 10, () => undefined, Date.now, (error, path) => errors.push({ code: (error as NodeJS.ErrnoException).code, path, message: error.message }));
+    const stable = new StableFiles(
+      50,
+      10,
+      () => undefined,
+      Date.now,
+      (error, path) => errors.push({ code: (error as NodeJS.ErrnoException).code, path, message: error.message }),
+    );
     stable.touch(join(dir, 'never-written.csv')); // ENOENT: the file is gone, nothing to say
     expect(errors).toEqual([]);
     // A name longer than NAME_MAX (255 bytes on Linux file systems) makes lstat fail with ENAMETOOLONG.

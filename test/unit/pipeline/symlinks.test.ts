@@ -21,10 +21,15 @@ afterEach(async () => {
 
 function start(symlinks?: 'refuse' | 'inside-inbox'): { pipeline: Pipeline; dir: string; inbox: string } {
   const dir = tempDir('dl-link-');
-  const config = resolveConfig({
-    assembly: { setTimeoutMs: 600_000 }, queue: { concurrency: 1 }, logging: { level: 'warn', stdout: 'off' },
-    watch: { stabilityWindowMs: 50, pollIntervalMs: 20, ...(symlinks === undefined ? {} : { symlinks }) },
-  }, { baseDir: dir });
+  const config = resolveConfig(
+    {
+      assembly: { setTimeoutMs: 600_000 },
+      queue: { concurrency: 1 },
+      logging: { level: 'warn', stdout: 'off' },
+      watch: { stabilityWindowMs: 50, pollIntervalMs: 20, ...(symlinks === undefined ? {} : { symlinks }) },
+    },
+    { baseDir: dir },
+  );
   const pipeline = openPipeline(config, { softwareVersion: 'test', logger: pino({ level: 'silent' }) });
   opened.push(pipeline);
   return { pipeline, dir, inbox: config.folders.inbox };
@@ -32,14 +37,20 @@ function start(symlinks?: 'refuse' | 'inside-inbox'): { pipeline: Pipeline; dir:
 
 function filesUnder(dir: string): string[] {
   if (!existsSync(dir)) return [];
-  return readdirSync(dir, { recursive: true, withFileTypes: true }).filter((e) => !e.isDirectory()).map((e) => e.name).sort();
+  return readdirSync(dir, { recursive: true, withFileTypes: true })
+    .filter((e) => !e.isDirectory())
+    .map((e) => e.name)
+    .sort();
 }
 
 function quarantineRecords(dir: string): { file: string; code: string; message: string }[] {
   const root = join(dir, 'quarantine');
   return readdirSync(root, { recursive: true, withFileTypes: true })
     .filter((e) => e.name.endsWith('.error.json'))
-    .map((e) => JSON.parse(readFileSync(join(e.parentPath, e.name), 'utf8')) as { file: string; code: string; message: string });
+    .map(
+      (e) =>
+        JSON.parse(readFileSync(join(e.parentPath, e.name), 'utf8')) as { file: string; code: string; message: string },
+    );
 }
 
 /** A folder outside the inbox with one export, a link to it and a link to its file in the inbox, and a dangling link. */
@@ -78,7 +89,9 @@ describe('symbolic links in the inbox', () => {
   it('refuses every link by default: quarantines the link with SYMLINK_REFUSED and its reason, leaves the outside files where they are', async () => {
     const { dir, inbox, pipeline } = start();
     const { outside, content } = outsideWithLinks(dir, inbox);
-    await pipeline.coordinator.intakeMany(['linked-folder', 'linked-file.csv', 'dangling.csv'].map((n) => join(inbox, n)));
+    await pipeline.coordinator.intakeMany(
+      ['linked-folder', 'linked-file.csv', 'dangling.csv'].map((n) => join(inbox, n)),
+    );
     expect(pipeline.coordinator.counts.filesRejected).toBe(3);
     expect(readdirSync(inbox)).toEqual([]);
     expect(readFileSync(join(outside, 'out-01_em.csv'), 'utf8')).toBe(content);
@@ -102,7 +115,11 @@ describe('symbolic links in the inbox', () => {
       writeFileSync(join(staging, f.name), f.content);
       symlinkSync(join(staging, f.name), join(inbox, f.name));
     }
-    await pipeline.coordinator.intakeMany([...set.files.map((f) => join(inbox, f.name)), join(inbox, 'linked-file.csv'), join(inbox, 'linked-folder')]);
+    await pipeline.coordinator.intakeMany([
+      ...set.files.map((f) => join(inbox, f.name)),
+      join(inbox, 'linked-file.csv'),
+      join(inbox, 'linked-folder'),
+    ]);
     await pipeline.coordinator.drain();
     expect(pipeline.coordinator.counts).toMatchObject({ setsDone: 1, filesRejected: 2 });
     expect(readdirSync(staging)).toEqual([]);
@@ -115,6 +132,10 @@ describe('symbolic links in the inbox', () => {
       expect(readFileSync(path, 'utf8')).toBe(f.content);
     }
     expect(existsSync(join(outside, 'out-01_em.csv'))).toBe(true);
-    expect(quarantineRecords(dir).map((r) => r.message).join('\n')).toMatch(/outside the inbox[\s\S]*|folder/);
+    expect(
+      quarantineRecords(dir)
+        .map((r) => r.message)
+        .join('\n'),
+    ).toMatch(/outside the inbox[\s\S]*|folder/);
   });
 });

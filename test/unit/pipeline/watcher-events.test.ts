@@ -12,10 +12,19 @@ import { tempDir } from '../../helpers/temp-dir.js';
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
 /** An fs.watch that never reports anything: every OS event is lost. */
-const deafWatch: FolderWatchFn = () => ({ close: () => undefined, on: function on() { return this; } }) as unknown as ReturnType<FolderWatchFn>;
+const deafWatch: FolderWatchFn = () =>
+  ({
+    close: () => undefined,
+    on: function on() {
+      return this;
+    },
+  }) as unknown as ReturnType<FolderWatchFn>;
 
 function watchOptions(rescanIntervalMs: number) {
-  return resolveConfig({ watch: { stabilityWindowMs: 50, pollIntervalMs: 20, rescanIntervalMs } }, { baseDir: tempDir('dl-watch-cfg-') }).watch;
+  return resolveConfig(
+    { watch: { stabilityWindowMs: 50, pollIntervalMs: 20, rescanIntervalMs } },
+    { baseDir: tempDir('dl-watch-cfg-') },
+  ).watch;
 }
 
 async function until(check: () => boolean, timeoutMs: number): Promise<void> {
@@ -28,7 +37,12 @@ describe('watchInboxWithEvents', () => {
     const inbox = tempDir('dl-watch-deaf-');
     const reported: string[] = [];
     const missed: string[] = [];
-    const watcher = watchInboxWithEvents(inbox, watchOptions(150), { onFile: (p) => reported.push(p), onMissed: (paths) => missed.push(...paths) }, deafWatch);
+    const watcher = watchInboxWithEvents(
+      inbox,
+      watchOptions(150),
+      { onFile: (p) => reported.push(p), onMissed: (paths) => missed.push(...paths) },
+      deafWatch,
+    );
     await sleep(50);
     writeFileSync(join(inbox, 'a.csv'), 'x\n1\n');
     mkdirSync(join(inbox, 'day2'));
@@ -84,11 +98,21 @@ describe('watchInboxWithEvents', () => {
     let emit: ((event: string, name: string | null) => void) | undefined;
     const capturing: FolderWatchFn = (_dir, listener) => {
       emit = listener;
-      return { close: () => undefined, on: function on() { return this; } } as unknown as ReturnType<FolderWatchFn>;
+      return {
+        close: () => undefined,
+        on: function on() {
+          return this;
+        },
+      } as unknown as ReturnType<FolderWatchFn>;
     };
     const errors: Error[] = [];
     const reported: string[] = [];
-    const watcher = watchInboxWithEvents(inbox, watchOptions(60_000), { onFile: (p) => reported.push(p), onError: (e) => errors.push(e) }, capturing);
+    const watcher = watchInboxWithEvents(
+      inbox,
+      watchOptions(60_000),
+      { onFile: (p) => reported.push(p), onError: (e) => errors.push(e) },
+      capturing,
+    );
     emit?.('rename', 'removed-meanwhile.csv'); // ENOENT: a file gone is no error
     // A name longer than NAME_MAX (255 bytes): lstat fails with ENAMETOOLONG.
     const tooLong = `${'w'.repeat(300)}.csv`;
@@ -100,4 +124,3 @@ describe('watchInboxWithEvents', () => {
     expect(reported).toEqual([]);
   });
 });
-

@@ -27,7 +27,12 @@ rules:
 );
 
 const yields = (values: readonly number[], startDay = 0): ControlObservation[] =>
-  values.map((value, i) => ({ controlId: 'flu', setId: `s${startDay + i}`, acquiredAt: dayIso(startDay + i), metrics: { controlQuantumYield: value } }));
+  values.map((value, i) => ({
+    controlId: 'flu',
+    setId: `s${startDay + i}`,
+    acquiredAt: dayIso(startDay + i),
+    metrics: { controlQuantumYield: value },
+  }));
 
 describe('baselines', () => {
   it('mean and sample SD of the baseline runs (hand computation)', () => {
@@ -48,7 +53,13 @@ describe('baselines', () => {
     const runs = yields([0.92, 0.93, 0.91, 0.92, 0.93, 0.92]);
     for (let i = 1; i <= 5; i++) {
       const { history, latest } = lastOf(runs.slice(0, i));
-      expect(evaluateRules({ history, observation: { ...latest, metrics: { controlQuantumYield: 0.5 } }, ruleSet: firstNRuleSet })).toEqual([]);
+      expect(
+        evaluateRules({
+          history,
+          observation: { ...latest, metrics: { controlQuantumYield: 0.5 } },
+          ruleSet: firstNRuleSet,
+        }),
+      ).toEqual([]);
     }
     const { history, latest } = lastOf([...runs.slice(0, 5), ...yields([0.85], 5)]);
     const flags = evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet });
@@ -65,7 +76,11 @@ describe('baselines', () => {
     const restart = [{ controlId: 'flu', metric: 'controlQuantumYield' as const, fromIso: dayIso(5) }];
     expect(evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet, baselines: restart })).toEqual([]);
     const stored = [{ ...restart[0], fromIso: dayIso(5), mean: 0.92, sd: 0.01, runs: 20, throughIso: dayIso(9) }];
-    expect(evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet, baselines: stored }).map((f) => f.values['mean'])).toEqual([0.92]);
+    expect(
+      evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet, baselines: stored }).map(
+        (f) => f.values['mean'],
+      ),
+    ).toEqual([0.92]);
   });
 });
 
@@ -78,12 +93,28 @@ describe('recovery', () => {
     const outcome = replayObservations(runs, ruleSet);
     expect(outcome.steps.map((step) => step.flags.length)).toEqual([0, 1, 0, 0]);
     expect(outcome.steps.map((step) => step.recoveries.length)).toEqual([0, 0, 1, 0]);
-    expect(outcome.steps[2]?.recoveries[0]?.message).toBe('control yield 0.923 is back in control for control flu (rule w no longer fires).');
+    expect(outcome.steps[2]?.recoveries[0]?.message).toBe(
+      'control yield 0.923 is back in control for control flu (rule w no longer fires).',
+    );
   });
   it('does not recover on a run without the metric or of another control', () => {
-    const flagged = evaluateRules({ history: [], observation: yieldObservations([-3.5])[0] as ControlObservation, ruleSet });
-    const other: ControlObservation = { controlId: 'other', setId: 'x', acquiredAt: dayIso(1), metrics: { controlQuantumYield: 0.925 } };
-    const noMetric: ControlObservation = { controlId: 'flu', setId: 'y', acquiredAt: dayIso(1), metrics: { fwhmNm: 30 } };
+    const flagged = evaluateRules({
+      history: [],
+      observation: yieldObservations([-3.5])[0] as ControlObservation,
+      ruleSet,
+    });
+    const other: ControlObservation = {
+      controlId: 'other',
+      setId: 'x',
+      acquiredAt: dayIso(1),
+      metrics: { controlQuantumYield: 0.925 },
+    };
+    const noMetric: ControlObservation = {
+      controlId: 'flu',
+      setId: 'y',
+      acquiredAt: dayIso(1),
+      metrics: { fwhmNm: 30 },
+    };
     expect(detectRecoveries({ activeFlags: flagged, newFlags: [], observation: other })).toEqual([]);
     expect(detectRecoveries({ activeFlags: flagged, newFlags: [], observation: noMetric })).toEqual([]);
   });
@@ -100,16 +131,38 @@ describe('observationFromResult', () => {
     partial: false,
     missing: [],
     spectra: {
-      emission: { peakWavelengthNm: 515, peakValue: 1, integratedIntensity: 2000, fwhmNm: 36, valueUnit: 'a.u.', rangeNm: [480, 650] },
+      emission: {
+        peakWavelengthNm: 515,
+        peakValue: 1,
+        integratedIntensity: 2000,
+        fwhmNm: 36,
+        valueUnit: 'a.u.',
+        rangeNm: [480, 650],
+      },
       absorbance: { absorbanceAtExcitation: 0.05, excitationNm: 490, peakWavelengthNm: 490, peakAbsorbance: 0.05 },
     },
     corrections: [],
-    decayFit: { components: [], tauMeanIntensityNs: 4.05, chi2Reduced: 1.07, converged: true, estimator: 'ml', totalCounts: 1e5, irfSource: 'irf-file', warnings: [] },
+    decayFit: {
+      components: [],
+      tauMeanIntensityNs: 4.05,
+      chi2Reduced: 1.07,
+      converged: true,
+      estimator: 'ml',
+      totalCounts: 1e5,
+      irfSource: 'irf-file',
+      warnings: [],
+    },
     quantumYield: { value: 0.92, standardUncertainty: 0.02, budget: [], standardId: 'x', warnings: [] },
     raman: { peakWavelengthNm: 397.8, signalToNoise: 1200 },
     warnings: [],
     qc: { flags: [] },
-    provenance: { inputs: [], configHash: 'h', softwareVersion: '0', corrections: [], analyzedAt: '2026-03-01T09:00:00Z' },
+    provenance: {
+      inputs: [],
+      configHash: 'h',
+      softwareVersion: '0',
+      corrections: [],
+      analyzedAt: '2026-03-01T09:00:00Z',
+    },
   } satisfies AnalysisResult;
 
   it('maps a control result onto the metrics and the matched control', () => {
@@ -126,6 +179,8 @@ describe('observationFromResult', () => {
   });
 
   it('gives undefined for a sample that is no control', () => {
-    expect(observationFromResult({ ...result, role: 'sample', sampleId: 'dye-07' }, firstNRuleSet.controls)).toBeUndefined();
+    expect(
+      observationFromResult({ ...result, role: 'sample', sampleId: 'dye-07' }, firstNRuleSet.controls),
+    ).toBeUndefined();
   });
 });

@@ -1,7 +1,16 @@
 // The drift study behind docs/qc.md: the default rule set replayed over simulated daily control
 // yields (seeded), measuring days to detect a slow drift and false alarms while in control.
 import { readFileSync } from 'node:fs';
-import { controlSchema, createSeededRandom, parseRuleSet, replayObservations, withControls, type ControlObservation, type QcFlag, type RuleSet } from '../../../src/qc/index.js';
+import {
+  controlSchema,
+  createSeededRandom,
+  parseRuleSet,
+  replayObservations,
+  withControls,
+  type ControlObservation,
+  type QcFlag,
+  type RuleSet,
+} from '../../../src/qc/index.js';
 
 /** The shipped rule set (no control of its own) with the study's control defined as driftlight.yaml would define it. */
 export const DEFAULT_RULE_SET: RuleSet = withControls(
@@ -23,15 +32,25 @@ export function simulateDays(seed: number, inControlDays: number, driftDays: num
     const mean = SCENARIO.targetYield * (1 + (SCENARIO.driftPercentPerDay / 100) * driftDay);
     const value = mean * (1 + (SCENARIO.cvPercent / 100) * random.standardNormal());
     const acquiredAt = new Date(Date.UTC(2026, 0, 1 + day, 8)).toISOString();
-    observations.push({ controlId: 'fluorescein-daily', setId: `d${day}`, acquiredAt, metrics: { controlQuantumYield: value } });
+    observations.push({
+      controlId: 'fluorescein-daily',
+      setId: `d${day}`,
+      acquiredAt,
+      metrics: { controlQuantumYield: value },
+    });
   }
   return observations;
 }
 
-const hasSeverity = (flags: readonly QcFlag[], severities: readonly string[]): boolean => flags.some((flag) => severities.includes(flag.severity));
+const hasSeverity = (flags: readonly QcFlag[], severities: readonly string[]): boolean =>
+  flags.some((flag) => severities.includes(flag.severity));
 
 /** Days from drift start (1 = first drifted run) to the first critical flag and to the first warning-or-critical one. */
-export function detectionDays(seed: number, inControlDays = 10, driftDays = 40): { critical?: number; warningOrCritical?: number } {
+export function detectionDays(
+  seed: number,
+  inControlDays = 10,
+  driftDays = 40,
+): { critical?: number; warningOrCritical?: number } {
   const { steps } = replayObservations(simulateDays(seed, inControlDays, driftDays), DEFAULT_RULE_SET);
   const driftStart = SCENARIO.baselineDays + inControlDays;
   const found: { critical?: number; warningOrCritical?: number } = {};
@@ -39,13 +58,17 @@ export function detectionDays(seed: number, inControlDays = 10, driftDays = 40):
     const flags = steps[index]?.flags ?? [];
     const day = index - driftStart + 1;
     if (found.critical === undefined && hasSeverity(flags, ['critical'])) found.critical = day;
-    if (found.warningOrCritical === undefined && hasSeverity(flags, ['warning', 'critical'])) found.warningOrCritical = day;
+    if (found.warningOrCritical === undefined && hasSeverity(flags, ['warning', 'critical']))
+      found.warningOrCritical = day;
   }
   return found;
 }
 
 /** Flagged in-control days per 100 (after the baseline): critical, and warning-or-critical. */
-export function falseAlarmsPer100Days(seeds: readonly number[], days: number): { critical: number; warningOrCritical: number } {
+export function falseAlarmsPer100Days(
+  seeds: readonly number[],
+  days: number,
+): { critical: number; warningOrCritical: number } {
   let critical = 0;
   let warningOrCritical = 0;
   for (const seed of seeds) {

@@ -33,7 +33,9 @@ describe('EWMA (Roberts 1959; exact limits as in Lucas & Saccucci 1990)', () => 
     const flags = evaluateRules({ history: atFive.history, observation: atFive.latest, ruleSet });
     expect(flags).toHaveLength(1);
     expect(flags[0]?.values['ewma']).toBeCloseTo(0.925 - 1.5 * (1 - 0.8 ** 5) * 0.01, 10);
-    expect(flags[0]?.message).toMatch(/^control yield is trending down: its running average 0\.915 is below the lower limit 0\.916/);
+    expect(flags[0]?.message).toMatch(
+      /^control yield is trending down: its running average 0\.915 is below the lower limit 0\.916/,
+    );
   });
 });
 

@@ -4,7 +4,12 @@
 // then −1.5 % per day for 15 days (22 % in total), the case the issue reports: the old rule
 // (±10 % of the rolling median of 7 runs) never fired because its median follows the drift.
 import { describe, expect, it } from 'vitest';
-import { createSeededRandom, parseRuleSet, replayObservations, type ControlObservation } from '../../../src/qc/index.js';
+import {
+  createSeededRandom,
+  parseRuleSet,
+  replayObservations,
+  type ControlObservation,
+} from '../../../src/qc/index.js';
 import { quantileOf } from '../../../src/qc/statistics.js';
 import { DEFAULT_RULE_SET } from './drift-study.js';
 
@@ -13,17 +18,30 @@ const IN_CONTROL_DAYS = 10;
 const DRIFT_DAYS = 15;
 
 /** Daily observations: intensity 2e7 (a.u.) at the given CV, then a linear loss, then (optionally) a level that stays off. */
-function intensityDays(seed: number, options: { cvPercent?: number; lossPercentPerDay?: number; stepPercent?: number; stepDays?: number } = {}): ControlObservation[] {
+function intensityDays(
+  seed: number,
+  options: { cvPercent?: number; lossPercentPerDay?: number; stepPercent?: number; stepDays?: number } = {},
+): ControlObservation[] {
   const random = createSeededRandom(seed);
   const cv = (options.cvPercent ?? 1) / 100;
   const observations: ControlObservation[] = [];
-  const total = BASELINE_DAYS + IN_CONTROL_DAYS + (options.stepPercent === undefined ? DRIFT_DAYS : (options.stepDays ?? 15));
+  const total =
+    BASELINE_DAYS + IN_CONTROL_DAYS + (options.stepPercent === undefined ? DRIFT_DAYS : (options.stepDays ?? 15));
   for (let day = 0; day < total; day++) {
     const afterStart = day - BASELINE_DAYS - IN_CONTROL_DAYS + 1;
     let relative = 1;
-    if (afterStart > 0) relative = options.stepPercent === undefined ? 1 - ((options.lossPercentPerDay ?? 1.5) / 100) * afterStart : 1 + options.stepPercent / 100;
+    if (afterStart > 0)
+      relative =
+        options.stepPercent === undefined
+          ? 1 - ((options.lossPercentPerDay ?? 1.5) / 100) * afterStart
+          : 1 + options.stepPercent / 100;
     const value = 2e7 * relative * (1 + cv * random.standardNormal());
-    observations.push({ controlId: 'fluorescein-daily', setId: `d${String(day).padStart(3, '0')}`, acquiredAt: new Date(Date.UTC(2026, 0, 1 + day, 8)).toISOString(), metrics: { intensityPerAbsorbedLight: value } });
+    observations.push({
+      controlId: 'fluorescein-daily',
+      setId: `d${String(day).padStart(3, '0')}`,
+      acquiredAt: new Date(Date.UTC(2026, 0, 1 + day, 8)).toISOString(),
+      metrics: { intensityPerAbsorbedLight: value },
+    });
   }
   return observations;
 }
@@ -32,7 +50,9 @@ function intensityDays(seed: number, options: { cvPercent?: number; lossPercentP
 function daysToFirstIntensityFlag(observations: readonly ControlObservation[], ruleSet = DEFAULT_RULE_SET): number {
   const { steps } = replayObservations(observations, ruleSet);
   const start = BASELINE_DAYS + IN_CONTROL_DAYS;
-  const index = steps.findIndex((step, i) => i >= start && step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight'));
+  const index = steps.findIndex(
+    (step, i) => i >= start && step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight'),
+  );
   return index < 0 ? Infinity : index - start + 1;
 }
 
@@ -72,7 +92,10 @@ rules:
     let flagged = 0;
     let judged = 0;
     for (const seed of SEEDS.slice(0, 50)) {
-      const { steps } = replayObservations(intensityDays(seed, { lossPercentPerDay: 0, stepPercent: 0, stepDays: 30 }), DEFAULT_RULE_SET);
+      const { steps } = replayObservations(
+        intensityDays(seed, { lossPercentPerDay: 0, stepPercent: 0, stepDays: 30 }),
+        DEFAULT_RULE_SET,
+      );
       for (const step of steps.slice(BASELINE_DAYS)) {
         judged++;
         if (step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight')) flagged++;
@@ -90,7 +113,9 @@ rules:
       const { steps } = replayObservations(intensityDays(seed, { stepPercent: -8, stepDays: 15 }), DEFAULT_RULE_SET);
       const after = steps.slice(BASELINE_DAYS + IN_CONTROL_DAYS);
       expect(after.some((step) => step.flags.some((flag) => flag.metric === 'intensityPerAbsorbedLight'))).toBe(true);
-      expect(after.flatMap((step) => step.recoveries).filter((notice) => notice.metric === 'intensityPerAbsorbedLight')).toEqual([]);
+      expect(
+        after.flatMap((step) => step.recoveries).filter((notice) => notice.metric === 'intensityPerAbsorbedLight'),
+      ).toEqual([]);
     }
   });
 
@@ -103,7 +128,17 @@ rules:
       'declared.yaml',
     );
     // 1.85e7 is 7.5 SD below the declared 2.0e7 ± 2e5: 1-3s on the very first run (Westgard 1981).
-    const { steps } = replayObservations([{ controlId: 'fluorescein-daily', setId: 'a', acquiredAt: '2026-01-01T08:00:00Z', metrics: { intensityPerAbsorbedLight: 1.85e7 } }], ruleSet);
+    const { steps } = replayObservations(
+      [
+        {
+          controlId: 'fluorescein-daily',
+          setId: 'a',
+          acquiredAt: '2026-01-01T08:00:00Z',
+          metrics: { intensityPerAbsorbedLight: 1.85e7 },
+        },
+      ],
+      ruleSet,
+    );
     expect(steps[0]?.flags.map((flag) => flag.check)).toEqual(['1-3s']);
   });
 });

@@ -4,7 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { nelsonViolations, NELSON_TESTS, type NelsonTest } from '../../../src/qc/rule-kinds/nelson.js';
 
 const repeat = (value: number, count: number): number[] => Array.from({ length: count }, () => value);
-const alternating = (count: number, start = 0.5): number[] => Array.from({ length: count }, (_, i) => (i % 2 === 0 ? start : -start));
+const alternating = (count: number, start = 0.5): number[] =>
+  Array.from({ length: count }, (_, i) => (i % 2 === 0 ? start : -start));
 
 describe('Nelson rules (Nelson, J. Qual. Technol. 16, 1984)', () => {
   const table: { test: NelsonTest; pattern: number[]; nearMiss: number[] }[] = [
@@ -20,9 +21,17 @@ describe('Nelson rules (Nelson, J. Qual. Technol. 16, 1984)', () => {
     // 6: four of five beyond 1σ on the same side; near miss: only three of five.
     { test: 6, pattern: [0, 1.2, 0.3, 1.4, 1.1, 1.2], nearMiss: [0, 1.2, 0.3, 0.9, 1.1, 1.2] },
     // 7: fifteen within 1σ; near miss: one of the fifteen at 1.05.
-    { test: 7, pattern: [1.5, ...alternating(15, 0.3).map((v, i) => v * (i % 3 === 0 ? 1 : 2))], nearMiss: [1.5, ...repeat(0.3, 7), 1.05, ...repeat(-0.3, 7)] },
+    {
+      test: 7,
+      pattern: [1.5, ...alternating(15, 0.3).map((v, i) => v * (i % 3 === 0 ? 1 : 2))],
+      nearMiss: [1.5, ...repeat(0.3, 7), 1.05, ...repeat(-0.3, 7)],
+    },
     // 8: eight beyond 1σ on both sides, none within 1σ; near miss: one of them at 0.9.
-    { test: 8, pattern: [0, 1.5, -1.5, 1.2, 1.3, -1.8, -1.1, 1.4, -1.6], nearMiss: [0, 1.5, -1.5, 1.2, 0.9, -1.8, -1.1, 1.4, -1.6] },
+    {
+      test: 8,
+      pattern: [0, 1.5, -1.5, 1.2, 1.3, -1.8, -1.1, 1.4, -1.6],
+      nearMiss: [0, 1.5, -1.5, 1.2, 0.9, -1.8, -1.1, 1.4, -1.6],
+    },
   ];
 
   for (const row of table) {

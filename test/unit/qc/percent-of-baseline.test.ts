@@ -26,7 +26,12 @@ rules:
 
 /** Daily runs of "flu" whose emission peak is `peaks[day]` nm. */
 function peakRuns(peaks: readonly number[]): ControlObservation[] {
-  return peaks.map((peakWavelengthNm, day) => ({ controlId: 'flu', setId: `set-${String(day).padStart(2, '0')}`, acquiredAt: dayIso(day), metrics: { peakWavelengthNm } }));
+  return peaks.map((peakWavelengthNm, day) => ({
+    controlId: 'flu',
+    setId: `set-${String(day).padStart(2, '0')}`,
+    acquiredAt: dayIso(day),
+    metrics: { peakWavelengthNm },
+  }));
 }
 
 // A monochromator whose calibration creeps by 0.5 nm a day after 5 steady days at 515 nm (a 0.5 nm
@@ -55,14 +60,23 @@ describe('percent change against the baseline (against: baseline)', () => {
     const collecting = replayObservations(peakRuns([515, 530, 515]), ruleSet('baseline'));
     expect(collecting.steps.flatMap((step) => step.flags)).toEqual([]);
     const declared = ruleSet('baseline', '    targets:\n      peakWavelengthNm: { mean: 520, sd: 0.5 }');
-    const flags = evaluateRules({ history: [], observation: peakRuns([515])[0] as ControlObservation, ruleSet: declared });
+    const flags = evaluateRules({
+      history: [],
+      observation: peakRuns([515])[0] as ControlObservation,
+      ruleSet: declared,
+    });
     // |515 − 520| / 520 = 0.96 % > 0.5 % → flagged against the declared target.
-    expect(flags.map((flag) => [flag.values['mean'], Number(flag.values['changePercent']?.toFixed(3))])).toEqual([[520, -0.962]]);
+    expect(flags.map((flag) => [flag.values['mean'], Number(flag.values['changePercent']?.toFixed(3))])).toEqual([
+      [520, -0.962],
+    ]);
   });
 
   it('a step is not "recovered" while the level is still off', () => {
     // Step from 515 to 519 nm that stays: every run after it is flagged, no recovery notice.
-    const stepped = replayObservations(peakRuns([515, 515, 515, 515, 515, 519, 519, 519, 519, 519, 519, 519, 519]), ruleSet('baseline'));
+    const stepped = replayObservations(
+      peakRuns([515, 515, 515, 515, 515, 519, 519, 519, 519, 519, 519, 519, 519]),
+      ruleSet('baseline'),
+    );
     expect(stepped.steps.slice(5).every((step) => step.flags.length === 1)).toBe(true);
     expect(stepped.steps.flatMap((step) => step.recoveries)).toEqual([]);
   });

@@ -40,8 +40,10 @@ const ewmaChart = (lambda: number, limitWidth: number) => () => {
   };
 };
 
-const shewhartChart = () => (z: number): boolean =>
-  westgardViolations([z], [], { checks: ['1-3s'], rangeScope: 'consecutive', warningGate: false }).length > 0;
+const shewhartChart =
+  () =>
+  (z: number): boolean =>
+    westgardViolations([z], [], { checks: ['1-3s'], rangeScope: 'consecutive', warningGate: false }).length > 0;
 
 describe('run lengths (seeded simulation, 1000 runs each, SE ≈ 3.2 %, tolerance ±10 %)', () => {
   it('Shewhart 3σ (Westgard 1-3s alone): in-control ARL ≈ 370.4 (computed: 1/0.0027)', () => {

@@ -17,9 +17,17 @@ describe('absolute tolerance', () => {
   - { id: y, metric: controlQuantumYield, scope: { control: flu }, kind: tolerance, severity: critical, target: 0.925, plusMinus: 0.03 }
 `);
   it('flags values outside and passes values on the edge', () => {
-    const inside = evaluateRules({ history: [], observation: obs(0, { absorbanceAtExcitation: 0.1, controlQuantumYield: 0.955 }), ruleSet });
+    const inside = evaluateRules({
+      history: [],
+      observation: obs(0, { absorbanceAtExcitation: 0.1, controlQuantumYield: 0.955 }),
+      ruleSet,
+    });
     expect(inside).toEqual([]);
-    const outside = evaluateRules({ history: [], observation: obs(0, { absorbanceAtExcitation: 0.12, controlQuantumYield: 0.89 }), ruleSet });
+    const outside = evaluateRules({
+      history: [],
+      observation: obs(0, { absorbanceAtExcitation: 0.12, controlQuantumYield: 0.89 }),
+      ruleSet,
+    });
     expect(outside.map((flag) => flag.message)).toEqual([
       'absorbance at excitation 0.1200 is outside the tolerance (at most 0.1000).',
       'control yield 0.890 is outside the tolerance (0.925 ± 0.030).',
@@ -40,11 +48,18 @@ describe('percent change against a rolling median', () => {
     expect(flags[0]?.values['median']).toBe(102);
     expect(flags[0]?.values['changePercent']).toBeCloseTo(10.784, 2);
     // 112 is +9.8 % → no flag.
-    const calm = evaluateRules({ history, observation: { ...latest, metrics: { intensityPerAbsorbedLight: 112 } }, ruleSet });
+    const calm = evaluateRules({
+      history,
+      observation: { ...latest, metrics: { intensityPerAbsorbedLight: 112 } },
+      ruleSet,
+    });
     expect(calm).toEqual([]);
   });
   it('waits for minRuns preceding runs', () => {
-    const { history, latest } = lastOf([obs(0, { intensityPerAbsorbedLight: 100 }), obs(1, { intensityPerAbsorbedLight: 200 })]);
+    const { history, latest } = lastOf([
+      obs(0, { intensityPerAbsorbedLight: 100 }),
+      obs(1, { intensityPerAbsorbedLight: 200 }),
+    ]);
     expect(evaluateRules({ history, observation: latest, ruleSet })).toEqual([]);
   });
 });
@@ -55,7 +70,11 @@ describe('instrument health', () => {
   - { id: snr, metric: ramanSnr, scope: instrument, kind: instrument-health, severity: critical, below: 300 }
 `);
   it('fires only after N breaching runs in a row, from any source', () => {
-    const runs = [obs(0, { fitChi2Reduced: 1.5 }), obs(1, { fitChi2Reduced: 1.4 }, 'instrument'), obs(2, { fitChi2Reduced: 1.6 })];
+    const runs = [
+      obs(0, { fitChi2Reduced: 1.5 }),
+      obs(1, { fitChi2Reduced: 1.4 }, 'instrument'),
+      obs(2, { fitChi2Reduced: 1.6 }),
+    ];
     const two = lastOf(runs.slice(0, 2));
     expect(evaluateRules({ history: two.history, observation: two.latest, ruleSet })).toEqual([]);
     const three = lastOf(runs);
@@ -79,18 +98,27 @@ describe('control missing (local time via Intl)', () => {
   it('is quiet before the due time and flags after it when no control arrived that local day', () => {
     expect(evaluateClockRules({ history: [], ruleSet, now: monday0930Berlin })).toEqual([]);
     const flags = evaluateClockRules({ history: [], ruleSet, now: monday1015Berlin });
-    expect(flags.map((flag) => flag.message)).toEqual(['No flu control result (control yield) by 10:00 (Europe/Berlin) on 2026-03-02.']);
+    expect(flags.map((flag) => flag.message)).toEqual([
+      'No flu control result (control yield) by 10:00 (Europe/Berlin) on 2026-03-02.',
+    ]);
     expect(flags[0]?.values['minutesOverdue']).toBe(15);
   });
   it('a control earlier that local day satisfies it; one from the previous local day does not', () => {
-    const sameDay = { controlId: 'flu', setId: 'a', acquiredAt: '2026-03-01T23:30:00Z', metrics: { controlQuantumYield: 0.92 } }; // 00:30 Monday in Berlin
+    const sameDay = {
+      controlId: 'flu',
+      setId: 'a',
+      acquiredAt: '2026-03-01T23:30:00Z',
+      metrics: { controlQuantumYield: 0.92 },
+    }; // 00:30 Monday in Berlin
     expect(evaluateClockRules({ history: [sameDay], ruleSet, now: monday1015Berlin })).toEqual([]);
     const previousDay = { ...sameDay, acquiredAt: '2026-03-01T22:30:00Z' }; // 23:30 Sunday in Berlin
     expect(evaluateClockRules({ history: [previousDay], ruleSet, now: monday1015Berlin })).toHaveLength(1);
   });
   it('the zone passed in overrides the rule set default; weekends are not scheduled', () => {
     // 09:15 UTC is 10:15 in Berlin but only 04:15 in New York (UTC−5 on 2 March).
-    expect(evaluateClockRules({ history: [], ruleSet, now: monday1015Berlin, timeZone: 'America/New_York' })).toEqual([]);
+    expect(evaluateClockRules({ history: [], ruleSet, now: monday1015Berlin, timeZone: 'America/New_York' })).toEqual(
+      [],
+    );
     expect(evaluateClockRules({ history: [], ruleSet, now: monday1015Berlin, timeZone: '+01:00' })).toHaveLength(1);
     expect(evaluateClockRules({ history: [], ruleSet, now: '2026-03-01T12:00:00Z' })).toEqual([]); // Sunday
   });

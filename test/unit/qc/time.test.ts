@@ -5,7 +5,13 @@ import { epochMsToIso, localParts, parseIsoToEpochMs, zonedTimeToEpochMs } from 
 
 describe('time helpers', () => {
   it('parses ISO 8601 with Z, offsets, fractions and date-only like Date.parse', () => {
-    for (const text of ['2026-03-02T08:00:00Z', '2026-03-02T09:30:15.250+01:00', '2024-02-29T23:59:59-05:30', '2026-12-31T00:00:00.000Z', '1999-01-01']) {
+    for (const text of [
+      '2026-03-02T08:00:00Z',
+      '2026-03-02T09:30:15.250+01:00',
+      '2024-02-29T23:59:59-05:30',
+      '2026-12-31T00:00:00.000Z',
+      '1999-01-01',
+    ]) {
       expect(parseIsoToEpochMs(text)).toBe(Date.parse(text));
     }
     expect(parseIsoToEpochMs('02/03/2026')).toBeUndefined();
@@ -13,13 +19,22 @@ describe('time helpers', () => {
   });
 
   it('formats epoch ms as ISO UTC like Date.toISOString', () => {
-    for (const epochMs of [0, 1_772_438_400_123, -86_400_001, 4_102_444_799_999]) expect(epochMsToIso(epochMs)).toBe(new Date(epochMs).toISOString());
+    for (const epochMs of [0, 1_772_438_400_123, -86_400_001, 4_102_444_799_999])
+      expect(epochMsToIso(epochMs)).toBe(new Date(epochMs).toISOString());
   });
 
   it('gives local date, minute and weekday in IANA zones and fixed offsets', () => {
     // 2026-03-29 01:30 UTC: Berlin already on CEST (03:30 local, Sunday).
-    expect(localParts(Date.parse('2026-03-29T01:30:00Z'), 'Europe/Berlin')).toEqual({ date: '2026-03-29', minuteOfDay: 3 * 60 + 30, weekday: 'sun' });
-    expect(localParts(Date.parse('2026-03-02T23:30:00Z'), '-05:00')).toEqual({ date: '2026-03-02', minuteOfDay: 18 * 60 + 30, weekday: 'mon' });
+    expect(localParts(Date.parse('2026-03-29T01:30:00Z'), 'Europe/Berlin')).toEqual({
+      date: '2026-03-29',
+      minuteOfDay: 3 * 60 + 30,
+      weekday: 'sun',
+    });
+    expect(localParts(Date.parse('2026-03-02T23:30:00Z'), '-05:00')).toEqual({
+      date: '2026-03-02',
+      minuteOfDay: 18 * 60 + 30,
+      weekday: 'mon',
+    });
   });
 
   it('converts local wall time to an instant across DST', () => {

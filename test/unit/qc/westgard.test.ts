@@ -22,7 +22,11 @@ describe('Westgard multirule (Westgard et al., Clin. Chem. 27, 493, 1981)', () =
     // 4-1s: four consecutive beyond the same 1s limit; near miss: third point 0.95.
     { check: '4-1s', pattern: [0, 1.2, 1.5, 1.1, 1.3], nearMiss: [0, 1.2, 1.5, 0.95, 1.3] },
     // 10-x: ten consecutive on one side of the mean; near miss: nine, preceded by one below.
-    { check: '10-x', pattern: [-0.5, 0.3, 0.6, 0.2, 0.9, 0.4, 0.1, 0.7, 0.5, 0.3, 0.8], nearMiss: [0.3, -0.2, 0.6, 0.2, 0.9, 0.4, 0.1, 0.7, 0.5, 0.3, 0.8] },
+    {
+      check: '10-x',
+      pattern: [-0.5, 0.3, 0.6, 0.2, 0.9, 0.4, 0.1, 0.7, 0.5, 0.3, 0.8],
+      nearMiss: [0.3, -0.2, 0.6, 0.2, 0.9, 0.4, 0.1, 0.7, 0.5, 0.3, 0.8],
+    },
   ];
 
   for (const row of table) {

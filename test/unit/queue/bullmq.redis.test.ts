@@ -5,7 +5,14 @@ import { Redis } from 'ioredis';
 import { afterEach, beforeEach, expect, it } from 'vitest';
 import { createJobQueue, type QueueBackendOptions } from '../../../src/queue/index.js';
 import { cleanupQueue, describeRedis, randomPrefix, REDIS_URL } from '../../helpers/redis.js';
-import { COMPUTE_PROCESSOR, describeJobQueueContract, outcomeRecorder, waitFor, type ComputePayload, type ComputeResult } from './contract.js';
+import {
+  COMPUTE_PROCESSOR,
+  describeJobQueueContract,
+  outcomeRecorder,
+  waitFor,
+  type ComputePayload,
+  type ComputeResult,
+} from './contract.js';
 
 const QUEUE_NAME = 'contract';
 
@@ -57,7 +64,11 @@ describeRedis('BullMQ backend', () => {
   });
 
   it('keeps finished jobs in Redis until a coordinator listens, capped by retention', async () => {
-    const producer = bullmq({ processorFile: COMPUTE_PROCESSOR, concurrency: 1, retention: { completedCount: 3, failedCount: 3 } });
+    const producer = bullmq({
+      processorFile: COMPUTE_PROCESSOR,
+      concurrency: 1,
+      retention: { completedCount: 3, failedCount: 3 },
+    });
     for (let n = 0; n < 5; n += 1) await producer.enqueue(`r-${n}`, { id: `r-${n}`, n });
     await waitFor(
       async () => {

@@ -84,14 +84,15 @@ describe('docker-compose.yml', () => {
     expect(redis.healthcheck?.test).toEqual(['CMD', 'redis-cli', 'ping']);
   });
 
-  it('runs the coordinator with a real `watch --config --redis` on the workers\' Redis and every data folder mounted', () => {
+  it("runs the coordinator with a real `watch --config --redis` on the workers' Redis and every data folder mounted", () => {
     const coordinator = service('coordinator');
     const flags = checkCliArgs(coordinator.command ?? []);
     expect(coordinator.command?.[0]).toBe('watch');
     expect(flags.get('--config')).toBe('/config/driftlight.yaml');
     expect(flags.get('--redis')).toBe(checkCliArgs(service('worker').command ?? []).get('--redis'));
     const targets = (coordinator.volumes ?? []).map(volumeTarget);
-    for (const folder of ['inbox', 'results', 'archive', 'quarantine', 'outbox', 'state']) expect(targets).toContain(`/data/${folder}`);
+    for (const folder of ['inbox', 'results', 'archive', 'quarantine', 'outbox', 'state'])
+      expect(targets).toContain(`/data/${folder}`);
     expect(targets).toContain('/config');
     expect(coordinator.depends_on?.['redis']?.condition).toBe('service_healthy');
   });

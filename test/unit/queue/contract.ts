@@ -53,7 +53,11 @@ export function outcomeRecorder(): {
 }
 
 /** Polls `condition` every 50 ms until it holds or `timeoutMs` passes (then throws). */
-export async function waitFor(condition: () => boolean | Promise<boolean>, timeoutMs: number, what: string): Promise<void> {
+export async function waitFor(
+  condition: () => boolean | Promise<boolean>,
+  timeoutMs: number,
+  what: string,
+): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (!(await condition())) {
     if (Date.now() > deadline) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}`);
@@ -148,7 +152,11 @@ export function describeJobQueueContract(name: string, factory: QueueFactory): v
         attempts: 1,
         failure: { code: 'NON_NUMERIC', message: 'value 7 rejected', hint: 'fixture hint', permanent: true },
       });
-      expect(recorder.byId.get('bad-flag')).toMatchObject({ status: 'failed', attempts: 1, failure: { code: 'FIXTURE_BAD', permanent: true } });
+      expect(recorder.byId.get('bad-flag')).toMatchObject({
+        status: 'failed',
+        attempts: 1,
+        failure: { code: 'FIXTURE_BAD', permanent: true },
+      });
     });
 
     it('stops a job that runs over jobTimeoutMs and reports JOB_TIMEOUT', async () => {
@@ -160,7 +168,10 @@ export function describeJobQueueContract(name: string, factory: QueueFactory): v
       const startedMs = Date.now();
       await queue.drain();
       expect(Date.now() - startedMs).toBeLessThan(10_000);
-      expect(recorder.byId.get('slow')).toMatchObject({ status: 'failed', failure: { code: 'JOB_TIMEOUT', permanent: false } });
+      expect(recorder.byId.get('slow')).toMatchObject({
+        status: 'failed',
+        failure: { code: 'JOB_TIMEOUT', permanent: false },
+      });
       expect(recorder.byId.get('quick')).toMatchObject({ status: 'completed', value: { square: 4 } });
     });
 

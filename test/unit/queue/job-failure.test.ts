@@ -25,7 +25,12 @@ describe('toJobFailure', () => {
       permanent: true,
     });
     expect(toJobFailure({ code: 'FIT_FAILED', message: 'm' }).hint).toMatch(/did not converge/);
-    expect(toJobFailure('just text')).toEqual({ code: 'TRANSIENT', message: 'just text', hint: expect.any(String), permanent: false });
+    expect(toJobFailure('just text')).toEqual({
+      code: 'TRANSIENT',
+      message: 'just text',
+      hint: expect.any(String),
+      permanent: false,
+    });
   });
 });
 
@@ -36,8 +41,15 @@ describe('encodeFailure / decodeFailure', () => {
   });
 
   it("reads BullMQ's own reasons: stalls as WORKER_LOST, anything else as TRANSIENT", () => {
-    expect(decodeFailure('job stalled more than allowable limit')).toMatchObject({ code: 'WORKER_LOST', permanent: false });
-    expect(decodeFailure('Missing lock for job 1')).toEqual({ code: 'TRANSIENT', message: 'Missing lock for job 1', permanent: false });
+    expect(decodeFailure('job stalled more than allowable limit')).toMatchObject({
+      code: 'WORKER_LOST',
+      permanent: false,
+    });
+    expect(decodeFailure('Missing lock for job 1')).toEqual({
+      code: 'TRANSIENT',
+      message: 'Missing lock for job 1',
+      permanent: false,
+    });
     expect(decodeFailure(undefined)).toMatchObject({ code: 'TRANSIENT', permanent: false });
   });
 });

@@ -41,14 +41,22 @@ describe('subtractBlank', () => {
   const dye = gaussianBand(axis, 20000, 450, 20);
 
   it('interpolates the blank onto the sample axis and removes the solvent Raman band', () => {
-    const sample = makeSpectrum('emission', axis, dye.map((v, i) => v + (solvent(axis)[i] as number)), { metadata: { excitationNm } });
+    const sample = makeSpectrum(
+      'emission',
+      axis,
+      dye.map((v, i) => v + (solvent(axis)[i] as number)),
+      { metadata: { excitationNm } },
+    );
     const blank = makeSpectrum('blank', blankAxis, solvent(blankAxis), { metadata: { excitationNm } });
     const { spectrum, record } = subtractBlank(sample, blank);
     const residual = Array.from(spectrum.values).map((v, i) => v - (dye[i] as number));
     // Linear interpolation of a σ = 3 nm band sampled every 1 nm leaves < 1.5 % of its 66-count peak.
     expect(Math.max(...residual.map(Math.abs))).toBeLessThan(1.0);
     expect(integrateIntensity(spectrum)).toBeCloseTo(integrateIntensity(makeSpectrum('emission', axis, dye)), -1);
-    expect(record).toMatchObject({ name: 'subtractBlank', parameters: { excitationToleranceNm: 1, blankExcitationNm: 350 } });
+    expect(record).toMatchObject({
+      name: 'subtractBlank',
+      parameters: { excitationToleranceNm: 1, blankExcitationNm: 350 },
+    });
   });
 
   it('refuses a blank taken at another excitation, or warns when told to', () => {
@@ -60,14 +68,18 @@ describe('subtractBlank', () => {
 
   it('refuses to extrapolate a blank that does not cover the sample', () => {
     const sample = makeSpectrum('emission', axis, dye, { metadata: { excitationNm } });
-    const shortBlank = makeSpectrum('blank', axisNm(380, 520, 1), solvent(axisNm(380, 520, 1)), { metadata: { excitationNm } });
+    const shortBlank = makeSpectrum('blank', axisNm(380, 520, 1), solvent(axisNm(380, 520, 1)), {
+      metadata: { excitationNm },
+    });
     expect(codeOf(() => subtractBlank(sample, shortBlank))).toBe('AXIS_NOT_COVERED');
   });
 });
 
 describe('normalizeByReferenceChannel', () => {
   it('divides by the reference-detector column found by name', () => {
-    const spectrum = makeSpectrum('emission', [400, 401, 402], [100, 200, 300], { otherColumns: { 'R1 (lamp)': [2, 4, 5] } });
+    const spectrum = makeSpectrum('emission', [400, 401, 402], [100, 200, 300], {
+      otherColumns: { 'R1 (lamp)': [2, 4, 5] },
+    });
     expect(findReferenceChannel(spectrum)).toBe('R1 (lamp)');
     const { spectrum: normalized, record } = normalizeByReferenceChannel(spectrum);
     expect(Array.from(normalized.values)).toEqual([50, 50, 60]);
@@ -83,7 +95,11 @@ describe('applyDetectorCorrection', () => {
   it('multiplies by the linearly interpolated curve', () => {
     const spectrum = makeSpectrum('emission', [400, 450, 500], [10, 10, 10]);
     expect(Array.from(applyDetectorCorrection(spectrum, curve).spectrum.values)).toEqual([15, 20, 30]);
-    expect(Array.from(applyDetectorCorrection(spectrum, curve, { curveMeaning: 'divide' }).spectrum.values)).toEqual([10 / 1.5, 5, 10 / 3]);
+    expect(Array.from(applyDetectorCorrection(spectrum, curve, { curveMeaning: 'divide' }).spectrum.values)).toEqual([
+      10 / 1.5,
+      5,
+      10 / 3,
+    ]);
   });
 
   it('refuses to extrapolate outside the curve with a typed error', () => {
@@ -95,7 +111,9 @@ describe('applyDetectorCorrection', () => {
 describe('option resolution', () => {
   it('rejects unknown or invalid options with ConfigInvalid naming the config path', () => {
     const sample = makeSpectrum('emission', [400, 401], [1, 2], { metadata: { excitationNm: 350 } });
-    expect(() => subtractBlank(sample, sample, { excitationToleranceNm: -1 })).toThrow(/Too small|>=0|nonnegative|expected/i);
+    expect(() => subtractBlank(sample, sample, { excitationToleranceNm: -1 })).toThrow(
+      /Too small|>=0|nonnegative|expected/i,
+    );
     try {
       subtractBlank(sample, sample, { excitationToleranceNm: -1 });
     } catch (error) {
@@ -120,23 +138,43 @@ describe('detector curve direction (issue 15 item 5)', () => {
   const axis = Array.from({ length: 201 }, (_u, i) => 400 + i);
   const emission = axis.map((nm) => 1000 * Math.exp(-((nm - 500) ** 2) / (2 * 25 ** 2)));
   const response = axis.map((nm) => 0.2 + 0.8 * Math.exp(-((nm - 450) ** 2) / (2 * 120 ** 2)));
-  const measured = makeSpectrum('emission', axis, emission.map((e, i) => e * (response[i] as number)));
+  const measured = makeSpectrum(
+    'emission',
+    axis,
+    emission.map((e, i) => e * (response[i] as number)),
+  );
 
   it('divides by a curve whose column says relative response, and multiplies by one that says correction factor', () => {
     const responseCurve = makeSpectrum('detector-correction', axis, response, { valueColumn: 'relative response' });
-    const factorCurve = makeSpectrum('detector-correction', axis, response.map((r) => 1 / r), { valueColumn: 'correction factor' });
+    const factorCurve = makeSpectrum(
+      'detector-correction',
+      axis,
+      response.map((r) => 1 / r),
+      { valueColumn: 'correction factor' },
+    );
     for (const curve of [responseCurve, factorCurve]) {
       const done = applyDetectorCorrection(measured, curve);
       done.spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
     }
     expect(applyDetectorCorrection(measured, responseCurve).record.parameters['curveMeaning']).toBe('divide');
-    expect(applyDetectorCorrection(measured, responseCurve).record.parameters['curveMeaningFrom']).toBe('value column "relative response"');
+    expect(applyDetectorCorrection(measured, responseCurve).record.parameters['curveMeaningFrom']).toBe(
+      'value column "relative response"',
+    );
   });
 
   it('reads "sensitivity" in the unit or a header entry as a response', () => {
-    const byUnit = makeSpectrum('detector-correction', axis, response, { valueUnit: 'sensitivity (a.u.)', valueColumn: 'value' });
-    const byHeader = makeSpectrum('detector-correction', axis, response, { valueColumn: 'value', metadata: { extra: { 'curve type': 'detector sensitivity' } } });
-    for (const curve of [byUnit, byHeader]) applyDetectorCorrection(measured, curve).spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
+    const byUnit = makeSpectrum('detector-correction', axis, response, {
+      valueUnit: 'sensitivity (a.u.)',
+      valueColumn: 'value',
+    });
+    const byHeader = makeSpectrum('detector-correction', axis, response, {
+      valueColumn: 'value',
+      metadata: { extra: { 'curve type': 'detector sensitivity' } },
+    });
+    for (const curve of [byUnit, byHeader])
+      applyDetectorCorrection(measured, curve).spectrum.values.forEach((v, i) =>
+        expect(v).toBeCloseTo(emission[i] as number, 9),
+      );
   });
 
   it('refuses a curve that does not say what it holds, with a hint naming the option, and obeys the explicit option', () => {
@@ -148,6 +186,8 @@ describe('detector curve direction (issue 15 item 5)', () => {
     } catch (error) {
       expect((error as { hint: string }).hint).toContain('instrument.detectorCurveMeaning');
     }
-    applyDetectorCorrection(measured, silent, { curveMeaning: 'divide' }).spectrum.values.forEach((v, i) => expect(v).toBeCloseTo(emission[i] as number, 9));
+    applyDetectorCorrection(measured, silent, { curveMeaning: 'divide' }).spectrum.values.forEach((v, i) =>
+      expect(v).toBeCloseTo(emission[i] as number, 9),
+    );
   });
 });

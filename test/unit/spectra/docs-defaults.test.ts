@@ -36,7 +36,9 @@ function documentedDefaults(markdown: string): Map<string, Map<string, string>> 
   return sections;
 }
 
-const docs = ['../../../docs/spectra.md', '../../../docs/photophysics.md'].map((p) => readFileSync(new URL(p, import.meta.url), 'utf8')).join('\n');
+const docs = ['../../../docs/spectra.md', '../../../docs/photophysics.md']
+  .map((p) => readFileSync(new URL(p, import.meta.url), 'utf8'))
+  .join('\n');
 const sections = documentedDefaults(docs);
 
 describe('documented option defaults', () => {
@@ -44,13 +46,16 @@ describe('documented option defaults', () => {
     expect([...sections.keys()].sort()).toEqual(Object.keys(resolvers).sort());
   });
 
-  it.each(Object.keys(resolvers))('%s: each documented default equals the code default, and every default is documented', (name) => {
-    const resolved = (resolvers[name] as () => Readonly<Record<string, unknown>>)();
-    const documented = sections.get(name) ?? new Map<string, string>();
-    for (const [option, text] of documented) {
-      if (text === '—') expect(resolved[option]).toBeUndefined();
-      else expect(resolved[option]).toEqual(JSON.parse(text.replace(/^`|`$/g, '')));
-    }
-    for (const option of Object.keys(resolved)) expect(documented.has(option)).toBe(true);
-  });
+  it.each(Object.keys(resolvers))(
+    '%s: each documented default equals the code default, and every default is documented',
+    (name) => {
+      const resolved = (resolvers[name] as () => Readonly<Record<string, unknown>>)();
+      const documented = sections.get(name) ?? new Map<string, string>();
+      for (const [option, text] of documented) {
+        if (text === '—') expect(resolved[option]).toBeUndefined();
+        else expect(resolved[option]).toEqual(JSON.parse(text.replace(/^`|`$/g, '')));
+      }
+      for (const option of Object.keys(resolved)) expect(documented.has(option)).toBe(true);
+    },
+  );
 });

@@ -11,7 +11,9 @@ describe('toEnergyScale / toWavenumberScale', () => {
   it('conserves the band area: ∫I(E)dE = ∫I(λ)dλ with I(E) = I(λ)·λ²/hc', () => {
     const { spectrum } = toEnergyScale(emission);
     expect(spectrum.axisValues[0]).toBeCloseTo(1239.84198 / 700, 12); // hc = 1239.84198 eV·nm (CODATA)
-    expect(trapezoid(spectrum.axisValues, spectrum.values) / trapezoid(emission.wavelengthNm, emission.values)).toBeCloseTo(1, 4);
+    expect(
+      trapezoid(spectrum.axisValues, spectrum.values) / trapezoid(emission.wavelengthNm, emission.values),
+    ).toBeCloseTo(1, 4);
     expect(spectrum.jacobianApplied).toBe(true);
   });
 

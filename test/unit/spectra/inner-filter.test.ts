@@ -24,13 +24,27 @@ function meanTransmission(absorbancePerCm: number, [x1, x2]: [number, number]): 
 
 /** Observed spectrum of a sample whose absorbance at 350 nm (1 cm) is peakAbsorbance: light absorbed per unit length
  * ∝ a_ex·10^(−a_ex·x), emission attenuated by 10^(−a_em·y), averaged over the viewed zone (x, y in cm). */
-function simulate(peakAbsorbance: number): { emission: ReturnType<typeof makeSpectrum>; absorbance: ReturnType<typeof makeSpectrum> } {
+function simulate(peakAbsorbance: number): {
+  emission: ReturnType<typeof makeSpectrum>;
+  absorbance: ReturnType<typeof makeSpectrum>;
+} {
   const aEx = peakAbsorbance * absorptionShape(excitationNm);
   const excitationPart = aEx * meanTransmission(aEx, zoneCm);
-  const observed = emissionAxis.map((l, i) => 1e6 * (emissionShape[i] as number) * excitationPart * meanTransmission(peakAbsorbance * absorptionShape(l), zoneCm));
+  const observed = emissionAxis.map(
+    (l, i) =>
+      1e6 *
+      (emissionShape[i] as number) *
+      excitationPart *
+      meanTransmission(peakAbsorbance * absorptionShape(l), zoneCm),
+  );
   return {
     emission: makeSpectrum('emission', emissionAxis, observed, { metadata: { excitationNm } }),
-    absorbance: makeSpectrum('absorbance', absorbanceAxis, absorbanceAxis.map((l) => peakAbsorbance * absorptionShape(l)), { metadata: { pathLengthCm: 1 } }),
+    absorbance: makeSpectrum(
+      'absorbance',
+      absorbanceAxis,
+      absorbanceAxis.map((l) => peakAbsorbance * absorptionShape(l)),
+      { metadata: { pathLengthCm: 1 } },
+    ),
   };
 }
 
@@ -41,7 +55,13 @@ const perAbsorbance = (values: number[]): number[] => values.map((v, i) => v / (
 describe('correctInnerFilter', () => {
   it('makes the integrated intensity linear in concentration up to A_ex = 1.5 (geometric form, Parker & Rees 1962)', () => {
     const corrected = samples.map((s) =>
-      integrateIntensity(correctInnerFilter(s.emission, s.absorbance, { method: 'geometric', excitationZoneCm: zoneCm, emissionZoneCm: zoneCm }).spectrum),
+      integrateIntensity(
+        correctInnerFilter(s.emission, s.absorbance, {
+          method: 'geometric',
+          excitationZoneCm: zoneCm,
+          emissionZoneCm: zoneCm,
+        }).spectrum,
+      ),
     );
     const uncorrected = samples.map((s) => integrateIntensity(s.emission));
     const correctedSlopes = perAbsorbance(corrected);
@@ -49,11 +69,15 @@ describe('correctInnerFilter', () => {
     const first = correctedSlopes[0] as number;
     for (const slope of correctedSlopes) expect(Math.abs(slope / first - 1)).toBeLessThan(1e-3);
     // Uncorrected: the signal per unit absorbance falls by far more than 30 % at A = 1.5.
-    expect((uncorrectedSlopes[uncorrectedSlopes.length - 1] as number) / (uncorrectedSlopes[0] as number)).toBeLessThan(0.3);
+    expect((uncorrectedSlopes[uncorrectedSlopes.length - 1] as number) / (uncorrectedSlopes[0] as number)).toBeLessThan(
+      0.3,
+    );
   });
 
   it('centred form 10^((A_ex + A_em)/2) (Lakowicz ch. 2) agrees with the thin central zone to 2 % up to A = 1', () => {
-    const corrected = samples.filter((s) => s.a <= 1).map((s) => integrateIntensity(correctInnerFilter(s.emission, s.absorbance).spectrum));
+    const corrected = samples
+      .filter((s) => s.a <= 1)
+      .map((s) => integrateIntensity(correctInnerFilter(s.emission, s.absorbance).spectrum));
     const slopes = perAbsorbance(corrected);
     for (const slope of slopes) expect(Math.abs(slope / (slopes[0] as number) - 1)).toBeLessThan(0.02);
   });

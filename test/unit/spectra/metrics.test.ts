@@ -28,7 +28,9 @@ describe('spectrumMetrics', () => {
     expect(Math.abs((metrics.noiseSigma as number) / 5 - 1)).toBeLessThan(0.1);
     const { standardUncertainty } = integralWithUncertainty(spectrum);
     // Trapezoid weights h (ends h/2): u = σ·h·√(n − 1.5) by hand.
-    expect((standardUncertainty as number) / ((metrics.noiseSigma as number) * 0.5 * Math.sqrt(axis.length - 1.5))).toBeCloseTo(1, 10);
+    expect(
+      (standardUncertainty as number) / ((metrics.noiseSigma as number) * 0.5 * Math.sqrt(axis.length - 1.5)),
+    ).toBeCloseTo(1, 10);
   });
 
   it('computes the Stokes shift in cm⁻¹ from the two maxima (IUPAC Gold Book definition)', () => {

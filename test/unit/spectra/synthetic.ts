@@ -27,8 +27,15 @@ export function axisNm(fromNm: number, toNm: number, stepNm: number): number[] {
 }
 
 /** Gaussian band with the given area (value·nm), centre and standard deviation in nm. */
-export function gaussianBand(wavelengthNm: readonly number[], areaValueNm: number, centreNm: number, sigmaNm: number): number[] {
-  return wavelengthNm.map((x) => (areaValueNm / (sigmaNm * Math.sqrt(2 * Math.PI))) * Math.exp(-((x - centreNm) ** 2) / (2 * sigmaNm ** 2)));
+export function gaussianBand(
+  wavelengthNm: readonly number[],
+  areaValueNm: number,
+  centreNm: number,
+  sigmaNm: number,
+): number[] {
+  return wavelengthNm.map(
+    (x) => (areaValueNm / (sigmaNm * Math.sqrt(2 * Math.PI))) * Math.exp(-((x - centreNm) ** 2) / (2 * sigmaNm ** 2)),
+  );
 }
 
 /** A spectrum from axis and values, with optional noise σ (value units) and metadata. */
@@ -36,10 +43,18 @@ export function makeSpectrum(
   kind: SpectrumInput['kind'],
   wavelengthNm: readonly number[],
   values: readonly number[],
-  extras: { noiseSigma?: number; seed?: number; metadata?: SpectrumInput['metadata']; valueUnit?: string; valueColumn?: string; otherColumns?: SpectrumInput['otherColumns'] } = {},
+  extras: {
+    noiseSigma?: number;
+    seed?: number;
+    metadata?: SpectrumInput['metadata'];
+    valueUnit?: string;
+    valueColumn?: string;
+    otherColumns?: SpectrumInput['otherColumns'];
+  } = {},
 ): Spectrum {
   const normal = seededNormal(extras.seed ?? 1);
-  const noisy = extras.noiseSigma === undefined ? values : values.map((v) => v + (extras.noiseSigma as number) * normal());
+  const noisy =
+    extras.noiseSigma === undefined ? values : values.map((v) => v + (extras.noiseSigma as number) * normal());
   return createSpectrum({
     kind,
     wavelengthNm,

@@ -31,8 +31,16 @@ export function recovery(ruleId: string): RecoveryNotice {
 }
 
 /** A logger that keeps lines in memory. */
-export function memoryLogger(): { lines: { level: string; message: string; object: object }[]; info: (o: object, m: string) => void; warn: (o: object, m: string) => void; error: (o: object, m: string) => void } {
+export function memoryLogger(): {
+  lines: { level: string; message: string; object: object }[];
+  info: (o: object, m: string) => void;
+  warn: (o: object, m: string) => void;
+  error: (o: object, m: string) => void;
+} {
   const lines: { level: string; message: string; object: object }[] = [];
-  const at = (level: string) => (object: object, message: string): void => void lines.push({ level, message, object });
+  const at =
+    (level: string) =>
+    (object: object, message: string): void =>
+      void lines.push({ level, message, object });
   return { lines, info: at('info'), warn: at('warn'), error: at('error') };
 }

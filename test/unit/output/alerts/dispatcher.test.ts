@@ -46,7 +46,10 @@ function setup(options: { pagerFailures?: number } = {}) {
   const logger = memoryLogger();
   const dispatcher = createAlertDispatcher({
     alerts,
-    channels: new Map<string, AlertChannel>([['log', log], ['pager', pager]]),
+    channels: new Map<string, AlertChannel>([
+      ['log', log],
+      ['pager', pager],
+    ]),
     state: createMemoryAlertState(),
     recorder,
     logger,
@@ -122,7 +125,11 @@ describe('alert dispatcher', () => {
     const { dispatcher, recorder, logger } = setup({ pagerFailures: 99 });
     dispatcher.dispatch([flag('w', 'critical')]);
     await dispatcher.idle();
-    expect(recorder.records.find((r) => r.channelId === 'pager')).toMatchObject({ status: 'failed', attempts: 3, error: 'refused 3' });
+    expect(recorder.records.find((r) => r.channelId === 'pager')).toMatchObject({
+      status: 'failed',
+      attempts: 3,
+      error: 'refused 3',
+    });
     expect(logger.lines.some((line) => line.level === 'error' && line.message.includes('pager'))).toBe(true);
   });
 

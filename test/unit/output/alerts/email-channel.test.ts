@@ -4,7 +4,12 @@ import type { AddressInfo } from 'node:net';
 import { SMTPServer } from 'smtp-server';
 import { afterEach, describe, expect, it } from 'vitest';
 import { alertsSection } from '../../../../src/config/sections/alerts.js';
-import { createAlertDispatcher, createChannels, createMemoryAlertState, createMemoryRecorder } from '../../../../src/output/alerts/index.js';
+import {
+  createAlertDispatcher,
+  createChannels,
+  createMemoryAlertState,
+  createMemoryRecorder,
+} from '../../../../src/output/alerts/index.js';
 import { flag, memoryLogger } from './alert-fixtures.js';
 
 const PASSWORD = 'sink-password-for-tests';
@@ -36,7 +41,10 @@ async function startSink(): Promise<{ port: number; mails: Mail[] }> {
           from: session.envelope.mailFrom === false ? '' : session.envelope.mailFrom.address,
           to: session.envelope.rcptTo.map((r) => r.address),
           // Unfold header lines (RFC 5322 §2.2.3) and quoted-printable soft breaks (RFC 2045 §6.7).
-          data: Buffer.concat(chunks).toString('utf8').replace(/\r\n[ \t]+/g, ' ').replace(/=\r\n/g, ''),
+          data: Buffer.concat(chunks)
+            .toString('utf8')
+            .replace(/\r\n[ \t]+/g, ' ')
+            .replace(/=\r\n/g, ''),
           user: typeof session.user === 'string' ? session.user : undefined,
         });
         callback();
@@ -56,7 +64,20 @@ afterEach(async () => {
 function dispatcherFor(port: number, env: Record<string, string>, allowPlainText = true) {
   const alerts = alertsSection.parse({
     channels: [
-      { id: 'lab-mail', type: 'email', host: '127.0.0.1', port, from: 'driftlight@lab.example', to: ['qc@lab.example'], username: 'qc-bot', passwordEnv: 'DL_TEST_SMTP_PASSWORD', attempts: 2, backoffMs: 10, timeoutMs: 5000, allowPlainText },
+      {
+        id: 'lab-mail',
+        type: 'email',
+        host: '127.0.0.1',
+        port,
+        from: 'driftlight@lab.example',
+        to: ['qc@lab.example'],
+        username: 'qc-bot',
+        passwordEnv: 'DL_TEST_SMTP_PASSWORD',
+        attempts: 2,
+        backoffMs: 10,
+        timeoutMs: 5000,
+        allowPlainText,
+      },
     ],
     routing: { info: [], warning: ['lab-mail'], critical: ['lab-mail'] },
   });
@@ -77,9 +98,15 @@ describe('email channel (real SMTP sink)', () => {
     expect(mails).toHaveLength(0);
     expect(recorder.records[0]).toMatchObject({ status: 'failed', channelId: 'lab-mail' });
     expect(recorder.records[0]?.error).toMatch(/STARTTLS|TLS/i);
-    expect(logger.lines.some((line) => line.level === 'error' && line.message.includes('stays in the outbox'))).toBe(true);
-    expect(() => alertsSection.parse({ channels: [{ id: 'm', type: 'email', host: 'h', from: 'a@b.c', to: ['d@e.f'], requireTls: false }], routing: { info: [], warning: ['m'], critical: ['m'] } }))
-      .toThrow(/allowPlainText: true/);
+    expect(logger.lines.some((line) => line.level === 'error' && line.message.includes('stays in the outbox'))).toBe(
+      true,
+    );
+    expect(() =>
+      alertsSection.parse({
+        channels: [{ id: 'm', type: 'email', host: 'h', from: 'a@b.c', to: ['d@e.f'], requireTls: false }],
+        routing: { info: [], warning: ['m'], critical: ['m'] },
+      }),
+    ).toThrow(/allowPlainText: true/);
   });
 
   it('logs in with the password from the environment and sends subject and body', async () => {
@@ -92,7 +119,9 @@ describe('email channel (real SMTP sink)', () => {
     expect(mails).toHaveLength(1);
     expect(mails[0]?.user).toBe('qc-bot');
     expect(mails[0]?.to).toEqual(['qc@lab.example']);
-    expect(mails[0]?.data).toContain('Subject: [driftlight CRITICAL] fluorescein-daily controlQuantumYield: yield-westgard 1-3s');
+    expect(mails[0]?.data).toContain(
+      'Subject: [driftlight CRITICAL] fluorescein-daily controlQuantumYield: yield-westgard 1-3s',
+    );
     expect(mails[0]?.data).toContain('control yield 0.891 is 3.4 SD below target 0.925 (1-3s).');
     expect(mails[0]?.data).not.toContain(PASSWORD);
   });

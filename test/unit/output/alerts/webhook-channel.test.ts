@@ -26,14 +26,19 @@ interface Received {
 let server: Server | undefined;
 
 /** Starts a server on a free 127.0.0.1 port; `respond` decides each answer. */
-async function startServer(respond: (request: IncomingMessage, response: ServerResponse, index: number) => void): Promise<{ url: string; received: Received[] }> {
+async function startServer(
+  respond: (request: IncomingMessage, response: ServerResponse, index: number) => void,
+): Promise<{ url: string; received: Received[] }> {
   const received: Received[] = [];
   server = createServer((request, response) => {
     const chunks: Buffer[] = [];
     request.on('data', (chunk: Buffer) => chunks.push(chunk));
     request.on('end', () => {
       const header = request.headers[SIGNATURE_HEADER];
-      received.push({ body: Buffer.concat(chunks).toString('utf8'), signature: typeof header === 'string' ? header : undefined });
+      received.push({
+        body: Buffer.concat(chunks).toString('utf8'),
+        signature: typeof header === 'string' ? header : undefined,
+      });
       respond(request, response, received.length);
     });
   });
@@ -84,14 +89,21 @@ describe('webhook channel', () => {
     expect(signatureValid(first?.body ?? '', first?.signature, KEY)).toBe(true);
     expect(signatureValid(first?.body ?? '', first?.signature, 'another-key')).toBe(false);
     const payload = JSON.parse(first?.body ?? '{}') as Record<string, unknown>;
-    expect(payload).toMatchObject({ schema: 'driftlight.alert/1', type: 'flag', ruleId: 'yield-westgard', severity: 'critical' });
+    expect(payload).toMatchObject({
+      schema: 'driftlight.alert/1',
+      type: 'flag',
+      ruleId: 'yield-westgard',
+      severity: 'critical',
+    });
     expect(payload['message']).toBe('control yield 0.891 is 3.4 SD below target 0.925 (1-3s).');
     expect(first?.body).not.toContain(KEY);
     expect(recorder.records[0]).toMatchObject({ status: 'delivered', attempts: 1 });
   });
 
   it('retries after an HTTP 500 with backoff', async () => {
-    const { url, received } = await startServer((_request, response, index) => response.writeHead(index === 1 ? 500 : 200).end());
+    const { url, received } = await startServer((_request, response, index) =>
+      response.writeHead(index === 1 ? 500 : 200).end(),
+    );
     const { dispatcher, recorder } = dispatcherFor(url, { attempts: 3, backoffMs: 20 });
     dispatcher.dispatch([flag('w', 'warning')]);
     await dispatcher.idle();
@@ -112,7 +124,10 @@ describe('webhook channel', () => {
   });
 
   it('refuses to start when the key variable is unset, naming the config path', () => {
-    const alerts = alertsSection.parse({ channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x', secretEnv: 'DL_UNSET_KEY' }] , routing: { info: ['hook'], warning: ['hook'], critical: ['hook'] } });
+    const alerts = alertsSection.parse({
+      channels: [{ id: 'hook', type: 'webhook', url: 'http://127.0.0.1:9/x', secretEnv: 'DL_UNSET_KEY' }],
+      routing: { info: ['hook'], warning: ['hook'], critical: ['hook'] },
+    });
     let error: unknown;
     try {
       createChannels(alerts, { env: {}, logger: memoryLogger() });
