@@ -103,13 +103,6 @@ export function setsInState(ledger: Ledger, state: SetState): SetRecord[] {
   );
 }
 
-/** Ids of the sets in state `queued`, oldest first (re-enqueued at start-up). */
-export function queuedSetIds(ledger: Ledger): string[] {
-  return (
-    ledger.prepare(`SELECT id FROM sets WHERE state = 'queued' ORDER BY created_at, id`).all() as { id: string }[]
-  ).map((row) => row.id);
-}
-
 /** Finished sets created at or after `since`, oldest first (for reprocess). */
 export function finishedSetsSince(ledger: Ledger, since: Date): SetRecord[] {
   return (
