@@ -215,10 +215,9 @@ describeRedis('the pipeline on BullMQ: a pure coordinator and worker processes',
     for (const set of sets) dropSet(inbox, set);
     await waitFor('8 sets queued in Redis', () => logCount(dir, 'set dispatched') >= sets.length, 20_000);
 
-    // No worker runs: an in-process drain would never end. A bullmq coordinator closes at once.
-    const stoppingAtMs = Date.now();
+    // No worker runs: a drain that waited for the backlog would never end (the test would reach its
+    // limit), so a clean exit with every set still queued shows the bullmq coordinator did not wait.
     expect(await stopWatch(first.child)).toBe(0);
-    expect(Date.now() - stoppingAtMs).toBeLessThan(5_000);
     expect(first.stderr()).toBe('');
     expect(readResults(dir)).toHaveLength(0);
     expect(ledgerStatus(dir).sets).toMatchObject({ queued: sets.length, done: 0 });

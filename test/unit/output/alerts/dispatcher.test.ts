@@ -133,8 +133,21 @@ describe('alert dispatcher', () => {
     expect(logger.lines.some((line) => line.level === 'error' && line.message.includes('pager'))).toBe(true);
   });
 
-  it('a channel that never answers does not delay dispatch', async () => {
-    const hanging: AlertChannel = { id: 'log', type: 'hang', send: () => new Promise<void>(() => undefined) };
+  it('a channel that never answers does not delay dispatch or the next alert; its attempt is aborted', async () => {
+    // Behaviour, not elapsed time: the channel keeps each call's signal; alerts of rule "hang" never settle.
+    const calls: { ruleId: string; signal: AbortSignal; hangAbortedAtCall: boolean[] }[] = [];
+    const hanging: AlertChannel = {
+      id: 'log',
+      type: 'hang',
+      send: (message, signal) => {
+        calls.push({
+          ruleId: message.ruleId,
+          signal,
+          hangAbortedAtCall: calls.filter((c) => c.ruleId === 'hang').map((c) => c.signal.aborted),
+        });
+        return message.ruleId === 'hang' ? new Promise<void>(() => undefined) : Promise.resolve();
+      },
+    };
     const recorder = createMemoryRecorder();
     const dispatcher = createAlertDispatcher({
       alerts: alertsSection.parse({ channels: [{ id: 'log', type: 'log', attempts: 1, timeoutMs: 150 }] }),
@@ -143,10 +156,25 @@ describe('alert dispatcher', () => {
       recorder,
       logger: memoryLogger(),
     });
-    const started = performance.now();
-    dispatcher.dispatch([flag('w', 'critical')]);
-    expect(performance.now() - started).toBeLessThan(50);
+    expect(dispatcher.dispatch([flag('hang', 'critical')])).toHaveLength(1);
+    // dispatch returned with the send under way and no outcome yet: the caller did not wait for it.
+    expect(calls.map((c) => c.ruleId)).toEqual(['hang']);
+    expect(recorder.records).toEqual([]);
+    dispatcher.dispatch([flag('next', 'critical')]);
+    // The next alert was handed to the channel while the first send still hung (its signal not yet aborted).
+    expect(calls.map((c) => [c.ruleId, c.hangAbortedAtCall])).toEqual([
+      ['hang', []],
+      ['next', [false]],
+    ]);
     await dispatcher.idle();
-    expect(recorder.records[0]).toMatchObject({ status: 'failed', error: 'timed out after 150 ms' });
+    // The time limit fired the hanging attempt's abort signal, with the limit as its reason, and the
+    // delivery is recorded as failed with that cause; the next alert was delivered.
+    expect(calls[0]?.signal.aborted).toBe(true);
+    expect(String(calls[0]?.signal.reason)).toContain('timed out after 150 ms');
+    expect(recorder.records.find((r) => r.key.startsWith('hang|'))).toMatchObject({
+      status: 'failed',
+      error: 'timed out after 150 ms',
+    });
+    expect(recorder.records.find((r) => r.key.startsWith('next|'))).toMatchObject({ status: 'delivered', attempts: 1 });
   });
 });
