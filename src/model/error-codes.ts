@@ -86,6 +86,10 @@ export const ERROR_CODES = {
     kind: 'input',
     hint: 'Fix the set manifest (NAME.set.yaml); docs/pipeline.md describes its fields.',
   },
+  MANIFEST_NO_FILES: {
+    kind: 'input',
+    hint: "None of the manifest's files could be used: put the listed files (plain names) in the manifest's folder, replace the rejected ones (see their NAME.error.json), then drop the manifest in again.",
+  },
   DUPLICATE_INPUT: {
     kind: 'input',
     hint: 'This content was already processed; run `driftlight reprocess` to analyse it again.',

@@ -38,6 +38,12 @@ import {
   setMeasuredAtOr,
 } from './dispatch.js';
 import { InFlightSlots } from './in-flight.js';
+import {
+  isUnfulfilledManifestSet,
+  quarantineUnfulfilledManifest,
+  recordUnfulfilledManifest,
+  unfulfilledManifestError,
+} from './manifest-unfulfilled.js';
 import { isRerunJob, versionedJobId } from './input-versions.js';
 import { versionCountOfSet } from '../store/file-versions.js';
 import { toView, type OpenSet } from './open-sets.js';
@@ -146,6 +152,7 @@ export class JobDispatcher {
       settings: { rules },
     } = this.options;
     const empty: OpenSet[] = [];
+    const unfulfilled: { set: OpenSet; error: InputRejected; manifests?: FileRecord[] }[] = [];
     const chosen: {
       set: OpenSet;
       reason: string;
@@ -162,6 +169,11 @@ export class JobDispatcher {
       }
       const readiness = setReadiness(toView(set), rules, now);
       if (!readiness.ready && !force) continue;
+      // A manifest set none of whose files came is rejected, not analysed empty.
+      if (isUnfulfilledManifestSet(set)) {
+        unfulfilled.push({ set, error: unfulfilledManifestError(ledger, set, rules.setTimeoutMs, !readiness.ready) });
+        continue;
+      }
       // A complete sample or control waits for its session's reference until its deadline (a timeout or the end of a batch sends it on).
       if (!force && now.getTime() < set.deadlineAt.getTime() && this.waitsForReference(set, now)) {
         if (!this.awaitingReference.has(set.id))
@@ -185,9 +197,11 @@ export class JobDispatcher {
         paired: [],
       });
     }
-    if (empty.length === 0 && chosen.length === 0) return;
+    if (empty.length === 0 && chosen.length === 0 && unfulfilled.length === 0) return;
     ledger.transaction(() => {
       for (const set of empty) deleteOpenSet(ledger, set.id);
+      for (const entry of unfulfilled)
+        entry.manifests = recordUnfulfilledManifest(ledger, entry.set.id, entry.error, now);
       for (const entry of chosen) {
         const { set } = entry;
         entry.own = filesOfSet(ledger, set.id);
@@ -209,6 +223,13 @@ export class JobDispatcher {
       }
     });
     for (const set of empty) openSets.delete(set.id);
+    for (const { set, error, manifests } of unfulfilled) {
+      openSets.delete(set.id);
+      const log = logger.child({ setId: set.id });
+      log.warn({ code: error.code, message: error.message }, 'manifest rejected: none of its files could be used');
+      logMovesFailed(log, quarantineUnfulfilledManifest(ledger, config, set.id, manifests ?? [], error, now));
+      this.options.report.setFailed(set.id);
+    }
     for (const { set, reason, missing, paired } of chosen) {
       openSets.delete(set.id);
       logger.info({ setId: set.id, reason, missing, paired }, 'set dispatched');

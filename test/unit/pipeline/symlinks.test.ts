@@ -76,7 +76,7 @@ describe('symbolic links in the inbox', () => {
     expect(reported.sort()).toEqual(['dangling.csv', 'linked-file.csv', 'linked-folder'].map((n) => join(inbox, n)));
   });
 
-  it('polling watcher: does not descend into a linked folder', async () => {
+  it('polling watcher: does not descend into a linked folder, and reports a dangling link', async () => {
     const { dir, inbox, pipeline } = start();
     outsideWithLinks(dir, inbox);
     const reported: string[] = [];
@@ -84,6 +84,8 @@ describe('symbolic links in the inbox', () => {
     await sleep(600);
     await watcher.close();
     expect(reported.filter((p) => p.includes('out-01_em.csv'))).toEqual([]);
+    // A dangling link is reported too (intake then refuses it), not passed over unseen.
+    expect(reported).toContain(join(inbox, 'dangling.csv'));
   });
 
   it('refuses every link by default: quarantines the link with SYMLINK_REFUSED and its reason, leaves the outside files where they are', async () => {
