@@ -163,9 +163,23 @@ function analyzeMeasurements(
     let referenceCorrection: CorrectedEmission | undefined;
     if (refEmissionRaw !== undefined) {
       const refExcitationNm = refEmissionRaw.metadata.excitationNm ?? excitationNm;
+      // The reference goes through the sample's chain (docs/pipeline.md): the set's blank too, unless the blank
+      // says it is of another solvent than the reference's (then the yield is refused as corrected unalike).
+      const blankSolvent = blank?.metadata.solvent?.trim().toLowerCase();
+      const referenceSolvent = refEmissionRaw.metadata.solvent?.trim().toLowerCase();
+      const referenceBlank =
+        blank !== undefined &&
+        (blankSolvent === undefined || referenceSolvent === undefined || blankSolvent === referenceSolvent)
+          ? blank
+          : undefined;
+      if (blank !== undefined && referenceBlank === undefined)
+        context.warnings.push(
+          `the blank (${blank.metadata.solvent ?? '?'}) is not of the reference standard's solvent (${refEmissionRaw.metadata.solvent ?? '?'}): it is not subtracted from the reference emission`,
+        );
       const done = correctEmission(
         refEmissionRaw,
         {
+          ...(referenceBlank ? { blank: referenceBlank } : {}),
           ...(detectorCurve ? { detectorCurve } : {}),
           ...(refAbsorbance ? { absorbance: refAbsorbance } : {}),
           ...(refExcitationNm === undefined ? {} : { excitationNm: refExcitationNm }),

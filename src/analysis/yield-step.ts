@@ -74,6 +74,25 @@ export function computeQuantumYield(
       `the inner-filter correction was applied to the ${sampleInner ? 'sample' : 'reference'} emission only; a yield from spectra corrected differently would be wrong — see the missing correction's reason`,
     );
   }
+  // Every other correction alike too (Brouwer 2011: sample and standard measured and corrected the same way):
+  // a blank subtracted from one spectrum only biases F/F_ref by the solvent background and Raman band.
+  const onlyIn = (from: readonly string[], other: readonly string[]): string[] =>
+    from.filter((name) => !isInnerFilter(name) && !other.includes(name));
+  const sampleOnly = onlyIn(inputs.sampleCorrections, inputs.referenceCorrections);
+  const referenceOnly = onlyIn(inputs.referenceCorrections, inputs.sampleCorrections);
+  if (sampleOnly.length > 0 || referenceOnly.length > 0) {
+    const [name, which] = sampleOnly.length > 0 ? [sampleOnly[0], 'sample'] : [referenceOnly[0], 'reference'];
+    throw new AnalysisFailed(
+      'OUT_OF_RANGE',
+      `the ${name} correction was applied to the ${which} emission only; a yield from spectra corrected differently would be wrong`,
+      {
+        hint:
+          name === 'subtractBlank'
+            ? 'Measure a blank of the solvent of both (or one per solvent) within assembly.pairingWindowHours.blank.'
+            : 'Correct the sample and the reference standard alike.',
+      },
+    );
+  }
   const configured = settings.reference;
   const standard = findStandard(inputs.standardId);
   const referenceYield = configured?.quantumYield ?? standard.quantumYield;

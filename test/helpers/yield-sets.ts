@@ -12,7 +12,7 @@ import {
   emissionSpectrum,
 } from '../../src/demo/synthetic.js';
 import { writeDecayCsv, writeSpectrumCsv, writeSpectrumJcamp } from '../../src/formats/index.js';
-import { withValues, type MeasurementRole, type Spectrum } from '../../src/model/spectrum.js';
+import { createSpectrum, withValues, type MeasurementRole, type Spectrum } from '../../src/model/spectrum.js';
 
 export const ETHANOL_N = 1.3618; // CRC, 20 °C (REFERENCES.md, confirmed)
 export const R6G_YIELD = 0.95; // rhodamine 6G in ethanol, the standards table's value (the generator's truth for the reference)
@@ -31,7 +31,14 @@ export interface YieldSetSpec {
   /** Reference absorption band (default peak 528 nm, FWHM 60 nm). */
   readonly referenceBand?: { readonly peakNm: number; readonly widthNm: number };
   readonly withDecay?: boolean;
+  /** A solvent blank (flat dark level plus a Raman-like band) present in both emission exports, and its file (paired). */
+  readonly blank?: { readonly solvent: string };
   readonly settings?: Partial<AnalysisSettings>;
+}
+
+/** The blank's level in counts at `nm`: 40 counts of dark level plus a band of 900 counts at 558 nm (σ 4 nm). */
+export function blankLevelAt(nm: number): number {
+  return 40 + 900 * Math.exp(-((nm - 558) ** 2) / (2 * 4 ** 2));
 }
 
 const sha = (text: string): string => createHash('sha256').update(text).digest('hex');
@@ -117,14 +124,21 @@ export function yieldSet(spec: YieldSetSpec, random: UniformSource, setId = 'tea
     { ...meta, sampleId: 'REF-R6G', role: 'reference' },
     random,
   );
+  const withBlank = (s: Spectrum): Spectrum =>
+    spec.blank === undefined
+      ? s
+      : withValues(
+          s,
+          s.values.map((v, i) => v + blankLevelAt(s.wavelengthNm[i] as number)),
+        );
   const noise = spec.absorbanceNoise ?? 0.0005;
   const sampleAbs = absorbanceSpectrum(sampleBand, { sampleId: 'CTRL-teal', solvent: 'ethanol' }, random);
   const referenceAbs = absorbanceSpectrum(referenceBand, { sampleId: 'REF-R6G', solvent: 'ethanol' }, random);
   const noisyAbs = (s: Spectrum): Spectrum => withValues(s, withPhotometricNoise(s.values, noise, random));
   const files: PayloadFile[] = [
-    payloadFile('teal_em.csv', writeSpectrumCsv(sampleEm), 'emission', 'control'),
+    payloadFile('teal_em.csv', writeSpectrumCsv(withBlank(sampleEm)), 'emission', 'control'),
     payloadFile('teal_abs.jdx', writeSpectrumJcamp(noisyAbs(sampleAbs)), 'absorbance', 'absorbance'),
-    payloadFile('r6g_em.csv', writeSpectrumCsv(referenceEm), 'reference-emission', 'reference', 'paired'),
+    payloadFile('r6g_em.csv', writeSpectrumCsv(withBlank(referenceEm)), 'reference-emission', 'reference', 'paired'),
     payloadFile(
       'r6g_abs.jdx',
       writeSpectrumJcamp(noisyAbs(referenceAbs)),
@@ -133,6 +147,18 @@ export function yieldSet(spec: YieldSetSpec, random: UniformSource, setId = 'tea
       'paired',
     ),
   ];
+  if (spec.blank !== undefined) {
+    const axis = Float64Array.from({ length: 301 }, (_u, i) => excitationNm + i);
+    const blank = createSpectrum({
+      kind: 'blank',
+      wavelengthNm: axis,
+      values: axis.map(blankLevelAt),
+      valueUnit: 'counts',
+      valueColumn: 'intensity',
+      metadata: { sampleId: 'solvent-blank', role: 'blank', excitationNm, solvent: spec.blank.solvent },
+    });
+    files.push(payloadFile('solvent_blank.csv', writeSpectrumCsv(blank), 'blank', 'blank', 'paired'));
+  }
   if (spec.withDecay === true) {
     const decay = decayHistogram(
       { tauNs: [4.1], photons: 200_000, channels: 512, channelWidthNs: 0.05 },
