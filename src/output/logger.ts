@@ -1,5 +1,9 @@
 // The pipeline's logger: pino NDJSON to the log file and to stdout (pretty on a terminal).
-// Use `logger.child({ setId })` so every line about a set carries its id.
+// Use `logger.child({ setId })` so every line about a set carries its id. The log file is written
+// synchronously (one write per line, a few microseconds): a line is in the file when the call
+// returns, so every committed set has its line even when the process exits at once or is killed
+// right after (an asynchronous file stream lost all its pending lines when close() had resolved and
+// the process then ended; its flush(cb) does not wait with pino's defaults). Issue 20, item 9.
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { pino, type Level, type Logger, type StreamEntry } from 'pino';
@@ -17,6 +21,39 @@ export function reopenLogFiles(): void {
   for (const destination of openLogFiles) destination.reopen();
 }
 
+/** How to flush each logger createLogger made (its stdout stream or pretty-printing worker). */
+const flushers = new WeakMap<Logger, () => Promise<void>>();
+
+/**
+ * Resolves once every line `logger` took is written: the log file at once (written synchronously),
+ * stdout once drained, the pretty-printing worker once flushed; never waits more than `timeoutMs`
+ * (a stream that never drains must not keep the process from exiting). Call before exit.
+ */
+export async function flushLogger(logger: Logger, timeoutMs = 1000): Promise<void> {
+  const flush =
+    flushers.get(logger) ??
+    (() =>
+      new Promise<void>((resolve) => {
+        logger.flush(() => resolve());
+      }));
+  let timer: NodeJS.Timeout | undefined;
+  await Promise.race([
+    flush(),
+    new Promise<void>((resolve) => {
+      timer = setTimeout(resolve, timeoutMs);
+      timer.unref();
+    }),
+  ]);
+  clearTimeout(timer);
+}
+
+/** Resolves once `stream` has no buffered output (at once if it has none). */
+function drained(stream: NodeJS.WritableStream): Promise<void> {
+  const writable = stream as Partial<NodeJS.WriteStream>;
+  if (writable.writableNeedDrain !== true) return Promise.resolve();
+  return new Promise((resolve) => stream.once('drain', () => resolve()));
+}
+
 /** Creates the logger for `logging` config writing to `logFile`; stdout lines go to `stdoutStream`. */
 export function createLogger(
   logging: LoggingConfig,
@@ -25,24 +62,28 @@ export function createLogger(
 ): Logger {
   mkdirSync(dirname(logFile), { recursive: true });
   const level: Level = logging.level === 'silent' ? 'fatal' : logging.level;
-  const file = pino.destination({ dest: logFile, sync: false, mkdir: true });
+  const file = pino.destination({ dest: logFile, sync: true, mkdir: true });
   openLogFiles.add(file);
   file.once('close', () => openLogFiles.delete(file));
   const streams: StreamEntry[] = [{ level, stream: file }];
   const isTty = (stdoutStream as NodeJS.WriteStream).isTTY === true;
   const mode = logging.stdout === 'auto' ? (isTty ? 'pretty' : 'json') : logging.stdout;
-  if (mode === 'json') streams.push({ level, stream: stdoutStream });
-  if (mode === 'pretty') {
-    streams.push({
-      level,
-      stream: pino.transport({
-        target: 'pino-pretty',
-        options: { colorize: true, destination: 1 },
-      }) as unknown as NodeJS.WritableStream,
-    });
+  const pending: (() => Promise<void>)[] = [];
+  if (mode === 'json') {
+    streams.push({ level, stream: stdoutStream });
+    pending.push(() => drained(stdoutStream));
   }
-  return pino(
+  if (mode === 'pretty') {
+    const pretty = pino.transport({ target: 'pino-pretty', options: { colorize: true, destination: 1 } });
+    streams.push({ level, stream: pretty as unknown as NodeJS.WritableStream });
+    pending.push(() => new Promise((resolve) => pretty.flush(() => resolve())));
+  }
+  const logger = pino(
     { level: logging.level, base: { app: 'driftlight' }, timestamp: pino.stdTimeFunctions.isoTime },
     pino.multistream(streams),
   );
+  flushers.set(logger, async () => {
+    await Promise.all(pending.map((flush) => flush()));
+  });
+  return logger;
 }

@@ -6,7 +6,7 @@ import type { Logger } from 'pino';
 import type { AnalysisJobPayload, AnalysisOutput } from '../analysis/payload.js';
 import type { DriftlightConfig } from '../config/resolve.js';
 import { coordinatorRunsWorker } from '../config/sections/queue.js';
-import { createLogger } from '../output/logger.js';
+import { createLogger, flushLogger } from '../output/logger.js';
 import { createJobQueue } from '../queue/index.js';
 import type { JobQueue } from '../queue/job-queue.js';
 import { openLedger, type Ledger } from '../store/ledger.js';
@@ -161,15 +161,8 @@ export function openPipeline(
       ledger.close();
       lock.release();
       logger.debug('ledger closed');
-      // Bounded: a flush callback that never fires must not keep the process from exiting.
-      await new Promise<void>((resolve) => {
-        const timer = setTimeout(resolve, 1000);
-        timer.unref();
-        logger.flush(() => {
-          clearTimeout(timer);
-          resolve();
-        });
-      });
+      // Bounded: a stream that never drains must not keep the process from exiting.
+      await flushLogger(logger);
     },
   };
 }
