@@ -185,9 +185,9 @@ async function runFitDecay(path: string, flags: FitDecayFlags): Promise<void> {
     fixed: flags.fix,
     scatter: flags.scatter === true,
     pileUpCorrection: flags.pileUpCorrection === true,
-    ...(flags.repetitionRateMhz === undefined ? {} : { repetitionRateHz: flags.repetitionRateMhz * 1e6 }),
-    ...(flags.range === undefined ? {} : { rangeNs: flags.range }),
-    ...(irfCounts === undefined ? {} : { irfCounts }),
+    repetitionRateHz: flags.repetitionRateMhz === undefined ? undefined : flags.repetitionRateMhz * 1e6,
+    rangeNs: flags.range,
+    irfCounts,
   });
   const reported = irfNote === undefined ? fit : { ...fit, warnings: [irfNote, ...fit.warnings] };
   process.stdout.write(

@@ -28,7 +28,7 @@ export function configFromText(text: string, path: string): DriftlightConfig {
     const line = firstError.linePos?.[0].line;
     throw new ConfigInvalid(`the config is not valid YAML: ${firstError.message.split('\n')[0] ?? ''}`, {
       file: path,
-      ...(line === undefined ? {} : { line }),
+      line,
       hint: 'Fix the YAML syntax at the named line (indentation, a missing colon or quote).',
     });
   }

@@ -10,35 +10,35 @@ export type ComponentChoice = 1 | 2 | 3 | 4 | 'auto';
 /** Options a caller writes; every field is optional. */
 export interface FitDecayOptions {
   /** Number of exponentials 1–4, or 'auto' (1–3 chosen by BIC and residual tests). Default 1. */
-  readonly components?: ComponentChoice;
+  readonly components?: ComponentChoice | undefined;
   /** 'ml' (Poisson deviance), 'lsq-neyman' (weights 1/max(n,1)) or 'lsq-pearson' (weights 1/m). Default 'ml'. */
-  readonly estimator?: Estimator;
+  readonly estimator?: Estimator | undefined;
   /** Fit range [startNs, endNs] on the channel start times, inclusive. Default: from the IRF rise (or the decay peak without IRF) to the end of the data. */
-  readonly rangeNs?: readonly [number, number];
+  readonly rangeNs?: readonly [number, number] | undefined;
   /** Parameters held at a value, e.g. { tau1Ns: 3.9 } (units as in the parameter name). Default none; scatter is fixed at 0 unless `scatter`. */
-  readonly fixed?: Partial<Record<ParameterName, number>>;
+  readonly fixed?: Partial<Record<ParameterName, number>> | undefined;
   /** Bounds [min, max] per parameter. Defaults: τ in [Δ/50, 1000·window] ns, component photons and background ≥ 0, shift within ±max(10Δ, 2·FWHM). */
-  readonly bounds?: Partial<Record<ParameterName, readonly [number, number]>>;
+  readonly bounds?: Partial<Record<ParameterName, readonly [number, number]>> | undefined;
   /** globalFit only: parameters shared by all decays. Default every lifetime. A single decay has nothing to link. */
-  readonly links?: readonly ParameterName[];
+  readonly links?: readonly ParameterName[] | undefined;
   /** IRF counts on the decay's channels; overrides decay.irfCounts. Without any IRF the tail is fitted. */
-  readonly irfCounts?: ArrayLike<number>;
+  readonly irfCounts?: ArrayLike<number> | undefined;
   /** Excitation repetition rate in Hz; overrides metadata. When known, earlier pulses are modelled. */
-  readonly repetitionRateHz?: number;
+  readonly repetitionRateHz?: number | undefined;
   /** Apply the Coates pile-up correction before fitting (needs collection time and repetition rate). Default false. */
-  readonly pileUpCorrection?: boolean;
+  readonly pileUpCorrection?: boolean | undefined;
   /** Start-value sets for 2+ components (true = 4, false = 1): peeled lifetimes, then spreads ranked by the objective at the start; the next is tried while the fit is not clean; the lowest objective wins. Default 4. */
-  readonly multiStart?: number | boolean;
+  readonly multiStart?: number | boolean | undefined;
   /** Fit a scatter term (a fraction of the IRF added to the model). Default false. */
-  readonly scatter?: boolean;
+  readonly scatter?: boolean | undefined;
   /** Confidence level of the profile intervals (0.6827 ↔ Δdeviance = 1). Default 0.6827. */
-  readonly confidenceLevel?: number;
+  readonly confidenceLevel?: number | undefined;
   /** Compute profile (support-plane) intervals for each free lifetime. Default true. */
-  readonly profileIntervals?: boolean;
+  readonly profileIntervals?: boolean | undefined;
   /** Iteration cap of the Levenberg–Marquardt loop. Default 200. */
-  readonly maxIterations?: number;
+  readonly maxIterations?: number | undefined;
   /** IRF within a channel: 'second-order' (Catmull–Rom shift and Δ²/12 flat-channel correction, bias O(Δ⁴)) or 'flat' (piecewise-constant IRF, linear shift, bias O(Δ²)); docs/decay.md. Default 'second-order'. */
-  readonly irfWithinChannel?: 'flat' | 'second-order';
+  readonly irfWithinChannel?: 'flat' | 'second-order' | undefined;
 }
 
 const parameterName = z.enum(PARAMETER_NAMES as [ParameterName, ...ParameterName[]]);

@@ -4,15 +4,15 @@ import { ERROR_CODES, type ErrorCode } from './error-codes.js';
 
 export interface ErrorLocation {
   /** Input file path or name, when known. */
-  readonly file?: string;
+  readonly file?: string | undefined;
   /** 1-based line number in the file, when the problem is on one line. */
-  readonly line?: number;
+  readonly line?: number | undefined;
   /** Config path such as `controls[0].targetYield`, for config errors. */
-  readonly configPath?: string;
+  readonly configPath?: string | undefined;
 }
 
 export interface ErrorDetails extends ErrorLocation {
-  readonly hint?: string;
+  readonly hint?: string | undefined;
   readonly cause?: unknown;
 }
 

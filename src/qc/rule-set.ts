@@ -100,7 +100,7 @@ export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
     throw new ConfigInvalid(`not valid YAML: ${yamlError.message.split('\n')[0] ?? ''}`, {
       file: sourceName,
       hint: 'Fix the YAML syntax at the named line (indentation, a missing colon or quote).',
-      ...(line === undefined ? {} : { line }),
+      line,
     });
   }
   const problems: Problem[] = [];
@@ -144,7 +144,7 @@ export function parseRuleSet(yamlText: string, sourceName: string): RuleSet {
       file: sourceName,
       hint: 'Fix the named entry of the rule file (docs/qc.md lists every kind and parameter); `driftlight rules check FILE` validates it.',
       configPath: path,
-      ...(offset === undefined ? {} : { line: lineCounter.linePos(offset).line }),
+      line: offset === undefined ? undefined : lineCounter.linePos(offset).line,
     });
   }
   return Object.freeze(ruleSet);

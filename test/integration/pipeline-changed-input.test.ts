@@ -62,8 +62,10 @@ function onlyResult(
   superseded: { file: string; sha256: string }[];
 } {
   const mine = readResults(dir).filter((r) => r.result.sampleId === sampleId);
-  if (mine.length !== 1) throw new Error(`expected one result for ${sampleId}, found ${mine.length}`);
-  const result = mine[0]?.result ?? {};
+  const only = mine[0];
+  if (mine.length !== 1 || only === undefined)
+    throw new Error(`expected one result for ${sampleId}, found ${mine.length}`);
+  const result = only.result;
   const provenance = result['provenance'] as {
     inputs: { part: string; sha256: string }[];
     supersededInputs?: { file: string; sha256: string }[];

@@ -73,9 +73,10 @@ describe('baselines', () => {
     const { history, latest } = lastOf([...old, ...shifted, ...yields([0.855], 10)]);
     // Without a rebaseline, 0.855 is far below the old mean.
     expect(evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet })).toHaveLength(1);
-    const restart = [{ controlId: 'flu', metric: 'controlQuantumYield' as const, fromIso: dayIso(5) }];
+    const restartRecord = { controlId: 'flu', metric: 'controlQuantumYield' as const, fromIso: dayIso(5) };
+    const restart = [restartRecord];
     expect(evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet, baselines: restart })).toEqual([]);
-    const stored = [{ ...restart[0], fromIso: dayIso(5), mean: 0.92, sd: 0.01, runs: 20, throughIso: dayIso(9) }];
+    const stored = [{ ...restartRecord, fromIso: dayIso(5), mean: 0.92, sd: 0.01, runs: 20, throughIso: dayIso(9) }];
     expect(
       evaluateRules({ history, observation: latest, ruleSet: firstNRuleSet, baselines: stored }).map(
         (f) => f.values['mean'],
