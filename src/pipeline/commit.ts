@@ -1,6 +1,7 @@
 // Committing finished jobs, in the order that makes a crash at any moment recoverable:
 // result JSONs (atomic, fsynced) → outbox files → ledger transaction (sets done, results index,
-// files done; durable: the WAL is fsynced before any file moves) → archive moves, whose new paths
+// files done and listed for the archive re-check of version-watch.ts; durable: the WAL is fsynced
+// before any file moves) → archive moves, whose new paths
 // are recorded in the next batch's transaction (or on their own when no batch follows at once).
 // Jobs finishing together are committed as one batch. Until a move is recorded, dispatch finds the
 // moved copy by its sha256 (dispatch.ts readInput), and so does recovery after a crash.
@@ -23,6 +24,7 @@ import {
   type FileRecord,
 } from '../store/files.js';
 import { upsertResult, type ResultIndexRecord } from '../store/results.js';
+import { addArchiveRechecks } from '../store/file-versions.js';
 import { markSetDone, markSetFailed } from '../store/sets.js';
 import { uniqueTarget } from '../output/dated-path.js';
 import { acquisitionEpochMs } from '../model/acquisition-time.js';
@@ -163,6 +165,8 @@ export async function commitResults(
         });
         setFilesOfSetState(ledger, result.setId, 'done', now);
         for (const { file, reason } of rejected) setFileError(ledger, file.id, 'rejected', reason, now);
+        // Before the moves: a file that grows after its move, even after a crash, is looked at again.
+        addArchiveRechecks(ledger, result.setId, now);
       }
     });
   }

@@ -85,7 +85,7 @@ export class Coordinator {
       release: (jobId) => this.dispatcher.release(jobId),
       afterBatch: () => this.dispatcher.dispatchWaiting(),
       retake: (paths) => this.versions.retakeWhenStable(paths),
-      archived: (moves) => this.versions.recheckLater(moves),
+      archivedChanged: (files) => this.versions.takeArchivedWhenStable(files),
     });
     this.versions = new VersionWatch({
       config,
@@ -133,7 +133,12 @@ export class Coordinator {
     return this.commits.heldCount;
   }
 
-  /** Crash recovery: finishes (or finds) interrupted moves of done/failed files, then re-enqueues queued sets (whose payloads may borrow those files). */
+  /** Stops the coordinator's own timers (the archive re-check; files still listed are looked at from the next start). */
+  close(): void {
+    this.versions.close();
+  }
+
+  /** Crash recovery: finishes (or finds) interrupted moves of done/failed files, starts the archive re-check (version-watch.ts), then re-enqueues queued sets (whose payloads may borrow those files). */
   async recover(): Promise<void> {
     const moves = recoverMoves(this.ledger, this.config, this.clock());
     if (moves.moved + moves.relocated > 0)
@@ -146,7 +151,7 @@ export class Coordinator {
         { files: moves.failed, err: moves.firstError },
         'recovery: files could not be moved to the archive or quarantine; they stay in the inbox and are tried again (watch: every watch.rescanIntervalMs)',
       );
-    this.versions.recheckRecentlyArchived();
+    this.versions.startArchiveRechecks();
     const queued = queuedSetJobs(this.ledger);
     for (const { id, jobId } of queued) await this.dispatcher.enqueue(id, jobId ?? id);
     this.assembly.reload();

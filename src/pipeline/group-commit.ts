@@ -66,8 +66,8 @@ export interface GroupCommitOptions {
   readonly schedule?: Scheduler;
   /** Inputs found changed on disk at commit: taken again once stable (input-versions.ts); none by default. */
   readonly retake?: (paths: readonly string[]) => void;
-  /** Files just moved to the archive: looked at once more later (a writer holding a file open). */
-  readonly archived?: (moves: readonly ArchivedFile[]) => void;
+  /** Archived inputs (taken again from their archived copy) found changed at commit: taken as a new version once stable (version-watch.ts). */
+  readonly archivedChanged?: (files: readonly ArchivedFile[]) => void;
 }
 
 export class GroupCommit {
@@ -252,7 +252,10 @@ export class GroupCommit {
             { files: changed.map((f) => f.name) },
             'an input changed after it was read; not committed: it is taken again once stable, and the set runs again',
           );
-          this.options.retake?.(changed.map((f) => f.path));
+          this.options.retake?.(changed.filter((f) => f.archivePath === null).map((f) => f.path));
+          this.options.archivedChanged?.(
+            changed.flatMap((f) => (f.archivePath === null ? [] : [{ id: f.id, archivePath: f.archivePath }])),
+          );
           entry.resolve();
           continue;
         }
@@ -306,7 +309,6 @@ export class GroupCommit {
       );
       outcomes = done.outcomes;
       this.unrecordedMoves.push(...done.unrecordedMoves);
-      this.options.archived?.(done.unrecordedMoves);
     } catch (error) {
       // The transaction rolled back: the carried moves are still unrecorded.
       this.unrecordedMoves.unshift(...carried);

@@ -1,11 +1,12 @@
 // Inputs that change at their path after they were read (issue 20): a writer that pauses longer than
 // the stability window, or a file rewritten in place. Before a result is committed the set's own
-// inputs still in the inbox are checked against what was analysed (size, then sha256); a changed
+// inputs (in the inbox, or archived) are checked against what was analysed (size, then sha256); a changed
 // input is taken again, once it is stable, as a new version of the same file in the same set, which
 // is then run again: its result replaces the earlier one (same set id, same result file) and lists
 // the versions it supersedes in provenance.supersededInputs. Never a second set for the sample.
-// Files moved to the archive are watched for a while too (a writer holding the file open goes on
-// writing into the archived copy).
+// Files moved to the archive are looked at for a while too (a writer holding the file open goes on
+// writing into the archived copy): they are listed in the ledger (archive_rechecks) in the commit's
+// transaction, before the move, so a crash does not lose the look (version-watch.ts).
 import { createHash } from 'node:crypto';
 import { closeSync, openSync, readSync, statSync } from 'node:fs';
 import type { AnalysisResult, SupersededInput } from '../analysis/result.js';
@@ -43,21 +44,23 @@ function ownInputs(ledger: Ledger, setId: string): FileRecord[] {
 }
 
 /**
- * The own inputs of `setId` still in the inbox whose bytes are no longer those recorded: a different
- * size, or the same size and a different sha256. A file gone from the inbox is not reported (it was
- * moved away; the commit and recovery deal with that).
+ * The own inputs of `setId` whose bytes are no longer those recorded, where each is now (the inbox,
+ * or the archive for an input taken again from its archived copy): a different size, or the same
+ * size and a different sha256. A file gone is not reported (it was moved away; the commit and
+ * recovery deal with that), nor a quarantined one.
  */
 export function inputsChangedOnDisk(ledger: Ledger, setId: string): FileRecord[] {
   const changed: FileRecord[] = [];
   for (const file of ownInputs(ledger, setId)) {
-    if (file.archivePath !== null || file.quarantinePath !== null) continue;
-    const stat = statSync(file.path, { throwIfNoEntry: false });
+    if (file.quarantinePath !== null) continue;
+    const where = file.archivePath ?? file.path;
+    const stat = statSync(where, { throwIfNoEntry: false });
     if (stat === undefined || !stat.isFile()) continue;
     if (stat.size !== file.sizeBytes) {
       changed.push(file);
       continue;
     }
-    const sha256 = sha256OfPath(file.path);
+    const sha256 = sha256OfPath(where);
     if (sha256 !== undefined && sha256 !== file.sha256) changed.push(file);
   }
   return changed;
@@ -153,37 +156,16 @@ export function replacementReason(state: string): string {
 }
 
 /**
- * How long after its archive move a file is looked at once more, in ms: a writer that held the file
- * open and paused longer than the stability window goes on writing into the archived copy (a move
- * within one file system keeps the open file). 10 stability windows, at least 5 s.
+ * How long a file moved to the archive is looked at for, in ms of `watch` running time after its move
+ * was recorded (a restart gives every file still listed a full window again): a writer that held
+ * the file open and paused longer than the stability window goes on writing into the archived copy
+ * (a move within one file system keeps the open file). 10 stability windows, at least 5 s.
  */
 export function archiveRecheckMs(stabilityWindowMs: number): number {
   return Math.max(5000, 10 * stabilityWindowMs);
 }
 
-/** Size and modification time of a moved file right after its move, to compare later. */
-export interface ArchivedStat {
-  readonly fileId: number;
-  readonly path: string;
-  readonly sizeBytes: number;
-  readonly mtimeMs: number;
-}
-
-/** Stats files just moved to the archive (skipping any already gone). */
-export function statArchived(moves: readonly { id: number; archivePath: string }[]): ArchivedStat[] {
-  const out: ArchivedStat[] = [];
-  for (const move of moves) {
-    const stat = statSync(move.archivePath, { throwIfNoEntry: false });
-    if (stat !== undefined)
-      out.push({ fileId: move.id, path: move.archivePath, sizeBytes: stat.size, mtimeMs: stat.mtimeMs });
-  }
-  return out;
-}
-
-/** The archived files among `stats` whose size or modification time changed since. */
-export function changedSinceArchived(stats: readonly ArchivedStat[]): ArchivedStat[] {
-  return stats.filter((s) => {
-    const now = statSync(s.path, { throwIfNoEntry: false });
-    return now !== undefined && (now.size !== s.sizeBytes || now.mtimeMs !== s.mtimeMs);
-  });
+/** How often the files in their archive re-check window are looked at (one stat each), in ms: half a stability window, at least watch.pollIntervalMs. */
+export function archiveRecheckIntervalMs(stabilityWindowMs: number, pollIntervalMs: number): number {
+  return Math.max(pollIntervalMs, Math.floor(stabilityWindowMs / 2));
 }

@@ -6,7 +6,8 @@
 // own, so a power cut just after the moves can leave a done (or rejected) file that is neither in the
 // inbox nor recorded where it went. Such a file is looked for in the folder it was moved to (archive
 // by first-seen day, quarantine by the day of its error), under its name and the `~N` names a move
-// takes when the name is in use, and matched by sha256; its location is then recorded. Without this,
+// takes when the name is in use, and matched by sha256 (or, for an archived file a writer went on
+// writing after the move, by the sha256 of its first bytes); its location is then recorded. Without this,
 // a later set could not borrow such an IRF or blank (INPUT_MISSING).
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
@@ -32,25 +33,38 @@ export interface MoveRecovery {
 /** Most `~N` names looked at per file (uniqueTarget takes the smallest free N, so they run without gaps). */
 const MAX_SUFFIX = 10_000;
 
-/** The copy of `file` (same sha256) in `dir` under its name or a `~N` name (numberedName, as uniqueTarget gives them), if any. */
-export function findMovedCopy(dir: string, file: Pick<FileRecord, 'name' | 'sha256'>): string | undefined {
+/**
+ * The copy of `file` (same sha256) in `dir` under its name or a `~N` name (numberedName, as
+ * uniqueTarget gives them), if any. With `grown`, also a copy longer than `file.sizeBytes` whose
+ * first `sizeBytes` bytes have its sha256: a file a writer held open and went on writing after its move.
+ */
+export function findMovedCopy(
+  dir: string,
+  file: Pick<FileRecord, 'name' | 'sha256'> & { readonly sizeBytes?: number },
+  options: { grown?: boolean } = {},
+): string | undefined {
+  const sizeBytes = file.sizeBytes;
   for (let n = 0; n <= MAX_SUFFIX; n++) {
     const candidate = join(dir, numberedName(file.name, n));
     if (!existsSync(candidate)) {
       if (n > 0) return undefined;
       continue;
     }
-    if (createHash('sha256').update(readFileSync(candidate)).digest('hex') === file.sha256) return candidate;
+    const bytes = readFileSync(candidate);
+    const grown = options.grown === true && sizeBytes !== undefined && bytes.byteLength > sizeBytes;
+    const head = grown ? bytes.subarray(0, sizeBytes) : bytes;
+    if (createHash('sha256').update(head).digest('hex') === file.sha256) return candidate;
   }
   return undefined;
 }
 
-/** The archived copy of a done file whose archive path is not recorded: findMovedCopy in the archive folder the commit moved it to. */
+/** The archived copy of a done file whose archive path is not recorded: findMovedCopy in the archive folder the commit moved it to (`grown`: see findMovedCopy). */
 export function findArchivedCopy(
   config: DriftlightConfig,
-  file: Pick<FileRecord, 'name' | 'sha256' | 'firstSeenAt'>,
+  file: Pick<FileRecord, 'name' | 'sha256' | 'firstSeenAt'> & { readonly sizeBytes?: number },
+  options: { grown?: boolean } = {},
 ): string | undefined {
-  return findMovedCopy(archiveFolderOf(config, file), file);
+  return findMovedCopy(archiveFolderOf(config, file), file, options);
 }
 
 /**
@@ -78,7 +92,9 @@ export function recoverMoves(ledger: Ledger, config: DriftlightConfig, now: Date
         moved += 1;
         return;
       }
-      const copy = findArchivedCopy(config, file);
+      // A copy that grew after its move (a writer held the file open) is its copy too: the archive
+      // re-check (listed at commit) then takes the whole file as a new version.
+      const copy = findArchivedCopy(config, file) ?? findArchivedCopy(config, file, { grown: true });
       if (copy !== undefined) {
         ledger.transaction(() => setFileLocation(ledger, file.id, { archivePath: copy }, now));
         relocated += 1;

@@ -154,6 +154,7 @@ export function openPipeline(
     async close() {
       if (closed) return;
       closed = true;
+      coordinator.close();
       await queue.close();
       logger.debug('queue closed');
       await Promise.all(stages.map((stage) => stage.idle?.()));

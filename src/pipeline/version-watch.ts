@@ -1,24 +1,20 @@
 // Taking changed inputs again (issue 20; the checks are in input-versions.ts): an input found
 // changed on disk at commit is taken again once it has been stable for the stability window, and a
-// file moved to the archive is looked at once more archiveRecheckMs later (a writer that held it
-// open and paused goes on writing into the archived copy; after a restart, files archived shortly
-// before are looked at). Either way the new bytes become the file's new version and its set runs
-// again; a new version that intake rejects (or a file gone) makes the set run without that input.
+// file moved to the archive is looked at for archiveRecheckMs of running time after its move (a
+// writer that held it open and paused goes on writing into the archived copy). The files to look at
+// are listed in the ledger (archive_rechecks, written in the commit's transaction before the move),
+// so a crash or stop loses none: at start each file still listed gets a full window again. Either
+// way the new bytes become the file's new version and its set runs again; a new version that intake
+// rejects (or a file gone) makes the set run without that input.
 import { readFileSync, statSync } from 'node:fs';
 import type { Logger } from 'pino';
 import type { DriftlightConfig } from '../config/resolve.js';
 import type { Ledger } from '../store/ledger.js';
 import { filesByPath, getFile, setFileError, setFileLocation, type FileFacts } from '../store/files.js';
 import { getSet } from '../store/sets.js';
-import { recentlyArchivedFiles, replaceFileVersion } from '../store/file-versions.js';
+import { archiveRechecks, removeArchiveRechecks, replaceFileVersion } from '../store/file-versions.js';
 import type { ArchivedFile } from './commit.js';
-import {
-  archiveRecheckMs,
-  changedSinceArchived,
-  replacementReason,
-  sha256OfPath,
-  statArchived,
-} from './input-versions.js';
+import { archiveRecheckIntervalMs, archiveRecheckMs, replacementReason, sha256OfPath } from './input-versions.js';
 import type { JobDispatcher } from './job-dispatcher.js';
 import type { OpenSet } from './open-sets.js';
 import type { SetAssembly } from './set-assembly.js';
@@ -43,6 +39,10 @@ export class VersionWatch {
   /** Archived copies that changed after their move, until stable; the file id of each. */
   private readonly archivedChanges: StableFiles;
   private readonly archivedIds = new Map<string, number>();
+  /** End of the re-check window of each listed archived file (epoch ms), by file id, with the listing it belongs to. */
+  private readonly windows = new Map<number, { addedAt: string; untilMs: number }>();
+  private recheckTimer: NodeJS.Timeout | undefined;
+  private closed = false;
 
   constructor(private readonly options: VersionWatchOptions) {
     const { watch } = options.config;
@@ -79,9 +79,9 @@ export class VersionWatch {
     );
   }
 
-  /** Whether changed inputs wait to be taken again (drain waits for them: their sets are still queued). */
+  /** Whether changed inputs (in the inbox or the archive) wait to be taken again (drain waits for them: their sets may still be queued). */
   get busy(): boolean {
-    return this.retakes.size > 0 || this.retaking > 0;
+    return this.retakes.size > 0 || this.retaking > 0 || this.archivedChanges.size > 0;
   }
 
   /** Takes `paths` again once each has been stable for the stability window. */
@@ -89,40 +89,76 @@ export class VersionWatch {
     for (const path of paths) this.retakes.touch(path);
   }
 
-  /** Looks once more at files just archived, archiveRecheckMs later: a copy changed since is taken as a new version once stable. */
-  recheckLater(moves: readonly ArchivedFile[]): void {
-    if (moves.length === 0) return;
-    const stats = statArchived(moves);
-    const timer = setTimeout(() => {
-      for (const changed of changedSinceArchived(stats)) this.watchArchived(changed.path, changed.fileId);
-    }, archiveRecheckMs(this.options.config.watch.stabilityWindowMs));
-    timer.unref();
-  }
-
   /**
-   * At start: files archived within archiveRecheckMs before a crash or stop lost their pending look
-   * (recheckLater is in memory). One whose size is no longer the recorded one is taken as a new
-   * version once stable; the others are looked at once more later.
+   * Starts looking at the files listed for an archive re-check (at start: each gets a full window
+   * from now), every archiveRecheckIntervalMs: one stat each while its window lasts. A file whose
+   * size is no longer the recorded one is taken, once stable, as a new version; when its window
+   * ends, its sha256 is compared too (a change of the same size) and the listing is removed.
    */
-  recheckRecentlyArchived(): void {
-    const since = new Date(
-      this.options.clock().getTime() - archiveRecheckMs(this.options.config.watch.stabilityWindowMs),
-    ).toISOString();
-    const unchanged: ArchivedFile[] = [];
-    for (const file of recentlyArchivedFiles(this.options.ledger, since)) {
-      const path = file.archivePath ?? '';
-      const stat = statSync(path, { throwIfNoEntry: false });
-      if (stat === undefined) continue;
-      if (stat.size !== file.sizeBytes) this.watchArchived(path, file.id);
-      else unchanged.push({ id: file.id, archivePath: path });
-    }
-    this.recheckLater(unchanged);
+  startArchiveRechecks(): void {
+    if (this.closed || this.recheckTimer !== undefined) return;
+    const { watch } = this.options.config;
+    this.recheckArchived();
+    this.recheckTimer = setInterval(
+      () => this.recheckArchived(),
+      archiveRecheckIntervalMs(watch.stabilityWindowMs, watch.pollIntervalMs),
+    );
+    this.recheckTimer.unref();
   }
 
-  /** Stops the timers (pending rechecks are dropped: the next start looks at recent archive moves). */
+  /** Archived inputs found changed at commit (taken again from their archived copy): taken as a new version once stable. */
+  takeArchivedWhenStable(files: readonly ArchivedFile[]): void {
+    for (const file of files) this.watchArchived(file.archivePath, file.id);
+  }
+
+  /** Stops the timers (the files listed for a re-check stay listed: the next start looks at them). */
   close(): void {
+    this.closed = true;
+    if (this.recheckTimer !== undefined) clearInterval(this.recheckTimer);
+    this.recheckTimer = undefined;
     this.retakes.close();
     this.archivedChanges.close();
+  }
+
+  /** One look at every file listed for an archive re-check (see startArchiveRechecks); a failure is logged and the next look tries again. */
+  private recheckArchived(): void {
+    if (this.closed) return;
+    const { ledger, config, logger } = this.options;
+    try {
+      const nowMs = Date.now();
+      const windowMs = archiveRecheckMs(config.watch.stabilityWindowMs);
+      const finished: { id: number; addedAt: string }[] = [];
+      const listed = new Set<number>();
+      for (const file of archiveRechecks(ledger)) {
+        listed.add(file.id);
+        // Taken again (a new version, a rejection): its set's next commit lists it again if it is archived then.
+        if (file.state !== 'done') {
+          finished.push(file);
+          continue;
+        }
+        // Not moved yet (an archive outage): its window starts once the move is recorded.
+        if (file.archivePath === null || this.archivedIds.has(file.archivePath)) continue;
+        let window = this.windows.get(file.id);
+        if (window?.addedAt !== file.addedAt) {
+          window = { addedAt: file.addedAt, untilMs: nowMs + windowMs };
+          this.windows.set(file.id, window);
+        }
+        const stat = statSync(file.archivePath, { throwIfNoEntry: false });
+        if (stat === undefined) {
+          finished.push(file);
+        } else if (stat.size !== file.sizeBytes) {
+          this.watchArchived(file.archivePath, file.id);
+        } else if (nowMs >= window.untilMs) {
+          if (sha256OfPath(file.archivePath) === file.sha256) finished.push(file);
+          else this.watchArchived(file.archivePath, file.id);
+        }
+      }
+      for (const id of this.windows.keys()) if (!listed.has(id)) this.windows.delete(id);
+      for (const file of finished) this.windows.delete(file.id);
+      removeArchiveRechecks(ledger, finished);
+    } catch (error) {
+      logger.error({ err: error }, 'archived inputs could not be looked at again; tried again shortly');
+    }
   }
 
   private watchArchived(path: string, fileId: number): void {

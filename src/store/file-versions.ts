@@ -117,17 +117,43 @@ export function reopenSet(ledger: Ledger, setId: string, deadlineAt: Date): void
     .run(deadlineAt.toISOString(), setId);
 }
 
-/** Done files moved to the archive (recorded) since `sinceIso`: what a restart looks at once more. */
-export function recentlyArchivedFiles(
-  ledger: Ledger,
-  sinceIso: string,
-): Pick<FileRecord, 'id' | 'archivePath' | 'sizeBytes'>[] {
-  const rows = ledger
+/**
+ * Lists the own data files of the done set `setId` (not quarantined) for an archive re-check (inside
+ * the commit's transaction, before the files are moved): a writer that held one open may go on
+ * writing into the archived copy. A file already listed starts over (`added_at` = `now`).
+ */
+export function addArchiveRechecks(ledger: Ledger, setId: string, now: Date): void {
+  ledger
     .prepare(
-      `SELECT id, archive_path, size_bytes FROM files WHERE state = 'done' AND archive_path IS NOT NULL AND updated_at >= ?`,
+      `INSERT OR REPLACE INTO archive_rechecks (file_id, added_at)
+    SELECT id, ? FROM files WHERE set_id = ? AND state = 'done' AND data_type IN ('spectrum', 'decay') AND quarantine_path IS NULL`,
     )
-    .all(sinceIso) as { id: number; archive_path: string; size_bytes: number }[];
-  return rows.map((row) => ({ id: row.id, archivePath: row.archive_path, sizeBytes: row.size_bytes }));
+    .run(now.toISOString(), setId);
+}
+
+/** A file listed for an archive re-check, with what the ledger says was analysed (size, sha256) and where it is now. */
+export type ArchiveRecheck = Pick<FileRecord, 'id' | 'state' | 'archivePath' | 'sizeBytes' | 'sha256'> & {
+  /** When it was listed (a new listing of the same file starts a new window). */
+  readonly addedAt: string;
+};
+
+/** Every file listed for an archive re-check, oldest listing first. */
+export function archiveRechecks(ledger: Ledger): ArchiveRecheck[] {
+  return ledger
+    .prepare(
+      `SELECT f.id, f.state, f.archive_path AS archivePath, f.size_bytes AS sizeBytes, f.sha256, r.added_at AS addedAt
+    FROM archive_rechecks r JOIN files f ON f.id = r.file_id ORDER BY r.added_at, r.file_id`,
+    )
+    .all() as ArchiveRecheck[];
+}
+
+/** Ends the archive re-check of the files `done` (each listed at the matching `addedAt`: a file listed again since keeps its new listing). */
+export function removeArchiveRechecks(ledger: Ledger, done: readonly { id: number; addedAt: string }[]): void {
+  if (done.length === 0) return;
+  const remove = ledger.prepare('DELETE FROM archive_rechecks WHERE file_id = ? AND added_at = ?');
+  ledger.transaction(() => {
+    for (const { id, addedAt } of done) remove.run(id, addedAt);
+  });
 }
 
 /** Queued sets with the job id each was queued under (recovery re-enqueues each under it: a set run again after a new input version has `SETID~vN`), oldest first. */
