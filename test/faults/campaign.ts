@@ -343,9 +343,9 @@ export async function runCampaign(
   const expectedIds = new Set(planned.map((p) => p.set.sampleId));
   try {
     await waitFor('the final watch to start', () => watchingLines() > before, 60_000);
-    // A running watch looks at archived copies again after archiveRecheckMs (>= 5 s): a writer that
-    // kept writing into a moved file is taken as a new version only then, so wait for that too and
-    // count as stale only what is still stale when the wait ends.
+    // A running watch looks at archived copies for archiveRecheckMs (>= 5 s) of its running time
+    // after their move: a writer that kept writing into a moved file is taken as a new version once
+    // it is stable, so wait for that too and count as stale only what is still stale when the wait ends.
     await waitFor(
       'every set to have a result from its final bytes and the inbox to be empty',
       () => {
