@@ -72,6 +72,20 @@ export default tseslint.config(
     },
   },
   {
+    // SQL lives in src/store/ behind typed queries: no other module reaches the ledger's database or statements.
+    files: ['src/**/*.ts'],
+    ignores: ['src/store/**'],
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: "MemberExpression[property.name='database'], MemberExpression[property.name='prepare']",
+          message: 'SQL belongs in src/store/: add or use a typed query there.',
+        },
+      ],
+    },
+  },
+  {
     files: ['**/*.js'],
     ...tseslint.configs.disableTypeChecked,
   },

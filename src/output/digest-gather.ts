@@ -27,6 +27,7 @@ import {
   waitingSets,
 } from '../store/report-queries.js';
 import { resultsBetween } from '../store/results.js';
+import { getSet } from '../store/sets.js';
 import { controlChartsFromLedger } from './chart-source.js';
 import { dayFolderName } from './dated-path.js';
 import {
@@ -196,7 +197,6 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
 
   const notes: string[] = [];
   const indexRows = resultsBetween(ledger, new Date(fromMs), new Date(toMs));
-  const createdAtOf = ledger.database.prepare('SELECT created_at FROM sets WHERE id = ?');
   const results: { result: AnalysisResult; createdAt: string | undefined; path: string }[] = [];
   for (const row of indexRows) {
     const result = readJson(row.path);
@@ -204,8 +204,7 @@ export function gatherDigest(ledger: Ledger, config: DriftlightConfig, options: 
       notes.push(`result ${row.path} could not be read`);
       continue;
     }
-    const created = createdAtOf.get(row.setId) as { created_at: string } | undefined;
-    results.push({ result, createdAt: created?.created_at, path: row.path });
+    results.push({ result, createdAt: getSet(ledger, row.setId)?.createdAt, path: row.path });
   }
   const byRole: Record<string, number> = {};
   for (const { result } of results) byRole[result.role] = (byRole[result.role] ?? 0) + 1;

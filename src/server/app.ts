@@ -9,6 +9,7 @@ import type { DriftlightConfig } from '../config/index.js';
 import type { RuleSet } from '../qc/index.js';
 import { digestFolder } from '../output/digest-write.js';
 import type { Ledger } from '../store/ledger.js';
+import { ledgerAnswers } from '../store/status.js';
 import { createMetricsRegistry } from './metrics.js';
 import { gatherStatus, latestDigestDate } from './status-data.js';
 import { renderStatusPage } from './status-page.js';
@@ -81,10 +82,9 @@ export function buildStatusApp(options: StatusAppOptions): FastifyInstance {
   });
 
   app.get('/healthz', async (_request, reply) => {
-    const row = ledger.database.prepare('SELECT 1 AS ok').get() as { ok: number } | undefined;
     return reply
       .type('application/json; charset=utf-8')
-      .send({ status: row?.ok === 1 ? 'ok' : 'ledger unreadable', version: options.softwareVersion });
+      .send({ status: ledgerAnswers(ledger) ? 'ok' : 'ledger unreadable', version: options.softwareVersion });
   });
   app.get('/metrics', async (_request, reply) => reply.type(registry.contentType).send(await registry.metrics()));
   app.get('/', async (_request, reply) => {

@@ -82,3 +82,9 @@ export function ledgerStatus(ledger: Ledger, errorLimit = 5): LedgerStatus {
         }),
   };
 }
+
+/** True when the ledger answers a trivial query (`SELECT 1`), for the health check. */
+export function ledgerAnswers(ledger: Ledger): boolean {
+  const row = ledger.prepare('SELECT 1 AS ok').get() as { ok: number } | undefined;
+  return row?.ok === 1;
+}
