@@ -5,6 +5,7 @@
 import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import { reopenLogFiles } from '../output/logger.js';
+import { EmptyInboxFolders } from '../pipeline/empty-folders.js';
 import { batchStableFiles } from '../pipeline/intake-batcher.js';
 import { missingFolders, openPipeline, requiredFolders, type Pipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
@@ -64,7 +65,10 @@ export async function runWatch(
   // again every watch.rescanIntervalMs while they are still in the inbox, and file moves that
   // failed after their commit (archive or quarantine folder not writable) are finished then too.
   const intakeAgain = new Set<string>();
+  // Folders emptied of the files taken (an instrument's day folders) are removed once quiet.
+  const emptyFolders = new EmptyInboxFolders(config.folders.inbox, config.watch.stabilityWindowMs, logger);
   const intake = async (paths: readonly string[]): Promise<void> => {
+    for (const path of paths) emptyFolders.taken(path);
     for (const path of await coordinator.intakeMany(paths)) intakeAgain.add(path);
   };
   // The inbox or results folder vanishing while running (a share unmounted) is an error logged once
@@ -93,6 +97,7 @@ export async function runWatch(
     if (paths.length > 0) serial(() => intake(paths));
     serial(async () => {
       coordinator.repairMoves();
+      emptyFolders.sweep(Date.now());
     });
   }, config.watch.rescanIntervalMs);
   const watcher = watchInbox(config.folders.inbox, config.watch, {
