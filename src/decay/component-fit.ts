@@ -62,7 +62,7 @@ export function datasetModelFor(prepared: PreparedDecay, components: number): Da
   });
 }
 
-/** Default bounds of one local slot (see FitDecayOptions.bounds). */
+/** Default bounds of one local slot (see FitDecayOptions.bounds); the background is unbounded below (positivity only) when earlier pulses are modelled. */
 function defaultBounds(slot: number, components: number, prepared: PreparedDecay): [number, number] {
   const windowNs = prepared.counts.length * prepared.channelWidthNs;
   if (slot < components) return [prepared.channelWidthNs / 50, 1000 * windowNs];
@@ -70,6 +70,10 @@ function defaultBounds(slot: number, components: number, prepared: PreparedDecay
     const limit = Math.max(10 * prepared.channelWidthNs, 2 * (prepared.irfFwhmNs ?? 0));
     return [-limit, limit];
   }
+  // With earlier pulses modelled, b ≥ 0 censors the τ–background trade-off and biases τ low (issue 17.1):
+  // the background may go below 0 as far as the model stays positive (fit-problem.ts, POSITIVITY_FLOOR_COUNTS).
+  if (slot === 2 * components + 1 && prepared.periodNs !== undefined)
+    return [Number.NEGATIVE_INFINITY, Number.POSITIVE_INFINITY];
   return [0, Number.POSITIVE_INFINITY];
 }
 
@@ -130,6 +134,7 @@ export function buildLayout(
       counts: prepared.counts.subarray(prepared.range.firstChannel, prepared.range.endChannel),
       freeIndex,
       fixedValues,
+      backgroundSlot: localSlotOf('backgroundPerChannel', components),
     };
   });
   return { labels, lower: Float64Array.from(lower), upper: Float64Array.from(upper), terms };

@@ -4,17 +4,18 @@
 // above TAIL_END_FRACTION of its peak at the end of the window, or counts before the rise well above the
 // fitted background, say that earlier pulses may be in the data: the lifetime is then biased (a 4 ns dye
 // at 80 MHz came out ~10 % low) and the fit is flagged. With the rate known and τ long against the period,
-// the wrapped tail is nearly a constant and trades off against the background (see docs/decay.md).
+// the wrapped tail is nearly a constant and trades off against the background (see docs/decay.md): the
+// background may then go below 0 (component-fit.ts) and a poorly determined τ is not acceptable (acceptability.ts).
 
 /** The fitted decay must fall below this fraction of its peak by the window end (1 %; this project's choice). */
 export const TAIL_END_FRACTION = 0.01;
 /** Pre-rise excess over the fitted background, in Poisson standard errors, that counts as earlier-pulse light. */
 export const PRE_RISE_EXCESS_Z = 4;
 /**
- * Above this τ / period the periodic tail is nearly flat and trades off against a free background: measured
- * at 80 MHz, 10⁵ photons, 50 seeds (test/unit/decay/earlier-pulses.test.ts): τ = 5 ns +0.1 %, 6 ns −0.5 %
- * (−2.2 SE of the mean), 8 ns −1.0 %, 20 ns −7.7 % (−2.6 % at 10⁶ photons); the bias is the bound b ≥ 0 censoring
- * the τ–background trade-off (an independent scipy fit agrees), and freeing b trades it for an eightfold spread.
+ * Above this τ / period the periodic tail is nearly flat and trades off against a free background. With b held
+ * ≥ 0 that censored the trade-off and biased τ low (80 MHz, 10⁵ photons: 6 ns −0.5 %, 8 ns −1.0 %, 20 ns −6.4 %);
+ * the background may now go below 0 (component-fit.ts), which removes that bias but leaves τ poorly determined
+ * at 20 ns (spread ±60 %, mean +15 %, 1/τ unbiased; test/unit/decay/earlier-pulses.test.ts, docs/decay.md).
  */
 export const PERIODIC_BACKGROUND_DEGENERACY_RATIO = 0.4;
 
@@ -70,5 +71,5 @@ export function periodicBackgroundWarning(
   backgroundFree: boolean,
 ): string | undefined {
   if (!backgroundFree || tauNs <= PERIODIC_BACKGROUND_DEGENERACY_RATIO * periodNs) return undefined;
-  return `τ = ${tauNs.toPrecision(3)} ns is longer than ${PERIODIC_BACKGROUND_DEGENERACY_RATIO} × the pulse period (${periodNs.toPrecision(3)} ns): the tail of earlier pulses is nearly a constant and τ trades off against the free background, a degeneracy of the data, not of the fit (at 2.5 × the period and 10⁵ photons τ came out 8 % low with the background held ≥ 0; letting it go below 0 removes that bias but spreads τ about eight times wider; docs/decay.md); fix the background from a dark measurement (fit-decay --fix background=N) or lower the repetition rate`;
+  return `τ = ${tauNs.toPrecision(3)} ns is longer than ${PERIODIC_BACKGROUND_DEGENERACY_RATIO} × the pulse period (${periodNs.toPrecision(3)} ns): the tail of earlier pulses is nearly a constant and τ trades off against the free background, a degeneracy of the data, not of the fit; the background may go below 0 so that τ is not biased by a bound, but the longer τ is against the period, the worse τ is determined (at 2.5 × the period and 10⁵ photons: spread ±60 %, mean over repeats 15 % high, 1/τ unbiased; docs/decay.md); read the profile interval rather than ±SE; fix the background from a dark measurement (fit-decay --fix background=N) or lower the repetition rate`;
 }

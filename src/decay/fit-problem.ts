@@ -22,7 +22,15 @@ export interface DatasetTerm {
   readonly freeIndex: Int32Array;
   /** Per local slot: the value used when the slot is fixed. */
   readonly fixedValues: Float64Array;
+  /** Local slot of the background: while it is below 0, every channel of the model must stay ≥ POSITIVITY_FLOOR_COUNTS. */
+  readonly backgroundSlot: number;
 }
+
+/**
+ * Smallest expected count per fitted channel (counts) once the background is below 0: the Poisson likelihood
+ * needs m > 0 in every channel, not b ≥ 0 (issue 17.1); a step below this is rejected like a non-finite one.
+ */
+export const POSITIVITY_FLOOR_COUNTS = 1e-6;
 
 interface DatasetScratch {
   readonly local: Float64Array;
@@ -101,6 +109,10 @@ export class FitProblem implements SumOfSquaresObjective {
       const scratch = this.scratch[d] as DatasetScratch;
       this.fillLocal(term, scratch.local, parameters);
       term.model.evaluate(scratch.local, withDerivatives, scratch.model, scratch.jacobian);
+      if (belowPositivityFloor(term, scratch.local, scratch.model)) {
+        total = Number.NaN;
+        continue;
+      }
       if (!withDerivatives) {
         total += estimatorObjective(this.estimator, term.counts, scratch.countsLog, scratch.model);
         continue;
@@ -197,6 +209,13 @@ export class FitProblem implements SumOfSquaresObjective {
       if (free >= 0) local[j] = parameters[free] as number;
     }
   }
+}
+
+/** True when the background is below 0 and the model falls below POSITIVITY_FLOOR_COUNTS in some channel (outside the likelihood's domain). */
+function belowPositivityFloor(term: DatasetTerm, local: Float64Array, model: Float64Array): boolean {
+  if (!((local[term.backgroundSlot] as number) < 0)) return false;
+  for (let k = 0; k < model.length; k++) if (!((model[k] as number) >= POSITIVITY_FLOOR_COUNTS)) return true;
+  return false;
 }
 
 /** True when both vectors hold the same numbers (bit-level equality of finite values). */

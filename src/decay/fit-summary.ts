@@ -2,7 +2,7 @@
 // (inverse Fisher information) and profile intervals, mean lifetimes, goodness of fit, residual tests,
 // information criteria and warnings.
 import { datasetModelFor, type ComponentFit } from './component-fit.js';
-import { fitAcceptability } from './acceptability.js';
+import { degenerateWithBackground, fitAcceptability } from './acceptability.js';
 import { earlierPulseSuspicion, periodicBackgroundWarning } from './earlier-pulses.js';
 import { estimatorResiduals, pearsonChiSquare, poissonDeviance } from './estimators.js';
 import { akaikeCriterion, bayesianCriterion } from './information-criteria.js';
@@ -173,6 +173,33 @@ function irfNoiseFor(
   return variances;
 }
 
+/** Correlation of free parameters i and j from the covariance, or undefined when either is fixed or not estimable. */
+function correlationOf(covariance: ParameterCovariance, i: number, j: number): number | undefined {
+  if (i < 0 || j < 0) return undefined;
+  const cross = covariance.covariance(i, j);
+  const varianceI = covariance.covariance(i, i);
+  const varianceJ = covariance.covariance(j, j);
+  if (cross === undefined || varianceI === undefined || varianceJ === undefined) return undefined;
+  if (!(varianceI > 0 && varianceJ > 0)) return undefined;
+  return Math.max(-1, Math.min(1, cross / Math.sqrt(varianceI * varianceJ)));
+}
+
+/**
+ * A background below 0 is warned about when it is more than this many standard errors below 0, or when a lifetime
+ * is degenerate with it (acceptability.ts, the fit is then not acceptable and the warning explains the value); a
+ * background a little below 0 by chance is ordinary noise (this project's choice: false-positive rate < 5 %).
+ */
+export const NEGATIVE_BACKGROUND_Z = 2;
+
+/** The warning for a fitted background below 0 (allowed with earlier pulses modelled, or by the caller's bounds). */
+export function negativeBackgroundWarning(backgroundPerChannel: number, standardError: number | undefined): string {
+  const within =
+    standardError === undefined
+      ? ''
+      : ` (${(-backgroundPerChannel / standardError).toPrecision(2)} standard errors of ${standardError.toPrecision(3)} below 0)`;
+  return `the fitted background is negative: ${backgroundPerChannel.toPrecision(3)} counts/channel${within}; it is reported as fitted, not clipped: the Poisson likelihood needs only a positive model in every channel, and holding the background at ≥ 0 would bias the lifetimes it trades off against (docs/decay.md, Periodic excitation); more than 3 standard errors below 0 means the model misses something (the range, the IRF, the repetition rate)`;
+}
+
 /** Builds the DecayFitResult of a single-decay fit (see header). */
 export function summariseFit(
   fit: ComponentFit,
@@ -230,6 +257,7 @@ export function summariseFit(
     );
     const tauNsStdErr = errorOf(i);
     const tauNsStdErrFromIrf = irfErrorOf(i);
+    const tauBackgroundCorrelation = correlationOf(covariance, free, term.freeIndex[2 * components + 1] as number);
     let tauNsInterval: LifetimeInterval | undefined;
     if (free >= 0 && options.profileIntervals && !outcome.converged) {
       tauNsInterval = {
@@ -274,6 +302,7 @@ export function summariseFit(
       ...(tauNsStdErr === undefined ? {} : { tauNsStdErr }),
       ...(tauNsStdErrFromIrf === undefined || tauNsStdErr === undefined ? {} : { tauNsStdErrFromIrf }),
       ...(tauNsInterval === undefined ? {} : { tauNsInterval }),
+      ...(tauBackgroundCorrelation === undefined ? {} : { tauBackgroundCorrelation }),
       amplitude,
       ...(amplitudeStdErr === undefined ? {} : { amplitudeStdErr }),
       photons: local[components + i] as number,
@@ -327,6 +356,15 @@ export function summariseFit(
     );
     if (periodic !== undefined) warnings.push(periodic);
   }
+  const background = local[2 * components + 1] as number;
+  const backgroundStdErr = errorOf(2 * components + 1);
+  if (
+    background < 0 &&
+    (withFractions.some(degenerateWithBackground) ||
+      backgroundStdErr === undefined ||
+      background < -NEGATIVE_BACKGROUND_Z * backgroundStdErr)
+  )
+    warnings.push(negativeBackgroundWarning(background, backgroundStdErr));
   const unacceptableReasons = [
     ...fitAcceptability({
       converged: outcome.converged,
@@ -376,7 +414,6 @@ export function summariseFit(
   for (let k = 0; k < channels; k++) photonsInRange += counts[k] as number;
   const { firstChannel, endChannel } = prepared.range;
   const shiftStdErr = errorOf(2 * components);
-  const backgroundStdErr = errorOf(2 * components + 1);
   return {
     model: prepared.irfUnit === undefined ? 'tail' : 'reconvolution',
     estimator: options.estimator,
@@ -390,7 +427,7 @@ export function summariseFit(
     tauMeanIntensityNs: weightedSum !== 0 ? squaredSum / weightedSum : 0,
     shiftNs: local[2 * components] as number,
     ...(shiftStdErr === undefined ? {} : { shiftNsStdErr: shiftStdErr }),
-    backgroundPerChannel: local[2 * components + 1] as number,
+    backgroundPerChannel: background,
     ...(backgroundStdErr === undefined ? {} : { backgroundPerChannelStdErr: backgroundStdErr }),
     scatterFraction,
     chi2Reduced: pearsonChiSquare(counts, model) / degreesOfFreedom,

@@ -6,7 +6,14 @@ import type { Decay } from '../model/decay.js';
 import { AnalysisFailed, ConfigInvalid } from '../model/errors.js';
 import { fitComponents } from './component-fit.js';
 import { estimatorResiduals, pearsonChiSquare, poissonDeviance } from './estimators.js';
-import { amplitudeOf, parameterCovariance, runsTestResiduals, type ParameterCovariance } from './fit-summary.js';
+import {
+  amplitudeOf,
+  NEGATIVE_BACKGROUND_Z,
+  negativeBackgroundWarning,
+  parameterCovariance,
+  runsTestResiduals,
+  type ParameterCovariance,
+} from './fit-summary.js';
 import { akaikeCriterion, bayesianCriterion } from './information-criteria.js';
 import { resolveFitDecayOptions, type FitDecayOptions } from './options.js';
 import { localParameterCount, type ParameterName } from './parameters.js';
@@ -56,12 +63,18 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
       (index, slot) => index >= 0 && !links.includes(layoutName(slot, components)),
     ).length;
     const componentResults = componentsOf(local, components, term.freeIndex, covariance, item.channelWidthNs);
+    // With earlier pulses modelled the background may fit below 0 (component-fit.ts): reported, warned beyond 2 SE.
+    const background = local[2 * components + 1] as number;
+    const backgroundFree = term.freeIndex[2 * components + 1] as number;
+    const backgroundStdErr = backgroundFree >= 0 ? covariance.errors[backgroundFree] : undefined;
+    if (background < 0 && (backgroundStdErr === undefined || background < -NEGATIVE_BACKGROUND_Z * backgroundStdErr))
+      warnings.push(`decay ${d + 1}: ${negativeBackgroundWarning(background, backgroundStdErr)}`);
     let photons = 0;
     for (let k = 0; k < term.counts.length; k++) photons += term.counts[k] as number;
     return {
       components: componentResults,
       shiftNs: local[2 * components] as number,
-      backgroundPerChannel: local[2 * components + 1] as number,
+      backgroundPerChannel: background,
       chi2Reduced: pearson / Math.max(model.length - ownFree, 1),
       deviance: resolved.estimator === 'ml' ? residualSquares : poissonDeviance(term.counts, model),
       durbinWatson: durbinWatson(residuals),

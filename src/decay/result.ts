@@ -30,6 +30,8 @@ export interface ComponentResult {
   readonly tauNsStdErr?: number;
   /** The part of tauNsStdErr due to the IRF's counting noise (added in quadrature), when propagated. */
   readonly tauNsStdErrFromIrf?: number;
+  /** Correlation of τ with the background (inverse Fisher information); absent when either is fixed or not estimable. Near ±1: they trade off. */
+  readonly tauBackgroundCorrelation?: number;
   /** Profile (support-plane) interval; absent when not computed or the lifetime is fixed. */
   readonly tauNsInterval?: LifetimeInterval;
   /** Counts per channel at t = 0 (reconvolution) or at the fit start (tail fit), for τ ≫ channel width. */

@@ -143,4 +143,22 @@ describe('fit acceptability', () => {
       fitAcceptability({ ...base, converged: false, components: [{ tauNs: 4, amplitude: 5, tauFixed: false }] })[0],
     ).toMatch(/did not converge/);
   });
+
+  it('flags a lifetime that trades off against the background only when it is also poorly determined (issue 17.1)', () => {
+    // Limits are this project's choices (acceptability.ts): |correlation| > 0.95 and SE > 10 % of τ; the
+    // cases are the measured 80 MHz ones (earlier-pulses.test.ts): 20 ns at 10⁵ photons (corr −0.997, SE 28 %),
+    // 8 ns (corr −0.98, SE 4.4 %) and 4 ns (corr −0.93, SE 1.3 %).
+    const base = { converged: true, channelWidthNs: 0.025, windowNs: 12.5, atBound: [] as string[] };
+    const judged = (tauNs: number, tauNsStdErr: number, tauBackgroundCorrelation: number, tauFixed = false): string[] =>
+      fitAcceptability({
+        ...base,
+        components: [{ tauNs, amplitude: 100, tauFixed, tauNsStdErr, tauBackgroundCorrelation }],
+      });
+    expect(judged(20, 5.6, -0.997)[0]).toMatch(/trades off against the background \(correlation -0\.997/);
+    expect(judged(20, 5.6, -0.997)[0]).toMatch(/--fix background/);
+    expect(judged(8, 0.35, -0.98)).toEqual([]);
+    expect(judged(4, 0.05, -0.93)).toEqual([]);
+    expect(judged(20, 5.6, -0.9)).toEqual([]);
+    expect(judged(20, 5.6, -0.997, true)).toEqual([]);
+  });
 });
