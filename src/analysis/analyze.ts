@@ -57,10 +57,8 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
   const measurements = further.map(({ part, input }, i) => {
     const own = new Map(parsed);
     own.set(part, input);
+    // Whether QC judges this measurement is decided by the QC stage (qc.judgement), which knows the controls.
     const context = copyContext(base);
-    context.warnings.push(
-      `QC rules judge the set's first measurement (${parsed.get(part)?.origin?.id ?? part}) only; this result is not judged`,
-    );
     return analyzeMeasurements({ ...payload, setId: furtherIds[i] as string }, own, context, payload.setId);
   });
   return { ...primary, rejectedInputs, ...(measurements.length === 0 ? {} : { measurements }) };

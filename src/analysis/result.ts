@@ -194,6 +194,28 @@ export interface QcFlag {
   readonly value?: number;
 }
 
+/**
+ * Whether QC judged this result, for which control (or the instrument scope), and which measurement of
+ * a file holding several (issue 18.3): a control judges one measurement of its files, the column its
+ * config names (`controls[].measurement`) or, by default, the file's first; the others are not judged.
+ */
+export interface QcJudgement {
+  /** The control id (`controls[].id`) or 'instrument' (water Raman, IRF checks) whose series this result belongs to. */
+  readonly control: string;
+  /** true: the result's metrics are a run of that control's series, judged by the rules (qc.flags); false: not judged, `reason` says why. */
+  readonly judged: boolean;
+  /** The column of this result when its file holds several measurements (result.measurement.column). */
+  readonly measurement?: string;
+  /** Which measurement of a file the control judges: 'config' (the column named by controls[].measurement) or 'first' (the file's first measurement, the default). */
+  readonly selectedBy: 'config' | 'first';
+  /** The column the control judges, when its config names one. */
+  readonly judgedMeasurement?: string;
+  /** The metrics judged (judged: true). */
+  readonly metrics?: readonly string[];
+  /** Why the result was not judged (judged: false), in one sentence. */
+  readonly reason?: string;
+}
+
 /** A part that could not be computed or was missing, and why. */
 export interface MissingItem {
   /** The missing part ('irf') or the quantity that could not be computed ('quantumYield'). */
@@ -289,6 +311,11 @@ export interface AnalysisResult {
   readonly raman?: RamanSummary;
   readonly warnings: readonly string[];
   /** The QC verdict on this run as it stands now; `history` keeps the earlier verdicts a later-judged result replaced (issue 16). */
-  readonly qc: { readonly flags: readonly QcFlag[]; readonly history?: readonly QcVerdictHistoryEntry[] };
+  readonly qc: {
+    readonly flags: readonly QcFlag[];
+    readonly history?: readonly QcVerdictHistoryEntry[];
+    /** Present on results of a control or instrument check: judged or not, which measurement, and why not (issue 18.3). */
+    readonly judgement?: QcJudgement;
+  };
   readonly provenance: ResultProvenance;
 }

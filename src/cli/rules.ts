@@ -42,7 +42,8 @@ export function formatControls(ruleSet: RuleSet): string[] {
   const lines: string[] = [];
   if (ruleSet.controls.length === 0) lines.push('  (none defined: add a `controls` entry to driftlight.yaml)');
   for (const control of ruleSet.controls) {
-    const match = Object.entries(control.match)
+    const { measurement, ...selectors } = control.match;
+    const match = Object.entries(selectors)
       .map(([key, value]) => `${key} ${String(value)}`)
       .join(', ');
     const targets = Object.entries(control.targets).map(
@@ -54,6 +55,9 @@ export function formatControls(ruleSet: RuleSet): string[] {
       `    ${targets.length === 0 ? '' : `targets: ${targets.join('; ')}; `}other metrics: baseline from the first ${control.baselineRuns} runs`,
     );
     lines.push(`    judged by: ${judging.length === 0 ? '(no rule)' : judging.join(', ')}`);
+    lines.push(
+      `    measurement judged: ${measurement === undefined ? 'the first of a file holding several (set `measurement` to name a column)' : `"${measurement}"`}; a file's other measurements are not judged`,
+    );
   }
   return lines;
 }

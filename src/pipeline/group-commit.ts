@@ -291,7 +291,16 @@ export class GroupCommit {
           continue;
         }
         const result = await applyStages(stages, outcome.value.result, context);
-        toCommit.push({ entry, item: { output: outcome.value, result, setCreatedAt: new Date(set.createdAt) } });
+        // Each further measurement of a file holding several goes through the stages too (issue 18.3: QC
+        // decides per control which measurement it judges and says so in every result), in file order.
+        let output = outcome.value;
+        if (output.measurements !== undefined) {
+          const measurements = [];
+          for (const measurement of output.measurements)
+            measurements.push({ ...measurement, result: await applyStages(stages, measurement.result, context) });
+          output = { ...output, measurements };
+        }
+        toCommit.push({ entry, item: { output, result, setCreatedAt: new Date(set.createdAt) } });
       } catch (error) {
         entry.reject(error);
       }
@@ -320,7 +329,7 @@ export class GroupCommit {
       if (pending === undefined) return;
       const {
         entry,
-        item: { result },
+        item: { result, output },
       } = pending;
       if (!committed.ok) {
         entry.reject(committed.error);
@@ -336,11 +345,13 @@ export class GroupCommit {
         'result written',
       );
       logMovesFailed(log, committed.movesFailed);
-      for (const stage of stages) {
-        if (stage.afterCommit === undefined) continue;
-        Promise.resolve()
-          .then(() => stage.afterCommit?.(result, context))
-          .catch((error: unknown) => log.error({ stage: stage.name, err: error }, 'result stage afterCommit failed'));
+      for (const written of [result, ...(output.measurements ?? []).map((measurement) => measurement.result)]) {
+        for (const stage of stages) {
+          if (stage.afterCommit === undefined) continue;
+          Promise.resolve()
+            .then(() => stage.afterCommit?.(written, context))
+            .catch((error: unknown) => log.error({ stage: stage.name, err: error }, 'result stage afterCommit failed'));
+        }
       }
       report.setDone(committed.setId, committed.path, result.partial);
       entry.resolve();

@@ -40,7 +40,10 @@ export function controlsFromConfig(entries: readonly ControlConfig[]): ControlDe
     const parsed = controlSchema.safeParse({
       id: entry.id,
       ...(entry.label === undefined ? {} : { label: entry.label }),
-      match: { sampleIdPattern: entry.sampleIdPattern },
+      match: {
+        sampleIdPattern: entry.sampleIdPattern,
+        ...(entry.measurement === undefined ? {} : { measurement: entry.measurement }),
+      },
       targets,
       baselineRuns: entry.baselineRuns,
     });

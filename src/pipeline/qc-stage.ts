@@ -17,7 +17,7 @@ import {
   judgeFrom,
   flagKey,
   INSTRUMENT_SCOPE,
-  observationFromResult,
+  judgeResult,
   type QcFlag,
   type RecoveryNotice,
   type RuleSet,
@@ -98,8 +98,11 @@ export function createQcStage(options: QcStageOptions): QcStage {
   return {
     name: 'qc-rules',
     apply(result: AnalysisResult, context: ResultStageContext): AnalysisResult {
-      const observation = observationFromResult(result, ruleSet.controls);
-      if (observation === undefined) return result;
+      // Which control (or the instrument) this result is a run of, and for a file holding several
+      // measurements whether it is the one that control judges (issue 18.3): written into qc.judgement.
+      const { observation, judgement } = judgeResult(result, ruleSet.controls);
+      if (judgement === undefined) return result;
+      if (observation === undefined) return { ...result, qc: { ...result.qc, judgement } };
       const { ledger } = context;
       const nowIso = context.now.toISOString();
       const scopes = [observation.controlId, INSTRUMENT_SCOPE];
@@ -173,8 +176,10 @@ export function createQcStage(options: QcStageOptions): QcStage {
         }
       });
       pending.set(result.setId, { flags: outcome.flags, recoveries: outcome.recoveries });
-      if (outcome.ownFlags.length === 0) return result;
-      return { ...result, qc: { ...result.qc, flags: [...result.qc.flags, ...outcome.ownFlags.map(toResultFlag)] } };
+      return {
+        ...result,
+        qc: { ...result.qc, flags: [...result.qc.flags, ...outcome.ownFlags.map(toResultFlag)], judgement },
+      };
     },
     takeRevisions() {
       const taken = [...revisions].map(([setId, revision]) => ({ setId, ...revision }));

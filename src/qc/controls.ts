@@ -28,6 +28,8 @@ export const controlSchema = z.strictObject({
         .refine(isValidRegExp, { error: 'expected a valid regular expression' })
         .optional(),
       role: z.string().min(1).optional(),
+      /** Which measurement of a file holding several is this control's run: its column name; default the file's first (issue 18.3). */
+      measurement: z.string().trim().min(1, { error: 'expected a column name' }).optional(),
     })
     .refine(
       (match) => match.sampleId !== undefined || match.sampleIdPattern !== undefined || match.role !== undefined,
@@ -81,6 +83,19 @@ export function isControlMatch(
     return false;
   if (match.role !== undefined && match.role !== role) return false;
   return true;
+}
+
+/**
+ * True when `control` judges this measurement (issue 18.3): the column its `match.measurement` names, or,
+ * without one, a result that is no further measurement of its file (a single measurement or the file's first).
+ */
+export function selectsMeasurement(
+  control: ControlDefinition,
+  measurement: { readonly column: string; readonly setId?: string } | undefined,
+): boolean {
+  const named = control.match.measurement;
+  if (named === undefined) return measurement?.setId === undefined;
+  return measurement !== undefined && measurement.column.trim() === named;
 }
 
 /** The first control whose match criteria fit the result, or undefined. O(controls). */

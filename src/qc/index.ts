@@ -41,6 +41,7 @@ export {
   DEFAULT_BASELINE_RUNS,
   findControl,
   isControlMatch,
+  selectsMeasurement,
   controlSchema,
   type ControlDefinition,
 } from './controls.js';
@@ -71,7 +72,7 @@ export {
   zonedTimeToEpochMs,
   parseClockTime,
 } from './time.js';
-export { observationFromResult } from './observation.js';
+export { judgeResult, observationFromResult, type ResultJudgement } from './observation.js';
 export {
   acquisitionOf,
   compareAcquisition,

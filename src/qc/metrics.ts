@@ -31,6 +31,8 @@ export interface ControlObservation {
   /** Acquisition time, ISO 8601 with offset or Z. */
   readonly acquiredAt: string;
   readonly metrics: Partial<Record<MetricName, number>>;
+  /** The column judged when the run's file holds several measurements (issue 18.3); absent for a single one. */
+  readonly measurement?: string;
 }
 
 /** `value` formatted with the metric's display decimals and unit ("4.012 ns"); from 1e5 up, 5 significant digits ("7.4142e7 a.u."). */

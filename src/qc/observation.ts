@@ -1,8 +1,8 @@
 // Reduces an analysis result to the QC observation the rules judge: control yield, lifetime,
 // spectral metrics, Raman test and fit quality. Results that are neither a control nor an
 // instrument check (water Raman, IRF) give undefined.
-import type { AnalysisResult } from '../analysis/result.js';
-import { findControl, type ControlDefinition } from './controls.js';
+import type { AnalysisResult, QcJudgement } from '../analysis/result.js';
+import { isControlMatch, selectsMeasurement, type ControlDefinition } from './controls.js';
 import type { ControlObservation, MetricName } from './metrics.js';
 import { INSTRUMENT_SCOPE } from './rule-base.js';
 import { parseIsoToEpochMs } from './time.js';
@@ -47,23 +47,112 @@ export function metricsOfResult(result: AnalysisResult): Partial<Record<MetricNa
   return metrics;
 }
 
+/** A result's QC observation (when judged) and its judgement: which control, which measurement, and why not. */
+export interface ResultJudgement {
+  readonly observation?: ControlObservation;
+  /** Absent when the result is neither a control nor an instrument check. */
+  readonly judgement?: QcJudgement;
+}
+
+/**
+ * Judges whether a result is a QC run (issue 18.3): a control (matched by the rule set's controls; role
+ * 'control' with no controls given uses the sample id) or an instrument check (raman/irf role). A file
+ * holding several measurements gives one run per control: the measurement its `match.measurement` names,
+ * else the file's first; the other measurements, and results without metrics or acquisition time, get a
+ * judgement that says they were not judged and why. O(controls).
+ */
+export function judgeResult(result: AnalysisResult, controls?: readonly ControlDefinition[]): ResultJudgement {
+  const column = result.measurement?.column;
+  const ownMeasurement = column === undefined ? {} : { measurement: column };
+  const candidates =
+    controls === undefined ? [] : controls.filter((control) => isControlMatch(control, result.sampleId, result.role));
+  let controlId: string;
+  let selection: MeasurementSelection;
+  if (candidates.length > 0) {
+    const chosen = candidates.find((control) => selectsMeasurement(control, result.measurement));
+    if (chosen === undefined) {
+      const first = candidates[0] as ControlDefinition;
+      return {
+        judgement: {
+          control: first.id,
+          judged: false,
+          ...ownMeasurement,
+          ...selectionOf(first),
+          reason: `${candidates.map(describeSelection).join('; ')}; ${describeOwnMeasurement(result)}`,
+        },
+      };
+    }
+    controlId = chosen.id;
+    selection = selectionOf(chosen);
+  } else if (controls === undefined && result.role === 'control') {
+    controlId = result.sampleId;
+    selection = { selectedBy: 'first' };
+  } else if (result.role === 'raman' || result.role === 'irf') {
+    controlId = INSTRUMENT_SCOPE;
+    selection = { selectedBy: 'first' };
+  } else {
+    return {};
+  }
+  if (controlId === INSTRUMENT_SCOPE || candidates.length === 0) {
+    // Instrument checks (and controls named by role only) judge a file's first measurement.
+    if (result.measurement?.setId !== undefined)
+      return {
+        judgement: {
+          control: controlId,
+          judged: false,
+          ...ownMeasurement,
+          ...selection,
+          reason: `${controlId === INSTRUMENT_SCOPE ? 'instrument checks judge' : `control ${controlId} judges`} the first measurement of a file holding several; ${describeOwnMeasurement(result)}`,
+        },
+      };
+  }
+  const notJudged = (reason: string): ResultJudgement => ({
+    judgement: { control: controlId, judged: false, ...ownMeasurement, ...selection, reason },
+  });
+  const metrics = metricsOfResult(result);
+  const names = Object.keys(metrics);
+  if (names.length === 0)
+    return notJudged('no QC metric could be computed from this result (see `missing` for what is missing and why)');
+  // Judged at its acquisition time only, never the analysis time: the pipeline always records one
+  // (the file's modification time when the file carried none, see provenance.acquiredAtSource).
+  if (result.acquiredAt === undefined || parseIsoToEpochMs(result.acquiredAt) === undefined)
+    return notJudged('the result has no readable acquisition time to place it in the control history');
+  return {
+    observation: { controlId, setId: result.setId, acquiredAt: result.acquiredAt, metrics, ...ownMeasurement },
+    judgement: { control: controlId, judged: true, ...ownMeasurement, ...selection, metrics: names },
+  };
+}
+
+type MeasurementSelection = Pick<QcJudgement, 'selectedBy' | 'judgedMeasurement'>;
+
+function selectionOf(control: ControlDefinition): MeasurementSelection {
+  const named = control.match.measurement;
+  return named === undefined ? { selectedBy: 'first' } : { selectedBy: 'config', judgedMeasurement: named };
+}
+
+function describeSelection(control: ControlDefinition): string {
+  const named = control.match.measurement;
+  return named === undefined
+    ? `control ${control.id} judges the first measurement of a file holding several`
+    : `control ${control.id} judges measurement "${named}" (its config names it)`;
+}
+
+function describeOwnMeasurement(result: AnalysisResult): string {
+  const measurement = result.measurement;
+  if (measurement === undefined)
+    return "this result's file holds one measurement, not several to pick the named column from";
+  const of = measurement.setId === undefined ? '' : ` (the file's first is result ${measurement.setId})`;
+  return `this result is measurement "${measurement.column}", ${measurement.index + 1} of ${measurement.of} in its file${of}`;
+}
+
 /**
  * The QC observation of a result: a control (matched by the rule set's controls; role 'control'
  * with no controls given uses the sample id), or an instrument check (raman/irf role); else undefined.
+ * A file holding several measurements gives a run for the measurement a control judges only (judgeResult).
  */
 export function observationFromResult(
   result: AnalysisResult,
   controls?: readonly ControlDefinition[],
 ): ControlObservation | undefined {
-  const control = controls === undefined ? undefined : findControl(controls, result.sampleId, result.role);
-  let controlId: string | undefined = control?.id;
-  if (controlId === undefined && controls === undefined && result.role === 'control') controlId = result.sampleId;
-  if (controlId === undefined && (result.role === 'raman' || result.role === 'irf')) controlId = INSTRUMENT_SCOPE;
-  if (controlId === undefined) return undefined;
-  const metrics = metricsOfResult(result);
-  if (Object.keys(metrics).length === 0) return undefined;
-  // Judged at its acquisition time only, never the analysis time: the pipeline always records one
-  // (the file's modification time when the file carried none, see provenance.acquiredAtSource).
-  if (result.acquiredAt === undefined || parseIsoToEpochMs(result.acquiredAt) === undefined) return undefined;
-  return { controlId, setId: result.setId, acquiredAt: result.acquiredAt, metrics };
+  return judgeResult(result, controls).observation;
 }

@@ -97,4 +97,12 @@ export const QC_MIGRATIONS: readonly { readonly id: string; up(database: Databas
       `);
     },
   },
+  {
+    // Issue 18.3: which measurement of a file holding several a control run is (its column; NULL for a
+    // file holding one), so the ledger names what was judged as the result's qc.judgement does.
+    id: '0102-qc-observation-measurement',
+    up(database) {
+      database.exec('ALTER TABLE qc_observations ADD COLUMN measurement TEXT;');
+    },
+  },
 ];

@@ -9,6 +9,7 @@ interface ObservationRow {
   control_id: string;
   acquired_at: string;
   metrics_json: string;
+  measurement: string | null;
 }
 interface FlagRow {
   set_id: string;
@@ -71,7 +72,7 @@ export function recordObservation(ledger: Ledger, observation: ControlObservatio
     );
   ledger.database
     .prepare(
-      'INSERT OR REPLACE INTO qc_observations (set_id, control_id, acquired_at, acquired_at_ms, metrics_json) VALUES (?, ?, ?, ?, ?)',
+      'INSERT OR REPLACE INTO qc_observations (set_id, control_id, acquired_at, acquired_at_ms, metrics_json, measurement) VALUES (?, ?, ?, ?, ?, ?)',
     )
     .run(
       observation.setId,
@@ -79,13 +80,16 @@ export function recordObservation(ledger: Ledger, observation: ControlObservatio
       observation.acquiredAt,
       epochMs,
       JSON.stringify(observation.metrics),
+      observation.measurement ?? null,
     );
 }
 
 /** Observations of the given controls (all when omitted), oldest first. */
 export function observationHistory(ledger: Ledger, controlIds?: readonly string[]): ControlObservation[] {
   const rows = ledger.database
-    .prepare('SELECT set_id, control_id, acquired_at, metrics_json FROM qc_observations ORDER BY acquired_at_ms')
+    .prepare(
+      'SELECT set_id, control_id, acquired_at, metrics_json, measurement FROM qc_observations ORDER BY acquired_at_ms',
+    )
     .all() as ObservationRow[];
   const wanted = controlIds === undefined ? undefined : new Set(controlIds);
   return rows
@@ -95,7 +99,13 @@ export function observationHistory(ledger: Ledger, controlIds?: readonly string[
       const metrics: Partial<Record<MetricName, number>> = {};
       for (const [name, value] of Object.entries(parsed))
         if (isMetric(name) && typeof value === 'number') metrics[name] = value;
-      return { controlId: row.control_id, setId: row.set_id, acquiredAt: row.acquired_at, metrics };
+      return {
+        controlId: row.control_id,
+        setId: row.set_id,
+        acquiredAt: row.acquired_at,
+        metrics,
+        ...(row.measurement === null ? {} : { measurement: row.measurement }),
+      };
     });
 }
 

@@ -36,6 +36,14 @@ export const controlEntry = z.strictObject({
     .describe(
       "Declared target { mean, sd } per metric (e.g. intensityPerAbsorbedLight, in the metric's unit); targetYield/targetTauNs fill the yield and lifetime. Default: none (baseline from runs)",
     ),
+  measurement: z
+    .string()
+    .trim()
+    .min(1, { error: 'expected a column name, e.g. "parallel" or "em 450 nm"' })
+    .optional()
+    .describe(
+      "When the control's files hold several measurements (decay columns, spectra on one axis, x,y pairs): the column this control judges, as `driftlight inspect` names it; the other measurements' results say they were not judged. Define a second control with the same pattern to judge another column as a series of its own. Default: the first measurement of the file",
+    ),
   baselineRuns: z
     .number()
     .int()
@@ -48,6 +56,21 @@ export const controlEntry = z.strictObject({
 
 export const controlsSection = z
   .array(controlEntry)
+  .superRefine((entries, context) => {
+    // Two controls with the same pattern must judge different measurements, or the second judges nothing.
+    entries.forEach((entry, index) => {
+      const earlier = entries.findIndex(
+        (other) => other.sampleIdPattern === entry.sampleIdPattern && other.measurement === entry.measurement,
+      );
+      if (earlier < index) {
+        context.addIssue({
+          code: 'custom',
+          path: [index, 'measurement'],
+          message: `controls[${earlier}] already judges ${entry.measurement === undefined ? 'the first measurement' : `measurement "${entry.measurement}"`} of sample ids matching "${entry.sampleIdPattern}"; give each control with this pattern a different measurement (a column name)`,
+        });
+      }
+    });
+  })
   .default([])
   .describe('Control fluorophores checked by the QC rules. Default: []');
 
