@@ -91,6 +91,17 @@ export interface DecayFitSummary {
   readonly components: readonly DecayComponentSummary[];
   /** Intensity-weighted mean lifetime in ns (the τ used for rate constants). */
   readonly tauMeanIntensityNs: number;
+  /** Amplitude-weighted mean lifetime Σaτ/Σa in ns. Always written by analyze(). */
+  readonly tauMeanAmplitudeNs?: number;
+  /** Fitted IRF shift in ns (the IRF moved later). Always written by analyze(). */
+  readonly shiftNs?: number;
+  /** Fitted constant background in counts per channel. Always written by analyze(). */
+  readonly backgroundPerChannel?: number;
+  /** Fit range in ns: start times of the first and of the last fitted channel. Always written by analyze(). */
+  readonly rangeNs?: readonly [number, number];
+  /** Channels in the range minus free parameters: the divisor of chi2Reduced. Always written by analyze(). */
+  readonly degreesOfFreedom?: number;
+  /** Pearson χ² Σ(n − m)²/m over the range, divided by degreesOfFreedom. */
   readonly chi2Reduced: number;
   readonly converged: boolean;
   /** False when the fit is not believable (a parameter at a bound, τ outside the resolvable range, cancelling amplitudes): QC and rates skip it. Always written by analyze(). */
@@ -165,6 +176,12 @@ export interface RateConstantsSummary {
   readonly knrPerS: number;
   readonly tau0Ns: number;
   readonly totalDecayRatePerS: number;
+  /** The Φ the rates used (quantumYield.value, or 1 when Φ is above 1 within its uncertainty). Always written by analyze(). */
+  readonly quantumYield?: number;
+  /** The τ the rates used, in ns. Always written by analyze(). */
+  readonly tauNs?: number;
+  /** Which τ that is: the fit's intensity-weighted mean Σaτ²/Σaτ. Always written by analyze(). */
+  readonly tauBasis?: 'intensity-weighted mean';
 }
 
 /** Water-Raman sensitivity test (raman sets). */

@@ -171,5 +171,8 @@ export function computeRates(quantumYield: QuantumYieldSummary, tauNs: number): 
     knrPerS: rates.knrPerS,
     tau0Ns: rates.tau0Ns,
     totalDecayRatePerS: rates.totalDecayRatePerS,
+    quantumYield: phi,
+    tauNs,
+    tauBasis: 'intensity-weighted mean',
   };
 }
