@@ -15,6 +15,7 @@ import { collectFiles } from './collect-files.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { EXIT_CODES } from './exit-codes.js';
 import { createProgress } from './progress.js';
+import { startWorkerWait } from './worker-wait.js';
 import { softwareVersion } from './version.js';
 import { alertsExpiredSince, openQcFlagCounts, undeliveredAlerts } from '../store/alert-outbox.js';
 
@@ -122,7 +123,12 @@ export async function runBatch(
     coordinator.holdDispatch = true;
     const notTaken = await coordinator.intakeMany(files);
     await coordinator.tick(true);
-    await coordinator.drain();
+    const stopWorkerWait = startWorkerWait(pipeline, 'process');
+    try {
+      await coordinator.drain();
+    } finally {
+      await stopWorkerWait();
+    }
     progress.finish();
     // Let the first burst of alert deliveries finish so the summary says what did not arrive.
     await Promise.all(pipeline.stages.map((stage) => stage.idle?.()));

@@ -10,6 +10,7 @@ import { batchStableFiles } from '../pipeline/intake-batcher.js';
 import { missingFolders, openPipeline, requiredFolders, type Pipeline } from '../pipeline/runtime.js';
 import { watchInbox } from '../pipeline/watcher.js';
 import type { CommandModule } from './command-module.js';
+import { startWorkerWait } from './worker-wait.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { softwareVersion } from './version.js';
 import { startWatchDigest } from './digest.js';
@@ -46,6 +47,7 @@ export async function runWatch(
   });
   const { coordinator, logger } = pipeline;
   await coordinator.recover();
+  const stopWorkerWait = startWorkerWait(pipeline, 'watch');
   const digestSchedule = startWatchDigest(pipeline);
   // --http: the status page over this process's ledger (the same routes as `driftlight serve`).
   const http =
@@ -138,6 +140,7 @@ export async function runWatch(
   clearInterval(timer);
   clearInterval(clockTimer);
   clearInterval(retryTimer);
+  await stopWorkerWait();
   process.off('SIGHUP', onHangup);
   await digestSchedule?.stop();
   await http?.close();

@@ -100,6 +100,16 @@ class BullmqJobQueue<Payload, Result> implements JobQueue<Payload, Result> {
     };
   }
 
+  async connectedWorkers(): Promise<number | undefined> {
+    try {
+      return await this.queue.getWorkersCount();
+    } catch (error) {
+      // CLIENT LIST may be refused (a managed Redis): the count is unknown, not zero.
+      this.options.logger.debug({ err: error }, 'could not count the workers of the queue (CLIENT LIST)');
+      return undefined;
+    }
+  }
+
   async drain(): Promise<void> {
     for (;;) {
       const counts = await this.queue.getJobCounts(

@@ -46,6 +46,12 @@ export interface JobQueue<Payload, Result> {
   onOutcome(listener: (outcome: JobOutcome<Result>) => void | Promise<void>): void;
   /** Current counts. */
   stats(): Promise<JobQueueStats>;
+  /**
+   * Worker processes taking jobs from this queue now (BullMQ: connections to its Redis queue, this
+   * process's own worker included); undefined when the backend cannot tell. Backends whose jobs always
+   * run in this process leave it out.
+   */
+  connectedWorkers?(): Promise<number | undefined>;
   /** Resolves when no job is waiting or running and every outcome has been delivered. */
   drain(): Promise<void>;
   /** Stops taking jobs, lets running jobs finish (or hands them back), releases resources. */
