@@ -219,7 +219,7 @@ export function summariseFit(
   const freeCount = layout.labels.length;
   const degreesOfFreedom = Math.max(channels - freeCount, 1);
   const covariance = parameterCovariance(fit, true);
-  const warnings = [...prepared.warnings];
+  const warnings = [...prepared.warnings, ...fit.warnings];
   const errorNotes: string[] = [];
   for (const index of covariance.boundCountedAsFree) {
     const label = layout.labels[index] ?? `parameter ${index + 1}`;

@@ -46,6 +46,7 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
   const warnings: string[] = prepared.flatMap((item, d) =>
     item.warnings.map((warning) => `decay ${d + 1}: ${warning}`),
   );
+  warnings.push(...fit.warnings);
   if (!outcome.converged) warnings.push(`the global fit did not converge: ${outcome.reason}`);
   let pearsonTotal = 0;
   let channelsTotal = 0;

@@ -17,7 +17,7 @@ export interface FitDecayOptions {
   readonly rangeNs?: readonly [number, number] | undefined;
   /** Parameters held at a value, e.g. { tau1Ns: 3.9 } (units as in the parameter name). Default none; scatter is fixed at 0 unless `scatter`. */
   readonly fixed?: Partial<Record<ParameterName, number>> | undefined;
-  /** Bounds [min, max] per parameter. Defaults: τ in [Δ/50, 1000·window] ns, component photons ≥ 0, background ≥ 0 (with a repetition rate: unbounded below, the model kept > 0 in every channel; give [0, max] to hold it ≥ 0), shift within ±max(10Δ, 2·FWHM). */
+  /** Bounds [min, max] per parameter. Defaults: τ in [Δ/50, 1000·window] ns, component photons ≥ 0, background ≥ 0 (with a repetition rate and τ > 0.4 × the period: refitted unbounded below, the model kept > 0 in every channel; given bounds hold without a refit), shift within ±max(10Δ, 2·FWHM). */
   readonly bounds?: Partial<Record<ParameterName, readonly [number, number]>> | undefined;
   /** globalFit only: parameters shared by all decays. Default every lifetime. A single decay has nothing to link. */
   readonly links?: readonly ParameterName[] | undefined;

@@ -184,17 +184,15 @@ describe('light from earlier pulses (80 MHz, window = one 12.5 ns period, 500 ch
     expect(bounded.fits.filter((fit) => fit.backgroundPerChannel === 0).length).toBeGreaterThan(SEEDS / 4);
   });
 
-  it(`coverage on ${COVERAGE_SEEDS} seeds: 4 ns ±1 SE; 20 ns profile interval and 1/τ ± SE hold 68 %, τ ± SE over-covers (proof below)`, () => {
+  it(`coverage on ${COVERAGE_SEEDS} seeds: 4 ns ±1 SE not optimistic; 20 ns profile interval and 1/τ ± SE hold 68 %, τ ± SE over-covers (proof below)`, () => {
+    // 4 ns (τ < 0.4·T): not in the degenerate regime, so the background keeps its bound b ≥ 0 (component-fit.ts,
+    // relaxBackground); the ±1 SE interval is then widened for fits with b on 0 and covers a little more than
+    // 68 % (measured 75.0 % on 200 seeds, 74.1 % on 1000): conservative, never optimistic.
     const dye4Fits = fitSeries(dye4, { repetitionRateHz: RATE_HZ }, {}, 1, COVERAGE_SEEDS).fits;
     const inside4 = dye4Fits.filter((fit) => Math.abs(tauOf(fit) - 4) <= tauErrorOf(fit)).length / COVERAGE_SEEDS;
-    expect(Math.abs(inside4 - COVERAGE)).toBeLessThan(COVERAGE_TOLERANCE);
-    // At 4 ns the background (true 2 counts/channel) is fitted below 0 now and then, reported as fitted; it is
-    // warned about only beyond 2 SE below 0 (τ does not trade off against it here): false-positive rate < 5 %.
-    expect(dye4Fits.some((fit) => fit.backgroundPerChannel < 0)).toBe(true);
-    const negativeWarned = dye4Fits.filter((fit) =>
-      fit.warnings.some((w) => w.startsWith('the fitted background is negative')),
-    ).length;
-    expect(negativeWarned / COVERAGE_SEEDS).toBeLessThan(0.05);
+    expect(inside4).toBeGreaterThan(COVERAGE - COVERAGE_TOLERANCE);
+    expect(inside4).toBeLessThan(0.8);
+    expect(dye4Fits.every((fit) => fit.backgroundPerChannel >= 0)).toBe(true);
 
     const fits = fitSeries(dye20, { repetitionRateHz: RATE_HZ }, { profileIntervals: true }, 1, COVERAGE_SEEDS).fits;
     // Profile interval (support plane, Δdeviance = 1): an open side (no root before the bound) counts as open.
@@ -300,6 +298,16 @@ describe('light from earlier pulses (80 MHz, window = one 12.5 ns period, 500 ch
     expect(biasInSe(bounded, reference.tauNs)).toBeLessThan(-2);
     expect(Math.abs(biasInSe(unbounded, reference.tauNs))).toBeLessThan(2);
     expect(sd(unbounded)).toBeGreaterThan(2 * sd(bounded));
+  });
+
+  it('ordinary periodic fits keep b ≥ 0: 1.5 ns, 3000 photons, no background (empty channels) all converge', () => {
+    // Allowing b < 0 here would put the optimum on the positivity limit (m → 0 in an empty channel), where 26 of
+    // 100 such fits stalled; only τ > 0.4 × the period is refitted without the bound (component-fit.ts).
+    const fits = fitSeries(foldedDecay(1.5, 3000, 0, 500, 60), { repetitionRateHz: RATE_HZ }, {}, 1, 100).fits;
+    expect(fits.every((fit) => fit.converged && fit.backgroundPerChannel >= 0)).toBe(true);
+    expect(fits.every((fit) => !fit.warnings.some((w) => w.startsWith('the fitted background is negative')))).toBe(
+      true,
+    );
   });
 
   it('20 ns with the rate unknown: warned and not acceptable', () => {
