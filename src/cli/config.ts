@@ -1,5 +1,6 @@
 // `driftlight config check [--config F]` validates a config file; `driftlight config docs` prints
 // the option table (the generated part of docs/configuration.md).
+import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import { configOptionsMarkdown } from '../config/options-table.js';
 import { DriftlightError } from '../model/errors.js';
@@ -24,7 +25,7 @@ export const configCommand: CommandModule = {
           `${missing.join(' and ')} ${missing.length > 1 ? 'do' : 'does'} not exist: \`watch\` would refuse to start`,
           {
             file: resolved.configFile ?? '(defaults)',
-            hint: 'Mount the share or create the folder (mkdir), or fix folders.* in the config.',
+            hint: 'The inbox (and a results folder named in the config) must exist: driftlight never creates them, so an unmounted share is not replaced by an empty folder. Mount the share or create the folder (mkdir), or fix folders.* in the config; the other folders are created by the first run.',
           },
         );
       }
@@ -33,7 +34,7 @@ export const configCommand: CommandModule = {
       process.stdout.write(
         `config OK: ${resolved.configFile ?? '(built-in defaults)'}\n` +
           Object.entries(resolved.folders)
-            .map(([k, v]) => `  ${k.padEnd(10)} ${v}`)
+            .map(([k, v]) => `  ${k.padEnd(10)} ${v}${existsSync(v) ? '' : '  (will be created by the first run)'}`)
             .join('\n') +
           '\n' +
           `QC controls (rules from ${resolved.rules.file ?? 'the built-in rules/default.yaml'}, time zone ${ruleSet.timeZone}):\n` +

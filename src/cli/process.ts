@@ -14,6 +14,7 @@ import type { CommandModule } from './command-module.js';
 import { collectFiles } from './collect-files.js';
 import { configFromOptions, withConfigOption, withRedisOption, type ConfigCliOptions } from './config-option.js';
 import { EXIT_CODES } from './exit-codes.js';
+import { rejectionLines } from './process-rejections.js';
 import { createProgress } from './progress.js';
 import { startWorkerWait } from './worker-wait.js';
 import { softwareVersion } from './version.js';
@@ -88,6 +89,7 @@ export async function runBatch(
   paths: readonly string[],
   options: ConfigCliOptions & { verbose?: boolean; move?: boolean },
   stdout: NodeJS.WritableStream = process.stdout,
+  stderr: NodeJS.WritableStream = process.stderr,
 ): Promise<BatchSummary> {
   const config = configFromOptions(options);
   for (const p of paths)
@@ -101,6 +103,7 @@ export async function runBatch(
   );
   const pipeline = openPipeline(config, { softwareVersion: softwareVersion(), logger, command: 'process' });
   const startedMs = Date.now();
+  const startedIso = new Date(startedMs).toISOString();
   const { coordinator } = pipeline;
   const inInbox = paths.every((p) => isWithin(p, config.folders.inbox));
   const copy = options.move !== true && !inInbox;
@@ -172,6 +175,8 @@ export async function runBatch(
           ? ''
           : `  alerts NOT delivered: ${alertsUndelivered} (${outbox.latest[0]?.lastError ?? 'see the log'}); kept in the outbox and retried by the next watch or process run until delivered or expired; see \`driftlight status\`\n`),
     );
+    // Each input rejected or failed in this run, on stderr as the README's exit code 3 says.
+    for (const line of rejectionLines(pipeline.ledger, startedIso)) stderr.write(`${line}\n`);
     return summary;
   } finally {
     await pipeline.close();

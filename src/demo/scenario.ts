@@ -186,7 +186,9 @@ export function generateDemoDay(seed = 20260314, channels = 512, channelWidthNs 
 
   const config = [
     '# driftlight config for the demo day (invented lab: Brightwater teaching bench).',
-    'folders: { inbox: inbox, archive: archive, quarantine: quarantine, results: results, outbox: outbox, state: state }',
+    '# Folders default to inbox, results, outbox, archive, quarantine and state next to this file; the inbox must',
+    '# exist (it does here), the others are created by the first run.',
+    'folders: { inbox: inbox }',
     'references:',
     '  - { id: r6g, sampleIdPattern: "^REF-R6G", standardId: rhodamine-6g-ethanol }',
     'controls:',

@@ -88,3 +88,27 @@ export function ledgerAnswers(ledger: Ledger): boolean {
   const row = ledger.prepare('SELECT 1 AS ok').get() as { ok: number } | undefined;
   return row?.ok === 1;
 }
+
+/** Files rejected or failed at or after `sinceIso` (ISO 8601 UTC), oldest first: name, where quarantined, code and message. */
+export function fileErrorsSince(
+  ledger: Ledger,
+  sinceIso: string,
+): { name: string; quarantinePath: string | null; code: string; message: string }[] {
+  const rows = ledger.database
+    .prepare(
+      `SELECT name, quarantine_path, error_code, error_message FROM files
+        WHERE state IN ('rejected','failed') AND updated_at >= ? ORDER BY updated_at, id`,
+    )
+    .all(sinceIso) as {
+    name: string;
+    quarantine_path: string | null;
+    error_code: string | null;
+    error_message: string | null;
+  }[];
+  return rows.map((row) => ({
+    name: row.name,
+    quarantinePath: row.quarantine_path,
+    code: row.error_code ?? 'UNKNOWN',
+    message: row.error_message ?? '',
+  }));
+}
