@@ -3,7 +3,9 @@
 // through the real `watch` loop (runWatch, in-process, accelerated clock: files land day by day, some
 // days late and out of order) and through `process` (one backlog): identical flags, the first alarm of
 // each fault within the days docs/qc.md states, no false recovery, and no alert lost while the
-// webhook receiver (HTTP on 127.0.0.1) and the SMTP sink (smtp-server) are down for an hour.
+// webhook receiver (HTTP on 127.0.0.1) and the SMTP sink (smtp-server) are down for an hour. A third
+// order through `process` (a run per week of deliveries, newest week first) and every result file's
+// numbers and current QC verdict compared across the three orders.
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { mkdirSync, writeFileSync } from 'node:fs';
@@ -11,6 +13,7 @@ import { Writable } from 'node:stream';
 import { join } from 'node:path';
 import { SMTPServer } from 'smtp-server';
 import { afterAll, describe, expect, it } from 'vitest';
+import type { AnalysisResult } from '../../src/analysis/result.js';
 import { readResultFiles } from '../../src/cli/demo-run.js';
 import { runBatch } from '../../src/cli/process.js';
 import { readSummaryRows } from '../../src/output/summary-table.js';
@@ -107,6 +110,32 @@ async function waitUntil(what: string, condition: () => boolean, timeoutMs = 30_
 /** A flag as compared between the runs: acquisition time, control, rule, metric, check, severity (set ids differ when a backlog groups a re-export with its original). */
 const signature = (flag: RecordedFlag): string =>
   `${flag.acquiredAt}|${flag.controlId}|${flag.ruleId}|${flag.metric}|${flag.check}|${flag.severity}`;
+
+/**
+ * What a lab reads in a result file, without what names the run: every number and yes/no by its JSON path, the
+ * QC verdict (rule, severity, quantity, value of each flag) and what is missing, keyed by role, sample and
+ * acquisition time. Left out: set ids, analysis time, config hash, provenance (file names and the paired set ids
+ * differ between runs) and qc.history (the verdicts a file had before a late result re-judged it).
+ */
+function resultNumbers(result: AnalysisResult): string {
+  const leaves: string[] = [];
+  const skip = new Set(['setId', 'analyzedAt', 'configHash', 'provenance', 'referenceSetId', 'qc']);
+  const walk = (value: unknown, path: string): void => {
+    if (typeof value === 'number' || typeof value === 'boolean') leaves.push(`${path}=${String(value)}`);
+    else if (Array.isArray(value)) value.forEach((item, index) => walk(item, `${path}[${index}]`));
+    else if (typeof value === 'object' && value !== null)
+      for (const [key, item] of Object.entries(value)) if (!skip.has(key)) walk(item, `${path}.${key}`);
+  };
+  walk(result, '');
+  const verdict = result.qc.flags.map((flag) => `${flag.rule}|${flag.severity}|${flag.quantity}|${flag.value}`).sort();
+  const missing = result.missing.map((entry) => entry.what).sort();
+  return [
+    `${result.role} ${result.sampleId} ${result.acquiredAt}`,
+    `qc: ${verdict.join('; ')}`,
+    `missing: ${missing.join('; ')}`,
+    ...leaves,
+  ].join('\n');
+}
 
 /** Scenario day of an ISO acquisition time. */
 const dayOf = (iso: string): number => Math.floor((Date.parse(iso) - Date.parse(replayTime(0, '00:00'))) / 86_400_000);
@@ -227,17 +256,33 @@ async function replayThroughWatch(dir: string): Promise<WatchOutcome> {
   }
 }
 
-/** The same files as one backlog through `process` (alerts to the log only). */
-async function replayThroughProcess(dir: string): Promise<{ flags: RecordedFlag[]; open: string[] }> {
-  const backlog = join(dir, 'backlog');
-  mkdirSync(backlog, { recursive: true });
-  for (const delivery of series.deliveries)
-    for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
+/**
+ * The same files through `process` (alerts to the log only): as one backlog, or (`newest-first`) one `process`
+ * run per week of deliveries, the last week first and newest first within it, so every run brings results older
+ * than those already judged.
+ */
+async function replayThroughProcess(
+  dir: string,
+  order: 'one-backlog' | 'newest-first' = 'one-backlog',
+): Promise<{ flags: RecordedFlag[]; open: string[] }> {
   writeFileSync(join(dir, 'driftlight.yaml'), configText(['{ id: log, type: log }']));
   mkdirSync(join(dir, 'inbox'), { recursive: true });
   const sink = new Writable({ write: (_chunk, _encoding, callback) => callback() });
-  const summary = await runBatch([backlog], { config: join(dir, 'driftlight.yaml') }, sink);
-  expect(summary.rejected).toBe(0);
+  const newestFirst = [...series.deliveries].reverse();
+  const batches =
+    order === 'one-backlog'
+      ? [series.deliveries]
+      : Array.from({ length: Math.ceil(newestFirst.length / 7) }, (_u, week) =>
+          newestFirst.slice(7 * week, 7 * week + 7),
+        );
+  for (const [index, batch] of batches.entries()) {
+    const backlog = join(dir, `backlog-${index}`);
+    mkdirSync(backlog, { recursive: true });
+    for (const delivery of batch)
+      for (const file of delivery.files) writeFileSync(join(backlog, file.name), file.content);
+    const summary = await runBatch([backlog], { config: join(dir, 'driftlight.yaml') }, sink);
+    expect(summary.rejected).toBe(0);
+  }
   const ledger = openLedger(join(dir, 'state'));
   try {
     const flags = flagsOfControls(ledger);
@@ -259,11 +304,26 @@ afterAll(() => {
 });
 
 describe('two months of a control through watch and process (issue 16, must-show)', () => {
-  it('gives identical flags, alarms within the stated days, no false recovery and no lost alert', async () => {
+  it('gives identical results and flags in three arrival orders, alarms within the stated days, no false recovery and no lost alert', async () => {
     const watchDir = tempDir('dl-replay-watch-');
     const processDir = tempDir('dl-replay-process-');
+    const reversedDir = tempDir('dl-replay-reversed-');
     const watched = await replayThroughWatch(watchDir);
     const processed = await replayThroughProcess(processDir);
+    const reversed = await replayThroughProcess(reversedDir, 'newest-first');
+
+    // Every result file says the same in the three arrival orders: day by day with late days (watch), one
+    // backlog (process) and one process run per week, newest first: the same numbers to the last digit and
+    // the same current QC verdict (runs, rates and rules are deterministic; only the order of arrival differs).
+    const numbersOf = (dir: string): string[] => readResultFiles(join(dir, 'results')).map(resultNumbers).sort();
+    const watchNumbers = numbersOf(watchDir);
+    expect(watchNumbers.length).toBe(2 * REPLAY.days + 1); // a reference and a control a day, and the re-export
+    expect(numbersOf(processDir)).toEqual(watchNumbers);
+    expect(numbersOf(reversedDir)).toEqual(watchNumbers);
+    const reversedFlags = reversed.flags
+      .filter((flag) => flag.setId !== '')
+      .map(signature)
+      .sort();
     const yieldsOf = (dir: string): string[] => {
       const ledger = openLedger(join(dir, 'state'));
       try {
@@ -322,7 +382,9 @@ describe('two months of a control through watch and process (issue 16, must-show
       .sort();
     expect(watchFlags.length).toBeGreaterThan(20);
     expect(processFlags).toEqual(watchFlags);
+    expect(reversedFlags).toEqual(watchFlags);
     expect(processed.open).toEqual(watched.open);
+    expect(reversed.open).toEqual(watched.open);
 
     // First alarm of each fault, in days from its first affected run (docs/qc.md, "Run lengths and drift detection").
     const firstDay = (from: number, predicate: (flag: RecordedFlag) => boolean): number =>
