@@ -21,6 +21,7 @@ import {
 import { createTailModel } from './tail-model.js';
 import { estimatePeeledLifetimesNs } from './peeling.js';
 import { PERIODIC_BACKGROUND_DEGENERACY_RATIO } from './earlier-pulses.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface ParameterLayout {
   /** Label of each free parameter ('tau1Ns', or 'decay2.photons1' in a global fit). */
@@ -129,7 +130,7 @@ export function buildLayout(
       upper.push(high);
     }
     return {
-      model: models[d] as DatasetModel,
+      model: itemAt(models, d),
       counts: prepared.counts.subarray(prepared.range.firstChannel, prepared.range.endChannel),
       freeIndex,
       fixedValues,
@@ -149,35 +150,28 @@ function startVector(
 ): Float64Array {
   const start = new Float64Array(layout.labels.length);
   for (let d = 0; d < decays.length; d++) {
-    const term = layout.terms[d] as DatasetTerm;
+    const term = itemAt(layout.terms, d);
     const local = Float64Array.from(term.fixedValues);
     for (let i = 0; i < components; i++)
-      if ((term.freeIndex[i] as number) >= 0) local[i] = lifetimesNs[i] ?? lifetimesNs[0] ?? 1;
+      if (itemAt(term.freeIndex, i) >= 0) local[i] = lifetimesNs[i] ?? lifetimesNs[0] ?? 1;
     const linearSlots: number[] = [];
     for (let i = 0; i < components; i++)
-      if ((term.freeIndex[components + i] as number) >= 0) linearSlots.push(components + i);
+      if (itemAt(term.freeIndex, components + i) >= 0) linearSlots.push(components + i);
     const backgroundSlot = 2 * components + 1;
-    if ((term.freeIndex[backgroundSlot] as number) >= 0) linearSlots.push(backgroundSlot);
+    if (itemAt(term.freeIndex, backgroundSlot) >= 0) linearSlots.push(backgroundSlot);
     if (
       linearSlots.length > 0 &&
-      !solveLinearParameters(
-        term.model,
-        term.counts,
-        local,
-        linearSlots,
-        scratch[d] as LinearSolveScratch,
-        backgroundSlot,
-      )
+      !solveLinearParameters(term.model, term.counts, local, linearSlots, itemAt(scratch, d), backgroundSlot)
     ) {
       for (const slot of linearSlots) local[slot] = slot === backgroundSlot ? 0 : 1;
     }
     for (let slot = 0; slot < local.length; slot++) {
-      const free = term.freeIndex[slot] as number;
-      if (free >= 0) start[free] = local[slot] as number;
+      const free = itemAt(term.freeIndex, slot);
+      if (free >= 0) start[free] = itemAt(local, slot);
     }
   }
   for (let i = 0; i < start.length; i++) {
-    start[i] = Math.min(Math.max(start[i] as number, layout.lower[i] as number), layout.upper[i] as number);
+    start[i] = Math.min(Math.max(itemAt(start, i), itemAt(layout.lower, i)), itemAt(layout.upper, i));
   }
   return start;
 }
@@ -393,12 +387,12 @@ function settleShiftKink(
   const upper = Float64Array.from(layout.upper);
   const start = Float64Array.from(outcome.parameters);
   for (const index of shiftIndices) {
-    const channels = (outcome.parameters[index] as number) / channelWidthNs;
+    const channels = itemAt(outcome.parameters, index) / channelWidthNs;
     const whole = Math.round(channels);
     if (Math.abs(channels - whole) > 0.02) return outcome;
     start[index] = whole * channelWidthNs;
-    lower[index] = start[index] as number;
-    upper[index] = start[index] as number;
+    lower[index] = start[index];
+    upper[index] = start[index];
   }
   const held = minimiseLevenbergMarquardt(problem, start, lower, upper, maxIterations);
   if (!held.converged || held.objective > outcome.objective + 1e-6) return outcome;
@@ -407,10 +401,10 @@ function settleShiftKink(
   const probe = Float64Array.from(held.parameters);
   for (const index of shiftIndices) {
     for (const direction of [-1, 1]) {
-      probe[index] = (held.parameters[index] as number) + direction * 1e-3 * channelWidthNs;
+      probe[index] = itemAt(held.parameters, index) + direction * 1e-3 * channelWidthNs;
       if (problem.evaluate(probe, false, normal, gradient) < held.objective) return outcome;
     }
-    probe[index] = held.parameters[index] as number;
+    probe[index] = itemAt(held.parameters, index);
   }
   return {
     ...held,
@@ -425,13 +419,12 @@ function isClean(outcome: MinimiserOutcome, layout: ParameterLayout): boolean {
   const lifetimes: number[] = [];
   for (let i = 0; i < layout.labels.length; i++) {
     const label = layout.labels[i] ?? '';
-    const value = outcome.parameters[i] as number;
-    if (/photons\d$/.test(label) && value <= (layout.lower[i] as number)) return false;
+    const value = itemAt(outcome.parameters, i);
+    if (/photons\d$/.test(label) && value <= itemAt(layout.lower, i)) return false;
     if (/tau\dNs$/.test(label)) lifetimes.push(value);
   }
   lifetimes.sort((a, b) => a - b);
-  for (let i = 1; i < lifetimes.length; i++)
-    if ((lifetimes[i] as number) < 1.02 * (lifetimes[i - 1] as number)) return false;
+  for (let i = 1; i < lifetimes.length; i++) if (itemAt(lifetimes, i) < 1.02 * itemAt(lifetimes, i - 1)) return false;
   return true;
 }
 

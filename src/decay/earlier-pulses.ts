@@ -6,6 +6,7 @@
 // at 80 MHz came out ~10 % low) and the fit is flagged. With the rate known and τ long against the period,
 // the wrapped tail is nearly a constant and trades off against the background (see docs/decay.md): the
 // background may then go below 0 (component-fit.ts) and a poorly determined τ is not acceptable (acceptability.ts).
+import { itemAt } from '../model/item-at.js';
 
 /** The fitted decay must fall below this fraction of its peak by the window end (1 %; this project's choice). */
 export const TAIL_END_FRACTION = 0.01;
@@ -41,9 +42,9 @@ export interface EarlierPulseInput {
 export function earlierPulseSuspicion(input: EarlierPulseInput): string | undefined {
   const { counts, model, firstChannel, backgroundPerChannel } = input;
   let peak = 0;
-  for (let k = 0; k < model.length; k++) peak = Math.max(peak, (model[k] as number) - backgroundPerChannel);
+  for (let k = 0; k < model.length; k++) peak = Math.max(peak, itemAt(model, k) - backgroundPerChannel);
   const causes: string[] = [];
-  const atEnd = model.length > 0 ? (model[model.length - 1] as number) - backgroundPerChannel : 0;
+  const atEnd = model.length > 0 ? itemAt(model, model.length - 1) - backgroundPerChannel : 0;
   if (peak > 0 && atEnd > TAIL_END_FRACTION * peak) {
     causes.push(
       `the fitted decay is still ${((100 * atEnd) / peak).toPrecision(2)} % of its peak at the end of the window`,
@@ -51,7 +52,7 @@ export function earlierPulseSuspicion(input: EarlierPulseInput): string | undefi
   }
   if (firstChannel >= 5) {
     let sum = 0;
-    for (let k = 0; k < firstChannel; k++) sum += counts[k] as number;
+    for (let k = 0; k < firstChannel; k++) sum += itemAt(counts, k);
     const mean = sum / firstChannel;
     const error = Math.sqrt(Math.max(backgroundPerChannel, 1) / firstChannel);
     if (mean - backgroundPerChannel > PRE_RISE_EXCESS_Z * error) {

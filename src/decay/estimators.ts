@@ -4,6 +4,7 @@
 //   lsq-neyman  r = (n − m)/√max(n, 1)  (Neyman weights, the usual TCSPC least squares)
 //   lsq-pearson r = (n − m)/√m          (Pearson weights; the weight depends on the model)
 // Weighted LS is biased at low counts, ML is not (Maus et al., Anal. Chem. 73, 2078 (2001)).
+import { itemAt } from '../model/item-at.js';
 
 export const ESTIMATORS = ['ml', 'lsq-neyman', 'lsq-pearson'] as const;
 export type Estimator = (typeof ESTIMATORS)[number];
@@ -26,8 +27,8 @@ export function estimatorResiduals(
   let sum = 0;
   if (estimator === 'ml') {
     for (let k = 0; k < length; k++) {
-      const n = counts[k] as number;
-      const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
+      const n = itemAt(counts, k);
+      const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
       const unit = n > 0 ? 2 * (m - n + n * Math.log(n / m)) : 2 * m;
       const magnitude = Math.sqrt(unit > 0 ? unit : 0);
       const r = n > m ? magnitude : -magnitude;
@@ -41,9 +42,9 @@ export function estimatorResiduals(
   }
   if (estimator === 'lsq-neyman') {
     for (let k = 0; k < length; k++) {
-      const n = counts[k] as number;
+      const n = itemAt(counts, k);
       const inverseSigma = 1 / Math.sqrt(n > 1 ? n : 1);
-      const r = (n - (model[k] as number)) * inverseSigma;
+      const r = (n - itemAt(model, k)) * inverseSigma;
       residuals[k] = r;
       sum += r * r;
       if (residualPerModel !== undefined) residualPerModel[k] = -inverseSigma;
@@ -51,8 +52,8 @@ export function estimatorResiduals(
     return sum;
   }
   for (let k = 0; k < length; k++) {
-    const n = counts[k] as number;
-    const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
+    const n = itemAt(counts, k);
+    const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
     const root = Math.sqrt(m);
     const r = (n - m) / root;
     residuals[k] = r;
@@ -80,9 +81,9 @@ export function estimatorWeights(
   let sum = 0;
   if (estimator === 'ml') {
     for (let k = 0; k < length; k++) {
-      const n = counts[k] as number;
-      const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
-      const half = n > 0 ? m - n + (countsLog[k] as number) - n * Math.log(m) : m;
+      const n = itemAt(counts, k);
+      const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
+      const half = n > 0 ? m - n + itemAt(countsLog, k) - n * Math.log(m) : m;
       const unit = half > 0 ? 2 * half : 0;
       const ratio = 1 - n / m;
       sum += half;
@@ -93,10 +94,10 @@ export function estimatorWeights(
   }
   if (estimator === 'lsq-neyman') {
     for (let k = 0; k < length; k++) {
-      const n = counts[k] as number;
+      const n = itemAt(counts, k);
       const variance = n > 1 ? n : 1;
       const inverseVariance = 1 / variance;
-      const difference = n - (model[k] as number);
+      const difference = n - itemAt(model, k);
       sum += (difference * difference) / variance;
       slope[k] = -difference * inverseVariance;
       curvature[k] = inverseVariance;
@@ -104,8 +105,8 @@ export function estimatorWeights(
     return sum;
   }
   for (let k = 0; k < length; k++) {
-    const n = counts[k] as number;
-    const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
+    const n = itemAt(counts, k);
+    const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
     const difference = n - m;
     const total = n + m;
     sum += (difference * difference) / m;
@@ -125,10 +126,9 @@ export function countsLogCounts(counts: Float64Array): Float64Array {
   const table = SMALL_COUNTS_LOG;
   const countsLog = new Float64Array(counts.length);
   for (let k = 0; k < counts.length; k++) {
-    const n = counts[k] as number;
+    const n = itemAt(counts, k);
     // Most channels hold small whole counts: a table lookup instead of a logarithm.
-    countsLog[k] =
-      n >= 0 && n < SMALL_COUNTS && Number.isInteger(n) ? (table[n] as number) : n > 0 ? n * Math.log(n) : 0;
+    countsLog[k] = n >= 0 && n < SMALL_COUNTS && Number.isInteger(n) ? itemAt(table, n) : n > 0 ? n * Math.log(n) : 0;
   }
   return countsLog;
 }
@@ -144,15 +144,15 @@ export function estimatorObjective(
   let sum = 0;
   if (estimator === 'ml') {
     for (let k = 0; k < length; k++) {
-      const n = counts[k] as number;
-      const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
-      sum += n > 0 ? m - n + (countsLog[k] as number) - n * Math.log(m) : m;
+      const n = itemAt(counts, k);
+      const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
+      sum += n > 0 ? m - n + itemAt(countsLog, k) - n * Math.log(m) : m;
     }
     return 2 * sum;
   }
   for (let k = 0; k < length; k++) {
-    const n = counts[k] as number;
-    const m = estimator === 'lsq-neyman' ? (model[k] as number) : Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
+    const n = itemAt(counts, k);
+    const m = estimator === 'lsq-neyman' ? itemAt(model, k) : Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
     const difference = n - m;
     sum += (difference * difference) / (estimator === 'lsq-neyman' ? (n > 1 ? n : 1) : m);
   }
@@ -163,8 +163,8 @@ export function estimatorObjective(
 export function poissonDeviance(counts: ArrayLike<number>, model: ArrayLike<number>): number {
   let sum = 0;
   for (let k = 0; k < counts.length; k++) {
-    const n = counts[k] as number;
-    const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
+    const n = itemAt(counts, k);
+    const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
     sum += n > 0 ? 2 * (m - n + n * Math.log(n / m)) : 2 * m;
   }
   return sum;
@@ -174,8 +174,8 @@ export function poissonDeviance(counts: ArrayLike<number>, model: ArrayLike<numb
 export function pearsonChiSquare(counts: ArrayLike<number>, model: ArrayLike<number>): number {
   let sum = 0;
   for (let k = 0; k < counts.length; k++) {
-    const m = Math.max(model[k] as number, MODEL_FLOOR_COUNTS);
-    const difference = (counts[k] as number) - m;
+    const m = Math.max(itemAt(model, k), MODEL_FLOOR_COUNTS);
+    const difference = itemAt(counts, k) - m;
     sum += (difference * difference) / m;
   }
   return sum;

@@ -11,6 +11,7 @@
 // Periodic excitation with period T ≥ nΔ (n channels): earlier pulses p = 1, 2, … add
 //   Σ_p Σ_j g[j]·c·x^(k−j−1)·y^p = c·S[n]·x^(T/Δ − n + k) / (1 − y),  y = exp(−T/τ),
 // the geometric series Σ_{p≥1} y^p = y/(1 − y) folded into the non-negative exponent T/Δ − n + k.
+import { itemAt } from '../model/item-at.js';
 
 /** Outputs of one component's convolution on the output channels [firstChannel, endChannel). */
 export interface ConvolutionBuffers {
@@ -81,20 +82,20 @@ export function convolveExponentialWithIrf(
   for (let k = 0; k < firstChannel; k++) {
     if (withDerivatives) {
       ds = x * ds + dx * s;
-      if (withShift) ss = x * ss + (irfSlopePerNs[k] as number);
+      if (withShift) ss = x * ss + itemAt(irfSlopePerNs, k);
     }
-    s = x * s + (irf[k] as number);
+    s = x * s + itemAt(irf, k);
   }
   if (!withDerivatives) {
     for (let k = firstChannel; k < rangeStop; k++) {
-      const g = irf[k] as number;
+      const g = itemAt(irf, k);
       response[k - firstChannel] = g * k0 + c * s;
       s = x * s + g;
     }
   } else if (withShift) {
     for (let k = firstChannel; k < rangeStop; k++) {
-      const g = irf[k] as number;
-      const h = irfSlopePerNs[k] as number;
+      const g = itemAt(irf, k);
+      const h = itemAt(irfSlopePerNs, k);
       const index = k - firstChannel;
       response[index] = g * k0 + c * s;
       perTau[index] = g * dk0 + dc * s + c * ds;
@@ -105,7 +106,7 @@ export function convolveExponentialWithIrf(
     }
   } else {
     for (let k = firstChannel; k < rangeStop; k++) {
-      const g = irf[k] as number;
+      const g = itemAt(irf, k);
       const index = k - firstChannel;
       response[index] = g * k0 + c * s;
       perTau[index] = g * dk0 + dc * s + c * ds;
@@ -118,9 +119,9 @@ export function convolveExponentialWithIrf(
     for (let k = rangeStop; k < channels; k++) {
       if (withDerivatives) {
         ds = x * ds + dx * s;
-        if (withShift) ss = x * ss + (irfSlopePerNs[k] as number);
+        if (withShift) ss = x * ss + itemAt(irfSlopePerNs, k);
       }
-      s = x * s + (irf[k] as number);
+      s = x * s + itemAt(irf, k);
     }
   }
   if (periodNs === undefined) return;
@@ -132,12 +133,12 @@ export function convolveExponentialWithIrf(
   for (let k = firstChannel; k < endChannel; k++) {
     const index = k - firstChannel;
     const wrapped = c * s * power;
-    response[index] = (response[index] as number) + wrapped * folded;
+    response[index] = itemAt(response, index) + wrapped * folded;
     if (withDerivatives) {
       const exponentPerTau = ((offsetChannels + k) * u) / tauNs;
       const dWrapped = (dc * s + c * ds) * power + wrapped * exponentPerTau;
-      perTau[index] = (perTau[index] as number) + dWrapped * folded + wrapped * dFolded;
-      if (withShift) perShift[index] = (perShift[index] as number) + c * ss * power * folded;
+      perTau[index] = itemAt(perTau, index) + dWrapped * folded + wrapped * dFolded;
+      if (withShift) perShift[index] = itemAt(perShift, index) + c * ss * power * folded;
     }
     power *= x;
   }

@@ -13,6 +13,7 @@ import {
 } from './estimators.js';
 import type { SumOfSquaresObjective } from './levenberg-marquardt.js';
 import { weightedCrossProducts } from './weighted-cross-products.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface DatasetTerm {
   readonly model: DatasetModel;
@@ -66,7 +67,7 @@ export class FitProblem implements SumOfSquaresObjective {
       const slots = term.freeIndex.length;
       const channels = term.model.channelCount;
       const freeSlots: number[] = [];
-      for (let j = 0; j < slots; j++) if ((term.freeIndex[j] as number) >= 0) freeSlots.push(j);
+      for (let j = 0; j < slots; j++) if (itemAt(term.freeIndex, j) >= 0) freeSlots.push(j);
       return {
         local: Float64Array.from(term.fixedValues),
         model: new Float64Array(channels),
@@ -83,11 +84,11 @@ export class FitProblem implements SumOfSquaresObjective {
 
   /** Local parameter vector of dataset `index` for the free vector `parameters` (new array). */
   localParameters(index: number, parameters: Float64Array): Float64Array {
-    const term = this.terms[index] as DatasetTerm;
+    const term = itemAt(this.terms, index);
     const local = Float64Array.from(term.fixedValues);
     for (let j = 0; j < local.length; j++) {
-      const free = term.freeIndex[j] as number;
-      if (free >= 0) local[j] = parameters[free] as number;
+      const free = itemAt(term.freeIndex, j);
+      if (free >= 0) local[j] = itemAt(parameters, free);
     }
     return local;
   }
@@ -95,7 +96,7 @@ export class FitProblem implements SumOfSquaresObjective {
   /** Expected counts of dataset `index` on its fit range for `parameters` (new array; reuses the last evaluation at the same parameters). */
   modelOf(index: number, parameters: Float64Array): Float64Array {
     this.ensureDerivatives(parameters);
-    return Float64Array.from((this.scratch[index] as DatasetScratch).model);
+    return Float64Array.from(itemAt(this.scratch, index).model);
   }
 
   evaluate(parameters: Float64Array, withDerivatives: boolean, normal: Float64Array, gradient: Float64Array): number {
@@ -105,8 +106,8 @@ export class FitProblem implements SumOfSquaresObjective {
     }
     let total = 0;
     for (let d = 0; d < this.terms.length; d++) {
-      const term = this.terms[d] as DatasetTerm;
-      const scratch = this.scratch[d] as DatasetScratch;
+      const term = itemAt(this.terms, d);
+      const scratch = itemAt(this.scratch, d);
       this.fillLocal(term, scratch.local, parameters);
       term.model.evaluate(scratch.local, withDerivatives, scratch.model, scratch.jacobian);
       if (belowPositivityFloor(term, scratch.local, scratch.model)) {
@@ -151,16 +152,16 @@ export class FitProblem implements SumOfSquaresObjective {
     const information = new Float64Array(size * size);
     this.ensureDerivatives(parameters);
     for (let d = 0; d < this.terms.length; d++) {
-      const term = this.terms[d] as DatasetTerm;
-      const scratch = this.scratch[d] as DatasetScratch;
+      const term = itemAt(this.terms, d);
+      const scratch = itemAt(this.scratch, d);
       const channels = term.model.channelCount;
       const weights = scratch.weights;
       for (let k = 0; k < channels; k++) {
-        const n = term.counts[k] as number;
+        const n = itemAt(term.counts, k);
         weights[k] =
           this.estimator === 'lsq-neyman'
             ? 1 / Math.max(n, 1)
-            : 1 / Math.max(scratch.model[k] as number, MODEL_FLOOR_COUNTS);
+            : 1 / Math.max(itemAt(scratch.model, k), MODEL_FLOOR_COUNTS);
       }
       weightedCrossProducts(scratch.jacobian, channels, scratch.freeSlots, weights, scratch.products);
       this.addBlock(term, scratch, information, undefined);
@@ -179,13 +180,13 @@ export class FitProblem implements SumOfSquaresObjective {
     const { freeSlots, products, slotGradient } = scratch;
     const count = freeSlots.length;
     for (let a = 0; a < count; a++) {
-      const freeA = term.freeIndex[freeSlots[a] as number] as number;
-      if (gradient !== undefined) gradient[freeA] = (gradient[freeA] as number) + (slotGradient[a] as number);
+      const freeA = itemAt(term.freeIndex, itemAt(freeSlots, a));
+      if (gradient !== undefined) gradient[freeA] = itemAt(gradient, freeA) + itemAt(slotGradient, a);
       for (let b = a; b < count; b++) {
-        const freeB = term.freeIndex[freeSlots[b] as number] as number;
-        const value = products[a * count + b] as number;
-        matrix[freeA * size + freeB] = (matrix[freeA * size + freeB] as number) + value;
-        if (a !== b) matrix[freeB * size + freeA] = (matrix[freeB * size + freeA] as number) + value;
+        const freeB = itemAt(term.freeIndex, itemAt(freeSlots, b));
+        const value = itemAt(products, a * count + b);
+        matrix[freeA * size + freeB] = itemAt(matrix, freeA * size + freeB) + value;
+        if (a !== b) matrix[freeB * size + freeA] = itemAt(matrix, freeB * size + freeA) + value;
       }
     }
   }
@@ -194,8 +195,8 @@ export class FitProblem implements SumOfSquaresObjective {
   private ensureDerivatives(parameters: Float64Array): void {
     if (this.derivativesCurrent && sameValues(this.derivativesParameters, parameters)) return;
     for (let d = 0; d < this.terms.length; d++) {
-      const term = this.terms[d] as DatasetTerm;
-      const scratch = this.scratch[d] as DatasetScratch;
+      const term = itemAt(this.terms, d);
+      const scratch = itemAt(this.scratch, d);
       this.fillLocal(term, scratch.local, parameters);
       term.model.evaluate(scratch.local, true, scratch.model, scratch.jacobian);
     }
@@ -205,16 +206,16 @@ export class FitProblem implements SumOfSquaresObjective {
 
   private fillLocal(term: DatasetTerm, local: Float64Array, parameters: Float64Array): void {
     for (let j = 0; j < local.length; j++) {
-      const free = term.freeIndex[j] as number;
-      if (free >= 0) local[j] = parameters[free] as number;
+      const free = itemAt(term.freeIndex, j);
+      if (free >= 0) local[j] = itemAt(parameters, free);
     }
   }
 }
 
 /** True when the background is below 0 and the model falls below POSITIVITY_FLOOR_COUNTS in some channel (outside the likelihood's domain). */
 function belowPositivityFloor(term: DatasetTerm, local: Float64Array, model: Float64Array): boolean {
-  if (!((local[term.backgroundSlot] as number) < 0)) return false;
-  for (let k = 0; k < model.length; k++) if (!((model[k] as number) >= POSITIVITY_FLOOR_COUNTS)) return true;
+  if (!(itemAt(local, term.backgroundSlot) < 0)) return false;
+  for (let k = 0; k < model.length; k++) if (!(itemAt(model, k) >= POSITIVITY_FLOOR_COUNTS)) return true;
   return false;
 }
 

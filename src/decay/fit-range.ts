@@ -6,6 +6,7 @@
 import { AnalysisFailed } from '../model/errors.js';
 import type { Estimator } from './estimators.js';
 import { firstChannelAbove, fullWidthHalfMaximumNs, peakChannel } from './irf-metrics.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface ChannelRange {
   /** First channel (inclusive). */
@@ -28,9 +29,9 @@ export function channelsInRange(
 ): ChannelRange {
   const slack = 1e-6 * channelWidthNs;
   let first = 0;
-  while (first < timeNs.length && (timeNs[first] as number) < rangeNs[0] - slack) first++;
+  while (first < timeNs.length && itemAt(timeNs, first) < rangeNs[0] - slack) first++;
   let end = first;
-  while (end < timeNs.length && (timeNs[end] as number) <= rangeNs[1] + slack) end++;
+  while (end < timeNs.length && itemAt(timeNs, end) <= rangeNs[1] + slack) end++;
   return checked({ firstChannel: first, endChannel: end }, minimumChannels, `rangeNs [${rangeNs[0]}, ${rangeNs[1]}]`);
 }
 
@@ -56,8 +57,8 @@ export function automaticRange(
     const window = 16;
     let sum = 0;
     for (let k = n - 1; k >= first; k--) {
-      sum += counts[k] as number;
-      if (k + window < n) sum -= counts[k + window] as number;
+      sum += itemAt(counts, k);
+      if (k + window < n) sum -= itemAt(counts, k + window);
       const size = Math.min(window, n - k);
       if (size === window && sum / window >= 1) {
         end = Math.min(n, k + window);

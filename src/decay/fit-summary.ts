@@ -14,6 +14,7 @@ import type { PreparedDecay } from './prepare-decay.js';
 import { profileInterval } from './profile-interval.js';
 import { durbinWatson, residualAutocorrelation, runsTest } from './residual-tests.js';
 import { plainArray, type ComponentResult, type DecayFitResult, type LifetimeInterval } from './result.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Durbin–Watson value below which residuals count as correlated (common practice, ~1.7 for TCSPC fits). */
 export const DURBIN_WATSON_WARNING = 1.7;
@@ -44,15 +45,15 @@ export function parameterCovariance(fit: ComponentFit, widenForBounds = false): 
   const interior: number[] = [];
   const onBound: number[] = [];
   for (let i = 0; i < size; i++) {
-    const value = outcome.parameters[i] as number;
-    if (value > (layout.lower[i] as number) && value < (layout.upper[i] as number)) interior.push(i);
+    const value = itemAt(outcome.parameters, i);
+    if (value > itemAt(layout.lower, i) && value < itemAt(layout.upper, i)) interior.push(i);
     else if (layout.lower[i] !== layout.upper[i]) onBound.push(i);
   }
   const invert = (set: readonly number[]): Float64Array | undefined => {
     const reduced = new Float64Array(set.length * set.length);
     set.forEach((row, a) =>
       set.forEach((column, b) => {
-        reduced[a * set.length + b] = information[row * size + column] as number;
+        reduced[a * set.length + b] = itemAt(information, row * size + column);
       }),
     );
     return invertPositiveDefinite(reduced, set.length);
@@ -72,7 +73,7 @@ export function parameterCovariance(fit: ComponentFit, widenForBounds = false): 
     const a = position.get(i);
     const b = position.get(j);
     if (inverse === undefined || a === undefined || b === undefined) return undefined;
-    const value = inverse[a * counted.length + b] as number;
+    const value = itemAt(inverse, a * counted.length + b);
     return Number.isFinite(value) ? value : undefined;
   };
   const errors = Array.from({ length: size }, (_unused, i) => {
@@ -115,12 +116,12 @@ export const RUNS_TEST_MIN_MODEL_COUNTS = 5;
  */
 export function runsTestResiduals(residuals: Float64Array, model: Float64Array): Float64Array {
   let count = 0;
-  for (let k = 0; k < residuals.length; k++) if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) count++;
+  for (let k = 0; k < residuals.length; k++) if (itemAt(model, k) >= RUNS_TEST_MIN_MODEL_COUNTS) count++;
   if (count < 20) return residuals;
   const kept = new Float64Array(count);
   let next = 0;
   for (let k = 0; k < residuals.length; k++)
-    if ((model[k] as number) >= RUNS_TEST_MIN_MODEL_COUNTS) kept[next++] = residuals[k] as number;
+    if (itemAt(model, k) >= RUNS_TEST_MIN_MODEL_COUNTS) kept[next++] = itemAt(residuals, k);
   return kept;
 }
 
@@ -224,7 +225,7 @@ export function summariseFit(
   for (const index of covariance.boundCountedAsFree) {
     const label = layout.labels[index] ?? `parameter ${index + 1}`;
     errorNotes.push(
-      `${label} is at its bound (${(parameters[index] as number).toPrecision(4)}): the other parameters' errors are computed as if it were free (widened, not conditional on the bound)`,
+      `${label} is at its bound (${itemAt(parameters, index).toPrecision(4)}): the other parameters' errors are computed as if it were free (widened, not conditional on the bound)`,
     );
   }
   const irfVariances = irfNoiseFor(fit, prepared, local, covariance, errorNotes);
@@ -234,30 +235,30 @@ export function summariseFit(
   });
   if (!outcome.converged) warnings.push(`the fit did not converge: ${outcome.reason}`);
   const errorOf = (slot: number): number | undefined => {
-    const free = term.freeIndex[slot] as number;
+    const free = itemAt(term.freeIndex, slot);
     return free >= 0 ? errors[free] : undefined;
   };
   const irfErrorOf = (slot: number): number | undefined => {
-    const free = term.freeIndex[slot] as number;
+    const free = itemAt(term.freeIndex, slot);
     const variance = free >= 0 ? irfVariances?.[free] : undefined;
     return variance === undefined ? undefined : Math.sqrt(variance);
   };
   const deltaObjective = chiSquareQuantileOneDof(options.confidenceLevel);
   const componentResults: ComponentResult[] = [];
   for (let i = 0; i < components; i++) {
-    const tauNs = local[i] as number;
-    const free = term.freeIndex[i] as number;
+    const tauNs = itemAt(local, i);
+    const free = itemAt(term.freeIndex, i);
     const { amplitude, amplitudeStdErr } = amplitudeOf(
-      local[components + i] as number,
+      itemAt(local, components + i),
       tauNs,
       prepared.channelWidthNs,
-      term.freeIndex[components + i] as number,
+      itemAt(term.freeIndex, components + i),
       free,
       covariance,
     );
     const tauNsStdErr = errorOf(i);
     const tauNsStdErrFromIrf = irfErrorOf(i);
-    const tauBackgroundCorrelation = correlationOf(covariance, free, term.freeIndex[2 * components + 1] as number);
+    const tauBackgroundCorrelation = correlationOf(covariance, free, itemAt(term.freeIndex, 2 * components + 1));
     let tauNsInterval: LifetimeInterval | undefined;
     if (free >= 0 && options.profileIntervals && !outcome.converged) {
       tauNsInterval = {
@@ -305,7 +306,7 @@ export function summariseFit(
       ...(tauBackgroundCorrelation === undefined ? {} : { tauBackgroundCorrelation }),
       amplitude,
       ...(amplitudeStdErr === undefined ? {} : { amplitudeStdErr }),
-      photons: local[components + i] as number,
+      photons: itemAt(local, components + i),
       amplitudeFraction: 0,
       intensityFraction: 0,
       tauFixed: free < 0,
@@ -327,13 +328,13 @@ export function summariseFit(
   }));
   const atBound: string[] = [];
   for (let i = 0; i < freeCount; i++) {
-    const value = parameters[i] as number;
+    const value = itemAt(parameters, i);
     const fixedByBounds = layout.lower[i] === layout.upper[i];
-    if (!fixedByBounds && (value <= (layout.lower[i] as number) || value >= (layout.upper[i] as number))) {
+    if (!fixedByBounds && (value <= itemAt(layout.lower, i) || value >= itemAt(layout.upper, i))) {
       const label = layout.labels[i] ?? `parameter ${i + 1}`;
       if (!label.startsWith('background') && !label.startsWith('scatter')) {
         warnings.push(`${label} is at its bound (${value})`);
-        atBound.push(`${label} is at its ${value <= (layout.lower[i] as number) ? 'lower' : 'upper'} bound (${value})`);
+        atBound.push(`${label} is at its ${value <= itemAt(layout.lower, i) ? 'lower' : 'upper'} bound (${value})`);
       }
     }
   }
@@ -343,7 +344,7 @@ export function summariseFit(
           counts: prepared.counts,
           model,
           firstChannel: prepared.range.firstChannel,
-          backgroundPerChannel: local[2 * components + 1] as number,
+          backgroundPerChannel: itemAt(local, 2 * components + 1),
         })
       : undefined;
   if (earlierPulses !== undefined) warnings.push(earlierPulses);
@@ -352,11 +353,11 @@ export function summariseFit(
     const periodic = periodicBackgroundWarning(
       longest,
       prepared.periodNs,
-      (term.freeIndex[2 * components + 1] as number) >= 0,
+      itemAt(term.freeIndex, 2 * components + 1) >= 0,
     );
     if (periodic !== undefined) warnings.push(periodic);
   }
-  const background = local[2 * components + 1] as number;
+  const background = itemAt(local, 2 * components + 1);
   const backgroundStdErr = errorOf(2 * components + 1);
   if (
     background < 0 &&
@@ -397,7 +398,7 @@ export function summariseFit(
   }
   const scatterSlot = 2 * components + 2;
   let scatterFraction = 0;
-  if ((local[scatterSlot] as number) !== 0) {
+  if (itemAt(local, scatterSlot) !== 0) {
     const withoutScatter = Float64Array.from(local);
     withoutScatter[scatterSlot] = 0;
     const reduced = new Float64Array(channels);
@@ -405,13 +406,13 @@ export function summariseFit(
     let scatterSum = 0;
     let modelSum = 0;
     for (let k = 0; k < channels; k++) {
-      scatterSum += (model[k] as number) - (reduced[k] as number);
-      modelSum += model[k] as number;
+      scatterSum += itemAt(model, k) - itemAt(reduced, k);
+      modelSum += itemAt(model, k);
     }
     scatterFraction = modelSum > 0 ? scatterSum / modelSum : 0;
   }
   let photonsInRange = 0;
-  for (let k = 0; k < channels; k++) photonsInRange += counts[k] as number;
+  for (let k = 0; k < channels; k++) photonsInRange += itemAt(counts, k);
   const { firstChannel, endChannel } = prepared.range;
   const shiftStdErr = errorOf(2 * components);
   return {
@@ -425,7 +426,7 @@ export function summariseFit(
     components: withFractions,
     tauMeanAmplitudeNs: amplitudeSum !== 0 ? weightedSum / amplitudeSum : 0,
     tauMeanIntensityNs: weightedSum !== 0 ? squaredSum / weightedSum : 0,
-    shiftNs: local[2 * components] as number,
+    shiftNs: itemAt(local, 2 * components),
     ...(shiftStdErr === undefined ? {} : { shiftNsStdErr: shiftStdErr }),
     backgroundPerChannel: background,
     ...(backgroundStdErr === undefined ? {} : { backgroundPerChannelStdErr: backgroundStdErr }),
@@ -440,7 +441,7 @@ export function summariseFit(
     bic: bayesianCriterion(outcome.objective, freeCount, channels),
     photons: prepared.photons,
     photonsInRange,
-    rangeNs: [prepared.timeNs[firstChannel] as number, prepared.timeNs[endChannel - 1] as number],
+    rangeNs: [itemAt(prepared.timeNs, firstChannel), itemAt(prepared.timeNs, endChannel - 1)],
     rangeChannels: [firstChannel, endChannel],
     weightedResiduals: plainArray(residuals),
     fittedCounts: plainArray(model),

@@ -20,6 +20,7 @@ import { localParameterCount, type ParameterName } from './parameters.js';
 import { prepareDecay } from './prepare-decay.js';
 import { durbinWatson, runsTest } from './residual-tests.js';
 import { plainArray, type ComponentResult, type GlobalDecayResult, type GlobalFitResult } from './result.js';
+import { itemAt } from '../model/item-at.js';
 
 /**
  * Fits `decays` jointly with the parameters in options.links shared (default: all lifetimes τ in ns) by
@@ -65,22 +66,22 @@ export function globalFit(decays: readonly Decay[], options?: FitDecayOptions): 
     ).length;
     const componentResults = componentsOf(local, components, term.freeIndex, covariance, item.channelWidthNs);
     // With earlier pulses modelled the background may fit below 0 (component-fit.ts): reported, warned beyond 2 SE.
-    const background = local[2 * components + 1] as number;
-    const backgroundFree = term.freeIndex[2 * components + 1] as number;
+    const background = itemAt(local, 2 * components + 1);
+    const backgroundFree = itemAt(term.freeIndex, 2 * components + 1);
     const backgroundStdErr = backgroundFree >= 0 ? covariance.errors[backgroundFree] : undefined;
     if (background < 0 && (backgroundStdErr === undefined || background < -NEGATIVE_BACKGROUND_Z * backgroundStdErr))
       warnings.push(`decay ${d + 1}: ${negativeBackgroundWarning(background, backgroundStdErr)}`);
     let photons = 0;
-    for (let k = 0; k < term.counts.length; k++) photons += term.counts[k] as number;
+    for (let k = 0; k < term.counts.length; k++) photons += itemAt(term.counts, k);
     return {
       components: componentResults,
-      shiftNs: local[2 * components] as number,
+      shiftNs: itemAt(local, 2 * components),
       backgroundPerChannel: background,
       chi2Reduced: pearson / Math.max(model.length - ownFree, 1),
       deviance: resolved.estimator === 'ml' ? residualSquares : poissonDeviance(term.counts, model),
       durbinWatson: durbinWatson(residuals),
       runsTest: runsTest(runsTestResiduals(residuals, model)),
-      rangeNs: [item.timeNs[item.range.firstChannel] as number, item.timeNs[item.range.endChannel - 1] as number],
+      rangeNs: [itemAt(item.timeNs, item.range.firstChannel), itemAt(item.timeNs, item.range.endChannel - 1)],
       photons,
       weightedResiduals: plainArray(residuals),
       fittedCounts: plainArray(model),
@@ -122,14 +123,14 @@ function componentsOf(
   channelWidthNs: number,
 ): ComponentResult[] {
   const partial = Array.from({ length: components }, (_unused, i) => {
-    const tauNs = local[i] as number;
-    const tauFree = freeIndex[i] as number;
-    const photons = local[components + i] as number;
+    const tauNs = itemAt(local, i);
+    const tauFree = itemAt(freeIndex, i);
+    const photons = itemAt(local, components + i);
     const { amplitude, amplitudeStdErr } = amplitudeOf(
       photons,
       tauNs,
       channelWidthNs,
-      freeIndex[components + i] as number,
+      itemAt(freeIndex, components + i),
       tauFree,
       covariance,
     );

@@ -7,6 +7,7 @@
 // without inventing shape, and an IRF whose counts fall largely outside the decay's window cannot be
 // paired: both are refused with IRF_AXIS_MISMATCH and a hint.
 import { InputRejected } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Relative tolerance on channel widths treated as equal (0.1 %). */
 export const CHANNEL_WIDTH_TOLERANCE = 1e-3;
@@ -56,7 +57,7 @@ export function alignIrfToDecay(
   let inside = 0;
   const windowEnd = decayStart + channels * decayWidth;
   for (let k = 0; k < irf.counts.length; k++) {
-    const value = irf.counts[k] as number;
+    const value = itemAt(irf.counts, k);
     total += value;
     if (value === 0) continue;
     const from = irfStart + k * irfWidth;
@@ -72,7 +73,7 @@ export function alignIrfToDecay(
       if (channelFrom >= high) break;
       const overlap = Math.min(high, channelTo) - Math.max(low, channelFrom);
       if (overlap > 0) {
-        counts[channel] = (counts[channel] as number) + density * overlap;
+        counts[channel] = itemAt(counts, channel) + density * overlap;
         inside += density * overlap;
       }
       channel++;

@@ -13,6 +13,7 @@ import { convolveExponentialWithIrf } from './exponential-convolution.js';
 import { shiftIrfSecondOrder } from './irf-second-order.js';
 import { shiftIrf } from './irf-shift.js';
 import type { IrfWithinChannel } from './reconvolution-model.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface IrfNoiseInput {
   /** Unit-sum IRF over the whole histogram. */
@@ -52,8 +53,8 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
   } = input;
   const channels = irfUnit.length;
   const rangeChannels = endChannel - firstChannel;
-  const shiftNs = local[2 * components] as number;
-  const scatter = local[2 * components + 2] as number;
+  const shiftNs = itemAt(local, 2 * components);
+  const scatter = itemAt(local, 2 * components + 2);
   // Impulse at `origin`, far enough from 0 that a negative shift keeps it inside the kernel array.
   const origin = Math.max(0, -Math.floor(shiftNs / channelWidthNs)) + 4;
   const length = channels + origin + 4;
@@ -66,20 +67,20 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
   const response = new Float64Array(length);
   const none = new Float64Array(0);
   for (let i = 0; i < components; i++) {
-    const tauNs = local[i] as number;
-    const amplitude = ((local[components + i] as number) * channelWidthNs) / tauNs;
+    const tauNs = itemAt(local, i);
+    const amplitude = (itemAt(local, components + i) * channelWidthNs) / tauNs;
     convolveExponentialWithIrf(shiftedImpulse, undefined, tauNs, channelWidthNs, undefined, 0, length, false, {
       response,
       responsePerTauNs: none,
       responsePerShiftNs: none,
     });
-    for (let q = 0; q < length; q++) kernel[q] = (kernel[q] as number) + amplitude * (response[q] as number);
+    for (let q = 0; q < length; q++) kernel[q] = itemAt(kernel, q) + amplitude * itemAt(response, q);
   }
   // y_l[k] = J_kl·W_k for each free parameter l (k on the range).
   const slots: number[] = [];
   const freeOfSlot: number[] = [];
   for (let slot = 0; slot < freeIndex.length; slot++) {
-    const free = freeIndex[slot] as number;
+    const free = itemAt(freeIndex, slot);
     if (free >= 0) {
       slots.push(slot);
       freeOfSlot.push(free);
@@ -88,7 +89,7 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
   const weighted = slots.map((slot) => {
     const column = new Float64Array(rangeChannels);
     for (let k = 0; k < rangeChannels; k++)
-      column[k] = (jacobian[slot * rangeChannels + k] as number) / Math.max(model[k] as number, 1e-10);
+      column[k] = itemAt(jacobian, slot * rangeChannels + k) / Math.max(itemAt(model, k), 1e-10);
     return column;
   });
   // Covariance rows of the free parameters (undefined entries count as 0: not estimable, not propagated).
@@ -100,7 +101,7 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
   const z = new Float64Array(freeCount);
   const b = new Float64Array(freeCount);
   for (let j = 0; j < channels; j++) {
-    const g = irfUnit[j] as number;
+    const g = itemAt(irfUnit, j);
     if (!(g > 0)) continue;
     z.fill(0);
     // ∂m_k/∂g_j = kernel[k − j + origin] for absolute channel k = firstChannel + r; causal part only.
@@ -111,20 +112,20 @@ export function irfNoiseVariances(input: IrfNoiseInput): Float64Array {
       for (let r = startR; r < rangeChannels; r++) {
         const q = firstChannel + r - j + origin;
         if (q >= length) break;
-        total += (column[r] as number) * (kernel[q] as number);
+        total += itemAt(column, r) * itemAt(kernel, q);
       }
-      z[freeOfSlot[s] as number] = total;
+      z[itemAt(freeOfSlot, s)] = total;
     }
     for (let a = 0; a < freeCount; a++) {
       let value = 0;
-      for (let c = 0; c < freeCount; c++) value += (cov[a * freeCount + c] as number) * (z[c] as number);
+      for (let c = 0; c < freeCount; c++) value += itemAt(cov, a * freeCount + c) * itemAt(z, c);
       b[a] = value;
-      sumSquares[a] = (sumSquares[a] as number) + g * value * value;
-      sumFirst[a] = (sumFirst[a] as number) + g * value;
+      sumSquares[a] = itemAt(sumSquares, a) + g * value * value;
+      sumFirst[a] = itemAt(sumFirst, a) + g * value;
     }
   }
   return Float64Array.from(
     sumSquares,
-    (squares, a) => Math.max(0, squares - (sumFirst[a] as number) ** 2) / input.irfTotalCounts,
+    (squares, a) => Math.max(0, squares - itemAt(sumFirst, a) ** 2) / input.irfTotalCounts,
   );
 }

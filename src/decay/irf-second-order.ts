@@ -14,6 +14,7 @@
 // shift at every whole channel. Catmull–Rom interpolation of the channel integrals (Keys, IEEE Trans.
 // ASSP 29, 1153 (1981), a = −½) is third-order accurate, keeps the sum, and is continuous in value and
 // slope across whole channels. Values below zero (overshoot at the IRF's foot) are set to zero.
+import { itemAt } from '../model/item-at.js';
 
 const ONE_TWELFTH = 1 / 12;
 
@@ -47,7 +48,7 @@ export function shiftIrfSecondOrder(
   const d2 = 0.5 * (1 + 8 * t - 9 * t2);
   const d3 = 0.5 * (-2 * t + 3 * t2);
   const inverseWidth = 1 / channelWidthNs;
-  const at = (i: number): number => (i >= 0 && i < length ? (irf[i] as number) : 0);
+  const at = (i: number): number => (i >= 0 && i < length ? itemAt(irf, i) : 0);
   // Interpolated value (and slope) at channel k, for k in [−1, endChannel].
   const value = (k: number): number => {
     const i = k - whole;

@@ -5,6 +5,7 @@
 // (channels outside the histogram count as zero). Linear interpolation keeps the sum and is exact for a
 // whole-channel shift; the slope is the right-hand derivative where f = 0 (common practice in
 // reconvolution fitting; the shift is a nuisance parameter).
+import { itemAt } from '../model/item-at.js';
 
 /**
  * Fills `shifted` with the IRF moved later by `shiftNs` (linear interpolation) and `slopePerNs` with
@@ -32,16 +33,16 @@ export function shiftIrf(
   const keep = 1 - fraction;
   const offset = simple ? whole | 0 : 0;
   // Each source channel is read once: this channel's `at` is the next channel's `before`.
-  let before = interiorStart < interiorEnd ? (irf[interiorStart - offset - 1] as number) : 0;
+  let before = interiorStart < interiorEnd ? itemAt(irf, interiorStart - offset - 1) : 0;
   if (slopePerNs === undefined) {
     for (let k = interiorStart; k < interiorEnd; k++) {
-      const at = irf[k - offset] as number;
+      const at = itemAt(irf, k - offset);
       shifted[k] = keep * at + fraction * before;
       before = at;
     }
   } else {
     for (let k = interiorStart; k < interiorEnd; k++) {
-      const at = irf[k - offset] as number;
+      const at = itemAt(irf, k - offset);
       shifted[k] = keep * at + fraction * before;
       slopePerNs[k] = (before - at) * inverseWidth;
       before = at;
@@ -63,8 +64,8 @@ function shiftChannel(
 ): void {
   const i0 = k - whole;
   const i1 = i0 - 1;
-  const at = i0 >= 0 && i0 < irf.length ? (irf[i0] as number) : 0;
-  const before = i1 >= 0 && i1 < irf.length ? (irf[i1] as number) : 0;
+  const at = i0 >= 0 && i0 < irf.length ? itemAt(irf, i0) : 0;
+  const before = i1 >= 0 && i1 < irf.length ? itemAt(irf, i1) : 0;
   shifted[k] = (1 - fraction) * at + fraction * before;
   if (slopePerNs !== undefined) slopePerNs[k] = (before - at) * inverseWidth;
 }

@@ -4,6 +4,7 @@
 // the decrease of Σ r² a full Gauss–Newton step would still give (Σ r² is a deviance or χ², so a
 // decrement ≪ 1 means the parameters are within a tiny fraction of a standard error of the minimum).
 import { choleskyInPlace, choleskySolveInPlace } from './linear-algebra.js';
+import { itemAt } from '../model/item-at.js';
 
 /**
  * A sum-of-squares objective: returns Σ r² and, when asked, the normal matrix JᵀJ (row-major p×p) and
@@ -42,7 +43,7 @@ export function minimiseLevenbergMarquardt(
 ): MinimiserOutcome {
   const size = objective.parameterCount;
   const parameters = new Float64Array(size);
-  for (let i = 0; i < size; i++) parameters[i] = clamp(start[i] as number, lower[i] as number, upper[i] as number);
+  for (let i = 0; i < size; i++) parameters[i] = clamp(itemAt(start, i), itemAt(lower, i), itemAt(upper, i));
   const normal = new Float64Array(size * size);
   const gradient = new Float64Array(size);
   const damped = new Float64Array(size * size);
@@ -82,12 +83,12 @@ export function minimiseLevenbergMarquardt(
     let acceptedWithDerivatives: boolean;
     for (;;) {
       buildDamped(normal, active, lambda, size, damped);
-      for (let i = 0; i < size; i++) step[i] = active[i] === 1 ? 0 : -(gradient[i] as number);
+      for (let i = 0; i < size; i++) step[i] = active[i] === 1 ? 0 : -itemAt(gradient, i);
       if (choleskyInPlace(damped, size)) {
         choleskySolveInPlace(damped, size, step);
         for (let i = 0; i < size; i++) {
-          trial[i] = clamp((parameters[i] as number) + (step[i] as number), lower[i] as number, upper[i] as number);
-          step[i] = (trial[i] as number) - (parameters[i] as number);
+          trial[i] = clamp(itemAt(parameters, i) + itemAt(step, i), itemAt(lower, i), itemAt(upper, i));
+          step[i] = itemAt(trial, i) - itemAt(parameters, i);
         }
         const predicted = predictedDecrease(normal, gradient, step, size);
         const trialValue = objective.evaluate(trial, trialWithDerivatives, trialNormal, trialGradient);
@@ -144,7 +145,7 @@ function clamp(value: number, low: number, high: number): number {
 }
 
 function allFinite(values: Float64Array): boolean {
-  for (let i = 0; i < values.length; i++) if (!Number.isFinite(values[i] as number)) return false;
+  for (let i = 0; i < values.length; i++) if (!Number.isFinite(itemAt(values, i))) return false;
   return true;
 }
 
@@ -157,25 +158,24 @@ function markActive(
   active: Uint8Array,
 ): void {
   for (let i = 0; i < parameters.length; i++) {
-    const value = parameters[i] as number;
-    const slope = gradient[i] as number;
-    const fixed = (lower[i] as number) === (upper[i] as number);
-    active[i] =
-      fixed || (value <= (lower[i] as number) && slope > 0) || (value >= (upper[i] as number) && slope < 0) ? 1 : 0;
+    const value = itemAt(parameters, i);
+    const slope = itemAt(gradient, i);
+    const fixed = itemAt(lower, i) === itemAt(upper, i);
+    active[i] = fixed || (value <= itemAt(lower, i) && slope > 0) || (value >= itemAt(upper, i) && slope < 0) ? 1 : 0;
   }
 }
 
 function buildDamped(normal: Float64Array, active: Uint8Array, lambda: number, size: number, out: Float64Array): void {
   let largestDiagonal = 0;
   for (let i = 0; i < size; i++)
-    if (active[i] === 0) largestDiagonal = Math.max(largestDiagonal, normal[i * size + i] as number);
+    if (active[i] === 0) largestDiagonal = Math.max(largestDiagonal, itemAt(normal, i * size + i));
   // Marquardt scaling by each parameter's own curvature; a floor only where that curvature is zero.
   const floor = 1e-12 * (largestDiagonal > 0 ? largestDiagonal : 1);
   for (let i = 0; i < size; i++) {
     for (let j = 0; j < size; j++) {
-      out[i * size + j] = active[i] === 1 || active[j] === 1 ? 0 : (normal[i * size + j] as number);
+      out[i * size + j] = active[i] === 1 || active[j] === 1 ? 0 : itemAt(normal, i * size + j);
     }
-    const own = normal[i * size + i] as number;
+    const own = itemAt(normal, i * size + i);
     const diagonal = own > 0 ? own : floor;
     out[i * size + i] = active[i] === 1 ? 1 : diagonal * (1 + lambda);
   }
@@ -192,19 +192,19 @@ function newtonDecrement(
   scaled: Float64Array,
 ): number | undefined {
   for (let i = 0; i < size; i++) {
-    const scaleI = active[i] === 1 ? 1 : 1 / Math.sqrt(Math.max(normal[i * size + i] as number, Number.MIN_VALUE));
+    const scaleI = active[i] === 1 ? 1 : 1 / Math.sqrt(Math.max(itemAt(normal, i * size + i), Number.MIN_VALUE));
     for (let j = 0; j < size; j++) {
-      const scaleJ = active[j] === 1 ? 1 : 1 / Math.sqrt(Math.max(normal[j * size + j] as number, Number.MIN_VALUE));
+      const scaleJ = active[j] === 1 ? 1 : 1 / Math.sqrt(Math.max(itemAt(normal, j * size + j), Number.MIN_VALUE));
       work[i * size + j] =
-        active[i] === 1 || active[j] === 1 ? (i === j ? 1 : 0) : (normal[i * size + j] as number) * scaleI * scaleJ;
+        active[i] === 1 || active[j] === 1 ? (i === j ? 1 : 0) : itemAt(normal, i * size + j) * scaleI * scaleJ;
     }
-    vector[i] = active[i] === 1 ? 0 : (gradient[i] as number) * scaleI;
+    vector[i] = active[i] === 1 ? 0 : itemAt(gradient, i) * scaleI;
   }
   scaled.set(vector);
   if (!choleskyInPlace(work, size)) return undefined;
   choleskySolveInPlace(work, size, vector);
   let sum = 0;
-  for (let i = 0; i < size; i++) sum += (vector[i] as number) * (scaled[i] as number);
+  for (let i = 0; i < size; i++) sum += itemAt(vector, i) * itemAt(scaled, i);
   return sum;
 }
 
@@ -213,10 +213,10 @@ function predictedDecrease(normal: Float64Array, gradient: Float64Array, step: F
   let linear = 0;
   let quadratic = 0;
   for (let i = 0; i < size; i++) {
-    const si = step[i] as number;
-    linear += si * (gradient[i] as number);
+    const si = itemAt(step, i);
+    linear += si * itemAt(gradient, i);
     let row = 0;
-    for (let j = 0; j < size; j++) row += (normal[i * size + j] as number) * (step[j] as number);
+    for (let j = 0; j < size; j++) row += itemAt(normal, i * size + j) * itemAt(step, j);
     quadratic += si * row;
   }
   return -(2 * linear + quadratic);

@@ -1,5 +1,6 @@
 // Weighted least-squares line through (t, ln y), the log-slope estimate used for lifetime start values
 // (tail slope, exponential peeling): weights y ≈ 1/var(ln y) for Poisson counts (common practice).
+import { itemAt } from '../model/item-at.js';
 
 export interface LogLine {
   /** d ln(y)/dt in 1/ns. */
@@ -20,8 +21,8 @@ export function logLinearFit(
   let swtt = 0;
   let swty = 0;
   for (let i = 0; i < timesNs.length; i++) {
-    const weight = values[i] as number;
-    const t = timesNs[i] as number;
+    const weight = itemAt(values, i);
+    const t = itemAt(timesNs, i);
     const y = Math.log(weight);
     sw += weight;
     swt += weight * t;

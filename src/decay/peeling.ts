@@ -4,6 +4,7 @@
 // with weights n − b (≈ 1/var(ln n) for Poisson counts).
 import { peakChannel } from './irf-metrics.js';
 import { logLinearFit } from './log-linear-fit.js';
+import { itemAt } from '../model/item-at.js';
 
 /** [short, long] lifetimes in ns by peeling the background-subtracted decay on [first, end), or undefined when the data do not show two slopes. O(n). */
 export function estimatePeeledLifetimesNs(
@@ -14,16 +15,16 @@ export function estimatePeeledLifetimesNs(
   endChannel: number,
 ): [number, number] | undefined {
   const peak = firstChannel + peakChannel(counts.subarray(firstChannel, endChannel));
-  const peakExcess = (counts[peak] as number) - background;
+  const peakExcess = itemAt(counts, peak) - background;
   if (!(peakExcess > 50)) return undefined;
   const lateTimes: number[] = [];
   const lateValues: number[] = [];
   let split = endChannel;
   for (let k = peak; k < endChannel; k++) {
-    const excess = (counts[k] as number) - background;
+    const excess = itemAt(counts, k) - background;
     if (split === endChannel && excess < 0.2 * peakExcess) split = k;
     if (k >= split && excess >= Math.max(0.01 * peakExcess, 5)) {
-      lateTimes.push(timeNs[k] as number);
+      lateTimes.push(itemAt(timeNs, k));
       lateValues.push(excess);
     }
   }
@@ -32,8 +33,8 @@ export function estimatePeeledLifetimesNs(
   const earlyTimes: number[] = [];
   const earlyValues: number[] = [];
   for (let k = peak; k < split; k++) {
-    const t = timeNs[k] as number;
-    const remainder = (counts[k] as number) - background - Math.exp(late.intercept + late.slopePerNs * t);
+    const t = itemAt(timeNs, k);
+    const remainder = itemAt(counts, k) - background - Math.exp(late.intercept + late.slopePerNs * t);
     if (remainder >= Math.max(0.05 * peakExcess, 5)) {
       earlyTimes.push(t);
       earlyValues.push(remainder);

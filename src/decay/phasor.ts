@@ -8,6 +8,7 @@
 import { z } from 'zod';
 import type { Decay } from '../model/decay.js';
 import { ConfigInvalid, InputRejected } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface PhasorOptions {
   /** Harmonic of the base frequency (1 = fundamental). Default 1. */
@@ -78,8 +79,8 @@ function rawPhasor(
   let cosine = 0;
   let sine = 0;
   for (let k = 0; k < counts.length; k++) {
-    const value = (counts[k] as number) - background;
-    const angle = omegaPerNs * ((timeNs[k] as number) + 0.5 * channelWidthNs);
+    const value = itemAt(counts, k) - background;
+    const angle = omegaPerNs * (itemAt(timeNs, k) + 0.5 * channelWidthNs);
     total += value;
     cosine += value * Math.cos(angle);
     sine += value * Math.sin(angle);

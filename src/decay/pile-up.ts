@@ -4,6 +4,7 @@
 //   r_i = ln[(N − Σ_{j<i} n_j) / (N − Σ_{j≤i} n_j)],   corrected counts = N·r_i.
 // The rule of thumb (common practice) is a count rate at most 1–5 % of the excitation rate.
 import { AnalysisFailed } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Count-rate fraction above which pile-up distorts decays (5 % of the repetition rate; common practice). */
 export const PILE_UP_RATE_FRACTION = 0.05;
@@ -13,7 +14,7 @@ export function coatesCorrection(counts: ArrayLike<number>, excitationCycles: nu
   const corrected = new Float64Array(counts.length);
   let before = 0;
   for (let i = 0; i < counts.length; i++) {
-    const through = before + (counts[i] as number);
+    const through = before + itemAt(counts, i);
     if (through >= excitationCycles) {
       throw new AnalysisFailed(
         'OUT_OF_RANGE',

@@ -9,6 +9,7 @@ import { firstChannelAbove, fullWidthHalfMaximumNs } from './irf-metrics.js';
 import type { ResolvedFitDecayOptions } from './options.js';
 import type { IrfWithinChannel } from './reconvolution-model.js';
 import { coatesCorrection, PILE_UP_RATE_FRACTION } from './pile-up.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface PreparedDecay {
   readonly timeNs: Float64Array;
@@ -95,7 +96,7 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
     const irf = Float64Array.from(irfSource);
     let sum = 0;
     for (let k = 0; k < channels; k++) {
-      const value = irf[k] as number;
+      const value = itemAt(irf, k);
       if (!Number.isFinite(value) || value < 0) {
         throw new InputRejected('INPUT_INVALID', `the IRF has an invalid value (${value}) at channel ${k + 1}`);
       }
@@ -104,7 +105,7 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
     if (!(sum > 0)) throw new InputRejected('INPUT_INVALID', 'the IRF has no counts');
     irfTotalCounts = sum;
     irfIsCounts = irf.every((value) => Number.isInteger(value));
-    for (let k = 0; k < channels; k++) irf[k] = (irf[k] as number) / sum;
+    for (let k = 0; k < channels; k++) irf[k] = itemAt(irf, k) / sum;
     irfUnit = irf;
     irfFwhmNs = fullWidthHalfMaximumNs(irf, channelWidthNs);
     irfRiseChannel = firstChannelAbove(irf, IRF_RISE_FRACTION);
@@ -141,7 +142,7 @@ export function prepareDecay(decay: Decay, options: ResolvedFitDecayOptions, min
       ? automaticRange(counts, irfUnit, channelWidthNs, options.estimator, minimumChannels)
       : channelsInRange(decay.timeNs, channelWidthNs, options.rangeNs, minimumChannels);
   let peakCounts = 0;
-  for (let k = range.firstChannel; k < range.endChannel; k++) peakCounts = Math.max(peakCounts, counts[k] as number);
+  for (let k = range.firstChannel; k < range.endChannel; k++) peakCounts = Math.max(peakCounts, itemAt(counts, k));
   if (peakCounts < LOW_PEAK_COUNTS) {
     warnings.push(`peak counts are low (${peakCounts} < ${LOW_PEAK_COUNTS}); lifetimes are imprecise`);
   }

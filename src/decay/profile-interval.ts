@@ -4,6 +4,7 @@
 // regula falsi on √(P − P_min), which is close to linear in v (Bates & Watts, Nonlinear Regression
 // Analysis and Its Applications, Wiley 1988, ch. 6).
 import { minimiseLevenbergMarquardt, type SumOfSquaresObjective } from './levenberg-marquardt.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface ProfileSide {
   /** The interval end, or undefined when a bound or a failed refit came first. */
@@ -32,7 +33,7 @@ export function profileInterval(
     let failedAt: number | undefined;
     const value = sideValue(direction, (at) => (failedAt = at));
     if (value !== undefined) return { value };
-    const limit = direction > 0 ? (upper[index] as number) : (lower[index] as number);
+    const limit = direction > 0 ? itemAt(upper, index) : itemAt(lower, index);
     if (failedAt !== undefined)
       return { value, reason: `the refit with the lifetime held at ${failedAt.toPrecision(4)} did not converge` };
     return {
@@ -41,7 +42,7 @@ export function profileInterval(
     };
   };
   const sideValue = (direction: 1 | -1, onFailure: (at: number) => void): number | undefined => {
-    const centre = best[index] as number;
+    const centre = itemAt(best, index);
     const target = Math.sqrt(deltaObjective);
     let warm = Float64Array.from(best);
     const rise = (value: number): number | undefined => {
@@ -64,7 +65,7 @@ export function profileInterval(
       warm = Float64Array.from(outcome.parameters);
       return Math.sqrt(Math.max(outcome.objective - bestObjective, 0));
     };
-    const limit = direction > 0 ? (upper[index] as number) : (lower[index] as number);
+    const limit = direction > 0 ? itemAt(upper, index) : itemAt(lower, index);
     let step = Math.max(standardError, 1e-9 * Math.max(Math.abs(centre), 1)) * target;
     let inside = centre;
     let insideRise = 0;

@@ -1,5 +1,6 @@
 // Seeded pseudo-random numbers for simulations and tests: a uniform generator (mulberry32), a normal
 // deviate (Box–Muller) and an exact Poisson sampler. The core never draws unseeded randomness.
+import { itemAt } from '../model/item-at.js';
 
 /** A source of uniform deviates in [0, 1). */
 export interface UniformSource {
@@ -29,11 +30,11 @@ export function sampleStandardNormal(random: UniformSource): number {
 }
 
 const LOG_FACTORIAL_TABLE: number[] = [0];
-for (let k = 1; k < 32; k++) LOG_FACTORIAL_TABLE.push((LOG_FACTORIAL_TABLE[k - 1] as number) + Math.log(k));
+for (let k = 1; k < 32; k++) LOG_FACTORIAL_TABLE.push(itemAt(LOG_FACTORIAL_TABLE, k - 1) + Math.log(k));
 
 /** ln(k!) for integer k ≥ 0: exact sum below 32, Stirling series with three correction terms above (error < 1e-15 relative). */
 export function logFactorial(k: number): number {
-  if (k < 32) return LOG_FACTORIAL_TABLE[k] as number;
+  if (k < 32) return itemAt(LOG_FACTORIAL_TABLE, k);
   const x = k + 1;
   const inverse = 1 / x;
   const inverse2 = inverse * inverse;

@@ -5,6 +5,7 @@
 // needs S[n] of the whole histogram before any channel is final, so that case goes through
 // convolveExponentialWithIrf and a second pass.
 import { recursionCoefficients } from './exponential-convolution.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Where one component's contributions go: the model and its Jacobian columns on the fit range (channelCount long). */
 export interface ComponentColumns {
@@ -44,19 +45,19 @@ export function addComponentWithDerivatives(
   // Before the range: only the recursions advance.
   for (let k = 0; k < firstChannel; k++) {
     ds = x * ds + dx * s;
-    ss = x * ss + (irfSlopePerNs[k] as number);
-    s = x * s + (irf[k] as number);
+    ss = x * ss + itemAt(irfSlopePerNs, k);
+    s = x * s + itemAt(irf, k);
   }
   for (let index = 0; index < channelCount; index++) {
-    const g = irf[firstChannel + index] as number;
-    const h = irfSlopePerNs[firstChannel + index] as number;
+    const g = itemAt(irf, firstChannel + index);
+    const h = itemAt(irfSlopePerNs, firstChannel + index);
     const response = g * k0 + c * s;
     const responsePerTau = g * dk0 + dc * s + c * ds;
     const responsePerShift = h * k0 + c * ss;
-    model[index] = (model[index] as number) + amplitude * response;
+    model[index] = itemAt(model, index) + amplitude * response;
     perTauNs[index] = amplitude * (responsePerTau - response * inverseTau);
     perPhoton[index] = response * photonScale;
-    perShiftNs[index] = (perShiftNs[index] as number) + amplitude * responsePerShift;
+    perShiftNs[index] = itemAt(perShiftNs, index) + amplitude * responsePerShift;
     ds = x * ds + dx * s;
     ss = x * ss + h;
     s = x * s + g;

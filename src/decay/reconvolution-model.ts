@@ -7,6 +7,7 @@ import { convolveExponentialWithIrf, type ConvolutionBuffers } from './exponenti
 import { shiftIrfSecondOrder } from './irf-second-order.js';
 import { shiftIrf } from './irf-shift.js';
 import { addComponentWithDerivatives } from './reconvolution-component.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface ReconvolutionSetup {
   /** IRF per channel over the whole histogram, normalised to unit sum. */
@@ -71,9 +72,9 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
     components,
     evaluate(local, withDerivatives, model, jacobian): void {
       bind(jacobian);
-      const shiftNs = local[2 * components] as number;
-      const background = local[2 * components + 1] as number;
-      const scatter = local[2 * components + 2] as number;
+      const shiftNs = itemAt(local, 2 * components);
+      const background = itemAt(local, 2 * components + 1);
+      const scatter = itemAt(local, 2 * components + 2);
       prepareShiftedIrf(shiftNs, withDerivatives);
       const shiftColumn = jacobian.subarray(2 * components * channelCount, (2 * components + 1) * channelCount);
       if (withDerivatives) {
@@ -101,11 +102,11 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
         startModel(model, channelCount, shifted, firstChannel, background, scatter);
       }
       for (let i = 0; i < components; i++) {
-        const buffer = buffers[i] as ConvolutionBuffers;
-        const tauNs = local[i] as number;
+        const buffer = itemAt(buffers, i);
+        const tauNs = itemAt(local, i);
         // The linear parameter is the component's photon count p = a·τ/Δ (a = amplitude): p and τ are
         // nearly uncorrelated, which keeps LM well conditioned when τ is short against the IRF.
-        const amplitude = ((local[components + i] as number) * channelWidthNs) / tauNs;
+        const amplitude = (itemAt(local, components + i) * channelWidthNs) / tauNs;
         if (withDerivatives && periodNs === undefined) {
           // The common case in one pass (reconvolution-component.ts); the same values as the two passes below.
           addComponentWithDerivatives(shifted, slope, tauNs, channelWidthNs, amplitude, firstChannel, channelCount, {
@@ -116,7 +117,7 @@ export function createReconvolutionModel(setup: ReconvolutionSetup): DatasetMode
           });
           continue;
         }
-        const target = withDerivatives ? buffer : (valueBuffers[i] as ConvolutionBuffers);
+        const target = withDerivatives ? buffer : itemAt(valueBuffers, i);
         convolveExponentialWithIrf(
           shifted,
           withDerivatives ? slope : undefined,
@@ -147,7 +148,7 @@ function startModel(
   background: number,
   scatter: number,
 ): void {
-  for (let k = 0; k < channelCount; k++) model[k] = background + scatter * (shifted[firstChannel + k] as number);
+  for (let k = 0; k < channelCount; k++) model[k] = background + scatter * itemAt(shifted, firstChannel + k);
 }
 
 /** startModel plus the shift (scatter part), background and scatter columns of the Jacobian. */
@@ -164,9 +165,9 @@ function startWithDerivatives(
   scatterColumn: Float64Array,
 ): void {
   for (let k = 0; k < channelCount; k++) {
-    const irf = shifted[firstChannel + k] as number;
+    const irf = itemAt(shifted, firstChannel + k);
     model[k] = background + scatter * irf;
-    shiftColumn[k] = scatter * (slope[firstChannel + k] as number);
+    shiftColumn[k] = scatter * itemAt(slope, firstChannel + k);
     backgroundColumn[k] = 1;
     scatterColumn[k] = irf;
   }
@@ -174,7 +175,7 @@ function startWithDerivatives(
 
 /** model += a·R (a = amplitude in counts per channel, R = response per unit amplitude). */
 function addComponent(model: Float64Array, channelCount: number, response: Float64Array, amplitude: number): void {
-  for (let k = 0; k < channelCount; k++) model[k] = (model[k] as number) + amplitude * (response[k] as number);
+  for (let k = 0; k < channelCount; k++) model[k] = itemAt(model, k) + amplitude * itemAt(response, k);
 }
 
 /**
@@ -194,10 +195,10 @@ function addConvolvedComponent(
   const inverseTau = 1 / tauNs;
   const photonScale = channelWidthNs / tauNs;
   for (let k = 0; k < channelCount; k++) {
-    const value = response[k] as number;
-    model[k] = (model[k] as number) + amplitude * value;
-    perTau[k] = amplitude * ((perTau[k] as number) - value * inverseTau);
+    const value = itemAt(response, k);
+    model[k] = itemAt(model, k) + amplitude * value;
+    perTau[k] = amplitude * (itemAt(perTau, k) - value * inverseTau);
     response[k] = value * photonScale;
-    shiftColumn[k] = (shiftColumn[k] as number) + amplitude * (perShift[k] as number);
+    shiftColumn[k] = itemAt(shiftColumn, k) + amplitude * itemAt(perShift, k);
   }
 }

@@ -1,16 +1,17 @@
 // Tests of the weighted residuals for structure left by the model: the Durbin–Watson statistic
 // (Durbin & Watson, Biometrika 37, 409 (1950)), the residual autocorrelation function, and the
 // Wald–Wolfowitz runs test on residual signs (Wald & Wolfowitz, Ann. Math. Stat. 11, 147 (1940)).
+import { itemAt } from '../model/item-at.js';
 
 /** Durbin–Watson d = Σ(r_k − r_{k−1})² / Σ r_k² (≈ 2 for uncorrelated residuals, < 2 for positive correlation); O(n). */
 export function durbinWatson(residuals: ArrayLike<number>): number {
   let numerator = 0;
   let denominator = 0;
   for (let k = 0; k < residuals.length; k++) {
-    const value = residuals[k] as number;
+    const value = itemAt(residuals, k);
     denominator += value * value;
     if (k > 0) {
-      const difference = value - (residuals[k - 1] as number);
+      const difference = value - itemAt(residuals, k - 1);
       numerator += difference * difference;
     }
   }
@@ -24,7 +25,7 @@ export function durbinWatson(residuals: ArrayLike<number>): number {
 export function residualAutocorrelation(residuals: ArrayLike<number>, maxLag: number): number[] {
   const n = residuals.length;
   let power = 0;
-  for (let k = 0; k < n; k++) power += (residuals[k] as number) ** 2;
+  for (let k = 0; k < n; k++) power += itemAt(residuals, k) ** 2;
   power /= n;
   const lastLag = Math.min(maxLag, n - 1);
   const result: number[] = [];
@@ -32,7 +33,7 @@ export function residualAutocorrelation(residuals: ArrayLike<number>, maxLag: nu
   for (let lag = 0; lag <= lastLag; lag += LAGS_PER_PASS) {
     const blockLast = Math.min(lag + LAGS_PER_PASS - 1, lastLag);
     laggedProducts(residuals, lag, blockLast, sums);
-    for (let j = lag; j <= blockLast; j++) result.push(power > 0 ? (sums[j - lag] as number) / (n - j) / power : 0);
+    for (let j = lag; j <= blockLast; j++) result.push(power > 0 ? itemAt(sums, j - lag) / (n - j) / power : 0);
   }
   return result;
 }
@@ -64,7 +65,7 @@ function laggedProducts(residuals: ArrayLike<number>, first: number, last: numbe
   // Where every lag of the block has a partner (k + last < n), all sums advance together; sums past `last` are discarded.
   const shared = n - last;
   for (let k = 0; k < shared; k++) {
-    const value = residuals[k] as number;
+    const value = itemAt(residuals, k);
     sum0 += value * window0;
     sum1 += value * window1;
     sum2 += value * window2;
@@ -91,16 +92,15 @@ function laggedProducts(residuals: ArrayLike<number>, first: number, last: numbe
   sums[6] = sum6;
   sums[7] = sum7;
   for (let j = 0; first + j < last; j++) {
-    let tail = sums[j] as number;
-    for (let k = shared; k + first + j < n; k++)
-      tail += (residuals[k] as number) * (residuals[k + first + j] as number);
+    let tail = itemAt(sums, j);
+    for (let k = shared; k + first + j < n; k++) tail += itemAt(residuals, k) * itemAt(residuals, k + first + j);
     sums[j] = tail;
   }
 }
 
 /** r[index], or 0 past the end (a partner only lags beyond the block use). */
 function partnerOf(residuals: ArrayLike<number>, index: number): number {
-  return index < residuals.length ? (residuals[index] as number) : 0;
+  return index < residuals.length ? itemAt(residuals, index) : 0;
 }
 
 export interface RunsTest {
@@ -119,7 +119,7 @@ export function runsTest(residuals: ArrayLike<number>): RunsTest {
   let runs = 0;
   let previous = 0;
   for (let k = 0; k < residuals.length; k++) {
-    const value = residuals[k] as number;
+    const value = itemAt(residuals, k);
     if (value === 0) continue;
     const sign = value > 0 ? 1 : -1;
     if (sign > 0) positive++;

@@ -1,5 +1,6 @@
 // The plain-JSON result of a lifetime fit (DecayFitResult) and of a global fit; no typed arrays.
 import type { Estimator } from './estimators.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface FitStatus {
   /** True only when the minimiser's convergence test passed with finite values. */
@@ -165,6 +166,6 @@ export interface GlobalFitResult extends FitStatus {
 /** Plain number[] copy of a typed array for the JSON result (a loop: Array.from on a typed array is several times slower); O(n). */
 export function plainArray(values: Float64Array): number[] {
   const copy = new Array<number>(values.length);
-  for (let k = 0; k < values.length; k++) copy[k] = values[k] as number;
+  for (let k = 0; k < values.length; k++) copy[k] = itemAt(values, k);
   return copy;
 }

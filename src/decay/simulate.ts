@@ -4,6 +4,7 @@ import { createDecay, type Decay } from '../model/decay.js';
 import { normalCdf } from './normal-distribution.js';
 import { samplePoisson, type UniformSource } from './random.js';
 import { createReconvolutionModel } from './reconvolution-model.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface DecaySimulation {
   readonly channels: number;
@@ -38,7 +39,7 @@ export function gaussianIrf(channels: number, channelWidthNs: number, centreNs: 
 export function expectedDecayCounts(spec: DecaySimulation): Float64Array {
   const components = spec.tauNs.length;
   let irfSum = 0;
-  for (let k = 0; k < spec.channels; k++) irfSum += spec.irf[k] as number;
+  for (let k = 0; k < spec.channels; k++) irfSum += itemAt(spec.irf, k);
   const irfUnit = Float64Array.from(spec.irf, (value) => value / irfSum);
   const model = createReconvolutionModel({
     irfUnit,
@@ -52,14 +53,14 @@ export function expectedDecayCounts(spec: DecaySimulation): Float64Array {
   const expected = new Float64Array(spec.channels);
   const local = new Float64Array(2 * components + 3);
   for (let i = 0; i < components; i++) {
-    local[i] = spec.tauNs[i] as number;
+    local[i] = itemAt(spec.tauNs, i);
     local[components + i] = 1;
   }
   local[2 * components] = spec.shiftNs ?? 0;
   model.evaluate(local, true, expected, jacobian);
   for (let i = 0; i < components; i++) {
     let responseSum = 0;
-    for (let k = 0; k < spec.channels; k++) responseSum += jacobian[(components + i) * spec.channels + k] as number;
+    for (let k = 0; k < spec.channels; k++) responseSum += itemAt(jacobian, (components + i) * spec.channels + k);
     const fraction = spec.intensityFractions?.[i] ?? 1 / components;
     local[components + i] = (fraction * spec.photons) / responseSum;
   }
@@ -114,7 +115,7 @@ export function exactGaussianDecayCounts(spec: ExactGaussianDecaySpec): Float64A
     let previous = cdf(0);
     for (let k = 0; k < spec.channels; k++) {
       const next = cdf((k + 1) * spec.channelWidthNs);
-      expected[k] = (expected[k] as number) + photons * Math.max(next - previous, 0);
+      expected[k] = itemAt(expected, k) + photons * Math.max(next - previous, 0);
       previous = next;
     }
   });

@@ -8,6 +8,7 @@ import type { DatasetModel } from './dataset-model.js';
 import { choleskyInPlace, choleskySolveInPlace } from './linear-algebra.js';
 import { peakChannel } from './irf-metrics.js';
 import { weightedCrossProducts } from './weighted-cross-products.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Lifetime multipliers of the tail estimate per number of components; each row is one start (multi-start). */
 export const LIFETIME_SPREADS: Readonly<Record<number, readonly (readonly number[])[]>> = {
@@ -39,13 +40,13 @@ export function estimateBackground(counts: Float64Array, riseChannel: number | u
   const window = Math.min(16, n);
   for (let start = Math.floor((3 * n) / 4); start + window <= n; start += window) {
     let sum = 0;
-    for (let k = start; k < start + window; k++) sum += counts[k] as number;
+    for (let k = start; k < start + window; k++) sum += itemAt(counts, k);
     lowestTail = Math.min(lowestTail, sum / window);
   }
   if (!Number.isFinite(lowestTail)) lowestTail = 0;
   if (riseChannel !== undefined && riseChannel >= 10) {
     let sum = 0;
-    for (let k = 0; k < riseChannel; k++) sum += counts[k] as number;
+    for (let k = 0; k < riseChannel; k++) sum += itemAt(counts, k);
     return sum / riseChannel;
   }
   return lowestTail;
@@ -67,12 +68,12 @@ export function estimateMomentLifetimeNs(
   let weight = 0;
   let moment = 0;
   for (let k = firstChannel; k < endChannel; k++) {
-    const excess = (counts[k] as number) - background;
+    const excess = itemAt(counts, k) - background;
     weight += excess;
-    moment += excess * (timeNs[k] as number);
+    moment += excess * itemAt(timeNs, k);
   }
   let irfMoment = 0;
-  for (let k = 0; k < irfUnit.length; k++) irfMoment += (irfUnit[k] as number) * (timeNs[k] as number);
+  for (let k = 0; k < irfUnit.length; k++) irfMoment += itemAt(irfUnit, k) * itemAt(timeNs, k);
   if (!(weight > 0)) return undefined;
   const tauNs = moment / weight - irfMoment;
   return tauNs > 0 ? tauNs : undefined;
@@ -89,18 +90,18 @@ export function estimateTailLifetimeNs(
 ): number {
   const windowCounts = counts.subarray(firstChannel, endChannel);
   const peak = firstChannel + peakChannel(windowCounts);
-  const peakExcess = (counts[peak] as number) - background;
+  const peakExcess = itemAt(counts, peak) - background;
   const spanNs = (endChannel - firstChannel) * channelWidthNs;
   if (!(peakExcess > 0)) return spanNs / 4;
   const tailTimesNs: number[] = [];
   const tailExcess: number[] = [];
   for (let k = peak; k < endChannel; k++) {
-    const excess = (counts[k] as number) - background;
+    const excess = itemAt(counts, k) - background;
     if (excess < 0.05 * peakExcess) {
       if (tailTimesNs.length >= 8) break;
       continue;
     }
-    tailTimesNs.push(timeNs[k] as number);
+    tailTimesNs.push(itemAt(timeNs, k));
     tailExcess.push(excess);
   }
   const slope = logLinearFit(tailTimesNs, tailExcess, 3)?.slopePerNs ?? Number.NaN;
@@ -150,9 +151,9 @@ export function solveLinearParameters(
   for (const slot of linearSlots) trial[slot] = 0;
   model.evaluate(trial, true, base, jacobian);
   for (let k = 0; k < channels; k++) {
-    const n = counts[k] as number;
+    const n = itemAt(counts, k);
     weights[k] = 1 / (n > 1 ? n : 1);
-    base[k] = n - (base[k] as number);
+    base[k] = n - itemAt(base, k);
   }
   // Normal matrix Σ w·∂m∂mᵀ and right-hand side Σ w·∂m·(n − m₀) as the cross products of the columns and the residual column.
   const size = linearSlots.length;
@@ -161,19 +162,19 @@ export function solveLinearParameters(
   const normal = new Float64Array(size * size);
   const rhs = new Float64Array(size);
   for (let a = 0; a < size; a++) {
-    rhs[a] = products[a * (size + 1) + size] as number;
+    rhs[a] = itemAt(products, a * (size + 1) + size);
     for (let b = a; b < size; b++) {
-      normal[a * size + b] = products[a * (size + 1) + b] as number;
-      normal[b * size + a] = products[a * (size + 1) + b] as number;
+      normal[a * size + b] = itemAt(products, a * (size + 1) + b);
+      normal[b * size + a] = itemAt(products, a * (size + 1) + b);
     }
   }
   if (!choleskyInPlace(normal, size)) return false;
   choleskySolveInPlace(normal, size, rhs);
   let largest = 0;
-  for (let a = 0; a < size; a++) largest = Math.max(largest, rhs[a] as number);
+  for (let a = 0; a < size; a++) largest = Math.max(largest, itemAt(rhs, a));
   for (let a = 0; a < size; a++) {
-    const value = rhs[a] as number;
-    const slot = linearSlots[a] as number;
+    const value = itemAt(rhs, a);
+    const slot = itemAt(linearSlots, a);
     const floor = slot === backgroundSlot ? 0 : 1e-3 * Math.max(largest, 1);
     local[slot] = Number.isFinite(value) ? Math.max(value, floor) : floor;
   }

@@ -4,6 +4,7 @@
 // with aᵢ = pᵢΔ/τᵢ (pᵢ = photons parameter) and P(τ) = 1/(1 − exp(−T/τ)) for periodic excitation of period T (earlier pulses add a geometric
 // series of the same exponential), else 1. Shift and scatter do not exist here (always fixed at 0).
 import type { DatasetModel } from './dataset-model.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface TailSetup {
   readonly timeNs: Float64Array;
@@ -18,17 +19,17 @@ export interface TailSetup {
 export function createTailModel(setup: TailSetup): DatasetModel {
   const { timeNs, channelWidthNs, periodNs, firstChannel, endChannel, components } = setup;
   const channelCount = endChannel - firstChannel;
-  const startNs = timeNs[firstChannel] as number;
+  const startNs = itemAt(timeNs, firstChannel);
   return {
     channelCount,
     components,
     evaluate(local, withDerivatives, model, jacobian): void {
-      const background = local[2 * components + 1] as number;
+      const background = itemAt(local, 2 * components + 1);
       for (let k = 0; k < channelCount; k++) model[k] = background;
       for (let i = 0; i < components; i++) {
-        const tauNs = local[i] as number;
+        const tauNs = itemAt(local, i);
         // Linear parameter: photons p = a·τ/Δ (see reconvolution-model.ts); ∂m/∂τ is taken at fixed p.
-        const amplitude = ((local[components + i] as number) * channelWidthNs) / tauNs;
+        const amplitude = (itemAt(local, components + i) * channelWidthNs) / tauNs;
         const photonScale = channelWidthNs / tauNs;
         const u = channelWidthNs / tauNs;
         const x = Math.exp(-u);
@@ -45,10 +46,10 @@ export function createTailModel(setup: TailSetup): DatasetModel {
         const responseOffset = (components + i) * channelCount;
         const tauOffset = i * channelCount;
         for (let k = 0; k < channelCount; k++) {
-          const elapsedNs = (timeNs[firstChannel + k] as number) - startNs;
+          const elapsedNs = itemAt(timeNs, firstChannel + k) - startNs;
           const decay = Math.exp(-elapsedNs / tauNs);
           const response = decay * width * folded;
-          model[k] = (model[k] as number) + amplitude * response;
+          model[k] = itemAt(model, k) + amplitude * response;
           if (withDerivatives) {
             jacobian[responseOffset + k] = response * photonScale;
             const perTau = decay * (((elapsedNs / (tauNs * tauNs)) * width + dWidth) * folded + width * dFolded);

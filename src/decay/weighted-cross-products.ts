@@ -3,6 +3,7 @@
 // Each pass over the channels takes three rows a against three columns b (nine sums, the weight applied
 // on the fly), so a column is read a few times rather than once per entry. Every sum runs over k in order
 // with the same operations as the plain loop ((J_a·w)·J_b), so the values do not depend on the blocking.
+import { itemAt } from '../model/item-at.js';
 
 /**
  * Fills products[a·count + b] (b ≥ a; count = slots.length) with Σ_k w_k·J_a[k]·J_b[k] and, when `slope` and
@@ -23,15 +24,15 @@ export function weightedCrossProducts(
     // Rows and columns past the last are clamped to it; their duplicate sums are not stored.
     const a1 = Math.min(a + 1, count - 1);
     const a2 = Math.min(a + 2, count - 1);
-    const row0 = (slots[a] as number) * channels;
-    const row1 = (slots[a1] as number) * channels;
-    const row2 = (slots[a2] as number) * channels;
+    const row0 = itemAt(slots, a) * channels;
+    const row1 = itemAt(slots, a1) * channels;
+    const row2 = itemAt(slots, a2) * channels;
     for (let b = a; b < count; b += 3) {
       const b1 = Math.min(b + 1, count - 1);
       const b2 = Math.min(b + 2, count - 1);
-      const column0 = (slots[b] as number) * channels;
-      const column1 = (slots[b1] as number) * channels;
-      const column2 = (slots[b2] as number) * channels;
+      const column0 = itemAt(slots, b) * channels;
+      const column1 = itemAt(slots, b1) * channels;
+      const column2 = itemAt(slots, b2) * channels;
       let sum00 = 0;
       let sum01 = 0;
       let sum02 = 0;
@@ -46,20 +47,20 @@ export function weightedCrossProducts(
         let gradient1 = 0;
         let gradient2 = 0;
         for (let k = 0; k < channels; k++) {
-          const weight = weights[k] as number;
-          const s = slope[k] as number;
-          const value0 = jacobian[row0 + k] as number;
-          const value1 = jacobian[row1 + k] as number;
-          const value2 = jacobian[row2 + k] as number;
+          const weight = itemAt(weights, k);
+          const s = itemAt(slope, k);
+          const value0 = itemAt(jacobian, row0 + k);
+          const value1 = itemAt(jacobian, row1 + k);
+          const value2 = itemAt(jacobian, row2 + k);
           gradient0 += value0 * s;
           gradient1 += value1 * s;
           gradient2 += value2 * s;
           const x0 = value0 * weight;
           const x1 = value1 * weight;
           const x2 = value2 * weight;
-          const y0 = jacobian[column0 + k] as number;
-          const y1 = jacobian[column1 + k] as number;
-          const y2 = jacobian[column2 + k] as number;
+          const y0 = itemAt(jacobian, column0 + k);
+          const y1 = itemAt(jacobian, column1 + k);
+          const y2 = itemAt(jacobian, column2 + k);
           sum00 += x0 * y0;
           sum01 += x0 * y1;
           sum02 += x0 * y2;
@@ -75,13 +76,13 @@ export function weightedCrossProducts(
         gradient[a2] = gradient2;
       } else {
         for (let k = 0; k < channels; k++) {
-          const weight = weights[k] as number;
-          const x0 = (jacobian[row0 + k] as number) * weight;
-          const x1 = (jacobian[row1 + k] as number) * weight;
-          const x2 = (jacobian[row2 + k] as number) * weight;
-          const y0 = jacobian[column0 + k] as number;
-          const y1 = jacobian[column1 + k] as number;
-          const y2 = jacobian[column2 + k] as number;
+          const weight = itemAt(weights, k);
+          const x0 = itemAt(jacobian, row0 + k) * weight;
+          const x1 = itemAt(jacobian, row1 + k) * weight;
+          const x2 = itemAt(jacobian, row2 + k) * weight;
+          const y0 = itemAt(jacobian, column0 + k);
+          const y1 = itemAt(jacobian, column1 + k);
+          const y2 = itemAt(jacobian, column2 + k);
           sum00 += x0 * y0;
           sum01 += x0 * y1;
           sum02 += x0 * y2;

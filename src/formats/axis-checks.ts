@@ -1,6 +1,7 @@
 // Axis checks on the numbers as they appear in the file, so errors name the file line:
 // monotonic (either direction), no repeated value, equal spacing for decay histograms.
 import { reject } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 /** +1 for an ascending axis, −1 for descending; throws AXIS_DUPLICATE or AXIS_NOT_ASCENDING (with the line) otherwise. */
 export function checkMonotonic(
@@ -10,10 +11,10 @@ export function checkMonotonic(
   what: string,
 ): 1 | -1 {
   if (axis.length < 2) return 1;
-  const direction = (axis[1] as number) > (axis[0] as number) ? 1 : -1;
+  const direction = itemAt(axis, 1) > itemAt(axis, 0) ? 1 : -1;
   for (let i = 1; i < axis.length; i++) {
-    const previous = axis[i - 1] as number;
-    const current = axis[i] as number;
+    const previous = itemAt(axis, i - 1);
+    const current = itemAt(axis, i);
     if (current === previous) {
       reject('AXIS_DUPLICATE', `the ${what} repeats the value ${current} (rows ${i} and ${i + 1})`, file, lineOfRow(i));
     }
@@ -31,9 +32,9 @@ const UNIFORM_TOLERANCE = 1e-3;
 export function checkUniform(axis: Float64Array, lineOfRow: (row: number) => number | undefined, file: string): void {
   const n = axis.length;
   if (n < 3) return;
-  const mean = ((axis[n - 1] as number) - (axis[0] as number)) / (n - 1);
+  const mean = (itemAt(axis, n - 1) - itemAt(axis, 0)) / (n - 1);
   for (let i = 1; i < n; i++) {
-    const width = (axis[i] as number) - (axis[i - 1] as number);
+    const width = itemAt(axis, i) - itemAt(axis, i - 1);
     if (Math.abs(width - mean) > UNIFORM_TOLERANCE * Math.abs(mean)) {
       reject(
         'AXIS_NOT_UNIFORM',
@@ -53,13 +54,8 @@ export function checkNonNegative(
   what: string,
 ): void {
   for (let i = 0; i < values.length; i++) {
-    if ((values[i] as number) < 0) {
-      reject(
-        'NEGATIVE_COUNTS',
-        `the ${what} column holds the negative count ${values[i] as number}`,
-        file,
-        lineOfRow(i),
-      );
+    if (itemAt(values, i) < 0) {
+      reject('NEGATIVE_COUNTS', `the ${what} column holds the negative count ${itemAt(values, i)}`, file, lineOfRow(i));
     }
   }
 }
@@ -67,6 +63,6 @@ export function checkNonNegative(
 /** A reversed copy of an array. */
 export function reversed(values: Float64Array): Float64Array {
   const copy = new Float64Array(values.length);
-  for (let i = 0, j = values.length - 1; j >= 0; i++, j--) copy[i] = values[j] as number;
+  for (let i = 0, j = values.length - 1; j >= 0; i++, j--) copy[i] = itemAt(values, j);
   return copy;
 }

@@ -1,6 +1,6 @@
 // Builds a Decay from raw columns: time axis to ns (ps ÷ 1000 … s × 10⁹) or channel numbers ×
 // channel width, descending axes reversed, counts and IRF columns found by name.
-import { createDecay, type Decay, type DecayMetadata } from '../model/decay.js';
+import { createDecay, type Decay } from '../model/decay.js';
 import type { RawColumn, RawTable } from './raw-table.js';
 import type { LayoutConversion } from './types.js';
 import type { MappedHeader } from './metadata-vocabulary.js';
@@ -8,6 +8,7 @@ import { columnRole } from './column-roles.js';
 import type { AxisUnit } from './units.js';
 import { checkMonotonic, checkNonNegative, checkUniform, reversed } from './axis-checks.js';
 import { reject, withFile } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface DecayBuildInput {
   readonly table: RawTable;
@@ -42,7 +43,7 @@ function roundingQuantum(values: Float64Array): number {
     const scale = 10 ** digits;
     let whole = true;
     for (let i = 0; i < values.length && whole; i++) {
-      const scaled = (values[i] as number) * scale;
+      const scaled = itemAt(values, i) * scale;
       whole = Math.abs(scaled - Math.round(scaled)) <= 1e-6 * Math.max(1, Math.abs(scaled));
     }
     if (whole) return 1 / scale;
@@ -62,12 +63,11 @@ function restoreRoundedAxis(
 ): { values: Float64Array; width: number; quantum: number; source: string } | undefined {
   const n = values.length;
   if (n < 3) return undefined;
-  const first = values[0] as number;
-  const meanStep = ((values[n - 1] as number) - first) / (n - 1);
+  const first = itemAt(values, 0);
+  const meanStep = (itemAt(values, n - 1) - first) / (n - 1);
   let even = true;
   for (let i = 1; i < n && even; i++)
-    even =
-      Math.abs((values[i] as number) - (values[i - 1] as number) - meanStep) <= SPACING_TOLERANCE * Math.abs(meanStep);
+    even = Math.abs(itemAt(values, i) - itemAt(values, i - 1) - meanStep) <= SPACING_TOLERANCE * Math.abs(meanStep);
   if (even) return undefined;
   const quantum = roundingQuantum(values);
   if (!(quantum > 0) || quantum < SPACING_TOLERANCE * Math.abs(meanStep)) return undefined;
@@ -79,7 +79,7 @@ function restoreRoundedAxis(
   const rebuilt = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     rebuilt[i] = first + direction * i * width;
-    if (Math.abs((rebuilt[i] as number) - (values[i] as number)) > quantum * (1 + 1e-9)) return undefined;
+    if (Math.abs(itemAt(rebuilt, i) - itemAt(values, i)) > quantum * (1 + 1e-9)) return undefined;
   }
   return {
     values: rebuilt,
@@ -98,7 +98,7 @@ export function buildDecay(input: DecayBuildInput): {
 } {
   const { table, axis, unit, file, mapped } = input;
   const columns = table.columns;
-  const roles = input.valueIndices.map((index) => ({ index, role: columnRole((columns[index] as RawColumn).name) }));
+  const roles = input.valueIndices.map((index) => ({ index, role: columnRole(itemAt(columns, index).name) }));
   const countsIndex =
     input.requestedIndex ??
     roles.find((entry) => entry.role === 'counts')?.index ??
@@ -121,9 +121,9 @@ export function buildDecay(input: DecayBuildInput): {
       detail: `the time axis is written to ${restored.quantum} ${unit.symbol}; channels rebuilt as t0 + i × ${restored.width} ${unit.symbol} (${restored.source})`,
     });
   }
-  const countsColumn = columns[countsIndex] as RawColumn;
+  const countsColumn = itemAt(columns, countsIndex);
   checkNonNegative(countsColumn.values, table.lineOfRow, file, `"${countsColumn.name}"`);
-  const irfColumn = irfIndex === undefined ? undefined : (columns[irfIndex] as RawColumn);
+  const irfColumn = irfIndex === undefined ? undefined : itemAt(columns, irfIndex);
   if (irfColumn !== undefined) checkNonNegative(irfColumn.values, table.lineOfRow, file, `"${irfColumn.name}"`);
   let timeNs: Float64Array;
   let channelWidthNs = mapped.numbers.channelWidthNs;
@@ -146,8 +146,8 @@ export function buildDecay(input: DecayBuildInput): {
       // The width from the axis in its own unit, scaled once: 50 ps → 0.05 ns rather than a mean of scaled values.
       const rawWidth =
         restored?.width ??
-        Math.abs(((axisValues[axisValues.length - 1] as number) - (axisValues[0] as number)) / (axisValues.length - 1));
-      channelWidthNs = scaleToNs(Float64Array.of(rawWidth), unit.toModelFactor)[0] as number;
+        Math.abs((itemAt(axisValues, axisValues.length - 1) - itemAt(axisValues, 0)) / (axisValues.length - 1));
+      channelWidthNs = itemAt(scaleToNs(Float64Array.of(rawWidth), unit.toModelFactor), 0);
     }
     if (unit.toModelFactor !== 1)
       input.conversions.push({ code: 'time-unit-to-ns', detail: `${unit.symbol} → ns (× ${unit.toModelFactor})` });
@@ -163,7 +163,7 @@ export function buildDecay(input: DecayBuildInput): {
   }
   const ignoredColumns = input.valueIndices
     .filter((index) => index !== countsIndex && index !== irfIndex)
-    .map((index) => (columns[index] as RawColumn).name);
+    .map((index) => itemAt(columns, index).name);
   const decay = withFile(
     file,
     () =>
@@ -172,7 +172,7 @@ export function buildDecay(input: DecayBuildInput): {
         counts,
         ...(channelWidthNs === undefined ? {} : { channelWidthNs }),
         ...(irfCounts === undefined ? {} : { irfCounts }),
-        metadata: input.metadata as Partial<DecayMetadata>,
+        metadata: input.metadata,
       }),
     mapped.lines.channelWidthNs,
   );

@@ -1,7 +1,7 @@
 // Builds a Spectrum from raw columns: axis to ascending nm (µm × 1000; λ = 10⁷/ν̃; λ = hc/E),
 // %T or T to absorbance (A = 2 − log10 %T; A = −log10 T), and for intensity spectra on a wavenumber
 // or energy axis the Jacobian I(λ) = I(E)·hc/λ² (Mooney & Kambhampati, J. Phys. Chem. Lett. 4, 3316 (2013)).
-import { createSpectrum, type Spectrum, type SpectrumKind, type SpectrumMetadata } from '../model/spectrum.js';
+import { createSpectrum, type Spectrum, type SpectrumKind } from '../model/spectrum.js';
 import type { RawColumn, RawTable } from './raw-table.js';
 import type { LayoutConversion } from './types.js';
 import { columnRole, kindOfRole, roleSuitsKind, valueUnitOf, type ColumnRole } from './column-roles.js';
@@ -9,6 +9,7 @@ import { HC_EV_NM, NM_PER_INVERSE_CM, type AxisUnit } from './units.js';
 import { checkMonotonic, reversed } from './axis-checks.js';
 import { reject, withFile } from './reject.js';
 import { setOwn } from './own-record.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface SpectrumBuildInput {
   readonly table: RawTable;
@@ -47,12 +48,10 @@ function chooseValueColumn(input: SpectrumBuildInput): number {
   const expected = input.metaKind ?? input.kindHint;
   const columns = input.table.columns;
   if (expected !== undefined) {
-    const suited = input.valueIndices.find((index) =>
-      roleSuitsKind(columnRole((columns[index] as RawColumn).name), expected),
-    );
+    const suited = input.valueIndices.find((index) => roleSuitsKind(columnRole(itemAt(columns, index).name), expected));
     if (suited !== undefined) return suited;
   }
-  return input.valueIndices[0] as number;
+  return itemAt(input.valueIndices, 0);
 }
 
 /** Axis values in nm, in file order; throws NON_FINITE for a wavenumber or energy ≤ 0. */
@@ -71,7 +70,7 @@ function axisToNm(input: SpectrumBuildInput): Float64Array {
   const numerator = unit.quantity === 'wavenumber' ? NM_PER_INVERSE_CM : HC_EV_NM;
   const nm = new Float64Array(raw.length);
   for (let i = 0; i < raw.length; i++) {
-    const value = raw[i] as number;
+    const value = itemAt(raw, i);
     if (!(value > 0))
       reject(
         'NON_FINITE',
@@ -103,11 +102,11 @@ function ramanShiftToNm(input: SpectrumBuildInput): Float64Array {
   const inverseExcitation = NM_PER_INVERSE_CM / excitationNm;
   const nm = new Float64Array(axis.values.length);
   for (let i = 0; i < nm.length; i++) {
-    const absolute = inverseExcitation - (axis.values[i] as number);
+    const absolute = inverseExcitation - itemAt(axis.values, i);
     if (!(absolute > 0))
       reject(
         'NON_FINITE',
-        `the Raman shift ${axis.values[i] as number} cm⁻¹ exceeds the excitation wavenumber ${inverseExcitation} cm⁻¹`,
+        `the Raman shift ${itemAt(axis.values, i)} cm⁻¹ exceeds the excitation wavenumber ${inverseExcitation} cm⁻¹`,
         file,
         table.lineOfRow(i),
       );
@@ -124,7 +123,7 @@ function ramanShiftToNm(input: SpectrumBuildInput): Float64Array {
 function transmittanceToAbsorbance(input: SpectrumBuildInput, values: Float64Array, percent: boolean): Float64Array {
   const out = new Float64Array(values.length);
   for (let i = 0; i < values.length; i++) {
-    const t = values[i] as number;
+    const t = itemAt(values, i);
     if (!(t > 0)) {
       reject(
         'NON_FINITE',
@@ -149,7 +148,7 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
   const { table, file } = input;
   const direction = checkMonotonic(input.axis.values, table.lineOfRow, file, 'axis');
   const valueIndex = chooseValueColumn(input);
-  const valueColumn = table.columns[valueIndex] as RawColumn;
+  const valueColumn = itemAt(table.columns, valueIndex);
   let role: ColumnRole = columnRole(valueColumn.name);
   let values = valueColumn.values;
   const declaredUnit = input.valueUnit?.toLowerCase();
@@ -182,7 +181,7 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
   let wavelengthNm = axisToNm(input);
   const others: Array<[string, Float64Array]> = input.valueIndices
     .filter((index) => index !== valueIndex)
-    .map((index) => [(table.columns[index] as RawColumn).name, (table.columns[index] as RawColumn).values]);
+    .map((index) => [itemAt(table.columns, index).name, itemAt(table.columns, index).values]);
   if (
     input.unit.quantity === 'wavenumber' ||
     input.unit.quantity === 'raman-shift' ||
@@ -191,7 +190,7 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
     if (DENSITY_KINDS.includes(kind)) {
       const numerator = input.unit.quantity === 'energy' ? HC_EV_NM : NM_PER_INVERSE_CM;
       const jacobian = (column: Float64Array): Float64Array =>
-        column.map((value, i) => (value * numerator) / (wavelengthNm[i] as number) ** 2);
+        column.map((value, i) => (value * numerator) / itemAt(wavelengthNm, i) ** 2);
       values = jacobian(values);
       for (const entry of others) entry[1] = jacobian(entry[1]);
       input.conversions.push({
@@ -218,7 +217,7 @@ export function buildSpectrum(input: SpectrumBuildInput): Spectrum {
       valueUnit,
       valueColumn: valueColumn.name,
       otherColumns,
-      metadata: input.metadata as Partial<SpectrumMetadata>,
+      metadata: input.metadata,
     }),
   );
 }

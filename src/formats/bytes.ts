@@ -1,6 +1,7 @@
 // Byte-level checks that run before any parsing: size limit, empty content, binary content, BOM,
 // line endings and text decoding (UTF-8, falling back to Latin-1 for legacy exports).
 import { reject } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 /** How many leading bytes the binary check inspects. */
 const SNIFF_BYTES = 65_536;
@@ -26,7 +27,7 @@ export function checkContent(content: Uint8Array, maxBytes: number, file: string
   let printable = 0;
   let line = 1;
   for (let i = start; i < end; i++) {
-    const byte = content[i] as number;
+    const byte = itemAt(content, i);
     if (byte === 0) {
       reject('BINARY_CONTENT', `the file holds a NUL byte at offset ${i}`, file, line);
     }

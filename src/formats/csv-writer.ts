@@ -6,6 +6,7 @@ import type { Decay } from '../model/decay.js';
 import { InputRejected } from '../model/errors.js';
 import { canonicalKey } from './metadata-vocabulary.js';
 import { metadataEntries, oneLine } from './metadata-lines.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Quotes a column name when it holds a comma, a quote or leading/trailing space (RFC 4180 style). */
 function csvName(name: string): string {
@@ -23,7 +24,7 @@ function table(
   const rows = columns[0]?.length ?? 0;
   for (let i = 0; i < rows; i++) {
     let row = '';
-    for (let c = 0; c < columns.length; c++) row += (c === 0 ? '' : ',') + String((columns[c] as ArrayLike<number>)[i]);
+    for (let c = 0; c < columns.length; c++) row += (c === 0 ? '' : ',') + String(itemAt(columns, c)[i]);
     parts.push(row);
   }
   return `${parts.join('\n')}\n`;

@@ -8,6 +8,7 @@ import { parseHeaderLine, splitNameLine, stripCommentMarker } from './header-lin
 import { decodeText, splitLines } from './bytes.js';
 import { lookupAxisUnit, readAxisName } from './units.js';
 import { reject } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 const SAMPLE_BYTES = 65_536;
 /** Consecutive numeric rows with one column count that mark the start of the data block. */
@@ -174,9 +175,9 @@ function findSingleColumn(lines: readonly string[], lastLine: number): { index: 
 /** True when `values` are strictly monotonic and all within [low, high]. */
 function monotonicWithin(values: readonly number[], low: number, high: number): boolean {
   if (values.length < 2 || values.some((value) => !(value >= low && value <= high))) return false;
-  const direction = Math.sign((values[1] as number) - (values[0] as number));
+  const direction = Math.sign(itemAt(values, 1) - itemAt(values, 0));
   return (
-    direction !== 0 && values.every((value, i) => i === 0 || Math.sign(value - (values[i - 1] as number)) === direction)
+    direction !== 0 && values.every((value, i) => i === 0 || Math.sign(value - itemAt(values, i - 1)) === direction)
   );
 }
 

@@ -6,6 +6,7 @@ import { scanDelimited } from './delimited-scan.js';
 import { bomLength, detectLineEnding } from './bytes.js';
 import { reject } from './reject.js';
 import { parseHeaderLine } from './header-lines.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Reads delimited text into a RawTable; throws InputRejected (NO_DATA, NON_NUMERIC, NON_FINITE, LENGTH_MISMATCH, TRUNCATED, …) with file and line. */
 export function readDelimited(content: Uint8Array, file: string, overrides: LayoutOverrides = {}): RawTable {
@@ -38,7 +39,7 @@ export function readDelimited(content: Uint8Array, file: string, overrides: Layo
   }
   return {
     ...(trailer === undefined ? {} : { trailer }),
-    columns: uniqueNames.map((name, index) => ({ name, values: scan.columns[index] as Float64Array })),
+    columns: uniqueNames.map((name, index) => ({ name, values: itemAt(scan.columns, index) })),
     headerEntries,
     lineOfRow: scan.lineOfRow,
     unitLine: layout.nameLine,

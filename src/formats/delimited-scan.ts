@@ -5,6 +5,7 @@ import type { DelimiterName } from './types.js';
 import { bytesToString, parseNumberBytes } from './number-bytes.js';
 import { reject } from './reject.js';
 import { decodeText } from './bytes.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface ScanRequest {
   readonly delimiter: DelimiterName;
@@ -91,7 +92,7 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
         const atEnd = cursor >= length || next === NEWLINE || next === CARRIAGE_RETURN;
         if (atEnd || whitespace || next === delimiter) {
           if (atEnd && column < columnCount - 1) shortRow(content, cursor, line, column + 1, columnCount, file);
-          (columns[column] as Float64Array)[row] = quick;
+          itemAt(columns, column)[row] = quick;
           if (!atEnd && !whitespace) cursor++;
           continue;
         }
@@ -123,7 +124,7 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
         if (!atEnd && !whitespace && next !== delimiter)
           badField('text', content, fieldStart, cursor + 1, line, column, file);
         if (atEnd && column < columnCount - 1) shortRow(content, cursor, line, column + 1, columnCount, file);
-        (columns[column] as Float64Array)[row] = value;
+        itemAt(columns, column)[row] = value;
         if (!atEnd && !whitespace) cursor++;
         continue;
       }
@@ -149,7 +150,7 @@ export function scanDelimited(content: Uint8Array, request: ScanRequest, file: s
       }
       const value = parseNumberBytes(content, fieldStart, fieldEnd, decimalMark);
       if (typeof value !== 'number') badField(value, content, fieldStart, fieldEnd, line, column, file);
-      (columns[column] as Float64Array)[row] = value;
+      itemAt(columns, column)[row] = value;
       if (!atLineEnd && !whitespace) cursor++;
     }
     // After the last column: allow trailing blanks and trailing delimiters (empty spreadsheet cells), then the line end.
@@ -189,7 +190,7 @@ function finish(
 
 /** True when the line at `at` starts with a word (a letter, "[" or a non-ASCII character) that is not NaN or Inf: text after the data. */
 function startsText(content: Uint8Array, at: number, delimiter: number): boolean {
-  const byte = content[at] as number;
+  const byte = itemAt(content, at);
   const letter = (byte >= 65 && byte <= 90) || (byte >= 97 && byte <= 122) || byte === 91 || byte >= 128;
   if (!letter) return false;
   let end = at;
@@ -279,7 +280,7 @@ function fastField(content: Uint8Array, start: number, decimalMark: number, deli
   )
     return Number.NaN;
   fastEnd = p;
-  const value = fraction === 0 ? mantissa : mantissa / (POW10[fraction] as number);
+  const value = fraction === 0 ? mantissa : mantissa / itemAt(POW10, fraction);
   return negative ? -value : value;
 }
 
@@ -289,7 +290,7 @@ function countAtMost(sorted: readonly number[], value: number): number {
   let high = sorted.length;
   while (low < high) {
     const mid = (low + high) >>> 1;
-    if ((sorted[mid] as number) <= value) low = mid + 1;
+    if (itemAt(sorted, mid) <= value) low = mid + 1;
     else high = mid;
   }
   return low;

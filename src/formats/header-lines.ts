@@ -3,6 +3,7 @@
 // from the vocabulary or the first word). Lines that fit none are kept as `header line N`.
 import type { HeaderEntry } from './metadata-vocabulary.js';
 import { lookupKey } from './metadata-vocabulary.js';
+import { itemAt } from '../model/item-at.js';
 
 const COMMENT_MARKER = /^(?:#+|%+|;+|\/\/|!+|\*+)\s*/;
 
@@ -61,7 +62,7 @@ export function splitNameLine(line: string, delimiter: string | null): string[] 
   let current = '';
   let quoted = false;
   for (let i = 0; i < text.length; i++) {
-    const char = text[i] as string;
+    const char = itemAt(text, i);
     if (char === '"') {
       if (quoted && text[i + 1] === '"') {
         current += '"';

@@ -16,6 +16,7 @@ import { reject } from './reject.js';
 import { setOwn } from './own-record.js';
 import { buildSpectrum } from './build-spectrum.js';
 import { buildDecay } from './build-decay.js';
+import { itemAt } from '../model/item-at.js';
 
 const SPECTRUM_FIELDS: readonly MetadataField[] = [
   'excitationNm',
@@ -75,7 +76,7 @@ function isConstant(column: RawColumn): boolean {
 
 /** Index of the axis column: the first non-constant column whose name reads as an axis with a unit, else the first that looks like an axis, else the first non-constant column. */
 function findAxisColumn(columns: readonly RawColumn[]): number {
-  const usable = (index: number): boolean => !isConstant(columns[index] as RawColumn);
+  const usable = (index: number): boolean => !isConstant(itemAt(columns, index));
   const withUnit = columns.findIndex((column, index) => {
     const reading = readAxisName(column.name);
     return usable(index) && reading.looksLikeAxis && reading.unit !== undefined;
@@ -137,7 +138,7 @@ function resolveAxisUnit(
   const values = axis.values;
   let inRange = values.length > 0;
   for (let i = 0; i < values.length && inRange; i++) {
-    const value = values[i] as number;
+    const value = itemAt(values, i);
     inRange = value >= ASSUMED_NM_RANGE[0] && value <= ASSUMED_NM_RANGE[1];
   }
   if (decayExpected === null && inRange) {
@@ -213,10 +214,10 @@ function siblingColumns(
   primary: number,
   decay: boolean,
 ): number[] {
-  const primaryRole = columnRole((columns[primary] as RawColumn).name);
+  const primaryRole = columnRole(itemAt(columns, primary).name);
   return candidates.filter((index) => {
     if (index === primary) return false;
-    const name = (columns[index] as RawColumn).name;
+    const name = itemAt(columns, index).name;
     if (NOT_A_MEASUREMENT.test(name.replace(/[_.]+/g, ' '))) return false;
     const role = columnRole(name);
     if (decay) return role === 'counts' || role === 'intensity';
@@ -237,7 +238,7 @@ function isColumnPairs(table: RawTable): boolean {
   const columns = table.columns;
   if (columns.length < 4 || columns.length % 2 !== 0 || table.axisColumnIndex !== undefined || !table.namedColumns)
     return false;
-  const axisReading = (index: number) => readAxisName(withoutRepeatMark((columns[index] as RawColumn).name));
+  const axisReading = (index: number) => readAxisName(withoutRepeatMark(itemAt(columns, index).name));
   for (let index = 0; index < columns.length; index += 2) {
     const axis = axisReading(index);
     if (!axis.looksLikeAxis || axisReading(index + 1).looksLikeAxis) return false;
@@ -249,10 +250,10 @@ function isColumnPairs(table: RawTable): boolean {
 /** Builds the profile's adjustments of the mapped header (channel width, excitation, role, kind). */
 function applyProfile(mapped: MappedHeader, profile: ResolvedFormatProfile | undefined): void {
   if (profile === undefined) return;
-  const numbers = mapped.numbers as Partial<Record<MetadataField, number>>;
+  const numbers = mapped.numbers;
   if (profile.channelWidthNs !== undefined) numbers.channelWidthNs = profile.channelWidthNs;
   if (profile.excitationNm !== undefined) numbers.excitationNm = profile.excitationNm;
-  if (profile.kind !== undefined) (mapped.texts as Partial<Record<MetadataField, string>>).kind = profile.kind;
+  if (profile.kind !== undefined) mapped.texts.kind = profile.kind;
   if (profile.role !== undefined) (mapped as { role: MappedHeader['role'] }).role = profile.role;
 }
 
@@ -263,12 +264,12 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
   if (profile === undefined && isColumnPairs(table)) {
     const pairs: ParsedData[] = [];
     for (let index = 0; index < table.columns.length; index += 2) {
-      const axisColumn = table.columns[index] as RawColumn;
+      const axisColumn = itemAt(table.columns, index);
       const pair: RawTable = {
         ...table,
         columns: [
           { name: withoutRepeatMark(axisColumn.name), values: axisColumn.values },
-          table.columns[index + 1] as RawColumn,
+          itemAt(table.columns, index + 1),
         ],
         axisColumnIndex: 0,
       };
@@ -299,7 +300,7 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
         'A single column of counts is read as a decay histogram when the header gives the channel width ("channel width (ps): 25"); otherwise add an axis column, or declare channelWidthNs in a formats profile.',
       );
     }
-    const only = table.columns[0] as RawColumn;
+    const only = itemAt(table.columns, 0);
     const channels = new Float64Array(only.values.length);
     for (let i = 0; i < channels.length; i++) channels[i] = i;
     working = {
@@ -327,11 +328,11 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
     profile?.axisColumn !== undefined
       ? columnIndex(columns, profile.axisColumn, 'axis column of the profile', file, undefined)
       : (working.axisColumnIndex ?? findAxisColumn(columns));
-  const axis = columns[axisIndex] as RawColumn;
+  const axis = itemAt(columns, axisIndex);
   if (isConstant(axis)) {
     return reject(
       'AXIS_DUPLICATE',
-      `the axis column "${axis.name}" is constant (every row holds ${axis.values[0] as number}): it cannot be the axis of a spectrum or a decay`,
+      `the axis column "${axis.name}" is constant (every row holds ${itemAt(axis.values, 0)}): it cannot be the axis of a spectrum or a decay`,
       file,
       working.lineOfRow(1),
       'A constant column (such as a fixed excitation wavelength) is a setting, not an axis: give the scanned axis its own column, or choose the axis in a formats profile.',
@@ -363,8 +364,8 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
     const field = role === 'excitation' ? 'excitationNm' : role === 'emission' ? 'emissionNm' : undefined;
     if (field === undefined) return;
     constantSettings.add(index);
-    const value = (column.values[0] as number) * reading.unit.toModelFactor;
-    const numbers = mapped.numbers as Partial<Record<MetadataField, number>>;
+    const value = itemAt(column.values, 0) * reading.unit.toModelFactor;
+    const numbers = mapped.numbers;
     if (numbers[field] === undefined) numbers[field] = value;
     conversions.push({
       code: 'constant-column-as-metadata',
@@ -434,9 +435,7 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
           ? []
           : siblingColumns(
               columns,
-              valueIndices.filter(
-                (index) => index !== profileIrf && columnRole((columns[index] as RawColumn).name) !== 'irf',
-              ),
+              valueIndices.filter((index) => index !== profileIrf && columnRole(itemAt(columns, index).name) !== 'irf'),
               primary,
               true,
             );
@@ -449,7 +448,7 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
             all.filter((other) => other !== index),
           ),
     );
-    const names = all.map((index) => (columns[index] as RawColumn).name);
+    const names = all.map((index) => itemAt(columns, index).name);
     return results.map(({ built, own }) =>
       withIdentity(
         {
@@ -511,7 +510,7 @@ export function interpretTableAll(table: RawTable, options: ResolvedReadOptions)
             all.filter((other) => other !== index),
           ),
         );
-  const names = all.map((index) => (columns[index] as RawColumn).name);
+  const names = all.map((index) => itemAt(columns, index).name);
   return results.map(({ spectrum, own }) =>
     withIdentity(
       {
@@ -553,5 +552,5 @@ function withIdentity(
 
 /** Interprets a RawTable as one spectrum or decay (the first measurement when the file holds several; see interpretTableAll). */
 export function interpretTable(table: RawTable, options: ResolvedReadOptions): ParsedData {
-  return interpretTableAll(table, options)[0] as ParsedData;
+  return itemAt(interpretTableAll(table, options), 0);
 }

@@ -5,6 +5,7 @@
 //   DUP  S–Z (1…8), s (9)             a repeat count (including the first) of the previous token;
 //   PAC  + and − separate numbers without spaces; AFFN: free-format decimal numbers.
 import { reject } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 /** One decoded line: its values in order (the abscissa first) and whether it ended in DIF form. */
 export interface AsdfLine {
@@ -71,7 +72,7 @@ export function decodeAsdfLine(
       last.kind = 'abs';
     } else if (bufferKind === 'dif') {
       if (values.length < 2) fail('a DIF value needs a previous ordinate on the same line');
-      values.push((values[values.length - 1] as number) + number);
+      values.push(itemAt(values, values.length - 1) + number);
       last.kind = 'dif';
       lastDifference = number;
     } else {
@@ -79,7 +80,7 @@ export function decodeAsdfLine(
       if (values.length + number - 1 > maxValues)
         fail(`the DUP count ${number} would make more than ${MAX_JCAMP_ORDINATES} ordinates`);
       for (let k = 1; k < number; k++) {
-        const previous = values[values.length - 1] as number;
+        const previous = itemAt(values, values.length - 1);
         values.push(last.kind === 'dif' ? previous + lastDifference : previous);
       }
     }

@@ -7,6 +7,7 @@ import type { RawTable } from './raw-table.js';
 import { bomLength, decodeText, detectLineEnding, splitLines } from './bytes.js';
 import { decodeAsdfLine, MAX_JCAMP_ORDINATES } from './jcamp-asdf.js';
 import { reject } from './reject.js';
+import { itemAt } from '../model/item-at.js';
 
 interface Ldr {
   readonly label: string;
@@ -106,8 +107,8 @@ function decodeXyData(ldr: Ldr, file: string, forms: Set<string>): number[] {
     if (decoded.values.length === 0) continue;
     let ys = decoded.values.slice(1);
     if (previousEndedInDif && ys.length > 0) {
-      const expected = ordinates[ordinates.length - 1] as number;
-      const check = ys[0] as number;
+      const expected = itemAt(ordinates, ordinates.length - 1);
+      const check = itemAt(ys, 0);
       if (Math.abs(check - expected) > Y_CHECK_TOLERANCE * Math.max(1, Math.abs(expected))) {
         reject(
           'JCAMP_INVALID',

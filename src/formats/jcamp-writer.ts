@@ -5,6 +5,7 @@
 import type { Spectrum, SpectrumKind } from '../model/spectrum.js';
 import { canonicalKey } from './metadata-vocabulary.js';
 import { metadataEntries, oneLine } from './metadata-lines.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Longest data line written (JCAMP-DX asks for at most 80 characters). */
 const MAX_LINE = 80;
@@ -38,8 +39,8 @@ function plainDecimals(values: Float64Array): boolean {
 /** True when x[i] equals first + i·step exactly for every point (so ##XYDATA reproduces the axis bit for bit). */
 function exactlyUniform(x: Float64Array): boolean {
   const n = x.length;
-  const first = x[0] as number;
-  const last = x[n - 1] as number;
+  const first = itemAt(x, 0);
+  const last = itemAt(x, n - 1);
   const step = (last - first) / (n - 1);
   for (let i = 0; i < n - 1; i++) if (first + i * step !== x[i]) return false;
   return true;

@@ -1,5 +1,6 @@
 // Locates the first syntax error in JSON text (RFC 8259 grammar), so a rejection can name the line
 // and tell a truncated file from a malformed one. Used only after JSON.parse has failed.
+import { itemAt } from '../model/item-at.js';
 
 /** Where JSON text first breaks the grammar: the character offset, and whether the text simply ended early. */
 export interface JsonSyntaxError {
@@ -24,7 +25,7 @@ export function findJsonSyntaxError(text: string): JsonSyntaxError | null {
   const string = (): JsonSyntaxError | null => {
     pos++;
     while (pos < n) {
-      const char = text[pos] as string;
+      const char = itemAt(text, pos);
       if (char === '"') {
         pos++;
         return null;
@@ -38,7 +39,7 @@ export function findJsonSyntaxError(text: string): JsonSyntaxError | null {
             return fail();
           }
           pos += 5;
-        } else if ('"\\/bfnrt'.includes(text[pos] as string)) pos++;
+        } else if ('"\\/bfnrt'.includes(itemAt(text, pos))) pos++;
         else return fail();
       } else if (char.charCodeAt(0) < 32) return fail();
       else pos++;

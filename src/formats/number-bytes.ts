@@ -2,6 +2,7 @@
 // an integer mantissa below 2^53 scaled by an exactly representable power of ten (≤ 10^22) with a
 // single correctly rounded multiply or divide gives the same double as Number() (Clinger, "How to
 // read floating point numbers accurately", PLDI 1990). Anything else falls back to Number().
+import { itemAt } from '../model/item-at.js';
 
 const POW10: readonly number[] = Array.from({ length: 23 }, (_, k) => 10 ** k);
 /** Largest mantissa digit count kept on the fast path (10^15 < 2^53). */
@@ -15,7 +16,7 @@ export type NumberFailure = 'empty' | 'text' | 'non-finite';
 /** Latin-1 view of bytes[start, end) (used for fallbacks and messages). */
 export function bytesToString(bytes: Uint8Array, start: number, end: number): string {
   let text = '';
-  for (let i = start; i < end; i++) text += String.fromCharCode(bytes[i] as number);
+  for (let i = start; i < end; i++) text += String.fromCharCode(itemAt(bytes, i));
   return text;
 }
 
@@ -29,7 +30,7 @@ export function parseNumberBytes(
   if (start >= end) return 'empty';
   let i = start;
   let negative = false;
-  let byte = bytes[i] as number;
+  let byte = itemAt(bytes, i);
   if (byte === 45 || byte === 43) {
     negative = byte === 45;
     i++;
@@ -39,7 +40,7 @@ export function parseNumberBytes(
   let fractionDigits = 0;
   let anyDigit = false;
   while (i < end) {
-    byte = bytes[i] as number;
+    byte = itemAt(bytes, i);
     if (byte < 48 || byte > 57) break;
     anyDigit = true;
     if (mantissa !== 0 || byte !== 48) {
@@ -51,7 +52,7 @@ export function parseNumberBytes(
   if (i < end && bytes[i] === decimalMark) {
     i++;
     while (i < end) {
-      byte = bytes[i] as number;
+      byte = itemAt(bytes, i);
       if (byte < 48 || byte > 57) break;
       anyDigit = true;
       fractionDigits++;
@@ -71,8 +72,8 @@ export function parseNumberBytes(
       i++;
     }
     const exponentStart = i;
-    while (i < end && (bytes[i] as number) >= 48 && (bytes[i] as number) <= 57 && i - exponentStart < 6) {
-      exponent = exponent * 10 + ((bytes[i] as number) - 48);
+    while (i < end && itemAt(bytes, i) >= 48 && itemAt(bytes, i) <= 57 && i - exponentStart < 6) {
+      exponent = exponent * 10 + (itemAt(bytes, i) - 48);
       i++;
     }
     if (i === exponentStart) return slowParse(bytes, start, end, decimalMark);
@@ -82,8 +83,8 @@ export function parseNumberBytes(
   const scale = exponent - fractionDigits;
   let value: number;
   if (mantissa === 0) value = 0;
-  else if (scale >= 0 && scale <= 22) value = mantissa * (POW10[scale] as number);
-  else if (scale < 0 && scale >= -22) value = mantissa / (POW10[-scale] as number);
+  else if (scale >= 0 && scale <= 22) value = mantissa * itemAt(POW10, scale);
+  else if (scale < 0 && scale >= -22) value = mantissa / itemAt(POW10, -scale);
   else return slowParse(bytes, start, end, decimalMark);
   return negative ? -value : value;
 }

@@ -4,6 +4,7 @@
 // and reference columns, channel width, kind and role. The schema is shared with src/config.
 import { z } from 'zod';
 import { MEASUREMENT_ROLES, SPECTRUM_KINDS } from '../model/spectrum.js';
+import { itemAt } from '../model/item-at.js';
 
 const columnRef = z.union([z.string().min(1), z.number().int().positive()]);
 
@@ -110,7 +111,7 @@ export function profileDelimiter(
 function globToRegExp(glob: string): RegExp {
   let pattern = '';
   for (let i = 0; i < glob.length; i++) {
-    const char = glob[i] as string;
+    const char = itemAt(glob, i);
     if (char === '*' && glob[i + 1] === '*') {
       pattern += '.*';
       i++;

@@ -6,6 +6,7 @@ import { resolveReadOptions, type ReadOptions } from './read-options.js';
 import type { DataFormat, LayoutInfo, ParsedData } from './types.js';
 import { bomLength, checkContent, decodeText, normaliseBytes } from './bytes.js';
 import { FORMAT_READERS, type FormatReader } from './reader-table.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Bytes examined to sniff the format. */
 const SNIFF_CHARS = 512;
@@ -27,7 +28,7 @@ export function sniffFormat(content: Uint8Array): DataFormat {
 
 /** Reads a spectrum or a decay histogram from file bytes (the first measurement when the file holds several: see readMeasurements); throws InputRejected with file, line and hint. */
 export function readData(content: Uint8Array, options: ReadOptions): ParsedData {
-  return readMeasurements(content, options)[0] as ParsedData;
+  return itemAt(readMeasurements(content, options), 0);
 }
 
 /** Reads every measurement a file holds (several decay columns, spectra sharing an axis, x,y pairs: one each, the column name in its id); throws InputRejected with file, line and hint. */

@@ -1,5 +1,6 @@
 // Axis-unit vocabulary: recognises the unit of an axis column from its name or a unit label
 // (nm, µm, cm⁻¹, eV; ps … s; channel numbers) and gives the factor to the model's unit.
+import { itemAt } from '../model/item-at.js';
 
 /** The physical quantity an axis carries. */
 export type AxisQuantity = 'wavelength' | 'wavenumber' | 'raman-shift' | 'energy' | 'time' | 'channel';
@@ -141,7 +142,7 @@ export function gluedUnit(
   isUnit: (label: string) => boolean,
 ): { base: string; unitLabel: string } | undefined {
   for (let at = text.length - 1; at > 0; at--) {
-    if (!/[A-Z]/.test(text[at] as string) || !/[a-z]/.test(text[at - 1] as string)) continue;
+    if (!/[A-Z]/.test(itemAt(text, at)) || !/[a-z]/.test(itemAt(text, at - 1))) continue;
     const unit = text.slice(at);
     if (isUnit(unit)) return { base: text.slice(0, at), unitLabel: unit };
   }

@@ -2,6 +2,7 @@
 // key at its place (edit distance), repeated problems are said once, and every line carries its full
 // path. Used by the config loader, rule files and manifests (issue 20.8).
 import type { z } from 'zod';
+import { itemAt } from './item-at.js';
 
 /** A problem at a config path. */
 export interface ConfigProblem {
@@ -35,16 +36,16 @@ export function editDistance(a: string, b: string): number {
     for (let j = 1; j < cols; j++) {
       const cost = s[i - 1] === t[j - 1] ? 0 : 1;
       let best = Math.min(
-        (d[(i - 1) * cols + j] as number) + 1,
-        (d[i * cols + j - 1] as number) + 1,
-        (d[(i - 1) * cols + j - 1] as number) + cost,
+        itemAt(d, (i - 1) * cols + j) + 1,
+        itemAt(d, i * cols + j - 1) + 1,
+        itemAt(d, (i - 1) * cols + j - 1) + cost,
       );
       if (i > 1 && j > 1 && s[i - 1] === t[j - 2] && s[i - 2] === t[j - 1])
-        best = Math.min(best, (d[(i - 2) * cols + j - 2] as number) + 1);
+        best = Math.min(best, itemAt(d, (i - 2) * cols + j - 2) + 1);
       d[i * cols + j] = best;
     }
   }
-  return d[rows * cols - 1] as number;
+  return itemAt(d, rows * cols - 1);
 }
 
 /**

@@ -3,6 +3,7 @@
 import { InputRejected } from './errors.js';
 import type { MeasurementRole } from './spectrum.js';
 import { assertAllFinite, assertNonNegative, assertStrictlyAscending } from './invariants.js';
+import { itemAt } from './item-at.js';
 
 export interface DecayMetadata {
   /** Excitation wavelength in nm. */
@@ -66,10 +67,10 @@ export function createDecay(input: DecayInput): Decay {
   assertAllFinite(counts, 'counts');
   assertStrictlyAscending(timeNs, 'time axis');
   assertNonNegative(counts, 'counts');
-  const spanNs = (timeNs[timeNs.length - 1] as number) - (timeNs[0] as number);
+  const spanNs = itemAt(timeNs, timeNs.length - 1) - itemAt(timeNs, 0);
   const meanWidthNs = spanNs / (timeNs.length - 1);
   for (let i = 1; i < timeNs.length; i++) {
-    const widthNs = (timeNs[i] as number) - (timeNs[i - 1] as number);
+    const widthNs = itemAt(timeNs, i) - itemAt(timeNs, i - 1);
     if (Math.abs(widthNs - meanWidthNs) > UNIFORM_TOLERANCE * meanWidthNs) {
       throw new InputRejected(
         'AXIS_NOT_UNIFORM',
@@ -108,6 +109,6 @@ export function createDecay(input: DecayInput): Decay {
 /** Total photon count of a histogram (sum over channels). */
 export function totalCounts(counts: ArrayLike<number>): number {
   let sum = 0;
-  for (let i = 0; i < counts.length; i++) sum += counts[i] as number;
+  for (let i = 0; i < counts.length; i++) sum += itemAt(counts, i);
   return sum;
 }

@@ -1,6 +1,7 @@
 // First-order kinetic scheme of excited states (S0, S1, S2, T1, …) solved exactly with the matrix
 // exponential: populations over time, process yields, and fluorescence / phosphorescence decays.
 import { AnalysisFailed, InputRejected } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 import { expm } from './expm.js';
 import { multiplyVector, solve, type SquareMatrix } from './matrix.js';
 import { PROCESS_KINDS, PROCESS_TIME_SCALES, timeScalePlausibility, type ProcessKind } from './time-scales.js';
@@ -86,7 +87,7 @@ function initialPopulation(input: KineticSchemeInput, states: readonly string[])
       'INPUT_INVALID',
       'give an initial population or at least one absorption process with a positive rate',
     );
-  for (const p of absorptions) p0[states.indexOf(p.to)] = (p0[states.indexOf(p.to)] as number) + p.ratePerS / total;
+  for (const p of absorptions) p0[states.indexOf(p.to)] = itemAt(p0, states.indexOf(p.to)) + p.ratePerS / total;
   return p0;
 }
 
@@ -98,8 +99,8 @@ export function rateMatrix(states: readonly string[], processes: readonly Kineti
     if (p.kind === 'absorption') continue;
     const i = states.indexOf(p.from);
     const j = states.indexOf(p.to);
-    data[j * n + i] = (data[j * n + i] as number) + p.ratePerS;
-    data[i * n + i] = (data[i * n + i] as number) - p.ratePerS;
+    data[j * n + i] = itemAt(data, j * n + i) + p.ratePerS;
+    data[i * n + i] = itemAt(data, i * n + i) - p.ratePerS;
   }
   return { size: n, data };
 }
@@ -118,7 +119,7 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
     const pt = multiplyVector(expm({ size: n, data: k.data.map((v) => v * t) }), p0);
     states.forEach((s, si) => {
       const series = populations[s];
-      if (series !== undefined) series[ti] = pt[si] as number;
+      if (series !== undefined) series[ti] = itemAt(pt, si);
     });
   });
   // Integrated populations over the excited states (all but the ground state, index 0).
@@ -127,15 +128,15 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
   const kExcited = new Float64Array(m * m);
   const rhs = new Float64Array(m * m);
   excited.forEach((si, a) => {
-    excited.forEach((sj, c) => (kExcited[a * m + c] = -(k.data[si * n + sj] as number)));
-    rhs[a * m] = p0[si] as number;
+    excited.forEach((sj, c) => (kExcited[a * m + c] = -itemAt(k.data, si * n + sj)));
+    rhs[a * m] = itemAt(p0, si);
   });
   const stateLifetimesNs: Record<string, number> = {};
   for (const si of excited) {
-    const outRate = -(k.data[si * n + si] as number);
-    const name = states[si] as string;
+    const outRate = -itemAt(k.data, si * n + si);
+    const name = itemAt(states, si);
     if (!(outRate > 0)) {
-      if ((p0[si] as number) > 0 || input.processes.some((p) => p.to === name && p.kind !== 'absorption')) {
+      if (itemAt(p0, si) > 0 || input.processes.some((p) => p.to === name && p.kind !== 'absorption')) {
         throw new AnalysisFailed(
           'OUT_OF_RANGE',
           `state ${name} is populated but has no decay process; yields would be infinite`,
@@ -148,7 +149,7 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
   const integral = solve({ size: m, data: kExcited }, { size: m, data: rhs });
   const integratedPopulationS = (state: string): number => {
     const si = states.indexOf(state);
-    return si <= 0 ? 0 : (integral.data[(si - 1) * m] as number);
+    return si <= 0 ? 0 : itemAt(integral.data, (si - 1) * m);
   };
   const processYields: ProcessYield[] = input.processes
     .filter((p) => p.kind !== 'absorption')
@@ -164,7 +165,7 @@ export function solveKineticScheme(input: KineticSchemeInput): KineticSchemeResu
     Float64Array.from(input.timesS, (_, ti) =>
       input.processes
         .filter((p) => p.kind === kind)
-        .reduce((s, p) => s + p.ratePerS * ((populations[p.from] as Float64Array)[ti] as number), 0),
+        .reduce((s, p) => s + p.ratePerS * itemAt(populations[p.from] as Float64Array, ti), 0),
     );
   for (const p of input.processes) {
     if (p.kind !== 'absorption' && p.ratePerS > 0)

@@ -3,6 +3,7 @@
 import { InputRejected } from '../model/errors.js';
 import { runsTestTooFew } from './runs-test.js';
 import { studentTTwoSidedPValue } from './student-t.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface OriginLineFit {
   readonly slope: number;
@@ -65,8 +66,8 @@ export function quadraticThroughOrigin(
     t2 = 0;
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
-    const xi = x[i] as number;
-    const yi = y[i] as number;
+    const xi = itemAt(x, i);
+    const yi = itemAt(y, i);
     s2 += w * xi * xi;
     s3 += w * xi * xi * xi;
     s4 += w * xi * xi * xi * xi;
@@ -79,8 +80,8 @@ export function quadraticThroughOrigin(
   const b2 = (s2 * t2 - s3 * t1) / determinant;
   let ssResidual = 0;
   for (let i = 0; i < n; i++) {
-    const xi = x[i] as number;
-    const r = (y[i] as number) - b1 * xi - b2 * xi * xi;
+    const xi = itemAt(x, i);
+    const r = itemAt(y, i) - b1 * xi - b2 * xi * xi;
     ssResidual += (weights?.[i] ?? 1) * r * r;
   }
   const variance = ssResidual / (n - 2);
@@ -104,8 +105,8 @@ export function fitThroughOrigin(
     const w = weights?.[i] ?? 1;
     if (!(w > 0))
       throw new InputRejected('INPUT_INVALID', `${what}: weight ${i + 1} is ${w}; weights must be positive`);
-    const xi = x[i] as number;
-    const yi = y[i] as number;
+    const xi = itemAt(x, i);
+    const yi = itemAt(y, i);
     sxx += w * xi * xi;
     sxy += w * xi * yi;
     sw += w;
@@ -113,14 +114,14 @@ export function fitThroughOrigin(
   }
   if (!(sxx > 0)) throw new InputRejected('INPUT_INVALID', `${what}: all x values are zero; the slope is undefined`);
   const slope = sxy / sxx;
-  const residuals = x.map((xi, i) => (y[i] as number) - slope * xi);
+  const residuals = x.map((xi, i) => itemAt(y, i) - slope * xi);
   const meanY = swy / sw;
   let ssResidual = 0,
     ssTotal = 0;
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
-    ssResidual += w * (residuals[i] as number) ** 2;
-    ssTotal += w * ((y[i] as number) - meanY) ** 2;
+    ssResidual += w * itemAt(residuals, i) ** 2;
+    ssTotal += w * (itemAt(y, i) - meanY) ** 2;
   }
   const quadratic = quadraticThroughOrigin(x, y, weights);
   const xMax = Math.max(...x.map(Math.abs));
@@ -165,13 +166,13 @@ export function quadraticWithIntercept(
   const r = [0, 0, 0];
   for (let i = 0; i < n; i++) {
     const w = weights?.[i] ?? 1;
-    const row = [1, x[i] as number, (x[i] as number) ** 2];
+    const row = [1, itemAt(x, i), itemAt(x, i) ** 2];
     for (let a = 0; a < 3; a++) {
-      r[a] = (r[a] as number) + w * (row[a] as number) * (y[i] as number);
-      for (let b = 0; b < 3; b++) m[a * 3 + b] = (m[a * 3 + b] as number) + w * (row[a] as number) * (row[b] as number);
+      r[a] = itemAt(r, a) + w * itemAt(row, a) * itemAt(y, i);
+      for (let b = 0; b < 3; b++) m[a * 3 + b] = itemAt(m, a * 3 + b) + w * itemAt(row, a) * itemAt(row, b);
     }
   }
-  const at = (i: number): number => m[i] as number;
+  const at = (i: number): number => itemAt(m, i);
   const cofactor = [
     at(4) * at(8) - at(5) * at(7),
     at(2) * at(7) - at(1) * at(8),
@@ -183,26 +184,25 @@ export function quadraticWithIntercept(
     at(1) * at(6) - at(0) * at(7),
     at(0) * at(4) - at(1) * at(3),
   ];
-  const determinant =
-    at(0) * (cofactor[0] as number) + at(1) * (cofactor[3] as number) + at(2) * (cofactor[6] as number);
+  const determinant = at(0) * itemAt(cofactor, 0) + at(1) * itemAt(cofactor, 3) + at(2) * itemAt(cofactor, 6);
   if (!(Math.abs(determinant) > 0) || !Number.isFinite(determinant)) return undefined;
   const inverse = cofactor.map((c) => c / determinant);
   const coefficient = (a: number): number =>
-    (inverse[a * 3] as number) * (r[0] as number) +
-    (inverse[a * 3 + 1] as number) * (r[1] as number) +
-    (inverse[a * 3 + 2] as number) * (r[2] as number);
+    itemAt(inverse, a * 3) * itemAt(r, 0) +
+    itemAt(inverse, a * 3 + 1) * itemAt(r, 1) +
+    itemAt(inverse, a * 3 + 2) * itemAt(r, 2);
   const c0 = coefficient(0),
     c1 = coefficient(1),
     c2 = coefficient(2);
   let ssResidual = 0;
   let yScale = 0;
   for (let i = 0; i < n; i++) {
-    const xi = x[i] as number;
-    ssResidual += (weights?.[i] ?? 1) * ((y[i] as number) - c0 - c1 * xi - c2 * xi * xi) ** 2;
-    yScale = Math.max(yScale, Math.abs(y[i] as number));
+    const xi = itemAt(x, i);
+    ssResidual += (weights?.[i] ?? 1) * (itemAt(y, i) - c0 - c1 * xi - c2 * xi * xi) ** 2;
+    yScale = Math.max(yScale, Math.abs(itemAt(y, i)));
   }
   const degreesOfFreedom = n - 3;
-  const c2StandardError = Math.sqrt(Math.max(0, (ssResidual / degreesOfFreedom) * (inverse[8] as number)));
+  const c2StandardError = Math.sqrt(Math.max(0, (ssResidual / degreesOfFreedom) * itemAt(inverse, 8)));
   const xMax = Math.max(...x.map(Math.abs));
   let c2TStatistic: number;
   if (c2StandardError > (1e-12 * yScale) / Math.max(xMax * xMax, 1e-300)) c2TStatistic = c2 / c2StandardError;

@@ -1,5 +1,6 @@
 // Small dense square matrices (row-major Float64Array) for the kinetic-scheme solver.
 import { AnalysisFailed } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface SquareMatrix {
   readonly size: number;
@@ -20,9 +21,9 @@ export function multiply(a: SquareMatrix, b: SquareMatrix): SquareMatrix {
   const data = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
     for (let k = 0; k < n; k++) {
-      const aik = a.data[i * n + k] as number;
+      const aik = itemAt(a.data, i * n + k);
       if (aik === 0) continue;
-      for (let j = 0; j < n; j++) data[i * n + j] = (data[i * n + j] as number) + aik * (b.data[k * n + j] as number);
+      for (let j = 0; j < n; j++) data[i * n + j] = itemAt(data, i * n + j) + aik * itemAt(b.data, k * n + j);
     }
   }
   return { size: n, data };
@@ -33,7 +34,7 @@ export function linearCombination(terms: readonly (readonly [number, SquareMatri
   const data = new Float64Array(size * size);
   for (const [coefficient, matrix] of terms) {
     if (coefficient === 0) continue;
-    for (let i = 0; i < data.length; i++) data[i] = (data[i] as number) + coefficient * (matrix.data[i] as number);
+    for (let i = 0; i < data.length; i++) data[i] = itemAt(data, i) + coefficient * itemAt(matrix.data, i);
   }
   return { size, data };
 }
@@ -43,7 +44,7 @@ export function oneNorm(a: SquareMatrix): number {
   let best = 0;
   for (let j = 0; j < a.size; j++) {
     let sum = 0;
-    for (let i = 0; i < a.size; i++) sum += Math.abs(a.data[i * a.size + j] as number);
+    for (let i = 0; i < a.size; i++) sum += Math.abs(itemAt(a.data, i * a.size + j));
     best = Math.max(best, sum);
   }
   return best;
@@ -57,34 +58,33 @@ export function solve(a: SquareMatrix, b: SquareMatrix): SquareMatrix {
   for (let column = 0; column < n; column++) {
     let pivot = column;
     for (let row = column + 1; row < n; row++) {
-      if (Math.abs(lu[row * n + column] as number) > Math.abs(lu[pivot * n + column] as number)) pivot = row;
+      if (Math.abs(itemAt(lu, row * n + column)) > Math.abs(itemAt(lu, pivot * n + column))) pivot = row;
     }
-    const pivotValue = lu[pivot * n + column] as number;
+    const pivotValue = itemAt(lu, pivot * n + column);
     if (pivotValue === 0 || !Number.isFinite(pivotValue))
       throw new AnalysisFailed('INTERNAL', 'singular matrix in a linear solve');
     if (pivot !== column) {
       for (let j = 0; j < n; j++) {
-        const t = lu[column * n + j] as number;
-        lu[column * n + j] = lu[pivot * n + j] as number;
+        const t = itemAt(lu, column * n + j);
+        lu[column * n + j] = itemAt(lu, pivot * n + j);
         lu[pivot * n + j] = t;
-        const u = x[column * n + j] as number;
-        x[column * n + j] = x[pivot * n + j] as number;
+        const u = itemAt(x, column * n + j);
+        x[column * n + j] = itemAt(x, pivot * n + j);
         x[pivot * n + j] = u;
       }
     }
     for (let row = column + 1; row < n; row++) {
-      const factor = (lu[row * n + column] as number) / pivotValue;
+      const factor = itemAt(lu, row * n + column) / pivotValue;
       if (factor === 0) continue;
-      for (let j = column; j < n; j++)
-        lu[row * n + j] = (lu[row * n + j] as number) - factor * (lu[column * n + j] as number);
-      for (let j = 0; j < n; j++) x[row * n + j] = (x[row * n + j] as number) - factor * (x[column * n + j] as number);
+      for (let j = column; j < n; j++) lu[row * n + j] = itemAt(lu, row * n + j) - factor * itemAt(lu, column * n + j);
+      for (let j = 0; j < n; j++) x[row * n + j] = itemAt(x, row * n + j) - factor * itemAt(x, column * n + j);
     }
   }
   for (let row = n - 1; row >= 0; row--) {
     for (let j = 0; j < n; j++) {
-      let sum = x[row * n + j] as number;
-      for (let k = row + 1; k < n; k++) sum -= (lu[row * n + k] as number) * (x[k * n + j] as number);
-      x[row * n + j] = sum / (lu[row * n + row] as number);
+      let sum = itemAt(x, row * n + j);
+      for (let k = row + 1; k < n; k++) sum -= itemAt(lu, row * n + k) * itemAt(x, k * n + j);
+      x[row * n + j] = sum / itemAt(lu, row * n + row);
     }
   }
   return { size: n, data: x };
@@ -96,7 +96,7 @@ export function multiplyVector(a: SquareMatrix, v: ArrayLike<number>): Float64Ar
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let sum = 0;
-    for (let j = 0; j < n; j++) sum += (a.data[i * n + j] as number) * (v[j] as number);
+    for (let j = 0; j < n; j++) sum += itemAt(a.data, i * n + j) * itemAt(v, j);
     out[i] = sum;
   }
   return out;

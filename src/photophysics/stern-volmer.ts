@@ -6,6 +6,7 @@ import { resolveWithSchema } from '../spectra/options.js';
 import { fitThroughOrigin, quadraticWithIntercept } from './linear-fit.js';
 import { studentTUpperTail } from './student-t.js';
 import { diffusionLimitPerMPerS, viscosityOf } from './viscosities.js';
+import { itemAt } from '../model/item-at.js';
 
 const sternVolmerOptionsSchema = z
   .object({
@@ -150,7 +151,7 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
       const kd = mechanism === 'static' ? 0 : kdPerM;
       ksPerM = fitThroughOrigin(
         q,
-        ratios.map((r, i) => r / (1 + kd * (q[i] as number)) - 1),
+        ratios.map((r, i) => r / (1 + kd * itemAt(q, i)) - 1),
         undefined,
         'static part',
       ).slope;

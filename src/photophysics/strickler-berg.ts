@@ -4,6 +4,7 @@ import { InputRejected } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
 import { trapezoid } from '../spectra/integrate.js';
 import { resolveWithSchema } from '../spectra/options.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Strickler–Berg constant 2.880×10⁻⁹ (ν̃ in cm⁻¹, ε in M⁻¹cm⁻¹, rate in s⁻¹; REFERENCES.md, confirmed). */
 export const STRICKLER_BERG_CONSTANT = 2.88e-9;
@@ -61,14 +62,14 @@ export function stricklerBergRate(input: {
   const warnings: string[] = [];
   const ab = input.absorptivity;
   const em = input.emission;
-  const epsilonOverLambda = ab.values.map((e, i) => e / (ab.wavelengthNm[i] as number));
+  const epsilonOverLambda = ab.values.map((e, i) => e / itemAt(ab.wavelengthNm, i));
   const integratedAbsorptivityPerMPerCm = trapezoid(
     ab.wavelengthNm,
     epsilonOverLambda,
     options.absorptionWindowNm?.[0],
     options.absorptionWindowNm?.[1],
   );
-  const weighted = em.values.map((f, i) => f * ((em.wavelengthNm[i] as number) * 1e-7) ** 3);
+  const weighted = em.values.map((f, i) => f * (itemAt(em.wavelengthNm, i) * 1e-7) ** 3);
   const emissionTotal = trapezoid(
     em.wavelengthNm,
     em.values,

@@ -1,5 +1,6 @@
 // Student t distribution function for significance tests of fitted coefficients (curvature terms of
 // dilution and quenching series), via the regularized incomplete beta function.
+import { itemAt } from '../model/item-at.js';
 
 /** ln Γ(x) for x > 0 by the Lanczos approximation (g = 7, 9 terms; Press et al., Numerical Recipes 3rd ed. §6.1); ~1e-15 relative. */
 export function logGamma(x: number): number {
@@ -9,8 +10,8 @@ export function logGamma(x: number): number {
   ];
   if (x < 0.5) return Math.log(Math.PI / Math.sin(Math.PI * x)) - logGamma(1 - x);
   const z = x - 1;
-  let sum = coefficients[0] as number;
-  for (let i = 1; i < 9; i++) sum += (coefficients[i] as number) / (z + i);
+  let sum = itemAt(coefficients, 0);
+  for (let i = 1; i < 9; i++) sum += itemAt(coefficients, i) / (z + i);
   const t = z + 7.5;
   return 0.5 * Math.log(2 * Math.PI) + (z + 0.5) * Math.log(t) - t + Math.log(sum);
 }

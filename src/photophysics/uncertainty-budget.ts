@@ -1,4 +1,5 @@
 // First-order (GUM) uncertainty propagation for a product-form measurement model, as a budget table.
+import { itemAt } from '../model/item-at.js';
 
 export interface BudgetInput {
   /** Name of the input quantity with its unit, e.g. 'sampleAbsorbance'. */
@@ -31,7 +32,7 @@ export function combineUncertainty(inputs: readonly BudgetInput[]): UncertaintyB
   const contributions = inputs.map((input) => Math.abs(input.sensitivityCoefficient) * input.standardUncertainty);
   const variance = contributions.reduce((sum, c) => sum + c * c, 0);
   const lines = inputs.map((input, i) => {
-    const contribution = contributions[i] as number;
+    const contribution = itemAt(contributions, i);
     return Object.freeze({
       ...input,
       contribution,

@@ -4,6 +4,7 @@
 import { InputRejected } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
 import { interpolateAt } from './interpolate.js';
+import { itemAt } from '../model/item-at.js';
 
 /**
  * Default window (nm): the range common to all spectra, starting `exclusionNm` above λex and ending `exclusionNm` below
@@ -17,8 +18,8 @@ export function defaultIntegrationWindow(
   let from = -Infinity;
   let to = Infinity;
   for (const s of spectra) {
-    from = Math.max(from, s.wavelengthNm[0] as number);
-    to = Math.min(to, s.wavelengthNm[s.wavelengthNm.length - 1] as number);
+    from = Math.max(from, itemAt(s.wavelengthNm, 0));
+    to = Math.min(to, itemAt(s.wavelengthNm, s.wavelengthNm.length - 1));
   }
   if (excitationNm !== undefined) {
     from = Math.max(from, excitationNm + exclusionNm);
@@ -42,8 +43,8 @@ export function bandEdgeFractions(
   const axis = spectrum.wavelengthNm;
   let peak = 0;
   for (let i = 0; i < axis.length; i++) {
-    const x = axis[i] as number;
-    if (x >= windowNm[0] && x <= windowNm[1]) peak = Math.max(peak, spectrum.values[i] as number);
+    const x = itemAt(axis, i);
+    if (x >= windowNm[0] && x <= windowNm[1]) peak = Math.max(peak, itemAt(spectrum.values, i));
   }
   const lowerValue = interpolateAt(axis, spectrum.values, windowNm[0]) ?? Number.NaN;
   const upperValue = interpolateAt(axis, spectrum.values, windowNm[1]) ?? Number.NaN;

@@ -5,6 +5,7 @@ import { withValues, type Spectrum } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionResult } from './correction-record.js';
 import { resampleOnto } from './interpolate.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 const blankOptionsSchema = z
   .object({
@@ -49,7 +50,7 @@ export function subtractBlank(sample: Spectrum, blank: Spectrum, options?: Blank
   const blankOnAxis = resampleOnto(blank.wavelengthNm, blank.values, sample.wavelengthNm, 'the blank spectrum');
   const out = new Float64Array(sample.values.length);
   for (let i = 0; i < out.length; i++) {
-    out[i] = (sample.values[i] as number) - resolved.blankScale * (blankOnAxis[i] as number);
+    out[i] = itemAt(sample.values, i) - resolved.blankScale * itemAt(blankOnAxis, i);
   }
   return {
     spectrum: withValues(sample, out),

@@ -5,6 +5,7 @@ import { withValues, type Spectrum } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionResult } from './correction-record.js';
 import { resampleOnto } from './interpolate.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 const darkOptionsSchema = z
   .object({
@@ -29,7 +30,7 @@ export function subtractDark(spectrum: Spectrum, dark: Spectrum | number, option
   const out = new Float64Array(spectrum.values.length);
   if (typeof dark === 'number') {
     if (!Number.isFinite(dark)) throw new InputRejected('NON_FINITE', `the dark level ${dark} is not a finite number`);
-    for (let i = 0; i < out.length; i++) out[i] = (spectrum.values[i] as number) - dark;
+    for (let i = 0; i < out.length; i++) out[i] = itemAt(spectrum.values, i) - dark;
     return {
       spectrum: withValues(spectrum, out),
       record: makeCorrectionRecord('subtractDark', {}, { darkLevel: dark }, warnings),
@@ -46,7 +47,7 @@ export function subtractDark(spectrum: Spectrum, dark: Spectrum | number, option
       'integration times of sample and dark differ or are unknown; the dark spectrum was subtracted unscaled',
     );
   }
-  for (let i = 0; i < out.length; i++) out[i] = (spectrum.values[i] as number) - scale * (darkOnAxis[i] as number);
+  for (let i = 0; i < out.length; i++) out[i] = itemAt(spectrum.values, i) - scale * itemAt(darkOnAxis, i);
   return {
     spectrum: withValues(spectrum, out),
     record: makeCorrectionRecord('subtractDark', { dark }, { darkScale: scale }, warnings),

@@ -6,6 +6,7 @@ import { withValues, type Spectrum } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionResult } from './correction-record.js';
 import { resampleOnto } from './interpolate.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 const detectorOptionsSchema = z
   .object({
@@ -80,18 +81,18 @@ export function applyDetectorCorrection(
   }
   const out = new Float64Array(spectrum.values.length);
   for (let i = 0; i < out.length; i++) {
-    const curveValue = curveOnAxis[i] as number;
+    const curveValue = itemAt(curveOnAxis, i);
     if (!(curveValue > 0)) {
       throw new InputRejected(
         'INPUT_INVALID',
         `the detector correction curve is ${curveValue} at ${spectrum.wavelengthNm[i]} nm; it must be positive`,
       );
     }
-    const raw = spectrum.values[i] as number;
+    const raw = itemAt(spectrum.values, i);
     out[i] = meaning === 'multiply' ? raw * curveValue : raw / curveValue;
   }
-  const first = curve.wavelengthNm[0] as number;
-  const last = curve.wavelengthNm[curve.wavelengthNm.length - 1] as number;
+  const first = itemAt(curve.wavelengthNm, 0);
+  const last = itemAt(curve.wavelengthNm, curve.wavelengthNm.length - 1);
   return {
     spectrum: withValues(spectrum, out),
     record: makeCorrectionRecord(

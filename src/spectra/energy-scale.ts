@@ -4,6 +4,7 @@ import { z } from 'zod';
 import type { Spectrum, SpectrumKind, SpectrumMetadata } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionRecord } from './correction-record.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 /** hc in eV·nm (CODATA 2018: 1239.841984 eV·nm). */
 export const HC_EV_NM = 1239.84198;
@@ -52,8 +53,8 @@ function convert(
   const values = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     // Reverse the order so the new axis ascends.
-    const wavelengthNm = spectrum.wavelengthNm[n - 1 - i] as number;
-    const value = spectrum.values[n - 1 - i] as number;
+    const wavelengthNm = itemAt(spectrum.wavelengthNm, n - 1 - i);
+    const value = itemAt(spectrum.values, n - 1 - i);
     axisValues[i] = constant / wavelengthNm;
     // |dλ/dE| = λ²/hc (and λ²/1e7 for cm⁻¹): I(E) = I(λ)·λ²/hc.
     values[i] = applyJacobian ? (value * wavelengthNm * wavelengthNm) / constant : value;

@@ -6,6 +6,7 @@ import { withValues, type Spectrum } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionResult } from './correction-record.js';
 import { interpolateAt, resampleOnto } from './interpolate.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 const zone = z
   .tuple([z.number().nonnegative(), z.number().positive()])
@@ -122,7 +123,7 @@ export function correctInnerFilter(
   let largestEmissionAbsorbance = 0;
   const out = new Float64Array(spectrum.values.length);
   for (let i = 0; i < out.length; i++) {
-    const absorbanceAtEmission = Math.max(0, (emissionAbsorbance[i] as number) * toCell);
+    const absorbanceAtEmission = Math.max(0, itemAt(emissionAbsorbance, i) * toCell);
     if (absorbanceAtEmission > resolved.maxAbsorbance) {
       throw new AnalysisFailed(
         'OUT_OF_RANGE',
@@ -135,7 +136,7 @@ export function correctInnerFilter(
       resolved.method === 'geometric'
         ? excitationFactor * geometricInnerFilterFactor(absorbanceAtEmission / resolved.cellPathCm, y1, y2)
         : centredInnerFilterFactor(absorbanceAtExcitation, absorbanceAtEmission);
-    out[i] = (spectrum.values[i] as number) * factor;
+    out[i] = itemAt(spectrum.values, i) * factor;
   }
   if (largestEmissionAbsorbance > resolved.warnAbsorbance) {
     warnings.push(

@@ -1,13 +1,14 @@
 // Trapezoidal integration on a non-uniform ascending axis, optionally over a window with interpolated edges.
 import { InputRejected } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Trapezoid weights w such that ∫y dx ≈ Σ w_i·y_i over [from, to] (edges linearly interpolated); used for integrals and their noise. */
 export function trapezoidWeights(axis: ArrayLike<number>, from: number, to: number): Float64Array {
   const n = axis.length;
   const weights = new Float64Array(n);
   for (let i = 0; i < n - 1; i++) {
-    const x0 = axis[i] as number;
-    const x1 = axis[i + 1] as number;
+    const x0 = itemAt(axis, i);
+    const x1 = itemAt(axis, i + 1);
     const a = Math.max(x0, from);
     const b = Math.min(x1, to);
     if (b <= a) continue;
@@ -17,16 +18,16 @@ export function trapezoidWeights(axis: ArrayLike<number>, from: number, to: numb
     const tb = (b - x0) / h;
     const width = b - a;
     const meanT = (ta + tb) / 2;
-    weights[i] = (weights[i] as number) + width * (1 - meanT);
-    weights[i + 1] = (weights[i + 1] as number) + width * meanT;
+    weights[i] = itemAt(weights, i) + width * (1 - meanT);
+    weights[i + 1] = itemAt(weights, i + 1) + width * meanT;
   }
   return weights;
 }
 
 /** ∫ y dx by the trapezoid rule on a non-uniform ascending axis, over [from, to] (default the whole axis); throws if the window is outside the axis. */
 export function trapezoid(axis: ArrayLike<number>, values: ArrayLike<number>, from?: number, to?: number): number {
-  const first = axis[0] as number;
-  const last = axis[axis.length - 1] as number;
+  const first = itemAt(axis, 0);
+  const last = itemAt(axis, axis.length - 1);
   const lower = from ?? first;
   const upper = to ?? last;
   if (!(lower < upper) || lower < first || upper > last) {
@@ -37,6 +38,6 @@ export function trapezoid(axis: ArrayLike<number>, values: ArrayLike<number>, fr
   }
   const weights = trapezoidWeights(axis, lower, upper);
   let sum = 0;
-  for (let i = 0; i < weights.length; i++) sum += (weights[i] as number) * (values[i] as number);
+  for (let i = 0; i < weights.length; i++) sum += itemAt(weights, i) * itemAt(values, i);
   return sum;
 }

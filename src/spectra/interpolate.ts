@@ -1,5 +1,6 @@
 // Linear interpolation on a strictly ascending axis, with explicit coverage checks (never extrapolates).
 import { InputRejected } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Index i with axis[i] ≤ x ≤ axis[i+1] by bisection (O(log n)); axis strictly ascending, x inside its range. */
 export function bracketIndex(axis: ArrayLike<number>, x: number): number {
@@ -7,7 +8,7 @@ export function bracketIndex(axis: ArrayLike<number>, x: number): number {
   let high = axis.length - 1;
   while (high - low > 1) {
     const middle = (low + high) >> 1;
-    if ((axis[middle] as number) <= x) low = middle;
+    if (itemAt(axis, middle) <= x) low = middle;
     else high = middle;
   }
   return low;
@@ -15,22 +16,21 @@ export function bracketIndex(axis: ArrayLike<number>, x: number): number {
 
 /** Linearly interpolated value at x, or undefined when x lies outside [axis[0], axis[n−1]] (no extrapolation). */
 export function interpolateAt(axis: ArrayLike<number>, values: ArrayLike<number>, x: number): number | undefined {
-  const first = axis[0] as number;
-  const last = axis[axis.length - 1] as number;
+  const first = itemAt(axis, 0);
+  const last = itemAt(axis, axis.length - 1);
   if (!(x >= first && x <= last)) return undefined;
-  if (x === last) return values[axis.length - 1] as number;
+  if (x === last) return itemAt(values, axis.length - 1);
   const i = bracketIndex(axis, x);
-  const x0 = axis[i] as number;
-  const x1 = axis[i + 1] as number;
+  const x0 = itemAt(axis, i);
+  const x1 = itemAt(axis, i + 1);
   const t = (x - x0) / (x1 - x0);
-  return (values[i] as number) * (1 - t) + (values[i + 1] as number) * t;
+  return itemAt(values, i) * (1 - t) + itemAt(values, i + 1) * t;
 }
 
 /** True when every point of `target` lies within the range of `source` (both ascending). */
 export function axisCovers(source: ArrayLike<number>, target: ArrayLike<number>): boolean {
   return (
-    (target[0] as number) >= (source[0] as number) &&
-    (target[target.length - 1] as number) <= (source[source.length - 1] as number)
+    itemAt(target, 0) >= itemAt(source, 0) && itemAt(target, target.length - 1) <= itemAt(source, source.length - 1)
   );
 }
 
@@ -50,7 +50,7 @@ export function resampleOnto(
   }
   const out = new Float64Array(targetAxis.length);
   for (let i = 0; i < targetAxis.length; i++) {
-    out[i] = interpolateAt(sourceAxis, sourceValues, targetAxis[i] as number) as number;
+    out[i] = interpolateAt(sourceAxis, sourceValues, itemAt(targetAxis, i)) as number;
   }
   return out;
 }

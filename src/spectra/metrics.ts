@@ -3,6 +3,7 @@ import { InputRejected } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
 import { trapezoid, trapezoidWeights } from './integrate.js';
 import { noiseFromSecondDifferences } from './noise.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface PeakEstimate {
   /** Peak wavelength in nm (vertex of the parabola through the maximum and its neighbours). */
@@ -59,17 +60,17 @@ export function leastSquaresParabolaVertex(
   const t = [0, 0, 0];
   xs.forEach((x, i) => {
     const d = x - xc;
-    const y = ys[i] as number;
-    for (let p = 0; p <= 4; p++) s[p] = (s[p] as number) + d ** p;
-    for (let p = 0; p <= 2; p++) t[p] = (t[p] as number) + y * d ** p;
+    const y = itemAt(ys, i);
+    for (let p = 0; p <= 4; p++) s[p] = itemAt(s, p) + d ** p;
+    for (let p = 0; p <= 2; p++) t[p] = itemAt(t, p) + y * d ** p;
   });
   const [s0, s1, s2, s3, s4] = s as [number, number, number, number, number];
   const [t0, t1, t2] = t as [number, number, number];
   // Cramer's rule on [[s0 s1 s2][s1 s2 s3][s2 s3 s4]]·[a b c] = [t0 t1 t2].
   const det3 = (m: number[]): number =>
-    (m[0] as number) * ((m[4] as number) * (m[8] as number) - (m[5] as number) * (m[7] as number)) -
-    (m[1] as number) * ((m[3] as number) * (m[8] as number) - (m[5] as number) * (m[6] as number)) +
-    (m[2] as number) * ((m[3] as number) * (m[7] as number) - (m[4] as number) * (m[6] as number));
+    itemAt(m, 0) * (itemAt(m, 4) * itemAt(m, 8) - itemAt(m, 5) * itemAt(m, 7)) -
+    itemAt(m, 1) * (itemAt(m, 3) * itemAt(m, 8) - itemAt(m, 5) * itemAt(m, 6)) +
+    itemAt(m, 2) * (itemAt(m, 3) * itemAt(m, 7) - itemAt(m, 4) * itemAt(m, 6));
   const det = det3([s0, s1, s2, s1, s2, s3, s2, s3, s4]);
   if (!(Math.abs(det) > 0)) return undefined;
   const a = det3([t0, s1, s2, t1, s2, s3, t2, s3, s4]) / det;
@@ -88,31 +89,24 @@ export function findPeak(
   halfWindowPoints = 1,
 ): PeakEstimate {
   let best = fromIndex;
-  for (let i = fromIndex + 1; i <= toIndex; i++) if ((values[i] as number) > (values[best] as number)) best = i;
+  for (let i = fromIndex + 1; i <= toIndex; i++) if (itemAt(values, i) > itemAt(values, best)) best = i;
   if (best === 0 || best === values.length - 1) {
-    return { wavelengthNm: axis[best] as number, value: values[best] as number, atEdge: true };
+    return { wavelengthNm: itemAt(axis, best), value: itemAt(values, best), atEdge: true };
   }
   const low = Math.max(0, best - halfWindowPoints);
   const high = Math.min(values.length - 1, best + halfWindowPoints);
   const xs: number[] = [];
   const ys: number[] = [];
   for (let i = low; i <= high; i++) {
-    xs.push(axis[i] as number);
-    ys.push(values[i] as number);
+    xs.push(itemAt(axis, i));
+    ys.push(itemAt(values, i));
   }
   const vertex =
     xs.length === 3
-      ? parabolaVertex(
-          xs[0] as number,
-          ys[0] as number,
-          xs[1] as number,
-          ys[1] as number,
-          xs[2] as number,
-          ys[2] as number,
-        )
-      : leastSquaresParabolaVertex(xs, ys, axis[best] as number);
-  if (vertex === undefined || vertex.x < (axis[best - 1] as number) || vertex.x > (axis[best + 1] as number)) {
-    return { wavelengthNm: axis[best] as number, value: values[best] as number, atEdge: false };
+      ? parabolaVertex(itemAt(xs, 0), itemAt(ys, 0), itemAt(xs, 1), itemAt(ys, 1), itemAt(xs, 2), itemAt(ys, 2))
+      : leastSquaresParabolaVertex(xs, ys, itemAt(axis, best));
+  if (vertex === undefined || vertex.x < itemAt(axis, best - 1) || vertex.x > itemAt(axis, best + 1)) {
+    return { wavelengthNm: itemAt(axis, best), value: itemAt(values, best), atEdge: false };
   }
   return { wavelengthNm: vertex.x, value: vertex.y, atEdge: false };
 }
@@ -125,24 +119,24 @@ export function fullWidthHalfMaximum(
 ): number | undefined {
   const half = peakValue / 2;
   let top = 0;
-  for (let i = 1; i < values.length; i++) if ((values[i] as number) > (values[top] as number)) top = i;
+  for (let i = 1; i < values.length; i++) if (itemAt(values, i) > itemAt(values, top)) top = i;
   const crossing = (i: number, j: number): number => {
-    const xi = axis[i] as number;
-    const yi = values[i] as number;
-    const xj = axis[j] as number;
-    const yj = values[j] as number;
+    const xi = itemAt(axis, i);
+    const yi = itemAt(values, i);
+    const xj = itemAt(axis, j);
+    const yj = itemAt(values, j);
     return xi + ((half - yi) * (xj - xi)) / (yj - yi);
   };
   let left: number | undefined;
   for (let i = top; i > 0; i--) {
-    if ((values[i - 1] as number) <= half) {
+    if (itemAt(values, i - 1) <= half) {
       left = crossing(i - 1, i);
       break;
     }
   }
   let right: number | undefined;
   for (let i = top; i < values.length - 1; i++) {
-    if ((values[i + 1] as number) <= half) {
+    if (itemAt(values, i + 1) <= half) {
       right = crossing(i, i + 1);
       break;
     }
@@ -161,8 +155,8 @@ export function integralWithUncertainty(
   windowNm?: readonly [number, number],
 ): { integral: number; standardUncertainty: number | undefined; noiseSigma: number | undefined } {
   const axis = spectrum.wavelengthNm;
-  const from = windowNm?.[0] ?? (axis[0] as number);
-  const to = windowNm?.[1] ?? (axis[axis.length - 1] as number);
+  const from = windowNm?.[0] ?? itemAt(axis, 0);
+  const to = windowNm?.[1] ?? itemAt(axis, axis.length - 1);
   const integral = trapezoid(axis, spectrum.values, from, to);
   const weights = trapezoidWeights(axis, from, to);
   const noiseSigma = noiseFromSecondDifferences(axis, spectrum.values);
@@ -189,7 +183,7 @@ export function spectrumMetrics(spectrum: Spectrum): SpectrumMetrics {
   if (fwhmNm === undefined) warnings.push('the band does not fall to half maximum on both sides; FWHM not reported');
   const integratedIntensity = trapezoid(axis, values);
   const weighted = new Float64Array(axis.length);
-  for (let i = 0; i < axis.length; i++) weighted[i] = (axis[i] as number) * (values[i] as number);
+  for (let i = 0; i < axis.length; i++) weighted[i] = itemAt(axis, i) * itemAt(values, i);
   if (!(integratedIntensity > 0)) {
     throw new InputRejected(
       'INPUT_INVALID',

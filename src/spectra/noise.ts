@@ -1,5 +1,6 @@
 // Noise estimate of a spectrum from local second differences, robust to a few spikes (median absolute deviation).
 import { medianOf } from '../model/median.js';
+import { itemAt } from '../model/item-at.js';
 
 /**
  * Standard deviation of white noise on the values (value units), from second differences on a non-uniform axis:
@@ -16,12 +17,12 @@ export function noiseFromSecondDifferences(
 ): number | undefined {
   const scaled: number[] = [];
   for (let i = Math.max(1, fromIndex + 1); i <= Math.min(values.length - 2, toIndex - 1); i++) {
-    const x0 = axis[i - 1] as number;
-    const x1 = axis[i] as number;
-    const x2 = axis[i + 1] as number;
+    const x0 = itemAt(axis, i - 1);
+    const x1 = itemAt(axis, i);
+    const x2 = itemAt(axis, i + 1);
     const w = (x2 - x1) / (x2 - x0);
-    const predicted = w * (values[i - 1] as number) + (1 - w) * (values[i + 1] as number);
-    scaled.push(((values[i] as number) - predicted) / Math.sqrt(1 + w * w + (1 - w) * (1 - w)));
+    const predicted = w * itemAt(values, i - 1) + (1 - w) * itemAt(values, i + 1);
+    scaled.push((itemAt(values, i) - predicted) / Math.sqrt(1 + w * w + (1 - w) * (1 - w)));
   }
   if (scaled.length < 3) return undefined;
   const center = medianOf(scaled);

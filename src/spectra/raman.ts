@@ -3,6 +3,7 @@
 import { z } from 'zod';
 import { AnalysisFailed, InputRejected } from '../model/errors.js';
 import type { Spectrum } from '../model/spectrum.js';
+import { itemAt } from '../model/item-at.js';
 import { bracketIndex } from './interpolate.js';
 import { findPeak } from './metrics.js';
 import { noiseFromSecondDifferences } from './noise.js';
@@ -65,10 +66,10 @@ export function ramanPeakNm(excitationNm: number, ramanShiftPerCm: number = WATE
 }
 
 function indexRange(axis: Float64Array, fromNm: number, toNm: number): [number, number] | undefined {
-  const first = axis[0] as number;
-  const last = axis[axis.length - 1] as number;
+  const first = itemAt(axis, 0);
+  const last = itemAt(axis, axis.length - 1);
   if (fromNm < first || toNm > last) return undefined;
-  const from = bracketIndex(axis, fromNm) + ((axis[bracketIndex(axis, fromNm)] as number) < fromNm ? 1 : 0);
+  const from = bracketIndex(axis, fromNm) + (itemAt(axis, bracketIndex(axis, fromNm)) < fromNm ? 1 : 0);
   const to = bracketIndex(axis, toNm);
   return to >= from ? [from, to] : undefined;
 }
@@ -97,8 +98,7 @@ export function ramanTest(spectrum: Spectrum, options?: RamanOptions): RamanTest
       `the scan does not cover ${expectedPeakNm.toFixed(1)} ± ${resolved.searchHalfWidthNm} nm`,
     );
   }
-  const stepNm =
-    ((axis[peakRange[1]] as number) - (axis[peakRange[0]] as number)) / Math.max(1, peakRange[1] - peakRange[0]);
+  const stepNm = (itemAt(axis, peakRange[1]) - itemAt(axis, peakRange[0])) / Math.max(1, peakRange[1] - peakRange[0]);
   const halfWindowPoints = Math.max(1, Math.round(resolved.peakFitHalfWidthNm / stepNm));
   const peak = findPeak(axis, spectrum.values, peakRange[0], peakRange[1], halfWindowPoints);
   if (peak.atEdge || peak.wavelengthNm === axis[peakRange[0]] || peak.wavelengthNm === axis[peakRange[1]]) {
@@ -117,7 +117,7 @@ export function ramanTest(spectrum: Spectrum, options?: RamanOptions): RamanTest
     );
   }
   let sum = 0;
-  for (let i = backgroundRange[0]; i <= backgroundRange[1]; i++) sum += spectrum.values[i] as number;
+  for (let i = backgroundRange[0]; i <= backgroundRange[1]; i++) sum += itemAt(spectrum.values, i);
   const backgroundSignal = sum / (backgroundRange[1] - backgroundRange[0] + 1);
   const net = peak.value - backgroundSignal;
   if (!(net > 0)) {

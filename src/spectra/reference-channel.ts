@@ -4,6 +4,7 @@ import { InputRejected } from '../model/errors.js';
 import { withValues, type Spectrum } from '../model/spectrum.js';
 import { makeCorrectionRecord, type CorrectionResult } from './correction-record.js';
 import { resolveWithSchema } from './options.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Column names taken for a reference-detector channel when none is named (case-insensitive). */
 const REFERENCE_COLUMN_PATTERN =
@@ -44,14 +45,14 @@ export function normalizeByReferenceChannel(spectrum: Spectrum, options?: Refere
   }
   const out = new Float64Array(spectrum.values.length);
   for (let i = 0; i < out.length; i++) {
-    const referenceValue = reference[i] as number;
+    const referenceValue = itemAt(reference, i);
     if (!(referenceValue > 0)) {
       throw new InputRejected(
         'INPUT_INVALID',
         `the reference channel "${column}" is ${referenceValue} at ${spectrum.wavelengthNm[i]} nm; it must be positive to divide by`,
       );
     }
-    out[i] = (spectrum.values[i] as number) / referenceValue;
+    out[i] = itemAt(spectrum.values, i) / referenceValue;
   }
   return {
     spectrum: withValues(spectrum, out, `${spectrum.valueUnit}/ref`),
