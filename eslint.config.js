@@ -1,5 +1,7 @@
 // Lint rules: typescript-eslint strict, a circular-import check, and the pure-core boundary
 // (src/{model,formats,spectra,decay,photophysics,analysis,qc} may not touch I/O, clock or edges).
+// TypeScript files are linted with type information (the project service reads tsconfig.json) so that
+// a type assertion that asserts nothing is an error; JavaScript files are linted without it.
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import { importX } from 'eslint-plugin-import-x';
@@ -13,7 +15,10 @@ export default tseslint.config(
   js.configs.recommended,
   ...tseslint.configs.strict,
   {
-    languageOptions: { globals: { process: 'readonly', console: 'readonly', URL: 'readonly' } },
+    languageOptions: {
+      globals: { process: 'readonly', console: 'readonly', URL: 'readonly' },
+      parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname },
+    },
     plugins: { 'import-x': importX },
     settings: {
       'import-x/resolver-next': [createTypeScriptImportResolver({ project: './tsconfig.json' })],
@@ -23,6 +28,7 @@ export default tseslint.config(
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
       '@typescript-eslint/no-explicit-any': 'error',
       '@typescript-eslint/no-non-null-assertion': 'error',
+      '@typescript-eslint/no-unnecessary-type-assertion': 'error',
       'no-eval': 'error',
       'no-new-func': 'error',
     },
@@ -86,7 +92,7 @@ export default tseslint.config(
     },
   },
   {
-    files: ['**/*.js'],
+    files: ['**/*.js', '**/*.mjs'],
     ...tseslint.configs.disableTypeChecked,
   },
 );

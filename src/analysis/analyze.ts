@@ -26,6 +26,7 @@ import {
 } from './result.js';
 import { attempt, createStepContext, markMissing, type StepContext } from './step-context.js';
 import { computeQuantumYield, computeRates } from './yield-step.js';
+import { itemAt } from '../model/item-at.js';
 
 const SAMPLE_ROLES = new Set(['sample', 'control']);
 
@@ -47,7 +48,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     .filter((input) => input !== undefined);
   for (const input of fanned) {
     const others = further.flatMap((f, i) =>
-      f.input.file === input.file ? [`${f.input.origin?.id ?? f.part} → ${furtherIds[i] as string}`] : [],
+      f.input.file === input.file ? [`${f.input.origin?.id ?? f.part} → ${itemAt(furtherIds, i)}`] : [],
     );
     base.warnings.push(
       `${input.file.name} holds ${others.length + 1} measurements, each with a result of its own: ${input.origin?.id ?? input.file.name} → ${payload.setId}, ${others.join(', ')}`,
@@ -59,7 +60,7 @@ export function analyze(payload: AnalysisJobPayload): AnalysisOutput {
     own.set(part, input);
     // Whether QC judges this measurement is decided by the QC stage (qc.judgement), which knows the controls.
     const context = copyContext(base);
-    return analyzeMeasurements({ ...payload, setId: furtherIds[i] as string }, own, context, payload.setId);
+    return analyzeMeasurements({ ...payload, setId: itemAt(furtherIds, i) }, own, context, payload.setId);
   });
   return { ...primary, rejectedInputs, ...(measurements.length === 0 ? {} : { measurements }) };
 }

@@ -12,6 +12,7 @@ import {
 import type { AnalysisSettings } from './payload.js';
 import type { AbsorbanceSummary, AppliedCorrection, EmissionMetrics } from './result.js';
 import { markMissing, reasonOf, type StepContext } from './step-context.js';
+import { itemAt } from '../model/item-at.js';
 
 export interface CorrectedEmission {
   /** After every correction that could be applied. */
@@ -119,7 +120,7 @@ export function emissionMetrics(spectrum: Spectrum): EmissionMetrics {
     integratedIntensity: metrics.integratedIntensity,
     ...(metrics.fwhmNm === undefined ? {} : { fwhmNm: metrics.fwhmNm }),
     valueUnit: spectrum.valueUnit,
-    rangeNm: [axis[0] as number, axis[axis.length - 1] as number],
+    rangeNm: [itemAt(axis, 0), itemAt(axis, axis.length - 1)],
   };
 }
 
@@ -140,11 +141,11 @@ export function absorbanceSummary(
   const atExcitation = interpolateAt(absorbance.wavelengthNm, values, excitationNm);
   if (atExcitation === undefined) return undefined;
   let peakIndex = 0;
-  for (let i = 1; i < values.length; i++) if ((values[i] as number) > (values[peakIndex] as number)) peakIndex = i;
+  for (let i = 1; i < values.length; i++) if (itemAt(values, i) > itemAt(values, peakIndex)) peakIndex = i;
   return {
     absorbanceAtExcitation: atExcitation / pathCm,
     excitationNm,
-    peakWavelengthNm: absorbance.wavelengthNm[peakIndex] as number,
-    peakAbsorbance: (values[peakIndex] as number) / pathCm,
+    peakWavelengthNm: itemAt(absorbance.wavelengthNm, peakIndex),
+    peakAbsorbance: itemAt(values, peakIndex) / pathCm,
   };
 }

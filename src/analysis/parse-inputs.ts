@@ -6,6 +6,7 @@ import { readMeasurements, type ParsedData } from '../formats/index.js';
 import type { AnalysisJobPayload, PayloadFile, RejectedInput } from './payload.js';
 import type { SetPart } from './result.js';
 import { markMissing, reasonOf, type StepContext } from './step-context.js';
+import { itemAt } from '../model/item-at.js';
 
 /** Where a measurement came from when its file holds several: its id (file#column), column and position. */
 export interface MeasurementOrigin {
@@ -101,13 +102,13 @@ export function parseInputs(
         ? { file, type: 'spectrum', spectrum: data.spectrum, ...origin }
         : { file, type: 'decay', decay: data.decay, ...origin };
     });
-    parsed.set(file.part, inputs[0] as ParsedInput);
+    parsed.set(file.part, itemAt(inputs, 0));
     if (all.length > 1 && FAN_OUT_PARTS.includes(file.part)) {
       for (const input of inputs.slice(1)) further.push({ part: file.part, input });
     } else if (all.length > 1) {
       // A supporting part (absorbance, blank, IRF, reference, detector curve) has one role in the set:
       // the first measurement serves it; the others are named here so none is passed over unseen.
-      const first = all[0] as ParsedData;
+      const first = itemAt(all, 0);
       context.warnings.push(
         `${file.name} holds ${all.length} measurements (${all.map((measurement) => measurement.layout.valueColumn).join(', ')}); as the set's ${file.part} it serves with "${first.layout.valueColumn}" (${first.id}); not used: ${all
           .slice(1)

@@ -16,6 +16,7 @@ import { InputRejected } from '../model/errors.js';
 import type { CommandModule } from './command-module.js';
 import { EXIT_CODES, exitCodesHelp } from './exit-codes.js';
 import { reportError } from './report-error.js';
+import { itemAt } from '../model/item-at.js';
 
 interface FitDecayFlags {
   readonly irf?: string;
@@ -103,7 +104,7 @@ export function residualPlot(residuals: readonly number[], width = 72, height = 
   const limit = 4;
   const grid: string[][] = Array.from({ length: height }, () => new Array<string>(width).fill(' '));
   const zeroRow = Math.floor(height / 2);
-  for (let column = 0; column < width; column++) (grid[zeroRow] as string[])[column] = '-';
+  for (let column = 0; column < width; column++) itemAt(grid, zeroRow)[column] = '-';
   const bins = Math.min(width, residuals.length);
   for (let column = 0; column < bins; column++) {
     const from = Math.floor((column * residuals.length) / bins);
@@ -113,7 +114,7 @@ export function residualPlot(residuals: readonly number[], width = 72, height = 
     const mean = (sum / (to - from)) * Math.sqrt(to - from);
     const clamped = Math.max(-limit, Math.min(limit, mean));
     const row = Math.round(((limit - clamped) / (2 * limit)) * (height - 1));
-    (grid[row] as string[])[column] = Math.abs(mean) > limit ? '!' : '*';
+    itemAt(grid, row)[column] = Math.abs(mean) > limit ? '!' : '*';
   }
   const labels = Array.from({ length: height }, (_unused, row) =>
     (limit - (2 * limit * row) / (height - 1)).toFixed(0).padStart(3),

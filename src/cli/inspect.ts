@@ -18,6 +18,7 @@ import {
 } from '../formats/index.js';
 import { loadConfig } from '../config/index.js';
 import { withConfigOption } from './config-option.js';
+import { itemAt } from '../model/item-at.js';
 
 interface InspectFlags {
   readonly json?: boolean;
@@ -46,7 +47,7 @@ function range(values: ArrayLike<number>): { min: number; max: number } {
   let min = Infinity;
   let max = -Infinity;
   for (let i = 0; i < values.length; i++) {
-    const value = values[i] as number;
+    const value = itemAt(values, i);
     if (value < min) min = value;
     if (value > max) max = value;
   }

@@ -113,7 +113,10 @@ function runYield(options: YieldCliOptions): void {
   if (standard !== undefined) warnings.push(...standardWarnings(standard, referenceExcitationNm ?? excitationNm));
   const sampleIndex = refractiveIndex(options.sampleIndex, sample, undefined, 'sample');
   const referenceIndex = refractiveIndex(options.referenceIndex, reference, standard?.refractiveIndex, 'reference');
-  const referenceYield = standard?.quantumYield ?? (options.referenceYield as number);
+  const referenceYield = standard?.quantumYield ?? options.referenceYield;
+  if (referenceYield === undefined) {
+    throw new ConfigInvalid('give exactly one of --standard ID or --reference-yield PHI', { configPath: '--standard' });
+  }
   const referenceYieldUncertainty: LabelledUncertainty | undefined =
     options.referenceYieldUncertainty !== undefined
       ? { value: options.referenceYieldUncertainty, basis: 'stated by the user (--reference-yield-uncertainty)' }

@@ -75,7 +75,7 @@ export function createLogger(
   }
   if (mode === 'pretty') {
     const pretty = pino.transport({ target: 'pino-pretty', options: { colorize: true, destination: 1 } });
-    streams.push({ level, stream: pretty as unknown as NodeJS.WritableStream });
+    streams.push({ level, stream: pretty });
     pending.push(() => new Promise((resolve) => pretty.flush(() => resolve())));
   }
   const logger = pino(

@@ -6,6 +6,7 @@ import { isControlMatch, selectsMeasurement, type ControlDefinition } from './co
 import type { ControlObservation, MetricName } from './metrics.js';
 import { INSTRUMENT_SCOPE } from './rule-base.js';
 import { parseIsoToEpochMs } from './time.js';
+import { itemAt } from '../model/item-at.js';
 
 /** O–H stretch Raman shift of water in cm⁻¹ (Bartlett et al., Appl. Opt. 37, 3324, 1998). */
 export const WATER_RAMAN_SHIFT_PER_CM = 3400;
@@ -71,7 +72,7 @@ export function judgeResult(result: AnalysisResult, controls?: readonly ControlD
   if (candidates.length > 0) {
     const chosen = candidates.find((control) => selectsMeasurement(control, result.measurement));
     if (chosen === undefined) {
-      const first = candidates[0] as ControlDefinition;
+      const first = itemAt(candidates, 0);
       return {
         judgement: {
           control: first.id,

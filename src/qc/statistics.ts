@@ -1,4 +1,5 @@
 // Small descriptive statistics used by baselines and rule kinds (mean, sample SD, median, quantile).
+import { itemAt } from '../model/item-at.js';
 export { medianOf } from '../model/median.js';
 
 /** Arithmetic mean; NaN-free input assumed, throws RangeError on an empty list. O(n). */
@@ -25,6 +26,6 @@ export function quantileOf(values: readonly number[], q: number): number {
   const position = (sorted.length - 1) * q;
   const below = Math.floor(position);
   const above = Math.min(below + 1, sorted.length - 1);
-  const lower = sorted[below] as number;
-  return lower + ((sorted[above] as number) - lower) * (position - below);
+  const lower = itemAt(sorted, below);
+  return lower + (itemAt(sorted, above) - lower) * (position - below);
 }

@@ -2,6 +2,7 @@
 // parts in an IANA zone (through Intl, which is pure) or a fixed ±HH:MM offset.
 
 import { acquisitionEpochMs, civilFromDays, daysFromCivil } from '../model/acquisition-time.js';
+import { itemAt } from '../model/item-at.js';
 
 export { civilFromDays, daysFromCivil };
 
@@ -81,7 +82,7 @@ function utcParts(wallClockMs: number): LocalParts {
   const days = Math.floor(wallClockMs / 86_400_000);
   const minuteOfDay = Math.floor((wallClockMs - days * 86_400_000) / 60_000);
   // 1970-01-01 was a Thursday (index 3 in WEEKDAYS).
-  const weekday = WEEKDAYS[(((days + 3) % 7) + 7) % 7] as Weekday;
+  const weekday = itemAt(WEEKDAYS, (((days + 3) % 7) + 7) % 7);
   return { date: civilFromDays(days), minuteOfDay, weekday };
 }
 

@@ -61,7 +61,7 @@ describe('driftlight export', () => {
   it('CSV read back by a CSV parser: one row per result file, numbers as in the result, k_r = Φ/τ, k_nr = (1 − Φ)/τ, τ0 = τ/Φ', () => {
     const run = runDriftlight(['export', '--since', '2026-01-01', '--format', 'csv', '-c', config]);
     expect(run.status, run.stderr).toBe(0);
-    const rows = parse(run.stdout, { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+    const rows = parse<Record<string, string>>(run.stdout, { columns: true, skip_empty_lines: true });
     const files = resultFiles();
     expect(rows).toHaveLength(files.length);
     let withRates = 0;

@@ -210,7 +210,7 @@ describe('driftlight demo: a month with faults, caught', () => {
     const last = truth.controls[truth.controls.length - 1];
     expect(Math.abs((irfWidth?.points[0]?.value ?? 0) / (first?.irfFwhmNs ?? 1) - 1)).toBeLessThan(0.1);
     expect(Math.abs((irfWidth?.latest ?? 0) / (last?.irfFwhmNs ?? 1) - 1)).toBeLessThan(0.1);
-    const rows = parse(readFileSync(summaryCsv, 'utf8'), { columns: true }) as Record<string, string>[];
+    const rows = parse<Record<string, string>>(readFileSync(summaryCsv, 'utf8'), { columns: true });
     expect(rows).toHaveLength(results.length);
     expect(readFileSync(chartHtml, 'utf8')).toContain('data-chart="chart-ql-daily-controlQuantumYield"');
   });

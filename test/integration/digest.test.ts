@@ -82,7 +82,7 @@ describe('daily digest', () => {
     const markdown = readFileSync(digestPath('md'), 'utf8');
     expect(markdown).toContain(`# driftlight digest ${TODAY}`);
     expect(markdown).toContain('- sets processed: 5');
-    const rows = parse(readFileSync(digestPath('csv'), 'utf8'), { columns: true }) as Record<string, string>[];
+    const rows = parse<Record<string, string>>(readFileSync(digestPath('csv'), 'utf8'), { columns: true });
     expect(rows.map((r) => r['set_id']).sort()).toEqual(data.samples.map((s) => s.setId).sort());
   });
 

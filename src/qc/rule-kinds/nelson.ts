@@ -5,6 +5,7 @@ import { baseRuleShape } from '../rule-base.js';
 import { defineRuleKind, type RuleFinding } from '../rule-kind.js';
 import { describeDeviation, standardize } from '../messages.js';
 import { metricLabel } from '../metrics.js';
+import { itemAt } from '../../model/item-at.js';
 
 export const NELSON_TESTS = [1, 2, 3, 4, 5, 6, 7, 8] as const;
 export type NelsonTest = (typeof NELSON_TESTS)[number];
@@ -63,14 +64,14 @@ export function nelsonViolations(standardized: readonly number[], tests: readonl
     3: () => {
       const points = tail(z, 6);
       if (points === undefined) return false;
-      const steps = points.slice(1).map((v, i) => v - (points[i] as number));
+      const steps = points.slice(1).map((v, i) => v - itemAt(points, i));
       return steps.every((d) => d > 0) || steps.every((d) => d < 0);
     },
     4: () => {
       const points = tail(z, 14);
       if (points === undefined) return false;
-      const steps = points.slice(1).map((v, i) => Math.sign(v - (points[i] as number)));
-      return steps.every((sign, i) => sign !== 0 && (i === 0 || sign === -(steps[i - 1] as number)));
+      const steps = points.slice(1).map((v, i) => Math.sign(v - itemAt(points, i)));
+      return steps.every((sign, i) => sign !== 0 && (i === 0 || sign === -itemAt(steps, i - 1)));
     },
     5: () => someOfLastBeyond(z, 3, 2, 2),
     6: () => someOfLastBeyond(z, 5, 4, 1),

@@ -30,7 +30,7 @@ export type Rule = { [Name in RuleKindName]: z.output<(typeof RULE_KINDS)[Name][
 
 /** The kind definition of a rule, typed for that rule (rules are validated by the same table's schema). */
 export function ruleKindOf(rule: Rule): RuleKindDefinition<z.ZodType<BaseRule>> {
-  return RULE_KINDS[rule.kind] as RuleKindDefinition<z.ZodType<BaseRule>>;
+  return RULE_KINDS[rule.kind];
 }
 
 /** True when the rule judges against a control's baseline (mean and SD, or the mean alone: see baselineMeanSuffices). */

@@ -6,6 +6,7 @@ import { baseRuleShape, SEVERITIES } from '../rule-base.js';
 import { defineRuleKind, type RuleFinding } from '../rule-kind.js';
 import { describeDeviation, standardize } from '../messages.js';
 import { metricLabel } from '../metrics.js';
+import { itemAt } from '../../model/item-at.js';
 
 export const WESTGARD_CHECKS = ['1-2s', '1-3s', '2-2s', 'R-4s', '4-1s', '10-x'] as const;
 export type WestgardCheck = (typeof WESTGARD_CHECKS)[number];
@@ -45,7 +46,7 @@ export function westgardViolations(
 ): WestgardCheck[] {
   const count = standardized.length;
   if (count === 0) return [];
-  const latest = standardized[count - 1] as number;
+  const latest = itemAt(standardized, count - 1);
   const enabled = new Set(options.checks);
   const warning = Math.abs(latest) > 2;
   if (options.warningGate && !warning) return [];
@@ -60,7 +61,7 @@ export function westgardViolations(
   // R-4s: one result beyond +2 SD and another beyond −2 SD (within the run, or in consecutive runs).
   if (enabled.has('R-4s')) {
     const partners =
-      options.rangeScope === 'within-run' ? sameRun : count >= 2 ? [standardized[count - 2] as number] : [];
+      options.rangeScope === 'within-run' ? sameRun : count >= 2 ? [itemAt(standardized, count - 2)] : [];
     if ((latest > 2 && partners.some((z) => z < -2)) || (latest < -2 && partners.some((z) => z > 2)))
       rejections.push('R-4s');
   }
