@@ -1,6 +1,7 @@
 // Matrix exponential by scaling and squaring with the [13/13] Padé approximant
 // (Higham, SIAM J. Matrix Anal. Appl. 26, 1179 (2005), Algorithm 2.3 with m = 13 throughout).
 import { AnalysisFailed } from '../model/errors.js';
+import { itemAt } from '../model/item-at.js';
 import { identity, linearCombination, multiply, oneNorm, solve, type SquareMatrix } from './matrix.js';
 
 /** Padé [13/13] coefficients b_0..b_13 (Higham 2005, Table/eq. for m = 13). */
@@ -11,7 +12,7 @@ const PADE13 = [
 /** θ_13: largest ‖A‖₁ for which Padé [13/13] meets double precision without scaling (Higham 2005, Table 2.3). */
 const THETA13 = 5.371920351148152;
 
-const b = (i: number): number => PADE13[i] as number;
+const b = (i: number): number => itemAt(PADE13, i);
 
 /** e^A for a square matrix A by scaling and squaring with Padé [13/13] (Higham 2005); O(n³·(6 + s)). */
 export function expm(a: SquareMatrix): SquareMatrix {

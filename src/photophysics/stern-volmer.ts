@@ -122,11 +122,12 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
   let tau0UncertaintyNs = input.tau0UncertaintyNs ?? 0;
   if (input.lifetimesNs !== undefined) {
     const lifetimes = input.lifetimesNs;
-    tau0Ns = valueAtZero(q, lifetimes, 'the lifetime series');
+    const fittedTau0Ns = valueAtZero(q, lifetimes, 'the lifetime series');
+    tau0Ns = fittedTau0Ns;
     tau0UncertaintyNs = input.tau0UncertaintyNs ?? 0;
     const lifetimeFit = fitThroughOrigin(
       q,
-      lifetimes.map((t) => (tau0Ns as number) / t - 1),
+      lifetimes.map((t) => fittedTau0Ns / t - 1),
       undefined,
       'Stern–Volmer lifetime series',
     );
@@ -191,9 +192,9 @@ export function sternVolmer(input: QuenchSeriesInput): SternVolmerResult {
     input.viscosityPaS ?? (input.solvent === undefined ? undefined : viscosityOf(input.solvent).viscosityPaS);
   if (viscosityPaS !== undefined) limit = diffusionLimitPerMPerS(options.temperatureK, viscosityPaS);
   const exceeds = limit === undefined || kqPerMPerS === undefined ? undefined : kqPerMPerS > limit;
-  if (exceeds === true) {
+  if (limit !== undefined && kqPerMPerS !== undefined && kqPerMPerS > limit) {
     warnings.push(
-      `k_q = ${(kqPerMPerS as number).toExponential(2)} M⁻¹s⁻¹ exceeds the diffusion limit ${(limit as number).toExponential(2)}: static quenching or binding contributes`,
+      `k_q = ${kqPerMPerS.toExponential(2)} M⁻¹s⁻¹ exceeds the diffusion limit ${limit.toExponential(2)}: static quenching or binding contributes`,
     );
   }
   return Object.freeze({

@@ -1,5 +1,5 @@
 // Linear interpolation on a strictly ascending axis, with explicit coverage checks (never extrapolates).
-import { InputRejected } from '../model/errors.js';
+import { DriftlightError, InputRejected } from '../model/errors.js';
 import { itemAt } from '../model/item-at.js';
 
 /** Index i with axis[i] ≤ x ≤ axis[i+1] by bisection (O(log n)); axis strictly ascending, x inside its range. */
@@ -50,7 +50,11 @@ export function resampleOnto(
   }
   const out = new Float64Array(targetAxis.length);
   for (let i = 0; i < targetAxis.length; i++) {
-    out[i] = interpolateAt(sourceAxis, sourceValues, itemAt(targetAxis, i)) as number;
+    const value = interpolateAt(sourceAxis, sourceValues, itemAt(targetAxis, i));
+    // The coverage check above keeps every target inside the source axis.
+    if (value === undefined)
+      throw new DriftlightError('INTERNAL', `${what}: target ${itemAt(targetAxis, i)} nm fell outside`);
+    out[i] = value;
   }
   return out;
 }
